@@ -1,0 +1,78 @@
+"""The feed walk: source → transformers → runs → panels; emits findings and results.
+
+Each domain's checks live in their own module; this module orders them and
+assembles :class:`~feedcheck.results.Results`.
+"""
+
+from __future__ import annotations
+
+from .. import __version__
+from ..job import Job
+from ..results import NodeResult, Results
+from ..tables import used_tables
+from .context import Context, Load, build_context
+from .panels import check_panel
+from .transformer import check_transformer
+
+
+def check_job(job: Job, panel_loads: dict[str, Load] | None = None) -> Results:
+    """Run every check on a validated job and return the results."""
+    ctx = build_context(job, panel_loads)
+    tree = ctx.tree
+    for n in tree.order:
+        run = tree.parent_run.get(n)
+        v = tree.voltage_of[n]
+        ctx.nodes[n] = NodeResult(
+            n,
+            tree.kind[n],
+            v.text,
+            v.line_v,
+            tree.distance_m[n],
+            tree.parent_node[n],
+            run.id if run else None,
+        )
+    for t in job.transformers:
+        check_transformer(ctx, t)
+    for p in job.panels:
+        check_panel(ctx, p)
+    return _results(ctx)
+
+
+def _results(ctx: Context) -> Results:
+    job = ctx.job
+    summary = {
+        "name": job.project.name,
+        "site": job.project.site,
+        "prepared_by": job.project.prepared_by,
+        "date": job.project.date,
+        "revision": job.project.revision,
+        "rules": job.project.rules,
+        "file": job.path.name,
+        "feedcheck_version": __version__,
+        "impedance_tolerance_pct": job.options.impedance_tolerance_pct,
+        "voltage_factor": job.options.voltage_factor,
+    }
+    tables = [
+        {
+            "name": t.name,
+            "title": t.title,
+            "source": t.source,
+            "edition": t.meta.get("edition", ""),
+            "confidence": t.confidence,
+            "origin": t.origin,
+            "sha256": t.sha256,
+        }
+        for t in used_tables()
+    ]
+    return Results(
+        summary,
+        [ctx.nodes[n] for n in ctx.tree.order],
+        ctx.findings,
+        ctx.sheets,
+        tables,
+        ctx.assumptions,
+        ctx.methods,
+    )
+
+
+__all__ = ["Load", "check_job"]

@@ -1,0 +1,106 @@
+"""Shared state of one check run: the job, its tree, loads, and what checks emit."""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+from ..findings import Finding, Status
+from ..job import Job
+from ..results import NodeResult, Sheet
+from ..tables import load_table
+from ..topology import Tree, build_tree
+
+
+@dataclass
+class Load:
+    """Demand load at a node, own plus everything downstream of it."""
+
+    va: float = 0.0
+    continuous_va: float = 0.0
+    w: float = 0.0  # real power, to derive the combined power factor
+
+    @property
+    def pf(self) -> float:
+        return self.w / self.va if self.va > 0 else 1.0
+
+
+@dataclass
+class Context:
+    job: Job
+    tree: Tree
+    loads: dict[str, Load]
+    findings: list[Finding] = field(default_factory=list)
+    sheets: dict[str, Sheet] = field(default_factory=dict)
+    nodes: dict[str, NodeResult] = field(default_factory=dict)
+    run_values: dict[str, dict[str, float]] = field(default_factory=dict)
+    assumptions: list[str] = field(default_factory=list)
+    methods: list[tuple[str, str]] = field(default_factory=list)
+
+    def add(
+        self,
+        subject: str,
+        check: str,
+        value,
+        limit,
+        unit: str,
+        status: Status,
+        rule_id: str,
+        note: str = "",
+    ) -> Finding:
+        f = Finding(subject, check, _f(value), _f(limit), unit, status, rule_id, note)
+        self.findings.append(f)
+        return f
+
+    def sheet(self, element_id: str, kind: str, title: str) -> Sheet:
+        if element_id not in self.sheets:
+            self.sheets[element_id] = Sheet(element_id, kind, title)
+        return self.sheets[element_id]
+
+    def rule(self, rule_id: str) -> dict:
+        t = load_table("check_rules")
+        row = t.data[t.data["rule_id"] == rule_id]
+        if row.empty:
+            raise KeyError(f"rule {rule_id!r} missing from tables/check_rules.csv")
+        return row.iloc[0].to_dict()
+
+    def method(self, name: str, source: str) -> None:
+        if (name, source) not in self.methods:
+            self.methods.append((name, source))
+
+    def assume(self, text: str) -> None:
+        if text not in self.assumptions:
+            self.assumptions.append(text)
+
+    def load_current_a(self, node: str) -> float:
+        v = self.tree.voltage_of[node]
+        k = math.sqrt(3) if v.phases == 3 else 1.0
+        return self.loads[node].va / (k * v.line_v)
+
+
+def _f(v):
+    if v is None:
+        return None
+    try:
+        return float(v)
+    except (TypeError, ValueError):
+        return v
+
+
+def build_context(job: Job, panel_loads: dict[str, Load] | None = None) -> Context:
+    """Tree plus demand loads rolled up from the panels (own load + downstream)."""
+    tree = build_tree(job)
+    own: dict[str, Load] = {n: Load() for n in tree.order}
+    for p in job.panels:
+        if panel_loads and p.id in panel_loads:
+            own[p.id] = panel_loads[p.id]
+        elif p.load_va is not None:
+            own[p.id] = Load(p.load_va, p.continuous_va, p.load_va * p.pf)
+    loads = {n: Load(o.va, o.continuous_va, o.w) for n, o in own.items()}
+    for n in reversed(tree.order):
+        parent = tree.parent_node[n]
+        if parent is not None:
+            loads[parent].va += loads[n].va
+            loads[parent].continuous_va += loads[n].continuous_va
+            loads[parent].w += loads[n].w
+    return Context(job, tree, loads)

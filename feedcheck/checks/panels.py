@@ -1,0 +1,91 @@
+"""Panel checks from the job: demand load against bus and main device."""
+
+from __future__ import annotations
+
+from ..job import Panel
+from .context import Context
+
+
+def check_panel(ctx: Context, p: Panel) -> None:
+    sh = ctx.sheet(p.id, "panel", f"Panel {p.id}")
+    v = ctx.tree.voltage_of[p.id]
+    sh.inputs += [
+        ("Voltage", v.text),
+        ("Bus rating", f"{p.rating_a:g} A"),
+        ("Main device", f"{p.main_device_a:g} A" if p.main_device_a else "none (main lugs)"),
+        (
+            "Interrupting rating",
+            f"{p.interrupting_a / 1000:g} kA" if p.interrupting_a else "not given",
+        ),
+    ]
+    load = ctx.loads[p.id]
+    if load.va <= 0:
+        ctx.add(
+            p.id,
+            "demand load",
+            0.0,
+            None,
+            "VA",
+            "info",
+            "panel-bus-load",
+            'no load given (add load = "… kVA" or a schedule) — load checks skipped',
+        )
+        return
+    k = 3**0.5 if v.phases == 3 else 1.0
+    i_load = load.va / (k * v.line_v)
+    i_cont = load.continuous_va / (k * v.line_v)
+    i_design = i_load + 0.25 * i_cont
+    sh.inputs.append(
+        (
+            "Demand load",
+            f"{load.va / 1000:.1f} kVA "
+            f"({load.continuous_va / 1000:.1f} kVA continuous), pf {load.pf:.2f}",
+        )
+    )
+    sh.step(
+        "Demand current",
+        "I = S / (√3 · V_LL)" if v.phases == 3 else "I = S / V",
+        f"{load.va:,.0f} / ({'√3 · ' if v.phases == 3 else ''}{v.line_v:g})",
+        round(i_load, 1),
+        "A",
+    )
+    sh.step(
+        "Design current",
+        "I_noncontinuous + 125 % · I_continuous",
+        f"{i_load - i_cont:.1f} + 1.25 × {i_cont:.1f}",
+        round(i_design, 1),
+        "A",
+        "panel-bus-load",
+    )
+    ctx.nodes[p.id].values.update(
+        {"load_va": load.va, "load_a": i_load, "design_current_a": i_design}
+    )
+    for rid, what, rating in (
+        ("panel-bus-load", "bus rating", p.rating_a),
+        ("panel-main-load", "main device", p.main_device_a),
+    ):
+        if not rating:
+            continue
+        ok = i_design <= rating + 1e-9
+        ctx.add(
+            p.id,
+            f"load vs {what}",
+            i_design,
+            rating,
+            "A",
+            "ok" if ok else "fail",
+            rid,
+            f"design current {i_design:.1f} A (continuous at 125 %) vs {what} {rating:g} A",
+        )
+    if p.main_device_a:
+        ok = p.main_device_a <= p.rating_a + 1e-9
+        ctx.add(
+            p.id,
+            "main device vs bus",
+            p.main_device_a,
+            p.rating_a,
+            "A",
+            "ok" if ok else "fail",
+            "panel-main-bus",
+            f"main device {p.main_device_a:g} A on a {p.rating_a:g} A bus",
+        )

@@ -1,0 +1,271 @@
+"""Transformer checks: rated currents, protection limits, loading, regulation,
+secondary-conductor arrangement, grounding electrode conductor and bonding jumper."""
+
+from __future__ import annotations
+
+import math
+
+from ..calc import transformer as tk
+from ..calc.sizes import SIZES
+from ..job import Transformer
+from ..tables import load_table
+from .context import Context
+
+
+def typical_x_r(rating_va: float) -> tuple[float, str]:
+    """Typical X/R from tables/transformer_xr.csv (nearest rating at or below)."""
+    t = load_table("transformer_xr").data
+    kva = rating_va / 1000.0
+    below = t[t["rating_kva"] <= kva + 1e-9]
+    row = below.iloc[-1] if not below.empty else t.iloc[0]
+    return float(row["x_r"]), f"{row['rating_kva']:g} kVA row"
+
+
+def transformer_x_r(t: Transformer) -> float:
+    return t.x_r if t.x_r is not None else typical_x_r(t.rating_va)[0]
+
+
+def check_transformer(ctx: Context, t: Transformer) -> None:
+    sh = ctx.sheet(t.id, "transformer", f"Transformer {t.id}")
+    ph = t.primary.phases
+    sh.inputs += [
+        ("Rating", f"{t.rating_va / 1000:g} kVA"),
+        ("Primary", t.primary.text),
+        ("Secondary", t.secondary.text),
+        ("Impedance", f"{t.z_pct:g} %"),
+        ("Primary device", f"{t.primary_device_a:g} A"),
+        (
+            "Secondary device",
+            f"{t.secondary_device_a:g} A" if t.secondary_device_a else "none at the transformer",
+        ),
+    ]
+    ip = tk.rated_current_a(t.rating_va, t.primary.line_v, ph)
+    is_ = tk.rated_current_a(t.rating_va, t.secondary.line_v, ph)
+    form = "S / (√3 · V_LL)" if ph == 3 else "S / V"
+    k = "√3 · " if ph == 3 else ""
+    sh.step(
+        "Rated primary current",
+        f"I_p = {form}",
+        f"{t.rating_va:,.0f} / ({k}{t.primary.line_v:g})",
+        round(ip, 1),
+        "A",
+    )
+    sh.step(
+        "Rated secondary current",
+        f"I_s = {form}",
+        f"{t.rating_va:,.0f} / ({k}{t.secondary.line_v:g})",
+        round(is_, 1),
+        "A",
+    )
+    ctx.method(
+        "Rated current I = S/(√3·V) three-phase, S/V single-phase", "IEEE Std 141-1993 ch. 4"
+    )
+    ctx.add(
+        t.id,
+        "rated primary current",
+        ip,
+        None,
+        "A",
+        "info",
+        "rated-current",
+        f"{t.rating_va / 1000:g} kVA at {t.primary.line_v:g} V",
+    )
+    ctx.add(
+        t.id,
+        "rated secondary current",
+        is_,
+        None,
+        "A",
+        "info",
+        "rated-current",
+        f"{t.rating_va / 1000:g} kVA at {t.secondary.line_v:g} V",
+    )
+
+    # --- overcurrent protection, 450.3(B)
+    rules = load_table("transformer_protection").data.to_dict("records")
+    ratings = load_table("device_ratings").data["rating_a"].to_numpy(dtype=float)
+    sh.uses("transformer_protection", "device_ratings")
+    arrangement = "primary and secondary" if t.secondary_device_a else "primary only"
+    ctx.method("Transformer overcurrent protection limits", "NFPA 70-2023 450.3(B), Table 450.3(B)")
+    for winding, rated, device in (
+        ("primary", ip, t.primary_device_a),
+        ("secondary", is_, t.secondary_device_a),
+    ):
+        if device is None:
+            continue
+        lim = tk.protection_limit(rated, winding, arrangement, rules, ratings)
+        how = (
+            "next standard rating up permitted"
+            if lim.next_size_up
+            else "largest standard rating not above it"
+        )
+        sh.step(
+            f"Largest {winding} device ({arrangement})",
+            f"{lim.max_pct:g} % × I_{winding[0]} → {how}",
+            f"{lim.max_pct:g} % × {rated:.1f} = {lim.computed_a:.1f} A",
+            lim.max_device_a,
+            "A",
+            lim.rule_id,
+        )
+        ok = device <= lim.max_device_a + 1e-9
+        note = (
+            f"{device:g} A device within the {lim.max_device_a:g} A limit "
+            f"({lim.max_pct:g} % of {rated:.1f} A, {arrangement})"
+        )
+        if not ok:
+            note = (
+                f"{device:g} A exceeds the largest permitted {lim.max_device_a:g} A "
+                f"({lim.max_pct:g} % of {rated:.1f} A, {arrangement}); use a device of "
+                f"{lim.max_device_a:g} A or less"
+            )
+        ctx.add(
+            t.id,
+            f"{winding} device",
+            device,
+            lim.max_device_a,
+            "A",
+            "ok" if ok else "fail",
+            lim.rule_id,
+            note,
+        )
+
+    # --- loading and regulation at the demand load
+    load = ctx.loads[t.id]
+    x_r = transformer_x_r(t)
+    if t.x_r is None:
+        row = typical_x_r(t.rating_va)[1]
+        sh.uses("transformer_xr")
+        ctx.assume(
+            f"{t.id}: X/R {x_r:g} taken from the typical-value table ({row}); "
+            "use the nameplate or test report value where known."
+        )
+        sh.inputs.append(("X/R", f"{x_r:g} (typical, tables/transformer_xr.csv)"))
+    else:
+        sh.inputs.append(("X/R", f"{x_r:g}"))
+    r_pct, x_pct = tk.impedance_parts_pct(t.z_pct, x_r)
+    sh.step(
+        "Resistance and reactance",
+        "%R = %Z / √(1 + (X/R)²), %X = %R · X/R",
+        f"{t.z_pct:g} / √(1 + {x_r:g}²) = {r_pct:.3f} %; {r_pct:.3f} × {x_r:g}",
+        round(x_pct, 3),
+        "% (%X)",
+    )
+    n = load.va / t.rating_va
+    rule = ctx.rule("xfmr-loading")
+    pct = 100.0 * n
+    sh.step(
+        "Loading",
+        "demand kVA / rated kVA",
+        f"{load.va / 1000:.1f} / {t.rating_va / 1000:g}",
+        round(pct, 1),
+        "%",
+        "xfmr-loading",
+    )
+    if load.va > 0:
+        ok = pct <= float(rule["limit"]) + 1e-9
+        ctx.add(
+            t.id,
+            "loading",
+            pct,
+            float(rule["limit"]),
+            "%",
+            "ok" if ok else rule["status"],
+            "xfmr-loading",
+            f"demand {load.va / 1000:.1f} kVA on {t.rating_va / 1000:g} kVA"
+            + ("" if ok else "; a larger transformer or less load is needed"),
+        )
+    pf = load.pf
+    reg_approx = tk.regulation_pct_approximate(r_pct, x_pct, n, pf)
+    reg_exact = tk.regulation_pct_exact(r_pct, x_pct, n, pf)
+    sh.step(
+        "Regulation (approximate)",
+        "n(%R cos φ + %X sin φ) + n²(%X cos φ − %R sin φ)²/200",
+        f"n = {n:.3f}, cos φ = {pf:.3f}",
+        round(reg_approx, 3),
+        "%",
+    )
+    sh.step(
+        "Regulation (exact phasor)",
+        "(|1 + n(r cos φ + x sin φ) + j n(x cos φ − r sin φ)| − 1) · 100",
+        f"n = {n:.3f}, cos φ = {pf:.3f}",
+        round(reg_exact, 3),
+        "%",
+    )
+    ctx.method(
+        "Transformer regulation, exact phasor and %R/%X approximation (receiving end "
+        "at rated voltage)",
+        "IEEE Std C57.12.80 definition; standard series expansion",
+    )
+    node = ctx.nodes[t.id]
+    node.values.update(
+        {
+            "rated_primary_a": ip,
+            "rated_secondary_a": is_,
+            "x_r_transformer": x_r,
+            "loading_pct": pct,
+            "regulation_pct": reg_exact,
+            "regulation_approx_pct": reg_approx,
+            "load_va": load.va,
+        }
+    )
+
+    _check_grounding(ctx, t, sh)
+
+
+def _secondary_runs(ctx: Context, t: Transformer):
+    return [r for r in ctx.job.runs if r.from_id == t.id]
+
+
+def _check_grounding(ctx: Context, t: Transformer, sh) -> None:
+    runs = _secondary_runs(ctx, t)
+    if not runs:
+        return
+    areas = [(r.size.area_kcmil * r.sets, r.material) for r in runs]
+    total = sum(a for a, _ in areas)
+    material = runs[0].material
+    rows = load_table("grounding_electrode_conductor").data.to_dict("records")
+    sh.uses("grounding_electrode_conductor")
+    row = tk.gec_row(total, material, rows)
+    gec_cu, gec_al = row["gec_cu"], row["gec_al"]
+    sh.step(
+        "Largest ungrounded secondary conductor (sum of parallel sets and runs)",
+        "Σ sets × area",
+        " + ".join(f"{r.sets} × {r.size.name}" for r in runs),
+        round(total, 1),
+        "kcmil",
+        "gec-sds",
+    )
+    sh.step(
+        "Grounding electrode conductor",
+        "Table 250.66 row for that area",
+        f"{total:.1f} kcmil {material.upper()} → row {row['row']}",
+        f"{gec_cu} Cu or {gec_al} Al",
+        "",
+        "gec-sds",
+    )
+    ctx.add(
+        t.id,
+        "grounding electrode conductor",
+        SIZES[gec_cu].area_kcmil,
+        None,
+        "kcmil",
+        "info",
+        "gec-sds",
+        f"at least {gec_cu} Cu or {gec_al} Al for "
+        f"{total:.1f} kcmil {material.upper()} secondary conductors",
+    )
+    lim_col = "cu_up_to_kcmil" if material == "cu" else "al_up_to_kcmil"
+    if math.isinf(float(row[lim_col])) and total > 0:
+        sbj_area = 0.125 * total
+        sbj_text = f"at least {sbj_area:.0f} kcmil ({material.upper()}, 12.5 % of {total:.0f})"
+    else:
+        sbj_text = f"at least {gec_cu} Cu or {gec_al} Al"
+    sh.step(
+        "System bonding jumper",
+        "Table 250.102(C)(1) (12.5 % of area above its rows)",
+        f"{total:.1f} kcmil",
+        sbj_text,
+        "",
+        "sbj-sds",
+    )
+    ctx.add(t.id, "system bonding jumper", None, None, "", "info", "sbj-sds", sbj_text)

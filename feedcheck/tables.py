@@ -1,0 +1,293 @@
+"""Data tables with provenance: loading, caching and verifying.
+
+Every table is a CSV file under ``tables/`` (shipped inside the wheel as
+``feedcheck/tables``) with a commented header block::
+
+    # title: Standard ampere ratings of fuses and inverse-time circuit breakers
+    # basis: what the numbers are and how they are used
+    # source: the published document, clause or table
+    # edition: which edition the values follow
+    # conditions: ambient, insulation, frequency ... ("none" when not applicable)
+    # confidence: published | common practice | from memory — verify
+    # key: rating_a                         (optional: column whose values are unique)
+    # monotonic: rating_a increasing        (optional; "col increasing; col2 decreasing")
+    # units: rating_a=A                     (optional: unit of each numeric column)
+    rating_a,fuse,breaker
+    15,yes,yes
+
+A user may point ``--tables DIR`` at a folder with their own copies (to follow
+the locally adopted code): a table found there replaces the shipped one of the
+same name; the others stay as shipped.
+"""
+
+from __future__ import annotations
+
+import io
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import TYPE_CHECKING
+
+from .errors import InputError, ProblemList
+
+if TYPE_CHECKING:
+    import pandas as pd
+
+REQUIRED_META = ("title", "basis", "source", "edition", "conditions", "confidence")
+CONFIDENCE_LEVELS = ("published", "common practice", "from memory — verify")
+MAX_TABLE_BYTES = 5_000_000
+
+
+def shipped_tables_dir() -> Path:
+    """Folder of the tables that ship with the package (wheel or source checkout)."""
+    here = Path(__file__).resolve().parent
+    inside = here / "tables"
+    return inside if inside.is_dir() else here.parent / "tables"
+
+
+_user_dir: Path | None = None
+_cache: dict[tuple[str, str], Table] = {}
+
+
+def set_user_tables_dir(path: str | Path | None) -> None:
+    """Use a user's folder of tables first (``--tables DIR``); ``None`` resets."""
+    global _user_dir
+    _user_dir = Path(path) if path is not None else None
+    _cache.clear()
+
+
+def user_tables_dir() -> Path | None:
+    return _user_dir
+
+
+@dataclass(frozen=True)
+class Table:
+    """A loaded table: its rows, its provenance and where it came from."""
+
+    name: str
+    data: pd.DataFrame
+    meta: dict[str, str]
+    path: Path
+    origin: str  # "shipped" or "user"
+    sha256: str = ""
+    units: dict[str, str] = field(default_factory=dict)
+
+    @property
+    def title(self) -> str:
+        return self.meta.get("title", self.name)
+
+    @property
+    def source(self) -> str:
+        return self.meta.get("source", "")
+
+    @property
+    def confidence(self) -> str:
+        return self.meta.get("confidence", "")
+
+
+def _split_header(text: str) -> tuple[dict[str, str], str, int]:
+    meta: dict[str, str] = {}
+    lines = text.splitlines(keepends=True)
+    n = 0
+    for line in lines:
+        if line.startswith("#"):
+            body = line[1:].strip()
+            if ":" in body:
+                k, v = body.split(":", 1)
+                k = k.strip().lower()
+                meta[k] = (meta[k] + " " + v.strip()) if k in meta else v.strip()
+            n += 1
+        elif not line.strip():
+            n += 1
+        else:
+            break
+    return meta, "".join(lines[n:]), n
+
+
+def table_path(name: str) -> tuple[Path, str]:
+    """Where table ``name`` is read from, and whether that is the user's copy."""
+    if _user_dir is not None:
+        p = _user_dir / f"{name}.csv"
+        if p.is_file():
+            return p, "user"
+    return shipped_tables_dir() / f"{name}.csv", "shipped"
+
+
+def read_table_file(path: Path, name: str, origin: str) -> Table:
+    """Read and validate one table file; raise InputError naming each problem."""
+    import hashlib
+
+    import pandas as pd
+
+    problems = ProblemList(str(path))
+    try:
+        raw = path.read_bytes()
+    except OSError as exc:
+        problems.add("", "", f"a readable table file ({exc.strerror})")
+        problems.raise_if_any()
+    if len(raw) > MAX_TABLE_BYTES:
+        problems.add("", f"{len(raw)} bytes", f"a table under {MAX_TABLE_BYTES} bytes")
+        problems.raise_if_any()
+    try:
+        text = raw.decode("utf-8")
+    except UnicodeDecodeError as exc:
+        problems.add("", f"byte {exc.start}", "UTF-8 text")
+        problems.raise_if_any()
+    meta, body, n_header = _split_header(text)
+    for key in REQUIRED_META:
+        if not meta.get(key):
+            problems.add(f"header '# {key}:'", "", "a provenance line naming the " + key)
+    conf = meta.get("confidence", "")
+    if conf and not any(conf.lower().startswith(c.split(" —")[0]) for c in CONFIDENCE_LEVELS):
+        problems.add(
+            "header '# confidence:'", conf, " or ".join(repr(c) for c in CONFIDENCE_LEVELS)
+        )
+    try:
+        df = pd.read_csv(io.StringIO(body), skipinitialspace=True, comment=None)
+    except Exception as exc:  # pandas raises several parser error types
+        problems.add("body", "", f"CSV rows under the header ({exc})")
+        problems.raise_if_any()
+    df.columns = [str(c).strip() for c in df.columns]
+    units: dict[str, str] = {}
+    for part in filter(None, (p.strip() for p in meta.get("units", "").split(","))):
+        if "=" in part:
+            col, unit = (s.strip() for s in part.split("=", 1))
+            units[col] = unit
+            if col not in df.columns:
+                problems.add(
+                    "header '# units:'", col, f"a column of the table ({', '.join(df.columns)})"
+                )
+    if df.empty:
+        problems.add("body", "", "at least one data row")
+    for col in df.columns:
+        if df[col].isna().any() and not col.startswith("opt_"):
+            bad = int(df.index[df[col].isna()][0]) + n_header + 2
+            problems.add(f"column '{col}'", "", "a value in every row (no gaps)", line=bad)
+    for col, unit in units.items():
+        if col in df.columns and not pd.api.types.is_numeric_dtype(df[col]):
+            problems.add(f"column '{col}'", str(df[col].iloc[0]), f"numbers (in {unit})")
+    key = meta.get("key", "").strip()
+    if key:
+        if key not in df.columns:
+            problems.add("header '# key:'", key, "a column of the table")
+        elif df[key].duplicated().any():
+            dup = df[key][df[key].duplicated()].iloc[0]
+            problems.add(f"column '{key}'", dup, "unique key values")
+    for rule in filter(None, (r.strip() for r in meta.get("monotonic", "").split(";"))):
+        parts = rule.split()
+        if len(parts) != 2 or parts[1] not in (
+            "increasing",
+            "decreasing",
+            "nondecreasing",
+            "nonincreasing",
+        ):
+            problems.add(
+                "header '# monotonic:'", rule, "'column increasing' or 'column decreasing'"
+            )
+            continue
+        col, direction = parts
+        if col not in df.columns:
+            problems.add("header '# monotonic:'", col, "a column of the table")
+            continue
+        s = pd.to_numeric(df[col], errors="coerce")
+        d = s.diff().iloc[1:]
+        ok = {
+            "increasing": (d > 0).all(),
+            "decreasing": (d < 0).all(),
+            "nondecreasing": (d >= 0).all(),
+            "nonincreasing": (d <= 0).all(),
+        }[direction]
+        if not ok or s.isna().any():
+            bad_pos = (
+                int(
+                    (
+                        ~{
+                            "increasing": d > 0,
+                            "decreasing": d < 0,
+                            "nondecreasing": d >= 0,
+                            "nonincreasing": d <= 0,
+                        }[direction]
+                    )
+                    .to_numpy()
+                    .argmax()
+                )
+                + 1
+            )
+            problems.add(
+                f"column '{col}'",
+                str(df[col].iloc[bad_pos]),
+                f"values {direction} down the table",
+                line=bad_pos + n_header + 2,
+            )
+    problems.raise_if_any()
+    return Table(name, df, meta, path, origin, hashlib.sha256(raw).hexdigest(), units)
+
+
+def load_table(name: str) -> Table:
+    """Load (once) and validate table ``name`` (file ``tables/<name>.csv``).
+
+    Raises
+    ------
+    InputError
+        When the table is missing, unreadable, lacks provenance or breaks its own
+        declared key / monotonic / units rules.
+    """
+    path, origin = table_path(name)
+    ck = (str(path), name)
+    if ck in _cache:
+        return _cache[ck]
+    if not path.is_file():
+        pl = ProblemList(str(path))
+        pl.add("", name, "a table file named " + f"{name}.csv in {path.parent}")
+        pl.raise_if_any()
+    table = read_table_file(path, name, origin)
+    _cache[ck] = table
+    return table
+
+
+def table_names() -> list[str]:
+    """Names of every shipped table, plus any extra ones in the user's folder."""
+    names = {p.stem for p in shipped_tables_dir().glob("*.csv")}
+    if _user_dir is not None and _user_dir.is_dir():
+        names |= {p.stem for p in _user_dir.glob("*.csv")}
+    return sorted(names)
+
+
+def verify_all() -> tuple[list[Table], list[InputError]]:
+    """Load every table; return the good ones and the errors of the bad ones."""
+    good: list[Table] = []
+    bad: list[InputError] = []
+    for name in table_names():
+        try:
+            good.append(load_table(name))
+        except InputError as exc:
+            bad.append(exc)
+    return good, bad
+
+
+def rule(table: str, rule_id: str) -> dict:
+    """One row of a rules table, by its ``rule_id`` column."""
+    t = load_table(table)
+    rows = t.data[t.data["rule_id"] == rule_id]
+    if rows.empty:
+        pl = ProblemList(str(t.path))
+        pl.add("column 'rule_id'", rule_id, "a row with this rule id")
+        pl.raise_if_any()
+    return rows.iloc[0].to_dict()
+
+
+def used_tables() -> list[Table]:
+    """Tables loaded so far in this process (for the report's provenance page)."""
+    return sorted(_cache.values(), key=lambda t: t.name)
+
+
+__all__ = [
+    "InputError",
+    "Table",
+    "load_table",
+    "rule",
+    "set_user_tables_dir",
+    "shipped_tables_dir",
+    "table_names",
+    "used_tables",
+    "verify_all",
+]

@@ -1,0 +1,78 @@
+"""The commented job-file template written by ``feedcheck init``."""
+
+TEMPLATE = """\
+# feedcheck job file. Values with units are quoted text: "95 ft", "75 kVA", "5.1 %".
+# Lengths take any unit (ft, m); temperatures are "degC". Ids are your own names.
+# Results are an aid: verify them against the locally adopted electrical code and
+# have a licensed electrician or engineer review the work.
+
+[project]
+name = "New project"           # required
+site = ""                      # optional: address or area
+prepared_by = ""               # optional
+date = ""                      # optional, e.g. "2026-12-01"
+revision = "A"                 # optional
+rules = "na"                   # rule/table set under tables/ ("na" is the one shipped)
+
+[source]                       # the supply at the transformer primary
+voltage = "480 V delta"        # e.g. "480 V delta", "480Y/277 V", "480 V" (with phases = 1)
+phases = 3                     # 1 or 3
+available_fault = "30 kA"      # three-phase fault current at the primary, or "infinite"
+# short_circuit_mva = "50 MVA" # alternative to available_fault
+x_r = 6                        # source X/R (needed unless the fault is "infinite")
+
+[[transformer]]
+id = "T1"
+from = "source"                # "source", or a panel id (then add a [[run]] to it)
+rating = "75 kVA"
+primary = "480 V delta"
+secondary = "208Y/120 V"       # or "120/240 V" (single-phase three-wire)
+impedance = "5.0 %"            # nameplate %Z
+# x_r = 3.5                    # optional; a typical value by rating is used if absent
+primary_device = "110 A"       # fuse or breaker rating on the primary
+secondary_device = "250 A"     # optional: device on the secondary (450.3(B) arrangement)
+# tap = "+2.5 %"               # optional no-load tap: -5, -2.5, 0, +2.5, +5 %
+
+[[run]]                        # one conductor run between two elements
+id = "F-LP1"
+from = "T1"                    # source of the run: a transformer or a panel
+to = "LP1"                     # what it feeds: a panel (or a transformer primary)
+length = "95 ft"
+conductors = "4/0 AWG Cu"      # size and material: "250 kcmil Al", "95 mm2 Cu"
+sets = 1                       # parallel sets per phase
+insulation = "75 degC"         # 60, 75 or 90 degC
+raceway = "steel"              # steel | aluminum | pvc | cable | free-air
+ambient = "30 degC"
+current_carrying = 3           # current-carrying conductors in the raceway or cable
+ground = "4 AWG Cu"            # equipment grounding conductor (optional)
+device = "250 A"               # device at the sending end protecting this run
+# termination = "75 degC"      # optional: equipment terminal rating (else the 110.14(C) rule)
+# clearing_time = "0.05 s"     # optional: device clearing time for the withstand check
+# rooftop_height = "0.5 in"    # optional: raceway height above a sunlit roof
+# harmonic_neutral = false     # optional: count the neutral as current-carrying
+
+[[panel]]
+id = "LP1"
+rating = "225 A"               # bus rating
+main_device = "225 A"          # optional (omit for main lugs only)
+interrupting = "22 kA"         # equipment short-circuit / interrupting rating
+# voltage = "208Y/120 V"       # optional: checked against the feed
+load = "40 kVA"                # demand load (a schedule replaces it when given)
+continuous = "10 kVA"          # the continuous part of the load
+power_factor = 0.9
+# schedule = "LP1.csv"         # optional: panel schedule beside this file (CSV or XLSX)
+
+# [[motor]]                    # optional: motors, for fault contribution and starting dip
+# id = "EF-1"
+# panel = "LP1"
+# full_load = "30.8 A"
+# locked_rotor = "185 A"       # optional
+
+# [options]
+# impedance_tolerance = "7.5 %"   # transformer %Z tolerance (IEEE C57.12.00)
+# voltage_factor = "none"         # or "iec60909" (c max / c min on fault currents)
+# voltage_drop = "recommended"    # or "mandatory": drop limits fail instead of warn
+# feeder_drop = "3 %"
+# branch_drop = "3 %"
+# total_drop = "5 %"
+"""

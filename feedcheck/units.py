@@ -1,0 +1,283 @@
+"""Units at the edges: one pint registry for the package, parsing helpers.
+
+The registry is created lazily, once (pint's own guidance: one registry per
+application). Kernels never see pint; parsers here turn a user's text such as
+``"85 ft"`` into a float in SI (metres) and say clearly what was wrong otherwise.
+
+Apparent, real and reactive power share one dimension in pint: the caller keeps
+them in separately named fields (``rating_va``, ``load_w``, ``load_var``).
+A horsepower here is 746 W (the electrical horsepower of motor nameplates).
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import dataclass
+from functools import lru_cache
+
+_NUMBER = r"[-+]?(?:\d+(?:[.,_]\d+)*(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?|[-+]?inf(?:inity)?|nan"
+_QTY_RE = re.compile(rf"^\s*(?P<num>{_NUMBER})\s*(?P<unit>.*?)\s*$", re.IGNORECASE)
+
+# Dimension name -> (pint dimensionality string, SI unit the kernels use, example)
+DIMENSIONS: dict[str, tuple[str, str, str]] = {
+    "length": ("[length]", "m", "85 ft or 26 m"),
+    "power": ("[length] ** 2 * [mass] / [time] ** 3", "VA", "75 kVA"),
+    "current": ("[current]", "A", "225 A or 22 kA"),
+    "voltage": ("[length] ** 2 * [mass] / [current] / [time] ** 3", "V", "480 V"),
+    "temperature": ("[temperature]", "degC", "35 degC"),
+    "percent": ("", "percent", "5.75 %"),
+    "time": ("[time]", "s", "0.05 s or 3 cycles"),
+    "area": ("[length] ** 2", "mm**2", "95 mm2 or 250 kcmil"),
+}
+
+_UNIT_ALIASES = {
+    "°c": "degC",
+    "ºc": "degC",
+    "c": "degC",
+    "degc": "degC",
+    "deg c": "degC",
+    "°f": "degF",
+    "degf": "degF",
+    "f": "degF",
+    "mm2": "mm**2",
+    "mm²": "mm**2",
+    "sq mm": "mm**2",
+    "mcm": "kcmil",
+    "kcmil": "kcmil",
+    "kva": "kVA",
+    "mva": "MVA",
+    "va": "VA",
+    "kw": "kW",
+    "w": "W",
+    "kvar": "kvar",
+    "var": "var",
+    "ka": "kA",
+    "a": "A",
+    "v": "V",
+    "kv": "kV",
+    "hz": "Hz",
+    "cycles": "cycle",
+    "cycle": "cycle",
+    "cy": "cycle",
+    "hp": "hp",
+}
+
+
+@lru_cache(maxsize=1)
+def registry():
+    """The package's single pint UnitRegistry (created on first use)."""
+    import pint
+
+    ureg = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+    ureg.define("var = volt * ampere = VAr")
+    ureg.define("kvar = 1000 * var")
+    ureg.define("cycle = second / 60")  # one cycle of a 60 Hz system
+    # Electrical horsepower (746 W), as on motor nameplates and in the motor tables.
+    ureg.define("hp = 746 * watt = HP")
+    return ureg
+
+
+def Q_(value, unit: str):
+    """A pint Quantity from a value and a known unit (fast path; no string parsing)."""
+    return registry().Quantity(value, unit)
+
+
+class UnitParseError(ValueError):
+    """A value's text could not be read as a quantity of the expected kind."""
+
+    def __init__(self, value: str, expected: str) -> None:
+        super().__init__(f"got {value!r}; expected {expected}")
+        self.value = value
+        self.expected = expected
+
+
+def split_number_unit(text: str) -> tuple[float, str]:
+    """Split ``"85 ft"`` into ``(85.0, "ft")``; raise UnitParseError when no number leads."""
+    m = _QTY_RE.match(str(text))
+    if not m:
+        raise UnitParseError(str(text), "a number followed by a unit")
+    num = m.group("num").replace("_", "").replace(",", "")
+    return float(num), m.group("unit")
+
+
+def _normalise_unit(unit: str) -> str:
+    u = unit.strip()
+    return _UNIT_ALIASES.get(u.lower(), u)
+
+
+def parse_quantity(
+    text: object,
+    dimension: str,
+    *,
+    allow_bare: bool = False,
+    must_be_positive: bool = True,
+    allow_inf: bool = False,
+) -> float:
+    """Parse a user value to a float in the SI unit of ``dimension``.
+
+    Parameters
+    ----------
+    text : str or number
+        What the user wrote: ``"85 ft"``, ``"5.75 %"``, ``"35 degC"``.
+    dimension : str
+        One of :data:`DIMENSIONS` (``length`` → m, ``power`` → VA, ``current`` → A,
+        ``voltage`` → V, ``temperature`` → °C, ``percent`` → %, ``time`` → s,
+        ``area`` → mm²).
+    allow_bare : bool
+        Accept a bare number and read it in the SI unit (used for ``x_r``-like inputs
+        only; lengths, powers and currents always need a unit).
+    must_be_positive : bool
+        Reject zero and negative values (not applied to temperatures).
+    allow_inf : bool
+        Accept ``"infinite"`` / ``inf`` (an infinite bus).
+
+    Returns
+    -------
+    float
+        The value in the SI unit listed above (percent stays in percent).
+
+    Raises
+    ------
+    UnitParseError
+        With the expected form, for a wrong dimension, missing unit, NaN, infinity or
+        a non-positive value.
+
+    Examples
+    --------
+    >>> round(parse_quantity("85 ft", "length"), 4)
+    25.908
+    >>> parse_quantity("5.75 %", "percent")
+    5.75
+    >>> parse_quantity("75 kVA", "power")
+    75000.0
+    >>> parse_quantity("35 degC", "temperature")
+    35.0
+    """
+    _dim_str, si_unit, example = DIMENSIONS[dimension]
+    expected = f"a {dimension} with a unit, e.g. {example!r}"
+    if isinstance(text, bool):
+        raise UnitParseError(str(text), expected)
+    if allow_inf and isinstance(text, str) and text.strip().lower() in ("infinite", "inf"):
+        return math.inf
+    if isinstance(text, (int, float)):
+        if not allow_bare:
+            raise UnitParseError(str(text), expected + " (a bare number has no unit)")
+        value, unit = float(text), ""
+    else:
+        value, unit = split_number_unit(str(text))
+    if math.isnan(value):
+        raise UnitParseError(str(text), expected + " (not NaN)")
+    if math.isinf(value) and not allow_inf:
+        raise UnitParseError(str(text), expected + " (a finite number)")
+    unit = _normalise_unit(unit)
+    if not unit:
+        if not allow_bare:
+            raise UnitParseError(str(text), expected + " (the unit is missing)")
+        result = value
+    elif dimension == "percent":
+        if unit not in ("%", "percent", "pct"):
+            raise UnitParseError(str(text), expected)
+        result = value
+    else:
+        ureg = registry()
+        try:
+            q = Q_(value, unit)
+        except Exception:
+            raise UnitParseError(str(text), expected + f" ({unit!r} is not a unit)") from None
+        if dimension == "temperature":
+            if q.dimensionality != ureg.Unit("degC").dimensionality:
+                raise UnitParseError(str(text), expected)
+            return float(q.to("degC").magnitude)
+        target = ureg.Unit(si_unit)
+        if q.dimensionality != target.dimensionality:
+            raise UnitParseError(str(text), expected)
+        result = float(q.to(target).magnitude)
+    if must_be_positive and not result > 0:
+        raise UnitParseError(str(text), expected + " (greater than zero)")
+    return result
+
+
+@dataclass(frozen=True)
+class VoltageSystem:
+    """A nominal system voltage as the trade writes it.
+
+    Attributes
+    ----------
+    line_v : float
+        Line-to-line voltage [V] (for a 120/240 V single-phase three-wire system, 240).
+    neutral_v : float | None
+        Line-to-neutral voltage [V] where a neutral exists (120 for 120/240 V).
+    phases : int
+        1 or 3.
+    kind : str
+        ``wye`` (``208Y/120``), ``delta`` (``480 V delta``), ``split`` (``120/240``,
+        single-phase three-wire), ``single`` (single-phase two-wire) or ``line``
+        (three-phase, winding not stated).
+    text : str
+        The text as written.
+    """
+
+    line_v: float
+    neutral_v: float | None
+    phases: int
+    kind: str
+    text: str
+
+    @property
+    def grounded_wye(self) -> bool:
+        return self.kind == "wye"
+
+
+_VS_EXPECTED = (
+    "a system voltage such as '480 V delta', '208Y/120 V', '480Y/277 V', "
+    "'120/240 V' (single-phase three-wire), '240 V' or '480 V'"
+)
+_WYE_RE = re.compile(r"^\s*(\d+(?:\.\d+)?)\s*Y\s*/\s*(\d+(?:\.\d+)?)\s*V?\s*$", re.IGNORECASE)
+_SPLIT_RE = re.compile(r"^\s*(\d+(?:\.\d+)?)\s*/\s*(\d+(?:\.\d+)?)\s*V?\s*$", re.IGNORECASE)
+_PLAIN_RE = re.compile(
+    r"^\s*(\d+(?:\.\d+)?)\s*V\s*(delta|d|wye|single|1ph|3ph)?\s*$", re.IGNORECASE
+)
+
+
+def parse_voltage_system(text: object, phases: int | None = None) -> VoltageSystem:
+    """Parse a nominal system voltage.
+
+    ``"208Y/120 V"`` → three-phase wye; ``"480 V delta"`` → three-phase delta;
+    ``"120/240 V"`` or ``"240/120 V"`` → single-phase three-wire; ``"240 V"`` →
+    three-phase if ``phases`` is 3, otherwise single-phase two-wire.
+
+    Examples
+    --------
+    >>> parse_voltage_system("208Y/120 V").neutral_v
+    120.0
+    >>> parse_voltage_system("120/240 V").kind
+    'split'
+    >>> parse_voltage_system("480 V delta").phases
+    3
+    """
+    s = str(text)
+    if m := _WYE_RE.match(s):
+        ll, ln = float(m.group(1)), float(m.group(2))
+        if not (0 < ln < ll) or abs(ll / ln - math.sqrt(3)) > 0.05:
+            raise UnitParseError(s, _VS_EXPECTED + " (line voltage ≈ √3 × neutral voltage)")
+        return VoltageSystem(ll, ln, 3, "wye", s)
+    if m := _SPLIT_RE.match(s):
+        a, b = float(m.group(1)), float(m.group(2))
+        ll, ln = max(a, b), min(a, b)
+        if ln <= 0 or abs(ll / ln - 2) > 0.05:
+            raise UnitParseError(s, _VS_EXPECTED + " (split-phase: line voltage = 2 × neutral)")
+        return VoltageSystem(ll, ln, 1, "split", s)
+    if m := _PLAIN_RE.match(s):
+        v = float(m.group(1))
+        tag = (m.group(2) or "").lower()
+        if v <= 0:
+            raise UnitParseError(s, _VS_EXPECTED)
+        if tag in ("delta", "d", "3ph"):
+            return VoltageSystem(v, None, 3, "delta", s)
+        if tag == "wye":
+            return VoltageSystem(v, v / math.sqrt(3), 3, "wye", s)
+        if tag in ("single", "1ph") or phases == 1:
+            return VoltageSystem(v, None, 1, "single", s)
+        return VoltageSystem(v, None, 3 if phases in (None, 3) else phases, "line", s)
+    raise UnitParseError(s, _VS_EXPECTED)

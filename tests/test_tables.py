@@ -1,0 +1,114 @@
+import shutil
+
+import pytest
+
+from feedcheck.errors import InputError
+from feedcheck.tables import load_table, set_user_tables_dir, shipped_tables_dir, verify_all
+
+
+def test_every_shipped_table_verifies():
+    good, bad = verify_all()
+    assert not bad, "\n".join(str(e) for e in bad)
+    assert len(good) >= 4
+
+
+def test_device_ratings_match_published_list():
+    # NFPA 70-2023 240.6(A) Table 240.6(A) (REFERENCES.md, H): standard ratings 15 A … 6000 A
+    published = [
+        15,
+        20,
+        25,
+        30,
+        35,
+        40,
+        45,
+        50,
+        60,
+        70,
+        80,
+        90,
+        100,
+        110,
+        125,
+        150,
+        175,
+        200,
+        225,
+        250,
+        300,
+        350,
+        400,
+        450,
+        500,
+        600,
+        700,
+        800,
+        1000,
+        1200,
+        1600,
+        2000,
+        2500,
+        3000,
+        4000,
+        5000,
+        6000,
+    ]
+    t = load_table("device_ratings").data
+    assert [int(x) for x in t["rating_a"] if x >= 15] == published
+    # fuses also 1, 3, 6, 10 A
+    assert set(t[t["rating_a"] < 15]["rating_a"]) == {1, 3, 6, 10}
+
+
+def test_transformer_protection_rows_match_450_3_b():
+    # NFPA 70-2023 Table 450.3(B) (REFERENCES.md, H)
+    t = load_table("transformer_protection").data.set_index("rule_id")
+    assert t.loc["xfmr-prot-primary-only-9a", "max_pct"] == 125
+    assert t.loc["xfmr-prot-primary-only-2a", "max_pct"] == 167
+    assert t.loc["xfmr-prot-primary-only-0a", "max_pct"] == 300
+    assert t.loc["xfmr-prot-both-primary", "max_pct"] == 250
+    assert t.loc["xfmr-prot-both-secondary-9a", "max_pct"] == 125
+    assert t.loc["xfmr-prot-both-secondary-0a", "max_pct"] == 167
+    assert set(t[t["next_size_up"] == "yes"].index) == {
+        "xfmr-prot-primary-only-9a",
+        "xfmr-prot-both-secondary-9a",
+    }
+
+
+def _copy(tmp_path, name):
+    d = tmp_path / "mine"
+    d.mkdir(exist_ok=True)
+    shutil.copy(shipped_tables_dir() / f"{name}.csv", d / f"{name}.csv")
+    return d, d / f"{name}.csv"
+
+
+def test_user_table_replaces_shipped(tmp_path):
+    d, p = _copy(tmp_path, "transformer_xr")
+    p.write_text(p.read_text().replace("75,2.0", "75,2.2"))
+    set_user_tables_dir(d)
+    t = load_table("transformer_xr")
+    assert t.origin == "user"
+    assert float(t.data.set_index("rating_kva").loc[75, "x_r"]) == 2.2
+
+
+def test_broken_monotonic_table_is_reported_with_line(tmp_path):
+    d, p = _copy(tmp_path, "device_ratings")
+    p.write_text(p.read_text().replace("\n110,yes,yes", "\n90,yes,yes"))
+    set_user_tables_dir(d)
+    with pytest.raises(InputError, match=r"device_ratings.csv:\d+: column 'rating_a'.*increasing"):
+        load_table("device_ratings")
+
+
+def test_missing_provenance_is_reported(tmp_path):
+    d, p = _copy(tmp_path, "transformer_xr")
+    p.write_text("\n".join(x for x in p.read_text().splitlines() if not x.startswith("# source")))
+    set_user_tables_dir(d)
+    with pytest.raises(InputError, match="provenance line naming the source"):
+        load_table("transformer_xr")
+
+
+def test_gap_in_table_is_reported(tmp_path):
+    d, p = _copy(tmp_path, "transformer_xr")
+    p.write_text(p.read_text().replace("75,2.0", "75,"))
+    set_user_tables_dir(d)
+    with pytest.raises(InputError, match="no gaps"):
+        load_table("transformer_xr")

@@ -1,0 +1,75 @@
+import math
+
+import pytest
+
+from feedcheck.units import UnitParseError, parse_quantity, parse_voltage_system
+
+
+@pytest.mark.parametrize(
+    ("text", "dim", "expected"),
+    [
+        ("85 ft", "length", 25.908),  # 1 ft = 0.3048 m exactly (international foot)
+        ("26 m", "length", 26.0),
+        ("75 kVA", "power", 75_000.0),
+        ("5.75 %", "percent", 5.75),
+        ("35 degC", "temperature", 35.0),
+        ("95 degF", "temperature", 35.0),
+        ("22 kA", "current", 22_000.0),
+        ("0.5 MVA", "power", 500_000.0),
+        ("3 cycle", "time", 0.05),
+    ],
+)
+def test_parse_quantity(text, dim, expected):
+    assert parse_quantity(text, dim) == pytest.approx(expected, rel=1e-12)
+
+
+@pytest.mark.parametrize(
+    ("text", "dim", "match"),
+    [
+        ("75 kVA", "length", "length with a unit"),
+        ("85", "length", "unit is missing"),
+        (85, "length", "bare number"),
+        ("-3 ft", "length", "greater than zero"),
+        ("0 ft", "length", "greater than zero"),
+        ("nan ft", "length", "not NaN"),
+        ("inf ft", "length", "finite"),
+        ("12 blargs", "length", "not a unit"),
+        ("five ft", "length", "number followed by a unit"),
+        ("5 kVA", "percent", "percent"),
+    ],
+)
+def test_parse_quantity_errors(text, dim, match):
+    with pytest.raises(UnitParseError, match=match):
+        parse_quantity(text, dim)
+
+
+def test_infinite_bus_allowed_only_when_asked():
+    assert parse_quantity("infinite", "current", allow_inf=True) == math.inf
+    with pytest.raises(UnitParseError):
+        parse_quantity("infinite", "current")
+
+
+@pytest.mark.parametrize(
+    ("text", "line", "neutral", "phases", "kind"),
+    [
+        ("480 V delta", 480, None, 3, "delta"),
+        ("208Y/120 V", 208, 120, 3, "wye"),
+        ("480Y/277 V", 480, 277, 3, "wye"),
+        ("120/240 V", 240, 120, 1, "split"),
+        ("240/120 V", 240, 120, 1, "split"),
+    ],
+)
+def test_voltage_systems(text, line, neutral, phases, kind):
+    v = parse_voltage_system(text)
+    assert (v.line_v, v.neutral_v, v.phases, v.kind) == (line, neutral, phases, kind)
+
+
+def test_single_phase_plain_voltage_needs_phase_count():
+    assert parse_voltage_system("240 V", phases=1).kind == "single"
+    assert parse_voltage_system("240 V", phases=3).phases == 3
+
+
+@pytest.mark.parametrize("text", ["208Y/100 V", "120/208 V", "480 kV", "delta", ""])
+def test_bad_voltage_systems(text):
+    with pytest.raises(UnitParseError):
+        parse_voltage_system(text)
