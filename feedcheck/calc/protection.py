@@ -1,0 +1,332 @@
+"""Conductor protection and equipment grounding conductor size.
+
+* Device vs conductor (NFPA 70 240.4): a conductor is protected at its ampacity; when the
+  ampacity is not a standard rating, the next higher standard rating is permitted up to
+  800 A (240.4(B)); above 800 A the ampacity must be at least the rating (240.4(C)); the
+  small-conductor limits of 240.4(D) cap 14–10 AWG copper and 12–10 AWG aluminum.
+* Device vs load (215.3, 210.20(A)): at least 125 % of the continuous load plus 100 % of
+  the noncontinuous load.
+* Equipment grounding conductor (250.122): table size by device rating, increased in
+  proportion to circular-mil area when the ungrounded conductors are upsized, never
+  larger than the ungrounded conductors, one full-size EGC per raceway of a parallel run.
+
+Standard ratings come from ``tables/device_ratings.csv`` (240.6(A)).
+
+References
+----------
+NFPA 70 National Electrical Code, 2023: 210.20(A), 215.3, 240.4, 240.6(A), 250.122.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from functools import lru_cache
+
+import numpy as np
+
+from .conductor import AREA_MM2, SIZE_NAMES, material_index, size_index
+from .sizes import SIZES, smallest_at_least
+
+NEXT_SIZE_UP_MAX_A = 800.0  # 240.4(B)(3), also in tables/protection_rules.csv
+CONTINUOUS_FACTOR = 1.25  # 215.3
+
+
+@dataclass(frozen=True)
+class ProtectionTables:
+    """Standard ratings, small-conductor limits and EGC rows as arrays."""
+
+    breaker_a: np.ndarray
+    fuse_a: np.ndarray
+    small_limit_a: np.ndarray  # shape (2, n_sizes), inf where no limit
+    small_rule_id: tuple[tuple[str, ...], ...]
+    egc_up_to_a: np.ndarray
+    egc_cu: tuple[str, ...]
+    egc_al: tuple[str, ...]
+
+
+@lru_cache(maxsize=4)
+def _load(_key: object = None) -> ProtectionTables:
+    from ..tables import load_table
+
+    dev = load_table("device_ratings").data
+    small = load_table("small_conductor_limits").data
+    egc = load_table("egc_size").data
+    lim = np.full((2, len(SIZE_NAMES)), np.inf)
+    rid = [[""] * len(SIZE_NAMES) for _ in range(2)]
+    for r in small.itertuples(index=False):
+        m, i = int(material_index(r.material)), int(size_index(r.size))
+        lim[m, i] = float(r.max_device_a)
+        rid[m][i] = str(r.rule_id)
+    return ProtectionTables(
+        dev.loc[dev["breaker"] == "yes", "rating_a"].to_numpy(float),
+        dev.loc[dev["fuse"] == "yes", "rating_a"].to_numpy(float), lim,
+        tuple(tuple(x) for x in rid), egc["device_up_to_a"].to_numpy(float),
+        tuple(str(SIZES[s].name) if s in SIZES else s for s in egc["cu"]),
+        tuple(str(SIZES[s].name) if s in SIZES else s for s in egc["al"]))
+
+
+def protection_tables() -> ProtectionTables:
+    """The protection tables (loaded once per tables folder, cached)."""
+    from ..tables import user_tables_dir
+
+    return _load(str(user_tables_dir()))
+
+
+def standard_ratings_a(kind: str = "breaker", tables: ProtectionTables | None = None):
+    """Standard ratings [A] of ``"breaker"`` or ``"fuse"`` (240.6(A)), ascending."""
+    t = tables or protection_tables()
+    if kind not in ("breaker", "fuse"):
+        raise ValueError(f"kind: got {kind!r}; expected 'breaker' or 'fuse'")
+    return t.breaker_a if kind == "breaker" else t.fuse_a
+
+
+def _positive(x, name):
+    a = np.asarray(x, dtype=float)
+    if not np.all(np.isfinite(a) & (a >= 0)):
+        raise ValueError(f"{name}: got {a[~(np.isfinite(a) & (a >= 0))].ravel()[0]}; "
+                         "expected a finite current ≥ 0 A")
+    return a
+
+
+def next_standard_rating_a(current_a, kind: str = "breaker",
+                           tables: ProtectionTables | None = None):
+    """Smallest standard device rating [A] at least ``current_a`` (vectorised).
+
+    Raises
+    ------
+    ValueError
+        Current above the largest standard rating (6000 A).
+
+    Examples
+    --------
+    >>> float(next_standard_rating_a(164.3)), float(next_standard_rating_a(175.0))
+    (175.0, 175.0)
+
+    References
+    ----------
+    NFPA 70-2023 240.6(A) Table 240.6(A).
+    """
+    r = standard_ratings_a(kind, tables)
+    a = _positive(current_a, "current_a")
+    i = np.searchsorted(r, a * (1 - 1e-12), side="left")
+    if np.any(i >= len(r)):
+        raise ValueError(f"current_a: got {a.max():g} A; expected at most {r[-1]:g} A, the "
+                         "largest standard rating")
+    out = r[i]
+    return out[()] if out.ndim == 0 else out
+
+
+def _largest_standard_at_most(a, r):
+    i = np.searchsorted(r, a * (1 + 1e-12), side="right") - 1
+    return np.where(i >= 0, r[np.maximum(i, 0)], 0.0)
+
+
+def device_min_for_load_a(continuous_a, noncontinuous_a=0.0):
+    """Least device rating [A] for a load: 1.25 × continuous + noncontinuous (215.3).
+
+    Examples
+    --------
+    >>> float(device_min_for_load_a(100.0, 20.0))
+    145.0
+    """
+    c = _positive(continuous_a, "continuous_a")
+    n = _positive(noncontinuous_a, "noncontinuous_a")
+    out = CONTINUOUS_FACTOR * c + n
+    return out[()] if out.ndim == 0 else out
+
+
+def max_device_a(ampacity_a, size, material, kind: str = "breaker",
+                 tables: ProtectionTables | None = None):
+    """Largest device rating [A] that protects a conductor of the given ampacity.
+
+    Method: ``next_standard(ampacity)`` when that is 800 A or less (240.4(B)); otherwise
+    the largest standard rating not above the ampacity (240.4(C)); then the 240.4(D)
+    small-conductor limit for 14/12/10 AWG Cu and 12/10 AWG Al.
+
+    Parameters
+    ----------
+    ampacity_a : float or array_like
+        Allowable ampacity of the conductors after every correction, all sets [A].
+    size : str or array_like of str
+        Conductor size name(s) (for 240.4(D)).
+    material : str or array_like of str
+        ``"cu"`` or ``"al"``.
+    kind : str
+        ``"breaker"`` or ``"fuse"`` (which standard ratings to round to).
+
+    Returns
+    -------
+    device_a : float or ndarray
+        Largest permitted device rating [A] (0 when no standard rating fits).
+
+    Examples
+    --------
+    >>> float(max_device_a(164.3, "3/0 AWG", "cu")), float(max_device_a(30.0, "12 AWG", "cu"))
+    (175.0, 20.0)
+    >>> float(max_device_a(850.0, "600 kcmil", "cu"))  # 240.4(C): not above the ampacity
+    800.0
+
+    References
+    ----------
+    NFPA 70-2023 240.4(B), (C), (D); 240.6(A).
+    """
+    t = tables or protection_tables()
+    r = standard_ratings_a(kind, t)
+    a = _positive(ampacity_a, "ampacity_a")
+    i = np.searchsorted(r, a * (1 - 1e-12), side="left")
+    nxt = r[np.minimum(i, len(r) - 1)]
+    up = np.where((i < len(r)) & (nxt <= NEXT_SIZE_UP_MAX_A), nxt, _largest_standard_at_most(a, r))
+    lim = t.small_limit_a[material_index(material), size_index(size)]
+    out = np.minimum(up, lim)
+    return out[()] if out.ndim == 0 else out
+
+
+def device_protects_conductor(device_a, ampacity_a, size, material, kind: str = "breaker",
+                              tables: ProtectionTables | None = None):
+    """True where ``device_a`` ≤ :func:`max_device_a` (vectorised)."""
+    d = _positive(device_a, "device_a")
+    out = d <= max_device_a(ampacity_a, size, material, kind, tables) + 1e-9
+    return out[()] if out.ndim == 0 else out
+
+
+@dataclass(frozen=True)
+class ProtectionCheck:
+    """Device-vs-conductor check of one run."""
+
+    device_a: float
+    ampacity_a: float
+    max_device_a: float
+    ok: bool
+    rule_id: str
+    note: str
+
+
+def conductor_protection(device_a: float, ampacity_a: float, size: str, material: str,
+                         kind: str = "breaker",
+                         tables: ProtectionTables | None = None) -> ProtectionCheck:
+    """Check one device against one run's ampacity, naming the governing rule.
+
+    Examples
+    --------
+    >>> c = conductor_protection(20.0, 25.0, "12 AWG", "cu")
+    >>> c.ok, c.rule_id
+    (True, 'nec-240.4(D)(5)-cu12')
+    """
+    t = tables or protection_tables()
+    mx = float(max_device_a(ampacity_a, size, material, kind, t))
+    m, i = int(material_index(material)), int(size_index(size))
+    small = t.small_limit_a[m, i]
+    if np.isfinite(small) and small <= mx:
+        rid, why = t.small_rule_id[m][i], f"small-conductor limit {small:g} A"
+    elif mx > ampacity_a + 1e-9:
+        rid, why = "prot-next-size-up", "next standard rating above the ampacity (≤ 800 A)"
+    elif ampacity_a > NEXT_SIZE_UP_MAX_A:
+        rid, why = "prot-over-800", "over 800 A the device may not exceed the ampacity"
+    else:
+        rid, why = "prot-ampacity", "device at most the ampacity"
+    ok = device_a <= mx + 1e-9
+    note = (f"{device_a:g} A device, {ampacity_a:.1f} A conductor: largest permitted "
+            f"{mx:g} A ({why})")
+    return ProtectionCheck(float(device_a), float(ampacity_a), mx, bool(ok), rid, note)
+
+
+@dataclass(frozen=True)
+class EgcResult:
+    """Equipment grounding conductor size and the reasoning behind it."""
+
+    size: str
+    material: str
+    table_size: str
+    device_a: float
+    ratio: float
+    capped_at_phase: bool
+    per_raceway: int
+    rule_ids: tuple[str, ...]
+    reasoning: str
+
+
+def egc_size(device_a: float, material: str = "cu", phase_size: str | None = None,
+             phase_min_size: str | None = None, phase_material: str | None = None,
+             sets: int = 1, tables: ProtectionTables | None = None) -> EgcResult:
+    """Minimum equipment grounding conductor for a run (250.122).
+
+    Parameters
+    ----------
+    device_a : float
+        Rating of the overcurrent device ahead of the run [A] (≤ 6000).
+    material : str
+        EGC material, ``"cu"`` or ``"al"``.
+    phase_size : str, optional
+        Ungrounded conductor size actually installed (per set).
+    phase_min_size : str, optional
+        Smallest ungrounded size that would have had enough ampacity (per set). When
+        ``phase_size`` is larger, the EGC grows by the circular-mil ratio (250.122(B)).
+    phase_material : str, optional
+        Material of the ungrounded conductors (default: same as the EGC). The "never
+        larger than the circuit conductors" cap (250.122(A)) is applied by area when the
+        materials match, and by area of equal conductance (Al area × ρCu/ρAl) otherwise.
+    sets : int
+        Parallel sets; a full-size EGC runs in each raceway (250.122(F)).
+
+    Returns
+    -------
+    EgcResult
+        ``size`` per raceway, ``per_raceway`` count, ``reasoning`` sentence, rule ids.
+
+    Examples
+    --------
+    >>> egc_size(400.0).size
+    '3 AWG'
+    >>> r = egc_size(200.0, phase_size="250 kcmil", phase_min_size="3/0 AWG")
+    >>> r.size, round(r.ratio, 3)   # 6 AWG × 250/167.8 = 39.1 kcmil → 4 AWG
+    ('4 AWG', 1.49)
+
+    References
+    ----------
+    NFPA 70-2023 250.122(A), (B), (F); Table 250.122.
+    """
+    t = tables or protection_tables()
+    if not (np.isfinite(device_a) and 0 < device_a <= t.egc_up_to_a[-1]):
+        raise ValueError(f"device_a: got {device_a}; expected a device rating from 1 to "
+                         f"{t.egc_up_to_a[-1]:g} A (Table 250.122)")
+    if not (isinstance(sets, int | np.integer) and sets >= 1):
+        raise ValueError(f"sets: got {sets}; expected a whole number ≥ 1")
+    m = int(material_index(material))
+    row = int(np.searchsorted(t.egc_up_to_a, device_a * (1 - 1e-12), side="left"))
+    table_name = (t.egc_cu if m == 0 else t.egc_al)[row]
+    table = SIZES[table_name]
+    rules = ["egc-table"]
+    ratio = 1.0
+    area = table.area_mm2
+    why = [f"Table 250.122 gives {table_name} {material} for a {device_a:g} A device"]
+    if phase_size is not None and phase_min_size is not None:
+        ps, pm = AREA_MM2[size_index(phase_size)], AREA_MM2[size_index(phase_min_size)]
+        if ps > pm * (1 + 1e-9):
+            ratio = float(ps / pm)
+            area = table.area_mm2 * ratio
+            rules.append("egc-proportional")
+            why.append(f"phase conductors upsized {SIZE_NAMES[size_index(phase_min_size)]} → "
+                       f"{SIZE_NAMES[size_index(phase_size)]} (×{ratio:.3f} circular mils)")
+    chosen = smallest_at_least(area, "awg")
+    if chosen is None:
+        raise ValueError(f"device_a: EGC area {area:.0f} mm² exceeds the largest size")
+    capped = False
+    if phase_size is not None:
+        pmat = int(material_index(phase_material or material))
+        cap_area = float(AREA_MM2[size_index(phase_size)])
+        if pmat != m:  # equal-conductance area of the EGC material
+            from .conductor import conductor_data
+
+            rho = conductor_data().rho20
+            cap_area *= rho[m] / rho[pmat]
+        if chosen.area_mm2 > cap_area * (1 + 1e-9):
+            capped_size = smallest_at_least(cap_area, "awg") or chosen
+            if capped_size.area_mm2 < chosen.area_mm2:
+                chosen, capped = capped_size, True
+                rules.append("egc-not-larger")
+                why.append("not larger than the ungrounded conductors")
+    if sets > 1:
+        rules.append("egc-parallel")
+        why.append(f"one {chosen.name} in each of {sets} raceways")
+    return EgcResult(chosen.name, ("cu", "al")[m], table_name, float(device_a), ratio, capped,
+                     int(sets), tuple(rules), "; ".join(why) + f" → {chosen.name} {material}")

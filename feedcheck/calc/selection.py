@@ -1,0 +1,207 @@
+"""Smallest conductor meeting every criterion, and which criterion governed.
+
+Criteria, each checked on every standard size in ascending order:
+
+* **ampacity** — :func:`~feedcheck.calc.ampacity.ampacity_chain` load checks
+  (125 % of continuous + noncontinuous before adjustment at the termination column;
+  the load after correction, adjustment and the termination cap), 215.2(A)(1);
+* **protection** — the device protects the conductor (240.4(B)–(D));
+* **voltage drop** — approximate drop ``k·I·L·(R cos θ + X sin θ)/sets`` (k = √3
+  three-phase, 2 single-phase) at the load current with R at 75 °C, against a limit
+  in percent of the nominal voltage;
+* **withstand** — the adiabatic withstand current ``k·S/√t`` of the phase conductor
+  at least the available fault current for the clearing time.
+
+The device, when not given, is the next standard rating at least 1.25 × continuous +
+noncontinuous (215.3). The selected size is the smallest meeting all criteria; the
+governing criterion is the one whose own smallest size is the largest (ties: the
+first in the order above).
+
+References
+----------
+NFPA 70-2023 110.14(C), 215.2(A)(1), 215.3, 240.4, 310.10(G), 310.15; IEC 60364-4-43
+434.5.2; NFPA 70 informational notes to 210.19(A) and 215.2(A) (3 % / 5 % drop).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from .ampacity import PARALLEL_MIN_AREA_MM2, AmpacityChain, ampacity_chain, ampacity_tables
+from .conductor import AREA_MM2, ac_impedance_ohm_per_m, size_index
+from .protection import device_min_for_load_a, max_device_a, next_standard_rating_a
+from .sizes import AWG_KCMIL_ORDER, METRIC_ORDER
+from .withstand import k_constant, withstand_current_a
+
+CRITERIA = ("ampacity", "protection", "voltage drop", "withstand")
+VDROP_CONDUCTOR_C = 75.0
+
+
+def _vdrop_v(current_a, r_ohm_per_m, x_ohm_per_m, length_m, pf, phases, sets):
+    """Approximate drop; uses feedcheck.calc.vdrop when present."""
+    try:
+        from .vdrop import voltage_drop_approximate_v
+    except ImportError:  # pragma: no cover - vdrop.py is written by another module owner
+        k = np.sqrt(3.0) if phases == 3 else 2.0
+        sin = np.sqrt(1.0 - pf * pf)
+        return k * current_a * length_m * (r_ohm_per_m * pf + x_ohm_per_m * sin) / sets
+    return float(voltage_drop_approximate_v(current_a, r_ohm_per_m, x_ohm_per_m, length_m, pf,
+                                            circuit="3ph" if phases == 3 else "1ph2w",
+                                            sets=sets))
+
+
+@dataclass(frozen=True)
+class Selection:
+    """Result of :func:`select_conductor`."""
+
+    size: str
+    sets: int
+    device_a: float
+    termination_c: float
+    governing: str
+    minimum_by_criterion: tuple[tuple[str, str], ...]
+    chain: AmpacityChain
+    max_device_a: float
+    vdrop_pct: float | None
+    withstand_a: float | None
+    rule_ids: tuple[str, ...]
+
+
+def select_conductor(continuous_a: float, noncontinuous_a: float = 0.0, material: str = "cu",
+                     insulation_c: float = 75.0, ambient_c: float = 30.0,
+                     current_carrying: int = 3, termination_c: float | None = None,
+                     sets: int = 1, raceway: str = "steel", device_a: float | None = None,
+                     length_m: float = 0.0, voltage_v: float | None = None, phases: int = 3,
+                     pf: float = 0.9, vdrop_max_pct: float = 3.0, fault_a: float | None = None,
+                     clearing_s: float | None = None, withstand_insulation: str = "thermoplastic",
+                     rooftop_adder_c: float = 0.0, equipment_75c: bool = False,
+                     system: str = "awg") -> Selection:
+    """Smallest conductor size meeting ampacity, protection, voltage drop and withstand.
+
+    Parameters
+    ----------
+    continuous_a, noncontinuous_a : float
+        Load currents [A].
+    material : str
+        ``"cu"`` or ``"al"``.
+    insulation_c : float
+        Insulation column [°C] (60, 75, 90).
+    ambient_c : float
+        Ambient [°C].
+    current_carrying : int
+        Current-carrying conductors per raceway.
+    termination_c : float, optional
+        Termination column [°C]; default by 110.14(C)(1) from the device and size
+        (``equipment_75c`` when the equipment is marked for 75 °C).
+    sets : int
+        Parallel sets (each ≥ 1/0 AWG when > 1).
+    raceway : str
+        ``steel``, ``aluminum``, ``pvc``, ``cable`` or ``free-air`` (free air uses
+        Table 310.17).
+    device_a : float, optional
+        Overcurrent device [A]; default the next standard rating ≥ 1.25 Ic + Inc.
+    length_m, voltage_v, phases, pf, vdrop_max_pct :
+        One-way length [m], nominal line-to-line (three-phase) or line voltage [V],
+        1 or 3, power factor, drop limit [%]. The drop is checked when ``length_m`` > 0
+        and ``voltage_v`` is given.
+    fault_a, clearing_s : float, optional
+        Available fault current [A] and device clearing time [s] (withstand check).
+    withstand_insulation : str
+        ``"thermoplastic"`` (THHN-like) or ``"thermoset"`` (XHHW-like) for k.
+    system : str
+        ``"awg"`` (AWG/kcmil) or ``"metric"``.
+
+    Returns
+    -------
+    Selection
+
+    Raises
+    ------
+    ValueError
+        Bad input, a device smaller than the load requires, or no size meets every
+        criterion.
+
+    Examples
+    --------
+    >>> s = select_conductor(150.0, 30.0, "cu", 90.0, 40.0, 6)  # 4/0 carries it; 225 A needs more
+    >>> s.size, s.device_a, s.governing
+    ('250 kcmil', 225.0, 'protection')
+
+    References
+    ----------
+    NFPA 70-2023 110.14(C), 215.2(A)(1), 215.3, 240.4; IEC 60364-4-43 434.5.2.
+    """
+    if phases not in (1, 3):
+        raise ValueError(f"phases: got {phases}; expected 1 or 3")
+    if not (0 < pf <= 1):
+        raise ValueError(f"pf: got {pf}; expected a power factor in (0, 1]")
+    if system not in ("awg", "metric"):
+        raise ValueError(f"system: got {system!r}; expected 'awg' or 'metric'")
+    if not (isinstance(sets, int | np.integer) and sets >= 1):
+        raise ValueError(f"sets: got {sets}; expected a whole number ≥ 1")
+    need = float(device_min_for_load_a(continuous_a, noncontinuous_a))
+    if need <= 0:
+        raise ValueError("continuous_a, noncontinuous_a: expected a load above 0 A")
+    dev = float(next_standard_rating_a(need)) if device_a is None else float(device_a)
+    if dev < need - 1e-9:
+        raise ValueError(f"device_a: got {dev:g} A; expected at least {need:g} A "
+                         "(125 % of continuous + noncontinuous, NFPA 70 215.3)")
+    check_vd = length_m > 0 and voltage_v is not None
+    check_ws = fault_a is not None
+    if check_ws and clearing_s is None:
+        raise ValueError("clearing_s: expected a clearing time with fault_a")
+    load_a = continuous_a + noncontinuous_a
+    free_air = raceway == "free-air"
+    tabs = ampacity_tables()
+    order = AWG_KCMIL_ORDER if system == "awg" else METRIC_ORDER
+    first: dict[str, str] = {}
+    chosen = None
+    for name in order:
+        idx = int(size_index(name))
+        area = float(AREA_MM2[idx])
+        if sets > 1 and area < PARALLEL_MIN_AREA_MM2 * (1 - 1e-9):
+            continue
+        m = 0 if material == "cu" else 1
+        if np.isnan(tabs.raceway_a[m, 0, idx]):
+            continue
+        term = termination_c if termination_c is not None else (
+            60.0 if ((dev <= 100.0 or area <= float(AREA_MM2[size_index("1 AWG")]))
+                     and not equipment_75c) else 75.0)
+        chain = ampacity_chain(name, material, insulation_c, ambient_c, current_carrying, term,
+                               sets, free_air, rooftop_adder_c, continuous_a, noncontinuous_a)
+        mx = float(max_device_a(chain.final_a, name, material))
+        passed = {"ampacity": chain.ok_before and chain.ok_after, "protection": dev <= mx + 1e-9}
+        vd_pct = None
+        if check_vd:
+            r, x = ac_impedance_ohm_per_m(name, material, raceway, VDROP_CONDUCTOR_C)
+            vd_pct = 100.0 * _vdrop_v(load_a, r, x, length_m, pf, phases, sets) / voltage_v
+            passed["voltage drop"] = vd_pct <= vdrop_max_pct + 1e-12
+        ws = None
+        if check_ws:
+            k = k_constant(withstand_insulation, material, "line", area).k
+            ws = float(withstand_current_a(area, clearing_s, k)) * sets
+            passed["withstand"] = ws >= fault_a
+        for c, ok in passed.items():
+            if ok and c not in first:
+                first[c] = name
+        if chosen is None and all(passed.values()):
+            chosen = (name, term, chain, mx, vd_pct, ws)
+            if len(first) == len(passed):
+                break
+    if chosen is None:
+        missing = [c for c in CRITERIA if c not in first and (
+            c in ("ampacity", "protection") or (c == "voltage drop" and check_vd)
+            or (c == "withstand" and check_ws))]
+        raise ValueError("no standard size meets every criterion"
+                         + (f" (none meets: {', '.join(missing)})" if missing else "")
+                         + "; try more parallel sets, a higher insulation column or a "
+                         "shorter run")
+    name, term, chain, mx, vd_pct, ws = chosen
+    rank = {n: i for i, n in enumerate(order)}
+    present = [c for c in CRITERIA if c in first]
+    governing = max(present, key=lambda c: (rank[first[c]], -CRITERIA.index(c)))
+    rules = [*chain.rule_ids, "device-continuous-125", "prot-next-size-up"]
+    return Selection(name, sets, dev, term, governing,
+                     tuple((c, first[c]) for c in present), chain, mx, vd_pct, ws, tuple(rules))
