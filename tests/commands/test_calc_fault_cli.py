@@ -1,0 +1,87 @@
+"""``feedcheck calc fault`` through click's CliRunner."""
+
+from __future__ import annotations
+
+import math
+
+import pytest
+from click.testing import CliRunner
+
+from feedcheck import CAUTION
+from feedcheck.commands.calc_fault import fault_command
+
+BASE = ["--kva", "75kVA", "--primary", "480 V delta", "--secondary", "208Y/120 V", "--z", "5.1%",
+        "--x-r", "3.5"]
+
+
+def _run(args):
+    return CliRunner().invoke(fault_command, args)
+
+
+def _figure(text, label, section):
+    part = text.split(f"At the {section}:")[1]
+    line = next(ln for ln in part.splitlines() if ln.strip().startswith(label))
+    return float(line.split(label)[1].split("A")[0].replace(",", ""))
+
+
+def test_infinite_source_terminals_match_formula():
+    """At the terminals with an infinite primary: I·100/(%Z·(1 − 0.075)) for the maximum
+    (REFERENCES.md, H; IEEE C57.12.00 tolerance) and I·100/(%Z·1.075) for the minimum."""
+    res = _run(BASE)
+    assert res.exit_code == 0, res.output
+    rated = 75e3 / (math.sqrt(3) * 208.0)
+    assert _figure(res.output, "three-phase maximum", "secondary terminals") == pytest.approx(
+        rated * 100 / (5.1 * 0.925), abs=0.6)
+    assert _figure(res.output, "three-phase minimum", "secondary terminals") == pytest.approx(
+        rated * 100 / (5.1 * 1.075), abs=0.6)
+    assert CAUTION in res.output
+
+
+def test_full_run_prints_every_figure():
+    res = _run([*BASE, "--source-fault", "30kA", "--source-x-r", "6", "--length", "95 ft",
+                       "--size", "4/0 AWG", "--material", "cu", "--raceway", "steel",
+                       "--ground", "4 AWG", "--device", "225A", "--motor-flc", "30A"])
+    assert res.exit_code == 0, res.output
+    for text in ("line-to-ground min", "peak (κ·√2·I)", "asym. RMS", "point-to-point",
+                 "At the end of run:", "with motors", "Device 225 A"):
+        assert text in res.output
+    end_max = _figure(res.output, "three-phase maximum", "end of run")
+    term_max = _figure(res.output, "three-phase maximum", "secondary terminals")
+    assert end_max < term_max
+    assert _figure(res.output, "point-to-point", "end of run") <= end_max
+
+
+def test_split_phase_secondary():
+    res = _run(["--kva", "50kVA", "--primary", "480 V", "--secondary", "120/240 V", "--z",
+                "2.0%", "--x-r", "1.6", "--tolerance", "0%"])
+    assert res.exit_code == 0, res.output
+    i_ll = _figure(res.output, "line-to-line maximum", "secondary terminals")
+    assert i_ll == pytest.approx(50e3 / 240 * 100 / 2.0, abs=0.6)  # REFERENCES.md, H
+    assert _figure(res.output, "line-to-neutral max", "secondary terminals") == pytest.approx(
+        1.5 * i_ll, abs=1)  # common practice multiplier, REFERENCES.md
+
+
+def test_help_has_example_and_caution():
+    res = _run(["--help"])
+    assert res.exit_code == 0
+    assert "Example:" in res.output and "licensed" in res.output
+
+
+@pytest.mark.parametrize(("extra", "code", "msg"), [
+    (["--length", "95 ft"], 2, "--length and --size"),
+    (["--z", "abc"], 2, "--z"),
+    (["--tolerance", "-5%"], 2, "tolerance_pct"),
+    (["--source-fault", "-3kA"], 2, "greater than zero"),
+    (["--ground", "4 AWG"], 2, "--ground needs a run"),
+])
+def test_bad_input_exit_2(extra, code, msg):
+    res = _run([*BASE, *extra])
+    assert res.exit_code == code
+    assert msg in res.output
+
+
+def test_registered_in_cli():
+    from feedcheck.cli import main
+
+    res = CliRunner().invoke(main, ["calc", "fault", *BASE])
+    assert res.exit_code == 0, res.output
