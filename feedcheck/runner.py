@@ -6,11 +6,16 @@ from __future__ import annotations
 from pathlib import Path
 
 from .checks import check_job
-from .job import read_job
+from .job import Job, read_job
 from .results import Results
 
 
-def run_job(job_file: str | Path) -> Results:
+def load_and_check(job_file: str | Path) -> tuple[Job, Results]:
     """Read, validate and check a job file; raises InputError on bad input."""
     job = read_job(job_file)
-    return check_job(job)
+    return job, check_job(job)
+
+
+def run_job(job_file: str | Path) -> Results:
+    """Results of :func:`load_and_check` alone."""
+    return load_and_check(job_file)[1]
