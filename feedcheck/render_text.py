@@ -6,6 +6,7 @@ import csv
 import io
 import json
 import math
+import textwrap
 
 from . import CAUTION
 from .results import Results
@@ -23,6 +24,20 @@ NODE_COLUMNS = (
     ("vdrop_pct", "drop %", 1, 2),
 )
 STATUS_WORD = {"fail": "FAIL", "warn": "WARN", "ok": "ok", "info": "info"}
+
+
+def number(v: float) -> str:
+    """A figure for people: thousands separators, no exponent, 3–4 significant digits."""
+    if math.isinf(v):
+        return "∞"
+    a = abs(v)
+    if a >= 100:
+        return f"{v:,.0f}"
+    if a >= 10:
+        return f"{v:.1f}"
+    if a >= 1:
+        return f"{v:.2f}"
+    return f"{v:.3g}"
 
 
 def _fmt(v, scale, dec) -> str:
@@ -57,13 +72,14 @@ def render_text(results: Results, show_all: bool = False) -> str:
     for f in shown:
         fig = ""
         if f.value is not None and isinstance(f.value, float):
-            fig = f"{f.value:,.4g}"
+            fig = number(f.value)
             if f.limit is not None:
-                fig += f" vs {f.limit:,.4g}"
+                fig += f" vs {number(f.limit)}"
             fig += f" {f.unit}".rstrip()
+        out.write(f"{STATUS_WORD[f.status]:4}  {f.subject}  {f.check}: {fig}  [{f.rule_id}]\n")
         out.write(
-            f"{STATUS_WORD[f.status]:4}  {f.subject:10} {f.check:30} {fig:24} "
-            f"[{f.rule_id}] {f.note}\n"
+            textwrap.fill(f.note, width=96, initial_indent="      ", subsequent_indent="      ")
+            + "\n"
         )
     c = results.counts()
     out.write(

@@ -70,6 +70,7 @@ class Results:
     assumptions: list[str] = field(default_factory=list)
     methods: list[tuple[str, str]] = field(default_factory=list)
     schedules: dict = field(default_factory=dict)
+    runs: list[dict] = field(default_factory=list)
 
     @property
     def exit_code(self) -> int:
@@ -102,6 +103,7 @@ class Results:
                 }
                 for n in self.nodes
             ],
+            "runs": [{k: clean(v) for k, v in r.items()} for r in self.runs],
             "findings": [f.as_dict() for f in self.sorted_findings()],
             "counts": self.counts(),
             "tables": self.tables,

@@ -11,7 +11,10 @@ from ..job import Job
 from ..results import NodeResult, Results
 from ..tables import used_tables
 from .context import Context, Load, build_context
+from .conductors import check_run
+from .fault import check_faults
 from .panels import check_panel
+from .vdrop import check_voltage_drop
 from .transformer import check_transformer
 
 
@@ -35,6 +38,10 @@ def check_job(job: Job, panel_loads: dict[str, Load] | None = None) -> Results:
         check_transformer(ctx, t)
     for p in job.panels:
         check_panel(ctx, p)
+    check_faults(ctx)
+    check_voltage_drop(ctx)
+    for run in job.runs:
+        check_run(ctx, run)
     return _results(ctx)
 
 
@@ -64,6 +71,20 @@ def _results(ctx: Context) -> Results:
         }
         for t in used_tables()
     ]
+    runs = [
+        {
+            "id": r.id,
+            "from": r.from_id,
+            "to": r.to_id,
+            "length_m": r.length_m,
+            "conductors": f"{r.size.name} {r.material.capitalize()}",
+            "sets": r.sets,
+            "ground": f"{r.ground.name} {r.ground_material.capitalize()}" if r.ground else None,
+            "device_a": r.device_a,
+            **ctx.run_values.get(r.id, {}),
+        }
+        for r in job.runs
+    ]
     return Results(
         summary,
         [ctx.nodes[n] for n in ctx.tree.order],
@@ -72,6 +93,7 @@ def _results(ctx: Context) -> Results:
         tables,
         ctx.assumptions,
         ctx.methods,
+        runs=runs,
     )
 
 

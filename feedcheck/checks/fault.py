@@ -1,0 +1,483 @@
+"""Available fault current at every node: maximum and minimum three-phase (ohmic
+method), minimum line-to-ground, asymmetry, the point-to-point figure beside it,
+equipment ratings, the instantaneous-trip check and the marking figures."""
+
+from __future__ import annotations
+
+import datetime as _dt
+import math
+import os
+
+import numpy as np
+
+from ..calc import conductor as ck
+from ..calc import fault as fk
+from ..calc import fault_lg as lg
+from ..calc import transformer as tk
+from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
+from ..tables import load_table
+from .context import Context
+from .impedance import (
+    SQRT3,
+    branch_impedances,
+    fault_assumptions,
+    run_impedance_ohm,
+    run_return_impedance_ohm,
+    source_impedance,
+)
+from .transformer import transformer_x_r
+
+
+def _kA(a: float) -> str:
+    return f"{a / 1000:,.2f} kA"
+
+
+def check_faults(ctx: Context) -> None:
+    job, tree = ctx.job, ctx.tree
+    fa = fault_assumptions(job)
+    order = list(tree.order)
+    pos = {n: i for i, n in enumerate(order)}
+    parent = np.array(tree.parent_index())
+    v_node = np.array([tree.voltage_of[n].line_v for n in order])
+    vb = job.source.voltage.line_v
+
+    zs = source_impedance(job)
+    b_max = branch_impedances(job, tree, fa, fa.cond_c_max, "max")
+    b_min = branch_impedances(job, tree, fa, fa.cond_c_min, "min")
+
+    def referred(branches):
+        arr = np.zeros(len(order), dtype=complex)
+        for n, z in branches.items():
+            arr[pos[n]] = z * (vb / tree.voltage_of[n].line_v) ** 2
+        return arr
+
+    zb_max, zb_min = referred(b_max), referred(b_min)
+    # a single-phase transformer on a three-phase node draws through two source lines:
+    # loop = 2·Z_parent, per-phase equivalent 2·Z_parent/√3 (instead of Z_parent)
+    for t in job.transformers:
+        p = tree.parent_node[t.id]
+        if t.secondary.phases == 1 and tree.voltage_of[p].phases == 3:
+            for zb in (zb_max, zb_min):
+                zp = fk.cumulative_impedance_ohm(parent, zb, zs)[pos[p]]
+                zb[pos[t.id]] += (2 / SQRT3 - 1) * zp
+    # motor contribution, referred to the base voltage, summed at the motor's node and
+    # every node above it, then referred back to each node's own voltage
+    motor_b = np.zeros(len(order))
+    for m in job.motors:
+        i_m = float(fk.motor_contribution_a(m.full_load_a, fa.motor_multiple))
+        motor_b[pos[m.panel_id]] += i_m * tree.voltage_of[m.panel_id].line_v / vb
+    rf = fk.radial_fault_3ph(
+        parent, v_node, zb_max, zb_min, zs, zs, fa.c_max, fa.c_min, base_voltage_ll_v=vb
+    )
+    ohmic_max_no_motor = rf.fault_max_a
+    motor_node = np.asarray(fk.subtree_sum(parent, motor_b)) * vb / v_node
+    fault_max = rf.fault_max_a + motor_node
+    peak = np.asarray(fk.peak_current_a(fault_max, rf.x_r))
+    asym = np.asarray(fk.asymmetric_rms_half_cycle_a(fault_max, rf.x_r))
+
+    ctx.method(
+        "Three-phase bolted fault, complex ohmic method: source + transformer (%Z, X/R)"
+        " + conductors summed as complex impedances, I = c·V_LL/(√3·|Z|)",
+        "IEEE Std 141-1993 (Red Book) ch. 4",
+    )
+    ctx.method("Peak current i_p = κ·√2·I, κ = 1.02 + 0.98·e^(−3R/X)", "IEC 60909-0:2016 §8.1")
+    ctx.method(
+        "Half-cycle asymmetrical RMS current I·√(1 + 2·e^(−2π/(X/R)))",
+        "IEEE Std C37.010 / IEEE Std 141 ch. 4 (DC offset decaying with X/R)",
+    )
+    ctx.assume(
+        f"Fault maximum: transformer impedance at −{fa.tolerance_pct:g} % tolerance, "
+        f"conductors at {fa.cond_c_max:g} °C; minimum: +{fa.tolerance_pct:g} %, "
+        f"conductors at {fa.cond_c_min:g} °C (tables/fault_assumptions.csv)."
+    )
+    if job.options.voltage_factor == "iec60909":
+        ctx.assume(
+            f"IEC 60909 voltage factors applied: c_max = {fa.c_max:g}, c_min = {fa.c_min:g}."
+        )
+    else:
+        ctx.assume("No voltage factor applied to fault currents (c = 1, nominal voltage).")
+    if job.motors:
+        ctx.assume(
+            f"Motor contribution: {fa.motor_multiple:g} × motor full-load current, "
+            "added at the motor's panel and every node upstream (common practice)."
+        )
+
+    lg_min = _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb)
+    ptp = _point_to_point(ctx, fa, order, rf)
+
+    when = _calc_date(job)
+    for i, n in enumerate(order):
+        node = ctx.nodes[n]
+        node.values.update(
+            {
+                "fault_max_a": float(fault_max[i]),
+                "fault_min_a": float(rf.fault_min_a[i]),
+                "x_r": float(rf.x_r[i]),
+                "peak_a": float(peak[i]),
+                "asym_rms_a": float(asym[i]),
+            }
+        )
+        if motor_node[i] > 0:
+            node.values["fault_motor_a"] = float(motor_node[i])
+        if n in lg_min:
+            node.values["fault_lg_min_a"] = lg_min[n]
+        if n in ptp:
+            node.values["fault_ptp_a"] = ptp[n]
+            diff = float(fk.percent_difference(ptp[n], ohmic_max_no_motor[i]))
+            node.values["fault_ptp_diff_pct"] = diff
+            ok = abs(diff) <= fa.ptp_disagree_pct
+            ctx.add(
+                n,
+                "point-to-point vs ohmic",
+                diff,
+                fa.ptp_disagree_pct,
+                "%",
+                "ok" if ok else "warn",
+                "fault-ptp-disagree",
+                f"point-to-point {_kA(ptp[n])} vs ohmic {_kA(ohmic_max_no_motor[i])}"
+                + ("" if ok else "; the methods disagree — review the impedance data"),
+            )
+        if n == "source":
+            continue
+        sh = ctx.sheet(n, tree.kind[n], "")
+        z_max_node = rf.z_max_ohm[i] * (v_node[i] / vb) ** 2
+        z_min_node = rf.z_min_ohm[i] * (v_node[i] / vb) ** 2
+        v = tree.voltage_of[n]
+        form = "I = c·V_LL / (√3·|Z|)" if v.phases == 3 else "I = c·V / |Z_loop| (Z_loop = √3·Z)"
+        sh.step(
+            "Total impedance to this node, maximum case",
+            "Z = Z_source + Z_transformer + Σ Z_runs (referred to this voltage)",
+            f"{z_max_node.real * 1e3:.3f} + j{z_max_node.imag * 1e3:.3f} mΩ",
+            round(abs(z_max_node) * 1e3, 3),
+            "mΩ",
+            "fault-z-tolerance",
+        )
+        sh.step(
+            "Maximum three-phase fault current",
+            form,
+            f"{fa.c_max:g} × {v.line_v:g} / (√3 × {abs(z_max_node) * 1e3:.3f} mΩ)"
+            + (f" + motors {motor_node[i]:.0f} A" if motor_node[i] > 0 else ""),
+            round(float(fault_max[i])),
+            "A",
+            "fault-cond-temp-max",
+        )
+        sh.step(
+            "Minimum three-phase fault current",
+            form,
+            f"{fa.c_min:g} × {v.line_v:g} / (√3 × {abs(z_min_node) * 1e3:.3f} mΩ)",
+            round(float(rf.fault_min_a[i])),
+            "A",
+            "fault-cond-temp-min",
+        )
+        sh.step(
+            "X/R and peak",
+            "κ = 1.02 + 0.98·e^(−3/(X/R)); i_p = κ·√2·I_max",
+            f"X/R = {rf.x_r[i]:.2f}",
+            round(float(peak[i])),
+            "A",
+            "iec60909-kappa",
+        )
+        if n in lg_min:
+            sh.step(
+                "Minimum line-to-ground fault current",
+                "I = 3·V_LN / |Z1 + Z2 + Z0|"
+                if v.kind == "wye"
+                else "I = V_LN / |Z_LN,source + Σ(Z_phase + Z_return)|",
+                f"V_LN = {v.neutral_v:g} V",
+                round(lg_min[n]),
+                "A",
+                "fault-z0-ratio-min",
+            )
+        if n in ptp:
+            sh.step(
+                "Point-to-point figure (second method)",
+                "I = I_start · Π 1/(1 + f)",
+                f"f = √3·L·I/(C·n·V) per run",
+                round(ptp[n]),
+                "A",
+                "fault-ptp-disagree",
+            )
+        _check_rating_and_marking(ctx, n, float(fault_max[i]), when)
+
+
+def _calc_date(job) -> str:
+    if job.project.date:
+        return str(job.project.date)
+    epoch = os.environ.get("SOURCE_DATE_EPOCH")
+    if epoch and epoch.isdigit():
+        return _dt.datetime.fromtimestamp(int(epoch), _dt.UTC).date().isoformat()
+    return _dt.date.today().isoformat()
+
+
+def _check_rating_and_marking(ctx: Context, n: str, fault_max: float, when: str) -> None:
+    kind = ctx.tree.kind[n]
+    ctx.add(
+        n,
+        "available fault current (marking)",
+        fault_max,
+        None,
+        "A",
+        "info",
+        "fault-marking",
+        f"maximum available fault current {_kA(fault_max)}, "
+        f"complex ohmic method (IEEE Std 141), calculated {when}",
+    )
+    if kind != "panel":
+        return
+    panel = next(p for p in ctx.job.panels if p.id == n)
+    if panel.interrupting_a is None:
+        ctx.add(
+            n,
+            "interrupting rating",
+            fault_max,
+            None,
+            "A",
+            "warn",
+            "panel-interrupting",
+            f"no interrupting rating given; it must be at least {_kA(fault_max)}",
+        )
+        return
+    ok = panel.interrupting_a >= fault_max
+    ctx.add(
+        n,
+        "interrupting rating",
+        fault_max,
+        panel.interrupting_a,
+        "A",
+        "ok" if ok else "fail",
+        "panel-interrupting",
+        f"rating {_kA(panel.interrupting_a)} vs available {_kA(fault_max)}"
+        + (
+            ""
+            if ok
+            else " — equipment with a higher rating (or a series-rated combination) is needed"
+        ),
+    )
+
+
+def _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb) -> dict[str, float]:
+    """Minimum line-to-ground current at every node below a grounded secondary
+    (wye: symmetrical components; 120/240 V: line-to-neutral loop)."""
+    job, tree = ctx.job, ctx.tree
+    z_total_min = fk.cumulative_impedance_ohm(parent, zb_min, zs)
+    n_nodes = len(order)
+    lg_parent = parent.copy()
+    root_z1 = np.zeros(n_nodes, dtype=complex)
+    root_z0 = np.zeros(n_nodes, dtype=complex)
+    b1 = np.zeros(n_nodes, dtype=complex)
+    b0 = np.zeros(n_nodes, dtype=complex)
+    in_scope = np.zeros(n_nodes, dtype=bool)
+    tx = {t.id: t for t in job.transformers}
+    for n in order:
+        i = pos[n]
+        v = tree.voltage_of[n]
+        if v.neutral_v is None or tree.upstream_transformer[n] is None:
+            lg_parent[i] = -1
+            continue
+        in_scope[i] = True
+        if tree.kind[n] == "transformer":
+            t = tx[n]
+            lg_parent[i] = -1
+            z1 = complex(z_total_min[i] * (v.line_v / vb) ** 2)  # per-phase (equivalent)
+            if v.kind == "wye":
+                zt_min = fk.transformer_fault_impedances_ohm(
+                    t.rating_va, v.line_v, t.z_pct, transformer_x_r(t), fa.tolerance_pct
+                )[1]
+                root_z1[i] = z1
+                root_z0[i] = complex(lg.transformer_zero_sequence_ohm(zt_min, fa.z0_ratio_min))
+            else:  # 120/240 V: line-to-neutral source impedance of common practice
+                z_loop = z1 * SQRT3
+                root_z1[i] = complex(fk.split_phase_source_ohm(z_loop, fa.split_ln_multiplier)[1])
+        else:
+            run = tree.parent_run[n]
+            zp = run_impedance_ohm(run, fa.cond_c_min)
+            zr = run_return_impedance_ohm(run, fa.cond_c_min)
+            if v.kind == "wye":
+                b1[i] = zp
+                b0[i] = complex(lg.run_zero_sequence_ohm(zp, zr))
+            else:
+                b1[i] = zp + zr
+    out: dict[str, float] = {}
+    if not in_scope.any():
+        return out
+    vln = np.array([tree.voltage_of[n].neutral_v or 1.0 for n in order])
+    wye = np.array([tree.voltage_of[n].kind == "wye" for n in order])
+    # walk only the nodes below grounded secondaries (each transformer is a root there)
+    keep = np.flatnonzero(in_scope)
+    new_index = np.full(n_nodes, -1)
+    new_index[keep] = np.arange(keep.size)
+    sub_parent = np.where(lg_parent[keep] >= 0, new_index[np.maximum(lg_parent[keep], 0)], -1)
+    i_wye = np.zeros(n_nodes)
+    i_split = np.zeros(n_nodes)
+    sel_w = keep[wye[keep]]
+    if sel_w.size:
+        i_wye[keep] = lg.radial_fault_lg_a(
+            sub_parent,
+            vln[keep],
+            np.where(wye[keep], b1[keep], 1e-9),
+            np.where(wye[keep], b0[keep], 1e-9),
+            np.where(wye[keep], root_z1[keep], 1e-9),
+            np.where(wye[keep], root_z0[keep], 1e-9),
+            fa.c_min,
+        )
+    if (~wye[keep]).any():
+        z_split = fk.cumulative_impedance_ohm(sub_parent, b1[keep], root_z1[keep])
+        i_split[keep] = fa.c_min * vln[keep] / np.abs(z_split)
+    ctx.method(
+        "Line-to-ground fault by symmetrical components, I = 3·V_LN/|Z1 + Z2 + Z0|; "
+        "delta–wye transformer Z0 = k·Z1_T; run Z0 = Z_phase + 3·Z_return",
+        "IEEE Std 141-1993 ch. 4; IEC 60909-0 §7.1.3",
+    )
+    for n in order:
+        i = pos[n]
+        if in_scope[i]:
+            out[n] = float(i_wye[i] if wye[i] else i_split[i])
+    _instantaneous_checks(ctx, fa, out, pos, lg_parent, b1, b0, root_z1, root_z0)
+    return out
+
+
+def _pickup(ctx, device_a: float, given: float | None) -> tuple[float, float, str]:
+    if given is not None:
+        return given / device_a, 0.0, "setting given in the job"
+    t = load_table("instantaneous_pickup").data
+    rows = t[
+        (t["device_type"].str.startswith("breaker-tm"))
+        & (t["rating_from_a"] < device_a)
+        & (device_a <= t["rating_to_a"])
+    ]
+    row = rows.iloc[0] if not rows.empty else t.iloc[0]
+    ctx.assume(
+        "Instantaneous pick-up of feeder devices: typical thermal-magnetic breaker "
+        "multiple from tables/instantaneous_pickup.csv unless the job gives "
+        "instantaneous_trip (common practice — check the device's curve)."
+    )
+    return float(row["multiple"]), float(row["tolerance_pct"]), str(row["rule_id"])
+
+
+def _instantaneous_checks(ctx, fa, lg_min, pos, lg_parent, b1, b0, root_z1, root_z0) -> None:
+    """Does the device feeding each panel trip instantaneously for a far-end ground fault?"""
+    job, tree = ctx.job, ctx.tree
+    tx = {t.id: t for t in job.transformers}
+    for p in job.panels:
+        if p.id not in lg_min:
+            continue
+        run = tree.parent_run[p.id]
+        up = tree.parent_node[p.id]
+        device = run.device_a
+        if device is None and up in tx:
+            device = tx[up].secondary_device_a
+        if device is None:
+            continue
+        mult, tol, rid = _pickup(ctx, device, p.instantaneous_a)
+        chk = lg.instantaneous_trip_check(lg_min[p.id], device, mult, tol)
+        note = (
+            f"minimum line-to-ground {_kA(lg_min[p.id])} vs instantaneous pick-up "
+            f"{_kA(chk.required_a)} ({mult:g} × {device:g} A"
+            + (f" + {tol:g} % tolerance" if tol else "")
+            + ")"
+        )
+        if not chk.trips:
+            note += "; " + _trip_fixes(
+                ctx, fa, p.id, run, chk.required_a, pos, lg_parent, b1, b0, root_z1, root_z0
+            )
+        ctx.add(
+            p.id,
+            "ground fault trips instantaneously",
+            lg_min[p.id],
+            chk.required_a,
+            "A",
+            "ok" if chk.trips else "warn",
+            rid,
+            note,
+        )
+
+
+def _trip_fixes(
+    ctx, fa, panel_id, run, required_a, pos, lg_parent, b1, b0, root_z1, root_z0
+) -> str:
+    """What would make the device trip: a shorter run or a larger grounding conductor."""
+    tree = ctx.tree
+    v = tree.voltage_of[panel_id]
+    up = tree.parent_node[panel_id]
+    z_up1 = fk.cumulative_impedance_ohm(lg_parent, b1, root_z1)[pos[up]]
+    z_up0 = fk.cumulative_impedance_ohm(lg_parent, b0, root_z0)[pos[up]]
+    zp = run_impedance_ohm(run, fa.cond_c_min) / run.length_m
+    zr = run_return_impedance_ohm(run, fa.cond_c_min) / run.length_m
+    if v.kind == "wye":
+        a = 2 * z_up1 + z_up0
+    else:  # loop form written in the same 3·V / |A + 3L·(zp + zr)| shape
+        a = 3 * z_up1
+    max_len = float(lg.max_length_for_trip_m(v.neutral_v, a, zp, zr, required_a, fa.c_min))
+    parts = [
+        f"it would trip with the run at most {max_len / 0.3048:,.0f} ft ({max_len:,.1f} m)"
+        if max_len > 0
+        else "no run length would make it trip"
+    ]
+    material = run.ground_material if run.ground is not None else run.material
+    order = AWG_KCMIL_ORDER if run.size.system == "awg" else METRIC_ORDER
+    names = [s for s in order if SIZES[s].area_mm2 <= run.size.area_mm2 * (1 + 1e-9)]
+    r, x = ck.ac_impedance_ohm_per_m(np.array(names), material, run.raceway, fa.cond_c_min)
+    idx = lg.smallest_return_for_trip(
+        v.neutral_v,
+        a,
+        run.length_m,
+        zp,
+        np.asarray(r) / run.sets,
+        np.asarray(x) / run.sets,
+        required_a,
+        fa.c_min,
+    )
+    if idx >= 0:
+        parts.append(f"or with a {names[idx]} {material.capitalize()} grounding conductor")
+    parts.append("or with a lower instantaneous setting")
+    return ", ".join(parts)
+
+
+def _point_to_point(ctx, fa, order, rf) -> dict[str, float]:
+    """Point-to-point figure at every node below a transformer (second method)."""
+    job, tree = ctx.job, ctx.tree
+    tx = {t.id: t for t in job.transformers}
+    out: dict[str, float] = {}
+    for n in order:
+        kind = tree.kind[n]
+        if kind == "source":
+            continue
+        v = tree.voltage_of[n]
+        if kind == "transformer":
+            t = tx[n]
+            if tree.parent_node[n] != "source" or tree.parent_run[n] is not None:
+                continue  # chained transformers: the method's transformer step is not applied
+            rated = tk.rated_current_a(t.rating_va, t.secondary.line_v, t.secondary.phases)
+            src = job.source.fault_a
+            if t.secondary.phases == 1 and job.source.voltage.phases == 3:
+                src = src * SQRT3 / 2  # line-to-line fault on a three-phase source
+            out[n] = float(
+                fk.ptp_secondary_current_a(
+                    rated,
+                    t.z_pct,
+                    fa.tolerance_pct,
+                    None if math.isinf(src) else src,
+                    t.primary.line_v,
+                    t.secondary.line_v,
+                )
+            )
+            continue
+        p = tree.parent_node[n]
+        if p not in out:
+            continue
+        run = tree.parent_run[n]
+        r, x = ck.ac_impedance_ohm_per_m(run.size.name, run.material, run.raceway, fa.cond_c_max)
+        c = float(fk.conductor_constant_a_ft_per_v(float(r), float(x)))
+        kind_ptp = "3ph" if v.phases == 3 else "1ph-ll"
+        out[n] = float(
+            fk.ptp_chain_a(out[p], [run.length_m], [c], [run.sets], v.line_v, kind_ptp)[0]
+        )
+    if out:
+        ctx.method(
+            "Point-to-point method (second figure): f = √3·L·I/(C·n·V_LL) three-phase, "
+            "2·L·I/(C·n·V_LL) single-phase; M = 1/(1 + f); C = 1000/|Z per 1000 ft| "
+            "from the same conductor impedance data",
+            "published point-to-point method of fuse manufacturers' application "
+            "literature; conductor data NFPA 70 Ch. 9 Table 9",
+        )
+    return out

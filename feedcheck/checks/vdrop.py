@@ -1,0 +1,329 @@
+"""Voltage drop from the source to every panel: transformer regulation (with its
+tap) and each run's drop by the exact phasor form, the approximate form beside it;
+limits as rules; the smallest conductor that would pass; motor starting dip."""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..calc import conductor as ck
+from ..calc import transformer as tk
+from ..calc import vdrop as vk
+from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
+from ..tables import load_table
+from .context import Context
+from .impedance import SQRT3, branch_impedances, fault_assumptions, source_impedance
+from .transformer import transformer_x_r
+
+OPERATING_C = 75.0  # conductor temperature for steady-state drop (75 °C terminations)
+
+
+@dataclass(frozen=True)
+class DropLimit:
+    scope: str
+    max_pct: float
+    status: str
+    rule_id: str
+    clause: str
+
+
+def drop_limits(ctx: Context) -> dict[str, DropLimit]:
+    """Feeder, branch and total limits for this job (rule rows, or the job's own)."""
+    t = load_table("voltage_drop_limits").data
+    opts = ctx.job.options
+    mandatory = opts.voltage_drop == "mandatory"
+    wanted = {
+        "feeder": "vd-energy-feeder-2" if mandatory else "vd-nec-feeder",
+        "branch": "vd-energy-branch-3" if mandatory else "vd-nec-branch",
+        "total": "vd-energy-total-5" if mandatory else "vd-nec-total",
+    }
+    out = {}
+    for scope, rid in wanted.items():
+        row = t[t["rule_id"] == rid].iloc[0]
+        given = {
+            "feeder": opts.feeder_drop_pct,
+            "branch": opts.branch_drop_pct,
+            "total": opts.total_drop_pct,
+        }[scope]
+        status = "fail" if mandatory else "warn"
+        if given is not None:
+            out[scope] = DropLimit(
+                scope,
+                given,
+                status,
+                f"vd-job-{scope}",
+                f"limit set in the job's [options] ({opts.voltage_drop})",
+            )
+        else:
+            out[scope] = DropLimit(scope, float(row["max_pct"]), status, rid, str(row["clause"]))
+    return out
+
+
+def circuit_kind(v) -> str:
+    return {"split": "1ph3w", "single": "1ph2w"}.get(v.kind, "3ph" if v.phases == 3 else "1ph2w")
+
+
+def check_voltage_drop(ctx: Context) -> None:
+    job, tree = ctx.job, ctx.tree
+    limits = drop_limits(ctx)
+    tx = {t.id: t for t in job.transformers}
+    v_pct: dict[str, float] = {"source": 100.0}
+    cond_drop: dict[str, float] = {"source": 0.0}  # conductor drop since the transformer [%]
+    ctx.method(
+        "Voltage drop of a run, exact phasor form: VD = Es + IR cos θ + IX sin θ − "
+        "√(Es² − (IX cos θ − IR sin θ)²); approximate form k·I·(R cos θ + X sin θ) "
+        "shown beside it",
+        "IEEE Std 141-1993 ch. 3; UFC 3-520-01",
+    )
+    ctx.method(
+        "Transformer regulation with the primary held at its actual voltage: "
+        "E_r = √(E_s² − b²) − a (per unit)",
+        "IEEE Std C57.12.80 definition; IEEE Std 141-1993 ch. 3",
+    )
+    ctx.assume(
+        "Steady-state voltage drop uses each node's demand load at its power factor, "
+        f"conductors at {OPERATING_C:g} °C, and a source at nominal voltage."
+    )
+    ctx.nodes["source"].values.update(
+        {"voltage_pct": 100.0, "vdrop_pct": 0.0, "voltage_v": job.source.voltage.line_v}
+    )
+    for n in tree.order[1:]:
+        p = tree.parent_node[n]
+        v = tree.voltage_of[n]
+        run = tree.parent_run.get(n)
+        load = ctx.loads[n]
+        pct = v_pct[p]
+        sheet = ctx.sheet(n, tree.kind[n], "")
+        if run is not None:
+            pv = tree.voltage_of[p]
+            seg = _run_drop(ctx, run, pv, load, pct, limits)
+            pct -= seg
+            cond_drop_here = cond_drop[p] + seg
+        else:
+            cond_drop_here = cond_drop[p]
+        if tree.kind[n] == "transformer":
+            t = tx[n]
+            x_r = transformer_x_r(t)
+            r_pct, x_pct = tk.impedance_parts_pct(t.z_pct, x_r)
+            frac = load.va / t.rating_va
+            sending = pct / 100.0 * (1 + t.tap_pct / 100.0)
+            reg = tk.secondary_drop_pct_exact(r_pct, x_pct, frac, load.pf, sending)
+            sheet.step(
+                "Secondary voltage under load (primary at its actual voltage, tap "
+                f"{t.tap_pct:+g} %)",
+                "E_r = √(E_s² − b²) − a; a = n(r cos φ + x sin φ), b = n(x cos φ − r sin φ)",
+                f"E_s = {sending:.4f} pu, n = {frac:.3f}, cos φ = {load.pf:.3f}",
+                round(100 * sending - reg, 3),
+                "% of nominal",
+            )
+            pct = 100 * sending - reg
+            cond_drop_here = 0.0
+            ctx.nodes[n].values["transformer_drop_pct"] = reg
+        v_pct[n] = pct
+        cond_drop[n] = cond_drop_here
+        node = ctx.nodes[n]
+        node.values["voltage_pct"] = pct
+        node.values["vdrop_pct"] = 100.0 - pct
+        node.values["conductor_vdrop_pct"] = cond_drop_here
+        node.values["voltage_v"] = v.line_v * pct / 100.0
+        if tree.kind[n] == "panel":
+            lim = limits["total"]
+            ok = cond_drop_here <= lim.max_pct + 1e-9
+            ctx.add(
+                n,
+                "conductor voltage drop since the transformer",
+                cond_drop_here,
+                lim.max_pct,
+                "%",
+                "ok" if ok else lim.status,
+                lim.rule_id,
+                f"feeder conductors from the transformer to {n}: {cond_drop_here:.2f} % "
+                f"(the panel stands at {pct:.2f} % of nominal including transformer "
+                f"regulation); branch circuits must fit in the rest of the "
+                f"{lim.max_pct:g} % total",
+            )
+    _motor_starting(ctx)
+
+
+def _run_drop(ctx: Context, run, pv, load, sending_pct: float, limits) -> float:
+    """Drop of one run [% of nominal], with its findings and calculation steps."""
+    kind = circuit_kind(pv)
+    k = SQRT3 if pv.phases == 3 else 1.0
+    current = load.va / (k * pv.line_v) if load.va > 0 else 0.0
+    pf = load.pf
+    r, x = ck.ac_impedance_ohm_per_m(run.size.name, run.material, run.raceway, OPERATING_C)
+    r, x = float(r), float(x)
+    sending_v = pv.line_v * sending_pct / 100.0
+    approx_v = float(vk.voltage_drop_approximate_v(current, r, x, run.length_m, pf, kind, run.sets))
+    exact_v = (
+        float(
+            vk.voltage_drop_exact_circuit_v(
+                sending_v, current, r, x, run.length_m, pf, kind, run.sets
+            )
+        )
+        if current > 0
+        else 0.0
+    )
+    pct = 100.0 * exact_v / pv.line_v
+    approx_pct = 100.0 * approx_v / pv.line_v
+    sh = ctx.sheet(run.id, "run", f"Run {run.id} ({run.from_id} → {run.to_id})")
+    kk = {"3ph": "√3", "1ph2w": "2", "1ph3w": "2", "ln4w": "2"}[kind]
+    sh.step(
+        "Load current on the run",
+        "I = S / (√3·V_LL)" if pv.phases == 3 else "I = S / V",
+        f"{load.va:,.0f} VA / ({'√3 × ' if pv.phases == 3 else ''}{pv.line_v:g} V)",
+        round(current, 1),
+        "A",
+    )
+    sh.step(
+        f"R and X per conductor at {OPERATING_C:g} °C ({run.raceway})",
+        "NFPA 70 Ch. 9 Table 9 (temperature-corrected)",
+        f"r = {r * 304.8:.4f} Ω/kft, x = {x * 304.8:.4f} Ω/kft",
+        "",
+        "",
+    )
+    sh.step(
+        "Voltage drop, approximate",
+        f"VD = {kk} · I · L · (R cos θ + X sin θ) / sets",
+        f"{kk} × {current:.1f} × {run.length_m:.1f} m × ({r * 1e3:.4f} × {pf:.3f} + "
+        f"{x * 1e3:.4f} × {math.sqrt(max(0.0, 1 - pf * pf)):.3f}) mΩ/m / {run.sets}",
+        round(approx_v, 2),
+        "V",
+    )
+    sh.step(
+        "Voltage drop, exact phasor (used for checks)",
+        "VD = Es + IR cos θ + IX sin θ − √(Es² − (IX cos θ − IR sin θ)²)",
+        f"Es = {sending_v:.1f} V",
+        round(exact_v, 2),
+        "V",
+    )
+    sh.step(
+        "Percent drop",
+        "VD / V_nominal × 100",
+        f"{exact_v:.2f} / {pv.line_v:g} × 100",
+        round(pct, 2),
+        "%",
+        limits["feeder"].rule_id,
+    )
+    ctx.run_values.setdefault(run.id, {}).update(
+        {
+            "current_a": current,
+            "vdrop_v": exact_v,
+            "vdrop_pct": pct,
+            "vdrop_approx_pct": approx_pct,
+            "length_m": run.length_m,
+        }
+    )
+    lim = limits["feeder"]
+    ok = pct <= lim.max_pct + 1e-9
+    note = (
+        f"{pct:.2f} % (approximate form {approx_pct:.2f} %) at {current:.0f} A over "
+        f"{run.length_m / 0.3048:,.0f} ft"
+    )
+    if not ok:
+        note += "; " + _smallest_passing(run, current, pf, kind, lim.max_pct, pv.line_v)
+    ctx.add(
+        run.id,
+        "feeder voltage drop",
+        pct,
+        lim.max_pct,
+        "%",
+        "ok" if ok else lim.status,
+        lim.rule_id,
+        note,
+    )
+    return pct
+
+
+def _smallest_passing(run, current, pf, kind, limit_pct, nominal_v) -> str:
+    order = AWG_KCMIL_ORDER if run.size.system == "awg" else METRIC_ORDER
+    names = [s for s in order if SIZES[s].area_mm2 >= run.size.area_mm2 * (1 - 1e-9)]
+    r, x = ck.ac_impedance_ohm_per_m(np.array(names), run.material, run.raceway, OPERATING_C)
+    idx = int(
+        vk.min_conductor_index(
+            current,
+            np.asarray(r),
+            np.asarray(x),
+            run.length_m,
+            pf,
+            limit_pct / 100.0 * nominal_v,
+            kind,
+            run.sets,
+        )
+    )
+    max_len = float(
+        vk.max_length_m(
+            current,
+            *ck.ac_impedance_ohm_per_m(run.size.name, run.material, run.raceway, OPERATING_C),
+            pf,
+            limit_pct / 100.0 * nominal_v,
+            kind,
+            run.sets,
+        )
+    )
+    size_text = (
+        f"smallest conductor that passes: {names[idx]} {run.material.capitalize()}"
+        if idx >= 0
+        else f"no {run.material.capitalize()} size up to {names[-1]} passes with {run.sets} set(s)"
+    )
+    return f"{size_text}; with {run.size.name} the run may be at most {max_len / 0.3048:,.0f} ft"
+
+
+def _motor_starting(ctx: Context) -> None:
+    job, tree = ctx.job, ctx.tree
+    if not job.motors:
+        return
+    fa = fault_assumptions(job)
+    branches = branch_impedances(job, tree, fa, OPERATING_C, "nominal")
+    zs = source_impedance(job)
+    vb = job.source.voltage.line_v
+    lr = load_table("motor_locked_rotor").data
+    limits = load_table("motor_starting_limits").data.set_index("rule_id")
+    lim = limits.loc["ms-motor-terminals"]
+    ctx.method(
+        "Motor starting dip, impedance divider: V_t = E_s·|Z_m|/|Z_path + Z_m| with "
+        "Z_m = V_rated/I_LR at the starting power factor",
+        "IEEE Std 399-1997 ch. 9; IEEE Std 141-1993 ch. 3",
+    )
+    for m in job.motors:
+        # path impedance from the source to the motor's panel, referred to the panel voltage
+        z = zs * 0
+        n = m.panel_id
+        chain = []
+        while n is not None and n != "source":
+            chain.append(n)
+            n = tree.parent_node[n]
+        z = zs * (1.0 if True else 0)
+        for node in reversed(chain):
+            z += branches[node] * (vb / tree.voltage_of[node].line_v) ** 2
+        v = tree.voltage_of[m.panel_id]
+        z_node = z * (v.line_v / vb) ** 2
+        hp = m.hp if m.hp is not None else math.inf
+        row = lr[lr["hp_to"] >= hp].iloc[0] if m.hp is not None else lr.iloc[-1]
+        i_lr = m.locked_rotor_a if m.locked_rotor_a else float(row["lr_multiple"]) * m.full_load_a
+        pf_start = float(row["starting_pf"])
+        if v.phases == 3:
+            es = v.line_v / SQRT3
+            zr, zx = z_node.real, z_node.imag
+        else:
+            es = v.line_v
+            zr, zx = (z_node * SQRT3).real, (z_node * SQRT3).imag
+        vt = float(vk.motor_starting_voltage_pct(es, i_lr, pf_start, zr, zx, es))
+        dip = 100.0 - vt
+        ok = dip <= float(lim["max_dip_pct"]) + 1e-9
+        ctx.add(
+            m.id,
+            "motor starting dip",
+            dip,
+            float(lim["max_dip_pct"]),
+            "%",
+            "ok" if ok else str(lim["status"]),
+            "ms-motor-terminals",
+            f"{vt:.1f} % of rated voltage at {m.panel_id} while starting "
+            f"(locked rotor {i_lr:.0f} A"
+            + ("" if m.locked_rotor_a else f", {row['lr_multiple']:g} × FLC typical")
+            + ")",
+        )
