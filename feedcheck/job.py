@@ -12,14 +12,21 @@ import math
 import re
 import tomllib
 from dataclasses import dataclass, field
-from pathlib import Path
+from pathlib import Path, PureWindowsPath
 
 from .calc.sizes import Size, SizeError, parse_size
 from .errors import ProblemList
 from .units import UnitParseError, VoltageSystem, parse_quantity, parse_voltage_system
 
 MAX_JOB_BYTES = 2_000_000
+# Values outside these ranges are not low-voltage distribution feeds: input errors.
+FAULT_RANGE_A = (100.0, 1.0e6)  # available fault current at the transformer primary
+DEVICE_RANGE_A = (1.0, 6000.0)  # ratings: 6000 A is the largest standard (NFPA 70 240.6(A))
+INTERRUPTING_RANGE_A = (1.0e3, 300.0e3)  # equipment interrupting ratings
+VOLTAGE_RANGE_V = (100.0, 1000.0)  # line-to-line; "low voltage" is 1000 V and less
 SOURCE_ID = "source"
+_DEVICE = (*DEVICE_RANGE_A, "an ampere rating from 1 A to 6000 A")
+_INTERRUPTING = (*INTERRUPTING_RANGE_A, "an interrupting rating from 1 kA to 300 kA")
 RACEWAYS = ("steel", "aluminum", "pvc", "cable", "free-air")
 
 
@@ -202,17 +209,23 @@ class _Reader:
         dimension: str,
         required: bool = True,
         default: float | None = None,
+        within: tuple[float, float, str] | None = None,
         **kw,
     ) -> float | None:
+        """``within=(lo, hi, text)``: values outside [lo, hi] (SI) are refused with ``text``."""
         if key not in table:
             if required:
                 self.add(f"{path}.{key}", None, f"a value for {key!r} (required)")
             return default
         try:
-            return parse_quantity(table[key], dimension, **kw)
+            value = parse_quantity(table[key], dimension, **kw)
         except UnitParseError as exc:
             self.add(f"{path}.{key}", table[key], exc.expected)
             return default
+        if within is not None and math.isfinite(value) and not within[0] <= value <= within[1]:
+            self.add(f"{path}.{key}", table[key], within[2])
+            return default
+        return value
 
     def number(
         self,
@@ -258,10 +271,19 @@ class _Reader:
                 self.add(f"{path}.{key}", None, f"a value for {key!r} (required)")
             return None
         try:
-            return parse_voltage_system(table[key], phases=phases)
+            vs = parse_voltage_system(table[key], phases=phases)
         except UnitParseError as exc:
             self.add(f"{path}.{key}", table[key], exc.expected)
             return None
+        lo, hi = VOLTAGE_RANGE_V
+        if not lo <= vs.line_v <= hi:
+            self.add(
+                f"{path}.{key}",
+                table[key],
+                f"a low-voltage system from {lo:g} V to {hi:g} V line to line",
+            )
+            return None
+        return vs
 
     def conductor(
         self,
@@ -406,6 +428,9 @@ def read_job(path: str | Path) -> Job:
         pl.raise_if_any()
     try:
         data = tomllib.loads(text)
+    except RecursionError:
+        pl.add("", "arrays or tables nested too deeply", "a job file nested a few levels at most")
+        pl.raise_if_any()
     except tomllib.TOMLDecodeError as exc:
         msg = str(exc)
         m = re.search(r"line (\d+)", msg)
@@ -458,6 +483,12 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
     if phases not in (1, 3):
         r.add("source.phases", phases, "1 or 3")
     sv = r.voltage(src, "source", "voltage", phases=phases) if src or "source" in data else None
+    if sv is not None and "phases" in src and sv.phases != phases and phases in (1, 3):
+        r.add(
+            "source.phases",
+            phases,
+            f"{sv.phases} to match the {sv.phases}-phase voltage {sv.text!r}",
+        )
     if "available_fault" in src and "short_circuit_mva" in src:
         r.add(
             "source.short_circuit_mva",
@@ -466,11 +497,22 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
         )
     fault_a: float | None = None
     if "short_circuit_mva" in src:
-        mva = r.qty(src, "source", "short_circuit_mva", "power")
+        mva = r.qty(src, "source", "short_circuit_mva", "power", apparent_only=True)
         if mva is not None and sv is not None:
             fault_a = mva / (math.sqrt(3) * sv.line_v if sv.phases == 3 else sv.line_v)
     elif src:
         fault_a = r.qty(src, "source", "available_fault", "current", allow_inf=True)
+    if (
+        fault_a is not None
+        and math.isfinite(fault_a)
+        and not (FAULT_RANGE_A[0] <= fault_a <= FAULT_RANGE_A[1])
+    ):
+        key = "short_circuit_mva" if "short_circuit_mva" in src else "available_fault"
+        r.add(
+            f"source.{key}",
+            src.get(key),
+            "an available fault current from 100 A to 1000 kA, or 'infinite'",
+        )
     xr_src = r.number(src, "source", "x_r", 0.1, 100, default=None)
     if fault_a is not None and math.isfinite(fault_a) and xr_src is None and "x_r" not in src:
         r.add(
@@ -504,7 +546,7 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
                 f"a {prim.phases}-phase secondary like the {prim.phases}-phase primary "
                 f"({prim.text})",
             )
-        rating = r.qty(t, path, "rating", "power")
+        rating = r.qty(t, path, "rating", "power", apparent_only=True)
         if rating is not None and not (1e3 <= rating <= 5e6):
             r.add(f"{path}.rating", t.get("rating"), "a rating from 1 kVA to 5000 kVA")
         transformers.append(
@@ -516,8 +558,10 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
                 secondary=sec,
                 z_pct=z or 1.0,
                 x_r=r.number(t, path, "x_r", 0.1, 50),
-                primary_device_a=r.qty(t, path, "primary_device", "current") or 0.0,
-                secondary_device_a=r.qty(t, path, "secondary_device", "current", required=False),
+                primary_device_a=r.qty(t, path, "primary_device", "current", within=_DEVICE) or 0.0,
+                secondary_device_a=r.qty(
+                    t, path, "secondary_device", "current", required=False, within=_DEVICE
+                ),
                 tap_pct=tap or 0.0,
                 z0_ratio=r.number(t, path, "zero_sequence_ratio", 0.1, 3, default=1.0) or 1.0,
             )
@@ -579,7 +623,7 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
                 ),
                 ground=gsize,
                 ground_material=gmat,
-                device_a=r.qty(t, path, "device", "current", required=False),
+                device_a=r.qty(t, path, "device", "current", required=False, within=_DEVICE),
                 termination_c=term,
                 rooftop_mm=r.qty(
                     t, path, "rooftop_height", "length", required=False, must_be_positive=False
@@ -591,6 +635,12 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
             )
         )
         if runs[-1].rooftop_mm is not None:
+            if runs[-1].rooftop_mm < 0:
+                r.add(
+                    f"{path}.rooftop_height",
+                    t.get("rooftop_height"),
+                    "a height above the roof of zero or more",
+                )
             runs[-1] = _replace(runs[-1], rooftop_mm=runs[-1].rooftop_mm * 1000.0)
 
     panels = []
@@ -601,20 +651,33 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
         if "schedule" in t:
             stext = r.text(t, path, "schedule")
             if stext:
-                sched = _resolve_schedule(r, f"{path}.schedule", stext)
+                sched = _resolve_schedule(r, f"{path}.schedule", stext, job_path.parent)
         pf = r.number(t, path, "power_factor", 0.05, 1.0, default=0.9)
-        load = r.qty(t, path, "load", "power", required=False)
+        load = r.qty(t, path, "load", "power", required=False, apparent_only=True)
         cont = r.qty(
-            t, path, "continuous", "power", required=False, default=0.0, must_be_positive=False
+            t,
+            path,
+            "continuous",
+            "power",
+            required=False,
+            default=0.0,
+            must_be_positive=False,
+            apparent_only=True,
         )
+        if cont is not None and cont < 0:
+            r.add(f"{path}.continuous", t.get("continuous"), "a continuous load of zero or more")
         if load is not None and cont is not None and cont > load * (1 + 1e-9):
             r.add(f"{path}.continuous", t.get("continuous"), "at most the panel's load")
         panels.append(
             Panel(
                 id=r.text(t, path, "id"),
-                rating_a=r.qty(t, path, "rating", "current") or 0.0,
-                main_device_a=r.qty(t, path, "main_device", "current", required=False),
-                interrupting_a=r.qty(t, path, "interrupting", "current", required=False),
+                rating_a=r.qty(t, path, "rating", "current", within=_DEVICE) or 0.0,
+                main_device_a=r.qty(
+                    t, path, "main_device", "current", required=False, within=_DEVICE
+                ),
+                interrupting_a=r.qty(
+                    t, path, "interrupting", "current", required=False, within=_INTERRUPTING
+                ),
                 voltage=r.voltage(t, path, "voltage", required=False),
                 schedule=sched,
                 load_va=load,
@@ -700,13 +763,34 @@ def _replace(obj, **changes):
     return replace(obj, **changes)
 
 
-def _resolve_schedule(r: _Reader, key: str, text: str) -> Path | None:
+def _resolve_schedule(r: _Reader, key: str, text: str, folder: Path) -> Path | None:
+    """A schedule path relative to the job file's folder, refused if it could lead out.
+
+    Absolute paths, drive letters, backslashes and '..' are refused as written; a
+    path that resolves (through a symbolic link) outside the folder is refused too.
+    """
+    inside = "a path inside the job file's folder (no absolute paths, no '..')"
+    if "\x00" in text or "\\" in text or PureWindowsPath(text).drive:
+        r.add(key, text, inside + " written with '/' between folders")
+        return None
     p = Path(text)
     if p.is_absolute() or ".." in p.parts:
-        r.add(key, text, "a path inside the job file's folder (no absolute paths, no '..')")
+        r.add(key, text, inside)
         return None
     if p.suffix.lower() not in (".csv", ".xlsx"):
         r.add(key, text, "a .csv or .xlsx schedule file")
+        return None
+    try:
+        base = folder.resolve()
+        real = (folder / p).resolve()
+    except (OSError, RuntimeError):  # a link loop
+        r.add(key, text, "a schedule file that can be opened (the path loops through links)")
+        return None
+    if not real.is_relative_to(base):
+        r.add(key, text, inside + "; this one leads outside it through a link")
+        return None
+    if not real.is_file():
+        r.add(key, text, f"an existing schedule file in {folder} (not found)")
         return None
     return p
 
@@ -736,8 +820,9 @@ def _check_ids_and_tree(r: _Reader, transformers, runs, panels, motors) -> None:
             else:
                 seen[e.id] = f"{kind}[{i}]"
     nodes = {SOURCE_ID: "source"}
-    nodes.update({t.id: "transformer" for t in transformers})
-    nodes.update({p.id: "panel" for p in panels})
+    # an element wrongly named 'source' is reported above; it must not hide the source
+    nodes.update({t.id: "transformer" for t in transformers if t.id != SOURCE_ID})
+    nodes.update({p.id: "panel" for p in panels if p.id != SOURCE_ID})
     all_ids = list(nodes)
     incoming: dict[str, list[str]] = {}
     for i, run in enumerate(runs, start=1):

@@ -11,9 +11,56 @@ from .results import Results
 
 
 def load_and_check(job_file: str | Path) -> tuple[Job, Results]:
-    """Read, validate and check a job file; raises InputError on bad input."""
+    """Read, validate and check a job file; raises InputError on bad input.
+
+    Panels with a ``schedule`` file: the schedule is read (every problem of every
+    schedule reported together), its demand load replaces the panel's ``load`` in the
+    feed walk, and its circuits are checked with the panel's feeder drop (node value
+    ``vdrop_pct``, cumulative from the source; 0 when absent). The checked schedules go
+    to ``results.schedules[panel_id]`` and their findings to ``results.findings``.
+    """
     job = read_job(job_file)
-    return job, check_job(job)
+    schedules = _read_job_schedules(job)
+    if not schedules:
+        return job, check_job(job)
+    from .schedule_checks import check_schedule
+    from .topology import build_tree
+
+    tree = build_tree(job)
+    checked = {pid: check_schedule(s, tree.voltage_of[pid]) for pid, s in schedules.items()}
+    results = check_job(job, {pid: r.demand for pid, r in checked.items()})
+    drops = {n.id: float(n.values.get("vdrop_pct", 0.0) or 0.0) for n in results.nodes}
+    for pid, s in schedules.items():
+        res = check_schedule(s, tree.voltage_of[pid], feeder_drop_pct=drops.get(pid, 0.0))
+        results.schedules[pid] = res
+        results.findings.extend(res.findings)
+    return job, results
+
+
+def _read_job_schedules(job: Job) -> dict:
+    """Each panel's schedule, read and validated; one InputError for all of them."""
+    from .errors import InputError
+    from .schedule import read_schedule
+
+    out, problems = {}, []
+    for p in job.panels:
+        if p.schedule is None:
+            continue
+        try:
+            sched = read_schedule(p.schedule, panel_id=p.id)
+        except InputError as exc:
+            problems.extend(exc.problems)
+            continue
+        if sched.panels != (p.id,):
+            from .errors import Problem
+
+            problems.append(Problem(str(p.schedule), "column 'panel'", ", ".join(sched.panels),
+                                    f"only panel {p.id!r} (the panel whose schedule it is)"))
+            continue
+        out[p.id] = sched
+    if problems:
+        raise InputError(problems)
+    return out
 
 
 def run_job(job_file: str | Path) -> Results:

@@ -16,7 +16,12 @@ import re
 from dataclasses import dataclass
 from functools import lru_cache
 
-_NUMBER = r"[-+]?(?:\d+(?:[.,_]\d+)*(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?|[-+]?inf(?:inity)?|nan"
+# Digits may be grouped by thousands with "," (1,200 ft) or by "_" (1_200 ft); a comma
+# in any other place ("1,5 m", a decimal comma) is refused rather than misread as 15 m.
+_NUMBER = (
+    r"[-+]?(?:[0-9]{1,3}(?:,[0-9]{3})+(?:\.[0-9]*)?|[0-9]+(?:_[0-9]+)*(?:\.[0-9]*)?|\.[0-9]+)"
+    r"(?:[eE][-+]?[0-9]+)?|[-+]?inf(?:inity)?|nan"
+)
 _QTY_RE = re.compile(rf"^\s*(?P<num>{_NUMBER})\s*(?P<unit>.*?)\s*$", re.IGNORECASE)
 
 # Dimension name -> (pint dimensionality string, SI unit the kernels use, example)
@@ -64,6 +69,9 @@ _UNIT_ALIASES = {
 }
 
 
+_APPARENT_RE = re.compile(r"^(?:[kMG]?VA|(?:kilo|mega|giga)?volt_?ampere)$")
+
+
 @lru_cache(maxsize=1)
 def registry():
     """The package's single pint UnitRegistry (created on first use)."""
@@ -95,8 +103,10 @@ class UnitParseError(ValueError):
 def split_number_unit(text: str) -> tuple[float, str]:
     """Split ``"85 ft"`` into ``(85.0, "ft")``; raise UnitParseError when no number leads."""
     m = _QTY_RE.match(str(text))
-    if not m:
-        raise UnitParseError(str(text), "a number followed by a unit")
+    if not m or re.match(r"[,_.0-9]", m.group("unit")):
+        raise UnitParseError(
+            str(text), "a number followed by a unit (use '.' for decimals, e.g. '1.5 m')"
+        )
     num = m.group("num").replace("_", "").replace(",", "")
     return float(num), m.group("unit")
 
@@ -113,6 +123,7 @@ def parse_quantity(
     allow_bare: bool = False,
     must_be_positive: bool = True,
     allow_inf: bool = False,
+    apparent_only: bool = False,
 ) -> float:
     """Parse a user value to a float in the SI unit of ``dimension``.
 
@@ -131,6 +142,10 @@ def parse_quantity(
         Reject zero and negative values (not applied to temperatures).
     allow_inf : bool
         Accept ``"infinite"`` / ``inf`` (an infinite bus).
+    apparent_only : bool
+        For ``power``: accept only apparent-power units (VA, kVA, MVA). Pint cannot
+        tell W, VA and var apart, so ``"75 kW"`` or ``"75 hp"`` would otherwise be
+        read silently as 75 kVA.
 
     Returns
     -------
@@ -175,24 +190,35 @@ def parse_quantity(
         if not allow_bare:
             raise UnitParseError(str(text), expected + " (the unit is missing)")
         result = value
+    elif apparent_only and not _APPARENT_RE.match(unit):
+        raise UnitParseError(
+            str(text), f"an apparent power in VA, kVA or MVA, e.g. {example!r} (not W, hp or var)"
+        )
     elif dimension == "percent":
         if unit not in ("%", "percent", "pct"):
             raise UnitParseError(str(text), expected)
         result = value
     else:
         ureg = registry()
+        shown = unit if len(unit) <= 40 else unit[:37] + "..."
         try:
             q = Q_(value, unit)
         except Exception:
-            raise UnitParseError(str(text), expected + f" ({unit!r} is not a unit)") from None
-        if dimension == "temperature":
-            if q.dimensionality != ureg.Unit("degC").dimensionality:
-                raise UnitParseError(str(text), expected)
-            return float(q.to("degC").magnitude)
-        target = ureg.Unit(si_unit)
+            raise UnitParseError(str(text), expected + f" ({shown!r} is not a unit)") from None
+        target = ureg.Unit("degC" if dimension == "temperature" else si_unit)
         if q.dimensionality != target.dimensionality:
             raise UnitParseError(str(text), expected)
-        result = float(q.to(target).magnitude)
+        try:
+            # a temperature difference (delta_degC) has the same dimension as a
+            # temperature but cannot be converted to one: refuse it, do not crash
+            converted = float(q.to(target).magnitude)
+        except Exception:
+            raise UnitParseError(str(text), expected + f" ({shown!r} does not convert)") from None
+        if not math.isfinite(converted):
+            raise UnitParseError(str(text), expected + " (a finite number)")
+        if dimension == "temperature":
+            return converted
+        result = converted
     if must_be_positive and not result > 0:
         raise UnitParseError(str(text), expected + " (greater than zero)")
     return result

@@ -10,12 +10,12 @@ from .. import __version__
 from ..job import Job
 from ..results import NodeResult, Results
 from ..tables import used_tables
-from .context import Context, Load, build_context
 from .conductors import check_run
+from .context import Context, Load, build_context
 from .fault import check_faults
 from .panels import check_panel
-from .vdrop import check_voltage_drop
 from .transformer import check_transformer
+from .vdrop import check_voltage_drop
 
 
 def check_job(job: Job, panel_loads: dict[str, Load] | None = None) -> Results:

@@ -99,6 +99,14 @@ def check_run(ctx: Context, run: Run) -> None:
     rooftop_c, rooftop_rule = 0.0, ""
     if run.rooftop_mm is not None:
         rooftop_c, rooftop_rule = ak.rooftop_adder_c(run.rooftop_mm / 1000.0)
+        sh.step(
+            "Rooftop raceway temperature adder",
+            "added to the ambient",
+            f"raceway {run.rooftop_mm:.0f} mm above the roof",
+            rooftop_c,
+            "°C",
+            rooftop_rule,
+        )
     if run.sets > 1 and run.size.area_kcmil < SIZES["1/0 AWG"].area_kcmil * (1 - 1e-9):
         ctx.add(
             run.id,

@@ -192,7 +192,7 @@ def check_faults(ctx: Context) -> None:
             sh.step(
                 "Point-to-point figure (second method)",
                 "I = I_start · Π 1/(1 + f)",
-                f"f = √3·L·I/(C·n·V) per run",
+                "f = √3·L·I/(C·n·V) per run",
                 round(ptp[n]),
                 "A",
                 "fault-ptp-disagree",
@@ -403,10 +403,8 @@ def _trip_fixes(
     z_up0 = fk.cumulative_impedance_ohm(lg_parent, b0, root_z0)[pos[up]]
     zp = run_impedance_ohm(run, fa.cond_c_min) / run.length_m
     zr = run_return_impedance_ohm(run, fa.cond_c_min) / run.length_m
-    if v.kind == "wye":
-        a = 2 * z_up1 + z_up0
-    else:  # loop form written in the same 3·V / |A + 3L·(zp + zr)| shape
-        a = 3 * z_up1
+    # wye: Z1 + Z2 + Z0 upstream; 120/240 V loop written in the same 3·V/|A + 3L·(zp + zr)|
+    a = 2 * z_up1 + z_up0 if v.kind == "wye" else 3 * z_up1
     max_len = float(lg.max_length_for_trip_m(v.neutral_v, a, zp, zr, required_a, fa.c_min))
     parts = [
         f"it would trip with the run at most {max_len / 0.3048:,.0f} ft ({max_len:,.1f} m)"

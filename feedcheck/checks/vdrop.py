@@ -290,13 +290,12 @@ def _motor_starting(ctx: Context) -> None:
     )
     for m in job.motors:
         # path impedance from the source to the motor's panel, referred to the panel voltage
-        z = zs * 0
         n = m.panel_id
         chain = []
         while n is not None and n != "source":
             chain.append(n)
             n = tree.parent_node[n]
-        z = zs * (1.0 if True else 0)
+        z = zs
         for node in reversed(chain):
             z += branches[node] * (vb / tree.voltage_of[node].line_v) ** 2
         v = tree.voltage_of[m.panel_id]

@@ -12,6 +12,8 @@ def register(main, calc) -> None:
         ("calc_conductor", "size_command", calc),
         ("calc_vdrop", "voltage_drop_command", calc),
         ("calc_fault", "fault_command", calc),
+        ("report", "report_command", main),
+        ("report", "rerun_command", main),
     ):
         try:
             mod = importlib.import_module(f"feedcheck.commands.{module}")
