@@ -186,7 +186,8 @@ class _Reader:
             if k not in allowed:
                 close = difflib.get_close_matches(k, allowed, n=1)
                 hint = f" — did you mean {close[0]!r}?" if close else ""
-                self.add(f"{path}.{k}", k, "one of the keys " + ", ".join(allowed) + hint)
+                where = f"{path}.{k}" if path else k
+                self.add(where, k, "one of the keys " + ", ".join(allowed) + hint)
 
     def text(
         self, table: dict, path: str, key: str, required: bool = True, default: str = ""
@@ -421,7 +422,8 @@ def read_job(path: str | Path) -> Job:
         )
         pl.raise_if_any()
     try:
-        text = raw.decode("utf-8")
+        # utf-8-sig: a byte-order mark (as some Windows editors write) is dropped
+        text = raw.decode("utf-8-sig")
     except UnicodeDecodeError as exc:
         line = raw[: exc.start].count(b"\n") + 1
         pl.add("", f"byte 0x{raw[exc.start]:02x}", "UTF-8 text (save the file as UTF-8)", line=line)
@@ -710,12 +712,13 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
         r.add("options", opts, "an [options] table")
         opts = {}
     r.check_keys(opts, "options", OPTION_KEYS)
-    tol = r.qty(opts, "options", "impedance_tolerance", "percent", required=False, default=7.5)
-    if tol is not None and tol > 20:
+    tol = r.qty(opts, "options", "impedance_tolerance", "percent", required=False, default=7.5,
+                must_be_positive=False)
+    if tol is not None and not (0 <= tol <= 20):
         r.add(
             "options.impedance_tolerance",
             opts.get("impedance_tolerance"),
-            "a tolerance up to 20 % (7.5 % per IEEE C57.12.00; 10 % is common for dry-type)",
+            "a tolerance from 0 % to 20 % (7.5 % per IEEE C57.12.00; 10 % is common for dry-type)",
         )
     vf = r.text(opts, "options", "voltage_factor", required=False, default="none")
     if vf not in ("none", "iec60909"):
@@ -797,6 +800,7 @@ def _resolve_schedule(r: _Reader, key: str, text: str, folder: Path) -> Path | N
 
 def _check_ids_and_tree(r: _Reader, transformers, runs, panels, motors) -> None:
     seen: dict[str, str] = {}
+    malformed: set[str] = set()  # reported once here, not again as unfed or unknown
     for kind, coll in (
         ("transformer", transformers),
         ("run", runs),
@@ -807,6 +811,7 @@ def _check_ids_and_tree(r: _Reader, transformers, runs, panels, motors) -> None:
             if not e.id:
                 continue
             if not _ID_RE.match(e.id):
+                malformed.add(e.id)
                 r.add(
                     f"{kind}[{i}].id",
                     e.id,
@@ -874,7 +879,7 @@ def _check_ids_and_tree(r: _Reader, transformers, runs, panels, motors) -> None:
         if len(srcs) > 1:
             r.add(f"{srcs[1]}.to", nid, f"one run into {nid!r} (radial feed; {srcs[0]} feeds it)")
     for i, p in enumerate(panels, start=1):
-        if p.id and p.id not in incoming:
+        if p.id and p.id not in incoming and p.id not in malformed:
             r.add(f"panel[{i}].id", p.id, "a [[run]] with to = " + repr(p.id) + " feeding it")
     if r.problems:
         return

@@ -7,6 +7,7 @@ from __future__ import annotations
 import datetime as _dt
 import math
 import os
+from dataclasses import dataclass
 
 import numpy as np
 
@@ -66,14 +67,15 @@ def check_faults(ctx: Context) -> None:
     for m in job.motors:
         i_m = float(fk.motor_contribution_a(m.full_load_a, fa.motor_multiple))
         motor_b[pos[m.panel_id]] += i_m * tree.voltage_of[m.panel_id].line_v / vb
-    rf = fk.radial_fault_3ph(
-        parent, v_node, zb_max, zb_min, zs, zs, fa.c_max, fa.c_min, base_voltage_ll_v=vb
-    )
+    rf = _walk_3ph(job, parent, v_node, zb_max, zb_min, zs, fa, vb)
     ohmic_max_no_motor = rf.fault_max_a
     motor_node = np.asarray(fk.subtree_sum(parent, motor_b)) * vb / v_node
     fault_max = rf.fault_max_a + motor_node
-    peak = np.asarray(fk.peak_current_a(fault_max, rf.x_r))
-    asym = np.asarray(fk.asymmetric_rms_half_cycle_a(fault_max, rf.x_r))
+    finite = np.isfinite(fault_max)
+    peak = np.full(len(order), np.inf)
+    asym = np.full(len(order), np.inf)
+    peak[finite] = fk.peak_current_a(fault_max[finite], rf.x_r[finite])
+    asym[finite] = fk.asymmetric_rms_half_cycle_a(fault_max[finite], rf.x_r[finite])
 
     ctx.method(
         "Three-phase bolted fault, complex ohmic method: source + transformer (%Z, X/R)"
@@ -200,6 +202,40 @@ def check_faults(ctx: Context) -> None:
         _check_rating_and_marking(ctx, n, float(fault_max[i]), when)
 
 
+@dataclass(frozen=True)
+class _Walk:
+    z_max_ohm: np.ndarray
+    z_min_ohm: np.ndarray
+    x_r: np.ndarray
+    fault_max_a: np.ndarray
+    fault_min_a: np.ndarray
+
+
+def _walk_3ph(job, parent, v_node, zb_max, zb_min, zs, fa, vb) -> _Walk:
+    """The vectorised radial walk below the source; the source node itself carries the
+    job's stated fault current (infinite for an infinite bus)."""
+    sub_parent = np.where(parent[1:] > 0, parent[1:] - 1, -1)
+    rf = fk.radial_fault_3ph(
+        sub_parent,
+        v_node[1:],
+        zb_max[1:],
+        zb_min[1:],
+        zs,
+        zs,
+        fa.c_max,
+        fa.c_min,
+        base_voltage_ll_v=vb,
+    )
+    src = job.source
+    return _Walk(
+        np.concatenate([[zs], rf.z_max_ohm]),
+        np.concatenate([[zs], rf.z_min_ohm]),
+        np.concatenate([[src.x_r], rf.x_r]),
+        np.concatenate([[src.fault_a], rf.fault_max_a]),
+        np.concatenate([[src.fault_a], rf.fault_min_a]),
+    )
+
+
 def _calc_date(job) -> str:
     if job.project.date:
         return str(job.project.date)
@@ -300,7 +336,9 @@ def _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb) -> dict[str, fl
     out: dict[str, float] = {}
     if not in_scope.any():
         return out
-    vln = np.array([tree.voltage_of[n].neutral_v or 1.0 for n in order])
+    # wye: V_LL/√3 (208Y/120 V → 120.09 V, consistent with the three-phase figure);
+    # 120/240 V: half the line voltage
+    vln = np.array([_v_ln(tree.voltage_of[n]) for n in order])
     wye = np.array([tree.voltage_of[n].kind == "wye" for n in order])
     # walk only the nodes below grounded secondaries (each transformer is a root there)
     keep = np.flatnonzero(in_scope)
@@ -334,6 +372,12 @@ def _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb) -> dict[str, fl
             out[n] = float(i_wye[i] if wye[i] else i_split[i])
     _instantaneous_checks(ctx, fa, out, pos, lg_parent, b1, b0, root_z1, root_z0)
     return out
+
+
+def _v_ln(v) -> float:
+    if v.kind == "wye":
+        return v.line_v / SQRT3
+    return v.neutral_v or 1.0
 
 
 def _pickup(ctx, device_a: float, given: float | None) -> tuple[float, float, str]:
@@ -405,7 +449,7 @@ def _trip_fixes(
     zr = run_return_impedance_ohm(run, fa.cond_c_min) / run.length_m
     # wye: Z1 + Z2 + Z0 upstream; 120/240 V loop written in the same 3·V/|A + 3L·(zp + zr)|
     a = 2 * z_up1 + z_up0 if v.kind == "wye" else 3 * z_up1
-    max_len = float(lg.max_length_for_trip_m(v.neutral_v, a, zp, zr, required_a, fa.c_min))
+    max_len = float(lg.max_length_for_trip_m(_v_ln(v), a, zp, zr, required_a, fa.c_min))
     parts = [
         f"it would trip with the run at most {max_len / 0.3048:,.0f} ft ({max_len:,.1f} m)"
         if max_len > 0
@@ -416,7 +460,7 @@ def _trip_fixes(
     names = [s for s in order if SIZES[s].area_mm2 <= run.size.area_mm2 * (1 + 1e-9)]
     r, x = ck.ac_impedance_ohm_per_m(np.array(names), material, run.raceway, fa.cond_c_min)
     idx = lg.smallest_return_for_trip(
-        v.neutral_v,
+        _v_ln(v),
         a,
         run.length_m,
         zp,
