@@ -28,6 +28,10 @@ def write_job(tmp_path):
     """Write a job file from TOML text into a fresh folder; return its path."""
 
     def _write(text: str, name: str = "job.toml") -> Path:
+        # schedules referenced by the sample jobs travel with them
+        for extra in SAMPLES.iterdir():
+            if extra.suffix in (".csv", ".xlsx") and not (tmp_path / extra.name).exists():
+                (tmp_path / extra.name).write_bytes(extra.read_bytes())
         p = tmp_path / name
         p.write_text(text, encoding="utf-8")
         return p
