@@ -1,7 +1,8 @@
 """Command line: parse, call the library, render, map problems to exit codes.
 
 Exit codes: 0 no failing check (warnings allowed), 1 at least one failing check,
-2 the input could not be read or is invalid (nothing is written).
+2 the input could not be read or is invalid (nothing is written), 3 an internal error
+(a fault in feedcheck; nothing is written).
 """
 
 from __future__ import annotations
@@ -12,29 +13,10 @@ import sys
 import click
 
 from . import CAUTION, __version__
+from .commands.errors import handle_input_errors
 from .commands.params import PERCENT, POWER, VOLTAGE_SYSTEM, QuantityType
-from .errors import InputError
 
 CONTEXT = {"help_option_names": ["-h", "--help"], "max_content_width": 100}
-
-
-def handle_input_errors(fn):
-    """Print every input problem on its own line to stderr and exit 2."""
-
-    @functools.wraps(fn)
-    def wrapper(*args, **kwargs):
-        try:
-            return fn(*args, **kwargs)
-        except InputError as exc:
-            for p in exc.problems:
-                click.echo(f"error: {p}", err=True)
-            n = len(exc.problems)
-            click.echo(
-                f"{n} problem{'s' if n != 1 else ''} in the input; nothing was written.", err=True
-            )
-            sys.exit(2)
-
-    return wrapper
 
 
 @click.group(context_settings=CONTEXT, epilog=CAUTION)

@@ -9,7 +9,7 @@ from __future__ import annotations
 from .. import __version__
 from ..job import Job
 from ..results import NodeResult, Results
-from ..tables import used_tables
+from ..tables import load_table, table_names
 from .conductors import check_run
 from .context import Context, Load, build_context
 from .fault import check_faults
@@ -69,7 +69,7 @@ def _results(ctx: Context) -> Results:
             "origin": t.origin,
             "sha256": t.sha256,
         }
-        for t in used_tables()
+        for t in (load_table(name) for name in table_names())
     ]
     runs = [
         {

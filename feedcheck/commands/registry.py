@@ -14,6 +14,7 @@ def register(main, calc) -> None:
         ("calc_fault", "fault_command", calc),
         ("report", "report_command", main),
         ("report", "rerun_command", main),
+        ("schedule", "schedule_command", main),
     ):
         try:
             mod = importlib.import_module(f"feedcheck.commands.{module}")

@@ -135,3 +135,32 @@ def test_every_command_has_help_with_caution(path, cmd):
     r = _run(*path, "--help")
     assert r.exit_code == 0
     assert "licensed electrician or engineer" in r.stdout
+
+
+def test_quick_figures_do_not_import_pandas_or_reportlab():
+    """`feedcheck calc rated-current` must start fast: no pandas or reportlab on its path."""
+    import subprocess
+    import sys
+
+    code = (
+        "import sys; from click.testing import CliRunner; from feedcheck.cli import main; "
+        "r = CliRunner().invoke(main, ['calc', 'rated-current', '--rating', '75kVA', "
+        "'--voltage', '208V']); assert r.exit_code == 0, r.output; "
+        "print(sorted(m for m in ('pandas', 'reportlab') if m in sys.modules))"
+    )
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True)
+    assert out.returncode == 0, out.stderr
+    assert out.stdout.strip() == "[]"
+
+
+def test_internal_error_is_reported_without_traceback(monkeypatch, samples):
+    import feedcheck.runner
+
+    def boom(path):
+        raise ZeroDivisionError("simulated fault")
+
+    monkeypatch.setattr(feedcheck.runner, "run_job", boom)
+    r = _run("check", str(samples / "harbor_kitchen.toml"))
+    assert r.exit_code == 3
+    assert "internal error: ZeroDivisionError: simulated fault" in r.stderr
+    assert "Traceback" not in r.stderr

@@ -1,0 +1,53 @@
+"""Error handling shared by the CLI commands.
+
+Input problems: one line each on stderr, exit code 2, nothing written. Any other
+exception is a fault in feedcheck: a short message, exit code 3, no traceback
+(``FEEDCHECK_DEBUG=1`` shows it).
+"""
+
+from __future__ import annotations
+
+import functools
+import os
+import sys
+
+import click
+
+from ..errors import InputError
+
+
+def handle_input_errors(fn):
+    """Map InputError to exit 2 and unexpected exceptions to exit 3, without tracebacks."""
+
+    @functools.wraps(fn)
+    def wrapper(*args, **kwargs):
+        try:
+            return fn(*args, **kwargs)
+        except InputError as exc:
+            for p in exc.problems:
+                click.echo(f"error: {p}", err=True)
+            n = len(exc.problems)
+            click.echo(
+                f"{n} problem{'s' if n != 1 else ''} in the input; nothing was written.", err=True
+            )
+            sys.exit(2)
+        except (
+            click.ClickException,
+            click.exceptions.Exit,
+            click.Abort,
+            SystemExit,
+            KeyboardInterrupt,
+        ):
+            raise
+        except Exception as exc:  # a bug, not the user's input: say so without a traceback
+            if os.environ.get("FEEDCHECK_DEBUG"):
+                raise
+            click.echo(f"internal error: {type(exc).__name__}: {exc}", err=True)
+            click.echo(
+                "This is a fault in feedcheck, not in your input. Please report it with the "
+                "job file (set FEEDCHECK_DEBUG=1 to see the traceback). Nothing was written.",
+                err=True,
+            )
+            sys.exit(3)
+
+    return wrapper

@@ -1,0 +1,112 @@
+"""``feedcheck report`` (the PDF calculation report) and ``feedcheck rerun``
+(re-check a report from the inputs embedded in it)."""
+
+from __future__ import annotations
+
+import sys
+
+import click
+
+from .. import CAUTION
+from .errors import handle_input_errors
+
+CONTEXT = {"help_option_names": ["-h", "--help"], "max_content_width": 100}
+
+
+@click.command("report", context_settings=CONTEXT, epilog=CAUTION)
+@click.argument("job_file", type=click.Path(dir_okay=True, exists=False))
+@click.option(
+    "-o",
+    "--out",
+    "out",
+    type=click.Path(dir_okay=False, writable=True),
+    help="PDF file to write (default: the job file's name with .pdf, in the current folder).",
+)
+@handle_input_errors
+def report_command(job_file, out):
+    """Write the submittal-style PDF calculation report of a job.
+
+    The report holds a cover page, the failing and warning checks with the
+    page of each calculation sheet, a one-line diagram, the voltage profile
+    and fault currents, one calculation sheet per element, the panel
+    schedules, methods and assumptions, table provenance and cautions. The job
+    file, its schedules and the results are embedded in the PDF, so anyone who
+    receives it can re-check it with `feedcheck rerun`. With SOURCE_DATE_EPOCH
+    set, the same job and tables give the same bytes.
+
+    \b
+    Examples:
+      feedcheck report sample_jobs/harbor_kitchen.toml -o harbor_kitchen.pdf
+      feedcheck --tables my_tables/ report job.toml -o job-local-tables.pdf
+    Exit code 0: written, no failing check; 1: written, a check failed;
+    2: the input is invalid (nothing written).
+    """
+    from pathlib import Path
+
+    from ..report.pdf import write_report
+    from ..runner import load_and_check
+
+    job, results = load_and_check(job_file)
+    target = Path(out) if out else Path(Path(job_file).stem + ".pdf")
+    if not target.parent.resolve().is_dir():
+        click.echo(f"error: folder {target.parent} does not exist; nothing was written", err=True)
+        sys.exit(2)
+    info = write_report(job, results, target)
+    c = results.counts()
+    click.echo(
+        f"wrote {target} ({info.pages} pages; {c['fail']} fail, {c['warn']} warn, "
+        f"{c['ok']} ok, {c['info']} info)",
+        err=True,
+    )
+    sys.exit(results.exit_code)
+
+
+@click.command("rerun", context_settings=CONTEXT, epilog=CAUTION)
+@click.argument("report_pdf", type=click.Path(exists=True, dir_okay=False))
+@handle_input_errors
+def rerun_command(report_pdf):
+    """Re-check a feedcheck report from the inputs embedded in it.
+
+    Takes the job file and schedules out of the PDF into a temporary folder,
+    checks them again with the current tables (or your own with --tables), and
+    compares every node figure and every finding with the results embedded in
+    the report (relative tolerance 1e-9).
+
+    \b
+    Examples:
+      feedcheck rerun harbor_kitchen.pdf
+      feedcheck --tables local_tables/ rerun harbor_kitchen.pdf
+    Exit code 0: all figures match; 1: a figure differs;
+    2: the file is not a readable feedcheck report.
+    """
+    import json
+    import tempfile
+
+    from ..render_text import render_json
+    from ..report.embed import NotAReport, compare_results, extract_inputs, table_changes
+    from ..runner import load_and_check
+
+    with tempfile.TemporaryDirectory(prefix="feedcheck-rerun-") as tmp:
+        try:
+            ex = extract_inputs(report_pdf, tmp)
+        except NotAReport as exc:
+            click.echo(f"error: {exc}", err=True)
+            sys.exit(2)
+        _, results = load_and_check(ex.job_path)
+        rerun = json.loads(render_json(results))
+    job = ex.results.get("job", {})
+    click.echo(
+        f"report: {job.get('name', '?')} (rev {job.get('revision') or '–'}), made with "
+        f"feedcheck {job.get('feedcheck_version', '?')}; rerun with feedcheck "
+        f"{rerun['job'].get('feedcheck_version', '?')}"
+    )
+    for line in table_changes(ex.results, rerun):
+        click.echo(line)
+    n, diffs = compare_results(ex.results, rerun)
+    if not diffs:
+        click.echo(f"all {n} figures match")
+        sys.exit(0)
+    click.echo(f"{len(diffs)} of {n} figures differ (element: figure: report, rerun):")
+    for d in diffs:
+        click.echo(f"  {d}")
+    sys.exit(1)

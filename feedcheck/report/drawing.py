@@ -1,0 +1,419 @@
+"""Drawings for the PDF report (reportlab.graphics): the one-line diagram, the
+voltage profile and the fault-current chart. They draw figures from the
+results; they compute none.
+
+The one-line diagram is a ladder: one row per node in feed order (source,
+transformers, panels), each indented by its depth in the feed, fed by a line
+from its parent. Symbols: a circle with a wave for the source, two
+overlapping circles for a transformer, a box for a panel. Rows have a fixed
+height, so a feed of any size stays legible; long feeds continue in further
+drawings.
+"""
+
+from __future__ import annotations
+
+import math
+import os
+from dataclasses import dataclass
+from pathlib import Path
+
+from reportlab.graphics.shapes import Circle, Drawing, Line, PolyLine, Rect, String
+from reportlab.lib import colors
+
+GREY = colors.Color(0.45, 0.45, 0.45)
+LIGHT = colors.Color(0.88, 0.88, 0.88)
+
+
+@dataclass(frozen=True)
+class Fonts:
+    regular: str
+    bold: str
+    full_unicode: bool
+
+
+_FONTS: Fonts | None = None
+_FALLBACK_TEXT = {"Σ": "sum ", "φ": "phi", "→": "->", "θ": "theta", "₀": "0", "≈": "~"}
+_FONT_DIRS = (
+    "/usr/share/fonts/truetype/dejavu",
+    "/usr/share/fonts/dejavu",
+    "/usr/share/fonts/TTF",
+    "/Library/Fonts",
+    "C:/Windows/Fonts",
+)
+
+
+def fonts() -> Fonts:
+    """Register the report fonts once: DejaVu Sans where installed (covers √ Σ φ Ω),
+    else the Vera font that ships with reportlab (a few symbols spelt out)."""
+    global _FONTS
+    if _FONTS is not None:
+        return _FONTS
+    from reportlab.pdfbase import pdfmetrics
+    from reportlab.pdfbase.ttfonts import TTFont
+
+    for d in _FONT_DIRS:
+        reg, bold = Path(d) / "DejaVuSans.ttf", Path(d) / "DejaVuSans-Bold.ttf"
+        if reg.is_file() and bold.is_file():
+            pdfmetrics.registerFont(TTFont("FC-Sans", str(reg)))
+            pdfmetrics.registerFont(TTFont("FC-Sans-Bold", str(bold)))
+            _FONTS = Fonts("FC-Sans", "FC-Sans-Bold", True)
+            return _FONTS
+    import reportlab
+
+    base = Path(os.path.dirname(reportlab.__file__)) / "fonts"
+    pdfmetrics.registerFont(TTFont("FC-Sans", str(base / "Vera.ttf")))
+    pdfmetrics.registerFont(TTFont("FC-Sans-Bold", str(base / "VeraBd.ttf")))
+    _FONTS = Fonts("FC-Sans", "FC-Sans-Bold", False)
+    return _FONTS
+
+
+def txt(s: object) -> str:
+    """Text safe for the registered font (spells out glyphs the fallback lacks)."""
+    s = str(s)
+    if fonts().full_unicode:
+        return s
+    for a, b in _FALLBACK_TEXT.items():
+        s = s.replace(a, b)
+    return s
+
+
+def fmt_ka(v) -> str:
+    if v is None:
+        return "–"
+    if isinstance(v, float) and math.isinf(v):
+        return "∞"
+    return f"{v / 1000:,.2f} kA"
+
+
+# ------------------------------------------------------------ one-line diagram
+
+ROW_H = 38.0
+INDENT = 26.0
+ROWS_PER_DRAWING = 16
+
+
+def _depths(nodes) -> dict[str, int]:
+    depth: dict[str, int] = {}
+    for n in nodes:
+        depth[n.id] = 0 if n.parent is None or n.parent not in depth else depth[n.parent] + 1
+    return depth
+
+
+def _symbol(d: Drawing, kind: str, x: float, y: float) -> float:
+    """Draw a node symbol centred on (x, y); return its half height."""
+    if kind == "source":
+        d.add(Circle(x, y, 9, strokeColor=colors.black, fillColor=colors.white, strokeWidth=1))
+        pts = []
+        for i in range(13):
+            t = i / 12
+            pts += [x - 5 + 10 * t, y + 3 * math.sin(2 * math.pi * t)]
+        d.add(PolyLine(pts, strokeColor=colors.black, strokeWidth=0.9))
+        return 9.0
+    if kind == "transformer":
+        for dy in (4.5, -4.5):
+            d.add(Circle(x, y + dy, 7, strokeColor=colors.black, fillColor=None, strokeWidth=1))
+        return 11.5
+    d.add(Rect(x - 9, y - 7, 18, 14, strokeColor=colors.black, fillColor=LIGHT, strokeWidth=1))
+    d.add(Line(x - 5, y + 3, x + 5, y + 3, strokeColor=colors.black, strokeWidth=1.4))
+    return 7.0
+
+
+def _node_lines(node, run) -> tuple[str, str, str]:
+    head = f"{node.id} — {node.kind}, {node.voltage}"
+    if node.kind == "source" and node.id == "source":
+        head = f"Source, {node.voltage}"
+    v = node.values
+    parts = []
+    if "fault_max_a" in v:
+        parts.append(f"Isc max {fmt_ka(v['fault_max_a'])}")
+    if "fault_min_a" in v:
+        parts.append(f"min {fmt_ka(v['fault_min_a'])}")
+    if "vdrop_pct" in v and v["vdrop_pct"] is not None:
+        parts.append(f"drop {v['vdrop_pct']:.2f} %")
+    if node.kind == "transformer":
+        if "rated_secondary_a" in v:
+            parts.append(f"rated {v['rated_secondary_a']:,.1f} A secondary")
+        if "loading_pct" in v:
+            parts.append(f"loading {v['loading_pct']:.0f} %")
+    if not parts and node.kind != "source":
+        parts.append("no fault-current or voltage-drop figures in these results")
+    if node.kind == "source" and "fault_max_a" not in v:
+        parts.append("supply at the transformer primary")
+    sub = ""
+    if run is not None:
+        sets = f"{run.sets} × " if getattr(run, "sets", 1) > 1 else ""
+        sub = (
+            f"fed by run {run.id}: {sets}{run.size.name} {run.material.capitalize()}, "
+            f"{run.length_m:,.1f} m ({run.length_m / 0.3048:,.0f} ft)"
+        )
+    elif node.via_run:
+        sub = f"fed by run {node.via_run}"
+    elif node.parent is not None:
+        sub = f"connected directly to {node.parent}"
+    return head, " · ".join(parts), sub
+
+
+def one_line_diagrams(results, job=None, width: float = 500.0) -> list[Drawing]:
+    """One-line diagram of the feed as one or more drawings (16 rows each).
+
+    Each node is labelled with its maximum and minimum fault current and its
+    voltage drop where the results carry them.
+    """
+    f = fonts()
+    nodes = list(results.nodes)
+    depth = _depths(nodes)
+    runs = {r.id: r for r in getattr(job, "runs", ())} if job is not None else {}
+    max_depth = max(depth.values(), default=0)
+    flags: dict[str, dict[str, int]] = {}
+    for fnd in getattr(results, "findings", ()):
+        if fnd.status in ("fail", "warn"):
+            c = flags.setdefault(fnd.subject.split("/")[0], {})
+            c[fnd.status] = c.get(fnd.status, 0) + 1
+    label_x = min(14 + (max_depth + 1) * INDENT + 18, width * 0.45)
+    drawings = []
+    for start in range(0, len(nodes), ROWS_PER_DRAWING):
+        chunk = nodes[start : start + ROWS_PER_DRAWING]
+        h = ROW_H * len(chunk) + 8
+        d = Drawing(width, h)
+        pos = {}
+        for i, n in enumerate(chunk):
+            pos[n.id] = (14 + depth[n.id] * INDENT + 10, h - ROW_H * (i + 0.5) - 4)
+        half = {}
+        for n in chunk:
+            x, y = pos[n.id]
+            half[n.id] = _symbol(d, n.kind, x, y)
+        for n in chunk:
+            if n.parent is None:
+                continue
+            x, y = pos[n.id]
+            if n.parent in pos:
+                px, py = pos[n.parent]
+                top = py - half[n.parent]
+            else:  # parent drawn in an earlier part
+                px = 14 + depth.get(n.parent, 0) * INDENT + 10
+                top = h
+            d.add(Line(px, top, px, y, strokeColor=colors.black, strokeWidth=1.2))
+            d.add(Line(px, y, x - 9, y, strokeColor=colors.black, strokeWidth=1.2))
+        for n in chunk:
+            x, y = pos[n.id]
+            head, figs, sub = _node_lines(n, runs.get(n.via_run) if n.via_run else None)
+            marks = {**flags.get(n.id, {})}
+            for k, v in flags.get(n.via_run or "", {}).items():
+                marks[k] = marks.get(k, 0) + v
+            if marks:
+                head += (
+                    "   ["
+                    + ", ".join(f"{marks[s]} {s.upper()}" for s in ("fail", "warn") if s in marks)
+                    + "]"
+                )
+            d.add(
+                Line(
+                    x + 12,
+                    y,
+                    label_x - 4,
+                    y,
+                    strokeColor=GREY,
+                    strokeWidth=0.4,
+                    strokeDashArray=[1, 2],
+                )
+            )
+            d.add(String(label_x, y + 6, txt(head), fontName=f.bold, fontSize=8.5))
+            d.add(String(label_x, y - 4.5, txt(figs), fontName=f.regular, fontSize=7.8))
+            if sub:
+                d.add(
+                    String(
+                        label_x, y - 14, txt(sub), fontName=f.regular, fontSize=6.8, fillColor=GREY
+                    )
+                )
+        drawings.append(d)
+    return drawings
+
+
+# ------------------------------------------------------------------ charts
+
+
+def nice_ticks(lo: float, hi: float, n: int = 5) -> list[float]:
+    """Round tick values covering [lo, hi] (about n of them)."""
+    if not (math.isfinite(lo) and math.isfinite(hi)) or hi <= lo:
+        hi = lo + 1.0
+    raw = (hi - lo) / max(n, 1)
+    mag = 10 ** math.floor(math.log10(raw))
+    step = next(m * mag for m in (1, 2, 2.5, 5, 10) if m * mag >= raw)
+    first = math.floor(lo / step) * step
+    ticks = []
+    t = first
+    while t <= hi + step * 1e-9:
+        ticks.append(round(t, 10))
+        t += step
+    if ticks[-1] < hi:
+        ticks.append(round(t, 10))
+    return ticks
+
+
+def _axes(d, x0, y0, w, h, xt, yt, xlabel, ylabel, xfmt, yfmt):
+    f = fonts()
+    d.add(Rect(x0, y0, w, h, strokeColor=colors.black, fillColor=None, strokeWidth=0.8))
+
+    def sx(v):
+        return x0 + (v - xt[0]) / (xt[-1] - xt[0]) * w
+
+    def sy(v):
+        return y0 + (v - yt[0]) / (yt[-1] - yt[0]) * h
+
+    for t in xt:
+        d.add(Line(sx(t), y0, sx(t), y0 + h, strokeColor=LIGHT, strokeWidth=0.5))
+        d.add(String(sx(t), y0 - 10, xfmt(t), fontName=f.regular, fontSize=7, textAnchor="middle"))
+    for t in yt:
+        d.add(Line(x0, sy(t), x0 + w, sy(t), strokeColor=LIGHT, strokeWidth=0.5))
+        d.add(
+            String(x0 - 4, sy(t) - 2.5, yfmt(t), fontName=f.regular, fontSize=7, textAnchor="end")
+        )
+    d.add(
+        String(
+            x0 + w / 2, y0 - 22, txt(xlabel), fontName=f.regular, fontSize=8, textAnchor="middle"
+        )
+    )
+    lab = String(0, 0, txt(ylabel), fontName=f.regular, fontSize=8, textAnchor="middle")
+    from reportlab.graphics.shapes import Group
+
+    g = Group(lab)
+    g.transform = (0, 1, -1, 0, x0 - 34, y0 + h / 2)
+    d.add(g)
+    return sx, sy
+
+
+_DASHES = (None, [4, 2], [1, 2], [6, 2, 1, 2], [3, 3], [8, 3])
+
+
+def voltage_profile_chart(results, width: float = 500.0, height: float = 260.0) -> Drawing | None:
+    """Voltage (% of nominal) against distance from the source along each path
+    to a panel; None when no node carries ``voltage_pct``."""
+    f = fonts()
+    nodes = [n for n in results.nodes]
+    have = {n.id: n for n in nodes if n.values.get("voltage_pct") is not None}
+    if not have:
+        return None
+    by_id = {n.id: n for n in nodes}
+    parents = {n.parent for n in nodes if n.parent}
+    leaves = [n for n in nodes if n.id in have and (n.id not in parents or n.kind == "panel")]
+    paths = []
+    for leaf in leaves:
+        path, cur = [], leaf
+        while cur is not None:
+            if cur.id in have:
+                path.append(cur)
+            cur = by_id.get(cur.parent) if cur.parent else None
+        paths.append(list(reversed(path)))
+    vs = [n.values["voltage_pct"] for n in have.values()]
+    ds = [n.distance_m for n in have.values()]
+    yt = nice_ticks(min(min(vs), 100.0 - 1.0) - 0.2, max(max(vs), 100.0))
+    xt = nice_ticks(0.0, max(max(ds), 1.0))
+    d = Drawing(width, height)
+    x0, y0, w, h = 52, 34, width - 70, height - 46
+    sx, sy = _axes(
+        d,
+        x0,
+        y0,
+        w,
+        h,
+        xt,
+        yt,
+        "distance from the source (m)",
+        "voltage (% of nominal)",
+        lambda t: f"{t:g}",
+        lambda t: f"{t:g}",
+    )
+    for i, path in enumerate(paths):
+        pts = []
+        for n in path:
+            pts += [sx(n.distance_m), sy(n.values["voltage_pct"])]
+        if len(pts) >= 4:
+            d.add(
+                PolyLine(
+                    pts,
+                    strokeColor=colors.black,
+                    strokeWidth=1,
+                    strokeDashArray=_DASHES[i % len(_DASHES)],
+                )
+            )
+    for n in have.values():
+        x, y = sx(n.distance_m), sy(n.values["voltage_pct"])
+        d.add(Circle(x, y, 2.2, fillColor=colors.black, strokeColor=colors.black))
+        d.add(
+            String(
+                x + 3,
+                y + 3,
+                txt(f"{n.id} {n.values['voltage_pct']:.2f} %"),
+                fontName=f.regular,
+                fontSize=6.5,
+            )
+        )
+    return d
+
+
+def fault_current_chart(results, width: float = 500.0) -> Drawing | None:
+    """Maximum and minimum fault current at each node as paired bars (kA);
+    None when no node carries ``fault_max_a`` or ``fault_min_a``."""
+    f = fonts()
+    rows = [
+        n
+        for n in results.nodes
+        if any(
+            isinstance(n.values.get(k), (int, float)) and math.isfinite(n.values[k])
+            for k in ("fault_max_a", "fault_min_a")
+        )
+    ]
+    if not rows:
+        return None
+    vals = [
+        n.values.get(k)
+        for n in rows
+        for k in ("fault_max_a", "fault_min_a")
+        if isinstance(n.values.get(k), (int, float)) and math.isfinite(n.values[k])
+    ]
+    xt = nice_ticks(0.0, max(vals) / 1000.0)
+    row_h = 22.0
+    height = row_h * len(rows) + 70
+    d = Drawing(width, height)
+    x0, y0, w, h = 70, 34, width - 130, row_h * len(rows)
+    sx, _ = _axes(
+        d,
+        x0,
+        y0,
+        w,
+        h,
+        xt,
+        [0.0, 1.0],
+        "fault current (kA)",
+        "",
+        lambda t: f"{t:g}",
+        lambda t: "",
+    )
+    for i, n in enumerate(rows):
+        yc = y0 + h - row_h * (i + 0.5)
+        d.add(String(x0 - 4, yc - 3, txt(n.id), fontName=f.bold, fontSize=7.5, textAnchor="end"))
+        for k, dy, fill in (("fault_max_a", 2.5, GREY), ("fault_min_a", -6.5, colors.white)):
+            v = n.values.get(k)
+            if not isinstance(v, (int, float)) or not math.isfinite(v):
+                continue
+            x1 = sx(v / 1000.0)
+            d.add(
+                Rect(
+                    x0,
+                    yc + dy - 1,
+                    x1 - x0,
+                    7.5,
+                    fillColor=fill,
+                    strokeColor=colors.black,
+                    strokeWidth=0.6,
+                )
+            )
+            d.add(String(x1 + 3, yc + dy, f"{v / 1000:,.2f}", fontName=f.regular, fontSize=6.5))
+    ly = height - 12
+    d.add(Rect(x0, ly, 10, 7, fillColor=GREY, strokeColor=colors.black, strokeWidth=0.6))
+    d.add(String(x0 + 14, ly + 1, "maximum (bolted three-phase)", fontName=f.regular, fontSize=7))
+    d.add(
+        Rect(x0 + 150, ly, 10, 7, fillColor=colors.white, strokeColor=colors.black, strokeWidth=0.6)
+    )
+    d.add(String(x0 + 164, ly + 1, "minimum", fontName=f.regular, fontSize=7))
+    return d

@@ -1,0 +1,312 @@
+"""Embed a job's inputs in its report PDF, take them out again, and compare a re-run.
+
+A report carries, as PDF file attachments:
+
+* ``feedcheck-inputs.json`` — a small manifest: format version, the job file's
+  name, the schedule paths (relative to the job file, as the job names them);
+* ``inputs/<job file>`` and ``inputs/<schedule path>`` — the input files, byte for byte;
+* ``feedcheck-results.json`` — the results as rendered by
+  :func:`feedcheck.render_text.render_json` when the report was made.
+
+:func:`extract_inputs` writes the inputs into a folder (never outside it) and
+:func:`compare_results` holds a re-run's results against the embedded ones.
+Nothing here computes an electrical figure.
+"""
+
+from __future__ import annotations
+
+import io
+import json
+import math
+import re
+from dataclasses import dataclass
+from pathlib import Path, PurePosixPath
+
+MANIFEST_NAME = "feedcheck-inputs.json"
+RESULTS_NAME = "feedcheck-results.json"
+INPUT_PREFIX = "inputs/"
+FORMAT = "feedcheck-report-inputs/1"
+RTOL = 1e-9
+MAX_ATTACHMENT_BYTES = 20_000_000
+
+# node keys that name or place a node rather than give a figure
+_NODE_TEXT_KEYS = ("id", "kind", "voltage", "parent", "via_run")
+
+
+class NotAReport(Exception):
+    """The PDF cannot be read, or carries no feedcheck inputs (exit code 2)."""
+
+
+@dataclass(frozen=True)
+class Difference:
+    """One figure that differs between the report and the re-run."""
+
+    element: str
+    figure: str
+    report_value: object
+    rerun_value: object
+
+    def __str__(self) -> str:
+        return (
+            f"{self.element}: {self.figure}: report {_show(self.report_value)}, "
+            f"rerun {_show(self.rerun_value)}"
+        )
+
+
+@dataclass(frozen=True)
+class Extracted:
+    """What :func:`extract_inputs` wrote, and the embedded results."""
+
+    job_path: Path
+    schedules: tuple[Path, ...]
+    results: dict
+    manifest: dict
+
+
+def input_attachments(job) -> list[tuple[str, bytes]]:
+    """Attachment (name, bytes) pairs for a job's input files, manifest first.
+
+    The job file is read from ``job.path`` (its bytes as on disk, which
+    ``job.text`` was decoded from); each panel schedule that exists is
+    attached under its path relative to the job file.
+    """
+    job_path = Path(job.path)
+    files: list[tuple[str, bytes]] = [(job_path.name, job_path.read_bytes())]
+    schedules: list[str] = []
+    for panel in job.panels:
+        sched = getattr(panel, "schedule", None)
+        if sched is None or not Path(sched).is_file():
+            continue
+        try:
+            rel = PurePosixPath(Path(sched).relative_to(job_path.parent).as_posix())
+        except ValueError:
+            rel = PurePosixPath(Path(sched).name)
+        if str(rel) not in schedules:
+            schedules.append(str(rel))
+            files.append((str(rel), Path(sched).read_bytes()))
+    manifest = {
+        "format": FORMAT,
+        "job": job_path.name,
+        "schedules": schedules,
+        "results": RESULTS_NAME,
+    }
+    text = json.dumps(manifest, indent=2, sort_keys=True) + "\n"
+    return [(MANIFEST_NAME, text.encode("utf-8"))] + [
+        (INPUT_PREFIX + name, data) for name, data in files
+    ]
+
+
+def attach(pdf_bytes: bytes, attachments: list[tuple[str, bytes]]) -> bytes:
+    """Return ``pdf_bytes`` with the attachments added (deterministic output)."""
+    from pypdf import PdfReader, PdfWriter
+
+    writer = PdfWriter(clone_from=PdfReader(io.BytesIO(pdf_bytes)))
+    for name, data in attachments:
+        writer.add_attachment(name, data)
+    out = io.BytesIO()
+    writer.write(out)
+    return out.getvalue()
+
+
+_SAFE_PART = re.compile(r"^[A-Za-z0-9_][A-Za-z0-9_. \-]{0,120}$")
+
+
+def safe_relative(name: str) -> PurePosixPath:
+    """Check an attachment name is a plain relative path; return it.
+
+    Raises NotAReport for absolute paths, ``..``, backslashes, drive letters,
+    control characters or hidden/empty parts.
+    """
+    if not name or "\\" in name or ":" in name or name.startswith("/"):
+        raise NotAReport(f"unsafe attachment name {name!r}")
+    p = PurePosixPath(name)
+    if not p.parts or any(not _SAFE_PART.match(part) or part in (".", "..") for part in p.parts):
+        raise NotAReport(f"unsafe attachment name {name!r}")
+    return p
+
+
+def _read_attachments(pdf_path: Path) -> dict[str, bytes]:
+    import logging
+
+    from pypdf import PdfReader
+    from pypdf.errors import PyPdfError
+
+    log = logging.getLogger("pypdf")
+    level = log.level
+    log.setLevel(logging.ERROR)  # a damaged file gets one clear message, not pypdf's notes
+    try:
+        reader = PdfReader(str(pdf_path))
+        found = {}
+        for name, contents in reader.attachments.items():
+            if not contents:
+                continue
+            data = contents[0]
+            if len(data) > MAX_ATTACHMENT_BYTES:
+                raise NotAReport(f"attachment {name!r} is larger than expected")
+            found[name] = data
+        return found
+    except NotAReport:
+        raise
+    except (OSError, PyPdfError, ValueError, KeyError, TypeError, AttributeError) as exc:
+        raise NotAReport(f"{pdf_path}: cannot read it as a PDF ({exc})") from exc
+    finally:
+        log.setLevel(level)
+
+
+def extract_inputs(pdf_path: str | Path, dest: str | Path) -> Extracted:
+    """Write a report's embedded inputs into ``dest``; return where they went.
+
+    Schedules land at the same paths relative to the job file as in the
+    original. Nothing is written outside ``dest``.
+
+    Raises
+    ------
+    NotAReport
+        The file is unreadable, has no feedcheck manifest or results, or an
+        attachment name would leave ``dest``.
+    """
+    pdf_path = Path(pdf_path)
+    dest = Path(dest).resolve()
+    found = _read_attachments(pdf_path)
+    if MANIFEST_NAME not in found or RESULTS_NAME not in found:
+        raise NotAReport(f"{pdf_path}: not a feedcheck report (no embedded inputs and results)")
+    try:
+        manifest = json.loads(found[MANIFEST_NAME].decode("utf-8"))
+        results = json.loads(found[RESULTS_NAME].decode("utf-8"))
+    except (UnicodeDecodeError, json.JSONDecodeError) as exc:
+        raise NotAReport(f"{pdf_path}: the embedded manifest or results are damaged") from exc
+    if not isinstance(manifest, dict) or manifest.get("format") != FORMAT:
+        raise NotAReport(f"{pdf_path}: unknown embedded-inputs format")
+    if not isinstance(results, dict) or not {"nodes", "findings"} <= set(results):
+        raise NotAReport(f"{pdf_path}: the embedded results lack nodes and findings")
+    job_name = manifest.get("job")
+    schedules = manifest.get("schedules") or []
+    if not isinstance(job_name, str) or not isinstance(schedules, list):
+        raise NotAReport(f"{pdf_path}: the embedded manifest is damaged")
+    written: dict[str, Path] = {}
+    for name in [job_name, *schedules]:
+        rel = safe_relative(str(name))
+        key = INPUT_PREFIX + str(rel)
+        if key not in found:
+            raise NotAReport(f"{pdf_path}: embedded input {str(rel)!r} is missing")
+        target = (dest / rel).resolve()
+        if not target.is_relative_to(dest):
+            raise NotAReport(f"unsafe attachment name {name!r}")
+        target.parent.mkdir(parents=True, exist_ok=True)
+        target.write_bytes(found[key])
+        written[str(rel)] = target
+    return Extracted(
+        written[str(safe_relative(job_name))],
+        tuple(written[str(safe_relative(s))] for s in schedules),
+        results,
+        manifest,
+    )
+
+
+# ------------------------------------------------------------------ comparing
+
+
+def _num(v):
+    """A JSON figure as a float (``"inf"`` strings included), or None."""
+    if isinstance(v, bool):
+        return None
+    if isinstance(v, (int, float)):
+        return float(v)
+    if v in ("inf", "-inf"):
+        return float(v)
+    return None
+
+
+def _same(a, b) -> bool:
+    fa, fb = _num(a), _num(b)
+    if fa is not None and fb is not None:
+        if math.isinf(fa) or math.isinf(fb):
+            return fa == fb
+        return math.isclose(fa, fb, rel_tol=RTOL, abs_tol=0.0) or fa == fb
+    return a == b
+
+
+def _show(v) -> str:
+    if v is None:
+        return "—"
+    f = _num(v)
+    if f is not None and not isinstance(v, str):
+        return f"{f:.10g}"
+    return str(v)
+
+
+def _finding_keys(findings: list[dict]) -> dict[tuple[str, str, int], dict]:
+    seen: dict[tuple[str, str], int] = {}
+    out = {}
+    for f in findings:
+        k = (str(f.get("subject")), str(f.get("check")))
+        seen[k] = seen.get(k, 0) + 1
+        out[(*k, seen[k])] = f
+    return out
+
+
+def compare_results(report: dict, rerun: dict) -> tuple[int, list[Difference]]:
+    """Compare every node figure and every finding (relative tolerance 1e-9).
+
+    Parameters
+    ----------
+    report, rerun : dict
+        Results as parsed from :func:`feedcheck.render_text.render_json`.
+
+    Returns
+    -------
+    (compared, differences)
+        How many figures were compared, and each one that differs, with its
+        element, figure name, report value and re-run value.
+    """
+    diffs: list[Difference] = []
+    compared = 0
+    rep_nodes = {n["id"]: n for n in report.get("nodes", [])}
+    new_nodes = {n["id"]: n for n in rerun.get("nodes", [])}
+    for nid in [*rep_nodes, *[n for n in new_nodes if n not in rep_nodes]]:
+        a, b = rep_nodes.get(nid), new_nodes.get(nid)
+        if a is None or b is None:
+            compared += 1
+            diffs.append(
+                Difference(nid, "node", "present" if a else None, "present" if b else None)
+            )
+            continue
+        keys = [k for k in a if k not in _NODE_TEXT_KEYS]
+        keys += [k for k in b if k not in _NODE_TEXT_KEYS and k not in a]
+        for k in keys:
+            compared += 1
+            if not _same(a.get(k), b.get(k)):
+                diffs.append(Difference(nid, k, a.get(k), b.get(k)))
+    rep_f = _finding_keys(report.get("findings", []))
+    new_f = _finding_keys(rerun.get("findings", []))
+    for key in [*rep_f, *[k for k in new_f if k not in rep_f]]:
+        subject, check, nth = key
+        name = check if nth == 1 else f"{check} #{nth}"
+        a, b = rep_f.get(key), new_f.get(key)
+        compared += 1
+        if a is None or b is None:
+            diffs.append(
+                Difference(
+                    subject, f"finding '{name}'", a and a.get("status"), b and b.get("status")
+                )
+            )
+            continue
+        for field in ("value", "limit", "status", "rule_id", "unit"):
+            if not _same(a.get(field), b.get(field)):
+                diffs.append(Difference(subject, f"{name} ({field})", a.get(field), b.get(field)))
+    return compared, diffs
+
+
+def table_changes(report: dict, rerun: dict) -> list[str]:
+    """Tables whose content (sha256) differs between the report and the re-run."""
+    old = {t["name"]: t for t in report.get("tables", []) if isinstance(t, dict) and "name" in t}
+    new = {t["name"]: t for t in rerun.get("tables", []) if isinstance(t, dict) and "name" in t}
+    out = []
+    for name in sorted(set(old) & set(new)):
+        if old[name].get("sha256") != new[name].get("sha256"):
+            out.append(
+                f"table {name}: report used {str(old[name].get('sha256'))[:12]} "
+                f"({old[name].get('origin')}), rerun used {str(new[name].get('sha256'))[:12]} "
+                f"({new[name].get('origin')})"
+            )
+    return out

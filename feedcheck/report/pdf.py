@@ -1,0 +1,301 @@
+"""The submittal-style PDF calculation report.
+
+:func:`write_report` assembles cover, summary of findings, one-line diagram,
+charts, one calculation sheet per element, panel schedules, methods and
+assumptions, table provenance and cautions; every page carries the project,
+its revision, "page X of Y" and a short caution line. Page numbers of the
+calculation sheets are known by building the document until they settle
+(usually twice).
+
+The output is reproducible: with ``SOURCE_DATE_EPOCH`` set, the same job and
+tables give the same bytes (reportlab's invariant mode, fixed dates, no random
+ids). The job file, its schedules and the results JSON are embedded as file
+attachments so ``feedcheck rerun`` can re-check the report.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import io
+from dataclasses import dataclass
+from pathlib import Path
+from xml.sax.saxutils import escape
+
+from reportlab.lib.pagesizes import letter
+from reportlab.platypus import (
+    BaseDocTemplate,
+    CondPageBreak,
+    Frame,
+    PageBreak,
+    PageTemplate,
+    Paragraph,
+    Spacer,
+)
+
+from .. import __version__
+from . import sections as sx
+from .drawing import (
+    fault_current_chart,
+    fonts,
+    one_line_diagrams,
+    txt,
+    voltage_profile_chart,
+)
+from .embed import RESULTS_NAME, attach, input_attachments
+
+MARGIN = 42.0
+TOP = 60.0
+BOTTOM = 54.0
+MAX_PASSES = 4
+
+
+@dataclass(frozen=True)
+class ReportInfo:
+    """What was written: the file, its page count, where each sheet and
+    section starts (``anchors``: ``findings``, ``diagram``, ``sheet:T1`` …)."""
+
+    path: Path
+    pages: int
+    sheet_pages: dict[str, int]
+    anchors: dict[str, int]
+
+
+class _Heading(Paragraph):
+    """A heading that records its page and adds a PDF bookmark and outline entry."""
+
+    def __init__(self, text: str, style, key: str, level: int, pages: dict[str, int]):
+        super().__init__(escape(txt(text)), style)
+        self._fc_key, self._fc_level, self._fc_pages = key, level, pages
+        self._fc_outline = text
+
+    def draw(self):
+        self._fc_pages[self._fc_key] = self.canv.getPageNumber()
+        self.canv.bookmarkPage(self._fc_key)
+        self.canv.addOutlineEntry(self._fc_outline, self._fc_key, level=self._fc_level)
+        super().draw()
+
+
+class _Doc(BaseDocTemplate):
+    def __init__(self, buf, results, total_pages, **kw):
+        super().__init__(
+            buf,
+            pagesize=letter,
+            leftMargin=MARGIN,
+            rightMargin=MARGIN,
+            topMargin=TOP,
+            bottomMargin=BOTTOM,
+            invariant=1,
+            **kw,
+        )
+        self.fc_results = results
+        self.fc_total = total_pages
+        frame = Frame(
+            MARGIN,
+            BOTTOM,
+            letter[0] - 2 * MARGIN,
+            letter[1] - TOP - BOTTOM,
+            id="body",
+            leftPadding=0,
+            rightPadding=0,
+            topPadding=0,
+            bottomPadding=0,
+        )
+        self.addPageTemplates([PageTemplate("page", [frame], onPage=self._decorate)])
+
+    def _decorate(self, canv, doc):
+        f = fonts()
+        j = self.fc_results.job_summary
+        w, h = letter
+        canv.saveState()
+        canv.setFont(f.bold, 8.5)
+        left = f"{j.get('name', '')} — rev {j.get('revision') or '–'}"
+        canv.drawString(MARGIN, h - 34, txt(_clip(left, 95)))
+        canv.setFont(f.regular, 8.5)
+        canv.drawRightString(w - MARGIN, h - 34, "Feed calculation report")
+        canv.setLineWidth(0.6)
+        canv.line(MARGIN, h - 40, w - MARGIN, h - 40)
+        canv.line(MARGIN, 40, w - MARGIN, 40)
+        canv.setFont(f.regular, 7)
+        canv.drawString(MARGIN, 29, txt(sx.SHORT_CAUTION))
+        total = self.fc_total if self.fc_total else "?"
+        canv.setFont(f.bold, 8.5)
+        canv.drawRightString(w - MARGIN, 29, f"page {doc.page} of {total}")
+        canv.restoreState()
+
+
+def _clip(s: str, n: int) -> str:
+    return s if len(s) <= n else s[: n - 1] + "…"
+
+
+def _page_of_factory(results, pages: dict[str, int]):
+    sheets = set(results.sheets)
+    schedules = set(results.schedules or {})
+
+    def page_of(subject: str) -> str:
+        head = subject.split("/")[0]
+        if "/" in subject and head in schedules and f"sched:{head}" in pages:
+            return str(pages[f"sched:{head}"])  # a circuit: its panel schedule
+        for cand in (subject, head):
+            if cand in sheets and f"sheet:{cand}" in pages:
+                return str(pages[f"sheet:{cand}"])
+            if cand in schedules and f"sched:{cand}" in pages:
+                return str(pages[f"sched:{cand}"])
+        return "–"
+
+    return page_of
+
+
+def _meta_of(name: str) -> dict:
+    from ..errors import InputError
+    from ..tables import load_table
+
+    try:
+        return dict(load_table(name).meta)
+    except (InputError, OSError, KeyError):
+        return {}
+
+
+def _ordered_sheets(results) -> list:
+    """Sheets in feed order: a node's feeding run just before the node."""
+    done, order = set(), []
+    for n in results.nodes:
+        for key in (n.via_run, n.id):
+            if key and key in results.sheets and key not in done:
+                order.append(results.sheets[key])
+                done.add(key)
+    order += [s for k, s in results.sheets.items() if k not in done]
+    return order
+
+
+def build_story(job, results, pages: dict[str, int], job_sha: str) -> list:
+    """Flowables of the whole report; ``pages`` maps anchors to pages (from the
+    previous pass) and is filled again while drawing."""
+    st = sx.styles()
+    new_pages: dict[str, int] = pages.setdefault("__new__", {})  # type: ignore[assignment]
+
+    def heading(text, key, level, style):
+        return _Heading(text, st[style], key, level, new_pages)
+
+    page_of = _page_of_factory(results, {k: v for k, v in pages.items() if k != "__new__"})
+    story: list = sx.cover(results, job_sha, heading)
+    story += [PageBreak()]
+    story += sx.findings_summary(results, page_of, heading)
+    story += [PageBreak(), heading("One-line diagram", "diagram", 0, "h1")]
+    story.append(
+        sx.p(
+            "Feed order from the source down; each node shows its maximum and minimum fault "
+            "current and its voltage drop from the source, where the checks computed them.",
+            "body",
+        )
+    )
+    story.append(Spacer(1, 6))
+    for d in one_line_diagrams(results, job, width=sx.WIDTH):
+        story += [d, Spacer(1, 4)]
+    story += [CondPageBreak(330), heading("Voltage profile and fault current", "charts", 0, "h1")]
+    vp = voltage_profile_chart(results, width=sx.WIDTH)
+    story.append(sx.p("Voltage along each path from the source to a panel", "h2"))
+    story.append(vp if vp is not None else sx.p("No voltage figures in these results.", "body"))
+    fc = fault_current_chart(results, width=sx.WIDTH)
+    story.append(CondPageBreak(200))
+    story.append(sx.p("Fault current at each node", "h2"))
+    story.append(
+        fc if fc is not None else sx.p("No fault-current figures in these results.", "body")
+    )
+    story += [PageBreak(), heading("Calculation sheets", "sheets", 0, "h1")]
+    by_subject: dict[str, list] = {}
+    for f in results.sorted_findings():
+        by_subject.setdefault(f.subject, []).append(f)
+    nodes = {n.id: n for n in results.nodes}
+    tables_by_name = {t.get("name"): t for t in results.tables}
+    first = True
+    shown_subjects = set()
+    for sheet in _ordered_sheets(results):
+        if not first:
+            story.append(CondPageBreak(300))
+        first = False
+        shown_subjects.add(sheet.element_id)
+        story += sx.sheet_section(
+            sheet,
+            nodes.get(sheet.element_id),
+            by_subject.get(sheet.element_id, []),
+            tables_by_name,
+            heading,
+        )
+        story.append(Spacer(1, 10))
+    for n in results.nodes:
+        if n.id not in results.sheets and n.values:
+            story.append(CondPageBreak(200))
+            story.append(heading(f"Figures at {n.id} ({n.kind})", f"node:{n.id}", 1, "h1"))
+            story.append(sx.node_figures_table(n))
+    rest = [f for s, fs in by_subject.items() if s not in shown_subjects for f in fs]
+    rest = [f for f in rest if f.subject.split("/")[0] not in (results.schedules or {})]
+    if rest:
+        story.append(CondPageBreak(200))
+        story.append(heading("Other findings", "other", 1, "h1"))
+        story.append(sx.findings_table(rest, with_subject=True))
+    if results.schedules:
+        story += [PageBreak(), heading("Panel schedules", "schedules", 0, "h1")]
+        for i, (pid, sched) in enumerate(results.schedules.items()):
+            if i:
+                story.append(CondPageBreak(250))
+            story += sx.schedule_section(pid, sched, heading)
+            rows = by_subject_prefix(by_subject, pid)
+            if rows:
+                story.append(sx.p("Circuit findings", "h2"))
+                story.append(sx.findings_table(rows, with_subject=True))
+            story.append(Spacer(1, 10))
+    story += [PageBreak()]
+    story += sx.methods_section(results, heading)
+    story += [PageBreak()]
+    story += sx.tables_section(results, _meta_of, heading)
+    story += [PageBreak()]
+    story += sx.cautions_section(heading)
+    return story
+
+
+def by_subject_prefix(by_subject: dict, panel_id: str) -> list:
+    return [f for s, fs in by_subject.items() if s.startswith(panel_id + "/") for f in fs]
+
+
+def render_pdf(job, results) -> tuple[bytes, int, dict[str, int]]:
+    """The report without attachments: (bytes, page count, anchor → page)."""
+    fonts()
+    job_sha = hashlib.sha256(Path(job.path).read_bytes()).hexdigest()
+    j = results.job_summary
+    pages: dict[str, int] = {}
+    total = 0
+    data = b""
+    for _ in range(MAX_PASSES):
+        buf = io.BytesIO()
+        prev = {"__new__": {}, **pages}
+        doc = _Doc(
+            buf,
+            results,
+            total,
+            title=f"Feed calculation report — {j.get('name', '')}",
+            author=str(j.get("prepared_by", "")),
+            subject=f"revision {j.get('revision', '')}; rules {j.get('rules', '')}",
+            creator=f"feedcheck {__version__}",
+            keywords="feedcheck report",
+        )
+        doc.build(build_story(job, results, prev, job_sha))
+        new_pages, new_total = prev["__new__"], doc.page
+        data = buf.getvalue()
+        if new_pages == pages and new_total == total:
+            break
+        pages, total = new_pages, new_total
+    return data, total, pages
+
+
+def write_report(job, results, out_path: str | Path) -> ReportInfo:
+    """Write the report PDF (atomically) with the inputs and results embedded."""
+    from ..io_atomic import write_bytes_atomic
+    from ..render_text import render_json
+
+    data, total, pages = render_pdf(job, results)
+    files = input_attachments(job)
+    files.append((RESULTS_NAME, render_json(results).encode("utf-8")))
+    data = attach(data, files)
+    write_bytes_atomic(out_path, data)
+    sheets = {k.split(":", 1)[1]: v for k, v in pages.items() if k.startswith("sheet:")}
+    return ReportInfo(Path(out_path), total, sheets, dict(pages))

@@ -1,0 +1,560 @@
+"""Sections of the PDF report as reportlab platypus flowables.
+
+Every section renders what :class:`~feedcheck.results.Results` carries — node
+figures, findings, calculation sheets, schedules, tables, methods — and
+computes nothing. Node figures and schedule columns not known here still
+appear, under a label made from their key.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from xml.sax.saxutils import escape
+
+from reportlab.lib import colors
+from reportlab.lib.styles import ParagraphStyle
+from reportlab.platypus import Paragraph, Spacer, Table, TableStyle
+
+from .. import CAUTION
+from .drawing import fonts, txt
+
+WIDTH = 528.0  # frame width in points (US letter, 42 pt margins)
+FAIL_BG = colors.Color(0.97, 0.80, 0.80)
+WARN_BG = colors.Color(1.0, 0.92, 0.70)
+HEAD_BG = colors.Color(0.86, 0.86, 0.86)
+GRID = colors.Color(0.55, 0.55, 0.55)
+STATUS_WORD = {"fail": "FAIL", "warn": "WARN", "ok": "ok", "info": "info"}
+SHORT_CAUTION = (
+    "An aid, not an approval: verify against the locally adopted code; "
+    "a licensed electrician or engineer must review."
+)
+
+# key: (label, display unit, scale, decimals)
+NODE_LABELS: dict[str, tuple[str, str, float, int]] = {
+    "load_va": ("Demand load", "kVA", 1e-3, 1),
+    "load_a": ("Demand current", "A", 1, 1),
+    "design_current_a": ("Design current (continuous at 125 %)", "A", 1, 1),
+    "rated_primary_a": ("Rated primary current", "A", 1, 1),
+    "rated_secondary_a": ("Rated secondary current", "A", 1, 1),
+    "loading_pct": ("Loading", "%", 1, 1),
+    "regulation_pct": ("Regulation (exact phasor)", "%", 1, 3),
+    "regulation_approx_pct": ("Regulation (approximate)", "%", 1, 3),
+    "x_r_transformer": ("Transformer X/R", "", 1, 2),
+    "fault_max_a": ("Fault current, maximum", "kA", 1e-3, 2),
+    "fault_min_a": ("Fault current, minimum", "kA", 1e-3, 2),
+    "fault_lg_min_a": ("Line-to-ground fault current, minimum", "kA", 1e-3, 2),
+    "x_r": ("X/R at the fault point", "", 1, 2),
+    "peak_a": ("Peak asymmetrical current", "kA", 1e-3, 2),
+    "asym_rms_a": ("Asymmetrical rms current", "kA", 1e-3, 2),
+    "fault_ptp_a": ("Fault current, point-to-point method", "kA", 1e-3, 2),
+    "fault_ptp_diff_pct": ("Point-to-point against ohmic", "%", 1, 1),
+    "vdrop_pct": ("Voltage drop from the source", "%", 1, 2),
+    "voltage_pct": ("Voltage", "% of nominal", 1, 2),
+    "segment_vdrop_pct": ("Voltage drop in the feeding run", "%", 1, 2),
+}
+_SUFFIX_UNITS = (
+    ("_kcmil", "kcmil"),
+    ("_mm2", "mm²"),
+    ("_pct", "%"),
+    ("_ohm", "Ω"),
+    ("_var", "var"),
+    ("_va", "VA"),
+    ("_a", "A"),
+    ("_v", "V"),
+    ("_w", "W"),
+    ("_m", "m"),
+    ("_s", "s"),
+    ("_c", "°C"),
+)
+# schedule column: (header, width weight, decimals or None for text)
+SCHEDULE_COLUMNS: dict[str, tuple[str, float, int | None]] = {
+    "circuit": ("Ckt", 0.7, None),
+    "description": ("Description", 3.0, None),
+    "poles": ("Poles", 0.8, 0),
+    "phase": ("Phase", 0.9, None),
+    "kind": ("Kind", 1.4, None),
+    "load_va": ("Load VA", 1.2, 0),
+    "current_a": ("Current A", 1.1, 1),
+    "breaker_a": ("Breaker A", 1.1, 0),
+    "size": ("Size", 1.3, None),
+    "material": ("Mat.", 0.7, None),
+    "length_m": ("Length m", 1.1, 1),
+    "ampacity_a": ("Ampacity A", 1.2, 0),
+    "vdrop_pct": ("Drop %", 1.0, 2),
+    "total_vdrop_pct": ("Total drop %", 1.1, 2),
+    "status": ("Status", 1.3, None),
+    "reason": ("Reason", 3.0, None),
+    "row": ("File row", 0.8, None),
+}
+
+
+def styles() -> dict[str, ParagraphStyle]:
+    f = fonts()
+    base = ParagraphStyle("fc-body", fontName=f.regular, fontSize=9, leading=11.5)
+    return {
+        "body": base,
+        "small": ParagraphStyle("fc-small", parent=base, fontSize=7.5, leading=9),
+        "cell": ParagraphStyle("fc-cell", parent=base, fontSize=7.8, leading=9.4),
+        "cellb": ParagraphStyle(
+            "fc-cellb", parent=base, fontName=f.bold, fontSize=7.8, leading=9.4
+        ),
+        "sched": ParagraphStyle("fc-sched", parent=base, fontSize=6.8, leading=8),
+        "schedb": ParagraphStyle(
+            "fc-schedb", parent=base, fontName=f.bold, fontSize=6.8, leading=8
+        ),
+        "note": ParagraphStyle(
+            "fc-note", parent=base, fontSize=7, leading=8.4, textColor=colors.Color(0.3, 0.3, 0.3)
+        ),
+        "h1": ParagraphStyle(
+            "fc-h1",
+            parent=base,
+            fontName=f.bold,
+            fontSize=14,
+            leading=18,
+            spaceAfter=6,
+            keepWithNext=1,
+        ),
+        "h2": ParagraphStyle(
+            "fc-h2",
+            parent=base,
+            fontName=f.bold,
+            fontSize=10.5,
+            leading=13,
+            spaceBefore=8,
+            spaceAfter=3,
+            keepWithNext=1,
+        ),
+        "title": ParagraphStyle("fc-title", parent=base, fontName=f.bold, fontSize=22, leading=27),
+        "subtitle": ParagraphStyle("fc-sub", parent=base, fontSize=12, leading=16),
+        "box": ParagraphStyle(
+            "fc-box",
+            parent=base,
+            fontSize=9,
+            leading=12,
+            borderColor=colors.black,
+            borderWidth=1,
+            borderPadding=6,
+            spaceBefore=10,
+            spaceAfter=10,
+        ),
+    }
+
+
+def p(text: object, style: str = "cell") -> Paragraph:
+    """Paragraph of plain (escaped) text."""
+    return Paragraph(escape(txt(text)), styles()[style])
+
+
+def fmt_num(v) -> str:
+    """A figure for display: thousands separators, sensible decimals, ∞, –."""
+    if v is None or (isinstance(v, float) and math.isnan(v)):
+        return "–"
+    if isinstance(v, str):
+        return v
+    if isinstance(v, bool):
+        return str(v)
+    v = float(v)
+    if math.isinf(v):
+        return "∞" if v > 0 else "−∞"
+    a = abs(v)
+    if a >= 1000:
+        return f"{v:,.0f}"
+    if a >= 100:
+        return f"{v:.1f}"
+    if a >= 1 or a == 0:
+        return f"{v:.2f}"
+    return f"{v:.3g}"
+
+
+def node_figure(key: str, value) -> tuple[str, str, str]:
+    """(label, formatted value, unit) for a node figure; unknown keys get a
+    label from the key and a unit from its suffix."""
+    if key in NODE_LABELS:
+        label, unit, scale, dec = NODE_LABELS[key]
+        if isinstance(value, (int, float)) and not isinstance(value, bool):
+            shown = "∞" if math.isinf(value) else f"{value * scale:,.{dec}f}"
+        else:
+            shown = fmt_num(value)
+        return label, shown, unit
+    unit = ""
+    stem = key
+    for suf, u in _SUFFIX_UNITS:
+        if key.endswith(suf):
+            unit, stem = u, key[: -len(suf)]
+            break
+    label = stem.replace("_", " ").strip().capitalize() or key
+    return label, fmt_num(value), unit
+
+
+def status_cell(status: str) -> Paragraph:
+    word = STATUS_WORD.get(status, str(status))
+    return p(word, "cellb" if status in ("fail", "warn") else "cell")
+
+
+def grid_table(rows, widths, header=True, status_col: int | None = None, statuses=()):
+    """A ruled table; rows whose status is fail/warn get a tinted status cell
+    (the status word carries the meaning without colour)."""
+    t = Table(rows, colWidths=widths, repeatRows=1 if header else 0)
+    cmds = [
+        ("GRID", (0, 0), (-1, -1), 0.4, GRID),
+        ("VALIGN", (0, 0), (-1, -1), "TOP"),
+        ("LEFTPADDING", (0, 0), (-1, -1), 3),
+        ("RIGHTPADDING", (0, 0), (-1, -1), 3),
+        ("TOPPADDING", (0, 0), (-1, -1), 2),
+        ("BOTTOMPADDING", (0, 0), (-1, -1), 2),
+    ]
+    if header:
+        cmds.append(("BACKGROUND", (0, 0), (-1, 0), HEAD_BG))
+    if status_col is not None:
+        for i, s in enumerate(statuses, start=1 if header else 0):
+            bg = {"fail": FAIL_BG, "warn": WARN_BG}.get(s)
+            if bg is not None:
+                cmds.append(("BACKGROUND", (status_col, i), (status_col, i), bg))
+                cmds.append(("LINEBEFORE", (0, i), (0, i), 2.5, colors.black))
+    t.setStyle(TableStyle(cmds))
+    return t
+
+
+def headed(cells: list[str]) -> list[Paragraph]:
+    return [p(c, "cellb") for c in cells]
+
+
+# -------------------------------------------------------------------- cover
+
+
+def _clip(s: str, n: int) -> str:
+    s = str(s)
+    return s if len(s) <= n else s[: n - 1] + "…"
+
+
+def cover(results, job_sha: str, heading) -> list:
+    j = results.job_summary
+    c = results.counts()
+    out = [
+        heading("Feed calculation report", "cover", 0, "title"),
+        Spacer(1, 4),
+        p("Sizing and checks of a low-voltage transformer feed", "subtitle"),
+        Spacer(1, 18),
+    ]
+    rows = [
+        ("Project", j.get("name", "")),
+        ("Site", j.get("site", "")),
+        ("Prepared by", j.get("prepared_by", "")),
+        ("Date", j.get("date", "")),
+        ("Revision", j.get("revision", "") or "–"),
+        ("Rule set", j.get("rules", "")),
+        ("Job file", f"{j.get('file', '')}  (sha256 {job_sha[:16]})"),
+        ("Made with", f"feedcheck {j.get('feedcheck_version', '')}"),
+    ]
+    extra = [
+        (k.replace("_", " ").capitalize(), str(v))
+        for k, v in j.items()
+        if k
+        not in (
+            "name",
+            "site",
+            "prepared_by",
+            "date",
+            "revision",
+            "rules",
+            "file",
+            "feedcheck_version",
+        )
+    ]
+    out.append(
+        grid_table(
+            [[p(a, "cellb"), p(b, "body")] for a, b in rows + extra], [110, WIDTH - 110], False
+        )
+    )
+    out += [Spacer(1, 14), p("Summary of checks", "h2")]
+    words = [("fail", "FAIL"), ("warn", "WARN"), ("ok", "OK"), ("info", "INFO")]
+    cells = [
+        [p(f"{w}: {c.get(s, 0)}", "h2") for s, w in words],
+        [
+            p(t, "small")
+            for t in (
+                "checks that failed",
+                "checks that need attention",
+                "checks that passed",
+                "figures reported for information",
+            )
+        ],
+    ]
+    t = Table(cells, colWidths=[WIDTH / 4] * 4)
+    cmds = [("BOX", (i, 0), (i, 1), 1, colors.black) for i in range(4)]
+    if c.get("fail"):
+        cmds.append(("BACKGROUND", (0, 0), (0, 1), FAIL_BG))
+    if c.get("warn"):
+        cmds.append(("BACKGROUND", (1, 0), (1, 1), WARN_BG))
+    t.setStyle(TableStyle(cmds))
+    out.append(t)
+    out.append(Paragraph(escape(txt(CAUTION)), styles()["box"]))
+    out += [Spacer(1, 4), p("Tables used (versions)", "h2")]
+    trows = [headed(["table", "origin", "edition", "sha256 (first 16)"])]
+    for tb in results.tables:
+        trows.append(
+            [
+                p(tb.get("name", ""), "note"),
+                p(tb.get("origin", ""), "note"),
+                p(_clip(tb.get("edition", ""), 60), "note"),
+                p(str(tb.get("sha256", ""))[:16], "note"),
+            ]
+        )
+    out.append(grid_table(trows, [150, 56, 202, 120]))
+    return out
+
+
+# ------------------------------------------------------------ findings
+
+
+def findings_summary(results, page_of, heading) -> list:
+    out = [heading("Summary of findings", "findings", 0, "h1")]
+    c = results.counts()
+    shown = [f for f in results.sorted_findings() if f.status in ("fail", "warn")]
+    out.append(
+        p(
+            f"{c['fail']} failing and {c['warn']} warning checks are listed here, failures "
+            f"first; {c['ok']} passing checks and {c['info']} information figures appear on "
+            "each element's calculation sheet (page in the last column).",
+            "body",
+        )
+    )
+    out.append(Spacer(1, 6))
+    if not shown:
+        out.append(p("No check failed and none gave a warning.", "h2"))
+        return out
+    out.append(findings_table(shown, page_of, with_subject=True))
+    return out
+
+
+def _check_cell(f) -> list:
+    cell = [p(f.check, "cellb")]
+    if f.note:
+        cell.append(p(f.note, "note"))
+    return cell
+
+
+def findings_table(findings, page_of=None, with_subject=False):
+    head = (
+        ["status"]
+        + (["element"] if with_subject else [])
+        + ["check", "figure", "limit", "rule id"]
+        + (["page"] if page_of else [])
+    )
+    rows = [headed(head)]
+    for f in findings:
+        unit = f" {f.unit}" if f.unit else ""
+        row = [status_cell(f.status)]
+        if with_subject:
+            row.append(p(f.subject, "cellb"))
+        row += [
+            _check_cell(f),
+            p(fmt_num(f.value) + (unit if f.value is not None else "")),
+            p(fmt_num(f.limit) + (unit if f.limit is not None else "")),
+            p(f.rule_id),
+        ]
+        if page_of:
+            row.append(p(page_of(f.subject)))
+        rows.append(row)
+    widths = [40, 50, 184, 62, 62, 120] if with_subject else [40, 208, 70, 70, 140]
+    if page_of:
+        widths.append(32)
+    scale = WIDTH / sum(widths)
+    return grid_table(
+        rows, [w * scale for w in widths], status_col=0, statuses=[f.status for f in findings]
+    )
+
+
+# --------------------------------------------------------- calculation sheets
+
+
+def node_figures_table(node):
+    rows = [headed(["figure", "value", "unit", "key"])]
+    for k, v in node.values.items():
+        label, shown, unit = node_figure(k, v)
+        rows.append([p(label), p(shown), p(unit), p(k, "note")])
+    return grid_table(rows, [230, 90, 70, WIDTH - 390])
+
+
+def sheet_section(sheet, node, findings, tables_by_name, heading) -> list:
+    out = [heading(f"Calculation sheet — {sheet.title}", f"sheet:{sheet.element_id}", 1, "h1")]
+    if sheet.inputs:
+        out.append(p("Inputs", "h2"))
+        out.append(
+            grid_table([[p(a, "cellb"), p(b)] for a, b in sheet.inputs], [170, WIDTH - 170], False)
+        )
+    if sheet.steps:
+        out.append(p("Calculation", "h2"))
+        rows = [headed(["#", "step", "formula and substituted values", "result", "rule id"])]
+        for i, s in enumerate(sheet.steps, start=1):
+            res = s.result if isinstance(s.result, str) else fmt_num(s.result)
+            rows.append(
+                [
+                    p(str(i)),
+                    p(s.label, "cellb"),
+                    [p(s.formula), p("= " + s.substituted, "note")],
+                    p(f"{res} {s.unit}".strip(), "cellb"),
+                    p(s.rule_id or "–"),
+                ]
+            )
+        out.append(grid_table(rows, [18, 112, 210, 70, WIDTH - 410]))
+    if findings:
+        out.append(p("Checks: figure, limit, status", "h2"))
+        out.append(findings_table(findings))
+    if node is not None and node.values:
+        out.append(p("Figures at this node", "h2"))
+        out.append(node_figures_table(node))
+    if sheet.tables_used:
+        out.append(p("Tables used", "h2"))
+        rows = [headed(["table", "title", "edition", "sha256"])]
+        for name in sheet.tables_used:
+            tb = tables_by_name.get(name, {})
+            rows.append(
+                [
+                    p(name),
+                    p(tb.get("title", "")),
+                    p(tb.get("edition", "")),
+                    p(str(tb.get("sha256", "–"))[:16]),
+                ]
+            )
+        out.append(grid_table(rows, [130, 200, 100, WIDTH - 430]))
+    return out
+
+
+# ------------------------------------------------------------ schedules
+
+
+def _cell_text(col: str, v, decimals) -> str:
+    if v is None or (isinstance(v, float) and math.isnan(v)):
+        return ""
+    if col == "status":
+        return STATUS_WORD.get(str(v).lower(), str(v))
+    if decimals is not None and isinstance(v, (int, float)) and not isinstance(v, bool):
+        return "∞" if math.isinf(v) else f"{v:,.{decimals}f}"
+    if isinstance(v, float):
+        return fmt_num(v)
+    return str(v)
+
+
+def schedule_table(circuits, panel_id: str = ""):
+    """Panel schedule as a table: known columns in a fixed order, others after
+    (a column that only repeats the panel's id is left out). Rows flagged
+    ``fail``/``warn`` carry the status word, a tint and a bar."""
+    cols = [c for c in SCHEDULE_COLUMNS if c in circuits.columns]
+    cols += [c for c in circuits.columns if c not in SCHEDULE_COLUMNS]
+    cols = [c for c in cols if not (panel_id and (circuits[c].astype(str) == panel_id).all())]
+    weights = [SCHEDULE_COLUMNS.get(c, (c, 1.2, None))[1] for c in cols]
+    scale = WIDTH / sum(weights)
+    rows = [
+        [p(SCHEDULE_COLUMNS.get(c, (node_figure(c, 0)[0], 0, None))[0], "schedb") for c in cols]
+    ]
+    statuses = []
+    for rec in circuits.to_dict("records"):
+        st = str(rec.get("status", "")).lower()
+        statuses.append(st)
+        row = []
+        for c in cols:
+            dec = SCHEDULE_COLUMNS.get(c, ("", 0, None))[2]
+            text = _cell_text(c, rec.get(c), dec)
+            bold = c == "status" and st in ("fail", "warn")
+            row.append(p(text, "schedb" if bold else "sched"))
+        rows.append(row)
+    sc = cols.index("status") if "status" in cols else None
+    return grid_table(rows, [w * scale for w in weights], status_col=sc, statuses=statuses)
+
+
+def _total(v) -> str:
+    if isinstance(v, float) and v.is_integer() and abs(v) < 1e15:
+        return f"{int(v):,}"
+    return fmt_num(v)
+
+
+def schedule_section(panel_id, schedule, heading) -> list:
+    out = [heading(f"Panel schedule — {panel_id}", f"sched:{panel_id}", 1, "h1")]
+    circuits = getattr(schedule, "circuits", None)
+    if circuits is not None and len(circuits):
+        out.append(schedule_table(circuits, panel_id))
+    else:
+        out.append(p("No circuits in this schedule.", "body"))
+    totals = getattr(schedule, "totals", None) or {}
+    if totals:
+        out.append(p("Totals", "h2"))
+        rows = []
+        for k, v in totals.items():
+            if re.fullmatch(r"[a-z0-9_]+", str(k)):
+                label, _, unit = node_figure(str(k), v)
+            else:
+                label, unit = str(k), ""
+            rows.append([p(label, "cellb"), p(_total(v)), p(unit)])
+        t = grid_table(rows, [200, 110, 60], False)
+        t.hAlign = "LEFT"
+        out.append(t)
+    return out
+
+
+# --------------------------------------------- methods, tables, cautions
+
+
+def methods_section(results, heading) -> list:
+    out = [heading("Methods and assumptions", "methods", 0, "h1")]
+    if results.methods:
+        rows = [headed(["method", "published source"])]
+        rows += [[p(m), p(s)] for m, s in results.methods]
+        out.append(grid_table(rows, [300, WIDTH - 300]))
+    else:
+        out.append(p("No method was recorded by the checks.", "body"))
+    out.append(p("Assumptions", "h2"))
+    if results.assumptions:
+        out += [p(f"• {a}", "body") for a in results.assumptions]
+    else:
+        out.append(p("No assumption was made beyond the job's inputs and the tables.", "body"))
+    return out
+
+
+def tables_section(results, meta_of, heading) -> list:
+    out = [heading("Table provenance", "tables", 0, "h1")]
+    out.append(
+        p(
+            "Each data table the checks read, with the document it follows. Tables of "
+            "confidence other than 'published' must be checked against the source before "
+            "the figures that use them are relied on.",
+            "body",
+        )
+    )
+    for tb in results.tables:
+        meta = meta_of(tb.get("name", ""))
+        rows = [
+            ("Title", tb.get("title", "")),
+            ("Source", tb.get("source", "")),
+            ("Edition", tb.get("edition", "")),
+            ("Confidence", tb.get("confidence", "")),
+            ("Basis", meta.get("basis", "–")),
+            ("Conditions", meta.get("conditions", "–")),
+            ("Origin", f"{tb.get('origin', '')} copy, sha256 {tb.get('sha256', '')}"),
+        ]
+        out.append(p(tb.get("name", ""), "h2"))
+        out.append(grid_table([[p(a, "cellb"), p(b)] for a, b in rows], [80, WIDTH - 80], False))
+    return out
+
+
+CAUTION_POINTS = (
+    "These results are an aid to design and review, not an approval. Every figure must be "
+    "verified against the electrical code adopted where the work is done, with its local "
+    "amendments.",
+    "A licensed electrician or engineer must review the figures, the inputs and the "
+    "conclusions before anything is bought, built or energised.",
+    "The figures are only as good as the inputs: conductor lengths, sizes, nameplate "
+    "impedances and loads should be confirmed on site and against the equipment supplied.",
+    "This tool does not cover the safety of the work on site: isolation, testing for "
+    "absence of voltage, protective equipment and safe work practices are outside it.",
+    "Tables marked 'common practice' or 'from memory — verify' on the table provenance "
+    "page have not been confirmed against a published source.",
+)
+
+
+def cautions_section(heading) -> list:
+    out = [heading("Cautions", "cautions", 0, "h1")]
+    out.append(Paragraph(escape(txt(CAUTION)), styles()["box"]))
+    out += [p(f"• {c}", "body") for c in CAUTION_POINTS]
+    return out
