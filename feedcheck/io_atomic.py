@@ -19,6 +19,9 @@ def atomic_path(target: str | Path) -> Iterator[Path]:
     )
     os.close(fd)
     tmp_path = Path(tmp)
+    umask = os.umask(0)
+    os.umask(umask)
+    os.chmod(tmp_path, 0o666 & ~umask)  # mkstemp makes 0600; outputs get the usual mode
     try:
         yield tmp_path
         os.replace(tmp_path, target)
