@@ -48,6 +48,16 @@ def _fmt(v, scale, dec) -> str:
     return f"{v * scale:,.{dec}f}"
 
 
+def _phase_keys(totals: dict) -> tuple[str, ...]:
+    from .units import UnitParseError, parse_voltage_system
+
+    try:
+        three = parse_voltage_system(str(totals.get("system", ""))).phases == 3
+    except UnitParseError:
+        three = True
+    return ("phase_a_va", "phase_b_va", "phase_c_va") if three else ("phase_a_va", "phase_b_va")
+
+
 def render_text(results: Results, show_all: bool = False) -> str:
     out = io.StringIO()
     j = results.job_summary
@@ -68,6 +78,19 @@ def render_text(results: Results, show_all: bool = False) -> str:
         )
         out.write("\n")
     out.write("\n")
+    for pid, sr in results.schedules.items():
+        t = sr.totals
+        out.write(
+            f"schedule {pid}: {int(t.get('circuits', 0))} circuits, demand "
+            f"{t.get('demand_va', 0) / 1000:.1f} kVA (continuous at 125 %: "
+            f"{t.get('design_va', 0) / 1000:.1f} kVA), phases "
+            + "/".join(f"{t[k] / 1000:.1f}" for k in _phase_keys(t) if k in t)
+            + f" kVA, imbalance {t.get('imbalance_pct', 0):.1f} %; "
+            f"{int(t.get('fail_circuits', 0))} circuits fail, "
+            f"{int(t.get('warn_circuits', 0))} warn\n"
+        )
+    if results.schedules:
+        out.write("\n")
     shown = [f for f in results.sorted_findings() if show_all or f.status in ("fail", "warn")]
     for f in shown:
         fig = ""

@@ -9,6 +9,11 @@ from dataclasses import dataclass, field
 from .findings import Finding, count_by_status, sort_findings
 
 
+def _plain(v):
+    """numpy scalars → Python numbers (for JSON)."""
+    return v.item() if hasattr(v, "item") else v
+
+
 @dataclass(frozen=True)
 class CalcStep:
     """One line of a calculation sheet: formula, substituted values, result."""
@@ -104,6 +109,16 @@ class Results:
                 for n in self.nodes
             ],
             "runs": [{k: clean(v) for k, v in r.items()} for r in self.runs],
+            "schedules": {
+                pid: {
+                    "totals": {k: clean(_plain(v)) for k, v in sr.totals.items()},
+                    "circuits": [
+                        {k: clean(_plain(v)) for k, v in row.items()}
+                        for row in sr.circuits.to_dict("records")
+                    ],
+                }
+                for pid, sr in self.schedules.items()
+            },
             "findings": [f.as_dict() for f in self.sorted_findings()],
             "counts": self.counts(),
             "tables": self.tables,
