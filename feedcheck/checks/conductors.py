@@ -33,6 +33,32 @@ def _device(ctx: Context, run: Run) -> float | None:
     return None
 
 
+def _select(
+    run: Run,
+    cont: float,
+    non: float,
+    device: float | None,
+    term: float | None,
+    cc: int,
+    rooftop_c: float,
+) -> sk.Selection:
+    """Smallest conductor of the run's material and system for its load and device."""
+    return sk.select_conductor(
+        cont,
+        non,
+        run.material,
+        run.insulation_c,
+        run.ambient_c,
+        cc,
+        termination_c=term,
+        sets=run.sets,
+        raceway=run.raceway,
+        device_a=device,
+        rooftop_adder_c=rooftop_c,
+        system=run.size.system,
+    )
+
+
 def _next_passing(
     run: Run,
     cont: float,
@@ -43,20 +69,7 @@ def _next_passing(
     rooftop_c: float,
 ) -> str:
     try:
-        sel = sk.select_conductor(
-            cont,
-            non,
-            run.material,
-            run.insulation_c,
-            run.ambient_c,
-            cc,
-            termination_c=term,
-            sets=run.sets,
-            raceway=run.raceway,
-            device_a=device,
-            rooftop_adder_c=rooftop_c,
-            system=run.size.system,
-        )
+        sel = _select(run, cont, non, device, term, cc, rooftop_c)
     except ValueError as exc:
         return f"no size found with {run.sets} set(s): {exc}"
     return f"next size that passes: {sel.size} {run.material.capitalize()} ({sel.governing})"
@@ -237,20 +250,7 @@ def _check_egc(ctx, run, device, cont, non, term, cc, rooftop_c) -> None:
         )
         return
     try:
-        minimum = sk.select_conductor(
-            cont,
-            non,
-            run.material,
-            run.insulation_c,
-            run.ambient_c,
-            cc,
-            termination_c=term,
-            sets=run.sets,
-            raceway=run.raceway,
-            device_a=device,
-            rooftop_adder_c=rooftop_c,
-            system=run.size.system,
-        ).size
+        minimum = _select(run, cont, non, device, term, cc, rooftop_c).size
     except ValueError:
         minimum = run.size.name
     if SIZES[minimum].area_mm2 > run.size.area_mm2:
