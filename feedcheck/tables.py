@@ -130,7 +130,8 @@ def read_table_file(path: Path, name: str, origin: str) -> Table:
     try:
         text = raw.decode("utf-8")
     except UnicodeDecodeError as exc:
-        problems.add("", f"byte {exc.start}", "UTF-8 text")
+        line = raw[: exc.start].count(b"\n") + 1
+        problems.add("", f"byte 0x{raw[exc.start]:02x}", "UTF-8 text", line=line)
         problems.raise_if_any()
     meta, body, n_header = _split_header(text)
     for key in REQUIRED_META:
@@ -162,16 +163,30 @@ def read_table_file(path: Path, name: str, origin: str) -> Table:
         if df[col].isna().any() and not col.startswith("opt_"):
             bad = int(df.index[df[col].isna()][0]) + n_header + 2
             problems.add(f"column '{col}'", "", "a value in every row (no gaps)", line=bad)
+    not_numeric: set[str] = set()  # reported once, not again as out of order
     for col, unit in units.items():
-        if col in df.columns and not pd.api.types.is_numeric_dtype(df[col]):
-            problems.add(f"column '{col}'", str(df[col].iloc[0]), f"numbers (in {unit})")
+        if not df.empty and col in df.columns and not pd.api.types.is_numeric_dtype(df[col]):
+            bad_rows = pd.to_numeric(df[col], errors="coerce").isna() & df[col].notna()
+            first = int(bad_rows.to_numpy().argmax())
+            problems.add(
+                f"column '{col}'",
+                str(df[col].iloc[first]),
+                f"numbers (in {unit})",
+                line=first + n_header + 2,
+            )
+            not_numeric.add(col)
     key = meta.get("key", "").strip()
     if key:
         if key not in df.columns:
             problems.add("header '# key:'", key, "a column of the table")
         elif df[key].duplicated().any():
-            dup = df[key][df[key].duplicated()].iloc[0]
-            problems.add(f"column '{key}'", dup, "unique key values")
+            first = int(df[key].duplicated().to_numpy().argmax())
+            problems.add(
+                f"column '{key}'",
+                df[key].iloc[first],
+                "unique key values",
+                line=first + n_header + 2,
+            )
     for rule in filter(None, (r.strip() for r in meta.get("monotonic", "").split(";"))):
         parts = rule.split()
         if len(parts) != 2 or parts[1] not in (
@@ -187,6 +202,8 @@ def read_table_file(path: Path, name: str, origin: str) -> Table:
         col, direction = parts
         if col not in df.columns:
             problems.add("header '# monotonic:'", col, "a column of the table")
+            continue
+        if df.empty or col in not_numeric:
             continue
         s = pd.to_numeric(df[col], errors="coerce")
         d = s.diff().iloc[1:]

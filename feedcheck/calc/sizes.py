@@ -151,11 +151,21 @@ def parse_size(text: str) -> Size:
         key = f"{float(m.group(1)):g} mm2"
         if key in SIZES:
             return SIZES[key]
-    close = difflib.get_close_matches(raw.strip(), list(SIZES), n=2, cutoff=0.5)
+    close = _neighbours(s) or difflib.get_close_matches(raw.strip(), list(SIZES), n=2, cutoff=0.5)
     hint = (" — did you mean " + " or ".join(repr(c) for c in close) + "?") if close else ""
     raise SizeError(
         raw, "a standard size: 14 AWG … 4/0 AWG, 250 … 2000 kcmil, or 1.5 … 630 mm2" + hint
     )
+
+
+def _neighbours(s: str) -> list[str]:
+    """For a non-standard kcmil or mm² figure, the standard sizes just below and above it."""
+    for rx, order, unit in ((_KCMIL_RE, KCMIL_SIZES, "kcmil"), (_MM2_RE, METRIC_SIZES, "mm2")):
+        if (m := rx.match(s)) and math.isfinite(x := float(m.group(1))):
+            below = [v for v in order if v < x][-1:]
+            above = [v for v in order if v > x][:1]
+            return [f"{v:g} {unit}" for v in below + above]
+    return []
 
 
 def next_larger(size: Size, steps: int = 1) -> Size | None:
