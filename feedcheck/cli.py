@@ -14,7 +14,7 @@ import click
 
 from . import CAUTION, __version__
 from .commands.errors import handle_input_errors
-from .commands.params import PERCENT, POWER, VOLTAGE_SYSTEM, QuantityType
+from .commands.params import APPARENT_POWER, IMPEDANCE_PCT, VOLTAGE_SYSTEM, X_R, QuantityType
 
 CONTEXT = {"help_option_names": ["-h", "--help"], "max_content_width": 100}
 
@@ -48,6 +48,18 @@ def main(tables_dir):
         set_user_tables_dir(tables_dir)
 
 
+def _check_out_folder(value):
+    """An output path whose folder does not exist is a usage error (exit 2)."""
+    from pathlib import Path
+
+    if value and not Path(value).resolve().parent.is_dir():
+        raise click.BadParameter(
+            f"got {value!r}; the folder {str(Path(value).parent)!r} does not exist",
+            param_hint="--out",
+        )
+    return value
+
+
 @main.command("check", context_settings=CONTEXT, epilog=CAUTION)
 @click.argument("job_file", type=click.Path(dir_okay=True, exists=False))
 @click.option(
@@ -62,6 +74,7 @@ def main(tables_dir):
     "--out",
     "out",
     type=click.Path(dir_okay=False),
+    callback=lambda ctx, param, value: _check_out_folder(value),
     help="Write the JSON/CSV/text to this file (atomically) instead of stdout.",
 )
 @click.option("--all", "show_all", is_flag=True, help="Also list passing and info findings.")
@@ -107,6 +120,9 @@ def init_cmd(path, force):
     from .io_atomic import write_text_atomic
     from .template import TEMPLATE
 
+    if not Path(path).resolve().parent.is_dir():
+        click.echo(f"error: {path}: the folder {Path(path).parent} does not exist", err=True)
+        sys.exit(2)
     if Path(path).exists() and not force:
         click.echo(f"error: {path} exists; use --force to overwrite it", err=True)
         sys.exit(2)
@@ -148,7 +164,7 @@ def calc():
 
 
 @calc.command("rated-current", context_settings=CONTEXT, epilog=CAUTION)
-@click.option("--rating", required=True, type=POWER, help="Apparent power, e.g. 75kVA.")
+@click.option("--rating", required=True, type=APPARENT_POWER, help="Apparent power, e.g. 75kVA.")
 @click.option(
     "--voltage",
     required=True,
@@ -174,10 +190,10 @@ def rated_current_cmd(rating, voltage, phases):
 
 
 @calc.command("regulation", context_settings=CONTEXT, epilog=CAUTION)
-@click.option("--impedance", required=True, type=PERCENT, help="Nameplate %Z, e.g. 5.1%.")
-@click.option("--x-r", "x_r", required=True, type=float, help="X/R ratio, e.g. 3.5.")
-@click.option("--load", "load_va", type=POWER, help="Load, e.g. 60kVA (with --rating).")
-@click.option("--rating", "rating_va", type=POWER, help="Transformer rating, e.g. 75kVA.")
+@click.option("--impedance", required=True, type=IMPEDANCE_PCT, help="Nameplate %Z, e.g. 5.1%.")
+@click.option("--x-r", "x_r", required=True, type=X_R, help="X/R ratio, e.g. 3.5.")
+@click.option("--load", "load_va", type=APPARENT_POWER, help="Load, e.g. 60kVA (with --rating).")
+@click.option("--rating", "rating_va", type=APPARENT_POWER, help="Transformer rating, e.g. 75kVA.")
 @click.option(
     "--pf",
     type=click.FloatRange(0.05, 1.0),
@@ -203,8 +219,6 @@ def regulation_cmd(impedance, x_r, load_va, rating_va, pf):
 
     if (load_va is None) != (rating_va is None):
         raise click.UsageError("give both --load and --rating, or neither (full load)")
-    if x_r <= 0:
-        raise click.BadParameter(f"got {x_r}; expected a positive X/R", param_hint="--x-r")
     n = 1.0 if load_va is None else load_va / rating_va
     r, x = impedance_parts_pct(impedance, x_r)
     ex = regulation_pct_exact(r, x, n, pf)

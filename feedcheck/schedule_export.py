@@ -19,6 +19,7 @@ from .io_atomic import atomic_path
 
 FORMATS = (".csv", ".xlsx", ".json")
 _FORMULA_START = r"^[=+\-@\t\r]"
+_FORMULA_CHARS = np.array(["=", "+", "-", "@", "\t", "\r"])
 
 
 def neutralise_column(values: np.ndarray) -> np.ndarray:
@@ -30,7 +31,16 @@ def neutralise_column(values: np.ndarray) -> np.ndarray:
     ["'=1+1", 'ok', "'@SUM(A1)"]
     """
     import pandas as pd
+    from pandas.api.types import infer_dtype
 
+    values = np.asarray(values, dtype=object)
+    if infer_dtype(values, skipna=False) == "string":
+        # every cell is text: test the first character in C (numpy U1 keeps one char)
+        hit = np.isin(values.astype("U1"), _FORMULA_CHARS)
+        out = values.copy()
+        if hit.any():
+            out[hit] = "'" + values[hit]
+        return out
     s = pd.Series(values, dtype=object)
     hit = s.str.match(_FORMULA_START, na=False).to_numpy(bool)  # non-text cells: no match
     out = s.to_numpy(object).copy()

@@ -97,6 +97,20 @@ def check_voltage_drop(ctx: Context) -> None:
         load = ctx.loads[n]
         pct = v_pct[p]
         sheet = ctx.sheet(n, tree.kind[n], "")
+        if pct <= 0.0:  # the voltage collapsed upstream: nothing below can be computed
+            v_pct[n], cond_drop[n] = 0.0, cond_drop[p]
+            ctx.nodes[n].values.update({"voltage_pct": 0.0, "vdrop_pct": 100.0, "voltage_v": 0.0})
+            ctx.add(
+                n,
+                "voltage drop",
+                None,
+                None,
+                "%",
+                "info",
+                limits["feeder"].rule_id,
+                f"not computed: the voltage collapsed upstream of {n}",
+            )
+            continue
         if run is not None:
             pv = tree.voltage_of[p]
             seg = _run_drop(ctx, run, pv, load, pct, limits)
@@ -110,7 +124,21 @@ def check_voltage_drop(ctx: Context) -> None:
             r_pct, x_pct = tk.impedance_parts_pct(t.z_pct, x_r)
             frac = load.va / t.rating_va
             sending = pct / 100.0 * (1 + t.tap_pct / 100.0)
-            reg = tk.secondary_drop_pct_exact(r_pct, x_pct, frac, load.pf, sending)
+            try:
+                reg = tk.secondary_drop_pct_exact(r_pct, x_pct, frac, load.pf, sending)
+            except ValueError:
+                reg = 100.0 * sending  # no real secondary voltage: the load cannot be served
+                ctx.add(
+                    n,
+                    "transformer voltage under load",
+                    0.0,
+                    None,
+                    "%",
+                    "fail",
+                    "xfmr-loading",
+                    f"{t.id} cannot deliver {load.va / 1000:.1f} kVA: "
+                    "no real secondary voltage (load far beyond its rating)",
+                )
             sheet.step(
                 "Secondary voltage under load (primary at its actual voltage, tap "
                 f"{t.tap_pct:+g} %)",
@@ -158,15 +186,34 @@ def _run_drop(ctx: Context, run, pv, load, sending_pct: float, limits) -> float:
     r, x = float(r), float(x)
     sending_v = pv.line_v * sending_pct / 100.0
     approx_v = float(vk.voltage_drop_approximate_v(current, r, x, run.length_m, pf, kind, run.sets))
-    exact_v = (
-        float(
-            vk.voltage_drop_exact_circuit_v(
-                sending_v, current, r, x, run.length_m, pf, kind, run.sets
+    try:
+        exact_v = (
+            float(
+                vk.voltage_drop_exact_circuit_v(
+                    sending_v, current, r, x, run.length_m, pf, kind, run.sets
+                )
             )
+            if current > 0
+            else 0.0
         )
-        if current > 0
-        else 0.0
-    )
+    except ValueError:  # the run cannot carry this load at all: its voltage collapses
+        lim = limits["feeder"]
+        ctx.add(
+            run.id,
+            "feeder voltage drop",
+            100.0,
+            lim.max_pct,
+            "%",
+            "fail",
+            lim.rule_id,
+            f"{current:.0f} A over {run.length_m / 0.3048:,.0f} ft of {run.size.name}: the "
+            "load cannot be delivered (the voltage collapses); "
+            + _smallest_passing(run, current, pf, kind, lim.max_pct, pv.line_v),
+        )
+        ctx.run_values.setdefault(run.id, {}).update(
+            {"current_a": current, "vdrop_pct": 100.0, "length_m": run.length_m}
+        )
+        return sending_pct
     pct = 100.0 * exact_v / pv.line_v
     approx_pct = 100.0 * approx_v / pv.line_v
     sh = ctx.sheet(run.id, "run", f"Run {run.id} ({run.from_id} → {run.to_id})")

@@ -15,11 +15,11 @@ import click
 
 from .. import CAUTION
 from .params import (
+    APPARENT_POWER,
     CURRENT,
+    IMPEDANCE_PCT,
     LENGTH,
     MATERIAL,
-    PERCENT,
-    POWER,
     RACEWAY,
     SIZE,
     VOLTAGE_SYSTEM,
@@ -186,11 +186,13 @@ def compute(kva, primary, secondary, z, x_r, source_fault, source_x_r, tolerance
 
 
 @click.command("fault", help=HELP, context_settings={"help_option_names": ["-h", "--help"]})
-@click.option("--kva", "kva", type=POWER, required=True, help="Transformer rating, e.g. 75kVA.")
+@click.option("--kva", "kva", type=APPARENT_POWER, required=True,
+              help="Transformer rating, e.g. 75kVA.")
 @click.option("--primary", type=VOLTAGE_SYSTEM, required=True, help='e.g. "480 V delta".')
 @click.option("--secondary", type=VOLTAGE_SYSTEM, required=True,
               help='e.g. "208Y/120 V" or "120/240 V".')
-@click.option("--z", "z_pct", type=PERCENT, required=True, help="Nameplate impedance, e.g. 5.1%.")
+@click.option("--z", "z_pct", type=IMPEDANCE_PCT, required=True,
+              help="Nameplate impedance, e.g. 5.1%.")
 @click.option("--x-r", "x_r", type=click.FloatRange(min=0.0, min_open=True), default=None,
               help="Transformer X/R; default: typical value from tables/transformer_xr.csv.")
 @click.option("--source-fault", type=SOURCE_CURRENT, default="infinite", show_default=True,

@@ -39,6 +39,10 @@ def handle_input_errors(fn):
             KeyboardInterrupt,
         ):
             raise
+        except OSError as exc:  # the machine said no (missing folder, disk full, permission)
+            where = exc.filename or "a file"
+            click.echo(f"error: {where}: {exc.strerror or exc}; nothing was written.", err=True)
+            sys.exit(2)
         except Exception as exc:  # a bug, not the user's input: say so without a traceback
             if os.environ.get("FEEDCHECK_DEBUG"):
                 raise

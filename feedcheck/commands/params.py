@@ -20,26 +20,65 @@ class QuantityType(click.ParamType):
         allow_bare: bool = False,
         must_be_positive: bool = True,
         allow_inf: bool = False,
+        apparent_only: bool = False,
+        lo: float | None = None,
+        hi: float | None = None,
+        what: str = "",
     ) -> None:
         self.dimension = dimension
         self.name = dimension
         self.allow_bare = allow_bare
         self.must_be_positive = must_be_positive
         self.allow_inf = allow_inf
+        self.apparent_only = apparent_only
+        self.lo, self.hi, self.what = lo, hi, what
 
     def convert(self, value, param, ctx):
         if isinstance(value, float):
             return value
         try:
-            return parse_quantity(
+            out = parse_quantity(
                 value,
                 self.dimension,
                 allow_bare=self.allow_bare,
                 must_be_positive=self.must_be_positive,
                 allow_inf=self.allow_inf,
+                apparent_only=self.apparent_only,
             )
         except UnitParseError as exc:
             self.fail(f"got {exc.value!r}; expected {exc.expected}", param, ctx)
+        if (self.lo is not None and out < self.lo) or (self.hi is not None and out > self.hi):
+            self.fail(
+                f"got {value!r}; expected {self.what or self.dimension} from "
+                f"{self.lo:g} to {self.hi:g}",
+                param,
+                ctx,
+            )
+        return out
+
+
+class RatioType(click.ParamType):
+    """A plain finite number within a range (X/R ratios)."""
+
+    name = "ratio"
+
+    def __init__(self, lo: float, hi: float) -> None:
+        self.lo, self.hi = lo, hi
+
+    def convert(self, value, param, ctx):
+        import math
+
+        try:
+            x = float(value)
+        except (TypeError, ValueError):
+            self.fail(
+                f"got {value!r}; expected a number from {self.lo:g} to {self.hi:g}", param, ctx
+            )
+        if not (math.isfinite(x) and self.lo <= x <= self.hi):
+            self.fail(
+                f"got {value!r}; expected a number from {self.lo:g} to {self.hi:g}", param, ctx
+            )
+        return x
 
 
 class VoltageSystemType(click.ParamType):
@@ -74,6 +113,10 @@ class SizeType(click.ParamType):
 
 LENGTH = QuantityType("length")
 POWER = QuantityType("power")
+APPARENT_POWER = QuantityType("power", apparent_only=True)
+IMPEDANCE_PCT = QuantityType("percent", lo=0.5, hi=25.0, what="a transformer impedance in %")
+X_R_RANGE = (0.1, 100.0)
+X_R = RatioType(0.1, 100.0)
 CURRENT = QuantityType("current")
 VOLTAGE = QuantityType("voltage")
 TEMPERATURE = QuantityType("temperature", must_be_positive=False)

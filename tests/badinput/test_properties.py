@@ -20,7 +20,6 @@ Monotonic laws checked (limiting-case identities, no invented oracle):
 from __future__ import annotations
 
 import numpy as np
-import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
@@ -121,9 +120,6 @@ def test_random_valid_jobs_check(tmp_path_factory, text):
     job.write_text(text, encoding="utf-8")
     r = cli("check", job, "--format", "json")
     assert_no_traceback(r)
-    if r.exit_code == 3 and "the load cannot be delivered" in r.stderr:
-        # known gap in the checks (reported; see test_undeliverable_load_is_a_finding)
-        pytest.xfail("a feeder whose drop reaches the whole voltage is an internal error")
     assert r.exit_code in (0, 1), r.stderr + "\n" + text
 
 
@@ -239,7 +235,6 @@ def test_random_bytes_exit_2(tmp_path, data):
     assert r.stderr.startswith("error: ") and r.stdout == ""
 
 
-@pytest.mark.xfail(strict=True, reason="checks/: undeliverable load raises instead of failing")
 def test_undeliverable_load_is_a_finding(tmp_path):
     """57 kVA through 573 ft of 8 AWG Al (found by the property test above): the drop
     reaches the whole voltage. That is a failing check (exit 1), not exit 3."""

@@ -92,7 +92,7 @@ def test_calc_rated_current():
 
 def test_calc_rated_current_bad_unit_exits_2():
     r = _run("calc", "rated-current", "--rating", "75kg", "--voltage", "208V")
-    assert r.exit_code == 2 and "expected a power" in r.stderr
+    assert r.exit_code == 2 and "expected an apparent power" in r.stderr
 
 
 def test_calc_regulation():
