@@ -57,3 +57,16 @@ def test_large_thermoplastic_uses_lower_k():
 def test_bad_input(call, match):
     with pytest.raises(ValueError, match=match):
         call()
+
+
+def test_large_protective_conductor_has_a_k_row():
+    # Found by tests/fuzz/fuzz_inputs.py (seed 11): a 750 kcmil (380 mm²) insulated
+    # protective conductor had no k row. IEC 60364-5-54 Table A.54.2 (from memory): PVC
+    # over 300 mm², 30 → 140 °C: k = 133 (Cu), 88 (Al); checked here against the Annex A
+    # formula as the other rows are.
+    from feedcheck.calc.withstand import k_adiabatic, k_constant
+
+    for material, k_tab in (("cu", 133.0), ("al", 88.0)):
+        row = k_constant("thermoplastic", material, "protective", 380.0)
+        assert row.k == k_tab
+        assert float(k_adiabatic(material, 30.0, 140.0)) == pytest.approx(k_tab, rel=0.015)
