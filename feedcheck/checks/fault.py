@@ -137,7 +137,13 @@ def check_faults(ctx: Context) -> None:
                 "ok" if ok else "warn",
                 "fault-ptp-disagree",
                 f"point-to-point {_kA(ptp[n])} vs ohmic {_kA(ohmic_max_no_motor[i])}"
-                + ("" if ok else "; the methods disagree — review the impedance data"),
+                + (
+                    ""
+                    if ok
+                    else "; the point-to-point method adds impedance magnitudes (no X/R) and "
+                    "reads low where conductor resistance dominates — the ohmic figure is the "
+                    "one used for ratings; review the impedance data if the gap surprises you"
+                ),
             )
         if n == "source":
             continue
