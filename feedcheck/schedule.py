@@ -267,8 +267,14 @@ def _read_xlsx(raw: bytes, problems: ProblemList) -> pd.DataFrame:
 
 
 # --------------------------------------------------------------------------- header
-def _match_header(df: pd.DataFrame, problems: ProblemList) -> dict[str, tuple[int, str, str]]:
-    """canonical name -> (column position, header text, unit)."""
+def _match_header(df: pd.DataFrame, has_values, problems: ProblemList
+                  ) -> dict[str, tuple[int, str, str]]:
+    """canonical name -> (column position, header text, unit).
+
+    ``df`` holds the header row and the rows below it as text (the first few are enough:
+    they are searched for a header placed too low); ``has_values(pos)`` tells whether
+    column ``pos`` has a non-blank cell below the header.
+    """
     header = [str(x) for x in df.iloc[0].tolist()]
     found: dict[str, tuple[int, str, str]] = {}
     unknown: list[str] = []
@@ -276,7 +282,7 @@ def _match_header(df: pd.DataFrame, problems: ProblemList) -> dict[str, tuple[in
     for pos, text in enumerate(header):
         name, unit = normalise_header(text)
         if not name:
-            if (df.iloc[1:, pos].astype(str).str.strip() != "").any():
+            if has_values(pos):
                 blank.append(pos)
             continue
         key = _LOOKUP.get(name)
@@ -325,80 +331,103 @@ def _match_header(df: pd.DataFrame, problems: ProblemList) -> dict[str, tuple[in
 
 
 # --------------------------------------------------------------------------- cells
-class _Cells:
-    """Column parsers that collect problems for every bad cell (vectorised)."""
+def _factorised(raw: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Column cells as (codes, distinct stripped texts): ``texts[codes]`` is the column.
 
-    def __init__(self, df: pd.DataFrame, found, rows: np.ndarray, problems: ProblemList):
-        self.df = df
+    Every parse and test below runs once per distinct text, not once per cell.
+    """
+    import pandas as pd
+
+    codes, uniq = pd.factorize(raw)
+    if len(codes) and codes.min() < 0:  # a missing cell (short CSV row): text as pandas does
+        codes, uniq = pd.factorize(pd.Series(raw, dtype=object).astype(str).to_numpy(object))
+    texts = pd.Series(uniq, dtype=object).astype(str).to_numpy(object)
+    stripped = np.array([t.strip() for t in texts] + [None], dtype=object)[:-1]
+    s_codes, s_uniq = pd.factorize(stripped)
+    return s_codes[codes], np.asarray(s_uniq, dtype=object)
+
+
+class _Cells:
+    """Column parsers that collect problems for every bad cell (vectorised: each distinct
+    cell text is parsed once and the result spread over the rows that hold it)."""
+
+    def __init__(self, cols: dict[int, tuple[np.ndarray, np.ndarray]], n: int, found,
+                 rows: np.ndarray, problems: ProblemList):
+        self.cols = cols  # column position -> (codes, distinct stripped texts)
+        self.n = n
         self.found = found
         self.rows = rows
         self.problems = problems
         self.count = 0
 
-    def text(self, key: str, default: str = "") -> pd.Series:
-        import pandas as pd
+    def col(self, key: str) -> tuple[np.ndarray, np.ndarray]:
+        return self.cols[self.found[key][0]]
 
+    def text(self, key: str, default: str = "") -> np.ndarray:
         if key not in self.found:
-            return pd.Series(default, index=self.df.index, dtype=object)
-        return self.df[self.found[key][0]]  # cells are stripped text (read_schedule)
+            return np.full(self.n, default, dtype=object)
+        codes, uniq = self.col(key)
+        return uniq[codes]  # cells are stripped text
 
     def bad(self, key: str, mask, values, expected: str) -> None:
+        """``values``: the column's cells, or its (codes, texts)."""
         idx = np.flatnonzero(np.asarray(mask))
         if not len(idx):
             return
         _pos, header, _unit = self.found[key]
-        vals = np.asarray(values, dtype=object)
-        for i in idx[: max(0, MAX_PROBLEMS - self.count)]:
-            self.problems.add(f"row {self.rows[i]}, column '{header}'", vals[i], expected)
+        shown = idx[: max(0, MAX_PROBLEMS - self.count)]
+        if isinstance(values, tuple):
+            codes, uniq = values
+            vals = uniq[codes[shown]]
+        else:
+            vals = np.asarray(values, dtype=object)[shown]
+        for i, v in zip(shown, vals, strict=True):
+            self.problems.add(f"row {self.rows[i]}, column '{header}'", v, expected)
         self.count += len(idx)
 
     def number(self, key: str, expected: str, lo: float, hi: float, default: float | None,
                integer: bool = False, strip: str = "") -> np.ndarray:
         import pandas as pd
 
-        s = self.text(key)
         if key not in self.found:
-            return np.full(len(self.df), np.nan if default is None else default)
+            return np.full(self.n, np.nan if default is None else default)
+        codes, uniq = self.col(key)
+        s = pd.Series(uniq, dtype=object)
         clean = s.str.replace(r"[,_\s]", "", regex=True)
         if strip:
             clean = clean.str.replace(strip, "", regex=True, case=False)
         v = pd.to_numeric(clean, errors="coerce").to_numpy(float)
-        empty = (s == "").to_numpy()
+        empty = uniq == ""
         if default is not None:
             v[empty] = default
         ok = np.isfinite(v) & (v >= lo) & (v <= hi)
         if integer:
             ok &= v == np.floor(v)
-        self.bad(key, ~ok & (~empty | (default is None)), s.to_numpy(object), expected)
-        return v
+        self.bad(key, (~ok & (~empty | (default is None)))[codes], (codes, uniq), expected)
+        return v[codes]
 
     def choice(self, key: str, mapping: dict[str, object], expected: str, default,
                squeeze: bool = False) -> np.ndarray:
         import pandas as pd
 
-        s = self.text(key).str.lower()
+        if key not in self.found:
+            return np.full(self.n, default, dtype=object)
+        codes, uniq = self.col(key)
+        s = pd.Series(uniq, dtype=object).str.lower()
         if squeeze:
             s = s.str.replace(r"[\s°]|deg", "", regex=True)
-        if key not in self.found:
-            return np.full(len(self.df), default, dtype=object)
-        codes, uniq = pd.factorize(s)
-        mapped = np.array([mapping.get(u) if u else default for u in uniq] + [None],
-                          dtype=object)
-        out = mapped[codes]
-        self.bad(key, pd.isna(out) & (s != "").to_numpy(), self.text(key).to_numpy(object),
-                 expected)
-        return out
+        low = s.to_numpy(object)
+        mapped = np.array([mapping.get(u) if u else default for u in low] + [None],
+                          dtype=object)[:-1]
+        self.bad(key, (pd.isna(mapped) & (low != ""))[codes], (codes, uniq), expected)
+        return mapped[codes]
 
     def conductor(self, key: str, required: bool) -> tuple[np.ndarray, np.ndarray]:
-        import pandas as pd
-
         from .calc.sizes import SizeError, parse_size
 
-        s = self.text(key)
         if key not in self.found:
-            n = len(self.df)
-            return np.full(n, "", dtype=object), np.full(n, "", dtype=object)
-        codes, uniq = pd.factorize(s)
+            return np.full(self.n, "", dtype=object), np.full(self.n, "", dtype=object)
+        codes, uniq = self.col(key)
         sizes, mats = [], []
         for u in uniq:
             parts = u.rsplit(None, 1)
@@ -412,15 +441,14 @@ class _Cells:
                     size = None
             sizes.append(size)
             mats.append(mat)
-        size_arr = np.array([*sizes, None], dtype=object)[codes]
-        mat_arr = np.array([*mats, None], dtype=object)[codes]
-        empty = (s == "").to_numpy()
-        bad = pd.isna(size_arr) & (~empty | required)
-        self.bad(key, bad, s.to_numpy(object),
+        bad = np.array([sz is None for sz in sizes]) & ((uniq != "") | required)
+        self.bad(key, bad[codes], (codes, uniq),
                  "a size and material such as '12 AWG Cu', '1/0 AWG Al' or '4 mm2 Cu'")
-        size_arr[pd.isna(size_arr)] = ""
-        mat_arr[pd.isna(mat_arr)] = ""
-        return size_arr, mat_arr
+        size_u = np.array([sz if sz is not None else "" for sz in sizes] + [None],
+                          dtype=object)[:-1]
+        mat_u = np.array([m if m is not None else "" for m in mats] + [None],
+                         dtype=object)[:-1]
+        return size_u[codes], mat_u[codes]
 
 
 def _truthy() -> dict[str, object]:
@@ -467,31 +495,38 @@ def read_schedule(path: str | Path, panel_id: str | None = None) -> Schedule:
     if df.shape[1] > MAX_COLUMNS:
         problems.add("row 1", f"{df.shape[1]} columns", f"at most {MAX_COLUMNS} columns")
         problems.raise_if_any()
-    df = df.astype(str)
-    found = _match_header(df, problems)
+    # every column as (codes, distinct stripped texts) of the rows below the header
+    cols = {pos: _factorised(df[col].to_numpy(object)[1:]) for pos, col in enumerate(df.columns)}
+    head = df.iloc[:6].astype(str)
+    found = _match_header(head, lambda pos: bool((cols[pos][1] != "").any()), problems)
     problems.raise_if_any()
-    body = df.iloc[1:].apply(lambda col: col.str.strip())
+    n_body = len(df) - 1
     rows_all = np.arange(2, len(df) + 1)
-    blank = (body == "").all(axis=1).to_numpy()
+    blank = np.ones(n_body, dtype=bool)
+    for codes, uniq in cols.values():
+        blank &= (uniq == "")[codes]
     # a header row repeated below the header (pasted twice, or a page break copy)
-    rep = np.zeros(len(body), dtype=bool)
     circ_pos = found["circuit"][0]
-    head_txt = str(df.iat[0, circ_pos]).strip().lower()
-    rep |= (body[circ_pos].str.lower() == head_txt).to_numpy(bool)
-    body = body[~blank]
-    rows = rows_all[~blank]
-    rep = rep[~blank]
+    head_txt = str(head.iat[0, circ_pos]).strip().lower()
+    codes, uniq = cols[circ_pos]
+    rep = np.array([u.lower() == head_txt for u in uniq], dtype=bool)[codes]
+    keep = np.flatnonzero(~blank)
+    rows = rows_all[keep]
+    rep = rep[keep]
     for r in rows[rep][:10]:
         problems.add(f"row {r}", "a repeated header row", "circuit rows only below the header")
-    body = body[~rep].reset_index(drop=True)
+    keep = keep[~rep]
     rows = rows[~rep]
-    if len(body) == 0:
+    n = len(rows)
+    if n == 0:
         problems.add("", "(no circuit rows)", "at least one circuit row under the header")
         problems.raise_if_any()
-    if len(body) > MAX_ROWS:
-        problems.add("", f"{len(body):,} rows", f"at most {MAX_ROWS:,} circuit rows")
+    if n > MAX_ROWS:
+        problems.add("", f"{n:,} rows", f"at most {MAX_ROWS:,} circuit rows")
         problems.raise_if_any()
-    c = _Cells(body, found, rows, problems)
+    if n < n_body:
+        cols = {pos: (codes[keep], uniq) for pos, (codes, uniq) in cols.items()}
+    c = _Cells(cols, n, found, rows, problems)
 
     circuit = c.number("circuit", "a circuit number, a whole number from 1 to 999", 1, 999,
                        None, integer=True)
@@ -521,12 +556,12 @@ def read_schedule(path: str | Path, panel_id: str | None = None) -> Schedule:
                        "steel")
     size, material = c.conductor("conductor", required=True)
     gsize, gmat = c.conductor("ground", required=False)
-    panel = c.text("panel", panel_id or p.stem).to_numpy(object)
+    panel = c.text("panel", panel_id or p.stem)
     if "panel" in found:
         empty_panel = panel == ""
         c.bad("panel", empty_panel, panel, "a panel id in every row of a multi-panel file")
     ok_amb = np.isnan(amb) | np.isnan(ins.astype(float)) | (amb < ins.astype(float))
-    c.bad("ambient", ~ok_amb, c.text("ambient").to_numpy(object),
+    c.bad("ambient", ~ok_amb, c.text("ambient"),
           "an ambient below the insulation rating")
     # duplicate circuit numbers and spaces taken twice (multi-pole circuits take n, n+2, ...)
     valid = np.isfinite(circuit) & np.isfinite(poles)
@@ -563,7 +598,7 @@ def read_schedule(path: str | Path, panel_id: str | None = None) -> Schedule:
     frame = pd.DataFrame({
         "panel": panel,
         "circuit": circuit.astype(np.int64),
-        "description": c.text("description").to_numpy(object),
+        "description": c.text("description"),
         "poles": poles.astype(np.int64),
         "load_value": load * load_scale,
         "pf": pf,

@@ -72,6 +72,9 @@ class ScheduleResult:
         The same figures, one row per panel.
     findings : list of Finding
         One per failing or warning circuit check (subject ``"LP1/7"``) plus the panel ones.
+        A plain list; :func:`check_schedule` builds it on first use (one object per
+        failing circuit check is costly on a large schedule, and many callers only want
+        the circuits table), then it is kept and may be changed like any list.
     demand : Load
         Demand load of the (first) panel, for the feed walk; ``demands`` has every panel.
     """
@@ -87,7 +90,85 @@ class ScheduleResult:
 
     @property
     def exit_code(self) -> int:
+        f = self.__dict__["_findings"]
+        if isinstance(f, _Deferred):
+            return 1 if f.any_fail else 0
         return 1 if any(f.status == "fail" for f in self.findings) else 0
+
+    def __getstate__(self) -> dict:
+        """Copies and pickles hold the built list."""
+        _get_findings(self)
+        return dict(self.__dict__)
+
+
+class _Deferred:
+    """Findings not built yet: ``build()`` makes the list; ``any_fail`` says whether it
+    holds a failing one."""
+
+    __slots__ = ("any_fail", "build")
+
+    def __init__(self, build, any_fail: bool):
+        self.build = build
+        self.any_fail = any_fail
+
+
+def _get_findings(self) -> list[Finding]:
+    f = self.__dict__["_findings"]
+    if isinstance(f, _Deferred):
+        f = self.__dict__["_findings"] = f.build()
+    return f
+
+
+def _set_findings(self, value) -> None:
+    self.__dict__["_findings"] = value
+
+
+# the dataclass __init__ assigns ``findings`` through this property (a list, or _Deferred)
+ScheduleResult.findings = property(_get_findings, _set_findings,  # type: ignore[assignment]
+                                   doc="Findings: a list, built on first use.")
+
+
+def _unique_rows(*arrays) -> tuple[np.ndarray, np.ndarray]:
+    """Distinct combinations of equal-length columns: ``(codes, first)``.
+
+    ``codes[i]`` numbers the combination of row ``i`` (in order of first appearance) and
+    ``first[j]`` is the first row holding combination ``j``, so ``f(x[first])[codes]``
+    equals ``f(x)`` for a function that works row by row. Floats are told apart by
+    their exact bits; a column with a missing value (None/NaN object) is not grouped.
+    """
+    import pandas as pd
+
+    n = len(arrays[0]) if arrays else 0
+    key = np.zeros(n, dtype=np.intp)
+    for a in arrays:
+        a = np.asarray(a)
+        if a.dtype.kind == "f":
+            a = np.ascontiguousarray(a, dtype=np.float64).view(np.int64)
+        codes = pd.factorize(a)[0]
+        if len(codes) and codes.min() < 0:
+            return np.arange(n), np.arange(n)
+        key = pd.factorize(key * (int(codes.max(initial=0)) + 1) + codes)[0]
+    first = np.flatnonzero(~pd.Series(key).duplicated().to_numpy())
+    return key, first
+
+
+def _per_unique(fn, *arrays, **kwargs):
+    """``fn(*arrays, **kwargs)`` for a row-by-row function, called once per distinct row."""
+    codes, first = _unique_rows(*arrays)
+    out = fn(*(np.asarray(a)[first] for a in arrays), **kwargs)
+    if isinstance(out, tuple):
+        return tuple(np.asarray(o)[codes] for o in out)
+    return np.asarray(out)[codes]
+
+
+def _texts(idx: np.ndarray, text, deps) -> np.ndarray:
+    """``[text(i) for i in idx]`` as an object array, formatted once per distinct
+    combination of the columns ``deps`` the text is made of."""
+    if not len(deps):
+        return np.full(len(idx), text(idx[0]), dtype=object)
+    codes, first = _unique_rows(*(np.asarray(d)[idx] for d in deps))
+    made = np.array([text(i) for i in idx[first]] + [None], dtype=object)[:-1]
+    return made[codes]
 
 
 # --------------------------------------------------------------------------- rules
@@ -172,11 +253,13 @@ def _ampacities(c: pd.DataFrame, problems: ProblemList):
     mat = c["material"].to_numpy(object)
     breaker = c["breaker_a"].to_numpy(float)
     term = c["termination_c"].to_numpy(float)
-    term = np.where(np.isnan(term), termination_c_for(breaker, size), term)
+    term = np.where(np.isnan(term), _per_unique(termination_c_for, breaker, size), term)
     t = ampacity_tables()
-    idx, m = size_index(size), material_index(mat)
+    idx = _per_unique(size_index, size)
+    m = _per_unique(material_index, mat)
     cols = np.asarray(COLUMNS_C)
-    ci = np.searchsorted(cols, c["insulation_c"].to_numpy(float))
+    ins = c["insulation_c"].to_numpy(float)
+    ci = np.searchsorted(cols, ins)
     ct = np.searchsorted(cols, term)
     missing = np.isnan(t.raceway_a[m, ci, idx]) | np.isnan(t.raceway_a[m, ct, idx])
     for i in np.flatnonzero(missing)[:50]:
@@ -185,10 +268,11 @@ def _ampacities(c: pd.DataFrame, problems: ProblemList):
                      "a size the ampacity table lists for that material (14 AWG … 2000 kcmil "
                      "Cu, 12 AWG … 2000 kcmil Al)")
     problems.raise_if_any()
-    derated = ampacity_a(size, mat, c["insulation_c"].to_numpy(float),
-                         c["ambient_c"].to_numpy(float), c["current_carrying"].to_numpy(),
-                         term)
-    unadjusted = ampacity_a(size, mat, c["insulation_c"].to_numpy(float), 30.0, 3, term)
+    # the kernels once per distinct conductor and conditions, spread over the circuits
+    derated = _per_unique(ampacity_a, size, mat, ins, c["ambient_c"].to_numpy(float),
+                          c["current_carrying"].to_numpy(), term)
+    unadjusted = _per_unique(lambda s, m, i, t: ampacity_a(s, m, i, 30.0, 3, t),
+                             size, mat, ins, term)
     return np.asarray(derated, float), np.asarray(unadjusted, float), term
 
 
@@ -291,45 +375,55 @@ def check_schedule(
     # ---- checks: (name, rule id, failing mask, value, limit, unit, status, reason text)
     checks = []
 
-    def add(name, rid, mask, value, limit, unit, status, text):
-        checks.append((name, rid, np.asarray(mask, bool), value, limit, unit, status, text))
+    def add(name, rid, mask, value, limit, unit, status, text, deps):
+        """``text(i)``: the reason for circuit ``i``, made only of the columns ``deps``."""
+        checks.append((name, rid, np.asarray(mask, bool), value, limit, unit, status, text,
+                       deps))
 
     need_brk = np.where(cont, 1.25 * current, current)
     add("breaker vs load", "sched-breaker-load", ~motor & (breaker < need_brk - 1e-9), breaker,
         need_brk, "A", rules["sched-breaker-load"]["status"],
-        lambda i: f"breaker {breaker[i]:g} A < {need_brk[i]:.1f} A load")
+        lambda i: f"breaker {breaker[i]:g} A < {need_brk[i]:.1f} A load", (breaker, need_brk))
     need_cond = np.where(cont, 1.25 * current, current)
     add("conductor vs load", "sched-conductor-load",
         ~motor & (unadjusted < need_cond - 1e-9), unadjusted, need_cond, "A",
         rules["sched-conductor-load"]["status"],
-        lambda i: f"{size[i]} {mat[i]} {unadjusted[i]:.0f} A < {need_cond[i]:.1f} A load")
+        lambda i: f"{size[i]} {mat[i]} {unadjusted[i]:.0f} A < {need_cond[i]:.1f} A load",
+        (size, mat, unadjusted, need_cond))
     add("conductor after derating", "sched-conductor-derated",
         ~motor & (derated < current - 1e-9), derated, current, "A",
         rules["sched-conductor-derated"]["status"],
-        lambda i: f"derated ampacity {derated[i]:.1f} A < {current[i]:.1f} A load")
+        lambda i: f"derated ampacity {derated[i]:.1f} A < {current[i]:.1f} A load",
+        (derated, current))
     add("motor conductor", "sched-motor-conductor", motor & (derated < 1.25 * current - 1e-9),
         derated, 1.25 * current, "A", rules["sched-motor-conductor"]["status"],
-        lambda i: f"{size[i]} {mat[i]} {derated[i]:.1f} A < 125 % of {current[i]:.1f} A motor")
+        lambda i: f"{size[i]} {mat[i]} {derated[i]:.1f} A < 125 % of {current[i]:.1f} A motor",
+        (size, mat, derated, current))
     from .calc.conductor import material_index
 
-    small = protection_tables().small_limit_a[material_index(mat), size_index(size)]
-    mx = np.asarray(max_device_a(derated, size, mat), float)
+    small = protection_tables().small_limit_a[_per_unique(material_index, mat),
+                                              _per_unique(size_index, size)]
+    mx = np.asarray(_per_unique(max_device_a, derated, size, mat), float)
     add("small conductor", "sched-small-conductor", ~motor & (breaker > small + 1e-9), breaker,
         small, "A", rules["sched-small-conductor"]["status"],
-        lambda i: f"{size[i]} {mat[i]} on {breaker[i]:g} A (at most {small[i]:g} A)")
+        lambda i: f"{size[i]} {mat[i]} on {breaker[i]:g} A (at most {small[i]:g} A)",
+        (size, mat, breaker, small))
     add("conductor vs breaker", "sched-conductor-breaker",
         ~motor & (breaker > mx + 1e-9) & ~(breaker > small + 1e-9), breaker, mx, "A",
         rules["sched-conductor-breaker"]["status"],
-        lambda i: f"breaker {breaker[i]:g} A over {derated[i]:.1f} A conductor (max {mx[i]:g} A)")
+        lambda i: f"breaker {breaker[i]:g} A over {derated[i]:.1f} A conductor (max {mx[i]:g} A)",
+        (breaker, derated, mx))
     motor_max = np.zeros(n)
     if motor.any():
         motor_max[motor] = next_standard_rating_a(np.minimum(2.5 * current[motor], 6000.0))
     add("motor breaker", "sched-motor-breaker", motor & (breaker > motor_max + 1e-9), breaker,
         motor_max, "A", rules["sched-motor-breaker"]["status"],
-        lambda i: f"motor breaker {breaker[i]:g} A over {motor_max[i]:g} A (250 % rule)")
+        lambda i: f"motor breaker {breaker[i]:g} A over {motor_max[i]:g} A (250 % rule)",
+        (breaker, motor_max))
     add("motor breaker minimum", "sched-motor-breaker-min", motor & (breaker < current - 1e-9),
         breaker, current, "A", rules["sched-motor-breaker-min"]["status"],
-        lambda i: f"motor breaker {breaker[i]:g} A below {current[i]:.1f} A running current")
+        lambda i: f"motor breaker {breaker[i]:g} A below {current[i]:.1f} A running current",
+        (breaker, current))
 
     gsize = c["ground_size"].to_numpy(object)
     has_g = gsize != ""
@@ -338,23 +432,26 @@ def check_schedule(
     g_need = np.zeros(n)
     if has_g.any():
         gm = c["ground_material"].to_numpy(object)
-        need, _table = _egc_required_area(breaker[has_g], gm[has_g], size[has_g], mat[has_g])
+        need, _table = _per_unique(_egc_required_area, breaker[has_g], gm[has_g], size[has_g],
+                                   mat[has_g])
         g_need[has_g] = need
-        g_area[has_g] = AREA_MM2[size_index(gsize[has_g])]
+        g_area[has_g] = AREA_MM2[_per_unique(size_index, gsize[has_g])]
         g_ok[has_g] = g_area[has_g] >= need * (1 - 1e-9)
     add("grounding conductor", "sched-egc", ~g_ok, g_area, g_need, "mm2",
         rules["sched-egc"]["status"],
-        lambda i: f"ground {gsize[i]} smaller than Table 250.122 for {breaker[i]:g} A")
+        lambda i: f"ground {gsize[i]} smaller than Table 250.122 for {breaker[i]:g} A",
+        (gsize, breaker))
 
     max_poles = 3 if system.phases == 3 else 2
     add("poles vs panel", "sched-poles-phases", poles > max_poles, poles.astype(float),
         float(max_poles), "poles", rules["sched-poles-phases"]["status"],
-        lambda i: f"{poles[i]} poles on a {system.phases}-phase panel")
+        lambda i: f"{poles[i]} poles on a {system.phases}-phase panel", (poles,))
     add("neutral for one pole", "sched-neutral", (poles == 1) & (system.neutral_v is None),
         poles.astype(float), 2.0, "poles", rules["sched-neutral"]["status"],
-        lambda i: f"one-pole circuit on {system.text} (no neutral)")
+        lambda i: f"one-pole circuit on {system.text} (no neutral)", ())
 
-    r_m, x_m = ac_impedance_ohm_per_m(size, mat, c["raceway"].to_numpy(object), 75.0)
+    r_m, x_m = _per_unique(lambda s, m, r: ac_impedance_ohm_per_m(s, m, r, 75.0), size, mat,
+                           c["raceway"].to_numpy(object))
     vd_v = voltage_drop_approximate_v(current, r_m, x_m, length, pf, vd_kind)
     vd_pct = 100.0 * np.asarray(vd_v, float) / nominal_v
     if isinstance(feeder_drop_pct, dict):
@@ -368,30 +465,25 @@ def check_schedule(
     b_id = branch_rule[0] if isinstance(branch_rule, tuple) else branch_rule
     t_id = total_rule[0] if isinstance(total_rule, tuple) else total_rule
     add("branch voltage drop", b_id, vd_pct > b_lim + 1e-9, vd_pct, b_lim, "%", b_status,
-        lambda i: f"branch drop {vd_pct[i]:.2f} % > {b_lim:g} %")
+        lambda i: f"branch drop {vd_pct[i]:.2f} % > {b_lim:g} %", (vd_pct,))
     add("total voltage drop", t_id, total_pct > t_lim + 1e-9, total_pct, t_lim, "%",
-        t_status, lambda i: f"total drop {total_pct[i]:.2f} % > {t_lim:g} %")
+        t_status, lambda i: f"total drop {total_pct[i]:.2f} % > {t_lim:g} %", (total_pct,))
 
     # ---- status and reason per circuit (worst of its checks)
     sev = np.full(n, SEVERITY["ok"])
     reason = np.full(n, "", dtype=object)
-    findings: list[Finding] = []
-    subj = None
-    for name, rid, mask, value, limit, unit, status, text in checks:
+    circ_found = []  # per check with failures: what its findings are made of
+    for name, rid, mask, value, limit, unit, status, text, deps in checks:
         idx = np.flatnonzero(mask)
         if not len(idx):
             continue
         sev[idx] = np.minimum(sev[idx], SEVERITY[status])
-        texts = np.array([text(i) for i in idx], dtype=object)
+        texts = _texts(idx, text, deps)
         reason[idx] = np.where(reason[idx] == "", texts, reason[idx] + "; " + texts)
-        if subj is None:
-            subj = np.char.add(np.char.add(panel.astype(str), "/"), circuit.astype(str))
-        vals = np.broadcast_to(np.asarray(value, float), (n,))
-        lims = np.broadcast_to(np.asarray(limit, float), (n,))
-        findings.extend(
-            Finding(str(subj[i]), name, float(vals[i]), float(lims[i]), unit, status, rid,
-                    str(texts[k]))
-            for k, i in enumerate(idx))
+        circ_found.append((name, rid, idx, np.broadcast_to(np.asarray(value, float), (n,))[idx],
+                           np.broadcast_to(np.asarray(limit, float), (n,))[idx], unit, status,
+                           texts))
+    findings: list[Finding] = []  # the panel ones; the circuit ones come first, on demand
     status_names = np.array(["fail", "warn", "ok", "info"], dtype=object)
 
     # ---- phases: every space a circuit takes
@@ -495,8 +587,24 @@ def check_schedule(
                   "connected_va": float(conn.sum()), "demand_va": float(dem_va.sum()),
                   "worst_imbalance_pct": float(imbalance.max()), "occupancy": occupancy,
                   "system": system.text}
-    return ScheduleResult(schedule.path, system.text, circuits, totals, panels, findings,
+    any_fail = any(f[6] == "fail" for f in circ_found) or any(
+        f.status == "fail" for f in findings)
+    deferred = _Deferred(lambda: _circuit_findings(panel, circuit, circ_found) + findings,
+                         any_fail)
+    return ScheduleResult(schedule.path, system.text, circuits, totals, panels, deferred,
                           demands[str(panels["panel"].iat[0])], demands)
+
+
+def _circuit_findings(panel: np.ndarray, circuit: np.ndarray, circ_found) -> list[Finding]:
+    """One Finding per failing circuit check, check by check, circuits in order."""
+    out: list[Finding] = []
+    for name, rid, idx, vals, lims, unit, status, texts in circ_found:
+        subj = np.char.add(np.char.add(panel[idx].astype(str), "/"), circuit[idx].astype(str))
+        # tolist(): Python str and float, as str()/float() of each element would give
+        out.extend(Finding(s, name, v, lim, unit, status, rid, str(t))
+                   for s, v, lim, t in zip(subj.tolist(), vals.tolist(), lims.tolist(),
+                                           texts.tolist(), strict=True))
+    return out
 
 
 def demand_load(schedule: Schedule, system: VoltageSystem, occupancy: str = "other") -> Load:

@@ -72,18 +72,103 @@ def _safe_frame(df):
     return out
 
 
+CSV_CHUNK_ROWS = 100_000
+
+
+def _csv_quoter():
+    """Text → the cell as the standard CSV writer writes it (quoted where needed)."""
+    import csv
+    import io
+
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")  # the dialect pandas' to_csv uses by default
+
+    def quote(text: str) -> str:
+        buf.seek(0)
+        buf.truncate()
+        w.writerow([text, ""])  # a second (empty) field: never the lone-empty-field case
+        return buf.getvalue()[:-2]
+
+    return quote
+
+
+def _csv_cells(values: np.ndarray, quote) -> np.ndarray | None:
+    """Cells of one column as ``to_csv`` renders them after :func:`_safe_frame` (floats
+    rounded to 6 places, NaN empty, formula-like text neutralised), each distinct value
+    formatted once; None for a column kind this path does not handle."""
+    import pandas as pd
+    from pandas.api.types import infer_dtype
+
+    if values.dtype == np.float64:
+        bits = np.ascontiguousarray(values.round(6)).view(np.int64)
+        codes, uniq = pd.factorize(bits)
+        u = uniq.view(np.float64)
+        txt = u.astype(str).astype(object)  # what pandas does for float blocks
+        txt[np.isnan(u)] = ""
+    elif values.dtype.kind in "iu":
+        codes, uniq = pd.factorize(values)
+        txt = np.asarray(uniq).astype(str).astype(object)
+    elif values.dtype.kind == "b":
+        codes, txt = values.astype(np.intp), np.array(["False", "True"], dtype=object)
+    elif values.dtype == object and infer_dtype(values, skipna=False) == "string":
+        codes, uniq = pd.factorize(values)
+        txt = np.array([quote(u) for u in neutralise_column(np.asarray(uniq, dtype=object))]
+                       + [None], dtype=object)[:-1]
+    else:
+        return None
+    return txt[codes]
+
+
+def _write_csv_fast(results, tmp: Path) -> bool:
+    """Write the circuits CSV byte for byte as ``_safe_frame(...).to_csv`` would, a chunk
+    of rows at a time without building one frame of every circuit; False (nothing
+    written) when the results hold a column this path does not handle."""
+    results = list(results)
+    if not results:
+        return False
+    cols = list(results[0].circuits.columns)
+    dtypes = list(results[0].circuits.dtypes)
+    if not cols or not all(isinstance(c, str) for c in cols) or "file" in cols:
+        return False
+    from pandas.api.types import infer_dtype
+
+    for r in results:
+        if list(r.circuits.columns) != cols or list(r.circuits.dtypes) != dtypes:
+            return False
+        for k, d in zip(cols, dtypes, strict=True):
+            if not isinstance(d, np.dtype) or d.kind not in "fiubO" or (
+                    d.kind == "f" and d != np.float64) or (
+                    d.kind == "O" and infer_dtype(r.circuits[k].to_numpy(), skipna=False)
+                    != "string"):
+                return False
+    quote = _csv_quoter()
+    with open(tmp, "w", encoding="utf-8", newline="") as fh:
+        fh.write(",".join(quote(c) for c in ["file", *cols]) + "\n")
+        for r in results:
+            c = r.circuits
+            name = quote(neutralise_column(np.array([r.path.name], dtype=object))[0])
+            for start in range(0, len(c), CSV_CHUNK_ROWS):
+                part = c.iloc[start:start + CSV_CHUNK_ROWS]
+                cells = [_csv_cells(part[k].to_numpy(), quote) for k in cols]
+                if any(x is None for x in cells):
+                    return False
+                lists = [[name] * len(part)] + [x.tolist() for x in cells]
+                fh.write("\n".join(map(",".join, zip(*lists, strict=True))) + "\n")
+    return True
+
+
 def write_results(results, target: str | Path, caution: str = "") -> None:
     """Write every circuit of ``results`` to ``target`` (.csv, .xlsx or .json), atomically."""
     target = Path(target)
     suffix = target.suffix.lower()
     if suffix not in FORMATS:
         raise ValueError(f"output: got {target.name!r}; expected a .csv, .xlsx or .json file")
-    df = circuits_frame(results)
     with atomic_path(target) as tmp:
         if suffix == ".csv":
-            _safe_frame(df).to_csv(tmp, index=False, lineterminator="\n")
+            if not _write_csv_fast(results, tmp):
+                _safe_frame(circuits_frame(results)).to_csv(tmp, index=False, lineterminator="\n")
         elif suffix == ".xlsx":
-            _write_xlsx(results, df, tmp, caution)
+            _write_xlsx(results, circuits_frame(results), tmp, caution)
         else:
             tmp.write_text(_json(results, caution), encoding="utf-8")
 
