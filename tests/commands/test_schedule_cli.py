@@ -30,7 +30,7 @@ def test_clean_schedule_exits_0(samples):
 
 def test_errors_flagged_exit_1_and_csv_neutralised(samples, tmp_path):
     out = tmp_path / "res.csv"
-    r = _run("schedule", samples / "LP1_with_errors.csv", *WYE, "--out", out)
+    r = _run("schedule", samples / "LA_with_errors.csv", *WYE, "--out", out)
     assert r.exit_code == 1, r.output
     assert "FAIL" in r.stdout and "12 AWG cu on 30 A" in r.stdout
     text = out.read_text(encoding="utf-8")
@@ -41,7 +41,7 @@ def test_errors_flagged_exit_1_and_csv_neutralised(samples, tmp_path):
 
 def test_xlsx_and_json_exports(samples, tmp_path):
     xl = tmp_path / "res.xlsx"
-    r = _run("schedule", samples / "LP1_with_errors.csv", *WYE, "--out", xl)
+    r = _run("schedule", samples / "LA_with_errors.csv", *WYE, "--out", xl)
     assert r.exit_code == 1
     ws = openpyxl.load_workbook(xl, read_only=True)["circuits"]
     rows = list(ws.iter_rows(values_only=True))
