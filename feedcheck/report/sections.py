@@ -69,23 +69,22 @@ _SUFFIX_UNITS = (
 )
 # schedule column: (header, width weight, decimals or None for text)
 SCHEDULE_COLUMNS: dict[str, tuple[str, float, int | None]] = {
-    "circuit": ("Ckt", 0.7, None),
-    "description": ("Description", 3.0, None),
-    "poles": ("Poles", 0.8, 0),
-    "phase": ("Phase", 0.9, None),
-    "kind": ("Kind", 1.4, None),
-    "load_va": ("Load VA", 1.2, 0),
-    "current_a": ("Current A", 1.1, 1),
-    "breaker_a": ("Breaker A", 1.1, 0),
-    "size": ("Size", 1.3, None),
-    "material": ("Mat.", 0.7, None),
-    "length_m": ("Length m", 1.1, 1),
-    "ampacity_a": ("Ampacity A", 1.2, 0),
-    "vdrop_pct": ("Drop %", 1.0, 2),
-    "total_vdrop_pct": ("Total drop %", 1.1, 2),
-    "status": ("Status", 1.3, None),
-    "reason": ("Reason", 3.0, None),
-    "row": ("File row", 0.8, None),
+    "circuit": ("Ckt", 0.6, None),
+    "description": ("Description", 2.1, None),
+    "poles": ("Pol", 0.55, 0),
+    "phase": ("Ph", 0.65, None),
+    "kind": ("Kind", 1.55, None),
+    "load_va": ("Load VA", 0.95, 0),
+    "current_a": ("I A", 0.75, 1),
+    "breaker_a": ("Brkr A", 0.75, 0),
+    "size": ("Wire", 1.3, None),
+    "length_m": ("Len m", 0.75, 1),
+    "ampacity_a": ("Amp A", 0.75, 0),
+    "vdrop_pct": ("Drop %", 0.8, 2),
+    "total_vdrop_pct": ("Total %", 0.85, 2),
+    "status": ("Status", 1.15, None),
+    "reason": ("Reason", 2.6, None),
+    "row": ("Row", 0.72, None),
 }
 
 
@@ -192,15 +191,17 @@ def status_cell(status: str) -> Paragraph:
     return p(word, "cellb" if status in ("fail", "warn") else "cell")
 
 
-def grid_table(rows, widths, header=True, status_col: int | None = None, statuses=()):
+def grid_table(
+    rows, widths, header=True, status_col: int | None = None, statuses=(), pad: float = 3
+):
     """A ruled table; rows whose status is fail/warn get a tinted status cell
     (the status word carries the meaning without colour)."""
     t = Table(rows, colWidths=widths, repeatRows=1 if header else 0)
     cmds = [
         ("GRID", (0, 0), (-1, -1), 0.4, GRID),
         ("VALIGN", (0, 0), (-1, -1), "TOP"),
-        ("LEFTPADDING", (0, 0), (-1, -1), 3),
-        ("RIGHTPADDING", (0, 0), (-1, -1), 3),
+        ("LEFTPADDING", (0, 0), (-1, -1), pad),
+        ("RIGHTPADDING", (0, 0), (-1, -1), pad),
         ("TOPPADDING", (0, 0), (-1, -1), 2),
         ("BOTTOMPADDING", (0, 0), (-1, -1), 2),
     ]
@@ -441,6 +442,10 @@ def schedule_table(circuits, panel_id: str = ""):
     """Panel schedule as a table: known columns in a fixed order, others after
     (a column that only repeats the panel's id is left out). Rows flagged
     ``fail``/``warn`` carry the status word, a tint and a bar."""
+    if "size" in circuits.columns and "material" in circuits.columns:  # "12 AWG Cu"
+        circuits = circuits.assign(
+            size=circuits["size"].astype(str) + " " + circuits["material"].astype(str).str.title()
+        ).drop(columns=["material"])
     cols = [c for c in SCHEDULE_COLUMNS if c in circuits.columns]
     cols += [c for c in circuits.columns if c not in SCHEDULE_COLUMNS]
     cols = [c for c in cols if not (panel_id and (circuits[c].astype(str) == panel_id).all())]
@@ -461,7 +466,7 @@ def schedule_table(circuits, panel_id: str = ""):
             row.append(p(text, "schedb" if bold else "sched"))
         rows.append(row)
     sc = cols.index("status") if "status" in cols else None
-    return grid_table(rows, [w * scale for w in weights], status_col=sc, statuses=statuses)
+    return grid_table(rows, [w * scale for w in weights], status_col=sc, statuses=statuses, pad=1.5)
 
 
 def _total(v) -> str:
