@@ -63,3 +63,16 @@ def test_motor_contribution_referred_through_the_transformer(samples):
 def test_demo_jobs_pass(samples, name):
     r = CliRunner().invoke(main, ["check", str(samples / f"{name}.toml")])
     assert r.exit_code == 0, r.stdout
+
+
+def test_no_load_tap_shifts_the_secondary_voltage(samples, write_job):
+    # A +2.5 % no-load tap raises the secondary voltage by 2.5 % of the primary voltage
+    # (per-unit arithmetic, common practice, no source): E_s = 1.025 pu before the drop.
+    text = (samples / "harbor_kitchen.toml").read_text()
+    base = run_job(write_job(text, "base.toml"))
+    tapped = run_job(
+        write_job(text.replace("x_r = 3.5\n", 'x_r = 3.5\ntap = "+2.5 %"\n'), "tap.toml")
+    )
+    v0 = next(n for n in base.nodes if n.id == "T1").values["voltage_pct"]
+    v1 = next(n for n in tapped.nodes if n.id == "T1").values["voltage_pct"]
+    assert v1 - v0 == pytest.approx(2.5, abs=0.05)

@@ -1,25 +1,23 @@
-"""Attach the commands that live in their own modules to the CLI groups."""
+"""Attach the commands that live in their own modules to the CLI groups.
+
+Each module imports only click and light modules at its top (heavy imports happen
+inside the command bodies), so registering them keeps `feedcheck calc …` fast.
+"""
 
 from __future__ import annotations
 
 
 def register(main, calc) -> None:
-    """Add command objects to ``main`` and ``calc`` (imports click-only modules)."""
-    import importlib
+    """Add the command objects to ``main`` and ``calc``."""
+    from . import calc_conductor, calc_fault, calc_vdrop, report, schedule
 
-    for module, attr, group in (
-        ("calc_conductor", "ampacity_command", calc),
-        ("calc_conductor", "size_command", calc),
-        ("calc_vdrop", "voltage_drop_command", calc),
-        ("calc_fault", "fault_command", calc),
-        ("report", "report_command", main),
-        ("report", "rerun_command", main),
-        ("schedule", "schedule_command", main),
+    for group, command in (
+        (calc, calc_conductor.ampacity_command),
+        (calc, calc_conductor.size_command),
+        (calc, calc_vdrop.voltage_drop_command),
+        (calc, calc_fault.fault_command),
+        (main, report.report_command),
+        (main, report.rerun_command),
+        (main, schedule.schedule_command),
     ):
-        try:
-            mod = importlib.import_module(f"feedcheck.commands.{module}")
-        except ModuleNotFoundError as exc:
-            if exc.name != f"feedcheck.commands.{module}":
-                raise
-            continue
-        group.add_command(getattr(mod, attr))
+        group.add_command(command)
