@@ -19,6 +19,7 @@ from pathlib import Path
 
 from reportlab.graphics.shapes import Circle, Drawing, Line, PolyLine, Rect, String
 from reportlab.lib import colors
+from reportlab.pdfbase.pdfmetrics import stringWidth
 
 GREY = colors.Color(0.45, 0.45, 0.45)
 LIGHT = colors.Color(0.88, 0.88, 0.88)
@@ -336,19 +337,33 @@ def voltage_profile_chart(results, width: float = 500.0, height: float = 260.0) 
                     strokeDashArray=_DASHES[i % len(_DASHES)],
                 )
             )
+    placed: list[tuple[float, float, float, float]] = []  # label boxes already drawn
     for n in have.values():
         x, y = sx(n.distance_m), sy(n.values["voltage_pct"])
         d.add(Circle(x, y, 2.2, fillColor=colors.black, strokeColor=colors.black))
-        d.add(
-            String(
-                x + 3,
-                y + 3,
-                txt(f"{n.id} {n.values['voltage_pct']:.2f} %"),
-                fontName=f.regular,
-                fontSize=6.5,
-            )
-        )
+        label = txt(f"{n.id} {n.values['voltage_pct']:.2f} %")
+        w = stringWidth(label, f.regular, 6.5)
+        lx, ly = _free_spot(x + 3, y + 3, w, 7.0, placed)
+        placed.append((lx, ly, lx + w, ly + 7.0))
+        d.add(String(lx, ly, label, fontName=f.regular, fontSize=6.5))
     return d
+
+
+def _free_spot(x: float, y: float, w: float, h: float, placed) -> tuple[float, float]:
+    """First of a few positions near (x, y) where a w × h label overlaps no placed one."""
+    for dx, dy in (
+        (0, 0),
+        (0, -h - 4),
+        (0, h),
+        (0, -2 * h - 4),
+        (0, 2 * h),
+        (-w - 6, 0),
+        (-w - 6, -h - 4),
+    ):
+        bx, by = x + dx, y + dy
+        if all(bx + w < a or bx > c or by + h < b or by > e for a, b, c, e in placed):
+            return bx, by
+    return x, y
 
 
 def fault_current_chart(results, width: float = 500.0) -> Drawing | None:
