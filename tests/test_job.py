@@ -192,3 +192,13 @@ conductors = "2 AWG Cu"
 def test_panel_without_feed(write_job):
     text = GOOD + '\n[[panel]]\nid = "P2"\nrating = "100 A"\n'
     assert any("feeding it" in m for m in _problems(write_job, text))
+
+
+def test_source_given_as_short_circuit_power(write_job):
+    # I_sc = S_sc / (√3 · V_LL) (IEEE Std 141 ch. 4): 24.94 MVA at 480 V ≈ 30.0 kA
+    import math
+
+    text = GOOD.replace('available_fault = "30 kA"', 'short_circuit_mva = "24.94 MVA"')
+    job = read_job(write_job(text))
+    assert job.source.fault_a == pytest.approx(24.94e6 / (math.sqrt(3) * 480), rel=1e-12)
+    assert job.source.fault_a == pytest.approx(30_000, rel=1e-3)
