@@ -66,18 +66,42 @@ FT = 0.3048  # m per international foot (exact)
 
 KINDS = ("lighting", "receptacle", "motor", "heating", "other")
 RACEWAYS = ("steel", "aluminum", "pvc", "cable", "free-air")
-LOAD_UNITS = {"va": ("VA", 1.0), "kva": ("VA", 1e3), "w": ("W", 1.0), "kw": ("W", 1e3),
-              "a": ("A", 1.0)}
-LENGTH_UNITS = {"": 1.0 * FT, "ft": FT, "feet": FT, "foot": FT, "m": 1.0, "metre": 1.0,
-                "meter": 1.0, "metres": 1.0, "meters": 1.0}
+LOAD_UNITS = {
+    "va": ("VA", 1.0),
+    "kva": ("VA", 1e3),
+    "w": ("W", 1.0),
+    "kw": ("W", 1e3),
+    "a": ("A", 1.0),
+}
+LENGTH_UNITS = {
+    "": 1.0 * FT,
+    "ft": FT,
+    "feet": FT,
+    "foot": FT,
+    "m": 1.0,
+    "metre": 1.0,
+    "meter": 1.0,
+    "metres": 1.0,
+    "meters": 1.0,
+}
 _TRUE = {"yes", "y", "true", "t", "1", "x", "c", "cont", "continuous"}
 _FALSE = {"no", "n", "false", "f", "0", "", "-", "nc"}
 
 # canonical column -> spellings (normalised: lower case, single spaces)
 ALIASES: dict[str, tuple[str, ...]] = {
     "panel": ("panel", "panel id", "panelboard"),
-    "circuit": ("circuit", "circuits", "circuit no", "circuit number", "ckt", "ckt no", "no",
-                "number", "space", "cct"),
+    "circuit": (
+        "circuit",
+        "circuits",
+        "circuit no",
+        "circuit number",
+        "ckt",
+        "ckt no",
+        "no",
+        "number",
+        "space",
+        "cct",
+    ),
     "description": ("description", "desc", "load description", "name", "served"),
     "poles": ("poles", "pole", "p", "no of poles"),
     "load": ("load", "connected load"),
@@ -168,8 +192,11 @@ def _read_csv(raw: bytes, problems: ProblemList) -> list[list[str]] | pd.DataFra
         text = raw.decode("utf-8-sig")
     except UnicodeDecodeError as exc:
         line = raw[: exc.start].count(b"\n") + 1
-        problems.add(f"row {line}", f"byte 0x{raw[exc.start]:02x}",
-                     "UTF-8 text (save the schedule as CSV UTF-8)")
+        problems.add(
+            f"row {line}",
+            f"byte 0x{raw[exc.start]:02x}",
+            "UTF-8 text (save the schedule as CSV UTF-8)",
+        )
         problems.raise_if_any()
     if not text.strip():
         problems.add("", "(empty file)", "a header row and one row per circuit")
@@ -179,13 +206,21 @@ def _read_csv(raw: bytes, problems: ProblemList) -> list[list[str]] | pd.DataFra
         problems.add("", f"{n_lines:,} lines", f"at most {MAX_ROWS:,} circuit rows per file")
         problems.raise_if_any()
     try:
-        df = pd.read_csv(io.StringIO(text), header=None, dtype=str, keep_default_na=False,
-                         skip_blank_lines=False, engine="c")
+        df = pd.read_csv(
+            io.StringIO(text),
+            header=None,
+            dtype=str,
+            keep_default_na=False,
+            skip_blank_lines=False,
+            engine="c",
+        )
     except pd.errors.ParserError as exc:
         m = re.search(r"line (\d+)", str(exc))
-        problems.add(f"row {m.group(1)}" if m else "",
-                     str(exc).split(". ")[-1].replace("C error: ", "").strip(),
-                     "the same number of cells in every row as in the header")
+        problems.add(
+            f"row {m.group(1)}" if m else "",
+            str(exc).split(". ")[-1].replace("C error: ", "").strip(),
+            "the same number of cells in every row as in the header",
+        )
         problems.raise_if_any()
     except pd.errors.EmptyDataError:
         problems.add("", "(empty file)", "a header row and one row per circuit")
@@ -204,13 +239,19 @@ def _xlsx_guard(raw: bytes, problems: ProblemList) -> None:
     infos = zf.infolist()
     total = sum(i.file_size for i in infos)
     if len(infos) > MAX_XLSX_MEMBERS or total > MAX_XLSX_UNPACKED_BYTES:
-        problems.add("", f"{len(infos)} parts, {total:,} bytes unpacked",
-                     f"a workbook unpacking to at most {MAX_XLSX_UNPACKED_BYTES:,} bytes")
+        problems.add(
+            "",
+            f"{len(infos)} parts, {total:,} bytes unpacked",
+            f"a workbook unpacking to at most {MAX_XLSX_UNPACKED_BYTES:,} bytes",
+        )
     for i in infos:
         if i.file_size > 1_000_000 and i.file_size > MAX_XLSX_RATIO * max(i.compress_size, 1):
             ratio = i.file_size / max(i.compress_size, 1)
-            problems.add("", f"part {i.filename} packed {ratio:.0f}:1",
-                         f"parts compressed at most {MAX_XLSX_RATIO:g}:1 (zip bomb guard)")
+            problems.add(
+                "",
+                f"part {i.filename} packed {ratio:.0f}:1",
+                f"parts compressed at most {MAX_XLSX_RATIO:g}:1 (zip bomb guard)",
+            )
             break
     problems.raise_if_any()
 
@@ -237,8 +278,9 @@ def _read_xlsx(raw: bytes, problems: ProblemList) -> pd.DataFrame:
             warnings.simplefilter("ignore")
             wb = openpyxl.load_workbook(io.BytesIO(raw), read_only=True, data_only=True)
     except Exception as exc:  # openpyxl raises several types for a damaged workbook
-        problems.add("", type(exc).__name__,
-                     "an .xlsx workbook that opens in a spreadsheet program")
+        problems.add(
+            "", type(exc).__name__, "an .xlsx workbook that opens in a spreadsheet program"
+        )
         problems.raise_if_any()
     try:
         ws = wb.worksheets[0]
@@ -251,8 +293,11 @@ def _read_xlsx(raw: bytes, problems: ProblemList) -> pd.DataFrame:
         width = 0
         for r in ws.iter_rows(min_row=1, values_only=True):
             if len(rows) > MAX_ROWS + 1 or len(r) > MAX_COLUMNS:
-                problems.add("", "a larger sheet than its header declares",
-                             f"at most {MAX_ROWS:,} rows and {MAX_COLUMNS} columns")
+                problems.add(
+                    "",
+                    "a larger sheet than its header declares",
+                    f"at most {MAX_ROWS:,} rows and {MAX_COLUMNS} columns",
+                )
                 problems.raise_if_any()
             cells = [_cell_text(v) for v in r]
             width = max(width, len(cells))
@@ -267,8 +312,9 @@ def _read_xlsx(raw: bytes, problems: ProblemList) -> pd.DataFrame:
 
 
 # --------------------------------------------------------------------------- header
-def _match_header(df: pd.DataFrame, has_values, problems: ProblemList
-                  ) -> dict[str, tuple[int, str, str]]:
+def _match_header(
+    df: pd.DataFrame, has_values, problems: ProblemList
+) -> dict[str, tuple[int, str, str]]:
     """canonical name -> (column position, header text, unit).
 
     ``df`` holds the header row and the rows below it as text (the first few are enough:
@@ -290,9 +336,12 @@ def _match_header(df: pd.DataFrame, has_values, problems: ProblemList
             unknown.append(text)
             continue
         if key in found:
-            problems.add(f"row 1, column {pos + 1}", text,
-                         f"one column for {key!r} (column {found[key][0] + 1} "
-                         f"'{found[key][1]}' is one already)")
+            problems.add(
+                f"row 1, column {pos + 1}",
+                text,
+                f"one column for {key!r} (column {found[key][0] + 1} "
+                f"'{found[key][1]}' is one already)",
+            )
             continue
         found[key] = (pos, text, unit)
     missing = [k for k in REQUIRED if k not in found]
@@ -301,32 +350,48 @@ def _match_header(df: pd.DataFrame, has_values, problems: ProblemList
         for r in range(1, min(len(df), 6)):
             names = {_LOOKUP.get(normalise_header(x)[0]) for x in df.iloc[r].tolist()}
             if all(k in names for k in missing):
-                hint = (f" (they are in row {r + 1}: the header must be row 1 — remove the "
-                        "title rows above it, or unmerge them)")
+                hint = (
+                    f" (they are in row {r + 1}: the header must be row 1 — remove the "
+                    "title rows above it, or unmerge them)"
+                )
                 break
-        problems.add("row 1", ", ".join(header)[:80],
-                     "header columns " + ", ".join(repr(k) for k in missing) + hint)
+        problems.add(
+            "row 1",
+            ", ".join(header)[:80],
+            "header columns " + ", ".join(repr(k) for k in missing) + hint,
+        )
     else:
         for pos in blank:
-            problems.add(f"row 1, column {pos + 1}", "",
-                         "a name for every column with values (blank or merged header cell)")
+            problems.add(
+                f"row 1, column {pos + 1}",
+                "",
+                "a name for every column with values (blank or merged header cell)",
+            )
     for key in ("load", "length", "breaker", "insulation", "ambient", "termination"):
         if key not in found:
             continue
         pos, text, unit = found[key]
-        allowed = {"load": LOAD_UNITS, "length": LENGTH_UNITS, "breaker": {"": 1, "a": 1},
-                   "insulation": {"": 1, "c": 1, "degc": 1},
-                   "ambient": {"": 1, "c": 1, "degc": 1},
-                   "termination": {"": 1, "c": 1, "degc": 1}}[key]
+        allowed = {
+            "load": LOAD_UNITS,
+            "length": LENGTH_UNITS,
+            "breaker": {"": 1, "a": 1},
+            "insulation": {"": 1, "c": 1, "degc": 1},
+            "ambient": {"": 1, "c": 1, "degc": 1},
+            "termination": {"": 1, "c": 1, "degc": 1},
+        }[key]
         if unit not in allowed:
-            want = {"load": "'load [VA]', '[kVA]', '[W]', '[kW]' or '[A]'",
-                    "length": "'length [ft]' or 'length [m]'", "breaker": "'breaker [A]'"}.get(
-                        key, f"'{key} [C]' (degrees Celsius)")
+            want = {
+                "load": "'load [VA]', '[kVA]', '[W]', '[kW]' or '[A]'",
+                "length": "'length [ft]' or 'length [m]'",
+                "breaker": "'breaker [A]'",
+            }.get(key, f"'{key} [C]' (degrees Celsius)")
             problems.add(f"row 1, column {pos + 1}", text, f"a header such as {want}")
         elif key == "load" and unit == "":
-            problems.add(f"row 1, column {pos + 1}", text,
-                         "the load's unit in the header: 'load [VA]', '[kVA]', '[W]', '[kW]' "
-                         "or '[A]'")
+            problems.add(
+                f"row 1, column {pos + 1}",
+                text,
+                "the load's unit in the header: 'load [VA]', '[kVA]', '[W]', '[kW]' or '[A]'",
+            )
     return found
 
 
@@ -351,8 +416,14 @@ class _Cells:
     """Column parsers that collect problems for every bad cell (vectorised: each distinct
     cell text is parsed once and the result spread over the rows that hold it)."""
 
-    def __init__(self, cols: dict[int, tuple[np.ndarray, np.ndarray]], n: int, found,
-                 rows: np.ndarray, problems: ProblemList):
+    def __init__(
+        self,
+        cols: dict[int, tuple[np.ndarray, np.ndarray]],
+        n: int,
+        found,
+        rows: np.ndarray,
+        problems: ProblemList,
+    ):
         self.cols = cols  # column position -> (codes, distinct stripped texts)
         self.n = n
         self.found = found
@@ -385,8 +456,16 @@ class _Cells:
             self.problems.add(f"row {self.rows[i]}, column '{header}'", v, expected)
         self.count += len(idx)
 
-    def number(self, key: str, expected: str, lo: float, hi: float, default: float | None,
-               integer: bool = False, strip: str = "") -> np.ndarray:
+    def number(
+        self,
+        key: str,
+        expected: str,
+        lo: float,
+        hi: float,
+        default: float | None,
+        integer: bool = False,
+        strip: str = "",
+    ) -> np.ndarray:
         import pandas as pd
 
         if key not in self.found:
@@ -406,8 +485,9 @@ class _Cells:
         self.bad(key, (~ok & (~empty | (default is None)))[codes], (codes, uniq), expected)
         return v[codes]
 
-    def choice(self, key: str, mapping: dict[str, object], expected: str, default,
-               squeeze: bool = False) -> np.ndarray:
+    def choice(
+        self, key: str, mapping: dict[str, object], expected: str, default, squeeze: bool = False
+    ) -> np.ndarray:
         import pandas as pd
 
         if key not in self.found:
@@ -417,8 +497,9 @@ class _Cells:
         if squeeze:
             s = s.str.replace(r"[\s°]|deg", "", regex=True)
         low = s.to_numpy(object)
-        mapped = np.array([mapping.get(u) if u else default for u in low] + [None],
-                          dtype=object)[:-1]
+        mapped = np.array([mapping.get(u) if u else default for u in low] + [None], dtype=object)[
+            :-1
+        ]
         self.bad(key, (pd.isna(mapped) & (low != ""))[codes], (codes, uniq), expected)
         return mapped[codes]
 
@@ -432,8 +513,13 @@ class _Cells:
         for u in uniq:
             parts = u.rsplit(None, 1)
             size = mat = None
-            if len(parts) == 2 and parts[1].lower() in ("cu", "al", "copper", "aluminum",
-                                                        "aluminium"):
+            if len(parts) == 2 and parts[1].lower() in (
+                "cu",
+                "al",
+                "copper",
+                "aluminum",
+                "aluminium",
+            ):
                 mat = "cu" if parts[1].lower() in ("cu", "copper") else "al"
                 try:
                     size = parse_size(parts[0]).name
@@ -442,12 +528,16 @@ class _Cells:
             sizes.append(size)
             mats.append(mat)
         bad = np.array([sz is None for sz in sizes]) & ((uniq != "") | required)
-        self.bad(key, bad[codes], (codes, uniq),
-                 "a size and material such as '12 AWG Cu', '1/0 AWG Al' or '4 mm2 Cu'")
-        size_u = np.array([sz if sz is not None else "" for sz in sizes] + [None],
-                          dtype=object)[:-1]
-        mat_u = np.array([m if m is not None else "" for m in mats] + [None],
-                         dtype=object)[:-1]
+        self.bad(
+            key,
+            bad[codes],
+            (codes, uniq),
+            "a size and material such as '12 AWG Cu', '1/0 AWG Al' or '4 mm2 Cu'",
+        )
+        size_u = np.array([sz if sz is not None else "" for sz in sizes] + [None], dtype=object)[
+            :-1
+        ]
+        mat_u = np.array([m if m is not None else "" for m in mats] + [None], dtype=object)[:-1]
         return size_u[codes], mat_u[codes]
 
 
@@ -528,32 +618,69 @@ def read_schedule(path: str | Path, panel_id: str | None = None) -> Schedule:
         cols = {pos: (codes[keep], uniq) for pos, (codes, uniq) in cols.items()}
     c = _Cells(cols, n, found, rows, problems)
 
-    circuit = c.number("circuit", "a circuit number, a whole number from 1 to 999", 1, 999,
-                       None, integer=True)
+    circuit = c.number(
+        "circuit", "a circuit number, a whole number from 1 to 999", 1, 999, None, integer=True
+    )
     poles = c.number("poles", "1, 2 or 3 poles", 1, 3, 1.0, integer=True)
     load_unit, load_scale = LOAD_UNITS.get(found["load"][2], ("VA", 1.0))
-    load = c.number("load", f"a load in {found['load'][2] or 'VA'}, a number ≥ 0", 0, 1e8, None)
+    unit_text = {"va": "VA", "kva": "kVA", "w": "W", "kw": "kW", "a": "A"}.get(
+        found["load"][2], "VA"
+    )
+    load = c.number("load", f"a load in {unit_text}, a number ≥ 0", 0, 1e8, None)
     pf = c.number("pf", "a power factor from 0.05 to 1", 0.05, 1.0, 1.0)
-    breaker = c.number("breaker", "a breaker rating in A, e.g. 20 or '20 A'", 1, 6000, None,
-                       strip=r"a$")
+    breaker = c.number(
+        "breaker", "a breaker rating in A, e.g. 20 or '20 A'", 1, 6000, None, strip=r"a$"
+    )
     len_scale = LENGTH_UNITS.get(found["length"][2], FT)
-    length = c.number("length", "a one-way length ≥ 0 (up to 2000 m)", 0, 2000 / len_scale, None)
-    ins = c.choice("insulation", {"60": 60.0, "75": 75.0, "90": 90.0, "60c": 60.0, "75c": 75.0,
-                                  "90c": 90.0}, "60, 75 or 90 (°C)", 75.0, squeeze=True)
-    term = c.choice("termination", {"60": 60.0, "75": 75.0, "90": 90.0, "60c": 60.0,
-                                    "75c": 75.0, "90c": 90.0}, "60, 75 or 90 (°C)", np.nan,
-                    squeeze=True)
+    length = c.number(
+        "length", "a one-way length greater than 0 (up to 2000 m)", 1e-6, 2000 / len_scale, None
+    )
+    ins = c.choice(
+        "insulation",
+        {"60": 60.0, "75": 75.0, "90": 90.0, "60c": 60.0, "75c": 75.0, "90c": 90.0},
+        "60, 75 or 90 (°C)",
+        75.0,
+        squeeze=True,
+    )
+    term = c.choice(
+        "termination",
+        {"60": 60.0, "75": 75.0, "90": 90.0, "60c": 60.0, "75c": 75.0, "90c": 90.0},
+        "60, 75 or 90 (°C)",
+        np.nan,
+        squeeze=True,
+    )
     amb = c.number("ambient", "an ambient from -40 to 85 °C", -40, 85, 30.0)
-    ccc = c.number("current_carrying", "a whole number of current-carrying conductors, 1 to 80",
-                   1, 80, 3.0, integer=True)
-    kind = c.choice("kind", {k: k for k in KINDS} | {"light": "lighting", "lights": "lighting",
-                    "receptacles": "receptacle", "recept": "receptacle", "motors": "motor",
-                    "heat": "heating", "heater": "heating"},
-                    "a load kind: " + ", ".join(KINDS), "other")
+    ccc = c.number(
+        "current_carrying",
+        "a whole number of current-carrying conductors, 1 to 80",
+        1,
+        80,
+        3.0,
+        integer=True,
+    )
+    kind = c.choice(
+        "kind",
+        {k: k for k in KINDS}
+        | {
+            "light": "lighting",
+            "lights": "lighting",
+            "receptacles": "receptacle",
+            "recept": "receptacle",
+            "motors": "motor",
+            "heat": "heating",
+            "heater": "heating",
+        },
+        "a load kind: " + ", ".join(KINDS),
+        "other",
+    )
     cont = c.choice("continuous", _truthy(), "yes or no", False)
-    raceway = c.choice("raceway", {r: r for r in RACEWAYS} | {"emt": "steel", "rmc": "steel",
-                       "imc": "steel", "free air": "free-air"}, "one of " + ", ".join(RACEWAYS),
-                       "steel")
+    raceway = c.choice(
+        "raceway",
+        {r: r for r in RACEWAYS}
+        | {"emt": "steel", "rmc": "steel", "imc": "steel", "free air": "free-air"},
+        "one of " + ", ".join(RACEWAYS),
+        "steel",
+    )
     size, material = c.conductor("conductor", required=True)
     gsize, gmat = c.conductor("ground", required=False)
     panel = c.text("panel", panel_id or p.stem)
@@ -561,23 +688,23 @@ def read_schedule(path: str | Path, panel_id: str | None = None) -> Schedule:
         empty_panel = panel == ""
         c.bad("panel", empty_panel, panel, "a panel id in every row of a multi-panel file")
     ok_amb = np.isnan(amb) | np.isnan(ins.astype(float)) | (amb < ins.astype(float))
-    c.bad("ambient", ~ok_amb, c.text("ambient"),
-          "an ambient below the insulation rating")
+    c.bad("ambient", ~ok_amb, c.text("ambient"), "an ambient below the insulation rating")
     # duplicate circuit numbers and spaces taken twice (multi-pole circuits take n, n+2, ...)
     valid = np.isfinite(circuit) & np.isfinite(poles)
     if valid.any():
         pan_codes = pd.factorize(pd.Series(panel))[0]
         n_pole = np.where(valid, poles, 1).astype(np.int64)
         idx = np.repeat(np.flatnonzero(valid), n_pole[valid])
-        step = np.arange(len(idx)) - np.repeat(np.cumsum(n_pole[valid]) - n_pole[valid],
-                                               n_pole[valid])
+        step = np.arange(len(idx)) - np.repeat(
+            np.cumsum(n_pole[valid]) - n_pole[valid], n_pole[valid]
+        )
         space = circuit[idx].astype(np.int64) + 2 * step
         key = pan_codes[idx].astype(np.int64) * 10_000 + space
         order = np.argsort(key, kind="stable")
         ks = key[order]
         dup = np.flatnonzero(ks[1:] == ks[:-1]) + 1
         first_of = {}
-        for d in dup[: MAX_PROBLEMS]:
+        for d in dup[:MAX_PROBLEMS]:
             j = idx[order[d]]
             # the earliest row holding this space
             start = d
@@ -585,38 +712,48 @@ def read_schedule(path: str | Path, panel_id: str | None = None) -> Schedule:
                 start -= 1
             first = idx[order[start]]
             first_of[j] = first
-            what = ("the same circuit number as" if step[order[d]] == 0
-                    and circuit[j] == circuit[first] else "a space already taken by")
-            problems.add(f"row {rows[j]}, column '{found['circuit'][1]}'",
-                         _cell_text(circuit[j]),
-                         f"a circuit number not used twice in panel {panel[j]} (it has "
-                         f"{what} row {rows[first]}, space {space[order[d]]})")
+            what = (
+                "the same circuit number as"
+                if step[order[d]] == 0 and circuit[j] == circuit[first]
+                else "a space already taken by"
+            )
+            problems.add(
+                f"row {rows[j]}, column '{found['circuit'][1]}'",
+                _cell_text(circuit[j]),
+                f"a circuit number not used twice in panel {panel[j]} (it has "
+                f"{what} row {rows[first]}, space {space[order[d]]})",
+            )
     if c.count > MAX_PROBLEMS:
-        problems.add("", f"{c.count - MAX_PROBLEMS} more bad cells",
-                     f"(only the first {MAX_PROBLEMS} are listed)")
+        problems.add(
+            "",
+            f"{c.count - MAX_PROBLEMS} more bad cells",
+            f"(only the first {MAX_PROBLEMS} are listed)",
+        )
     problems.raise_if_any()
-    frame = pd.DataFrame({
-        "panel": panel,
-        "circuit": circuit.astype(np.int64),
-        "description": c.text("description"),
-        "poles": poles.astype(np.int64),
-        "load_value": load * load_scale,
-        "pf": pf,
-        "kind": kind,
-        "continuous": cont.astype(bool),
-        "breaker_a": breaker,
-        "size": size,
-        "material": material,
-        "insulation_c": ins.astype(float),
-        "termination_c": term.astype(float),
-        "ground_size": gsize,
-        "ground_material": gmat,
-        "current_carrying": ccc.astype(np.int64),
-        "ambient_c": amb,
-        "raceway": raceway,
-        "length_m": length * len_scale,
-        "row": rows,
-    })
+    frame = pd.DataFrame(
+        {
+            "panel": panel,
+            "circuit": circuit.astype(np.int64),
+            "description": c.text("description"),
+            "poles": poles.astype(np.int64),
+            "load_value": load * load_scale,
+            "pf": pf,
+            "kind": kind,
+            "continuous": cont.astype(bool),
+            "breaker_a": breaker,
+            "size": size,
+            "material": material,
+            "insulation_c": ins.astype(float),
+            "termination_c": term.astype(float),
+            "ground_size": gsize,
+            "ground_material": gmat,
+            "current_carrying": ccc.astype(np.int64),
+            "ambient_c": amb,
+            "raceway": raceway,
+            "length_m": length * len_scale,
+            "row": rows,
+        }
+    )
     return Schedule(p, frame, load_unit, tuple(dict.fromkeys(panel.tolist())))
 
 

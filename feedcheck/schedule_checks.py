@@ -52,9 +52,26 @@ if TYPE_CHECKING:
 
 OCCUPANCIES = ("other", "dwelling", "hospital", "hotel", "warehouse")
 SQRT3 = math.sqrt(3.0)
-CIRCUIT_COLUMNS = ("panel", "circuit", "description", "poles", "phase", "kind", "load_va",
-                   "current_a", "breaker_a", "size", "material", "length_m", "ampacity_a",
-                   "vdrop_pct", "total_vdrop_pct", "status", "reason", "row")
+CIRCUIT_COLUMNS = (
+    "panel",
+    "circuit",
+    "description",
+    "poles",
+    "phase",
+    "kind",
+    "load_va",
+    "current_a",
+    "breaker_a",
+    "size",
+    "material",
+    "length_m",
+    "ampacity_a",
+    "vdrop_pct",
+    "total_vdrop_pct",
+    "status",
+    "reason",
+    "row",
+)
 
 
 @dataclass
@@ -124,8 +141,11 @@ def _set_findings(self, value) -> None:
 
 
 # the dataclass __init__ assigns ``findings`` through this property (a list, or _Deferred)
-ScheduleResult.findings = property(_get_findings, _set_findings,  # type: ignore[assignment]
-                                   doc="Findings: a list, built on first use.")
+ScheduleResult.findings = property(
+    _get_findings,
+    _set_findings,  # type: ignore[assignment]
+    doc="Findings: a list, built on first use.",
+)
 
 
 def _unique_rows(*arrays) -> tuple[np.ndarray, np.ndarray]:
@@ -263,16 +283,26 @@ def _ampacities(c: pd.DataFrame, problems: ProblemList):
     ct = np.searchsorted(cols, term)
     missing = np.isnan(t.raceway_a[m, ci, idx]) | np.isnan(t.raceway_a[m, ct, idx])
     for i in np.flatnonzero(missing)[:50]:
-        problems.add(f"row {c['row'].iat[i]}, column 'conductor'",
-                     f"{size[i]} {mat[i]}",
-                     "a size the ampacity table lists for that material (14 AWG … 2000 kcmil "
-                     "Cu, 12 AWG … 2000 kcmil Al)")
+        problems.add(
+            f"row {c['row'].iat[i]}, column 'conductor'",
+            f"{size[i]} {mat[i]}",
+            "a size the ampacity table lists for that material (14 AWG … 2000 kcmil "
+            "Cu, 12 AWG … 2000 kcmil Al)",
+        )
     problems.raise_if_any()
     # the kernels once per distinct conductor and conditions, spread over the circuits
-    derated = _per_unique(ampacity_a, size, mat, ins, c["ambient_c"].to_numpy(float),
-                          c["current_carrying"].to_numpy(), term)
-    unadjusted = _per_unique(lambda s, m, i, t: ampacity_a(s, m, i, 30.0, 3, t),
-                             size, mat, ins, term)
+    derated = _per_unique(
+        ampacity_a,
+        size,
+        mat,
+        ins,
+        c["ambient_c"].to_numpy(float),
+        c["current_carrying"].to_numpy(),
+        term,
+    )
+    unadjusted = _per_unique(
+        lambda s, m, i, t: ampacity_a(s, m, i, 30.0, 3, t), size, mat, ins, term
+    )
     return np.asarray(derated, float), np.asarray(unadjusted, float), term
 
 
@@ -377,53 +407,121 @@ def check_schedule(
 
     def add(name, rid, mask, value, limit, unit, status, text, deps):
         """``text(i)``: the reason for circuit ``i``, made only of the columns ``deps``."""
-        checks.append((name, rid, np.asarray(mask, bool), value, limit, unit, status, text,
-                       deps))
+        checks.append((name, rid, np.asarray(mask, bool), value, limit, unit, status, text, deps))
 
+    from .calc.protection import standard_ratings_a
+
+    std = standard_ratings_a("breaker")
+    add(
+        "standard rating",
+        "sched-standard-rating",
+        ~np.isin(breaker, std),
+        breaker,
+        breaker,
+        "A",
+        rules["sched-standard-rating"]["status"],
+        lambda i: f"{breaker[i]:g} A is not a standard breaker rating (240.6(A))",
+        (breaker,),
+    )
     need_brk = np.where(cont, 1.25 * current, current)
-    add("breaker vs load", "sched-breaker-load", ~motor & (breaker < need_brk - 1e-9), breaker,
-        need_brk, "A", rules["sched-breaker-load"]["status"],
-        lambda i: f"breaker {breaker[i]:g} A < {need_brk[i]:.1f} A load", (breaker, need_brk))
+    add(
+        "breaker vs load",
+        "sched-breaker-load",
+        ~motor & (breaker < need_brk - 1e-9),
+        breaker,
+        need_brk,
+        "A",
+        rules["sched-breaker-load"]["status"],
+        lambda i: f"breaker {breaker[i]:g} A < {need_brk[i]:.1f} A load",
+        (breaker, need_brk),
+    )
     need_cond = np.where(cont, 1.25 * current, current)
-    add("conductor vs load", "sched-conductor-load",
-        ~motor & (unadjusted < need_cond - 1e-9), unadjusted, need_cond, "A",
+    add(
+        "conductor vs load",
+        "sched-conductor-load",
+        ~motor & (unadjusted < need_cond - 1e-9),
+        unadjusted,
+        need_cond,
+        "A",
         rules["sched-conductor-load"]["status"],
         lambda i: f"{size[i]} {mat[i]} {unadjusted[i]:.0f} A < {need_cond[i]:.1f} A load",
-        (size, mat, unadjusted, need_cond))
-    add("conductor after derating", "sched-conductor-derated",
-        ~motor & (derated < current - 1e-9), derated, current, "A",
+        (size, mat, unadjusted, need_cond),
+    )
+    add(
+        "conductor after derating",
+        "sched-conductor-derated",
+        ~motor & (derated < current - 1e-9),
+        derated,
+        current,
+        "A",
         rules["sched-conductor-derated"]["status"],
         lambda i: f"derated ampacity {derated[i]:.1f} A < {current[i]:.1f} A load",
-        (derated, current))
-    add("motor conductor", "sched-motor-conductor", motor & (derated < 1.25 * current - 1e-9),
-        derated, 1.25 * current, "A", rules["sched-motor-conductor"]["status"],
+        (derated, current),
+    )
+    add(
+        "motor conductor",
+        "sched-motor-conductor",
+        motor & (derated < 1.25 * current - 1e-9),
+        derated,
+        1.25 * current,
+        "A",
+        rules["sched-motor-conductor"]["status"],
         lambda i: f"{size[i]} {mat[i]} {derated[i]:.1f} A < 125 % of {current[i]:.1f} A motor",
-        (size, mat, derated, current))
+        (size, mat, derated, current),
+    )
     from .calc.conductor import material_index
 
-    small = protection_tables().small_limit_a[_per_unique(material_index, mat),
-                                              _per_unique(size_index, size)]
+    small = protection_tables().small_limit_a[
+        _per_unique(material_index, mat), _per_unique(size_index, size)
+    ]
     mx = np.asarray(_per_unique(max_device_a, derated, size, mat), float)
-    add("small conductor", "sched-small-conductor", ~motor & (breaker > small + 1e-9), breaker,
-        small, "A", rules["sched-small-conductor"]["status"],
+    add(
+        "small conductor",
+        "sched-small-conductor",
+        ~motor & (breaker > small + 1e-9),
+        breaker,
+        small,
+        "A",
+        rules["sched-small-conductor"]["status"],
         lambda i: f"{size[i]} {mat[i]} on {breaker[i]:g} A (at most {small[i]:g} A)",
-        (size, mat, breaker, small))
-    add("conductor vs breaker", "sched-conductor-breaker",
-        ~motor & (breaker > mx + 1e-9) & ~(breaker > small + 1e-9), breaker, mx, "A",
+        (size, mat, breaker, small),
+    )
+    add(
+        "conductor vs breaker",
+        "sched-conductor-breaker",
+        ~motor & (breaker > mx + 1e-9) & ~(breaker > small + 1e-9),
+        breaker,
+        mx,
+        "A",
         rules["sched-conductor-breaker"]["status"],
         lambda i: f"breaker {breaker[i]:g} A over {derated[i]:.1f} A conductor (max {mx[i]:g} A)",
-        (breaker, derated, mx))
+        (breaker, derated, mx),
+    )
     motor_max = np.zeros(n)
     if motor.any():
         motor_max[motor] = next_standard_rating_a(np.minimum(2.5 * current[motor], 6000.0))
-    add("motor breaker", "sched-motor-breaker", motor & (breaker > motor_max + 1e-9), breaker,
-        motor_max, "A", rules["sched-motor-breaker"]["status"],
+    add(
+        "motor breaker",
+        "sched-motor-breaker",
+        motor & (breaker > motor_max + 1e-9),
+        breaker,
+        motor_max,
+        "A",
+        rules["sched-motor-breaker"]["status"],
         lambda i: f"motor breaker {breaker[i]:g} A over {motor_max[i]:g} A (250 % rule)",
-        (breaker, motor_max))
-    add("motor breaker minimum", "sched-motor-breaker-min", motor & (breaker < current - 1e-9),
-        breaker, current, "A", rules["sched-motor-breaker-min"]["status"],
+        (breaker, motor_max),
+    )
+    add(
+        "motor breaker minimum",
+        "sched-motor-breaker-min",
+        motor & (breaker < current - 1e-9),
+        breaker,
+        current,
+        "A",
+        rules["sched-motor-breaker-min"]["status"],
         lambda i: f"motor breaker {breaker[i]:g} A below {current[i]:.1f} A running current",
-        (breaker, current))
+        (breaker, current),
+    )
 
     gsize = c["ground_size"].to_numpy(object)
     has_g = gsize != ""
@@ -432,31 +530,60 @@ def check_schedule(
     g_need = np.zeros(n)
     if has_g.any():
         gm = c["ground_material"].to_numpy(object)
-        need, _table = _per_unique(_egc_required_area, breaker[has_g], gm[has_g], size[has_g],
-                                   mat[has_g])
+        need, _table = _per_unique(
+            _egc_required_area, breaker[has_g], gm[has_g], size[has_g], mat[has_g]
+        )
         g_need[has_g] = need
         g_area[has_g] = AREA_MM2[_per_unique(size_index, gsize[has_g])]
         g_ok[has_g] = g_area[has_g] >= need * (1 - 1e-9)
-    add("grounding conductor", "sched-egc", ~g_ok, g_area, g_need, "mm2",
+    add(
+        "grounding conductor",
+        "sched-egc",
+        ~g_ok,
+        g_area,
+        g_need,
+        "mm2",
         rules["sched-egc"]["status"],
         lambda i: f"ground {gsize[i]} smaller than Table 250.122 for {breaker[i]:g} A",
-        (gsize, breaker))
+        (gsize, breaker),
+    )
 
     max_poles = 3 if system.phases == 3 else 2
-    add("poles vs panel", "sched-poles-phases", poles > max_poles, poles.astype(float),
-        float(max_poles), "poles", rules["sched-poles-phases"]["status"],
-        lambda i: f"{poles[i]} poles on a {system.phases}-phase panel", (poles,))
-    add("neutral for one pole", "sched-neutral", (poles == 1) & (system.neutral_v is None),
-        poles.astype(float), 2.0, "poles", rules["sched-neutral"]["status"],
-        lambda i: f"one-pole circuit on {system.text} (no neutral)", ())
+    add(
+        "poles vs panel",
+        "sched-poles-phases",
+        poles > max_poles,
+        poles.astype(float),
+        float(max_poles),
+        "poles",
+        rules["sched-poles-phases"]["status"],
+        lambda i: f"{poles[i]} poles on a {system.phases}-phase panel",
+        (poles,),
+    )
+    add(
+        "neutral for one pole",
+        "sched-neutral",
+        (poles == 1) & (system.neutral_v is None),
+        poles.astype(float),
+        2.0,
+        "poles",
+        rules["sched-neutral"]["status"],
+        lambda i: f"one-pole circuit on {system.text} (no neutral)",
+        (),
+    )
 
-    r_m, x_m = _per_unique(lambda s, m, r: ac_impedance_ohm_per_m(s, m, r, 75.0), size, mat,
-                           c["raceway"].to_numpy(object))
+    r_m, x_m = _per_unique(
+        lambda s, m, r: ac_impedance_ohm_per_m(s, m, r, 75.0),
+        size,
+        mat,
+        c["raceway"].to_numpy(object),
+    )
     vd_v = voltage_drop_approximate_v(current, r_m, x_m, length, pf, vd_kind)
     vd_pct = 100.0 * np.asarray(vd_v, float) / nominal_v
     if isinstance(feeder_drop_pct, dict):
-        feeder = np.array([float(feeder_drop_pct.get(p, 0.0)) for p in
-                           pd.unique(panel)])[pd.factorize(panel)[0]]
+        feeder = np.array([float(feeder_drop_pct.get(p, 0.0)) for p in pd.unique(panel)])[
+            pd.factorize(panel)[0]
+        ]
     else:
         feeder = np.full(n, float(feeder_drop_pct))
     total_pct = vd_pct + feeder
@@ -464,10 +591,28 @@ def check_schedule(
     t_lim, t_status = _drop_limit(total_rule)
     b_id = branch_rule[0] if isinstance(branch_rule, tuple) else branch_rule
     t_id = total_rule[0] if isinstance(total_rule, tuple) else total_rule
-    add("branch voltage drop", b_id, vd_pct > b_lim + 1e-9, vd_pct, b_lim, "%", b_status,
-        lambda i: f"branch drop {vd_pct[i]:.2f} % > {b_lim:g} %", (vd_pct,))
-    add("total voltage drop", t_id, total_pct > t_lim + 1e-9, total_pct, t_lim, "%",
-        t_status, lambda i: f"total drop {total_pct[i]:.2f} % > {t_lim:g} %", (total_pct,))
+    add(
+        "branch voltage drop",
+        b_id,
+        vd_pct > b_lim + 1e-9,
+        vd_pct,
+        b_lim,
+        "%",
+        b_status,
+        lambda i: f"branch drop {vd_pct[i]:.2f} % > {b_lim:g} %",
+        (vd_pct,),
+    )
+    add(
+        "total voltage drop",
+        t_id,
+        total_pct > t_lim + 1e-9,
+        total_pct,
+        t_lim,
+        "%",
+        t_status,
+        lambda i: f"total drop {total_pct[i]:.2f} % > {t_lim:g} %",
+        (total_pct,),
+    )
 
     # ---- status and reason per circuit (worst of its checks)
     sev = np.full(n, SEVERITY["ok"])
@@ -480,9 +625,18 @@ def check_schedule(
         sev[idx] = np.minimum(sev[idx], SEVERITY[status])
         texts = _texts(idx, text, deps)
         reason[idx] = np.where(reason[idx] == "", texts, reason[idx] + "; " + texts)
-        circ_found.append((name, rid, idx, np.broadcast_to(np.asarray(value, float), (n,))[idx],
-                           np.broadcast_to(np.asarray(limit, float), (n,))[idx], unit, status,
-                           texts))
+        circ_found.append(
+            (
+                name,
+                rid,
+                idx,
+                np.broadcast_to(np.asarray(value, float), (n,))[idx],
+                np.broadcast_to(np.asarray(limit, float), (n,))[idx],
+                unit,
+                status,
+                texts,
+            )
+        )
     findings: list[Finding] = []  # the panel ones; the circuit ones come first, on demand
     status_names = np.array(["fail", "warn", "ok", "info"], dtype=object)
 
@@ -494,8 +648,9 @@ def check_schedule(
     ph = _phase_of_space(space, system)
     pan_codes, pan_ids = pd.factorize(pd.Series(panel))
     n_pan = len(pan_ids)
-    per_phase = np.bincount(pan_codes[owner] * 3 + ph, weights=(load_va / counts)[owner],
-                            minlength=3 * n_pan).reshape(n_pan, 3)
+    per_phase = np.bincount(
+        pan_codes[owner] * 3 + ph, weights=(load_va / counts)[owner], minlength=3 * n_pan
+    ).reshape(n_pan, 3)
     letters = np.array(list("ABC"), dtype=object)
     phase_txt = np.full(n, "", dtype=object)
     for k in range(int(counts.max()) if n else 0):
@@ -506,7 +661,8 @@ def check_schedule(
     kinds = ("lighting", "receptacle", "motor", "heating", "other")
     kcode = np.asarray(pd.Categorical(kind, categories=kinds).codes, dtype=np.int64)
     conn = np.bincount(pan_codes * 5 + kcode, weights=load_va, minlength=5 * n_pan).reshape(
-        n_pan, 5)
+        n_pan, 5
+    )
     dem = np.empty_like(conn)
     for j, k in enumerate(kinds):
         dem[:, j] = _tiered(conn[:, j], tiers.get(k, [(0.0, math.inf, 1.0)]))
@@ -526,73 +682,129 @@ def check_schedule(
     n_ph = 3 if system.phases == 3 else (2 if system.kind == "split" else 1)
     used = per_phase[:, :n_ph]
     avg = used.mean(axis=1)
-    imbalance = np.divide(np.abs(used - avg[:, None]).max(axis=1), avg,
-                          out=np.zeros(n_pan), where=avg > 0) * 100.0 if n_ph > 1 else np.zeros(
-        n_pan)
+    imbalance = (
+        np.divide(np.abs(used - avg[:, None]).max(axis=1), avg, out=np.zeros(n_pan), where=avg > 0)
+        * 100.0
+        if n_ph > 1
+        else np.zeros(n_pan)
+    )
     imb_lim = float(rules["sched-imbalance"]["value"])
     imb_status = str(rules["sched-imbalance"]["status"])
     fail_n = np.bincount(pan_codes, weights=sev == SEVERITY["fail"], minlength=n_pan)
     warn_n = np.bincount(pan_codes, weights=sev == SEVERITY["warn"], minlength=n_pan)
-    panels = pd.DataFrame({
-        "panel": np.asarray(pan_ids, dtype=object),
-        "circuits": np.bincount(pan_codes, minlength=n_pan),
-        "connected_va": conn.sum(axis=1),
-        "demand_va": dem_va,
-        "continuous_va": cont_va,
-        "design_va": design_va,
-        "design_current_a": design_va / k_i,
-        "phase_a_va": per_phase[:, 0],
-        "phase_b_va": per_phase[:, 1],
-        "phase_c_va": per_phase[:, 2],
-        "imbalance_pct": imbalance,
-        "largest_motor_va": largest_motor,
-        "lighting_va": conn[:, 0], "receptacle_va": conn[:, 1], "motor_va": conn[:, 2],
-        "heating_va": conn[:, 3], "other_va": conn[:, 4],
-        "fail_circuits": fail_n.astype(int),
-        "warn_circuits": warn_n.astype(int),
-    })
+    panels = pd.DataFrame(
+        {
+            "panel": np.asarray(pan_ids, dtype=object),
+            "circuits": np.bincount(pan_codes, minlength=n_pan),
+            "connected_va": conn.sum(axis=1),
+            "demand_va": dem_va,
+            "continuous_va": cont_va,
+            "design_va": design_va,
+            "design_current_a": design_va / k_i,
+            "phase_a_va": per_phase[:, 0],
+            "phase_b_va": per_phase[:, 1],
+            "phase_c_va": per_phase[:, 2],
+            "imbalance_pct": imbalance,
+            "largest_motor_va": largest_motor,
+            "lighting_va": conn[:, 0],
+            "receptacle_va": conn[:, 1],
+            "motor_va": conn[:, 2],
+            "heating_va": conn[:, 3],
+            "other_va": conn[:, 4],
+            "fail_circuits": fail_n.astype(int),
+            "warn_circuits": warn_n.astype(int),
+        }
+    )
     for j, pid in enumerate(panels["panel"]):
         bad = imbalance[j] > imb_lim
-        findings.append(Finding(
-            str(pid), "phase balance", float(imbalance[j]), imb_lim, "%",
-            imb_status if bad else "ok", "sched-imbalance",
-            "largest phase deviation from the average phase load "
-            f"(A {per_phase[j, 0] / 1e3:.1f} / B {per_phase[j, 1] / 1e3:.1f}"
-            + (f" / C {per_phase[j, 2] / 1e3:.1f}" if n_ph == 3 else "") + " kVA)"))
-        for rid, what, rating in (("panel-bus-load", "bus rating", bus_a),
-                                  ("panel-main-load", "main device", main_a)):
+        findings.append(
+            Finding(
+                str(pid),
+                "phase balance",
+                float(imbalance[j]),
+                imb_lim,
+                "%",
+                imb_status if bad else "ok",
+                "sched-imbalance",
+                "largest phase deviation from the average phase load "
+                f"(A {per_phase[j, 0] / 1e3:.1f} / B {per_phase[j, 1] / 1e3:.1f}"
+                + (f" / C {per_phase[j, 2] / 1e3:.1f}" if n_ph == 3 else "")
+                + " kVA)",
+            )
+        )
+        for rid, what, rating in (
+            ("panel-bus-load", "bus rating", bus_a),
+            ("panel-main-load", "main device", main_a),
+        ):
             if rating:
                 i_d = design_va[j] / k_i
-                findings.append(Finding(
-                    str(pid), f"demand vs {what}", float(i_d), float(rating), "A",
-                    "ok" if i_d <= rating + 1e-9 else "fail", rid,
-                    f"design current {i_d:.1f} A (continuous at 125 %) vs {what} {rating:g} A"))
-    circuits = pd.DataFrame({
-        "panel": panel, "circuit": circuit, "description": c["description"].to_numpy(object),
-        "poles": poles, "phase": phase_txt, "kind": kind, "load_va": load_va,
-        "current_a": current, "breaker_a": breaker, "size": size, "material": mat,
-        "length_m": length, "ampacity_a": derated, "vdrop_pct": vd_pct,
-        "total_vdrop_pct": total_pct, "status": status_names[sev], "reason": reason,
-        "row": c["row"].to_numpy(),
-    })
-    demands = {str(pid): Load(float(dem_va[j]), float(cont_va[j]), float(w[j]))
-               for j, pid in enumerate(panels["panel"])}
+                findings.append(
+                    Finding(
+                        str(pid),
+                        f"demand vs {what}",
+                        float(i_d),
+                        float(rating),
+                        "A",
+                        "ok" if i_d <= rating + 1e-9 else "fail",
+                        rid,
+                        f"design current {i_d:.1f} A (continuous at 125 %) vs {what} {rating:g} A",
+                    )
+                )
+    circuits = pd.DataFrame(
+        {
+            "panel": panel,
+            "circuit": circuit,
+            "description": c["description"].to_numpy(object),
+            "poles": poles,
+            "phase": phase_txt,
+            "kind": kind,
+            "load_va": load_va,
+            "current_a": current,
+            "breaker_a": breaker,
+            "size": size,
+            "material": mat,
+            "length_m": length,
+            "ampacity_a": derated,
+            "vdrop_pct": vd_pct,
+            "total_vdrop_pct": total_pct,
+            "status": status_names[sev],
+            "reason": reason,
+            "row": c["row"].to_numpy(),
+        }
+    )
+    demands = {
+        str(pid): Load(float(dem_va[j]), float(cont_va[j]), float(w[j]))
+        for j, pid in enumerate(panels["panel"])
+    }
     first = panels.iloc[0]
-    totals = {k: (float(v) if isinstance(v, (int, float, np.floating, np.integer)) else v)
-              for k, v in first.to_dict().items()}
+    totals = {
+        k: (float(v) if isinstance(v, (int, float, np.floating, np.integer)) else v)
+        for k, v in first.to_dict().items()
+    }
     totals["occupancy"] = occupancy
     totals["system"] = system.text
     if n_pan > 1:
-        totals = {"panels": n_pan, "circuits": n,
-                  "connected_va": float(conn.sum()), "demand_va": float(dem_va.sum()),
-                  "worst_imbalance_pct": float(imbalance.max()), "occupancy": occupancy,
-                  "system": system.text}
-    any_fail = any(f[6] == "fail" for f in circ_found) or any(
-        f.status == "fail" for f in findings)
-    deferred = _Deferred(lambda: _circuit_findings(panel, circuit, circ_found) + findings,
-                         any_fail)
-    return ScheduleResult(schedule.path, system.text, circuits, totals, panels, deferred,
-                          demands[str(panels["panel"].iat[0])], demands)
+        totals = {
+            "panels": n_pan,
+            "circuits": n,
+            "connected_va": float(conn.sum()),
+            "demand_va": float(dem_va.sum()),
+            "worst_imbalance_pct": float(imbalance.max()),
+            "occupancy": occupancy,
+            "system": system.text,
+        }
+    any_fail = any(f[6] == "fail" for f in circ_found) or any(f.status == "fail" for f in findings)
+    deferred = _Deferred(lambda: _circuit_findings(panel, circuit, circ_found) + findings, any_fail)
+    return ScheduleResult(
+        schedule.path,
+        system.text,
+        circuits,
+        totals,
+        panels,
+        deferred,
+        demands[str(panels["panel"].iat[0])],
+        demands,
+    )
 
 
 def _circuit_findings(panel: np.ndarray, circuit: np.ndarray, circ_found) -> list[Finding]:
@@ -601,9 +813,12 @@ def _circuit_findings(panel: np.ndarray, circuit: np.ndarray, circ_found) -> lis
     for name, rid, idx, vals, lims, unit, status, texts in circ_found:
         subj = np.char.add(np.char.add(panel[idx].astype(str), "/"), circuit[idx].astype(str))
         # tolist(): Python str and float, as str()/float() of each element would give
-        out.extend(Finding(s, name, v, lim, unit, status, rid, str(t))
-                   for s, v, lim, t in zip(subj.tolist(), vals.tolist(), lims.tolist(),
-                                           texts.tolist(), strict=True))
+        out.extend(
+            Finding(s, name, v, lim, unit, status, rid, str(t))
+            for s, v, lim, t in zip(
+                subj.tolist(), vals.tolist(), lims.tolist(), texts.tolist(), strict=True
+            )
+        )
     return out
 
 

@@ -7,8 +7,10 @@ from feedcheck.schedule import read_schedule
 from feedcheck.schedule_checks import check_schedule, demand_tiers
 from feedcheck.units import parse_voltage_system
 
-HEAD = ("circuit,poles,kind,continuous,load [VA],pf,breaker [A],conductor,insulation,"
-        "length [ft],ground\n")
+HEAD = (
+    "circuit,poles,kind,continuous,load [VA],pf,breaker [A],conductor,insulation,"
+    "length [ft],ground\n"
+)
 WYE = parse_voltage_system("208Y/120 V")
 SPLIT = parse_voltage_system("120/240 V")
 DELTA = parse_voltage_system("480 V delta")
@@ -20,8 +22,19 @@ def _check(tmp_path, rows, system=WYE, **kw):
     return check_schedule(read_schedule(p), system, **kw)
 
 
-def _row(n, poles=1, kind="other", cont="no", va=100, pf=1, brk=20, cond="12 AWG Cu", ins=75,
-         ft=10, gnd=""):
+def _row(
+    n,
+    poles=1,
+    kind="other",
+    cont="no",
+    va=100,
+    pf=1,
+    brk=20,
+    cond="12 AWG Cu",
+    ins=75,
+    ft=10,
+    gnd="",
+):
     return f"{n},{poles},{kind},{cont},{va},{pf},{brk},{cond},{ins},{ft},{gnd}"
 
 
@@ -76,8 +89,10 @@ def test_three_phase_drop(tmp_path):
 def test_continuous_125_percent(tmp_path):
     # 210.20(A): 1920 VA continuous = 16 A × 1.25 = 20 A → a 20 A breaker is enough;
     # 2000 VA continuous = 16.67 A × 1.25 = 20.8 A → not
-    r = _check(tmp_path, [_row(1, cont="yes", va=1920), _row(2, cont="yes", va=2000),
-                          _row(3, cont="no", va=2000)])
+    r = _check(
+        tmp_path,
+        [_row(1, cont="yes", va=1920), _row(2, cont="yes", va=2000), _row(3, cont="no", va=2000)],
+    )
     assert r.circuits["status"].tolist() == ["ok", "fail", "ok"]
     f = [x for x in r.findings if x.subject == "P1/2" and x.rule_id == "sched-breaker-load"]
     assert f and f[0].limit == pytest.approx(2000 / 120 * 1.25)
@@ -108,8 +123,10 @@ def test_small_conductor_termination_and_egc(tmp_path):
 def test_motor_rules(tmp_path):
     # 430.52 Table 430.52: inverse-time breaker ≤ 250 % FLC, next standard size permitted.
     # 2702 VA three-phase at 208 V = 7.5 A FLC → 18.75 A → 20 A allowed, 30 A not.
-    rows = [_row(1, poles=3, kind="motor", va=2702, brk=20),
-            _row(2, poles=3, kind="motor", va=2702, brk=30)]
+    rows = [
+        _row(1, poles=3, kind="motor", va=2702, brk=20),
+        _row(2, poles=3, kind="motor", va=2702, brk=30),
+    ]
     # the 25 A breaker of the 12 AWG motor circuit is not a 240.4(D) failure (240.4(G))
     rows.append(_row(7, poles=3, kind="motor", va=4000, brk=25))
     r = _check(tmp_path, rows)
@@ -127,11 +144,13 @@ def test_poles_and_neutral_against_the_panel(tmp_path):
 def test_demand_receptacles_and_motor_by_hand(tmp_path):
     # receptacles 6000 + 6000 = 12,000 VA → 10,000 + 2,000 × 50 % = 11,000 (220.44)
     # motors 3000 + 1000 → 4000 + 25 % × 3000 = 4750 (430.24); lighting 2000 continuous
-    rows = [_row(1, kind="receptacle", va=6000, brk=60, cond="4 AWG Cu"),
-            _row(2, kind="receptacle", va=6000, brk=60, cond="4 AWG Cu"),
-            _row(3, kind="motor", va=3000, brk=40, cond="8 AWG Cu"),
-            _row(4, kind="motor", va=1000), _row(5, kind="lighting", cont="yes", va=2000, brk=30,
-                                                 cond="10 AWG Cu")]
+    rows = [
+        _row(1, kind="receptacle", va=6000, brk=60, cond="4 AWG Cu"),
+        _row(2, kind="receptacle", va=6000, brk=60, cond="4 AWG Cu"),
+        _row(3, kind="motor", va=3000, brk=40, cond="8 AWG Cu"),
+        _row(4, kind="motor", va=1000),
+        _row(5, kind="lighting", cont="yes", va=2000, brk=30, cond="10 AWG Cu"),
+    ]
     r = _check(tmp_path, rows, bus_a=100, main_a=60)
     t = r.totals
     assert t["connected_va"] == pytest.approx(6000 + 6000 + 3000 + 1000 + 2000)
@@ -146,9 +165,12 @@ def test_demand_receptacles_and_motor_by_hand(tmp_path):
 
 def test_multi_panel_file_totals_per_panel(tmp_path):
     p = tmp_path / "many.csv"
-    p.write_text("panel,circuit,load [VA],breaker [A],conductor,length [m]\n"
-                 "A1,1,1000,20,12 AWG Cu,5\nA1,2,500,20,12 AWG Cu,5\n"
-                 "B2,1,700,20,12 AWG Cu,5\n", encoding="utf-8")
+    p.write_text(
+        "panel,circuit,load [VA],breaker [A],conductor,length [m]\n"
+        "A1,1,1000,20,12 AWG Cu,5\nA1,2,500,20,12 AWG Cu,5\n"
+        "B2,1,700,20,12 AWG Cu,5\n",
+        encoding="utf-8",
+    )
     r = check_schedule(read_schedule(p), WYE)
     assert r.panels["panel"].tolist() == ["A1", "B2"]
     assert r.panels["connected_va"].tolist() == pytest.approx([1500, 700])
@@ -158,3 +180,23 @@ def test_multi_panel_file_totals_per_panel(tmp_path):
 def test_occupancy_rejected_when_unknown():
     with pytest.raises(ValueError, match="occupancy"):
         demand_tiers("castle")
+
+
+def test_non_standard_breaker_is_flagged_and_zero_length_refused(tmp_path):
+    # NFPA 70-2023 240.6(A): 17 A is not a standard rating (15 and 20 A are).
+    import pytest
+
+    from feedcheck.errors import InputError
+    from feedcheck.schedule import read_schedule
+    from feedcheck.schedule_checks import check_schedule
+    from feedcheck.units import parse_voltage_system
+
+    head = "circuit,load [VA],breaker [A],conductor,length [ft]\n"
+    p = tmp_path / "P.csv"
+    p.write_text(head + "1,1000,17,12 AWG Cu,50\n3,1000,20,12 AWG Cu,50\n")
+    res = check_schedule(read_schedule(p), parse_voltage_system("208Y/120 V"))
+    flagged = [f for f in res.findings if f.rule_id == "sched-standard-rating"]
+    assert [f.subject for f in flagged] == ["P/1"] and flagged[0].status == "warn"
+    p.write_text(head + "1,1000,20,12 AWG Cu,0\n")
+    with pytest.raises(InputError, match="length greater than 0"):
+        read_schedule(p)

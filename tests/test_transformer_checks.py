@@ -137,3 +137,11 @@ def test_primary_only_arrangement_limit(write_job):
     res = _run(write_job, pdev="150 A", rdev='device = "200 A"')
     f = _find(res, "T1", "primary device")[0]
     assert f.status == "fail" and f.limit == 125.0 and f.rule_id == "xfmr-prot-primary-only-9a"
+
+
+def test_non_standard_device_rating_is_a_warning(write_job):
+    # NFPA 70-2023 240.6(A): 110 A is a standard rating, 105 A is not.
+    res = _run(write_job, pdev="105 A")
+    f = _find(res, "T1", "primary device standard rating")[0]
+    assert f.status == "warn" and f.rule_id == "device-standard-rating"
+    assert not _find(_run(write_job, pdev="110 A"), "T1", "primary device standard rating")

@@ -13,7 +13,7 @@ from ..tables import load_table, table_names
 from .conductors import check_run
 from .context import Context, Load, build_context
 from .fault import check_faults
-from .panels import check_panel
+from .panels import check_panel, check_standard_ratings
 from .transformer import check_transformer
 from .vdrop import check_voltage_drop
 
@@ -38,6 +38,7 @@ def check_job(job: Job, panel_loads: dict[str, Load] | None = None) -> Results:
         check_transformer(ctx, t)
     for p in job.panels:
         check_panel(ctx, p)
+    check_standard_ratings(ctx)
     check_faults(ctx)
     check_voltage_drop(ctx)
     for run in job.runs:

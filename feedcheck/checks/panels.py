@@ -89,3 +89,30 @@ def check_panel(ctx: Context, p: Panel) -> None:
             "panel-main-bus",
             f"main device {p.main_device_a:g} A on a {p.rating_a:g} A bus",
         )
+
+
+def check_standard_ratings(ctx: Context) -> None:
+    """Every device rating in the job should be a standard rating (240.6(A)); a setting
+    of an adjustable-trip breaker may not be, so this is a warning."""
+    from ..tables import load_table
+
+    std = set(load_table("device_ratings").data["rating_a"].astype(float))
+    job = ctx.job
+    devices = [(t.id, "primary device", t.primary_device_a) for t in job.transformers]
+    devices += [(t.id, "secondary device", t.secondary_device_a) for t in job.transformers]
+    devices += [(r.id, "device", r.device_a) for r in job.runs]
+    devices += [(p.id, "main device", p.main_device_a) for p in job.panels]
+    for subject, what, rating in devices:
+        if rating is not None and rating not in std:
+            ctx.add(
+                subject,
+                f"{what} standard rating",
+                rating,
+                None,
+                "A",
+                "warn",
+                "device-standard-rating",
+                f"{rating:g} A is not a standard rating of "
+                "fuses and inverse-time breakers (240.6(A)); fine only for an "
+                "adjustable-trip setting",
+            )

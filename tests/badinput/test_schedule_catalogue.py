@@ -17,7 +17,7 @@ from . import GOOD, assert_rejected, cli
 HEADER = "circuit,description,load [VA],breaker [A],conductor,length [ft]\n"
 ROWS = "1,Lights,1200,20,12 AWG Cu,60\n3,Receptacles,1500,20,12 AWG Cu,80\n"
 CSV = HEADER + ROWS
-LOAD = "expected a load in va, a number ≥ 0"
+LOAD = "expected a load in VA, a number ≥ 0"
 
 # fmt: off
 CASES = [
