@@ -108,6 +108,7 @@ class Panel:
     continuous_va: float
     pf: float
     instantaneous_a: float | None = None
+    occupancy: str = "other"  # lighting demand factors of the schedule (Table 220.42)
 
 
 @dataclass(frozen=True)
@@ -378,6 +379,7 @@ PANEL_KEYS = (
     "continuous",
     "power_factor",
     "instantaneous_trip",
+    "occupancy",
 )
 MOTOR_KEYS = ("id", "panel", "full_load", "hp", "locked_rotor")
 OPTION_KEYS = (
@@ -686,6 +688,7 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
                 continuous_va=cont or 0.0,
                 pf=pf or 0.9,
                 instantaneous_a=r.qty(t, path, "instantaneous_trip", "current", required=False),
+                occupancy=_occupancy(r, t, path),
             )
         )
 
@@ -712,8 +715,15 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
         r.add("options", opts, "an [options] table")
         opts = {}
     r.check_keys(opts, "options", OPTION_KEYS)
-    tol = r.qty(opts, "options", "impedance_tolerance", "percent", required=False, default=7.5,
-                must_be_positive=False)
+    tol = r.qty(
+        opts,
+        "options",
+        "impedance_tolerance",
+        "percent",
+        required=False,
+        default=7.5,
+        must_be_positive=False,
+    )
     if tol is not None and not (0 <= tol <= 20):
         r.add(
             "options.impedance_tolerance",
@@ -758,6 +768,22 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
     _check_voltages(r, job)
     r.problems.raise_if_any()
     return job
+
+
+OCCUPANCIES = ("other", "dwelling", "hospital", "hotel", "warehouse")
+
+
+def _occupancy(r: _Reader, t: dict, path: str) -> str:
+    """Occupancy for the lighting demand factors of the panel's schedule."""
+    occ = r.text(t, path, "occupancy", required=False, default="other")
+    if occ not in OCCUPANCIES:
+        r.add(
+            f"{path}.occupancy",
+            occ,
+            "one of " + ", ".join(OCCUPANCIES) + " (lighting demand factors of Table 220.42)",
+        )
+        return "other"
+    return occ
 
 
 def _replace(obj, **changes):

@@ -28,13 +28,16 @@ def load_and_check(job_file: str | Path) -> tuple[Job, Results]:
     from .topology import build_tree
 
     tree = build_tree(job)
-    checked = {pid: check_schedule(s, tree.voltage_of[pid]) for pid, s in schedules.items()}
+    panels = {p.id: p for p in job.panels}
+    checked = {
+        pid: check_schedule(s, tree.voltage_of[pid], occupancy=panels[pid].occupancy)
+        for pid, s in schedules.items()
+    }
     results = check_job(job, {pid: r.demand for pid, r in checked.items()})
     # branch drops add to the conductor drop since the transformer secondary (the same
     # basis as the panel's own total-drop check), under the job's drop rules
     drops = {n.id: float(n.values.get("conductor_vdrop_pct", 0.0) or 0.0) for n in results.nodes}
     limits = _drop_rules(job)
-    panels = {p.id: p for p in job.panels}
     for pid, s in schedules.items():
         res = check_schedule(
             s,
@@ -44,6 +47,7 @@ def load_and_check(job_file: str | Path) -> tuple[Job, Results]:
             main_a=panels[pid].main_device_a,
             branch_rule=limits["branch"],
             total_rule=limits["total"],
+            occupancy=panels[pid].occupancy,
         )
         results.schedules[pid] = res
         results.findings.extend(res.findings)

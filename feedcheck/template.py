@@ -61,6 +61,7 @@ load = "40 kVA"                # demand load (a schedule replaces it when given)
 continuous = "10 kVA"          # the continuous part of the load
 power_factor = 0.9
 # schedule = "LP1.csv"         # optional: panel schedule beside this file (CSV or XLSX)
+# occupancy = "other"          # lighting demand: other, dwelling, hospital, hotel, warehouse
 
 # [[motor]]                    # optional: motors, for fault contribution and starting dip
 # id = "EF-1"

@@ -200,3 +200,16 @@ def test_non_standard_breaker_is_flagged_and_zero_length_refused(tmp_path):
     p.write_text(head + "1,1000,20,12 AWG Cu,0\n")
     with pytest.raises(InputError, match="length greater than 0"):
         read_schedule(p)
+
+
+def test_panel_occupancy_from_the_job_sets_lighting_demand(write_job, samples):
+    # NFPA 70 Table 220.42 (2017 numbering): warehouses, first 12,500 VA at 100 %, the rest
+    # at 50 %; "all others" at 100 %. LP1's lighting (2,700 VA) is under 12,500 VA, so the
+    # demand is unchanged; a hospital (40 % of the first 50,000 VA) lowers it by 60 % of it.
+    from feedcheck.runner import run_job
+
+    text = (samples / "harbor_kitchen.toml").read_text()
+    base = run_job(write_job(text, "a.toml")).schedules["LP1"].totals
+    text_h = text.replace('schedule = "LP1.csv"', 'schedule = "LP1.csv"\noccupancy = "hospital"')
+    hosp = run_job(write_job(text_h, "b.toml")).schedules["LP1"].totals
+    assert hosp["demand_va"] == pytest.approx(base["demand_va"] - 0.6 * base["lighting_va"])
