@@ -306,8 +306,35 @@ def _ampacities(c: pd.DataFrame, problems: ProblemList):
     return np.asarray(derated, float), np.asarray(unadjusted, float), term
 
 
-def _egc_required_area(breaker, gmat, size, mat):
-    """Least EGC area [mm²] by Table 250.122, capped at the circuit conductors."""
+def _min_phase_area(breaker, mat, ins, term, size):
+    """Area [mm²] of the smallest conductor of the same material and size system that the
+    breaker protects (240.4, at the circuit's insulation and termination columns): the
+    "minimum size that has sufficient ampacity" of 250.122(B). One call per distinct row."""
+    from .calc.ampacity import ampacity_a
+    from .calc.protection import max_device_a
+    from .calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
+
+    out = np.empty(len(breaker))
+    for k, (b, m, i, t, sz) in enumerate(zip(breaker, mat, ins, term, size, strict=True)):
+        order = AWG_KCMIL_ORDER if SIZES[sz].system == "awg" else METRIC_ORDER
+        out[k] = SIZES[sz].area_mm2
+        for name in order:
+            if SIZES[name].area_mm2 >= SIZES[sz].area_mm2:
+                break
+            try:
+                amp = float(ampacity_a(name, m, i, 30.0, 3, t))
+            except ValueError:
+                continue
+            if float(max_device_a(amp, name, m)) >= b - 1e-9:
+                out[k] = SIZES[name].area_mm2
+                break
+    return out
+
+
+def _egc_required_area(breaker, gmat, size, mat, min_area):
+    """Least EGC area [mm²] by Table 250.122, increased in proportion to the circuit
+    conductors' area over the minimum size (250.122(B)), capped at the circuit
+    conductors (250.122(A))."""
     from .calc.conductor import AREA_MM2, conductor_data, material_index, size_index
     from .calc.protection import protection_tables
 
@@ -318,10 +345,14 @@ def _egc_required_area(breaker, gmat, size, mat):
     al = AREA_MM2[size_index(np.array(t.egc_al))]
     gm = material_index(gmat)
     table_area = np.where(gm == 0, cu[row], al[row])
+    phase_area = AREA_MM2[size_index(size)]
+    # the installed ground is a standard size, so comparing its area with the grown area
+    # is the same as rounding the grown area up to the next standard size
+    need = table_area * np.maximum(phase_area / min_area, 1.0)
     rho = conductor_data().rho20
     pm = material_index(mat)
-    cap = AREA_MM2[size_index(size)] * rho[gm] / rho[pm]
-    return np.minimum(table_area, cap), table_area
+    cap = phase_area * rho[gm] / rho[pm]
+    return np.minimum(need, cap), table_area
 
 
 # --------------------------------------------------------------------------- the check
@@ -400,7 +431,7 @@ def check_schedule(
     motor = kind == "motor"
 
     _kv, nominal_v, load_va, current, vd_kind = _circuit_electrics(c, schedule.load_unit, system)
-    derated, unadjusted, _term = _ampacities(c, problems)
+    derated, unadjusted, term = _ampacities(c, problems)
 
     # ---- checks: (name, rule id, failing mask, value, limit, unit, status, reason text)
     checks = []
@@ -530,8 +561,12 @@ def check_schedule(
     g_need = np.zeros(n)
     if has_g.any():
         gm = c["ground_material"].to_numpy(object)
+        ins_c = c["insulation_c"].to_numpy(float)
+        min_area = _per_unique(
+            _min_phase_area, breaker[has_g], mat[has_g], ins_c[has_g], term[has_g], size[has_g]
+        )
         need, _table = _per_unique(
-            _egc_required_area, breaker[has_g], gm[has_g], size[has_g], mat[has_g]
+            _egc_required_area, breaker[has_g], gm[has_g], size[has_g], mat[has_g], min_area
         )
         g_need[has_g] = need
         g_area[has_g] = AREA_MM2[_per_unique(size_index, gsize[has_g])]
@@ -544,8 +579,11 @@ def check_schedule(
         g_need,
         "mm2",
         rules["sched-egc"]["status"],
-        lambda i: f"ground {gsize[i]} smaller than Table 250.122 for {breaker[i]:g} A",
-        (gsize, breaker),
+        lambda i: (
+            f"ground {gsize[i]} smaller than required for {breaker[i]:g} A with "
+            f"{size[i]} {mat[i]} (Table 250.122, increased in proportion when upsized)"
+        ),
+        (gsize, breaker, size, mat),
     )
 
     max_poles = 3 if system.phases == 3 else 2

@@ -213,3 +213,23 @@ def test_panel_occupancy_from_the_job_sets_lighting_demand(write_job, samples):
     text_h = text.replace('schedule = "LP1.csv"', 'schedule = "LP1.csv"\noccupancy = "hospital"')
     hosp = run_job(write_job(text_h, "b.toml")).schedules["LP1"].totals
     assert hosp["demand_va"] == pytest.approx(base["demand_va"] - 0.6 * base["lighting_va"])
+
+
+def test_branch_ground_grows_with_upsized_conductors(tmp_path):
+    # NFPA 70-2023 250.122(B): a 20 A circuit upsized from 12 AWG (the minimum it protects,
+    # 240.4(D)) to 10 AWG Cu for voltage drop needs its EGC increased by 10,380/6,530 cmil
+    # (Ch. 9 Table 8): 12 AWG (6,530 cmil, Table 250.122 for 20 A) × 1.59 = 10,380 → 10 AWG.
+    from feedcheck.schedule import read_schedule
+    from feedcheck.schedule_checks import check_schedule
+    from feedcheck.units import parse_voltage_system
+
+    p = tmp_path / "P.csv"
+    p.write_text(
+        "circuit,load [VA],breaker [A],conductor,length [ft],ground\n"
+        "1,1200,20,10 AWG Cu,150,12 AWG Cu\n"
+        "3,1200,20,10 AWG Cu,150,10 AWG Cu\n"
+        "5,1200,20,12 AWG Cu,50,12 AWG Cu\n"
+    )
+    res = check_schedule(read_schedule(p), parse_voltage_system("208Y/120 V"))
+    flagged = sorted(f.subject for f in res.findings if f.rule_id == "sched-egc")
+    assert flagged == ["P/1"]
