@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import functools
 import sys
+import textwrap
 
 import click
 
@@ -149,13 +150,37 @@ def tables_cmd(verify):
 
     good, bad = verify_all()
     for t in good:
-        click.echo(f"{t.name:32} {t.confidence:22} {t.origin:8} {t.source}")
+        level, detail = _confidence_parts(t.confidence)
+        click.echo(f"{t.name}  [{level}]  {t.origin}")
+        click.echo(
+            textwrap.fill(
+                t.source, 96, initial_indent="    source: ", subsequent_indent="            "
+            )
+        )
+        if detail:
+            click.echo(
+                textwrap.fill(
+                    detail, 96, initial_indent="    note:   ", subsequent_indent="            "
+                )
+            )
     for exc in bad:
         for p in exc.problems:
             click.echo(f"error: {p}", err=True)
     if verify:
         click.echo(f"{len(good)} tables verified, {len(bad)} broken", err=True)
     sys.exit(2 if bad else 0)
+
+
+def _confidence_parts(text: str) -> tuple[str, str]:
+    """("published", "rows … from memory") from a table's confidence line."""
+    from .tables import CONFIDENCE_LEVELS
+
+    for level in CONFIDENCE_LEVELS:
+        head = level.split(" —")[0]
+        if text.lower().startswith(head):
+            rest = text[len(level) if text.startswith(level) else len(head) :].strip(" ;")
+            return level, rest.strip("()")
+    return text, ""
 
 
 @main.group("calc", context_settings=CONTEXT, epilog=CAUTION)
