@@ -106,6 +106,7 @@ def check_faults(ctx: Context) -> None:
 
     lg_min = _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb)
     ptp = _point_to_point(ctx, fa, order, rf)
+    _primary_terminals(ctx, fa, pos, rf, vb)
 
     when = _calc_date(job)
     for i, n in enumerate(order):
@@ -240,6 +241,40 @@ def _walk_3ph(job, parent, v_node, zb_max, zb_min, zs, fa, vb) -> _Walk:
         np.concatenate([[src.fault_a], rf.fault_max_a]),
         np.concatenate([[src.fault_a], rf.fault_min_a]),
     )
+
+
+def _primary_terminals(ctx: Context, fa, pos, rf, vb) -> None:
+    """Fault current at the far end of a run that feeds a transformer (its primary
+    terminals): the parent's total impedance plus the run, referred to the base."""
+    tree = ctx.tree
+    for t in ctx.job.transformers:
+        run = tree.parent_run.get(t.id)
+        if run is None:
+            continue
+        p = tree.parent_node[t.id]
+        pv = tree.voltage_of[p]
+        k = 2 / SQRT3 if t.primary.phases == 1 else 1.0  # loop on two lines, per-phase eq.
+        out = {}
+        for case, temp, z_parent, c in (
+            ("max", fa.cond_c_max, rf.z_max_ohm, fa.c_max),
+            ("min", fa.cond_c_min, rf.z_min_ohm, fa.c_min),
+        ):
+            z_run_b = k * run_impedance_ohm(run, temp) * (vb / pv.line_v) ** 2
+            z_b = z_parent[pos[p]] + z_run_b
+            out[case] = float(fk.fault_current_3ph_a(vb, z_b, c)) * vb / pv.line_v
+        values = ctx.nodes[t.id].values
+        values["fault_primary_max_a"], values["fault_primary_min_a"] = out["max"], out["min"]
+        ctx.add(
+            run.id,
+            "fault current at the far end (transformer primary)",
+            out["max"],
+            None,
+            "A",
+            "info",
+            "fault-marking",
+            f"{t.id} primary terminals: maximum "
+            f"{_kA(out['max'])}, minimum {_kA(out['min'])} (complex ohmic method)",
+        )
 
 
 def _calc_date(job) -> str:

@@ -158,3 +158,57 @@ def test_bolted_lg_at_terminals_equals_three_phase_when_z0_equals_z1(write_job):
     res = _job(write_job, tol=0)
     t = _node(res, "T")
     assert t["fault_lg_min_a"] == pytest.approx(t["fault_min_a"], rel=1e-9)
+
+
+PRIMARY_RUN_JOB = """
+[project]
+name = "primary feeder"
+
+[source]
+voltage = "480 V delta"
+available_fault = "infinite"
+
+[[run]]
+id = "PF"
+from = "source"
+to = "T"
+length = "200 ft"
+conductors = "4/0 AWG Cu"
+raceway = "steel"
+device = "150 A"
+
+[[transformer]]
+id = "T"
+from = "source"
+rating = "75 kVA"
+primary = "480 V delta"
+secondary = "208Y/120 V"
+impedance = "5 %"
+x_r = 3
+primary_device = "110 A"
+
+[[run]]
+id = "S"
+from = "T"
+to = "P"
+length = "10 ft"
+conductors = "4/0 AWG Cu"
+device = "250 A"
+
+[[panel]]
+id = "P"
+rating = "225 A"
+load = "30 kVA"
+"""
+
+
+def test_fault_at_the_far_end_of_a_primary_feeder(write_job):
+    # NFPA 70 Ch. 9 Table 9 (H): 4/0 Cu in steel conduit R = 0.063, XL = 0.051 Ω/kft at
+    # 75 °C; Table 8 note: R20 = R75·[1 + 0.00323·(20 − 75)]. Infinite source, 200 ft:
+    # I = (480/√3) / |0.2·(R20 + jXL)| (IEEE Std 141 ch. 4 ohmic method).
+    res = run_job(write_job(PRIMARY_RUN_JOB))
+    r20 = 0.063 * (1 + 0.00323 * (20 - 75))
+    expected = 480 / math.sqrt(3) / abs(complex(0.2 * r20, 0.2 * 0.051))
+    got = _node(res, "T")["fault_primary_max_a"]
+    assert got == pytest.approx(expected, rel=0.01)
+    assert _node(res, "T")["fault_primary_min_a"] < got
