@@ -125,9 +125,13 @@ def render_json(results: Results) -> str:
 FINDING_FIELDS = ("subject", "check", "value", "limit", "unit", "status", "rule_id", "note")
 
 
+# first characters that make a spreadsheet read a cell as a formula (CSV/XLSX exports)
+FORMULA_PREFIXES = ("=", "+", "-", "@", "\t", "\r")
+
+
 def neutralise_cell(v):
     """Prefix a text cell that a spreadsheet would read as a formula with a quote."""
-    if isinstance(v, str) and v[:1] in ("=", "+", "-", "@", "\t", "\r"):
+    if isinstance(v, str) and v[:1] in FORMULA_PREFIXES:
         return "'" + v
     return v
 

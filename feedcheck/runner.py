@@ -24,16 +24,18 @@ def load_and_check(job_file: str | Path) -> tuple[Job, Results]:
     schedules = _read_job_schedules(job)
     if not schedules:
         return job, check_job(job)
-    from .schedule_checks import check_schedule
+    from .schedule_checks import check_schedule, demand_load
     from .topology import build_tree
 
     tree = build_tree(job)
     panels = {p.id: p for p in job.panels}
-    checked = {
-        pid: check_schedule(s, tree.voltage_of[pid], occupancy=panels[pid].occupancy)
+    # the walk needs each panel's demand; the circuits are checked once, after the walk
+    # has given each panel its feeder drop
+    demands = {
+        pid: demand_load(s, tree.voltage_of[pid], panels[pid].occupancy)
         for pid, s in schedules.items()
     }
-    results = check_job(job, {pid: r.demand for pid, r in checked.items()})
+    results = check_job(job, demands)
     # branch drops add to the conductor drop since the transformer secondary (the same
     # basis as the panel's own total-drop check), under the job's drop rules
     drops = {n.id: float(n.values.get("conductor_vdrop_pct", 0.0) or 0.0) for n in results.nodes}

@@ -696,24 +696,9 @@ def check_schedule(
         phase_txt[owner[sel]] = phase_txt[owner[sel]] + letters[ph[sel]]
 
     # ---- demand per panel
-    kinds = ("lighting", "receptacle", "motor", "heating", "other")
-    kcode = np.asarray(pd.Categorical(kind, categories=kinds).codes, dtype=np.int64)
-    conn = np.bincount(pan_codes * 5 + kcode, weights=load_va, minlength=5 * n_pan).reshape(
-        n_pan, 5
+    conn, dem_va, cont_va, w, largest_motor = _panel_demand(
+        kind, load_va, cont, pf, pan_codes, n_pan, tiers
     )
-    dem = np.empty_like(conn)
-    for j, k in enumerate(kinds):
-        dem[:, j] = _tiered(conn[:, j], tiers.get(k, [(0.0, math.inf, 1.0)]))
-    largest_motor = np.zeros(n_pan)
-    if motor.any():
-        np.maximum.at(largest_motor, pan_codes[motor], load_va[motor])
-    extra = (tiers["motor-largest"][0][2] - 1.0) * largest_motor
-    dem[:, 2] += extra
-    factor = np.divide(dem, conn, out=np.zeros_like(dem), where=conn > 0)
-    circ_dem = load_va * factor[pan_codes, kcode]
-    dem_va = dem.sum(axis=1)
-    cont_va = np.bincount(pan_codes, weights=np.where(cont, circ_dem, 0.0), minlength=n_pan)
-    w = np.bincount(pan_codes, weights=circ_dem * pf, minlength=n_pan)
     cont_factor = tiers["continuous"][0][2]
     design_va = dem_va + (cont_factor - 1.0) * cont_va
     k_i = SQRT3 * system.line_v if system.phases == 3 else system.line_v
@@ -860,6 +845,45 @@ def _circuit_findings(panel: np.ndarray, circuit: np.ndarray, circ_found) -> lis
     return out
 
 
+def _panel_demand(kind, load_va, cont, pf, pan_codes, n_pan: int, tiers):
+    """Connected VA by kind, demand VA, continuous VA, real power and the largest motor
+    of each panel (demand factors of ``tables/demand_factors.csv``)."""
+    import pandas as pd
+
+    kinds = ("lighting", "receptacle", "motor", "heating", "other")
+    kcode = np.asarray(pd.Categorical(kind, categories=kinds).codes, dtype=np.int64)
+    conn = np.bincount(pan_codes * 5 + kcode, weights=load_va, minlength=5 * n_pan).reshape(
+        n_pan, 5
+    )
+    dem = np.empty_like(conn)
+    for j, k in enumerate(kinds):
+        dem[:, j] = _tiered(conn[:, j], tiers.get(k, [(0.0, math.inf, 1.0)]))
+    motor = kind == "motor"
+    largest_motor = np.zeros(n_pan)
+    if motor.any():
+        np.maximum.at(largest_motor, pan_codes[motor], load_va[motor])
+    extra = (tiers["motor-largest"][0][2] - 1.0) * largest_motor
+    dem[:, 2] += extra
+    factor = np.divide(dem, conn, out=np.zeros_like(dem), where=conn > 0)
+    circ_dem = load_va * factor[pan_codes, kcode]
+    dem_va = dem.sum(axis=1)
+    cont_va = np.bincount(pan_codes, weights=np.where(cont, circ_dem, 0.0), minlength=n_pan)
+    w = np.bincount(pan_codes, weights=circ_dem * pf, minlength=n_pan)
+    return conn, dem_va, cont_va, w, largest_motor
+
+
 def demand_load(schedule: Schedule, system: VoltageSystem, occupancy: str = "other") -> Load:
-    """Demand load of a one-panel schedule (for the feed walk); see :func:`check_schedule`."""
-    return check_schedule(schedule, system, occupancy=occupancy).demand
+    """Demand load of a one-panel schedule (for the feed walk), without the circuit
+    checks; the same figures as ``check_schedule(...).demand``."""
+    c = schedule.circuits
+    _kv, _v, load_va, _i, _k = _circuit_electrics(c, schedule.load_unit, system)
+    _conn, dem_va, cont_va, w, _m = _panel_demand(
+        c["kind"].to_numpy(object),
+        load_va,
+        c["continuous"].to_numpy(bool),
+        c["pf"].to_numpy(float),
+        np.zeros(len(c), dtype=np.int64),
+        1,
+        demand_tiers(occupancy),
+    )
+    return Load(float(dem_va[0]), float(cont_va[0]), float(w[0]))

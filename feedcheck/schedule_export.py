@@ -11,15 +11,17 @@ from __future__ import annotations
 
 import json
 import math
+import re
 from pathlib import Path
 
 import numpy as np
 
 from .io_atomic import atomic_path
+from .render_text import FORMULA_PREFIXES
 
 FORMATS = (".csv", ".xlsx", ".json")
-_FORMULA_START = r"^[=+\-@\t\r]"
-_FORMULA_CHARS = np.array(["=", "+", "-", "@", "\t", "\r"])
+_FORMULA_CHARS = np.array(FORMULA_PREFIXES)
+_FORMULA_START = "^[" + re.escape("".join(FORMULA_PREFIXES)) + "]"
 
 
 def neutralise_column(values: np.ndarray) -> np.ndarray:

@@ -233,3 +233,21 @@ def test_branch_ground_grows_with_upsized_conductors(tmp_path):
     res = check_schedule(read_schedule(p), parse_voltage_system("208Y/120 V"))
     flagged = sorted(f.subject for f in res.findings if f.rule_id == "sched-egc")
     assert flagged == ["P/1"]
+
+
+def test_demand_load_alone_equals_the_full_check(samples):
+    # the feed walk takes demand_load (no circuit checks); it must give the same Load
+    from feedcheck.schedule import read_schedule
+    from feedcheck.schedule_checks import check_schedule, demand_load
+    from feedcheck.units import parse_voltage_system
+
+    for name, system in (
+        ("LP1.csv", "208Y/120 V"),
+        ("EQ1.csv", "208Y/120 V"),
+        ("SHOP.csv", "120/240 V"),
+        ("LA_with_errors.csv", "208Y/120 V"),
+    ):
+        sched = read_schedule(samples / name)
+        v = parse_voltage_system(system)
+        for occ in ("other", "hospital"):
+            assert demand_load(sched, v, occ) == check_schedule(sched, v, occupancy=occ).demand

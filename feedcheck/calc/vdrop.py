@@ -119,6 +119,19 @@ def _sets(sets):
     return s
 
 
+def circuit_of_system(kind: str, phases: int) -> str:
+    """Circuit kind of the approximate and exact forms for a system voltage: ``1ph3w`` for a
+    120/240 V single-phase three-wire system (``kind`` ``"split"``), ``1ph2w`` for a
+    single-phase two-wire one, ``3ph`` otherwise.
+
+    Examples
+    --------
+    >>> circuit_of_system("split", 1), circuit_of_system("wye", 3)
+    ('1ph3w', '3ph')
+    """
+    return {"split": "1ph3w", "single": "1ph2w"}.get(kind, "3ph" if phases == 3 else "1ph2w")
+
+
 def voltage_drop_approximate_v(
     current_a, r_ohm_per_m, x_ohm_per_m, length_m, pf, circuit="3ph", sets=1
 ):

@@ -27,12 +27,6 @@ def _loads(ctx: Context, run: Run) -> tuple[float, float, float]:
     return cont, non, load.pf
 
 
-def _device(ctx: Context, run: Run) -> float | None:
-    if run.device_a is not None:
-        return run.device_a
-    return None
-
-
 def _select(
     run: Run,
     cont: float,
@@ -107,7 +101,7 @@ def check_run(ctx: Context, run: Run) -> None:
         "conductor_impedance_table9",
     )
     cont, non, _pf = _loads(ctx, run)
-    device = _device(ctx, run)
+    device = run.device_a
     cc = run.current_carrying + (1 if run.harmonic_neutral else 0)
     rooftop_c, rooftop_rule = 0.0, ""
     if run.rooftop_mm is not None:

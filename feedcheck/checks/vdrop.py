@@ -62,10 +62,6 @@ def drop_limits(ctx: Context) -> dict[str, DropLimit]:
     return out
 
 
-def circuit_kind(v) -> str:
-    return {"split": "1ph3w", "single": "1ph2w"}.get(v.kind, "3ph" if v.phases == 3 else "1ph2w")
-
-
 def check_voltage_drop(ctx: Context) -> None:
     job, tree = ctx.job, ctx.tree
     limits = drop_limits(ctx)
@@ -178,7 +174,7 @@ def check_voltage_drop(ctx: Context) -> None:
 
 def _run_drop(ctx: Context, run, pv, load, sending_pct: float, limits) -> float:
     """Drop of one run [% of nominal], with its findings and calculation steps."""
-    kind = circuit_kind(pv)
+    kind = vk.circuit_of_system(pv.kind, pv.phases)
     k = SQRT3 if pv.phases == 3 else 1.0
     current = load.va / (k * pv.line_v) if load.va > 0 else 0.0
     pf = load.pf

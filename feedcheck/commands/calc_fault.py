@@ -69,17 +69,6 @@ def _rule(rule_id: str) -> float:
     return float(rule("fault_assumptions", rule_id)["value"])
 
 
-def _typical_x_r(rating_va: float) -> float:
-    import numpy as np
-
-    from ..tables import load_table
-
-    t = load_table("transformer_xr").data
-    kva = t["rating_kva"].to_numpy(dtype=float)
-    i = max(int(np.searchsorted(kva, rating_va / 1e3 * (1 + 1e-9), side="right")) - 1, 0)
-    return float(t["x_r"].iloc[i])
-
-
 def _pickup(device_type: str, device_a: float) -> tuple[float, float, str]:
     from ..tables import load_table
 
@@ -233,11 +222,12 @@ def fault_command(kva, primary, secondary, z_pct, x_r, source_fault, source_x_r,
         raise click.UsageError("--ground needs a run (--length and --size)")
     if primary.phases == 1 and secondary.phases == 3:
         raise click.UsageError("a single-phase --primary cannot feed a three-phase --secondary")
+    from ..checks.transformer import typical_x_r
     from ..errors import InputError
 
     try:
         x_src = "given" if x_r is not None else "typical, tables/transformer_xr.csv"
-        x_r = x_r if x_r is not None else _typical_x_r(kva)
+        x_r = x_r if x_r is not None else typical_x_r(kva)[0]
         tol_src = "given" if tolerance_pct is not None else "rule fault-z-tolerance"
         tolerance_pct = tolerance_pct if tolerance_pct is not None else _rule("fault-z-tolerance")
         res = compute(kva, primary, secondary, z_pct, x_r, source_fault, source_x_r,

@@ -49,10 +49,6 @@ informational); exit code 2 means the input could not be used.
 """
 
 
-def _default_circuit(system) -> str:
-    return {"split": "1ph3w", "single": "1ph2w"}.get(system.kind, "3ph")
-
-
 def _nominal_v(system, circuit: str) -> float:
     """Voltage the drop is measured against; UsageError when the circuit does not fit."""
     if circuit == "3ph":
@@ -165,7 +161,7 @@ def voltage_drop_command(
         from ..calc.conductor import ac_impedance_ohm_per_m
     except ImportError as exc:  # pragma: no cover - only while the tree is incomplete
         _fail(f"conductor impedance data are not available ({exc})")
-    circuit = circuit or _default_circuit(system)
+    circuit = circuit or vdrop.circuit_of_system(system.kind, system.phases)
     nominal_v = _nominal_v(system, circuit)
     material = material.lower()
     raceway = raceway.lower()
