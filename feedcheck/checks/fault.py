@@ -411,7 +411,10 @@ def _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb) -> dict[str, fl
         i = pos[n]
         if in_scope[i]:
             out[n] = float(i_wye[i] if wye[i] else i_split[i])
-    _instantaneous_checks(ctx, fa, out, pos, lg_parent, b1, b0, root_z1, root_z0)
+    # sequence impedances from the grounded secondary to every node, once for all panels
+    z1_total = fk.cumulative_impedance_ohm(lg_parent, b1, root_z1)
+    z0_total = fk.cumulative_impedance_ohm(lg_parent, b0, root_z0)
+    _instantaneous_checks(ctx, fa, out, pos, z1_total, z0_total)
     return out
 
 
@@ -439,7 +442,7 @@ def _pickup(ctx, device_a: float, given: float | None) -> tuple[float, float, st
     return float(row["multiple"]), float(row["tolerance_pct"]), str(row["rule_id"])
 
 
-def _instantaneous_checks(ctx, fa, lg_min, pos, lg_parent, b1, b0, root_z1, root_z0) -> None:
+def _instantaneous_checks(ctx, fa, lg_min, pos, z1_total, z0_total) -> None:
     """Does the device feeding each panel trip instantaneously for a far-end ground fault?"""
     job, tree = ctx.job, ctx.tree
     tx = {t.id: t for t in job.transformers}
@@ -462,8 +465,9 @@ def _instantaneous_checks(ctx, fa, lg_min, pos, lg_parent, b1, b0, root_z1, root
             + ")"
         )
         if not chk.trips:
+            up_i = pos[up]
             note += "; " + _trip_fixes(
-                ctx, fa, p.id, run, chk.required_a, pos, lg_parent, b1, b0, root_z1, root_z0
+                ctx, fa, p.id, run, chk.required_a, z1_total[up_i], z0_total[up_i]
             )
         ctx.add(
             p.id,
@@ -477,15 +481,10 @@ def _instantaneous_checks(ctx, fa, lg_min, pos, lg_parent, b1, b0, root_z1, root
         )
 
 
-def _trip_fixes(
-    ctx, fa, panel_id, run, required_a, pos, lg_parent, b1, b0, root_z1, root_z0
-) -> str:
-    """What would make the device trip: a shorter run or a larger grounding conductor."""
-    tree = ctx.tree
-    v = tree.voltage_of[panel_id]
-    up = tree.parent_node[panel_id]
-    z_up1 = fk.cumulative_impedance_ohm(lg_parent, b1, root_z1)[pos[up]]
-    z_up0 = fk.cumulative_impedance_ohm(lg_parent, b0, root_z0)[pos[up]]
+def _trip_fixes(ctx, fa, panel_id, run, required_a, z_up1, z_up0) -> str:
+    """What would make the device trip: a shorter run or a larger grounding conductor.
+    ``z_up1``, ``z_up0``: positive- and zero-sequence impedance up to the run's start."""
+    v = ctx.tree.voltage_of[panel_id]
     zp = run_impedance_ohm(run, fa.cond_c_min) / run.length_m
     zr = run_return_impedance_ohm(run, fa.cond_c_min) / run.length_m
     # wye: Z1 + Z2 + Z0 upstream; 120/240 V loop written in the same 3·V/|A + 3L·(zp + zr)|
