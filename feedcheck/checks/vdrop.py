@@ -285,11 +285,12 @@ def _smallest_passing(run, current, pf, kind, limit_pct, nominal_v) -> str:
     order = AWG_KCMIL_ORDER if run.size.system == "awg" else METRIC_ORDER
     names = [s for s in order if SIZES[s].area_mm2 >= run.size.area_mm2 * (1 - 1e-9)]
     r, x = ck.ac_impedance_ohm_per_m(np.array(names), run.material, run.raceway, OPERATING_C)
+    r, x = np.asarray(r), np.asarray(x)  # candidates; the first is the run's own size
     idx = int(
         vk.min_conductor_index(
             current,
-            np.asarray(r),
-            np.asarray(x),
+            r,
+            x,
             run.length_m,
             pf,
             limit_pct / 100.0 * nominal_v,
@@ -300,7 +301,8 @@ def _smallest_passing(run, current, pf, kind, limit_pct, nominal_v) -> str:
     max_len = float(
         vk.max_length_m(
             current,
-            *ck.ac_impedance_ohm_per_m(run.size.name, run.material, run.raceway, OPERATING_C),
+            r[0],
+            x[0],
             pf,
             limit_pct / 100.0 * nominal_v,
             kind,
