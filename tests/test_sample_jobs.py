@@ -23,7 +23,7 @@ def test_review_job_long_run_names_the_smallest_passing_conductor(samples):
     f = next(x for x in res.findings if x.subject == "F-RTU" and x.check == "feeder voltage drop")
     assert f.status == "warn" and f.rule_id == "vd-nec-feeder"
     assert "smallest conductor that passes: 1/0 AWG Cu" in f.note
-    # By hand, NFPA 70 Ch. 9 Table 9 (H): 1/0 Cu in PVC R = 0.12, XL = 0.044 Ω/kft;
+    # By hand, NFPA 70 Ch. 9 Table 9: 1/0 Cu in PVC R = 0.12, XL = 0.044 Ω/kft;
     # 24 kVA at 208 V, pf 0.85, 420 ft: √3·I·L·(R cos θ + X sin θ) ≤ 3 % of 208 V.
     i = 24e3 / (math.sqrt(3) * 208)
     ze = 0.12 * 0.85 + 0.044 * math.sqrt(1 - 0.85**2)

@@ -13,7 +13,7 @@ def test_every_shipped_table_verifies():
 
 
 def test_device_ratings_match_published_list():
-    # NFPA 70-2023 240.6(A) Table 240.6(A) (REFERENCES.md, H): standard ratings 15 A … 6000 A
+    # NFPA 70-2023 240.6(A) Table 240.6(A) : standard ratings 15 A … 6000 A
     published = [
         15,
         20,
@@ -60,7 +60,7 @@ def test_device_ratings_match_published_list():
 
 
 def test_transformer_protection_rows_match_450_3_b():
-    # NFPA 70-2023 Table 450.3(B) (REFERENCES.md, H)
+    # NFPA 70-2023 Table 450.3(B)
     t = load_table("transformer_protection").data.set_index("rule_id")
     assert t.loc["xfmr-prot-primary-only-9a", "max_pct"] == 125
     assert t.loc["xfmr-prot-primary-only-2a", "max_pct"] == 167

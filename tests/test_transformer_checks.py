@@ -102,7 +102,7 @@ def test_device_at_transformer_protects_the_secondary_conductors(write_job):
 
 
 def test_grounding_electrode_conductor_rows(write_job):
-    # NFPA 70 Table 250.66 (rows confirmed in one secondary copy, M): 4/0 Cu is "over 3/0
+    # NFPA 70 Table 250.66 (rows read in one secondary copy only): 4/0 Cu is "over 3/0
     # through 350" → 2 AWG Cu / 1/0 Al; two sets of 4/0 (423.2 kcmil) → "over 350 through
     # 600" → 1/0 Cu / 3/0 Al.
     one = _find(_run(write_job), "T1", "grounding electrode")[0]
@@ -112,7 +112,7 @@ def test_grounding_electrode_conductor_rows(write_job):
 
 
 def test_gec_table_cells():
-    # NFPA 70 Table 250.66 (secondary copy, M): Cu 2 AWG or smaller → 8 Cu / 6 Al;
+    # NFPA 70 Table 250.66 (read in one secondary copy only): Cu 2 AWG or smaller → 8 Cu / 6 Al;
     # over 600 through 1100 kcmil Cu → 2/0 Cu / 4/0 Al; over 1100 → 3/0 Cu / 250 Al.
     t = load_table("grounding_electrode_conductor").data.set_index("row")
     assert (t.loc[1, "gec_cu"], t.loc[1, "gec_al"]) == ("8 AWG", "6 AWG")

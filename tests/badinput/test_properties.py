@@ -9,9 +9,10 @@ module runs in well under 30 s on a shared two-core machine.
 Monotonic laws checked (limiting-case identities, no invented oracle):
 
 * three-phase fault current at a panel falls as its feeder gets longer (more series
-  impedance, Ohm's law; REFERENCES.md point-to-point M = 1/(1 + f) with f ∝ length);
+  impedance, Ohm's law; point-to-point M = 1/(1 + f) with f ∝ length, Cooper Bussmann
+  Electrical Plan Review 2005, Part II);
 * voltage drop at a panel rises with feeder length and with load
-  (VD = I(R cos θ + X sin θ), R and X ∝ length, I ∝ load; REFERENCES.md);
+  (VD = I(R cos θ + X sin θ), R and X ∝ length, I ∝ load; IEEE Std 141-1993 ch. 3);
 * table ampacity rises with conductor size (NFPA 70 Table 310.16 columns increase
   down the table);
 * random bytes as a job file give exit 2 and a message, never a traceback.
@@ -213,7 +214,7 @@ def test_fault_at_zero_length_limit_equals_upstream(tmp_path):
 def test_ampacity_rises_with_size(mat, ins, amb):
     if amb >= ins - 1:
         return
-    # 12 AWG (the smallest Al row) to 600 kcmil (the rows REFERENCES.md rates H)
+    # 12 AWG (the smallest Al row) to 600 kcmil (NFPA 70-2023 Table 310.16 rows held as read)
     order = list(AWG_KCMIL_ORDER)
     sizes = order[order.index("12 AWG") : order.index("600 kcmil") + 1]
     amps = np.array(

@@ -75,7 +75,7 @@ def test_chain_matches_vector_kernel():
 
 
 def test_termination_rule():
-    # NFPA 70-2023 110.14(C)(1) (H)
+    # NFPA 70-2023 110.14(C)(1)
     assert termination_c_for(100.0, "3/0 AWG") == 60.0
     assert termination_c_for(150.0, "1 AWG") == 60.0
     assert termination_c_for(150.0, "1/0 AWG") == 75.0

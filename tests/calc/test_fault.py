@@ -14,7 +14,7 @@ from feedcheck.calc import fault_lg as G
 from feedcheck.calc.transformer import transformer_impedance_ohm
 
 ZT = transformer_impedance_ohm(75e3, 208.0, 5.1, 3.5)
-# NFPA 70-2023 Ch. 9 Table 9, Cu in steel conduit, Ω/kft (REFERENCES.md, H): size: (R, XL)
+# NFPA 70-2023 Ch. 9 Table 9, Cu in steel conduit, Ω/kft: size: (R, XL)
 TABLE9_CU_STEEL = {"4": (0.31, 0.060), "1/0": (0.12, 0.055), "4/0": (0.063, 0.051),
                    "250": (0.054, 0.052), "500": (0.029, 0.048)}
 

@@ -1,4 +1,7 @@
-"""Conductor protection and equipment grounding conductor (NFPA 70-2023, values REFERENCES.md H)."""
+"""Conductor protection and equipment grounding conductor.
+
+NFPA 70-2023 Table 240.6(A), 240.4(D), Table 250.122 and Ch. 9 Table 8 (areas).
+"""
 
 import numpy as np
 import pytest
@@ -13,7 +16,7 @@ from feedcheck.calc.protection import (
 )
 from feedcheck.calc.sizes import SIZES
 
-# NFPA 70-2023 Table 250.122, device A -> (Cu, Al) (H)
+# NFPA 70-2023 Table 250.122, device A -> (Cu, Al)
 T250_122 = {15: ("14 AWG", "12 AWG"), 20: ("12 AWG", "10 AWG"), 60: ("10 AWG", "8 AWG"),
             100: ("8 AWG", "6 AWG"), 200: ("6 AWG", "4 AWG"), 300: ("4 AWG", "2 AWG"),
             400: ("3 AWG", "1 AWG"), 500: ("2 AWG", "1/0 AWG"), 600: ("1 AWG", "2/0 AWG"),
@@ -27,7 +30,7 @@ T250_122 = {15: ("14 AWG", "12 AWG"), 20: ("12 AWG", "10 AWG"), 60: ("10 AWG", "
 @pytest.mark.parametrize("device", list(T250_122))
 def test_egc_table_rows(device):
     cu, al = T250_122[device]
-    assert egc_size(float(device), "cu").size == cu  # NFPA 70-2023 Table 250.122, H
+    assert egc_size(float(device), "cu").size == cu  # NFPA 70-2023 Table 250.122
     assert egc_size(float(device), "al").size == al
 
 
@@ -39,7 +42,7 @@ def test_egc_proportional_increase():
     """250.122(B): 200 A device, phase upsized 3/0 → 350 kcmil Cu for voltage drop.
 
     Hand: 6 AWG (26.24 kcmil) × 350/167.8 = 54.73 kcmil → 2 AWG (66.36 kcmil) is the smallest
-    at least that (areas NFPA 70 Ch. 9 Table 8, H)."""
+    at least that (areas NFPA 70 Ch. 9 Table 8)."""
     r = egc_size(200.0, "cu", phase_size="350 kcmil", phase_min_size="3/0 AWG")
     ratio = 350_000 / 167_800  # areas, NFPA 70 Ch. 9 Table 8
     assert r.ratio == pytest.approx(ratio, rel=2e-3)
@@ -65,7 +68,7 @@ def test_egc_bad_input():
 
 
 def test_next_standard_rating():
-    # NFPA 70-2023 Table 240.6(A) (H)
+    # NFPA 70-2023 Table 240.6(A)
     got = next_standard_rating_a(np.array([14.0, 15.0, 101.0, 226.0, 601.0, 801.0]))
     assert got.tolist() == [15.0, 15.0, 110.0, 250.0, 700.0, 1000.0]
     with pytest.raises(ValueError, match="largest standard"):
@@ -84,7 +87,7 @@ def test_next_size_up_and_over_800():
                                             ("10 AWG", "cu", 30), ("12 AWG", "al", 15),
                                             ("10 AWG", "al", 25)])
 def test_small_conductor_limits(size, mat, limit):
-    # NFPA 70-2023 240.4(D) (H): even a large corrected ampacity does not raise the limit
+    # NFPA 70-2023 240.4(D): even a large corrected ampacity does not raise the limit
     assert max_device_a(60.0, size, mat) == limit
     c = conductor_protection(float(limit) + 5, 60.0, size, mat)
     assert not c.ok and c.rule_id.startswith("nec-240.4(D)")
@@ -98,6 +101,6 @@ def test_vectorised_protection():
 
 
 def test_device_for_load():
-    # 215.3: 1.25 × 120 + 40 = 190 A -> 200 A standard (Table 240.6(A), H)
+    # 215.3: 1.25 × 120 + 40 = 190 A -> 200 A standard (Table 240.6(A))
     assert device_min_for_load_a(120.0, 40.0) == 190.0
     assert next_standard_rating_a(device_min_for_load_a(120.0, 40.0)) == 200.0

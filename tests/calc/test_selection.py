@@ -9,7 +9,7 @@ from feedcheck.calc.selection import select_conductor
 
 def test_ampacity_governs_plain_feeder():
     """120 A continuous, Cu 75 °C, 30 °C: 1.25 × 120 = 150 A → 1/0 Cu (150 A, NFPA 70
-    T310.16 75 °C, H); device 150 A; protection also 1/0."""
+    NFPA 70-2023 Table 310.16, 75 °C); device 150 A; protection also 1/0."""
     s = select_conductor(120.0, 0.0, "cu", 75.0)
     assert s.size == "1/0 AWG" and s.device_a == 150.0
     assert dict(s.minimum_by_criterion)["ampacity"] == "1/0 AWG"
@@ -31,7 +31,7 @@ def test_voltage_drop_governs_long_run():
     assert s.governing == "voltage drop"
     assert s.vdrop_pct <= 3.0
     # one size smaller fails: √3·I·L·(R cosθ + X sinθ) > 3 % of 208 V (approximate form,
-    # REFERENCES.md; R, X from NFPA 70 Ch. 9 Table 9 through the conductor kernel)
+    # IEEE Std 141-1993 ch. 3; R, X from NFPA 70-2023 Ch. 9 Table 9 through the conductor kernel)
     from feedcheck.calc.conductor import ac_impedance_ohm_per_m
     from feedcheck.calc.sizes import AWG_KCMIL_ORDER
 
@@ -52,7 +52,7 @@ def test_withstand_governs_high_fault_slow_device():
 def test_parallel_sets_skip_small_sizes():
     s = select_conductor(400.0, 0.0, "cu", 75.0, sets=2)
     assert s.sets == 2
-    # 2 × 250 kcmil = 510 A ≥ 500 A at 75 °C (T310.16, H); device 500 A
+    # 2 × 250 kcmil = 510 A ≥ 500 A at 75 °C (NFPA 70-2023 Table 310.16); device 500 A
     assert s.size == "250 kcmil" and s.device_a == 500.0
 
 

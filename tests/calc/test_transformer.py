@@ -12,12 +12,14 @@ from feedcheck.tables import load_table
 @pytest.mark.parametrize(
     ("kva", "volts", "phases", "amps"),
     [
-        # textbook formula I = S/(√3·V) (REFERENCES.md "Rated current", H); issue's check values
+        # I = S/(√3·V_LL) (IEEE Std 141-1993 ch. 4); by hand:
+        # 75,000/(√3·208) = 208.2, 75,000/(√3·480) = 90.2
         (75, 208, 3, 208.2),
         (75, 480, 3, 90.2),
-        # I = S/V single-phase (REFERENCES.md, H), by hand: 25,000/240 = 104.17
+        # I = S/V single-phase (IEEE Std 141-1993 ch. 4), by hand: 25,000/240 = 104.17
         (25, 240, 1, 104.2),
-        # 300 kVA at 208 V: 833 A (REFERENCES.md point-to-point example, H)
+        # 300 kVA at 208 V: 833 A (Cooper Bussmann, Electrical Plan Review, 2005,
+        # Part II point-to-point example, Fault #1 step 1)
         (300, 208, 3, 833),
     ],
 )

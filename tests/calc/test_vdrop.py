@@ -195,7 +195,7 @@ def test_vector_equals_scalar():
 
 # --- smallest conductor ---------------------------------------------------------------
 
-# NFPA 70-2023 Ch. 9 Table 9, Cu in steel conduit, Ω per 1000 ft (H):
+# NFPA 70-2023 Ch. 9 Table 9, Cu in steel conduit, Ω per 1000 ft:
 # 6, 4, 2, 1/0, 2/0, 3/0, 4/0, 250 kcmil
 R_KFT = np.array([0.49, 0.31, 0.20, 0.12, 0.10, 0.079, 0.063, 0.054])
 X_KFT = np.array([0.064, 0.060, 0.057, 0.055, 0.054, 0.052, 0.051, 0.052])

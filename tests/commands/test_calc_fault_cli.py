@@ -26,7 +26,8 @@ def _figure(text, label, section):
 
 def test_infinite_source_terminals_match_formula():
     """At the terminals with an infinite primary: I·100/(%Z·(1 − 0.075)) for the maximum
-    (REFERENCES.md, H; IEEE C57.12.00 tolerance) and I·100/(%Z·1.075) for the minimum."""
+    (IEEE Std 141-1993 ch. 4; IEEE Std C57.12.00-2021 cl. 9 tolerance) and I·100/(%Z·1.075)
+    for the minimum."""
     res = _run(BASE)
     assert res.exit_code == 0, res.output
     rated = 75e3 / (math.sqrt(3) * 208.0)
@@ -56,9 +57,9 @@ def test_split_phase_secondary():
                 "2.0%", "--x-r", "1.6", "--tolerance", "0%"])
     assert res.exit_code == 0, res.output
     i_ll = _figure(res.output, "line-to-line maximum", "secondary terminals")
-    assert i_ll == pytest.approx(50e3 / 240 * 100 / 2.0, abs=0.6)  # REFERENCES.md, H
+    assert i_ll == pytest.approx(50e3 / 240 * 100 / 2.0, abs=0.6)  # IEEE Std 141-1993 ch. 4
     assert _figure(res.output, "line-to-neutral max", "secondary terminals") == pytest.approx(
-        1.5 * i_ll, abs=1)  # common practice multiplier, REFERENCES.md
+        1.5 * i_ll, abs=1)  # common practice multiplier, no source
 
 
 def test_help_has_example_and_caution():

@@ -43,7 +43,7 @@ def figures(output: str) -> dict[str, tuple[float, float]]:
 
 
 def test_table9_hand_value_three_phase():
-    """250 kcmil Cu in steel, NFPA 70-2023 Ch. 9 Table 9 (H): R 0.054, XL 0.052 Ω/kft at
+    """250 kcmil Cu in steel, NFPA 70-2023 Ch. 9 Table 9: R 0.054, XL 0.052 Ω/kft at
     75 °C. 200 A, pf 0.85, 300 ft, 480 V three-phase: √3·200·(0.054·0.85 + 0.052·0.5268)·0.3."""
     hand = math.sqrt(3) * 200 * (0.054 * 0.85 + 0.052 * math.sqrt(1 - 0.85**2)) * 0.300
     res = run(
@@ -72,7 +72,7 @@ def test_table9_hand_value_three_phase():
 def test_example_from_help_with_max_length_and_units():
     res = run([*BASE, "--limit", "3%", "--max-length"])
     assert res.exit_code == 0, res.output
-    # 3/0 AWG Cu in steel, NFPA 70 Ch. 9 Table 9 (H): R 0.079, XL 0.052 Ω/kft
+    # 3/0 AWG Cu in steel, NFPA 70 Ch. 9 Table 9: R 0.079, XL 0.052 Ω/kft
     ze = 0.079 * 0.9 + 0.052 * math.sqrt(1 - 0.81)
     hand = math.sqrt(3) * 150 * ze * 0.200
     assert figures(res.output)["approx"][0] == pytest.approx(hand, abs=0.0005 + 1e-3 * hand)
@@ -115,7 +115,7 @@ def test_single_phase_circuits_use_their_nominal():
     )
     assert res.exit_code == 0, res.output
     assert "circuit 1ph3w" in res.output and "nominal 240 V" in res.output
-    # 8 AWG Cu, NFPA 70 Ch. 9 Table 9 (H): R 0.78 Ω/kft; pf 1 → 2·40·0.78·0.1 = 6.24 V
+    # 8 AWG Cu, NFPA 70 Ch. 9 Table 9: R 0.78 Ω/kft; pf 1 → 2·40·0.78·0.1 = 6.24 V
     assert figures(res.output)["approx"][0] == pytest.approx(6.24, abs=0.01)
     ln = run(
         [
@@ -134,7 +134,7 @@ def test_single_phase_circuits_use_their_nominal():
         ]
     )
     assert ln.exit_code == 0 and "nominal 120 V" in ln.output
-    # 12 AWG Cu, Table 9 (H): R 2.0 Ω/kft → 2·16·2.0·0.1 = 6.4 V = 5.33 % of 120 V
+    # 12 AWG Cu, Table 9: R 2.0 Ω/kft → 2·16·2.0·0.1 = 6.4 V = 5.33 % of 120 V
     assert figures(ln.output)["approx"] == pytest.approx((6.4, 5.33), abs=0.01)
 
 

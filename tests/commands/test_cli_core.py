@@ -87,7 +87,7 @@ def test_tables_lists_sources():
 def test_calc_rated_current():
     r = _run("calc", "rated-current", "--rating", "75kVA", "--voltage", "208V")
     assert r.exit_code == 0
-    assert r.stdout.startswith("208.2 A")  # S/(√3·V), REFERENCES.md rated-current check value
+    assert r.stdout.startswith("208.2 A")  # S/(√3·V), IEEE Std 141-1993 ch. 4
 
 
 def test_calc_rated_current_bad_unit_exits_2():

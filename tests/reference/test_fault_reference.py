@@ -19,23 +19,23 @@ from feedcheck.calc.transformer import rated_current_a, transformer_impedance_oh
     (75.0, 208.0, 5.1, 3.5), (300.0, 208.0, 2.0, 4.0), (500.0, 480.0, 5.75, 4.8),
     (15.0, 208.0, 3.2, 1.0)])
 def test_infinite_bus_three_phase(kva, v, z_pct, x_r):
-    """Infinite-bus fault I·100/%Z (REFERENCES.md "Fault current", H; IEEE Std 141 ch. 4):
+    """Infinite-bus fault I·100/%Z (IEEE Std 141-1993 ch. 4):
     the ohmic method with zero source impedance must reproduce it for any X/R."""
-    i_rated = kva * 1e3 / (math.sqrt(3) * v)  # I = S/(√3·V_LL), REFERENCES.md, H
+    i_rated = kva * 1e3 / (math.sqrt(3) * v)  # I = S/(√3·V_LL), IEEE Std 141-1993 ch. 4
     zt = transformer_impedance_ohm(kva * 1e3, v, z_pct, x_r)
     got = F.fault_current_3ph_a(v, F.source_impedance_ohm(v, math.inf, 6.0) + zt)
     assert got == pytest.approx(i_rated * 100.0 / z_pct, rel=1e-12)
 
 
 def test_infinite_bus_single_phase():
-    """Single-phase: I = S/V and infinite-bus I·100/%Z (REFERENCES.md, H)."""
+    """Single-phase: I = S/V and infinite-bus I·100/%Z (IEEE Std 141-1993 ch. 4)."""
     zt = transformer_impedance_ohm(25e3, 240.0, 2.4, 1.2, phases=1)
     got = F.fault_current_1ph_a(240.0, zt)
     assert got == pytest.approx(25e3 / 240.0 * 100.0 / 2.4, rel=1e-12)
 
 
 def test_point_to_point_published_example():
-    """Published point-to-point example (REFERENCES.md "Published point-to-point example", H):
+    """Cooper Bussmann, Electrical Plan Review (2005), Part II point-to-point example, Fault #1:
     300 kVA, 2 %Z, 208Y/120 V, infinite primary: rated 833 A; multiplier 100/(0.9×2) = 55.55;
     46,273 A at the secondary; 20 ft of 2 sets 500 kcmil Cu in steel, C = 22,185:
     f = 0.174, M = 0.852, 39,425 A. C is passed directly (the publisher's own data)."""
@@ -51,8 +51,9 @@ def test_point_to_point_published_example():
 
 
 def test_conductor_constant_from_table9():
-    """C = 1000/|Z per 1000 ft| (REFERENCES.md point-to-point, H) with NFPA 70-2023 Ch. 9
-    Table 9, 250 kcmil Cu in steel conduit: R 0.054, XL 0.052 Ω/kft (H)."""
+    """C = 1000/|Z per 1000 ft| (conductor constant of the point-to-point method, Cooper
+    Bussmann, Electrical Plan Review, 2005, Part II) with NFPA 70-2023 Ch. 9 Table 9,
+    250 kcmil Cu in steel: R 0.054, XL 0.052 Ω/kft."""
     c = F.conductor_constant_a_ft_per_v(0.054 / 304.8, 0.052 / 304.8)
     assert c == pytest.approx(1000.0 / math.hypot(0.054, 0.052), rel=1e-12)
     assert c == pytest.approx(13_339, abs=1)
@@ -81,7 +82,7 @@ def test_line_to_ground_run_is_loop_form():
 
 def test_kappa_iec60909_formula_and_limits():
     """IEC 60909-0:2016 8.1: κ = 1.02 + 0.98·e^(−3R/X); κ → 2 as R/X → 0 and → 1.02 as
-    R/X grows (REFERENCES.md, H)."""
+    R/X grows."""
     for r_x in (0.05, 0.1, 0.3, 0.5, 1.0):
         assert F.peak_factor_kappa(1.0 / r_x) == pytest.approx(
             1.02 + 0.98 * math.exp(-3.0 * r_x), rel=1e-12)
@@ -117,8 +118,9 @@ def test_dc_offset_simulated():
 
 
 def test_assumption_table_cells():
-    """tables/fault_assumptions.csv spot-check: IEEE C57.12.00 ±7.5 % (REFERENCES.md, H);
-    IEC 60909-0 Table 1 c_max 1.05/1.10, c_min 0.95 (REFERENCES.md, H); 4 × FLC motor
+    """tables/fault_assumptions.csv spot-check: IEEE Std C57.12.00-2021 cl. 9 ±7.5 %; ±10 %
+    for dry-type (common practice, no source); IEC 60909-0:2016 Table 1 c_max 1.05/1.10,
+    c_min 0.95; 4 × FLC motor
     multiple (# common practice, no source)."""
     from feedcheck.tables import rule
 
@@ -133,8 +135,8 @@ def test_assumption_table_cells():
 
 def test_split_phase_terminals():
     """120/240 V centre-tapped secondary at the terminals: line-to-line I = V_LL/|Z_T|
-    = I_rated·100/%Z (REFERENCES.md, H); line-to-neutral ≈ 1.5 × line-to-line
-    (REFERENCES.md, # common practice)."""
+    = I_rated·100/%Z (IEEE Std 141-1993 ch. 4); line-to-neutral ≈ 1.5 × line-to-line
+    (# common practice, no source)."""
     zt = transformer_impedance_ohm(50e3, 240.0, 2.0, 1.6, phases=1)
     zll, zln = F.split_phase_source_ohm(zt, 1.5)
     i_ll = F.fault_current_1ph_a(240.0, zll)
@@ -143,7 +145,8 @@ def test_split_phase_terminals():
 
 
 def test_ptp_line_to_neutral_matches_ohmic_for_resistive_parts():
-    """The p-t-p line-to-neutral f = 2·L·I/(C·n·V_LN) (REFERENCES.md, H) equals the ohmic
+    """The p-t-p line-to-neutral f = 2·L·I/(C·n·V_LN) (Cooper Bussmann,
+    Electrical Plan Review, 2005, Part II) equals the ohmic
     loop Z_LN + 2·Z_run when source and run impedances share one angle (magnitudes add)."""
     zln = 0.004 * (1 + 1j)
     z_per_m = 0.6e-3 * (1 + 1j)

@@ -78,7 +78,7 @@ def _node(results, node_id):
 
 
 def test_infinite_bus_secondary_fault(write_job):
-    # Infinite-bus formula I_sc = I_rated · 100 / %Z (REFERENCES.md, H):
+    # Infinite-bus formula I_sc = I_rated · 100 / %Z (IEEE Std 141-1993 ch. 4):
     # 300 kVA at 208 V: I = 300,000/(√3·208) = 832.7 A; /0.02 = 41,637 A
     res = _job(write_job)
     rated = 300e3 / (math.sqrt(3) * 208)
@@ -86,7 +86,8 @@ def test_infinite_bus_secondary_fault(write_job):
 
 
 def test_published_point_to_point_starting_figure(write_job):
-    # Published point-to-point example (REFERENCES.md, H): 300 kVA, 2 %Z, 208Y/120 V,
+    # Cooper Bussmann, Electrical Plan Review (2005), Part II point-to-point example,
+    # Fault #1: 300 kVA, 2 %Z, 208Y/120 V,
     # infinite primary, %Z × 0.9 (a 10 % impedance tolerance) → 46,273 A at the secondary.
     res = _job(write_job, tol=10)
     assert _node(res, "T")["fault_max_a"] == pytest.approx(46_273, rel=5e-4)
@@ -94,7 +95,8 @@ def test_published_point_to_point_starting_figure(write_job):
 
 
 def test_pandapower_agrees_on_the_job_walk(write_job):
-    """IEC 60909 via pandapower (REFERENCES.md conversion notes) for the same network as
+    """IEC 60909-0:2016 via pandapower (converted as in test_fault_pandapower.py) for the
+    same network as
     the job: 480 V source 30 kA X/R 6, 75 kVA 5.1 % X/R 3.5, 95 ft of 4/0 Cu in steel."""
     pytest.importorskip("pandapower")
     from feedcheck.calc.conductor import ac_impedance_ohm_per_m
@@ -203,7 +205,7 @@ load = "30 kVA"
 
 
 def test_fault_at_the_far_end_of_a_primary_feeder(write_job):
-    # NFPA 70 Ch. 9 Table 9 (H): 4/0 Cu in steel conduit R = 0.063, XL = 0.051 Ω/kft at
+    # NFPA 70 Ch. 9 Table 9: 4/0 Cu in steel conduit R = 0.063, XL = 0.051 Ω/kft at
     # 75 °C; Table 8 note: R20 = R75·[1 + 0.00323·(20 − 75)]. Infinite source, 200 ft:
     # I = (480/√3) / |0.2·(R20 + jXL)| (IEEE Std 141 ch. 4 ohmic method).
     res = run_job(write_job(PRIMARY_RUN_JOB))
