@@ -45,8 +45,7 @@ def harbor(tmp_path_factory, request):
 def test_key_figures_in_text(harbor):
     text = " ".join(harbor.pages)
     # IEEE Std 141-1993 ch. 4: I = S / (√3 · V_LL); 75 kVA at 208 V → 208.2 A, at 480 V → 90.2 A
-    assert f"{75_000 / (math.sqrt(3) * 208):.1f}" == "208.2"
-    assert "208.2" in text
+    assert f"{75_000 / (math.sqrt(3) * 208):.1f}" in text
     assert f"{75_000 / (math.sqrt(3) * 480):.1f}" in text
     for word in (
         "Harbor Street community kitchen",
