@@ -39,8 +39,9 @@ def test_drop_doubles_with_length(check_json):
 
 @pytest.mark.parametrize(("length_ft", "status"), [(150, "ok"), (600, "warn")])
 def test_feeder_limit_three_percent(check_json, length_ft, status):
-    """NFPA 70-2023 215.2(A)(1) Informational Note No. 2: 3 % for a feeder is recommended,
-    not required, so exceeding it is a warning. 600 ft at 60 kVA, PF 0.85 is 5.5 % by
+    """NFPA 70 215.2(A)(1) Informational Note No. 2 (note number from memory; it moves
+    between editions): 3 % for a feeder is recommended, not required, so exceeding it is a
+    warning. 600 ft at 60 kVA, PF 0.85 is 5.5 % by
     hand with Table 9."""
     doc = check_json(job_text(length=f"{length_ft} ft", load_kva=60))
     f = finding(doc, "R", "feeder voltage drop")
