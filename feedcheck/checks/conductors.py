@@ -315,6 +315,19 @@ def _check_withstand(ctx, run) -> None:
     )
 
 
+def _secondary_need_text(
+    primary_a: float, ratio: float, divisor: float, by_ratio: float, end_a, label: str
+) -> str:
+    """How the 240.21(C) required ampacity was found, with the figures actually used."""
+    part = (
+        f"primary device {primary_a:g} A × voltage ratio {ratio:.3f} ÷ {divisor:g}"
+        f" = {by_ratio:.1f} A"
+    )
+    if label == "10 ft" and end_a is not None:
+        return f"the larger of {part} and the end device {end_a:g} A"
+    return part
+
+
 def _check_secondary_arrangement(ctx, run, ampacity: float) -> None:
     """Transformer secondary conductors without a device at the transformer: the 10 ft
     and 25 ft arrangements of 240.21(C)(2) and (C)(6)."""
@@ -337,10 +350,14 @@ def _check_secondary_arrangement(ctx, run, ampacity: float) -> None:
     panel = next((p for p in ctx.job.panels if p.id == run.to_id), None)
     end_device = panel.main_device_a if panel else None
     if run.length_m <= float(ten["limit"]) + 1e-9:
-        need = max(t.primary_device_a * ratio / 10.0, end_device or 0.0)
+        divisor = 10.0
+        by_ratio = t.primary_device_a * ratio / divisor
+        need = max(by_ratio, end_device or 0.0)
         rid, label = "xfmr-secondary-10ft", "10 ft"
     elif run.length_m <= float(tw5["limit"]) + 1e-9:
-        need = t.primary_device_a * ratio / 3.0
+        divisor = 3.0
+        by_ratio = t.primary_device_a * ratio / divisor
+        need = by_ratio
         rid, label = "xfmr-secondary-25ft", "25 ft"
     else:
         ctx.add(
@@ -364,8 +381,8 @@ def _check_secondary_arrangement(ctx, run, ampacity: float) -> None:
         "A",
         "ok" if ok else "fail",
         rid,
-        f"ampacity {ampacity:.0f} A vs required {need:.0f} A "
-        f"(primary device {t.primary_device_a:g} A × {ratio:.2f} ratio)",
+        f"ampacity {ampacity:.0f} A vs required {need:.0f} A: "
+        + _secondary_need_text(t.primary_device_a, ratio, divisor, by_ratio, end_device, label),
     )
     if end_device is None:
         ctx.add(
