@@ -36,6 +36,7 @@ class Context:
     run_values: dict[str, dict[str, float]] = field(default_factory=dict)
     assumptions: list[str] = field(default_factory=list)
     methods: list[tuple[str, str]] = field(default_factory=list)
+    calc_date: str | None = None  # ISO date of the calculation, handed in by the command
 
     def add(
         self,
@@ -87,7 +88,9 @@ def _f(v):
         return v
 
 
-def build_context(job: Job, panel_loads: dict[str, Load] | None = None) -> Context:
+def build_context(
+    job: Job, panel_loads: dict[str, Load] | None = None, calc_date: str | None = None
+) -> Context:
     """Tree plus demand loads rolled up from the panels (own load + downstream)."""
     tree = build_tree(job)
     own: dict[str, Load] = {n: Load() for n in tree.order}
@@ -103,4 +106,4 @@ def build_context(job: Job, panel_loads: dict[str, Load] | None = None) -> Conte
             loads[parent].va += loads[n].va
             loads[parent].continuous_va += loads[n].continuous_va
             loads[parent].w += loads[n].w
-    return Context(job, tree, loads)
+    return Context(job, tree, loads, calc_date=calc_date)
