@@ -5,7 +5,6 @@ limits as rules; the smallest conductor that would pass; motor starting dip."""
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
 
 import numpy as np
 
@@ -15,51 +14,16 @@ from ..calc import vdrop as vk
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
 from ..tables import load_table
 from .context import Context
+from .drop_rules import DropLimit, job_drop_limits
 from .impedance import SQRT3, branch_impedances, fault_assumptions, source_impedance
 from .transformer import transformer_x_r
 
 OPERATING_C = 75.0  # conductor temperature for steady-state drop (75 °C terminations)
 
 
-@dataclass(frozen=True)
-class DropLimit:
-    scope: str
-    max_pct: float
-    status: str
-    rule_id: str
-    clause: str
-
-
 def drop_limits(ctx: Context) -> dict[str, DropLimit]:
     """Feeder, branch and total limits for this job (rule rows, or the job's own)."""
-    t = load_table("voltage_drop_limits").data
-    opts = ctx.job.options
-    mandatory = opts.voltage_drop == "mandatory"
-    wanted = {
-        "feeder": "vd-energy-feeder-2" if mandatory else "vd-nec-feeder",
-        "branch": "vd-energy-branch-3" if mandatory else "vd-nec-branch",
-        "total": "vd-energy-total-5" if mandatory else "vd-nec-total",
-    }
-    out = {}
-    for scope, rid in wanted.items():
-        row = t[t["rule_id"] == rid].iloc[0]
-        given = {
-            "feeder": opts.feeder_drop_pct,
-            "branch": opts.branch_drop_pct,
-            "total": opts.total_drop_pct,
-        }[scope]
-        status = "fail" if mandatory else "warn"
-        if given is not None:
-            out[scope] = DropLimit(
-                scope,
-                given,
-                status,
-                f"vd-job-{scope}",
-                f"limit set in the job's [options] ({opts.voltage_drop})",
-            )
-        else:
-            out[scope] = DropLimit(scope, float(row["max_pct"]), status, rid, str(row["clause"]))
-    return out
+    return job_drop_limits(ctx.job)
 
 
 def check_voltage_drop(ctx: Context) -> None:
