@@ -129,7 +129,7 @@ def _report_partial(done, files, why: str) -> None:
 def _from_files(files, system, feeder_drop, occupancy, bus_a, main_a, done):
     from ..errors import InputError
     from ..schedule import read_schedule
-    from ..schedule_checks import check_schedule
+    from ..checks.schedules import check_schedule
 
     results, problems = [], []
 
@@ -173,7 +173,7 @@ def _from_job(job_file, files, occupancy):
         if problems:
             raise InputError(problems)
     if occupancy != "other":
-        from ..schedule_checks import check_schedule
+        from ..checks.schedules import check_schedule
 
         for pid in wanted:
             old = res.schedules[pid]
