@@ -130,9 +130,9 @@ def _report_partial(done, files, why: str) -> None:
 
 
 def _from_files(files, system, feeder_drop, occupancy, bus_a, main_a, done):
+    from ..checks.schedules import check_schedule
     from ..errors import InputError
     from ..schedule import read_schedule
-    from ..checks.schedules import check_schedule
 
     results, problems = [], []
 
