@@ -10,8 +10,11 @@ from click.testing import CliRunner
 from feedcheck import CAUTION
 from feedcheck.commands.calc_fault import fault_command
 
-BASE = ["--kva", "75kVA", "--primary", "480 V delta", "--secondary", "208Y/120 V", "--z", "5.1%",
-        "--x-r", "3.5"]
+BASE = ["--rating", "75kVA", "--primary", "480 V delta", "--secondary", "208Y/120 V",
+        "--impedance", "5.1%", "--x-r", "3.5"]
+# the former spellings --kva and --z keep working (hidden aliases)
+BASE_OLD = ["--kva", "75kVA", "--primary", "480 V delta", "--secondary", "208Y/120 V", "--z",
+            "5.1%", "--x-r", "3.5"]
 
 
 def _run(args):
@@ -52,8 +55,8 @@ def test_full_run_prints_every_figure():
 
 
 def test_split_phase_secondary():
-    res = _run(["--kva", "50kVA", "--primary", "480 V", "--secondary", "120/240 V", "--z",
-                "2.0%", "--x-r", "1.6", "--tolerance", "0%"])
+    res = _run(["--rating", "50kVA", "--primary", "480 V", "--secondary", "120/240 V",
+                "--impedance", "2.0%", "--x-r", "1.6", "--tolerance", "0%"])
     assert res.exit_code == 0, res.output
     i_ll = _figure(res.output, "line-to-line maximum", "secondary terminals")
     assert i_ll == pytest.approx(50e3 / 240 * 100 / 2.0, abs=0.6)  # REFERENCES.md, H
@@ -69,7 +72,7 @@ def test_help_has_example_and_caution():
 
 @pytest.mark.parametrize(("extra", "code", "msg"), [
     (["--length", "95 ft"], 2, "--length and --size"),
-    (["--z", "abc"], 2, "--z"),
+    (["--impedance", "abc"], 2, "--impedance"),
     (["--tolerance", "-5%"], 2, "tolerance_pct"),
     (["--source-fault", "-3kA"], 2, "greater than zero"),
     (["--ground", "4 AWG"], 2, "--ground needs a run"),
@@ -85,3 +88,33 @@ def test_registered_in_cli():
 
     res = CliRunner().invoke(main, ["calc", "fault", *BASE])
     assert res.exit_code == 0, res.output
+
+
+def test_former_spellings_give_the_same_figures():
+    new = _run([*BASE, "--length", "95 ft", "--size", "4/0 AWG", "--ground", "4 AWG"])
+    old = _run([*BASE_OLD, "--length", "95 ft", "--size", "4/0 AWG", "--ground", "4 AWG"])
+    assert new.exit_code == old.exit_code == 0, old.output
+    assert new.output == old.output
+
+
+def test_former_spellings_are_hidden_and_named_in_their_errors():
+    help_text = _run(["--help"]).output
+    assert "--rating" in help_text and "--impedance" in help_text
+    assert "--kva" not in help_text.replace("--rating 75kVA", "") and "--z " not in help_text
+    bad = _run([*BASE_OLD[:6], "--z", "abc"])
+    assert bad.exit_code == 2 and "'--z'" in bad.output
+
+
+@pytest.mark.parametrize(
+    ("args", "msg"),
+    [
+        ([*BASE, "--kva", "75kVA"], "give --rating once (--kva is its former spelling)"),
+        ([*BASE, "--z", "5%"], "give --impedance once (--z is its former spelling)"),
+        (BASE[2:], "Missing option '--rating'"),
+        ([*BASE[:6], "--x-r", "3.5"], "Missing option '--impedance'"),
+    ],
+)
+def test_both_or_neither_spelling_is_a_usage_error(args, msg):
+    res = _run(args)
+    assert res.exit_code == 2
+    assert msg in res.output
