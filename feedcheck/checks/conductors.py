@@ -10,8 +10,10 @@ from ..calc import ampacity as ak
 from ..calc import protection as pk
 from ..calc import selection as sk
 from ..calc import withstand as wk
+from ..calc.power import current_from_apparent_power_a
 from ..calc.sizes import SIZES
 from ..job import Run
+from .compare import passes
 from .context import Context
 
 SQRT3 = math.sqrt(3.0)
@@ -21,9 +23,8 @@ def _loads(ctx: Context, run: Run) -> tuple[float, float, float]:
     """Continuous and noncontinuous load current on a run, and its power factor."""
     v = ctx.tree.voltage_of[run.from_id]
     load = ctx.loads[run.to_id]
-    k = SQRT3 if v.phases == 3 else 1.0
-    cont = load.continuous_va / (k * v.line_v)
-    non = (load.va - load.continuous_va) / (k * v.line_v)
+    cont = current_from_apparent_power_a(load.continuous_va, v.line_v, v.phases)
+    non = current_from_apparent_power_a(load.va - load.continuous_va, v.line_v, v.phases)
     return cont, non, load.pf
 
 
@@ -201,14 +202,14 @@ def check_run(ctx: Context, run: Run) -> None:
     )
     if device is not None:
         need = float(pk.device_min_for_load_a(cont, non))
-        ok = device >= need - 1e-9
-        ctx.add(
+        ok = passes(device, need, "at_least")
+        ctx.compare(
             run.id,
             "device vs load",
             device,
             need,
             "A",
-            "ok" if ok else "fail",
+            "at_least",
             "run-device-load",
             f"{device:g} A device for 125 % × {cont:.1f} + {non:.1f} A"
             f" = {need:.1f} A" + ("" if ok else "; a larger device (and conductors) needed"),
@@ -372,14 +373,13 @@ def _check_secondary_arrangement(ctx, run, ampacity: float) -> None:
             "the transformer: more than 25 ft needs a device at the transformer",
         )
         return
-    ok = ampacity >= need - 1e-9
-    ctx.add(
+    ctx.compare(
         run.id,
         f"secondary conductors ({label} arrangement)",
         ampacity,
         need,
         "A",
-        "ok" if ok else "fail",
+        "at_least",
         rid,
         f"ampacity {ampacity:.0f} A vs required {need:.0f} A: "
         + _secondary_need_text(t.primary_device_a, ratio, divisor, by_ratio, end_device, label),
@@ -397,14 +397,13 @@ def _check_secondary_arrangement(ctx, run, ampacity: float) -> None:
             "conductors without protection at the transformer must end in one device",
         )
     else:
-        ok = end_device <= ampacity + 1e-9
-        ctx.add(
+        ctx.compare(
             run.id,
             "secondary conductors end in one device",
             end_device,
             ampacity,
             "A",
-            "ok" if ok else "fail",
+            "at_most",
             "xfmr-secondary-end-device",
             f"main device {end_device:g} A vs conductor ampacity {ampacity:.0f} A",
         )

@@ -2,14 +2,15 @@
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass, field
 
+from ..calc.power import current_from_apparent_power_a
 from ..findings import Finding, Status
 from ..job import Job
 from ..results import NodeResult, Sheet
 from ..tables import load_table
 from ..topology import Tree, build_tree
+from .compare import TOLERANCE, Direction, compare
 
 
 @dataclass
@@ -53,6 +54,29 @@ class Context:
         self.findings.append(f)
         return f
 
+    def compare(
+        self,
+        subject: str,
+        check: str,
+        value,
+        limit,
+        unit: str,
+        direction: Direction,
+        rule_id: str,
+        note: str = "",
+        *,
+        fail_status: str = "fail",
+        tolerance: float = TOLERANCE,
+    ) -> Finding:
+        """:func:`~feedcheck.checks.compare.compare` ``value`` with ``limit`` and keep the
+        Finding (arguments in the order of :meth:`add`; the status comes from the test)."""
+        rule = {"rule_id": rule_id, "status": fail_status}
+        f = compare(
+            value, limit, direction, rule, subject, check, unit, note, tolerance=tolerance
+        )
+        self.findings.append(f)
+        return f
+
     def sheet(self, element_id: str, kind: str, title: str) -> Sheet:
         if element_id not in self.sheets:
             self.sheets[element_id] = Sheet(element_id, kind, title)
@@ -75,8 +99,7 @@ class Context:
 
     def load_current_a(self, node: str) -> float:
         v = self.tree.voltage_of[node]
-        k = math.sqrt(3) if v.phases == 3 else 1.0
-        return self.loads[node].va / (k * v.line_v)
+        return current_from_apparent_power_a(self.loads[node].va, v.line_v, v.phases)
 
 
 def _f(v):

@@ -15,6 +15,7 @@ from ..calc import fault_lg as lg
 from ..calc import transformer as tk
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
 from ..tables import load_table
+from .compare import passes
 from .context import Context
 from .impedance import (
     SQRT3,
@@ -311,14 +312,14 @@ def _check_rating_and_marking(ctx: Context, n: str, fault_max: float, when: str)
             f"no interrupting rating given; it must be at least {_kA(fault_max)}",
         )
         return
-    ok = panel.interrupting_a >= fault_max
-    ctx.add(
+    ok = passes(panel.interrupting_a, fault_max, "at_least", 0.0)
+    ctx.compare(
         n,
         "interrupting rating",
         fault_max,
         panel.interrupting_a,
         "A",
-        "ok" if ok else "fail",
+        "at_most",
         "panel-interrupting",
         f"rating {_kA(panel.interrupting_a)} vs available {_kA(fault_max)}"
         + (
@@ -326,6 +327,7 @@ def _check_rating_and_marking(ctx: Context, n: str, fault_max: float, when: str)
             if ok
             else " — equipment with a higher rating (or a series-rated combination) is needed"
         ),
+        tolerance=0.0,
     )
 
 

@@ -11,8 +11,10 @@ import numpy as np
 from ..calc import conductor as ck
 from ..calc import transformer as tk
 from ..calc import vdrop as vk
+from ..calc.power import current_from_apparent_power_a
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
 from ..tables import load_table
+from .compare import passes
 from .context import Context
 from .drop_rules import DropLimit, job_drop_limits
 from .impedance import SQRT3, branch_impedances, fault_assumptions, source_impedance
@@ -119,19 +121,19 @@ def check_voltage_drop(ctx: Context) -> None:
         node.values["voltage_v"] = v.line_v * pct / 100.0
         if tree.kind[n] == "panel":
             lim = limits["total"]
-            ok = cond_drop_here <= lim.max_pct + 1e-9
-            ctx.add(
+            ctx.compare(
                 n,
                 "conductor voltage drop since the transformer",
                 cond_drop_here,
                 lim.max_pct,
                 "%",
-                "ok" if ok else lim.status,
+                "at_most",
                 lim.rule_id,
                 f"feeder conductors from the transformer to {n}: {cond_drop_here:.2f} % "
                 f"(the panel stands at {pct:.2f} % of nominal including transformer "
                 f"regulation); branch circuits must fit in the rest of the "
                 f"{lim.max_pct:g} % total",
+                fail_status=lim.status,
             )
     _motor_starting(ctx)
 
@@ -139,8 +141,9 @@ def check_voltage_drop(ctx: Context) -> None:
 def _run_drop(ctx: Context, run, pv, load, sending_pct: float, limits) -> float:
     """Drop of one run [% of nominal], with its findings and calculation steps."""
     kind = vk.circuit_of_system(pv.kind, pv.phases)
-    k = SQRT3 if pv.phases == 3 else 1.0
-    current = load.va / (k * pv.line_v) if load.va > 0 else 0.0
+    current = (
+        current_from_apparent_power_a(load.va, pv.line_v, pv.phases) if load.va > 0 else 0.0
+    )
     pf = load.pf
     r, x = ck.ac_impedance_ohm_per_m(run.size.name, run.material, run.raceway, OPERATING_C)
     r, x = float(r), float(x)
@@ -225,22 +228,23 @@ def _run_drop(ctx: Context, run, pv, load, sending_pct: float, limits) -> float:
         }
     )
     lim = limits["feeder"]
-    ok = pct <= lim.max_pct + 1e-9
+    ok = passes(pct, lim.max_pct, "at_most")
     note = (
         f"{pct:.2f} % (approximate form {approx_pct:.2f} %) at {current:.0f} A over "
         f"{run.length_m / 0.3048:,.0f} ft"
     )
     if not ok:
         note += "; " + _smallest_passing(run, current, pf, kind, lim.max_pct, pv.line_v)
-    ctx.add(
+    ctx.compare(
         run.id,
         "feeder voltage drop",
         pct,
         lim.max_pct,
         "%",
-        "ok" if ok else lim.status,
+        "at_most",
         lim.rule_id,
         note,
+        fail_status=lim.status,
     )
     return pct
 
@@ -321,17 +325,17 @@ def _motor_starting(ctx: Context) -> None:
             zr, zx = (z_node * SQRT3).real, (z_node * SQRT3).imag
         vt = float(vk.motor_starting_voltage_pct(es, i_lr, pf_start, zr, zx, es))
         dip = 100.0 - vt
-        ok = dip <= float(lim["max_dip_pct"]) + 1e-9
-        ctx.add(
+        ctx.compare(
             m.id,
             "motor starting dip",
             dip,
             float(lim["max_dip_pct"]),
             "%",
-            "ok" if ok else str(lim["status"]),
+            "at_most",
             "ms-motor-terminals",
             f"{vt:.1f} % of rated voltage at {m.panel_id} while starting "
             f"(locked rotor {i_lr:.0f} A"
             + ("" if m.locked_rotor_a else f", {row['lr_multiple']:g} × FLC typical")
             + ")",
+            fail_status=str(lim["status"]),
         )
