@@ -118,3 +118,43 @@ def test_both_or_neither_spelling_is_a_usage_error(args, msg):
     res = _run(args)
     assert res.exit_code == 2
     assert msg in res.output
+
+
+def test_quick_figures_agree_with_the_feed_walk():
+    """calc fault and the feed walk of `feedcheck check` on the same one-transformer job
+    (cross-method check; the figures themselves are held against IEEE Std 141 ch. 4 and
+    IEC 60909-0 in tests/reference/). Known difference, the feed walk being right: the
+    minimum line-to-ground figure uses V_LN = V_LL/√3 (120.09 V on 208Y/120 V, consistent
+    with the three-phase figure) in the walk, the nameplate 120 V in calc fault."""
+    from pathlib import Path
+
+    from feedcheck.calc.sizes import SIZES
+    from feedcheck.checks import check_job
+    from feedcheck.commands.calc_fault import compute
+    from feedcheck.job import Job, Options, Panel, Project, Run, Source, Transformer
+    from feedcheck.units import parse_voltage_system
+
+    prim, sec = parse_voltage_system("480 V delta"), parse_voltage_system("208Y/120 V")
+    length_m = 95 * 0.3048
+    job = Job(
+        Path("quick.toml"),
+        Project("quick", date="2026-12-02"),
+        Source(prim, 30e3, 6.0),
+        (Transformer("T1", "source", 75e3, prim, sec, 5.1, 3.5, 110.0, None),),
+        (Run("R1", "T1", "P1", length_m, SIZES["4/0 AWG"], "cu", 1, 75.0, "steel", 30.0, 3,
+             SIZES["4 AWG"], "cu", 225.0, None),),
+        (Panel("P1", 225.0, None, None, None, None, None, 0.0, 1.0),),
+        (),
+        Options(),
+    )
+    nodes = {n.id: n.values for n in check_job(job).nodes}
+    quick = compute(75e3, prim, sec, 5.1, 3.5, 30e3, 6.0, 7.5, "none", length_m,
+                    SIZES["4/0 AWG"], "cu", "steel", 1, SIZES["4 AWG"], None)["rows"]
+    for row, node in zip(quick, ("T1", "P1"), strict=True):
+        v = nodes[node]
+        for mine, walk in (("max_a", "fault_max_a"), ("min_a", "fault_min_a"), ("x_r", "x_r"),
+                           ("peak_a", "peak_a"), ("asym_a", "asym_rms_a"),
+                           ("ptp_a", "fault_ptp_a")):
+            assert row[mine] == pytest.approx(v[walk], rel=1e-9), (node, mine)
+        assert v["fault_lg_min_a"] == pytest.approx(
+            row["lg_min_a"] * (208 / math.sqrt(3)) / 120, rel=1e-6)
