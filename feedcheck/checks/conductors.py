@@ -296,19 +296,21 @@ def _check_withstand(ctx, run) -> None:
         k = wk.k_constant(insulation, material, role, size.area_mm2)
         area_total = size.area_mm2 * run.sets
         i_w = float(wk.withstand_current_a(area_total, t, k.k))
-        ok = i_w >= up
+        ok = passes(up, i_w, "at_most", 0.0)
         what = "phase conductors" if role == "line" else "grounding conductor"
-        ctx.add(
+        ctx.compare(
             run.id,
             f"withstand, {what}",
             up,
             i_w,
             "A",
-            "ok" if ok else "warn",
+            "at_most",
             "run-withstand",
             f"{what} withstand {i_w / 1000:,.1f} kA for {t:g} s "
             f"(k = {k.k:g}, {insulation}, {k.rule_id}) vs {up / 1000:,.2f} kA available at "
             "the sending end" + ("" if ok else "; a faster device or larger conductor"),
+            fail_status="warn",
+            tolerance=0.0,
         )
     ctx.method(
         "Short-circuit withstand, adiabatic I²t = k²S²",
