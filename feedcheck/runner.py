@@ -1,5 +1,6 @@
 """Read a job (and its schedules) and run the checks: the one entry point the CLI,
-the report and the re-run use, so they all compute the same figures."""
+the report, the re-run and ``feedcheck schedule --job`` use, so they all compute the
+same figures."""
 
 from __future__ import annotations
 
@@ -10,55 +11,70 @@ from .job import Job, read_job
 from .results import Results
 
 
-def load_and_check(job_file: str | Path) -> tuple[Job, Results]:
+def load_and_check(job_file: str | Path, calc_date: str | None = None) -> tuple[Job, Results]:
     """Read, validate and check a job file; raises InputError on bad input.
 
     Panels with a ``schedule`` file: the schedule is read (every problem of every
     schedule reported together), its demand load replaces the panel's ``load`` in the
     feed walk, and its circuits are checked with the panel's feeder drop (node value
-    ``conductor_vdrop_pct``, the conductor drop since the transformer secondary). The
-    checked schedules go to ``results.schedules[panel_id]`` and their findings to
-    ``results.findings``.
+    ``conductor_vdrop_pct``, the conductor drop since the transformer secondary), the
+    panel's bus and main ratings and the job's drop limits. The checked schedules go to
+    ``results.schedules[panel_id]`` and their findings to ``results.findings``.
+
+    ``calc_date`` (ISO date) labels the fault-current marking when the job gives no
+    date; by default the command's clock (:func:`feedcheck.commands.clock.calc_date`,
+    which honours ``SOURCE_DATE_EPOCH``).
     """
+    if calc_date is None:
+        from .commands.clock import calc_date as today
+
+        calc_date = today()
     job = read_job(job_file)
-    schedules = _read_job_schedules(job)
+    return job, check_job_with_schedules(job, _read_job_schedules(job), calc_date)
+
+
+def check_job_with_schedules(job: Job, schedules: dict, calc_date: str | None = None) -> Results:
+    """Check a job whose panels' schedules are already read (``{panel_id: Schedule}``).
+
+    Each panel's demand is computed once, used for the feed walk, and reused by its
+    circuit checks after the walk has given the panel its feeder drop.
+    """
     if not schedules:
-        return job, check_job(job)
-    from .schedule_checks import check_schedule, demand_load
+        return check_job(job, calc_date=calc_date)
+    from .checks.drop_rules import job_drop_limits
+    from .checks.schedules import check_schedule, schedule_demand
     from .topology import build_tree
 
     tree = build_tree(job)
     panels = {p.id: p for p in job.panels}
-    # the walk needs each panel's demand; the circuits are checked once, after the walk
-    # has given each panel its feeder drop
     demands = {
-        pid: demand_load(s, tree.voltage_of[pid], panels[pid].occupancy)
+        pid: schedule_demand(s, tree.voltage_of[pid], panels[pid].occupancy)
         for pid, s in schedules.items()
     }
-    results = check_job(job, demands)
+    results = check_job(job, {pid: d.load for pid, d in demands.items()}, calc_date)
     # branch drops add to the conductor drop since the transformer secondary (the same
-    # basis as the panel's own total-drop check), under the job's drop rules
+    # basis as the panel's own total-drop check), under the job's drop limits
     drops = {n.id: float(n.values.get("conductor_vdrop_pct", 0.0) or 0.0) for n in results.nodes}
-    limits = _drop_rules(job)
+    limits = job_drop_limits(job)
     for pid, s in schedules.items():
         res = check_schedule(
             s,
             tree.voltage_of[pid],
             feeder_drop_pct=drops.get(pid, 0.0),
+            occupancy=panels[pid].occupancy,
             bus_a=panels[pid].rating_a,
             main_a=panels[pid].main_device_a,
-            branch_rule=limits["branch"],
-            total_rule=limits["total"],
-            occupancy=panels[pid].occupancy,
+            limits=limits,
+            demand=demands[pid],
         )
         results.schedules[pid] = res
         results.findings.extend(res.findings)
-    return job, results
+    return results
 
 
 def _read_job_schedules(job: Job) -> dict:
     """Each panel's schedule, read and validated; one InputError for all of them."""
-    from .errors import InputError
+    from .errors import InputError, Problem
     from .schedule import read_schedule
 
     out, problems = {}, []
@@ -71,8 +87,6 @@ def _read_job_schedules(job: Job) -> dict:
             problems.extend(exc.problems)
             continue
         if sched.panels != (p.id,):
-            from .errors import Problem
-
             problems.append(
                 Problem(
                     str(p.schedule),
@@ -88,19 +102,6 @@ def _read_job_schedules(job: Job) -> dict:
     return out
 
 
-def _drop_rules(job: Job) -> dict:
-    """The job's branch and total drop rules: a rule id, or the job's own limit as
-    (rule_id, max %, status)."""
-    mandatory = job.options.voltage_drop == "mandatory"
-    status = "fail" if mandatory else "warn"
-    ids = {
-        "branch": "vd-energy-branch-3" if mandatory else "vd-nec-branch",
-        "total": "vd-energy-total-5" if mandatory else "vd-nec-total",
-    }
-    given = {"branch": job.options.branch_drop_pct, "total": job.options.total_drop_pct}
-    return {k: (f"vd-job-{k}", given[k], status) if given[k] is not None else ids[k] for k in ids}
-
-
-def run_job(job_file: str | Path) -> Results:
+def run_job(job_file: str | Path, calc_date: str | None = None) -> Results:
     """Results of :func:`load_and_check` alone."""
-    return load_and_check(job_file)[1]
+    return load_and_check(job_file, calc_date)[1]

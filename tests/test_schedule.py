@@ -9,7 +9,7 @@ import pytest
 from feedcheck import schedule as S
 from feedcheck.errors import InputError
 from feedcheck.schedule import normalise_header, read_schedule
-from feedcheck.schedule_checks import check_schedule
+from feedcheck.checks.schedules import check_schedule
 from feedcheck.units import parse_voltage_system
 
 GOOD = (

@@ -18,9 +18,16 @@ from .transformer import check_transformer
 from .vdrop import check_voltage_drop
 
 
-def check_job(job: Job, panel_loads: dict[str, Load] | None = None) -> Results:
-    """Run every check on a validated job and return the results."""
-    ctx = build_context(job, panel_loads)
+def check_job(
+    job: Job, panel_loads: dict[str, Load] | None = None, calc_date: str | None = None
+) -> Results:
+    """Run every check on a validated job and return the results.
+
+    ``calc_date`` (ISO date) labels the fault-current marking when the job gives no date;
+    the command supplies it (:func:`feedcheck.commands.clock.calc_date`), checks never
+    read the clock.
+    """
+    ctx = build_context(job, panel_loads, calc_date)
     tree = ctx.tree
     for n in tree.order:
         run = tree.parent_run.get(n)

@@ -10,8 +10,10 @@ from ..calc import ampacity as ak
 from ..calc import protection as pk
 from ..calc import selection as sk
 from ..calc import withstand as wk
+from ..calc.power import current_from_apparent_power_a
 from ..calc.sizes import SIZES
 from ..job import Run
+from .compare import passes
 from .context import Context
 
 SQRT3 = math.sqrt(3.0)
@@ -21,9 +23,8 @@ def _loads(ctx: Context, run: Run) -> tuple[float, float, float]:
     """Continuous and noncontinuous load current on a run, and its power factor."""
     v = ctx.tree.voltage_of[run.from_id]
     load = ctx.loads[run.to_id]
-    k = SQRT3 if v.phases == 3 else 1.0
-    cont = load.continuous_va / (k * v.line_v)
-    non = (load.va - load.continuous_va) / (k * v.line_v)
+    cont = current_from_apparent_power_a(load.continuous_va, v.line_v, v.phases)
+    non = current_from_apparent_power_a(load.va - load.continuous_va, v.line_v, v.phases)
     return cont, non, load.pf
 
 
@@ -201,14 +202,14 @@ def check_run(ctx: Context, run: Run) -> None:
     )
     if device is not None:
         need = float(pk.device_min_for_load_a(cont, non))
-        ok = device >= need - 1e-9
-        ctx.add(
+        ok = passes(device, need, "at_least")
+        ctx.compare(
             run.id,
             "device vs load",
             device,
             need,
             "A",
-            "ok" if ok else "fail",
+            "at_least",
             "run-device-load",
             f"{device:g} A device for 125 % × {cont:.1f} + {non:.1f} A"
             f" = {need:.1f} A" + ("" if ok else "; a larger device (and conductors) needed"),
@@ -295,24 +296,39 @@ def _check_withstand(ctx, run) -> None:
         k = wk.k_constant(insulation, material, role, size.area_mm2)
         area_total = size.area_mm2 * run.sets
         i_w = float(wk.withstand_current_a(area_total, t, k.k))
-        ok = i_w >= up
+        ok = passes(up, i_w, "at_most", 0.0)
         what = "phase conductors" if role == "line" else "grounding conductor"
-        ctx.add(
+        ctx.compare(
             run.id,
             f"withstand, {what}",
             up,
             i_w,
             "A",
-            "ok" if ok else "warn",
+            "at_most",
             "run-withstand",
             f"{what} withstand {i_w / 1000:,.1f} kA for {t:g} s "
             f"(k = {k.k:g}, {insulation}, {k.rule_id}) vs {up / 1000:,.2f} kA available at "
             "the sending end" + ("" if ok else "; a faster device or larger conductor"),
+            fail_status="warn",
+            tolerance=0.0,
         )
     ctx.method(
         "Short-circuit withstand, adiabatic I²t = k²S²",
         "IEC 60364-4-43 434.5.2; IEC 60364-5-54 Annex A; IEC 60949",
     )
+
+
+def _secondary_need_text(
+    primary_a: float, ratio: float, divisor: float, by_ratio: float, end_a, label: str
+) -> str:
+    """How the 240.21(C) required ampacity was found, with the figures actually used."""
+    part = (
+        f"primary device {primary_a:g} A × voltage ratio {ratio:.3f} ÷ {divisor:g}"
+        f" = {by_ratio:.1f} A"
+    )
+    if label == "10 ft" and end_a is not None:
+        return f"the larger of {part} and the end device {end_a:g} A"
+    return part
 
 
 def _check_secondary_arrangement(ctx, run, ampacity: float) -> None:
@@ -337,10 +353,14 @@ def _check_secondary_arrangement(ctx, run, ampacity: float) -> None:
     panel = next((p for p in ctx.job.panels if p.id == run.to_id), None)
     end_device = panel.main_device_a if panel else None
     if run.length_m <= float(ten["limit"]) + 1e-9:
-        need = max(t.primary_device_a * ratio / 10.0, end_device or 0.0)
+        divisor = 10.0
+        by_ratio = t.primary_device_a * ratio / divisor
+        need = max(by_ratio, end_device or 0.0)
         rid, label = "xfmr-secondary-10ft", "10 ft"
     elif run.length_m <= float(tw5["limit"]) + 1e-9:
-        need = t.primary_device_a * ratio / 3.0
+        divisor = 3.0
+        by_ratio = t.primary_device_a * ratio / divisor
+        need = by_ratio
         rid, label = "xfmr-secondary-25ft", "25 ft"
     else:
         ctx.add(
@@ -355,17 +375,16 @@ def _check_secondary_arrangement(ctx, run, ampacity: float) -> None:
             "the transformer: more than 25 ft needs a device at the transformer",
         )
         return
-    ok = ampacity >= need - 1e-9
-    ctx.add(
+    ctx.compare(
         run.id,
         f"secondary conductors ({label} arrangement)",
         ampacity,
         need,
         "A",
-        "ok" if ok else "fail",
+        "at_least",
         rid,
-        f"ampacity {ampacity:.0f} A vs required {need:.0f} A "
-        f"(primary device {t.primary_device_a:g} A × {ratio:.2f} ratio)",
+        f"ampacity {ampacity:.0f} A vs required {need:.0f} A: "
+        + _secondary_need_text(t.primary_device_a, ratio, divisor, by_ratio, end_device, label),
     )
     if end_device is None:
         ctx.add(
@@ -380,14 +399,13 @@ def _check_secondary_arrangement(ctx, run, ampacity: float) -> None:
             "conductors without protection at the transformer must end in one device",
         )
     else:
-        ok = end_device <= ampacity + 1e-9
-        ctx.add(
+        ctx.compare(
             run.id,
             "secondary conductors end in one device",
             end_device,
             ampacity,
             "A",
-            "ok" if ok else "fail",
+            "at_most",
             "xfmr-secondary-end-device",
             f"main device {end_device:g} A vs conductor ampacity {ampacity:.0f} A",
         )

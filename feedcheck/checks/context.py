@@ -2,14 +2,15 @@
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass, field
 
+from ..calc.power import current_from_apparent_power_a
 from ..findings import Finding, Status
 from ..job import Job
 from ..results import NodeResult, Sheet
 from ..tables import load_table
 from ..topology import Tree, build_tree
+from .compare import TOLERANCE, Direction, compare
 
 
 @dataclass
@@ -36,6 +37,7 @@ class Context:
     run_values: dict[str, dict[str, float]] = field(default_factory=dict)
     assumptions: list[str] = field(default_factory=list)
     methods: list[tuple[str, str]] = field(default_factory=list)
+    calc_date: str | None = None  # ISO date of the calculation, handed in by the command
 
     def add(
         self,
@@ -49,6 +51,29 @@ class Context:
         note: str = "",
     ) -> Finding:
         f = Finding(subject, check, _f(value), _f(limit), unit, status, rule_id, note)
+        self.findings.append(f)
+        return f
+
+    def compare(
+        self,
+        subject: str,
+        check: str,
+        value,
+        limit,
+        unit: str,
+        direction: Direction,
+        rule_id: str,
+        note: str = "",
+        *,
+        fail_status: str = "fail",
+        tolerance: float = TOLERANCE,
+    ) -> Finding:
+        """:func:`~feedcheck.checks.compare.compare` ``value`` with ``limit`` and keep the
+        Finding (arguments in the order of :meth:`add`; the status comes from the test)."""
+        rule = {"rule_id": rule_id, "status": fail_status}
+        f = compare(
+            value, limit, direction, rule, subject, check, unit, note, tolerance=tolerance
+        )
         self.findings.append(f)
         return f
 
@@ -74,8 +99,7 @@ class Context:
 
     def load_current_a(self, node: str) -> float:
         v = self.tree.voltage_of[node]
-        k = math.sqrt(3) if v.phases == 3 else 1.0
-        return self.loads[node].va / (k * v.line_v)
+        return current_from_apparent_power_a(self.loads[node].va, v.line_v, v.phases)
 
 
 def _f(v):
@@ -87,7 +111,9 @@ def _f(v):
         return v
 
 
-def build_context(job: Job, panel_loads: dict[str, Load] | None = None) -> Context:
+def build_context(
+    job: Job, panel_loads: dict[str, Load] | None = None, calc_date: str | None = None
+) -> Context:
     """Tree plus demand loads rolled up from the panels (own load + downstream)."""
     tree = build_tree(job)
     own: dict[str, Load] = {n: Load() for n in tree.order}
@@ -103,4 +129,4 @@ def build_context(job: Job, panel_loads: dict[str, Load] | None = None) -> Conte
             loads[parent].va += loads[n].va
             loads[parent].continuous_va += loads[n].continuous_va
             loads[parent].w += loads[n].w
-    return Context(job, tree, loads)
+    return Context(job, tree, loads, calc_date=calc_date)

@@ -4,9 +4,7 @@ equipment ratings, the instantaneous-trip check and the marking figures."""
 
 from __future__ import annotations
 
-import datetime as _dt
 import math
-import os
 from dataclasses import dataclass
 
 import numpy as np
@@ -17,6 +15,7 @@ from ..calc import fault_lg as lg
 from ..calc import transformer as tk
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
 from ..tables import load_table
+from .compare import passes
 from .context import Context
 from .impedance import (
     SQRT3,
@@ -108,7 +107,7 @@ def check_faults(ctx: Context) -> None:
     ptp = _point_to_point(ctx, fa, order, rf)
     _primary_terminals(ctx, fa, pos, rf, vb)
 
-    when = _calc_date(job)
+    when = _calc_date(ctx)
     for i, n in enumerate(order):
         node = ctx.nodes[n]
         node.values.update(
@@ -277,13 +276,12 @@ def _primary_terminals(ctx: Context, fa, pos, rf, vb) -> None:
         )
 
 
-def _calc_date(job) -> str:
-    if job.project.date:
-        return str(job.project.date)
-    epoch = os.environ.get("SOURCE_DATE_EPOCH")
-    if epoch and epoch.isdigit():
-        return _dt.datetime.fromtimestamp(int(epoch), _dt.UTC).date().isoformat()
-    return _dt.date.today().isoformat()
+def _calc_date(ctx: Context) -> str:
+    """The job's own date, else the calculation date the command handed in (checks never
+    read the clock)."""
+    if ctx.job.project.date:
+        return str(ctx.job.project.date)
+    return ctx.calc_date or "on a date not given"
 
 
 def _check_rating_and_marking(ctx: Context, n: str, fault_max: float, when: str) -> None:
@@ -314,14 +312,14 @@ def _check_rating_and_marking(ctx: Context, n: str, fault_max: float, when: str)
             f"no interrupting rating given; it must be at least {_kA(fault_max)}",
         )
         return
-    ok = panel.interrupting_a >= fault_max
-    ctx.add(
+    ok = passes(panel.interrupting_a, fault_max, "at_least", 0.0)
+    ctx.compare(
         n,
         "interrupting rating",
         fault_max,
         panel.interrupting_a,
         "A",
-        "ok" if ok else "fail",
+        "at_most",
         "panel-interrupting",
         f"rating {_kA(panel.interrupting_a)} vs available {_kA(fault_max)}"
         + (
@@ -329,6 +327,7 @@ def _check_rating_and_marking(ctx: Context, n: str, fault_max: float, when: str)
             if ok
             else " — equipment with a higher rating (or a series-rated combination) is needed"
         ),
+        tolerance=0.0,
     )
 
 

@@ -9,6 +9,7 @@ from ..calc import transformer as tk
 from ..calc.sizes import SIZES
 from ..job import Transformer
 from ..tables import load_table
+from .compare import passes
 from .context import Context
 
 
@@ -107,7 +108,7 @@ def check_transformer(ctx: Context, t: Transformer) -> None:
             "A",
             lim.rule_id,
         )
-        ok = device <= lim.max_device_a + 1e-9
+        ok = passes(device, lim.max_device_a, "at_most")
         note = (
             f"{device:g} A device within the {lim.max_device_a:g} A limit "
             f"({lim.max_pct:g} % of {rated:.1f} A, {arrangement})"
@@ -118,13 +119,13 @@ def check_transformer(ctx: Context, t: Transformer) -> None:
                 f"({lim.max_pct:g} % of {rated:.1f} A, {arrangement}); use a device of "
                 f"{lim.max_device_a:g} A or less"
             )
-        ctx.add(
+        ctx.compare(
             t.id,
             f"{winding} device",
             device,
             lim.max_device_a,
             "A",
-            "ok" if ok else "fail",
+            "at_most",
             lim.rule_id,
             note,
         )
@@ -162,17 +163,18 @@ def check_transformer(ctx: Context, t: Transformer) -> None:
         "xfmr-loading",
     )
     if load.va > 0:
-        ok = pct <= float(rule["limit"]) + 1e-9
-        ctx.add(
+        ok = passes(pct, float(rule["limit"]), "at_most")
+        ctx.compare(
             t.id,
             "loading",
             pct,
             float(rule["limit"]),
             "%",
-            "ok" if ok else rule["status"],
+            "at_most",
             "xfmr-loading",
             f"demand {load.va / 1000:.1f} kVA on {t.rating_va / 1000:g} kVA"
             + ("" if ok else "; a larger transformer or less load is needed"),
+            fail_status=rule["status"],
         )
     pf = load.pf
     reg_approx = tk.regulation_pct_approximate(r_pct, x_pct, n, pf)

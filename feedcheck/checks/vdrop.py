@@ -5,61 +5,27 @@ limits as rules; the smallest conductor that would pass; motor starting dip."""
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
 
 import numpy as np
 
 from ..calc import conductor as ck
 from ..calc import transformer as tk
 from ..calc import vdrop as vk
+from ..calc.power import current_from_apparent_power_a
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
 from ..tables import load_table
+from .compare import passes
 from .context import Context
+from .drop_rules import DropLimit, job_drop_limits
 from .impedance import SQRT3, branch_impedances, fault_assumptions, source_impedance
 from .transformer import transformer_x_r
 
 OPERATING_C = 75.0  # conductor temperature for steady-state drop (75 °C terminations)
 
 
-@dataclass(frozen=True)
-class DropLimit:
-    scope: str
-    max_pct: float
-    status: str
-    rule_id: str
-    clause: str
-
-
 def drop_limits(ctx: Context) -> dict[str, DropLimit]:
     """Feeder, branch and total limits for this job (rule rows, or the job's own)."""
-    t = load_table("voltage_drop_limits").data
-    opts = ctx.job.options
-    mandatory = opts.voltage_drop == "mandatory"
-    wanted = {
-        "feeder": "vd-energy-feeder-2" if mandatory else "vd-nec-feeder",
-        "branch": "vd-energy-branch-3" if mandatory else "vd-nec-branch",
-        "total": "vd-energy-total-5" if mandatory else "vd-nec-total",
-    }
-    out = {}
-    for scope, rid in wanted.items():
-        row = t[t["rule_id"] == rid].iloc[0]
-        given = {
-            "feeder": opts.feeder_drop_pct,
-            "branch": opts.branch_drop_pct,
-            "total": opts.total_drop_pct,
-        }[scope]
-        status = "fail" if mandatory else "warn"
-        if given is not None:
-            out[scope] = DropLimit(
-                scope,
-                given,
-                status,
-                f"vd-job-{scope}",
-                f"limit set in the job's [options] ({opts.voltage_drop})",
-            )
-        else:
-            out[scope] = DropLimit(scope, float(row["max_pct"]), status, rid, str(row["clause"]))
-    return out
+    return job_drop_limits(ctx.job)
 
 
 def check_voltage_drop(ctx: Context) -> None:
@@ -155,19 +121,19 @@ def check_voltage_drop(ctx: Context) -> None:
         node.values["voltage_v"] = v.line_v * pct / 100.0
         if tree.kind[n] == "panel":
             lim = limits["total"]
-            ok = cond_drop_here <= lim.max_pct + 1e-9
-            ctx.add(
+            ctx.compare(
                 n,
                 "conductor voltage drop since the transformer",
                 cond_drop_here,
                 lim.max_pct,
                 "%",
-                "ok" if ok else lim.status,
+                "at_most",
                 lim.rule_id,
                 f"feeder conductors from the transformer to {n}: {cond_drop_here:.2f} % "
                 f"(the panel stands at {pct:.2f} % of nominal including transformer "
                 f"regulation); branch circuits must fit in the rest of the "
                 f"{lim.max_pct:g} % total",
+                fail_status=lim.status,
             )
     _motor_starting(ctx)
 
@@ -175,8 +141,9 @@ def check_voltage_drop(ctx: Context) -> None:
 def _run_drop(ctx: Context, run, pv, load, sending_pct: float, limits) -> float:
     """Drop of one run [% of nominal], with its findings and calculation steps."""
     kind = vk.circuit_of_system(pv.kind, pv.phases)
-    k = SQRT3 if pv.phases == 3 else 1.0
-    current = load.va / (k * pv.line_v) if load.va > 0 else 0.0
+    current = (
+        current_from_apparent_power_a(load.va, pv.line_v, pv.phases) if load.va > 0 else 0.0
+    )
     pf = load.pf
     r, x = ck.ac_impedance_ohm_per_m(run.size.name, run.material, run.raceway, OPERATING_C)
     r, x = float(r), float(x)
@@ -261,22 +228,23 @@ def _run_drop(ctx: Context, run, pv, load, sending_pct: float, limits) -> float:
         }
     )
     lim = limits["feeder"]
-    ok = pct <= lim.max_pct + 1e-9
+    ok = passes(pct, lim.max_pct, "at_most")
     note = (
         f"{pct:.2f} % (approximate form {approx_pct:.2f} %) at {current:.0f} A over "
         f"{run.length_m / 0.3048:,.0f} ft"
     )
     if not ok:
         note += "; " + _smallest_passing(run, current, pf, kind, lim.max_pct, pv.line_v)
-    ctx.add(
+    ctx.compare(
         run.id,
         "feeder voltage drop",
         pct,
         lim.max_pct,
         "%",
-        "ok" if ok else lim.status,
+        "at_most",
         lim.rule_id,
         note,
+        fail_status=lim.status,
     )
     return pct
 
@@ -357,17 +325,17 @@ def _motor_starting(ctx: Context) -> None:
             zr, zx = (z_node * SQRT3).real, (z_node * SQRT3).imag
         vt = float(vk.motor_starting_voltage_pct(es, i_lr, pf_start, zr, zx, es))
         dip = 100.0 - vt
-        ok = dip <= float(lim["max_dip_pct"]) + 1e-9
-        ctx.add(
+        ctx.compare(
             m.id,
             "motor starting dip",
             dip,
             float(lim["max_dip_pct"]),
             "%",
-            "ok" if ok else str(lim["status"]),
+            "at_most",
             "ms-motor-terminals",
             f"{vt:.1f} % of rated voltage at {m.panel_id} while starting "
             f"(locked rotor {i_lr:.0f} A"
             + ("" if m.locked_rotor_a else f", {row['lr_multiple']:g} × FLC typical")
             + ")",
+            fail_status=str(lim["status"]),
         )

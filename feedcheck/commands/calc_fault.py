@@ -24,6 +24,8 @@ from .params import (
     SIZE,
     VOLTAGE_SYSTEM,
     QuantityType,
+    merge_spellings,
+    old_spelling,
 )
 
 FT = 0.3048  # m per international foot (exact)
@@ -49,8 +51,8 @@ Point-to-point: f = √3·L·I/(C·n·V_LL), M = 1/(1 + f)
 
 \b
 Example:
-  feedcheck calc fault --kva 75kVA --primary "480 V delta" --secondary "208Y/120 V" \\
-      --z 5.1% --x-r 3.5 --source-fault 30kA --source-x-r 6 \\
+  feedcheck calc fault --rating 75kVA --primary "480 V delta" --secondary "208Y/120 V" \\
+      --impedance 5.1% --x-r 3.5 --source-fault 30kA --source-x-r 6 \\
       --length "95 ft" --size "4/0 AWG" --material cu --raceway steel --ground "4 AWG" \\
       --device 225A --device-type breaker-tm
 
@@ -175,13 +177,15 @@ def compute(kva, primary, secondary, z, x_r, source_fault, source_x_r, tolerance
 
 
 @click.command("fault", help=HELP, context_settings={"help_option_names": ["-h", "--help"]})
-@click.option("--kva", "kva", type=APPARENT_POWER, required=True,
-              help="Transformer rating, e.g. 75kVA.")
+@click.option("--rating", "rating_va", type=APPARENT_POWER, default=None,
+              help="Transformer rating, e.g. 75kVA.  [required]")
+@old_spelling("--kva", "kva_old", "--rating", APPARENT_POWER)
 @click.option("--primary", type=VOLTAGE_SYSTEM, required=True, help='e.g. "480 V delta".')
 @click.option("--secondary", type=VOLTAGE_SYSTEM, required=True,
               help='e.g. "208Y/120 V" or "120/240 V".')
-@click.option("--z", "z_pct", type=IMPEDANCE_PCT, required=True,
-              help="Nameplate impedance, e.g. 5.1%.")
+@click.option("--impedance", "z_pct", type=IMPEDANCE_PCT, default=None,
+              help="Nameplate impedance, e.g. 5.1%.  [required]")
+@old_spelling("--z", "z_old", "--impedance", IMPEDANCE_PCT)
 @click.option("--x-r", "x_r", type=click.FloatRange(min=0.0, min_open=True), default=None,
               help="Transformer X/R; default: typical value from tables/transformer_xr.csv.")
 @click.option("--source-fault", type=SOURCE_CURRENT, default="infinite", show_default=True,
@@ -212,9 +216,11 @@ def compute(kva, primary, secondary, z, x_r, source_fault, source_x_r, tolerance
                                       "tables/instantaneous_pickup.csv.")
 @click.option("--pickup-multiple", type=click.FloatRange(min=0.0, min_open=True), default=None,
               help="Actual instantaneous setting as a multiple of --device (overrides the table).")
-def fault_command(kva, primary, secondary, z_pct, x_r, source_fault, source_x_r, tolerance_pct,
-                  factors, length_m, size, material, raceway, sets, ground, motor_flc, device_a,
-                  device_type, pickup_multiple):
+def fault_command(rating_va, kva_old, primary, secondary, z_pct, z_old, x_r, source_fault,
+                  source_x_r, tolerance_pct, factors, length_m, size, material, raceway, sets,
+                  ground, motor_flc, device_a, device_type, pickup_multiple):
+    kva = merge_spellings("--rating", rating_va, "--kva", kva_old, required=True)
+    z_pct = merge_spellings("--impedance", z_pct, "--z", z_old, required=True)
     run_opts = [length_m is not None, size is not None]
     if any(run_opts) and not all(run_opts):
         raise click.UsageError("give both --length and --size for a run, or neither")

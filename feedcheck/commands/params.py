@@ -126,3 +126,28 @@ SIZE = SizeType()
 VOLTAGE_SYSTEM = VoltageSystemType()
 MATERIAL = click.Choice(["cu", "al"], case_sensitive=False)
 RACEWAY = click.Choice(["steel", "aluminum", "pvc", "cable", "free-air"], case_sensitive=False)
+
+
+def old_spelling(old: str, dest: str, new: str, type_, **kwargs):
+    """A hidden option ``old`` kept working as the former spelling of ``new``.
+
+    The command merges the two with :func:`merge_spellings`; ``--help`` shows ``new``
+    only, and an invalid value names the spelling the user typed.
+    """
+    return click.option(
+        old, dest, type=type_, default=None, hidden=True, help=f"Former spelling of {new}.",
+        **kwargs,
+    )
+
+
+def merge_spellings(new: str, new_value, old: str, old_value, *, required: bool = False):
+    """The value given under ``new`` or its former spelling ``old``; both is a usage
+    error, neither is a missing option when ``required``."""
+    if new_value is not None and old_value is not None:
+        raise click.UsageError(f"give {new} once ({old} is its former spelling)")
+    value = new_value if new_value is not None else old_value
+    if value is None and required:
+        ctx = click.get_current_context()
+        param = next(p for p in ctx.command.params if new in getattr(p, "opts", ()))
+        raise click.MissingParameter(ctx=ctx, param=param)
+    return value

@@ -9,9 +9,11 @@ from __future__ import annotations
 
 def register(main, calc) -> None:
     """Add the command objects to ``main`` and ``calc``."""
-    from . import calc_conductor, calc_fault, calc_vdrop, report, schedule
+    from . import calc_conductor, calc_fault, calc_transformer, calc_vdrop, report, schedule
 
     for group, command in (
+        (calc, calc_transformer.rated_current_command),
+        (calc, calc_transformer.regulation_command),
         (calc, calc_conductor.ampacity_command),
         (calc, calc_conductor.size_command),
         (calc, calc_vdrop.voltage_drop_command),

@@ -66,8 +66,9 @@ def _expand(paths: tuple[str, ...]) -> list[Path]:
 @click.option("--feeder-drop", "feeder_drop", type=DROP, default="0%", show_default=True,
               help="Drop from the source to the panel, added for the total (with --system).")
 @click.option("--occupancy", type=click.Choice(["other", "dwelling", "hospital", "hotel",
-                                                "warehouse"]), default="other",
-              show_default=True, help="Lighting demand factors (NFPA 70 Table 220.42).")
+                                                "warehouse"]), default=None,
+              help="Lighting demand factors (NFPA 70 Table 220.42); default other. With "
+                   "--job each panel's occupancy comes from the job.")
 @click.option("--bus", "bus_a", type=CURRENT, help="Panel bus rating, e.g. 225A (with --system).")
 @click.option("--main", "main_a", type=CURRENT, help="Main device rating (with --system).")
 @click.option("--out", "out", type=click.Path(dir_okay=False),
@@ -84,15 +85,17 @@ def schedule_command(inputs, system, job_file, feeder_drop, occupancy, bus_a, ma
         raise click.UsageError('give the panel voltage with --system "208Y/120 V" or a --job')
     if out and Path(out).suffix.lower() not in (".csv", ".xlsx", ".json"):
         raise click.UsageError(f"--out: got {out!r}; expected a .csv, .xlsx or .json file")
-    if job_file and (bus_a or main_a or feeder_drop):
-        raise click.UsageError("--bus, --main and --feeder-drop come from the job with --job")
+    if job_file and (bus_a or main_a or feeder_drop or occupancy):
+        raise click.UsageError(
+            "--bus, --main, --feeder-drop and --occupancy come from the job with --job")
+    occupancy = occupancy or "other"
     files = _expand(inputs)
     if not files and not job_file:
         raise click.UsageError("no .csv or .xlsx schedule found in the inputs")
     done: list[str] = []
     try:
         if job_file:
-            results = _from_job(job_file, files, occupancy)
+            results = _from_job(job_file, files)
             done = [str(r.path) for r in results]
         else:
             results = _from_files(files, system, feeder_drop, occupancy, bus_a, main_a, done)
@@ -127,9 +130,9 @@ def _report_partial(done, files, why: str) -> None:
 
 
 def _from_files(files, system, feeder_drop, occupancy, bus_a, main_a, done):
+    from ..checks.schedules import check_schedule
     from ..errors import InputError
     from ..schedule import read_schedule
-    from ..schedule_checks import check_schedule
 
     results, problems = [], []
 
@@ -153,11 +156,15 @@ def _from_files(files, system, feeder_drop, occupancy, bus_a, main_a, done):
     return results
 
 
-def _from_job(job_file, files, occupancy):
+def _from_job(job_file, files):
+    """The job's schedules exactly as ``feedcheck check`` checks them: through the runner
+    (feeder drop from the walk, bus and main ratings, the job's drop limits and each
+    panel's occupancy)."""
     from ..errors import InputError, Problem
     from ..runner import load_and_check
+    from .clock import calc_date
 
-    job, res = load_and_check(job_file)
+    job, res = load_and_check(job_file, calc_date())
     by_path = {p.schedule.resolve(): p.id for p in job.panels if p.schedule is not None}
     if not files:
         wanted = list(by_path.values())
@@ -172,28 +179,7 @@ def _from_job(job_file, files, occupancy):
                 wanted.append(pid)
         if problems:
             raise InputError(problems)
-    if occupancy != "other":
-        from ..schedule_checks import check_schedule
-
-        for pid in wanted:
-            old = res.schedules[pid]
-            fd = old.circuits["total_vdrop_pct"].iat[0] - old.circuits["vdrop_pct"].iat[0]
-            res.schedules[pid] = check_schedule(_reread(job, pid), _voltage(job, pid), fd,
-                                                occupancy)
     return [res.schedules[pid] for pid in wanted if pid in res.schedules]
-
-
-def _reread(job, pid):
-    from ..schedule import read_schedule
-
-    p = next(p for p in job.panels if p.id == pid)
-    return read_schedule(p.schedule, panel_id=pid)
-
-
-def _voltage(job, pid):
-    from ..topology import build_tree
-
-    return build_tree(job).voltage_of[pid]
 
 
 def _summary(results, show_all: bool) -> str:

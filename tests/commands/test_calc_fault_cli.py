@@ -10,8 +10,11 @@ from click.testing import CliRunner
 from feedcheck import CAUTION
 from feedcheck.commands.calc_fault import fault_command
 
-BASE = ["--kva", "75kVA", "--primary", "480 V delta", "--secondary", "208Y/120 V", "--z", "5.1%",
-        "--x-r", "3.5"]
+BASE = ["--rating", "75kVA", "--primary", "480 V delta", "--secondary", "208Y/120 V",
+        "--impedance", "5.1%", "--x-r", "3.5"]
+# the former spellings --kva and --z keep working (hidden aliases)
+BASE_OLD = ["--kva", "75kVA", "--primary", "480 V delta", "--secondary", "208Y/120 V", "--z",
+            "5.1%", "--x-r", "3.5"]
 
 
 def _run(args):
@@ -53,8 +56,8 @@ def test_full_run_prints_every_figure():
 
 
 def test_split_phase_secondary():
-    res = _run(["--kva", "50kVA", "--primary", "480 V", "--secondary", "120/240 V", "--z",
-                "2.0%", "--x-r", "1.6", "--tolerance", "0%"])
+    res = _run(["--rating", "50kVA", "--primary", "480 V", "--secondary", "120/240 V",
+                "--impedance", "2.0%", "--x-r", "1.6", "--tolerance", "0%"])
     assert res.exit_code == 0, res.output
     i_ll = _figure(res.output, "line-to-line maximum", "secondary terminals")
     assert i_ll == pytest.approx(50e3 / 240 * 100 / 2.0, abs=0.6)  # IEEE Std 141-1993 ch. 4
@@ -70,7 +73,7 @@ def test_help_has_example_and_caution():
 
 @pytest.mark.parametrize(("extra", "code", "msg"), [
     (["--length", "95 ft"], 2, "--length and --size"),
-    (["--z", "abc"], 2, "--z"),
+    (["--impedance", "abc"], 2, "--impedance"),
     (["--tolerance", "-5%"], 2, "tolerance_pct"),
     (["--source-fault", "-3kA"], 2, "greater than zero"),
     (["--ground", "4 AWG"], 2, "--ground needs a run"),
@@ -86,3 +89,73 @@ def test_registered_in_cli():
 
     res = CliRunner().invoke(main, ["calc", "fault", *BASE])
     assert res.exit_code == 0, res.output
+
+
+def test_former_spellings_give_the_same_figures():
+    new = _run([*BASE, "--length", "95 ft", "--size", "4/0 AWG", "--ground", "4 AWG"])
+    old = _run([*BASE_OLD, "--length", "95 ft", "--size", "4/0 AWG", "--ground", "4 AWG"])
+    assert new.exit_code == old.exit_code == 0, old.output
+    assert new.output == old.output
+
+
+def test_former_spellings_are_hidden_and_named_in_their_errors():
+    help_text = _run(["--help"]).output
+    assert "--rating" in help_text and "--impedance" in help_text
+    assert "--kva" not in help_text.replace("--rating 75kVA", "") and "--z " not in help_text
+    bad = _run([*BASE_OLD[:6], "--z", "abc"])
+    assert bad.exit_code == 2 and "'--z'" in bad.output
+
+
+@pytest.mark.parametrize(
+    ("args", "msg"),
+    [
+        ([*BASE, "--kva", "75kVA"], "give --rating once (--kva is its former spelling)"),
+        ([*BASE, "--z", "5%"], "give --impedance once (--z is its former spelling)"),
+        (BASE[2:], "Missing option '--rating'"),
+        ([*BASE[:6], "--x-r", "3.5"], "Missing option '--impedance'"),
+    ],
+)
+def test_both_or_neither_spelling_is_a_usage_error(args, msg):
+    res = _run(args)
+    assert res.exit_code == 2
+    assert msg in res.output
+
+
+def test_quick_figures_agree_with_the_feed_walk():
+    """calc fault and the feed walk of `feedcheck check` on the same one-transformer job
+    (cross-method check; the figures themselves are held against IEEE Std 141 ch. 4 and
+    IEC 60909-0 in tests/reference/). Known difference, the feed walk being right: the
+    minimum line-to-ground figure uses V_LN = V_LL/√3 (120.09 V on 208Y/120 V, consistent
+    with the three-phase figure) in the walk, the nameplate 120 V in calc fault."""
+    from pathlib import Path
+
+    from feedcheck.calc.sizes import SIZES
+    from feedcheck.checks import check_job
+    from feedcheck.commands.calc_fault import compute
+    from feedcheck.job import Job, Options, Panel, Project, Run, Source, Transformer
+    from feedcheck.units import parse_voltage_system
+
+    prim, sec = parse_voltage_system("480 V delta"), parse_voltage_system("208Y/120 V")
+    length_m = 95 * 0.3048
+    job = Job(
+        Path("quick.toml"),
+        Project("quick", date="2026-12-02"),
+        Source(prim, 30e3, 6.0),
+        (Transformer("T1", "source", 75e3, prim, sec, 5.1, 3.5, 110.0, None),),
+        (Run("R1", "T1", "P1", length_m, SIZES["4/0 AWG"], "cu", 1, 75.0, "steel", 30.0, 3,
+             SIZES["4 AWG"], "cu", 225.0, None),),
+        (Panel("P1", 225.0, None, None, None, None, None, 0.0, 1.0),),
+        (),
+        Options(),
+    )
+    nodes = {n.id: n.values for n in check_job(job).nodes}
+    quick = compute(75e3, prim, sec, 5.1, 3.5, 30e3, 6.0, 7.5, "none", length_m,
+                    SIZES["4/0 AWG"], "cu", "steel", 1, SIZES["4 AWG"], None)["rows"]
+    for row, node in zip(quick, ("T1", "P1"), strict=True):
+        v = nodes[node]
+        for mine, walk in (("max_a", "fault_max_a"), ("min_a", "fault_min_a"), ("x_r", "x_r"),
+                           ("peak_a", "peak_a"), ("asym_a", "asym_rms_a"),
+                           ("ptp_a", "fault_ptp_a")):
+            assert row[mine] == pytest.approx(v[walk], rel=1e-9), (node, mine)
+        assert v["fault_lg_min_a"] == pytest.approx(
+            row["lg_min_a"] * (208 / math.sqrt(3)) / 120, rel=1e-6)

@@ -156,7 +156,7 @@ def test_quick_figures_do_not_import_pandas_or_reportlab():
 def test_internal_error_is_reported_without_traceback(monkeypatch, samples):
     import feedcheck.runner
 
-    def boom(path):
+    def boom(path, calc_date=None):
         raise ZeroDivisionError("simulated fault")
 
     monkeypatch.setattr(feedcheck.runner, "run_job", boom)

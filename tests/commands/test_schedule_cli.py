@@ -92,7 +92,7 @@ def test_folder_with_progress_and_interrupt_leaves_nothing(samples, tmp_path, mo
     r = _run("schedule", src, *WYE, "--out", out)
     assert r.exit_code == 0 and "12 file(s)" in r.stdout and out.exists()
     out.unlink()
-    import feedcheck.schedule_checks as sc
+    import feedcheck.checks.schedules as sc
 
     real = sc.check_schedule
     calls = []

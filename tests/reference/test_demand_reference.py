@@ -3,7 +3,7 @@
 import pytest
 
 from feedcheck.schedule import read_schedule
-from feedcheck.schedule_checks import check_schedule
+from feedcheck.checks.schedules import check_schedule
 from feedcheck.units import parse_voltage_system
 
 HEAD = "circuit,poles,kind,continuous,load [VA],breaker [A],conductor,length [ft]\n"

@@ -3,8 +3,8 @@
 import numpy as np
 import pytest
 
+from feedcheck.checks.schedules import check_schedule, demand_tiers
 from feedcheck.schedule import read_schedule
-from feedcheck.schedule_checks import check_schedule, demand_tiers
 from feedcheck.units import parse_voltage_system
 
 HEAD = (
@@ -186,9 +186,9 @@ def test_non_standard_breaker_is_flagged_and_zero_length_refused(tmp_path):
     # NFPA 70-2023 240.6(A): 17 A is not a standard rating (15 and 20 A are).
     import pytest
 
+    from feedcheck.checks.schedules import check_schedule
     from feedcheck.errors import InputError
     from feedcheck.schedule import read_schedule
-    from feedcheck.schedule_checks import check_schedule
     from feedcheck.units import parse_voltage_system
 
     head = "circuit,load [VA],breaker [A],conductor,length [ft]\n"
@@ -219,8 +219,8 @@ def test_branch_ground_grows_with_upsized_conductors(tmp_path):
     # NFPA 70-2023 250.122(B): a 20 A circuit upsized from 12 AWG (the minimum it protects,
     # 240.4(D)) to 10 AWG Cu for voltage drop needs its EGC increased by 10,380/6,530 cmil
     # (Ch. 9 Table 8): 12 AWG (6,530 cmil, Table 250.122 for 20 A) × 1.59 = 10,380 → 10 AWG.
+    from feedcheck.checks.schedules import check_schedule
     from feedcheck.schedule import read_schedule
-    from feedcheck.schedule_checks import check_schedule
     from feedcheck.units import parse_voltage_system
 
     p = tmp_path / "P.csv"
@@ -237,8 +237,8 @@ def test_branch_ground_grows_with_upsized_conductors(tmp_path):
 
 def test_demand_load_alone_equals_the_full_check(samples):
     # the feed walk takes demand_load (no circuit checks); it must give the same Load
+    from feedcheck.checks.schedules import check_schedule, demand_load
     from feedcheck.schedule import read_schedule
-    from feedcheck.schedule_checks import check_schedule, demand_load
     from feedcheck.units import parse_voltage_system
 
     for name, system in (
@@ -251,3 +251,21 @@ def test_demand_load_alone_equals_the_full_check(samples):
         v = parse_voltage_system(system)
         for occ in ("other", "hospital"):
             assert demand_load(sched, v, occ) == check_schedule(sched, v, occupancy=occ).demand
+
+
+def test_demand_is_computed_once_per_panel(samples, monkeypatch):
+    # issue 11: the runner computes each panel's demand once, for the walk and the circuits
+    import feedcheck.calc.demand as kernel
+    import feedcheck.checks.schedules as sc
+    from feedcheck.runner import run_job
+
+    calls = []
+    real = kernel.panel_demand
+
+    def counted(*a, **k):
+        calls.append(1)
+        return real(*a, **k)
+
+    monkeypatch.setattr(sc, "panel_demand", counted)
+    res = run_job(samples / "harbor_kitchen.toml")
+    assert len(res.schedules) == 2 and len(calls) == 2  # LP1 and EQ1, once each

@@ -1,0 +1,71 @@
+"""Current from apparent power: the one place the VA → A formula is written.
+
+Pure functions on floats or numpy arrays in SI units (VA, V, A).
+
+References
+----------
+.. [1] IEEE Std 141-1993 (Red Book), ch. 3: balanced three-phase power
+   S = √3 · V_LL · I; single-phase S = V · I.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+SQRT3 = math.sqrt(3.0)
+
+
+def current_from_apparent_power_a(va, voltage_ll_v, phases=3):
+    """Line current drawn by an apparent power.
+
+    Method: I = S / (√3 · V_LL) for three-phase, I = S / V for single-phase (for a
+    120/240 V three-wire system, V is the 240 V line-to-line voltage).
+
+    Parameters
+    ----------
+    va : float or array
+        Apparent power [VA] (zero or more).
+    voltage_ll_v : float or array
+        Line-to-line voltage [V] (greater than zero).
+    phases : int or array
+        1 or 3.
+
+    Returns
+    -------
+    float or ndarray
+        Line current [A], the shape of the broadcast inputs (a float for scalars).
+
+    Raises
+    ------
+    ValueError
+        Phases other than 1 or 3, or a voltage that is not a positive finite number.
+
+    Notes
+    -----
+    The divisor is formed first (k · V with k = √3 or 1), then S is divided by it, so
+    the result is the same to the last bit wherever the formula was written out before.
+
+    Examples
+    --------
+    >>> round(current_from_apparent_power_a(45e3, 480.0), 2)
+    54.13
+    >>> current_from_apparent_power_a(12e3, 240.0, phases=1)
+    50.0
+
+    References
+    ----------
+    IEEE Std 141-1993, ch. 3.
+    """
+    ph = np.asarray(phases)
+    if not np.all(np.isin(ph, (1, 3))):
+        raise ValueError(f"phases must be 1 or 3, got {phases!r}")
+    v = np.asarray(voltage_ll_v, dtype=float)
+    if not np.all(np.isfinite(v)) or np.any(v <= 0):
+        raise ValueError(
+            f"voltage_ll_v must be a finite number greater than zero, got {voltage_ll_v!r}"
+        )
+    k = np.where(ph == 3, SQRT3, 1.0)
+    out = np.asarray(va, dtype=float) / (k * v)
+    return float(out) if out.ndim == 0 else out

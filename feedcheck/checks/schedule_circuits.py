@@ -1,0 +1,259 @@
+"""The quantities of every circuit of a schedule, as whole columns: load and current,
+ampacities, device limits, grounding conductor, voltage drop. The rules of
+:mod:`feedcheck.checks.schedule_rules` compare them."""
+
+from __future__ import annotations
+
+from typing import TYPE_CHECKING
+
+import numpy as np
+
+from ..errors import ProblemList
+from ..units import VoltageSystem
+from .schedule_rules import per_unique
+
+if TYPE_CHECKING:
+    import pandas as pd
+
+
+def circuit_electrics(c: pd.DataFrame, load_unit: str, system: VoltageSystem):
+    """Nominal voltage, load VA, current and drop circuit kind of every circuit.
+
+    Load: ``[VA]`` as given; ``[W]`` divided by the power factor; ``[A]`` times the
+    circuit's volts per ampere (line-to-neutral for one pole, line-to-line for two,
+    √3 · V_LL for three poles on a three-phase panel).
+    """
+    from ..calc.power import SQRT3
+
+    poles = c["poles"].to_numpy()
+    three = system.phases == 3
+    vln = system.neutral_v if system.neutral_v is not None else system.line_v
+    vll = system.line_v
+    # volts per ampere of load: VA = I · kv
+    kv = np.where(poles == 1, vln, np.where((poles == 3) & three, SQRT3 * vll, vll))
+    nominal_v = np.where(poles == 1, vln, vll)
+    kind = np.where(poles == 1, "ln4w", np.where((poles == 3) & three, "3ph", "1ph2w"))
+    val = c["load_value"].to_numpy(float)
+    pf = c["pf"].to_numpy(float)
+    if load_unit == "A":
+        load_va = val * kv
+    elif load_unit == "W":
+        load_va = val / pf
+    else:
+        load_va = val
+    return nominal_v, load_va, load_va / kv, kind
+
+
+def ampacities(c: pd.DataFrame, problems: ProblemList):
+    """Derated ampacity, ampacity before correction (termination column) and the
+    termination temperature of every circuit; a size the table lacks is an input problem."""
+    from ..calc.ampacity import COLUMNS_C, ampacity_a, ampacity_tables, termination_c_for
+    from ..calc.conductor import material_index, size_index
+
+    size = c["size"].to_numpy(object)
+    mat = c["material"].to_numpy(object)
+    breaker = c["breaker_a"].to_numpy(float)
+    term = c["termination_c"].to_numpy(float)
+    term = np.where(np.isnan(term), per_unique(termination_c_for, breaker, size), term)
+    t = ampacity_tables()
+    idx = per_unique(size_index, size)
+    m = per_unique(material_index, mat)
+    cols = np.asarray(COLUMNS_C)
+    ins = c["insulation_c"].to_numpy(float)
+    ci = np.searchsorted(cols, ins)
+    ct = np.searchsorted(cols, term)
+    missing = np.isnan(t.raceway_a[m, ci, idx]) | np.isnan(t.raceway_a[m, ct, idx])
+    for i in np.flatnonzero(missing)[:50]:
+        problems.add(
+            f"row {c['row'].iat[i]}, column 'conductor'",
+            f"{size[i]} {mat[i]}",
+            "a size the ampacity table lists for that material (14 AWG … 2000 kcmil "
+            "Cu, 12 AWG … 2000 kcmil Al)",
+        )
+    problems.raise_if_any()
+    # the kernels once per distinct conductor and conditions, spread over the circuits
+    derated = per_unique(
+        ampacity_a,
+        size,
+        mat,
+        ins,
+        c["ambient_c"].to_numpy(float),
+        c["current_carrying"].to_numpy(),
+        term,
+    )
+    unadjusted = per_unique(
+        lambda s, m, i, t: ampacity_a(s, m, i, 30.0, 3, t), size, mat, ins, term
+    )
+    return np.asarray(derated, float), np.asarray(unadjusted, float), term
+
+
+def min_phase_area(breaker, mat, ins, term, size):
+    """Area [mm²] of the smallest conductor of the same material and size system that the
+    breaker protects (240.4, at the circuit's insulation and termination columns): the
+    "minimum size that has sufficient ampacity" of 250.122(B). One call per distinct row."""
+    from ..calc.ampacity import ampacity_a
+    from ..calc.protection import max_device_a
+    from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
+
+    out = np.empty(len(breaker))
+    for k, (b, m, i, t, sz) in enumerate(zip(breaker, mat, ins, term, size, strict=True)):
+        order = AWG_KCMIL_ORDER if SIZES[sz].system == "awg" else METRIC_ORDER
+        out[k] = SIZES[sz].area_mm2
+        for name in order:
+            if SIZES[name].area_mm2 >= SIZES[sz].area_mm2:
+                break
+            try:
+                amp = float(ampacity_a(name, m, i, 30.0, 3, t))
+            except ValueError:
+                continue
+            if float(max_device_a(amp, name, m)) >= b - 1e-9:
+                out[k] = SIZES[name].area_mm2
+                break
+    return out
+
+
+def egc_required_area(breaker, gmat, size, mat, min_area):
+    """Least EGC area [mm²] by Table 250.122, increased in proportion to the circuit
+    conductors' area over the minimum size (250.122(B)), capped at the circuit
+    conductors (250.122(A))."""
+    from ..calc.conductor import AREA_MM2, conductor_data, material_index, size_index
+    from ..calc.protection import protection_tables
+
+    t = protection_tables()
+    row = np.searchsorted(t.egc_up_to_a, breaker * (1 - 1e-12), side="left")
+    row = np.minimum(row, len(t.egc_up_to_a) - 1)
+    cu = AREA_MM2[size_index(np.array(t.egc_cu))]
+    al = AREA_MM2[size_index(np.array(t.egc_al))]
+    gm = material_index(gmat)
+    table_area = np.where(gm == 0, cu[row], al[row])
+    phase_area = AREA_MM2[size_index(size)]
+    # the installed ground is a standard size, so comparing its area with the grown area
+    # is the same as rounding the grown area up to the next standard size
+    need = table_area * np.maximum(phase_area / min_area, 1.0)
+    rho = conductor_data().rho20
+    pm = material_index(mat)
+    cap = phase_area * rho[gm] / rho[pm]
+    return np.minimum(need, cap), table_area
+
+
+def _device_limits(q: dict) -> None:
+    """Breaker and conductor limits: 240.6(A), 210.19/210.20, 240.4(B)/(D), 430.22/430.52."""
+    from ..calc.conductor import material_index, size_index
+    from ..calc.protection import (
+        max_device_a,
+        next_standard_rating_a,
+        protection_tables,
+        standard_ratings_a,
+    )
+
+    breaker, current, size, mat = q["breaker_a"], q["current_a"], q["size"], q["material"]
+    cont, motor = q["continuous"], q["motor"]
+    q["breaker_standard"] = np.isin(breaker, standard_ratings_a("breaker"))
+    q["need_breaker_a"] = np.where(cont, 1.25 * current, current)
+    q["need_conductor_a"] = np.where(cont, 1.25 * current, current)
+    q["motor_conductor_a"] = 1.25 * current
+    q["small_max_a"] = protection_tables().small_limit_a[
+        per_unique(material_index, mat), per_unique(size_index, size)
+    ]
+    q["max_device_a"] = np.asarray(per_unique(max_device_a, q["ampacity_a"], size, mat), float)
+    motor_max = np.zeros(len(breaker))
+    if motor.any():
+        motor_max[motor] = next_standard_rating_a(np.minimum(2.5 * current[motor], 6000.0))
+    q["motor_max_a"] = motor_max
+    q["not_motor"] = ~motor
+    q["not_motor_within_small"] = ~motor & ~(breaker > q["small_max_a"] + 1e-9)
+
+
+def _grounding(q: dict, c: pd.DataFrame) -> None:
+    """Installed and required EGC area of circuits that give a ground (250.122)."""
+    from ..calc.conductor import AREA_MM2, size_index
+
+    n = len(c)
+    gsize = c["ground_size"].to_numpy(object)
+    has_g = gsize != ""
+    g_ok = np.ones(n, bool)
+    g_area = np.zeros(n)
+    g_need = np.zeros(n)
+    if has_g.any():
+        breaker, mat, size, term = q["breaker_a"], q["material"], q["size"], q["termination_c"]
+        gm = c["ground_material"].to_numpy(object)
+        ins_c = c["insulation_c"].to_numpy(float)
+        min_area = per_unique(
+            min_phase_area, breaker[has_g], mat[has_g], ins_c[has_g], term[has_g], size[has_g]
+        )
+        need, _table = per_unique(
+            egc_required_area, breaker[has_g], gm[has_g], size[has_g], mat[has_g], min_area
+        )
+        g_need[has_g] = need
+        g_area[has_g] = AREA_MM2[per_unique(size_index, gsize[has_g])]
+        g_ok[has_g] = g_area[has_g] >= need * (1 - 1e-9)
+    q.update(ground_size=gsize, ground_ok=g_ok, ground_area_mm2=g_area, ground_need_mm2=g_need)
+
+
+def _voltage_drop(q: dict, c: pd.DataFrame, nominal_v, vd_kind, feeder_drop_pct) -> None:
+    """Branch drop by the approximate form at 75 °C, and the total with the feeder's."""
+    import pandas as pd
+
+    from ..calc.conductor import ac_impedance_ohm_per_m
+    from ..calc.vdrop import voltage_drop_approximate_v
+
+    n = len(c)
+    r_m, x_m = per_unique(
+        lambda s, m, r: ac_impedance_ohm_per_m(s, m, r, 75.0),
+        q["size"],
+        q["material"],
+        c["raceway"].to_numpy(object),
+    )
+    vd_v = voltage_drop_approximate_v(q["current_a"], r_m, x_m, q["length_m"], q["pf"], vd_kind)
+    vd_pct = 100.0 * np.asarray(vd_v, float) / nominal_v
+    panel = q["panel"]
+    if isinstance(feeder_drop_pct, dict):
+        feeder = np.array([float(feeder_drop_pct.get(p, 0.0)) for p in pd.unique(panel)])[
+            pd.factorize(panel)[0]
+        ]
+    else:
+        feeder = np.full(n, float(feeder_drop_pct))
+    q["vdrop_pct"] = vd_pct
+    q["total_vdrop_pct"] = vd_pct + feeder
+
+
+def circuit_quantities(
+    c: pd.DataFrame, load_unit: str, system: VoltageSystem, feeder_drop_pct, limits, problems
+) -> dict:
+    """Every per-circuit quantity the rules compare, by name (arrays of one per circuit,
+    or scalars)."""
+    nominal_v, load_va, current, vd_kind = circuit_electrics(c, load_unit, system)
+    derated, unadjusted, term = ampacities(c, problems)
+    poles = c["poles"].to_numpy()
+    kind = c["kind"].to_numpy(object)
+    q = {
+        "panel": c["panel"].to_numpy(object),
+        "circuit": c["circuit"].to_numpy(),
+        "poles": poles,
+        "poles_f": poles.astype(float),
+        "breaker_a": c["breaker_a"].to_numpy(float),
+        "size": c["size"].to_numpy(object),
+        "material": c["material"].to_numpy(object),
+        "kind": kind,
+        "continuous": c["continuous"].to_numpy(bool),
+        "pf": c["pf"].to_numpy(float),
+        "length_m": c["length_m"].to_numpy(float),
+        "motor": kind == "motor",
+        "load_va": load_va,
+        "current_a": current,
+        "vd_kind": vd_kind,
+        "ampacity_a": derated,
+        "unadjusted_a": unadjusted,
+        "termination_c": term,
+        "max_poles": float(3 if system.phases == 3 else 2),
+        "phases": system.phases,
+        "system": system.text,
+        "two": 2.0,
+        "neutral_ok": ~((poles == 1) & (system.neutral_v is None)),
+        "branch_limit_pct": limits["branch"].max_pct,
+        "total_limit_pct": limits["total"].max_pct,
+    }
+    _device_limits(q)
+    _grounding(q, c)
+    _voltage_drop(q, c, nominal_v, vd_kind, feeder_drop_pct)
+    return q

@@ -1,0 +1,503 @@
+"""Panel schedule checks: every circuit at once (whole columns, no loop per row), phase
+balance, connected and demand load.
+
+Per circuit (rules in ``tables/schedule_rules.csv`` and ``tables/voltage_drop_limits.csv``):
+
+* breaker vs load — at least 125 % of a continuous load, 100 % otherwise (210.20(A));
+* conductor vs load — ampacity at the termination column before correction at least
+  125 % continuous + 100 % noncontinuous (210.19(A)(1)(a)); after ambient correction and
+  adjustment at least the load (210.19(A)(1)(b)); motor circuits 125 % of full-load
+  current (430.22);
+* conductor vs breaker — 240.4(B) next size up and the 240.4(D) small-conductor limits;
+  motor circuits instead: inverse-time breaker at most 250 % of full-load current, next
+  standard rating up permitted (430.52(C)(1));
+* equipment grounding conductor vs breaker (Table 250.122, not larger than the circuit
+  conductors), where a ground is given;
+* branch voltage drop, and total drop adding the panel's feeder drop;
+* poles vs the panel's phases, one-pole circuits only where a neutral exists.
+
+Phases: circuits are mapped to phases by the usual panelboard numbering (odd numbers one
+side, even the other; each pair of rows on the next phase: 1,2 → A; 3,4 → B; 5,6 → C;
+7,8 → A … for three-phase, A/B alternating for single-phase three-wire; a multi-pole
+circuit n takes spaces n, n+2, …) — common practice, no source.
+
+Load of a circuit: ``[VA]`` as given; ``[W]`` divided by the power factor; ``[A]`` times
+the circuit voltage (line-to-neutral for one pole, line-to-line for two, √3 · V_LL for
+three poles on a three-phase panel). A multi-pole load is shared equally by its poles in
+the per-phase totals (common practice, no source).
+
+Demand load (``tables/demand_factors.csv``, kernel :mod:`feedcheck.calc.demand`):
+lighting by occupancy (Table 220.42), receptacles 10 kVA at 100 % and the rest at 50 %
+(220.44), motors 100 % plus 25 % of the largest (430.24), heating and other loads 100 %.
+The continuous portion is carried separately; the feeder and panel checks apply its
+125 %. It is computed once per panel (:func:`schedule_demand`): the runner hands the
+same figures to the feed walk and to :func:`check_schedule`.
+
+The per-circuit rules are data (:data:`feedcheck.checks.schedule_rules.CIRCUIT_RULES`),
+their quantities come from :mod:`feedcheck.checks.schedule_circuits`.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import TYPE_CHECKING
+
+import numpy as np
+
+from ..calc.demand import KINDS, PanelDemand, Tiers, panel_demand
+from ..errors import ProblemList
+from ..findings import SEVERITY, Finding
+from ..schedule import Schedule
+from ..units import VoltageSystem
+from .context import Load
+from .schedule_circuits import circuit_electrics, circuit_quantities
+from .schedule_rules import apply_rules, circuit_findings
+
+if TYPE_CHECKING:
+    import pandas as pd
+
+OCCUPANCIES = ("other", "dwelling", "hospital", "hotel", "warehouse")
+CIRCUIT_COLUMNS = (
+    "panel",
+    "circuit",
+    "description",
+    "poles",
+    "phase",
+    "kind",
+    "load_va",
+    "current_a",
+    "breaker_a",
+    "size",
+    "material",
+    "length_m",
+    "ampacity_a",
+    "vdrop_pct",
+    "total_vdrop_pct",
+    "status",
+    "reason",
+    "row",
+)
+
+
+@dataclass
+class ScheduleResult:
+    """Checked schedule of one file (one panel, or several with a ``panel`` column).
+
+    Attributes
+    ----------
+    circuits : DataFrame
+        One row per circuit: :data:`CIRCUIT_COLUMNS`.
+    totals : dict
+        label → value for the (first) panel: connected, demand, continuous and design VA,
+        per-phase VA, imbalance %, design current. For a multi-panel file see ``panels``.
+    panels : DataFrame
+        The same figures, one row per panel.
+    findings : list of Finding
+        One per failing or warning circuit check (subject ``"LP1/7"``) plus the panel ones.
+        A plain list; :func:`check_schedule` builds it on first use (one object per
+        failing circuit check is costly on a large schedule, and many callers only want
+        the circuits table), then it is kept and may be changed like any list.
+    demand : Load
+        Demand load of the (first) panel, for the feed walk; ``demands`` has every panel.
+    """
+
+    path: Path
+    system: str
+    circuits: pd.DataFrame
+    totals: dict
+    panels: pd.DataFrame
+    findings: list[Finding]
+    demand: Load
+    demands: dict[str, Load] = field(default_factory=dict)
+
+    @property
+    def exit_code(self) -> int:
+        f = self.__dict__["_findings"]
+        if isinstance(f, _Deferred):
+            return 1 if f.any_fail else 0
+        return 1 if any(f.status == "fail" for f in self.findings) else 0
+
+    def __getstate__(self) -> dict:
+        """Copies and pickles hold the built list."""
+        _get_findings(self)
+        return dict(self.__dict__)
+
+
+class _Deferred:
+    """Findings not built yet: ``build()`` makes the list; ``any_fail`` says whether it
+    holds a failing one."""
+
+    __slots__ = ("any_fail", "build")
+
+    def __init__(self, build, any_fail: bool):
+        self.build = build
+        self.any_fail = any_fail
+
+
+def _get_findings(self) -> list[Finding]:
+    f = self.__dict__["_findings"]
+    if isinstance(f, _Deferred):
+        f = self.__dict__["_findings"] = f.build()
+    return f
+
+
+def _set_findings(self, value) -> None:
+    self.__dict__["_findings"] = value
+
+
+# the dataclass __init__ assigns ``findings`` through this property (a list, or _Deferred)
+ScheduleResult.findings = property(
+    _get_findings,
+    _set_findings,  # type: ignore[assignment]
+    doc="Findings: a list, built on first use.",
+)
+
+
+# --------------------------------------------------------------------------- demand
+def demand_tiers(occupancy: str = "other") -> dict[str, list[tuple[float, float, float]]]:
+    """Demand tiers by load kind from ``tables/demand_factors.csv`` for an occupancy.
+
+    Examples
+    --------
+    >>> demand_tiers()["receptacle"]
+    [(0.0, 10000.0, 1.0), (10000.0, inf, 0.5)]
+    """
+    from ..tables import load_table
+
+    if occupancy not in OCCUPANCIES:
+        raise ValueError(f"occupancy: got {occupancy!r}; expected one of {', '.join(OCCUPANCIES)}")
+    t = load_table("demand_factors").data
+    out: dict[str, list[tuple[float, float, float]]] = {}
+    for r in t.itertuples(index=False):
+        if r.kind == "lighting" and r.occupancy != occupancy:
+            continue
+        out.setdefault(str(r.kind), []).append((float(r.from_va), float(r.to_va), float(r.factor)))
+    return out
+
+
+@dataclass(frozen=True)
+class ScheduleDemand:
+    """Demand of every panel of one schedule, computed once (:func:`schedule_demand`)."""
+
+    occupancy: str
+    load_va: np.ndarray  # per circuit [VA]
+    panel_code: np.ndarray  # per circuit
+    panel_ids: tuple[str, ...]
+    figures: PanelDemand
+    continuous_factor: float
+
+    @property
+    def loads(self) -> dict[str, Load]:
+        f = self.figures
+        return {
+            pid: Load(float(f.demand_va[j]), float(f.continuous_va[j]), float(f.real_w[j]))
+            for j, pid in enumerate(self.panel_ids)
+        }
+
+    @property
+    def load(self) -> Load:
+        """Demand load of the (first) panel, for the feed walk."""
+        return self.loads[self.panel_ids[0]]
+
+
+def schedule_demand(
+    schedule: Schedule, system: VoltageSystem, occupancy: str = "other"
+) -> ScheduleDemand:
+    """Connected and demand load of every panel of a schedule (no circuit checks)."""
+    import pandas as pd
+
+    tiers = demand_tiers(occupancy)
+    c = schedule.circuits
+    _v, load_va, _i, _k = circuit_electrics(c, schedule.load_unit, system)
+    codes, ids = pd.factorize(pd.Series(c["panel"].to_numpy(object)))
+    kcode = np.asarray(pd.Categorical(c["kind"].to_numpy(object), categories=KINDS).codes)
+    figures = panel_demand(
+        kcode,
+        load_va,
+        c["continuous"].to_numpy(bool),
+        c["pf"].to_numpy(float),
+        codes,
+        len(ids),
+        {k: _tiers(rows) for k, rows in tiers.items()},
+        tiers["motor-largest"][0][2],
+    )
+    return ScheduleDemand(
+        occupancy,
+        load_va,
+        np.asarray(codes),
+        tuple(str(p) for p in ids),
+        figures,
+        tiers["continuous"][0][2],
+    )
+
+
+def _tiers(rows: list[tuple[float, float, float]]) -> Tiers:
+    """Tiers of one kind from its (from_va, to_va, factor) rows."""
+    lo, hi, f = (np.array(col, float) for col in zip(*rows, strict=True))
+    return Tiers(lo, hi, f)
+
+
+def demand_load(schedule: Schedule, system: VoltageSystem, occupancy: str = "other") -> Load:
+    """Demand load of a one-panel schedule (for the feed walk), without the circuit
+    checks; the same figures as ``check_schedule(...).demand``."""
+    return schedule_demand(schedule, system, occupancy).load
+
+
+# --------------------------------------------------------------------------- the check
+def _rule_rows() -> dict[str, dict]:
+    from ..tables import load_table
+
+    t = load_table("schedule_rules").data
+    return {r["rule_id"]: r for r in t.to_dict("records")}
+
+
+def check_schedule(
+    schedule: Schedule,
+    system: VoltageSystem,
+    feeder_drop_pct: float | dict[str, float] = 0.0,
+    occupancy: str = "other",
+    bus_a: float | None = None,
+    main_a: float | None = None,
+    limits: dict | None = None,
+    demand: ScheduleDemand | None = None,
+) -> ScheduleResult:
+    """Check every circuit of a schedule and total its panel(s).
+
+    Parameters
+    ----------
+    schedule : Schedule
+        From :func:`feedcheck.schedule.read_schedule`.
+    system : VoltageSystem
+        The panel's nominal system (``208Y/120 V``, ``120/240 V`` …).
+    feeder_drop_pct : float or dict
+        Voltage drop from the source to the panel [%] (one figure, or per panel id).
+    occupancy : str
+        Lighting demand occupancy: other, dwelling, hospital, hotel, warehouse.
+    bus_a, main_a : float, optional
+        Panel bus and main device ratings [A]; when given, held against the design
+        current (demand with continuous at 125 %).
+    limits : dict of DropLimit, optional
+        The job's drop limits (:func:`feedcheck.checks.drop_rules.drop_limits`; its
+        ``branch`` and ``total``); default: the recommended rule rows.
+    demand : ScheduleDemand, optional
+        Its demand from :func:`schedule_demand` (same system and occupancy), if known.
+
+    Returns ScheduleResult; raises InputError (a conductor the ampacity table does not
+    list for its material) or ValueError (an unknown occupancy).
+
+    Examples
+    --------
+    >>> import tempfile, pathlib
+    >>> from feedcheck.schedule import read_schedule
+    >>> from feedcheck.units import parse_voltage_system
+    >>> d = pathlib.Path(tempfile.mkdtemp())
+    >>> _ = (d / "LP1.csv").write_text("circuit,load [VA],breaker [A],conductor,length [ft]\\n"
+    ...                                "1,1800,20,12 AWG Cu,60\\n2,2400,15,14 AWG Cu,40\\n")
+    >>> r = check_schedule(read_schedule(d / "LP1.csv"), parse_voltage_system("208Y/120 V"))
+    >>> r.circuits["status"].tolist(), r.totals["connected_va"]
+    (['ok', 'fail'], 4200.0)
+    """
+    if limits is None:
+        from .drop_rules import drop_limits
+
+        limits = drop_limits()
+    if demand is None:
+        demand = schedule_demand(schedule, system, occupancy)
+    rules = _rule_rows()
+    c = schedule.circuits
+    n = len(c)
+    q = circuit_quantities(
+        c, schedule.load_unit, system, feeder_drop_pct, limits, ProblemList(str(schedule.path))
+    )
+    sev, reason, found = apply_rules(q, n, {k: str(r["status"]) for k, r in rules.items()}, limits)
+    per_phase, phase_txt = _phases(q["poles"], q["circuit"], demand, system)
+    panels, design_va, imbalance = _panel_table(demand, per_phase, sev, system)
+    findings = _panel_findings(
+        panels, design_va, imbalance, per_phase, rules, system, bus_a, main_a
+    )
+    circuits = _circuits_frame(c, q, phase_txt, sev, reason)
+    totals = _totals(panels, demand, imbalance, n, occupancy, system)
+    any_fail = any(f[6] == "fail" for f in found) or any(f.status == "fail" for f in findings)
+    panel, circuit = q["panel"], q["circuit"]
+    deferred = _Deferred(lambda: circuit_findings(panel, circuit, found) + findings, any_fail)
+    demands = demand.loads
+    return ScheduleResult(
+        schedule.path,
+        system.text,
+        circuits,
+        totals,
+        panels,
+        deferred,
+        demands[str(panels["panel"].iat[0])],
+        demands,
+    )
+
+
+def _phase_of_space(space: np.ndarray, system: VoltageSystem) -> np.ndarray:
+    n_ph = 3 if system.phases == 3 else (2 if system.kind == "split" else 1)
+    return ((space - 1) // 2) % n_ph
+
+
+def _phases(poles, circuit, demand: ScheduleDemand, system: VoltageSystem):
+    """Per-phase VA of each panel (a multi-pole load shared equally by its poles) and the
+    phase letters of each circuit: every space a circuit takes."""
+    n = len(poles)
+    counts = poles.astype(np.int64)
+    owner = np.repeat(np.arange(n), counts)
+    step = np.arange(len(owner)) - np.repeat(np.cumsum(counts) - counts, counts)
+    space = circuit[owner].astype(np.int64) + 2 * step
+    ph = _phase_of_space(space, system)
+    n_pan = len(demand.panel_ids)
+    per_phase = np.bincount(
+        demand.panel_code[owner] * 3 + ph,
+        weights=(demand.load_va / counts)[owner],
+        minlength=3 * n_pan,
+    ).reshape(n_pan, 3)
+    letters = np.array(list("ABC"), dtype=object)
+    phase_txt = np.full(n, "", dtype=object)
+    for k in range(int(counts.max()) if n else 0):
+        sel = step == k
+        phase_txt[owner[sel]] = phase_txt[owner[sel]] + letters[ph[sel]]
+    return per_phase, phase_txt
+
+
+def _panel_table(demand: ScheduleDemand, per_phase, sev, system: VoltageSystem):
+    """One row per panel: connected, demand, continuous and design load, phases, imbalance."""
+    import pandas as pd
+
+    from ..calc.power import current_from_apparent_power_a
+
+    f = demand.figures
+    codes, n_pan = demand.panel_code, len(demand.panel_ids)
+    conn = f.connected_va
+    design_va = f.demand_va + (demand.continuous_factor - 1.0) * f.continuous_va
+    n_ph = 3 if system.phases == 3 else (2 if system.kind == "split" else 1)
+    used = per_phase[:, :n_ph]
+    avg = used.mean(axis=1)
+    imbalance = (
+        np.divide(np.abs(used - avg[:, None]).max(axis=1), avg, out=np.zeros(n_pan), where=avg > 0)
+        * 100.0
+        if n_ph > 1
+        else np.zeros(n_pan)
+    )
+    fail_n = np.bincount(codes, weights=sev == SEVERITY["fail"], minlength=n_pan)
+    warn_n = np.bincount(codes, weights=sev == SEVERITY["warn"], minlength=n_pan)
+    panels = pd.DataFrame(
+        {
+            "panel": np.asarray(demand.panel_ids, dtype=object),
+            "circuits": np.bincount(codes, minlength=n_pan),
+            "connected_va": conn.sum(axis=1),
+            "demand_va": f.demand_va,
+            "continuous_va": f.continuous_va,
+            "design_va": design_va,
+            "design_current_a": current_from_apparent_power_a(
+                design_va, system.line_v, system.phases
+            ),
+            "phase_a_va": per_phase[:, 0],
+            "phase_b_va": per_phase[:, 1],
+            "phase_c_va": per_phase[:, 2],
+            "imbalance_pct": imbalance,
+            "largest_motor_va": f.largest_motor_va,
+            **{f"{k}_va": conn[:, j] for j, k in enumerate(KINDS)},
+            "fail_circuits": fail_n.astype(int),
+            "warn_circuits": warn_n.astype(int),
+        }
+    )
+    return panels, design_va, imbalance
+
+
+def _panel_findings(panels, design_va, imbalance, per_phase, rules, system, bus_a, main_a):
+    """Phase balance of each panel, and its design current against bus and main device."""
+    from ..calc.power import current_from_apparent_power_a
+    from .compare import compare
+
+    n_ph = 3 if system.phases == 3 else (2 if system.kind == "split" else 1)
+    imb = rules["sched-imbalance"]
+    findings: list[Finding] = []
+    for j, pid in enumerate(panels["panel"]):
+        findings.append(
+            compare(
+                float(imbalance[j]),
+                float(imb["value"]),
+                "at_most",
+                imb,
+                str(pid),
+                "phase balance",
+                "%",
+                "largest phase deviation from the average phase load "
+                f"(A {per_phase[j, 0] / 1e3:.1f} / B {per_phase[j, 1] / 1e3:.1f}"
+                + (f" / C {per_phase[j, 2] / 1e3:.1f}" if n_ph == 3 else "")
+                + " kVA)",
+                tolerance=0.0,
+            )
+        )
+        i_d = float(current_from_apparent_power_a(design_va[j], system.line_v, system.phases))
+        for rid, what, rating in (
+            ("panel-bus-load", "bus rating", bus_a),
+            ("panel-main-load", "main device", main_a),
+        ):
+            if rating:
+                findings.append(
+                    compare(
+                        i_d,
+                        float(rating),
+                        "at_most",
+                        {"rule_id": rid, "status": "fail"},
+                        str(pid),
+                        f"demand vs {what}",
+                        "A",
+                        f"design current {i_d:.1f} A (continuous at 125 %) vs {what} {rating:g} A",
+                    )
+                )
+    return findings
+
+
+def _circuits_frame(c, q: dict, phase_txt, sev, reason):
+    import pandas as pd
+
+    status_names = np.array(["fail", "warn", "ok", "info"], dtype=object)
+    return pd.DataFrame(
+        {
+            "panel": q["panel"],
+            "circuit": q["circuit"],
+            "description": c["description"].to_numpy(object),
+            "poles": q["poles"],
+            "phase": phase_txt,
+            "kind": q["kind"],
+            "load_va": q["load_va"],
+            "current_a": q["current_a"],
+            "breaker_a": q["breaker_a"],
+            "size": q["size"],
+            "material": q["material"],
+            "length_m": q["length_m"],
+            "ampacity_a": q["ampacity_a"],
+            "vdrop_pct": q["vdrop_pct"],
+            "total_vdrop_pct": q["total_vdrop_pct"],
+            "status": status_names[sev],
+            "reason": reason,
+            "row": c["row"].to_numpy(),
+        }
+    )
+
+
+def _totals(panels, demand: ScheduleDemand, imbalance, n: int, occupancy: str, system) -> dict:
+    """The (first) panel's figures, or the sums of a multi-panel file."""
+    if len(panels) > 1:
+        f = demand.figures
+        return {
+            "panels": len(panels),
+            "circuits": n,
+            "connected_va": float(f.connected_va.sum()),
+            "demand_va": float(f.demand_va.sum()),
+            "worst_imbalance_pct": float(imbalance.max()),
+            "occupancy": occupancy,
+            "system": system.text,
+        }
+    totals = {
+        k: (float(v) if isinstance(v, (int, float, np.floating, np.integer)) else v)
+        for k, v in panels.iloc[0].to_dict().items()
+    }
+    totals["occupancy"] = occupancy
+    totals["system"] = system.text
+    return totals
