@@ -13,8 +13,9 @@ from __future__ import annotations
 
 import math
 import re
-from dataclasses import dataclass
 from functools import lru_cache
+
+from .model import VoltageSystem
 
 # Digits may be grouped by thousands with "," (1,200 ft) or by "_" (1_200 ft); a comma
 # in any other place ("1,5 m", a decimal comma) is refused rather than misread as 15 m.
@@ -68,6 +69,30 @@ _UNIT_ALIASES = {
     "hp": "hp",
 }
 
+
+FOOT_M = 0.3048  # metres per international foot (exact by definition)
+_FT = ("m", FOOT_M)
+_DEGC = ("degC", 1.0)
+# Unit words a schedule column header may carry ("load [kVA]", "length (m)"), lower case:
+# word -> (unit of the column's values once scaled, factor). A bare length is in feet.
+SCHEDULE_HEADER_UNITS: dict[str, dict[str, tuple[str, float]]] = {
+    "load": {
+        "va": ("VA", 1.0),
+        "kva": ("VA", 1e3),
+        "w": ("W", 1.0),
+        "kw": ("W", 1e3),
+        "a": ("A", 1.0),
+    },
+    "length": {
+        "": _FT,
+        "ft": _FT,
+        "feet": _FT,
+        "foot": _FT,
+        **dict.fromkeys(("m", "metre", "meter", "metres", "meters"), ("m", 1.0)),
+    },
+    "current": {"": ("A", 1.0), "a": ("A", 1.0)},
+    "temperature": {"": _DEGC, "c": _DEGC, "degc": _DEGC},
+}
 
 _APPARENT_RE = re.compile(r"^(?:[kMG]?VA|(?:kilo|mega|giga)?volt_?ampere)$")
 
@@ -222,37 +247,6 @@ def parse_quantity(
     if must_be_positive and not result > 0:
         raise UnitParseError(str(text), expected + " (greater than zero)")
     return result
-
-
-@dataclass(frozen=True)
-class VoltageSystem:
-    """A nominal system voltage as the trade writes it.
-
-    Attributes
-    ----------
-    line_v : float
-        Line-to-line voltage [V] (for a 120/240 V single-phase three-wire system, 240).
-    neutral_v : float | None
-        Line-to-neutral voltage [V] where a neutral exists (120 for 120/240 V).
-    phases : int
-        1 or 3.
-    kind : str
-        ``wye`` (``208Y/120``), ``delta`` (``480 V delta``), ``split`` (``120/240``,
-        single-phase three-wire), ``single`` (single-phase two-wire) or ``line``
-        (three-phase, winding not stated).
-    text : str
-        The text as written.
-    """
-
-    line_v: float
-    neutral_v: float | None
-    phases: int
-    kind: str
-    text: str
-
-    @property
-    def grounded_wye(self) -> bool:
-        return self.kind == "wye"
 
 
 _VS_EXPECTED = (
