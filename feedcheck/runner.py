@@ -6,7 +6,8 @@ from __future__ import annotations
 from pathlib import Path
 
 from .checks import check_job
-from .job import Job, read_job
+from .inputs.job_file import read_job
+from .model import Job
 from .results import Results
 
 
@@ -25,9 +26,8 @@ def load_and_check(job_file: str | Path) -> tuple[Job, Results]:
     if not schedules:
         return job, check_job(job)
     from .schedule_checks import check_schedule, demand_load
-    from .topology import build_tree
 
-    tree = build_tree(job)
+    tree = job.tree
     panels = {p.id: p for p in job.panels}
     # the walk needs each panel's demand; the circuits are checked once, after the walk
     # has given each panel its feeder drop
@@ -59,7 +59,7 @@ def load_and_check(job_file: str | Path) -> tuple[Job, Results]:
 def _read_job_schedules(job: Job) -> dict:
     """Each panel's schedule, read and validated; one InputError for all of them."""
     from .errors import InputError
-    from .schedule import read_schedule
+    from .inputs.schedule_file import read_schedule
 
     out, problems = {}, []
     for p in job.panels:

@@ -44,13 +44,11 @@ import numpy as np
 from .checks.context import Load
 from .errors import ProblemList
 from .findings import SEVERITY, Finding
-from .schedule import Schedule
-from .units import VoltageSystem
+from .model import LOAD_KINDS, OCCUPANCIES, Schedule, VoltageSystem
 
 if TYPE_CHECKING:
     import pandas as pd
 
-OCCUPANCIES = ("other", "dwelling", "hospital", "hotel", "warehouse")
 SQRT3 = math.sqrt(3.0)
 CIRCUIT_COLUMNS = (
     "panel",
@@ -371,7 +369,7 @@ def check_schedule(
     Parameters
     ----------
     schedule : Schedule
-        From :func:`feedcheck.schedule.read_schedule`.
+        From :func:`feedcheck.inputs.schedule_file.read_schedule`.
     system : VoltageSystem
         The panel's nominal system (``208Y/120 V``, ``120/240 V`` …).
     feeder_drop_pct : float or dict
@@ -398,7 +396,7 @@ def check_schedule(
     Examples
     --------
     >>> import tempfile, pathlib
-    >>> from feedcheck.schedule import read_schedule
+    >>> from feedcheck.inputs.schedule_file import read_schedule
     >>> from feedcheck.units import parse_voltage_system
     >>> d = pathlib.Path(tempfile.mkdtemp())
     >>> _ = (d / "LP1.csv").write_text("circuit,load [VA],breaker [A],conductor,length [ft]\\n"
@@ -850,7 +848,7 @@ def _panel_demand(kind, load_va, cont, pf, pan_codes, n_pan: int, tiers):
     of each panel (demand factors of ``tables/demand_factors.csv``)."""
     import pandas as pd
 
-    kinds = ("lighting", "receptacle", "motor", "heating", "other")
+    kinds = LOAD_KINDS
     kcode = np.asarray(pd.Categorical(kind, categories=kinds).codes, dtype=np.int64)
     conn = np.bincount(pan_codes * 5 + kcode, weights=load_va, minlength=5 * n_pan).reshape(
         n_pan, 5

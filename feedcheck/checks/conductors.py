@@ -11,7 +11,7 @@ from ..calc import protection as pk
 from ..calc import selection as sk
 from ..calc import withstand as wk
 from ..calc.sizes import SIZES
-from ..job import Run
+from ..model import Run
 from .context import Context
 
 SQRT3 = math.sqrt(3.0)

@@ -6,10 +6,9 @@ import math
 from dataclasses import dataclass, field
 
 from ..findings import Finding, Status
-from ..job import Job
+from ..model import Job, Tree
 from ..results import NodeResult, Sheet
 from ..tables import load_table
-from ..topology import Tree, build_tree
 
 
 @dataclass
@@ -88,8 +87,8 @@ def _f(v):
 
 
 def build_context(job: Job, panel_loads: dict[str, Load] | None = None) -> Context:
-    """Tree plus demand loads rolled up from the panels (own load + downstream)."""
-    tree = build_tree(job)
+    """The job's tree plus demand loads rolled up from the panels (own load + downstream)."""
+    tree = job.tree
     own: dict[str, Load] = {n: Load() for n in tree.order}
     for p in job.panels:
         if panel_loads and p.id in panel_loads:

@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from ..job import Panel
+from ..model import Panel
 from .context import Context
 
 

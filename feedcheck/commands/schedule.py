@@ -1,6 +1,6 @@
 """``feedcheck schedule``: check panel schedules (CSV/XLSX) circuit by circuit.
 
-Thin: parse the options, call :mod:`feedcheck.schedule`, :mod:`feedcheck.schedule_checks`
+Thin: parse the options, call :mod:`feedcheck.inputs.schedule_file`, :mod:`feedcheck.schedule_checks`
 and :mod:`feedcheck.schedule_export`, print. Heavy modules are imported in the body.
 """
 
@@ -12,6 +12,7 @@ from pathlib import Path
 import click
 
 from .. import CAUTION
+from ..model import OCCUPANCIES
 from .params import CURRENT, VOLTAGE_SYSTEM, QuantityType
 
 DROP = QuantityType("percent", must_be_positive=False)
@@ -65,8 +66,7 @@ def _expand(paths: tuple[str, ...]) -> list[Path]:
                    "matched to panels by the job's schedule paths.")
 @click.option("--feeder-drop", "feeder_drop", type=DROP, default="0%", show_default=True,
               help="Drop from the source to the panel, added for the total (with --system).")
-@click.option("--occupancy", type=click.Choice(["other", "dwelling", "hospital", "hotel",
-                                                "warehouse"]), default="other",
+@click.option("--occupancy", type=click.Choice(list(OCCUPANCIES)), default="other",
               show_default=True, help="Lighting demand factors (NFPA 70 Table 220.42).")
 @click.option("--bus", "bus_a", type=CURRENT, help="Panel bus rating, e.g. 225A (with --system).")
 @click.option("--main", "main_a", type=CURRENT, help="Main device rating (with --system).")
@@ -128,7 +128,7 @@ def _report_partial(done, files, why: str) -> None:
 
 def _from_files(files, system, feeder_drop, occupancy, bus_a, main_a, done):
     from ..errors import InputError
-    from ..schedule import read_schedule
+    from ..inputs.schedule_file import read_schedule
     from ..schedule_checks import check_schedule
 
     results, problems = [], []
@@ -184,16 +184,14 @@ def _from_job(job_file, files, occupancy):
 
 
 def _reread(job, pid):
-    from ..schedule import read_schedule
+    from ..inputs.schedule_file import read_schedule
 
     p = next(p for p in job.panels if p.id == pid)
     return read_schedule(p.schedule, panel_id=pid)
 
 
 def _voltage(job, pid):
-    from ..topology import build_tree
-
-    return build_tree(job).voltage_of[pid]
+    return job.tree.voltage_of[pid]
 
 
 def _summary(results, show_all: bool) -> str:
