@@ -194,23 +194,11 @@ def parse_quantity(
     >>> parse_quantity("35 degC", "temperature")
     35.0
     """
-    _dim_str, si_unit, example = DIMENSIONS[dimension]
+    example = DIMENSIONS[dimension][2]
     expected = f"a {dimension} with a unit, e.g. {example!r}"
-    if isinstance(text, bool):
-        raise UnitParseError(str(text), expected)
     if allow_inf and isinstance(text, str) and text.strip().lower() in ("infinite", "inf"):
         return math.inf
-    if isinstance(text, (int, float)):
-        if not allow_bare:
-            raise UnitParseError(str(text), expected + " (a bare number has no unit)")
-        value, unit = float(text), ""
-    else:
-        value, unit = split_number_unit(str(text))
-    if math.isnan(value):
-        raise UnitParseError(str(text), expected + " (not NaN)")
-    if math.isinf(value) and not allow_inf:
-        raise UnitParseError(str(text), expected + " (a finite number)")
-    unit = _normalise_unit(unit)
+    value, unit = _number_and_unit(text, expected, allow_bare=allow_bare, allow_inf=allow_inf)
     if not unit:
         if not allow_bare:
             raise UnitParseError(str(text), expected + " (the unit is missing)")
@@ -224,29 +212,55 @@ def parse_quantity(
             raise UnitParseError(str(text), expected)
         result = value
     else:
-        ureg = registry()
-        shown = unit if len(unit) <= 40 else unit[:37] + "..."
-        try:
-            q = Q_(value, unit)
-        except Exception:
-            raise UnitParseError(str(text), expected + f" ({shown!r} is not a unit)") from None
-        target = ureg.Unit("degC" if dimension == "temperature" else si_unit)
-        if q.dimensionality != target.dimensionality:
-            raise UnitParseError(str(text), expected)
-        try:
-            # a temperature difference (delta_degC) has the same dimension as a
-            # temperature but cannot be converted to one: refuse it, do not crash
-            converted = float(q.to(target).magnitude)
-        except Exception:
-            raise UnitParseError(str(text), expected + f" ({shown!r} does not convert)") from None
-        if not math.isfinite(converted):
-            raise UnitParseError(str(text), expected + " (a finite number)")
+        result = _convert(value, unit, dimension, str(text), expected)
         if dimension == "temperature":
-            return converted
-        result = converted
+            return result
     if must_be_positive and not result > 0:
         raise UnitParseError(str(text), expected + " (greater than zero)")
     return result
+
+
+def _number_and_unit(
+    text: object, expected: str, *, allow_bare: bool, allow_inf: bool
+) -> tuple[float, str]:
+    """The number and the (alias-resolved) unit a user wrote; refuses NaN, and infinity
+    unless allowed."""
+    if isinstance(text, bool):
+        raise UnitParseError(str(text), expected)
+    if isinstance(text, (int, float)):
+        if not allow_bare:
+            raise UnitParseError(str(text), expected + " (a bare number has no unit)")
+        value, unit = float(text), ""
+    else:
+        value, unit = split_number_unit(str(text))
+    if math.isnan(value):
+        raise UnitParseError(str(text), expected + " (not NaN)")
+    if math.isinf(value) and not allow_inf:
+        raise UnitParseError(str(text), expected + " (a finite number)")
+    return value, _normalise_unit(unit)
+
+
+def _convert(value: float, unit: str, dimension: str, text: str, expected: str) -> float:
+    """``value`` in ``unit`` converted by pint to the SI unit of ``dimension``."""
+    ureg = registry()
+    si_unit = DIMENSIONS[dimension][1]
+    shown = unit if len(unit) <= 40 else unit[:37] + "..."
+    try:
+        q = Q_(value, unit)
+    except Exception:
+        raise UnitParseError(text, expected + f" ({shown!r} is not a unit)") from None
+    target = ureg.Unit("degC" if dimension == "temperature" else si_unit)
+    if q.dimensionality != target.dimensionality:
+        raise UnitParseError(text, expected)
+    try:
+        # a temperature difference (delta_degC) has the same dimension as a
+        # temperature but cannot be converted to one: refuse it, do not crash
+        converted = float(q.to(target).magnitude)
+    except Exception:
+        raise UnitParseError(text, expected + f" ({shown!r} does not convert)") from None
+    if not math.isfinite(converted):
+        raise UnitParseError(text, expected + " (a finite number)")
+    return converted
 
 
 _VS_EXPECTED = (
