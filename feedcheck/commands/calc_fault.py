@@ -222,8 +222,8 @@ def fault_command(kva, primary, secondary, z_pct, x_r, source_fault, source_x_r,
         raise click.UsageError("--ground needs a run (--length and --size)")
     if primary.phases == 1 and secondary.phases == 3:
         raise click.UsageError("a single-phase --primary cannot feed a three-phase --secondary")
-    from ..inputs.defaults import typical_x_r
     from ..errors import InputError
+    from ..inputs.defaults import typical_x_r
 
     try:
         x_src = "given" if x_r is not None else "typical, tables/transformer_xr.csv"

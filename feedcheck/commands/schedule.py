@@ -1,7 +1,8 @@
 """``feedcheck schedule``: check panel schedules (CSV/XLSX) circuit by circuit.
 
-Thin: parse the options, call :mod:`feedcheck.inputs.schedule_file`, :mod:`feedcheck.schedule_checks`
-and :mod:`feedcheck.schedule_export`, print. Heavy modules are imported in the body.
+Thin: parse the options, call :mod:`feedcheck.inputs.schedule_file`,
+:mod:`feedcheck.schedule_checks` and :mod:`feedcheck.schedule_export`, print. Heavy
+modules are imported in the body.
 """
 
 from __future__ import annotations
