@@ -7,7 +7,8 @@ from __future__ import annotations
 from pathlib import Path
 
 from .checks import check_job
-from .job import Job, read_job
+from .inputs.job_file import read_job
+from .model import Job
 from .results import Results
 
 
@@ -43,9 +44,8 @@ def check_job_with_schedules(job: Job, schedules: dict, calc_date: str | None = 
         return check_job(job, calc_date=calc_date)
     from .checks.drop_rules import job_drop_limits
     from .checks.schedules import check_schedule, schedule_demand
-    from .topology import build_tree
 
-    tree = build_tree(job)
+    tree = job.tree
     panels = {p.id: p for p in job.panels}
     demands = {
         pid: schedule_demand(s, tree.voltage_of[pid], panels[pid].occupancy)
@@ -75,7 +75,7 @@ def check_job_with_schedules(job: Job, schedules: dict, calc_date: str | None = 
 def _read_job_schedules(job: Job) -> dict:
     """Each panel's schedule, read and validated; one InputError for all of them."""
     from .errors import InputError, Problem
-    from .schedule import read_schedule
+    from .inputs.schedule_file import read_schedule
 
     out, problems = {}, []
     for p in job.panels:

@@ -4,7 +4,7 @@ CSV, XLSX or JSON by the output file's suffix; written atomically (a temporary f
 beside the target, renamed on success, removed on any error or interrupt). Text cells
 that a spreadsheet would read as a formula (``= + - @``, tab, carriage return) get a
 leading quote in CSV and XLSX. Renderers compute nothing: figures come from
-:class:`~feedcheck.schedule_checks.ScheduleResult`.
+:class:`~feedcheck.checks.schedules.ScheduleResult`.
 """
 
 from __future__ import annotations

@@ -13,8 +13,9 @@ from __future__ import annotations
 
 import math
 import re
-from dataclasses import dataclass
 from functools import lru_cache
+
+from .model import VoltageSystem
 
 # Digits may be grouped by thousands with "," (1,200 ft) or by "_" (1_200 ft); a comma
 # in any other place ("1,5 m", a decimal comma) is refused rather than misread as 15 m.
@@ -68,6 +69,30 @@ _UNIT_ALIASES = {
     "hp": "hp",
 }
 
+
+FOOT_M = 0.3048  # metres per international foot (exact by definition)
+_FT = ("m", FOOT_M)
+_DEGC = ("degC", 1.0)
+# Unit words a schedule column header may carry ("load [kVA]", "length (m)"), lower case:
+# word -> (unit of the column's values once scaled, factor). A bare length is in feet.
+SCHEDULE_HEADER_UNITS: dict[str, dict[str, tuple[str, float]]] = {
+    "load": {
+        "va": ("VA", 1.0),
+        "kva": ("VA", 1e3),
+        "w": ("W", 1.0),
+        "kw": ("W", 1e3),
+        "a": ("A", 1.0),
+    },
+    "length": {
+        "": _FT,
+        "ft": _FT,
+        "feet": _FT,
+        "foot": _FT,
+        **dict.fromkeys(("m", "metre", "meter", "metres", "meters"), ("m", 1.0)),
+    },
+    "current": {"": ("A", 1.0), "a": ("A", 1.0)},
+    "temperature": {"": _DEGC, "c": _DEGC, "degc": _DEGC},
+}
 
 _APPARENT_RE = re.compile(r"^(?:[kMG]?VA|(?:kilo|mega|giga)?volt_?ampere)$")
 
@@ -169,23 +194,11 @@ def parse_quantity(
     >>> parse_quantity("35 degC", "temperature")
     35.0
     """
-    _dim_str, si_unit, example = DIMENSIONS[dimension]
+    example = DIMENSIONS[dimension][2]
     expected = f"a {dimension} with a unit, e.g. {example!r}"
-    if isinstance(text, bool):
-        raise UnitParseError(str(text), expected)
     if allow_inf and isinstance(text, str) and text.strip().lower() in ("infinite", "inf"):
         return math.inf
-    if isinstance(text, (int, float)):
-        if not allow_bare:
-            raise UnitParseError(str(text), expected + " (a bare number has no unit)")
-        value, unit = float(text), ""
-    else:
-        value, unit = split_number_unit(str(text))
-    if math.isnan(value):
-        raise UnitParseError(str(text), expected + " (not NaN)")
-    if math.isinf(value) and not allow_inf:
-        raise UnitParseError(str(text), expected + " (a finite number)")
-    unit = _normalise_unit(unit)
+    value, unit = _number_and_unit(text, expected, allow_bare=allow_bare, allow_inf=allow_inf)
     if not unit:
         if not allow_bare:
             raise UnitParseError(str(text), expected + " (the unit is missing)")
@@ -199,60 +212,55 @@ def parse_quantity(
             raise UnitParseError(str(text), expected)
         result = value
     else:
-        ureg = registry()
-        shown = unit if len(unit) <= 40 else unit[:37] + "..."
-        try:
-            q = Q_(value, unit)
-        except Exception:
-            raise UnitParseError(str(text), expected + f" ({shown!r} is not a unit)") from None
-        target = ureg.Unit("degC" if dimension == "temperature" else si_unit)
-        if q.dimensionality != target.dimensionality:
-            raise UnitParseError(str(text), expected)
-        try:
-            # a temperature difference (delta_degC) has the same dimension as a
-            # temperature but cannot be converted to one: refuse it, do not crash
-            converted = float(q.to(target).magnitude)
-        except Exception:
-            raise UnitParseError(str(text), expected + f" ({shown!r} does not convert)") from None
-        if not math.isfinite(converted):
-            raise UnitParseError(str(text), expected + " (a finite number)")
+        result = _convert(value, unit, dimension, str(text), expected)
         if dimension == "temperature":
-            return converted
-        result = converted
+            return result
     if must_be_positive and not result > 0:
         raise UnitParseError(str(text), expected + " (greater than zero)")
     return result
 
 
-@dataclass(frozen=True)
-class VoltageSystem:
-    """A nominal system voltage as the trade writes it.
+def _number_and_unit(
+    text: object, expected: str, *, allow_bare: bool, allow_inf: bool
+) -> tuple[float, str]:
+    """The number and the (alias-resolved) unit a user wrote; refuses NaN, and infinity
+    unless allowed."""
+    if isinstance(text, bool):
+        raise UnitParseError(str(text), expected)
+    if isinstance(text, (int, float)):
+        if not allow_bare:
+            raise UnitParseError(str(text), expected + " (a bare number has no unit)")
+        value, unit = float(text), ""
+    else:
+        value, unit = split_number_unit(str(text))
+    if math.isnan(value):
+        raise UnitParseError(str(text), expected + " (not NaN)")
+    if math.isinf(value) and not allow_inf:
+        raise UnitParseError(str(text), expected + " (a finite number)")
+    return value, _normalise_unit(unit)
 
-    Attributes
-    ----------
-    line_v : float
-        Line-to-line voltage [V] (for a 120/240 V single-phase three-wire system, 240).
-    neutral_v : float | None
-        Line-to-neutral voltage [V] where a neutral exists (120 for 120/240 V).
-    phases : int
-        1 or 3.
-    kind : str
-        ``wye`` (``208Y/120``), ``delta`` (``480 V delta``), ``split`` (``120/240``,
-        single-phase three-wire), ``single`` (single-phase two-wire) or ``line``
-        (three-phase, winding not stated).
-    text : str
-        The text as written.
-    """
 
-    line_v: float
-    neutral_v: float | None
-    phases: int
-    kind: str
-    text: str
-
-    @property
-    def grounded_wye(self) -> bool:
-        return self.kind == "wye"
+def _convert(value: float, unit: str, dimension: str, text: str, expected: str) -> float:
+    """``value`` in ``unit`` converted by pint to the SI unit of ``dimension``."""
+    ureg = registry()
+    si_unit = DIMENSIONS[dimension][1]
+    shown = unit if len(unit) <= 40 else unit[:37] + "..."
+    try:
+        q = Q_(value, unit)
+    except Exception:
+        raise UnitParseError(text, expected + f" ({shown!r} is not a unit)") from None
+    target = ureg.Unit("degC" if dimension == "temperature" else si_unit)
+    if q.dimensionality != target.dimensionality:
+        raise UnitParseError(text, expected)
+    try:
+        # a temperature difference (delta_degC) has the same dimension as a
+        # temperature but cannot be converted to one: refuse it, do not crash
+        converted = float(q.to(target).magnitude)
+    except Exception:
+        raise UnitParseError(text, expected + f" ({shown!r} does not convert)") from None
+    if not math.isfinite(converted):
+        raise UnitParseError(text, expected + " (a finite number)")
+    return converted
 
 
 _VS_EXPECTED = (

@@ -32,6 +32,7 @@ from functools import lru_cache
 
 import numpy as np
 
+from ..model import MATERIALS, RACEWAYS
 from .sizes import SIZES, SizeError, parse_size
 
 FT_PER_KFT = 1000.0
@@ -41,8 +42,6 @@ MU0_OVER_2PI = 2e-7  # H/m, μ0/(2π)
 FREQUENCY_HZ = 60.0
 STRAND_DIAMETER_FACTOR = 1.15  # class 2 round stranded diameter / solid diameter; common practice
 SPACING_FACTOR = 2.0  # effective centre spacing / overall diameter, random lay in a raceway
-MATERIALS = ("cu", "al")
-RACEWAYS = ("steel", "aluminum", "pvc", "cable", "free-air")
 SIZE_NAMES: tuple[str, ...] = tuple(SIZES)
 _SIZE_INDEX = {n: i for i, n in enumerate(SIZE_NAMES)}
 AREA_MM2 = np.array([SIZES[n].area_mm2 for n in SIZE_NAMES])

@@ -7,7 +7,7 @@ assembles :class:`~feedcheck.results.Results`.
 from __future__ import annotations
 
 from .. import __version__
-from ..job import Job
+from ..model import Job
 from ..results import NodeResult, Results
 from ..tables import load_table, table_names
 from .conductors import check_run

@@ -12,7 +12,7 @@ from ..calc import selection as sk
 from ..calc import withstand as wk
 from ..calc.power import current_from_apparent_power_a
 from ..calc.sizes import SIZES
-from ..job import Run
+from ..model import Run
 from .compare import passes
 from .context import Context
 

@@ -6,10 +6,9 @@ from dataclasses import dataclass, field
 
 from ..calc.power import current_from_apparent_power_a
 from ..findings import Finding, Status
-from ..job import Job
+from ..model import Job, Tree
 from ..results import NodeResult, Sheet
 from ..tables import load_table
-from ..topology import Tree, build_tree
 from .compare import TOLERANCE, Direction, compare
 
 
@@ -114,8 +113,8 @@ def _f(v):
 def build_context(
     job: Job, panel_loads: dict[str, Load] | None = None, calc_date: str | None = None
 ) -> Context:
-    """Tree plus demand loads rolled up from the panels (own load + downstream)."""
-    tree = build_tree(job)
+    """The job's tree plus demand loads rolled up from the panels (own load + downstream)."""
+    tree = job.tree
     own: dict[str, Load] = {n: Load() for n in tree.order}
     for p in job.panels:
         if panel_loads and p.id in panel_loads:

@@ -13,9 +13,8 @@ from dataclasses import dataclass
 
 from ..calc import conductor as ck
 from ..calc import fault as fk
-from ..job import Job, Run
+from ..model import Job, Run, Tree
 from ..tables import load_table
-from ..topology import Tree
 from .transformer import transformer_x_r
 
 SQRT3 = math.sqrt(3.0)

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from ..calc.power import current_from_apparent_power_a
-from ..job import Panel
+from ..model import Panel
 from .context import Context
 
 

@@ -9,7 +9,7 @@ from typing import TYPE_CHECKING
 import numpy as np
 
 from ..errors import ProblemList
-from ..units import VoltageSystem
+from ..model import VoltageSystem
 from .schedule_rules import per_unique
 
 if TYPE_CHECKING:

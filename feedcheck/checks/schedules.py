@@ -48,8 +48,7 @@ import numpy as np
 from ..calc.demand import KINDS, PanelDemand, Tiers, panel_demand
 from ..errors import ProblemList
 from ..findings import SEVERITY, Finding
-from ..schedule import Schedule
-from ..units import VoltageSystem
+from ..model import OCCUPANCIES, Schedule, VoltageSystem
 from .context import Load
 from .schedule_circuits import circuit_electrics, circuit_quantities
 from .schedule_rules import apply_rules, circuit_findings
@@ -57,7 +56,6 @@ from .schedule_rules import apply_rules, circuit_findings
 if TYPE_CHECKING:
     import pandas as pd
 
-OCCUPANCIES = ("other", "dwelling", "hospital", "hotel", "warehouse")
 CIRCUIT_COLUMNS = (
     "panel",
     "circuit",
@@ -289,7 +287,7 @@ def check_schedule(
     Examples
     --------
     >>> import tempfile, pathlib
-    >>> from feedcheck.schedule import read_schedule
+    >>> from feedcheck.inputs.schedule_file import read_schedule
     >>> from feedcheck.units import parse_voltage_system
     >>> d = pathlib.Path(tempfile.mkdtemp())
     >>> _ = (d / "LP1.csv").write_text("circuit,load [VA],breaker [A],conductor,length [ft]\\n"

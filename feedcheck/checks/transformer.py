@@ -7,23 +7,14 @@ import math
 
 from ..calc import transformer as tk
 from ..calc.sizes import SIZES
-from ..job import Transformer
+from ..model import Transformer
 from ..tables import load_table
 from .compare import passes
 from .context import Context
 
 
-def typical_x_r(rating_va: float) -> tuple[float, str]:
-    """Typical X/R from tables/transformer_xr.csv (nearest rating at or below)."""
-    t = load_table("transformer_xr").data
-    kva = rating_va / 1000.0
-    below = t[t["rating_kva"] <= kva + 1e-9]
-    row = below.iloc[-1] if not below.empty else t.iloc[0]
-    return float(row["x_r"]), f"{row['rating_kva']:g} kVA row"
-
-
 def transformer_x_r(t: Transformer) -> float:
-    return t.x_r if t.x_r is not None else typical_x_r(t.rating_va)[0]
+    return t.x_r  # filled with the typical value by rating when the job is read
 
 
 def check_transformer(ctx: Context, t: Transformer) -> None:
@@ -133,8 +124,8 @@ def check_transformer(ctx: Context, t: Transformer) -> None:
     # --- loading and regulation at the demand load
     load = ctx.loads[t.id]
     x_r = transformer_x_r(t)
-    if t.x_r is None:
-        row = typical_x_r(t.rating_va)[1]
+    if t.x_r_typical:
+        row = t.x_r_typical_row
         sh.uses("transformer_xr")
         ctx.assume(
             f"{t.id}: X/R {x_r:g} taken from the typical-value table ({row}); "

@@ -228,8 +228,8 @@ def fault_command(rating_va, kva_old, primary, secondary, z_pct, z_old, x_r, sou
         raise click.UsageError("--ground needs a run (--length and --size)")
     if primary.phases == 1 and secondary.phases == 3:
         raise click.UsageError("a single-phase --primary cannot feed a three-phase --secondary")
-    from ..checks.transformer import typical_x_r
     from ..errors import InputError
+    from ..inputs.defaults import typical_x_r
 
     try:
         x_src = "given" if x_r is not None else "typical, tables/transformer_xr.csv"

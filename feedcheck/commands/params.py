@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import click
 
+from ..model import MATERIALS, RACEWAYS
 from ..units import UnitParseError, parse_quantity, parse_voltage_system
 
 
@@ -124,8 +125,8 @@ PERCENT = QuantityType("percent")
 TIME = QuantityType("time")
 SIZE = SizeType()
 VOLTAGE_SYSTEM = VoltageSystemType()
-MATERIAL = click.Choice(["cu", "al"], case_sensitive=False)
-RACEWAY = click.Choice(["steel", "aluminum", "pvc", "cable", "free-air"], case_sensitive=False)
+MATERIAL = click.Choice(list(MATERIALS), case_sensitive=False)
+RACEWAY = click.Choice(list(RACEWAYS), case_sensitive=False)
 
 
 def old_spelling(old: str, dest: str, new: str, type_, **kwargs):

@@ -1,7 +1,8 @@
 """``feedcheck schedule``: check panel schedules (CSV/XLSX) circuit by circuit.
 
-Thin: parse the options, call :mod:`feedcheck.schedule`, :mod:`feedcheck.schedule_checks`
-and :mod:`feedcheck.schedule_export`, print. Heavy modules are imported in the body.
+Thin: parse the options, call :mod:`feedcheck.inputs.schedule_file`,
+:mod:`feedcheck.checks.schedules` and :mod:`feedcheck.schedule_export`, print. Heavy
+modules are imported in the body.
 """
 
 from __future__ import annotations
@@ -12,6 +13,7 @@ from pathlib import Path
 import click
 
 from .. import CAUTION
+from ..model import OCCUPANCIES
 from .params import CURRENT, VOLTAGE_SYSTEM, QuantityType
 
 DROP = QuantityType("percent", must_be_positive=False)
@@ -65,8 +67,7 @@ def _expand(paths: tuple[str, ...]) -> list[Path]:
                    "matched to panels by the job's schedule paths.")
 @click.option("--feeder-drop", "feeder_drop", type=DROP, default="0%", show_default=True,
               help="Drop from the source to the panel, added for the total (with --system).")
-@click.option("--occupancy", type=click.Choice(["other", "dwelling", "hospital", "hotel",
-                                                "warehouse"]), default=None,
+@click.option("--occupancy", type=click.Choice(list(OCCUPANCIES)), default=None,
               help="Lighting demand factors (NFPA 70 Table 220.42); default other. With "
                    "--job each panel's occupancy comes from the job.")
 @click.option("--bus", "bus_a", type=CURRENT, help="Panel bus rating, e.g. 225A (with --system).")
@@ -132,7 +133,7 @@ def _report_partial(done, files, why: str) -> None:
 def _from_files(files, system, feeder_drop, occupancy, bus_a, main_a, done):
     from ..checks.schedules import check_schedule
     from ..errors import InputError
-    from ..schedule import read_schedule
+    from ..inputs.schedule_file import read_schedule
 
     results, problems = [], []
 

@@ -22,6 +22,8 @@ import re
 from dataclasses import dataclass
 from pathlib import Path, PurePosixPath
 
+from ..inputs.files import FileRefused, check_size, decode_utf8
+
 MANIFEST_NAME = "feedcheck-inputs.json"
 RESULTS_NAME = "feedcheck-results.json"
 INPUT_PREFIX = "inputs/"
@@ -141,8 +143,10 @@ def _read_attachments(pdf_path: Path) -> dict[str, bytes]:
             if not contents:
                 continue
             data = contents[0]
-            if len(data) > MAX_ATTACHMENT_BYTES:
-                raise NotAReport(f"attachment {name!r} is larger than expected")
+            try:
+                check_size(len(data), MAX_ATTACHMENT_BYTES, "a smaller attachment")
+            except FileRefused:
+                raise NotAReport(f"attachment {name!r} is larger than expected") from None
             found[name] = data
         return found
     except NotAReport:
@@ -171,9 +175,9 @@ def extract_inputs(pdf_path: str | Path, dest: str | Path) -> Extracted:
     if MANIFEST_NAME not in found or RESULTS_NAME not in found:
         raise NotAReport(f"{pdf_path}: not a feedcheck report (no embedded inputs and results)")
     try:
-        manifest = json.loads(found[MANIFEST_NAME].decode("utf-8"))
-        results = json.loads(found[RESULTS_NAME].decode("utf-8"))
-    except (UnicodeDecodeError, json.JSONDecodeError) as exc:
+        manifest = json.loads(decode_utf8(found[MANIFEST_NAME], "UTF-8", drop_bom=False))
+        results = json.loads(decode_utf8(found[RESULTS_NAME], "UTF-8", drop_bom=False))
+    except (FileRefused, json.JSONDecodeError) as exc:
         raise NotAReport(f"{pdf_path}: the embedded manifest or results are damaged") from exc
     if not isinstance(manifest, dict) or manifest.get("format") != FORMAT:
         raise NotAReport(f"{pdf_path}: unknown embedded-inputs format")

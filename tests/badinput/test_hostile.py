@@ -2,7 +2,7 @@
 
 Limits chosen and why
 ---------------------
-* Job file size: ``feedcheck.job.MAX_JOB_BYTES`` (2 MB). The largest real job (a few
+* Job file size: ``feedcheck.inputs.job_file.MAX_JOB_BYTES`` (2 MB). The largest real job (a few
   hundred panels, every key commented) is well under 200 kB; 2 MB leaves ten times
   that and keeps parsing and checking within a couple of seconds, so a huge or
   generated file is refused up front, before it is decoded or parsed.
@@ -29,7 +29,7 @@ import time
 import pytest
 
 from feedcheck import io_atomic
-from feedcheck.job import MAX_JOB_BYTES
+from feedcheck.inputs.job_file import MAX_JOB_BYTES
 
 from . import GOOD, assert_no_traceback, assert_rejected, cli, line_of
 
@@ -226,7 +226,7 @@ def test_schedule_link_loop_refused(tmp_path):
 
 
 def test_schedule_symlink_inside_folder_accepted_by_job_reader(tmp_path):
-    from feedcheck.job import read_job
+    from feedcheck.inputs.job_file import read_job
 
     (tmp_path / "real").mkdir()
     (tmp_path / "real" / "pb.csv").write_text("x\n")

@@ -5,7 +5,7 @@ Each case writes a small CSV schedule (``pb.csv``, beside the job file, as the j
 ``schedule`` path rule requires) with one thing wrong and asserts the exact message:
 ``error: <schedule file>: row <n>[, column '<header>'] got '<value>'; expected ...``,
 the count line, nothing on stdout and no ``--out`` file. The schedule's own limits
-(file size, rows, columns, XLSX unpacked size) are stated in ``feedcheck/schedule.py``.
+(file size, rows, columns, XLSX unpacked size) are stated in ``feedcheck/inputs/schedule_file.py``.
 """
 
 from __future__ import annotations

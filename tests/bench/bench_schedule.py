@@ -25,7 +25,7 @@ from feedcheck.calc.ampacity import ampacity_a, termination_c_for
 from feedcheck.calc.conductor import ac_impedance_ohm_per_m
 from feedcheck.calc.protection import max_device_a
 from feedcheck.calc.vdrop import voltage_drop_approximate_v
-from feedcheck.schedule import read_schedule
+from feedcheck.inputs.schedule_file import read_schedule
 from feedcheck.checks.schedules import check_schedule
 from feedcheck.schedule_export import write_results
 from feedcheck.units import parse_voltage_system

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from feedcheck.checks import check_job
-from feedcheck.job import read_job
+from feedcheck.inputs.job_file import read_job
 
 
 def _marking_notes(res):

@@ -132,19 +132,25 @@ def test_quick_figures_agree_with_the_feed_walk():
     from feedcheck.calc.sizes import SIZES
     from feedcheck.checks import check_job
     from feedcheck.commands.calc_fault import compute
-    from feedcheck.job import Job, Options, Panel, Project, Run, Source, Transformer
+    from feedcheck.inputs.tree import build_tree
+    from feedcheck.model import Job, Options, Panel, Project, Run, Source, Transformer
     from feedcheck.units import parse_voltage_system
 
     prim, sec = parse_voltage_system("480 V delta"), parse_voltage_system("208Y/120 V")
     length_m = 95 * 0.3048
+    source = Source(prim, 30e3, 6.0)
+    transformers = (Transformer("T1", "source", 75e3, prim, sec, 5.1, 3.5, 110.0, None),)
+    runs = (Run("R1", "T1", "P1", length_m, SIZES["4/0 AWG"], "cu", 1, 75.0, "steel", 30.0, 3,
+                SIZES["4 AWG"], "cu", 225.0, None),)
+    panels = (Panel("P1", 225.0, None, None, None, None, None, 0.0, 1.0),)
     job = Job(
         Path("quick.toml"),
         Project("quick", date="2026-12-02"),
-        Source(prim, 30e3, 6.0),
-        (Transformer("T1", "source", 75e3, prim, sec, 5.1, 3.5, 110.0, None),),
-        (Run("R1", "T1", "P1", length_m, SIZES["4/0 AWG"], "cu", 1, 75.0, "steel", 30.0, 3,
-             SIZES["4 AWG"], "cu", 225.0, None),),
-        (Panel("P1", 225.0, None, None, None, None, None, 0.0, 1.0),),
+        source,
+        transformers,
+        runs,
+        panels,
+        build_tree(source, transformers, runs, panels),
         (),
         Options(),
     )

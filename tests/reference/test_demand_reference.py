@@ -2,7 +2,7 @@
 
 import pytest
 
-from feedcheck.schedule import read_schedule
+from feedcheck.inputs.schedule_file import read_schedule
 from feedcheck.checks.schedules import check_schedule
 from feedcheck.units import parse_voltage_system
 

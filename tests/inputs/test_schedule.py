@@ -6,9 +6,10 @@ import numpy as np
 import openpyxl
 import pytest
 
-from feedcheck import schedule as S
 from feedcheck.errors import InputError
-from feedcheck.schedule import normalise_header, read_schedule
+from feedcheck.inputs import schedule_file as S
+from feedcheck.inputs.schedule_file import read_schedule
+from feedcheck.inputs.schedule_header import normalise_header
 from feedcheck.checks.schedules import check_schedule
 from feedcheck.units import parse_voltage_system
 

@@ -1,4 +1,4 @@
-"""The feed as a radial tree: nodes in topological order with their parents.
+"""Build the feed tree (:class:`~feedcheck.model.Tree`) once, when the job is read.
 
 Nodes are the source, transformers and panels; runs are the edges. A transformer
 with no run into it hangs directly on the source (zero-length connection).
@@ -6,41 +6,27 @@ with no run into it hangs directly on the source (zero-length connection).
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from collections.abc import Sequence
 
-from .job import SOURCE_ID, Job, Run
-from .units import VoltageSystem
-
-
-@dataclass(frozen=True)
-class Tree:
-    order: tuple[str, ...]  # node ids, parents before children; order[0] == "source"
-    kind: dict[str, str]  # node id -> "source" | "transformer" | "panel"
-    parent_node: dict[str, str | None]
-    parent_run: dict[str, Run | None]
-    voltage_of: dict[str, VoltageSystem]  # voltage at the node (secondary for transformers)
-    upstream_transformer: dict[str, str | None]
-    distance_m: dict[str, float]
-
-    def parent_index(self) -> list[int]:
-        pos = {n: i for i, n in enumerate(self.order)}
-        return [-1 if self.parent_node[n] is None else pos[self.parent_node[n]] for n in self.order]
-
-    def children(self, node: str) -> list[str]:
-        return [n for n in self.order if self.parent_node[n] == node]
+from ..model import SOURCE_ID, Panel, Run, Source, Transformer, Tree, VoltageSystem
 
 
-def build_tree(job: Job) -> Tree:
-    """Order the feed from the source down; assumes job validation passed."""
+def build_tree(
+    source: Source,
+    transformers: Sequence[Transformer],
+    runs: Sequence[Run],
+    panels: Sequence[Panel],
+) -> Tree:
+    """Order the feed from the source down; assumes the feed rules passed."""
     kind = {SOURCE_ID: "source"}
-    kind.update({t.id: "transformer" for t in job.transformers})
-    kind.update({p.id: "panel" for p in job.panels})
+    kind.update({t.id: "transformer" for t in transformers})
+    kind.update({p.id: "panel" for p in panels})
     parent_run: dict[str, Run | None] = {SOURCE_ID: None}
     parent_node: dict[str, str | None] = {SOURCE_ID: None}
-    for run in job.runs:
+    for run in runs:
         parent_run[run.to_id] = run
         parent_node[run.to_id] = run.from_id
-    for t in job.transformers:
+    for t in transformers:
         if t.id not in parent_node:
             parent_node[t.id] = SOURCE_ID
             parent_run[t.id] = None
@@ -54,7 +40,7 @@ def build_tree(job: Job) -> Tree:
         n = stack.pop()
         order.append(n)
         stack.extend(reversed(children.get(n, [])))
-    tx = {t.id: t for t in job.transformers}
+    tx = {t.id: t for t in transformers}
     voltage_of: dict[str, VoltageSystem] = {}
     upstream: dict[str, str | None] = {}
     distance: dict[str, float] = {}
@@ -63,7 +49,7 @@ def build_tree(job: Job) -> Tree:
         run = parent_run.get(n)
         distance[n] = 0.0 if p is None else distance[p] + (run.length_m if run else 0.0)
         if n == SOURCE_ID:
-            voltage_of[n] = job.source.voltage
+            voltage_of[n] = source.voltage
             upstream[n] = None
         elif kind[n] == "transformer":
             voltage_of[n] = tx[n].secondary

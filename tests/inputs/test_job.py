@@ -3,7 +3,7 @@
 import pytest
 
 from feedcheck.errors import InputError
-from feedcheck.job import read_job
+from feedcheck.inputs.job_file import read_job
 
 GOOD = """
 [project]

@@ -1,0 +1,519 @@
+"""Read and validate a job file (TOML) into the :class:`~feedcheck.model.Job` model.
+
+Every problem is collected with its key path (``run[2].length``) and, where the
+file shows it, its line; then one :class:`~feedcheck.errors.InputError` carries
+them all. The format is documented key by key in the README. The returned job has
+every default filled (a transformer's typical X/R included) and carries its feed
+tree, built once (``job.tree``).
+"""
+
+from __future__ import annotations
+
+import math
+import re
+import tomllib
+from dataclasses import replace
+from pathlib import Path
+
+from ..errors import ProblemList
+from ..model import (
+    INSULATION_RATINGS_C,
+    OCCUPANCIES,
+    RACEWAYS,
+    SOURCE_ID,
+    VOLTAGE_DROP_MODES,
+    VOLTAGE_FACTORS,
+    Job,
+    Motor,
+    Options,
+    Panel,
+    Project,
+    Run,
+    Source,
+    Transformer,
+)
+from .defaults import typical_x_r
+from .feed_rules import check_feed, check_voltages
+from .files import FileKind, FileRefused, decode_utf8, read_bytes
+from .paths import relative_file_inside
+from .toml_reader import Reader, array_of_tables
+from .tree import build_tree
+
+MAX_JOB_BYTES = 2_000_000
+JOB_FILE = FileKind(
+    "job file", "(.toml)", MAX_JOB_BYTES, f"a job file under {MAX_JOB_BYTES // 1_000_000} MB"
+)
+# Values outside these ranges are not low-voltage distribution feeds: input errors.
+FAULT_RANGE_A = (100.0, 1.0e6)  # available fault current at the transformer primary
+DEVICE_RANGE_A = (1.0, 6000.0)  # ratings: 6000 A is the largest standard (NFPA 70 240.6(A))
+INTERRUPTING_RANGE_A = (1.0e3, 300.0e3)  # equipment interrupting ratings
+_DEVICE = (*DEVICE_RANGE_A, "an ampere rating from 1 A to 6000 A")
+_INTERRUPTING = (*INTERRUPTING_RANGE_A, "an interrupting rating from 1 kA to 300 kA")
+_TEMPERATURE_RATING = "'60 degC', '75 degC' or '90 degC'"
+
+PROJECT_KEYS = ("name", "site", "prepared_by", "date", "revision", "rules", "notes")
+SOURCE_KEYS = ("voltage", "phases", "available_fault", "short_circuit_mva", "x_r")
+TRANSFORMER_KEYS = (
+    "id",
+    "from",
+    "rating",
+    "primary",
+    "secondary",
+    "impedance",
+    "x_r",
+    "primary_device",
+    "secondary_device",
+    "tap",
+    "zero_sequence_ratio",
+)
+RUN_KEYS = (
+    "id",
+    "from",
+    "to",
+    "length",
+    "conductors",
+    "sets",
+    "insulation",
+    "raceway",
+    "ambient",
+    "current_carrying",
+    "ground",
+    "device",
+    "termination",
+    "rooftop_height",
+    "harmonic_neutral",
+    "clearing_time",
+)
+PANEL_KEYS = (
+    "id",
+    "rating",
+    "main_device",
+    "interrupting",
+    "voltage",
+    "schedule",
+    "load",
+    "continuous",
+    "power_factor",
+    "instantaneous_trip",
+    "occupancy",
+)
+MOTOR_KEYS = ("id", "panel", "full_load", "hp", "locked_rotor")
+OPTION_KEYS = (
+    "impedance_tolerance",
+    "voltage_factor",
+    "voltage_drop",
+    "feeder_drop",
+    "branch_drop",
+    "total_drop",
+)
+TOP_KEYS = ("project", "source", "transformer", "run", "panel", "motor", "options")
+
+
+def read_job(path: str | Path) -> Job:
+    """Read, parse and validate a job file.
+
+    Returns
+    -------
+    Job
+        Every default filled; ``job.tree`` is the feed tree.
+
+    Raises
+    ------
+    InputError
+        Listing every problem found (file, key path, line, value, expectation).
+    """
+    p = Path(path)
+    pl = ProblemList(str(p))
+    try:
+        raw = read_bytes(p, JOB_FILE)
+        if not raw.strip():
+            raise FileRefused(
+                "(empty file)",
+                "a TOML job file with [project], [source], [[transformer]], "
+                "[[run]] and [[panel]] (see `feedcheck init`)",
+            )
+        text = decode_utf8(raw, "UTF-8 text (save the file as UTF-8)")
+    except FileRefused as exc:
+        pl.add("", exc.value, exc.expected, line=exc.line)
+        pl.raise_if_any()
+    try:
+        data = tomllib.loads(text)
+    except RecursionError:
+        pl.add("", "arrays or tables nested too deeply", "a job file nested a few levels at most")
+        pl.raise_if_any()
+    except tomllib.TOMLDecodeError as exc:
+        msg = str(exc)
+        m = re.search(r"line (\d+)", msg)
+        pl.add(
+            "",
+            msg.split(" (at")[0],
+            'valid TOML (key = "value" lines under [tables])',
+            line=int(m.group(1)) if m else None,
+        )
+        pl.raise_if_any()
+    return parse_job_data(data, text, p)
+
+
+def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
+    """Validate parsed TOML ``data`` (``text`` is the file, for line numbers)."""
+    job_path = Path(job_path)
+    r = Reader(str(job_path), text)
+    r.check_keys(data, "", TOP_KEYS)
+    # paths like ".foo" for unknown top-level keys read better without the dot
+    r.problems.items = [
+        type(x)(x.file, x.where.lstrip("."), x.value, x.expected, x.line) for x in r.problems.items
+    ]
+    project = _project(r, _table(r, data, "project", "a [project] table"))
+    src = data.get("source")
+    if not isinstance(src, dict):
+        r.add("source", None if src is None else src, "a [source] table (required)")
+        src = {}
+    source, phases = _source(r, src, "source" in data)
+    transformers = [
+        _transformer(r, t, f"transformer[{i}]", phases)
+        for i, t in enumerate(array_of_tables(r, data, "transformer"), start=1)
+    ]
+    runs = [_run(r, t, f"run[{i}]") for i, t in enumerate(array_of_tables(r, data, "run"), start=1)]
+    panels = [
+        _panel(r, t, f"panel[{i}]", job_path.parent)
+        for i, t in enumerate(array_of_tables(r, data, "panel"), start=1)
+    ]
+    motors = [
+        _motor(r, t, f"motor[{i}]")
+        for i, t in enumerate(array_of_tables(r, data, "motor"), start=1)
+    ]
+    options = _options(r, _table(r, data, "options", "an [options] table"))
+    check_feed(r, transformers, runs, panels, motors)
+    # schedule paths resolve relative to the job file's folder
+    panels = [
+        replace(pn, schedule=(job_path.parent / pn.schedule) if pn.schedule else None)
+        for pn in panels
+    ]
+    if not transformers and "transformer" not in data:
+        r.add("transformer", None, "at least one [[transformer]] block")
+    r.problems.raise_if_any()
+    tree = build_tree(source, transformers, runs, panels)
+    check_voltages(r, tree, transformers, panels)
+    r.problems.raise_if_any()
+    return Job(
+        path=job_path,
+        project=project,
+        source=source,
+        transformers=tuple(_fill_x_r(t) for t in transformers),
+        runs=tuple(runs),
+        panels=tuple(panels),
+        tree=tree,
+        motors=tuple(motors),
+        options=options,
+        text=text,
+    )
+
+
+def _table(r: Reader, data: dict, name: str, expected: str) -> dict:
+    v = data.get(name, {})
+    if not isinstance(v, dict):
+        r.add(name, v, expected)
+        return {}
+    return v
+
+
+def _fill_x_r(t: Transformer) -> Transformer:
+    """The typical X/R by rating where the job gives none (flagged on the transformer)."""
+    if t.x_r is not None:
+        return t
+    x_r, row = typical_x_r(t.rating_va)
+    return replace(t, x_r=x_r, x_r_typical_row=row)
+
+
+def _project(r: Reader, proj: dict) -> Project:
+    r.check_keys(proj, "project", PROJECT_KEYS)
+    project = Project(
+        name=r.text(proj, "project", "name"),
+        site=r.text(proj, "project", "site", required=False),
+        prepared_by=r.text(proj, "project", "prepared_by", required=False),
+        date=str(proj.get("date", "")),
+        revision=str(proj.get("revision", "")),
+        rules=r.text(proj, "project", "rules", required=False, default="na"),
+        notes=r.text(proj, "project", "notes", required=False),
+    )
+    if project.rules != "na":
+        r.add(
+            "project.rules",
+            project.rules,
+            "'na' (the rule set shipped in tables/; use --tables DIR for local amendments)",
+        )
+    return project
+
+
+def _source(r: Reader, src: dict, given: bool) -> tuple[Source | None, int]:
+    """The [source] table and the phases it states (default 3)."""
+    r.check_keys(src, "source", SOURCE_KEYS)
+    phases = int(r.number(src, "source", "phases", 1, 3, default=3, integer=True) or 3)
+    if phases not in (1, 3):
+        r.add("source.phases", phases, "1 or 3")
+    sv = r.voltage(src, "source", "voltage", phases=phases) if src or given else None
+    if sv is not None and "phases" in src and sv.phases != phases and phases in (1, 3):
+        r.add(
+            "source.phases",
+            phases,
+            f"{sv.phases} to match the {sv.phases}-phase voltage {sv.text!r}",
+        )
+    fault_a = _source_fault_a(r, src, sv)
+    xr_src = r.number(src, "source", "x_r", 0.1, 100, default=None)
+    if fault_a is not None and math.isfinite(fault_a) and xr_src is None and "x_r" not in src:
+        r.add(
+            "source.x_r", None, "the source X/R (a number, e.g. 6) when the fault current is finite"
+        )
+    if not sv:
+        return None, phases
+    return Source(sv, fault_a if fault_a is not None else math.inf, xr_src or 6.0), phases
+
+
+def _source_fault_a(r: Reader, src: dict, sv) -> float | None:
+    """Available fault current [A] from ``available_fault`` or ``short_circuit_mva``."""
+    if "available_fault" in src and "short_circuit_mva" in src:
+        r.add(
+            "source.short_circuit_mva",
+            src["short_circuit_mva"],
+            "either available_fault or short_circuit_mva, not both",
+        )
+    fault_a: float | None = None
+    if "short_circuit_mva" in src:
+        mva = r.qty(src, "source", "short_circuit_mva", "power", apparent_only=True)
+        if mva is not None and sv is not None:
+            fault_a = mva / (math.sqrt(3) * sv.line_v if sv.phases == 3 else sv.line_v)
+    elif src:
+        fault_a = r.qty(src, "source", "available_fault", "current", allow_inf=True)
+    if (
+        fault_a is not None
+        and math.isfinite(fault_a)
+        and not (FAULT_RANGE_A[0] <= fault_a <= FAULT_RANGE_A[1])
+    ):
+        key = "short_circuit_mva" if "short_circuit_mva" in src else "available_fault"
+        r.add(
+            f"source.{key}",
+            src.get(key),
+            "an available fault current from 100 A to 1000 kA, or 'infinite'",
+        )
+    return fault_a
+
+
+def _transformer(r: Reader, t: dict, path: str, phases: int) -> Transformer:
+    r.check_keys(t, path, TRANSFORMER_KEYS)
+    sec = r.voltage(t, path, "secondary", phases=phases)
+    # a single-phase transformer may sit on two lines of a three-phase system
+    prim = r.voltage(
+        t, path, "primary", phases=1 if sec is not None and sec.phases == 1 else phases
+    )
+    z = r.qty(t, path, "impedance", "percent")
+    if z is not None and not (0.5 <= z <= 25):
+        r.add(
+            f"{path}.impedance",
+            t["impedance"],
+            "a percent impedance from 0.5 % to 25 % (distribution transformers are 1-10 %)",
+        )
+    tap = r.qty(t, path, "tap", "percent", required=False, default=0.0, must_be_positive=False)
+    if tap is not None and (abs(tap) > 5 or abs(tap / 2.5 - round(tap / 2.5)) > 1e-9):
+        r.add(f"{path}.tap", t.get("tap"), "a no-load tap of -5, -2.5, 0, +2.5 or +5 %")
+    if prim and sec and prim.phases != sec.phases:
+        r.add(
+            f"{path}.secondary",
+            t.get("secondary"),
+            f"a {prim.phases}-phase secondary like the {prim.phases}-phase primary ({prim.text})",
+        )
+    rating = r.qty(t, path, "rating", "power", apparent_only=True)
+    if rating is not None and not (1e3 <= rating <= 5e6):
+        r.add(f"{path}.rating", t.get("rating"), "a rating from 1 kVA to 5000 kVA")
+    return Transformer(
+        id=r.text(t, path, "id"),
+        from_id=r.text(t, path, "from", required=False, default=SOURCE_ID),
+        rating_va=rating or 1.0,
+        primary=prim,
+        secondary=sec,
+        z_pct=z or 1.0,
+        x_r=r.number(t, path, "x_r", 0.1, 50),  # None here: filled once the job is valid
+        primary_device_a=r.qty(t, path, "primary_device", "current", within=_DEVICE) or 0.0,
+        secondary_device_a=r.qty(
+            t, path, "secondary_device", "current", required=False, within=_DEVICE
+        ),
+        tap_pct=tap or 0.0,
+        z0_ratio=r.number(t, path, "zero_sequence_ratio", 0.1, 3, default=1.0) or 1.0,
+    )
+
+
+def _run_temperatures(r: Reader, t: dict, path: str) -> tuple[float | None, ...]:
+    """Insulation, termination and ambient temperatures of a run [°C]."""
+    ins = r.qty(
+        t, path, "insulation", "temperature", required=False, default=75.0, must_be_positive=False
+    )
+    if ins not in INSULATION_RATINGS_C:
+        r.add(f"{path}.insulation", t.get("insulation"), _TEMPERATURE_RATING)
+    term = r.qty(t, path, "termination", "temperature", required=False, must_be_positive=False)
+    if term is not None and term not in INSULATION_RATINGS_C:
+        r.add(f"{path}.termination", t.get("termination"), _TEMPERATURE_RATING)
+    amb = r.qty(
+        t, path, "ambient", "temperature", required=False, default=30.0, must_be_positive=False
+    )
+    if amb is not None and not (-40 <= amb < (ins or 75)):
+        r.add(
+            f"{path}.ambient",
+            t.get("ambient"),
+            "an ambient from -40 degC to below the insulation rating",
+        )
+    return ins, term, amb
+
+
+def _run(r: Reader, t: dict, path: str) -> Run:
+    r.check_keys(t, path, RUN_KEYS)
+    size, material = r.conductor(t, path, "conductors")
+    gsize, gmat = r.conductor(t, path, "ground", required=False, default_material=material)
+    raceway = r.text(t, path, "raceway", required=False, default="steel")
+    if raceway not in RACEWAYS:
+        r.add(f"{path}.raceway", raceway, "one of " + ", ".join(RACEWAYS))
+    ins, term, amb = _run_temperatures(r, t, path)
+    length = r.qty(t, path, "length", "length")
+    if length is not None and length > 2000:
+        r.add(
+            f"{path}.length",
+            t.get("length"),
+            "a run length up to 2000 m (6560 ft); longer feeds need a different study",
+        )
+    run = Run(
+        id=r.text(t, path, "id"),
+        from_id=r.text(t, path, "from"),
+        to_id=r.text(t, path, "to"),
+        length_m=length or 1.0,
+        size=size,
+        material=material,
+        sets=int(r.number(t, path, "sets", 1, 20, default=1, integer=True) or 1),
+        insulation_c=ins or 75.0,
+        raceway=raceway,
+        ambient_c=amb if amb is not None else 30.0,
+        current_carrying=int(
+            r.number(t, path, "current_carrying", 1, 80, default=3, integer=True) or 3
+        ),
+        ground=gsize,
+        ground_material=gmat,
+        device_a=r.qty(t, path, "device", "current", required=False, within=_DEVICE),
+        termination_c=term,
+        rooftop_mm=r.qty(
+            t, path, "rooftop_height", "length", required=False, must_be_positive=False
+        )
+        if "rooftop_height" in t
+        else None,
+        harmonic_neutral=r.flag(t, path, "harmonic_neutral"),
+        clearing_s=r.qty(t, path, "clearing_time", "time", required=False),
+    )
+    if run.rooftop_mm is None:
+        return run
+    if run.rooftop_mm < 0:
+        r.add(
+            f"{path}.rooftop_height",
+            t.get("rooftop_height"),
+            "a height above the roof of zero or more",
+        )
+    return replace(run, rooftop_mm=run.rooftop_mm * 1000.0)  # read in m, kept in mm
+
+
+def _panel(r: Reader, t: dict, path: str, folder: Path) -> Panel:
+    r.check_keys(t, path, PANEL_KEYS)
+    sched = None
+    if "schedule" in t:
+        stext = r.text(t, path, "schedule")
+        if stext:
+            try:
+                sched = relative_file_inside(stext, folder)
+            except FileRefused as exc:
+                r.add(f"{path}.schedule", exc.value, exc.expected)
+    pf = r.number(t, path, "power_factor", 0.05, 1.0, default=0.9)
+    load = r.qty(t, path, "load", "power", required=False, apparent_only=True)
+    cont = r.qty(
+        t,
+        path,
+        "continuous",
+        "power",
+        required=False,
+        default=0.0,
+        must_be_positive=False,
+        apparent_only=True,
+    )
+    if cont is not None and cont < 0:
+        r.add(f"{path}.continuous", t.get("continuous"), "a continuous load of zero or more")
+    if load is not None and cont is not None and cont > load * (1 + 1e-9):
+        r.add(f"{path}.continuous", t.get("continuous"), "at most the panel's load")
+    return Panel(
+        id=r.text(t, path, "id"),
+        rating_a=r.qty(t, path, "rating", "current", within=_DEVICE) or 0.0,
+        main_device_a=r.qty(t, path, "main_device", "current", required=False, within=_DEVICE),
+        interrupting_a=r.qty(
+            t, path, "interrupting", "current", required=False, within=_INTERRUPTING
+        ),
+        voltage=r.voltage(t, path, "voltage", required=False),
+        schedule=sched,
+        load_va=load,
+        continuous_va=cont or 0.0,
+        pf=pf or 0.9,
+        instantaneous_a=r.qty(t, path, "instantaneous_trip", "current", required=False),
+        occupancy=_occupancy(r, t, path),
+    )
+
+
+def _occupancy(r: Reader, t: dict, path: str) -> str:
+    """Occupancy for the lighting demand factors of the panel's schedule."""
+    occ = r.text(t, path, "occupancy", required=False, default="other")
+    if occ not in OCCUPANCIES:
+        r.add(
+            f"{path}.occupancy",
+            occ,
+            "one of " + ", ".join(OCCUPANCIES) + " (lighting demand factors of Table 220.42)",
+        )
+        return "other"
+    return occ
+
+
+def _motor(r: Reader, t: dict, path: str) -> Motor:
+    r.check_keys(t, path, MOTOR_KEYS)
+    fla = r.qty(t, path, "full_load", "current", required=False)
+    hp = r.number(t, path, "hp", 0.1, 1000)
+    if fla is None and "full_load" not in t:
+        r.add(f"{path}.full_load", None, "the motor's full-load current, e.g. '30.8 A'")
+    return Motor(
+        id=r.text(t, path, "id"),
+        panel_id=r.text(t, path, "panel"),
+        full_load_a=fla or 1.0,
+        locked_rotor_a=r.qty(t, path, "locked_rotor", "current", required=False),
+        hp=hp,
+    )
+
+
+def _options(r: Reader, opts: dict) -> Options:
+    r.check_keys(opts, "options", OPTION_KEYS)
+    tol = r.qty(
+        opts,
+        "options",
+        "impedance_tolerance",
+        "percent",
+        required=False,
+        default=7.5,
+        must_be_positive=False,
+    )
+    if tol is not None and not (0 <= tol <= 20):
+        r.add(
+            "options.impedance_tolerance",
+            opts.get("impedance_tolerance"),
+            "a tolerance from 0 % to 20 % (7.5 % per IEEE C57.12.00; 10 % is common for dry-type)",
+        )
+    vf = r.text(opts, "options", "voltage_factor", required=False, default="none")
+    if vf not in VOLTAGE_FACTORS:
+        r.add("options.voltage_factor", vf, "'none' or 'iec60909'")
+    vd = r.text(opts, "options", "voltage_drop", required=False, default="recommended")
+    if vd not in VOLTAGE_DROP_MODES:
+        r.add("options.voltage_drop", vd, "'recommended' (warnings) or 'mandatory' (failures)")
+    return Options(
+        impedance_tolerance_pct=tol if tol is not None else 7.5,
+        voltage_factor=vf,
+        voltage_drop=vd,
+        feeder_drop_pct=r.qty(opts, "options", "feeder_drop", "percent", required=False),
+        branch_drop_pct=r.qty(opts, "options", "branch_drop", "percent", required=False),
+        total_drop_pct=r.qty(opts, "options", "total_drop", "percent", required=False),
+    )

@@ -1,0 +1,54 @@
+"""Path safety: a path a job names must be relative, without '..', and stay inside the
+job file's folder even after symbolic links are followed."""
+
+from __future__ import annotations
+
+from pathlib import Path, PureWindowsPath
+
+from .files import FileRefused
+
+_INSIDE = "a path inside the job file's folder (no absolute paths, no '..')"
+
+
+def relative_file_inside(
+    text: str,
+    folder: Path,
+    *,
+    noun: str = "schedule file",
+    suffixes: tuple[str, ...] = (".csv", ".xlsx"),
+    suffix_expected: str = "a .csv or .xlsx schedule file",
+) -> Path:
+    """The path ``text`` (relative to ``folder``) of an existing file inside ``folder``.
+
+    Absolute paths, drive letters, backslashes and '..' are refused as written; a
+    path that resolves (through a symbolic link) outside the folder is refused too.
+
+    Returns
+    -------
+    Path
+        ``text`` as a relative path (not resolved).
+
+    Raises
+    ------
+    FileRefused
+        With ``text`` as the value and what was expected.
+    """
+    if "\x00" in text or "\\" in text or PureWindowsPath(text).drive:
+        raise FileRefused(text, _INSIDE + " written with '/' between folders")
+    p = Path(text)
+    if p.is_absolute() or ".." in p.parts:
+        raise FileRefused(text, _INSIDE)
+    if p.suffix.lower() not in suffixes:
+        raise FileRefused(text, suffix_expected)
+    try:
+        base = folder.resolve()
+        real = (folder / p).resolve()
+    except (OSError, RuntimeError):  # a link loop
+        raise FileRefused(
+            text, f"a {noun} that can be opened (the path loops through links)"
+        ) from None
+    if not real.is_relative_to(base):
+        raise FileRefused(text, _INSIDE + "; this one leads outside it through a link")
+    if not real.is_file():
+        raise FileRefused(text, f"an existing {noun} in {folder} (not found)")
+    return p

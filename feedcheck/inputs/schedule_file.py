@@ -1,0 +1,473 @@
+"""Read a panel schedule (CSV or XLSX) and validate it into one typed table of circuits.
+
+A schedule is a table with one circuit per row under a header row (row 1). Column
+names are matched forgivingly (case, spaces, underscores and hyphens do not matter;
+a unit goes in square or round brackets: ``load [VA]``, ``length (m)``).
+
+======================  ========  ====================================================
+column                  needed    meaning (accepted values)
+======================  ========  ====================================================
+``circuit``             yes       first circuit (space) number, a whole number ≥ 1
+``load [VA]``           yes       the load, with its unit in the header: ``[VA]``,
+                                  ``[kVA]``, ``[W]``, ``[kW]`` or ``[A]``
+``breaker [A]``         yes       branch device rating in A (``20`` or ``20 A``)
+``conductor``           yes       size and material, ``12 AWG Cu``, ``1/0 AWG Al``
+``length [ft]``         yes       one-way length; ``[ft]`` or ``[m]``; feet when the
+                                  header has no unit
+``description``         no        free text
+``poles``               no        1, 2 or 3 (default 1)
+``power factor``        no        0.05 … 1 (default 1.0)
+``kind``                no        lighting, receptacle, motor, heating, other (default)
+``continuous``          no        yes/no, y/n, true/false, 1/0, x (default no)
+``insulation``          no        60, 75 or 90 °C (default 75)
+``termination``         no        60, 75 or 90 °C (default by NFPA 70 110.14(C))
+``ground``              no        equipment grounding conductor, ``12 AWG Cu``
+``current carrying``    no        current-carrying conductors in the raceway (default 3)
+``ambient``             no        ambient temperature in °C (default 30)
+``raceway``             no        steel (default), aluminum, pvc, cable, free-air
+``panel``               no        panel id, for one file holding several panels
+======================  ========  ====================================================
+
+Rows whose cells are all empty are skipped without an error (spacer rows).
+Everything else that is wrong is collected and reported at once: file, row number as
+the spreadsheet shows it, column, value and what was expected.
+
+Limits: a file of at most :data:`MAX_FILE_BYTES`, at most :data:`MAX_ROWS` rows and
+:data:`MAX_COLUMNS` columns; an XLSX whose parts unpack to more than
+:data:`MAX_XLSX_UNPACKED_BYTES` or compress more than :data:`MAX_XLSX_RATIO` to one is
+refused before it is opened (zip bomb guard). XLSX cells are read as stored values
+(``data_only``): formulas are never evaluated, and a formula cell a spreadsheet program
+never saved a value for reads as empty.
+"""
+
+from __future__ import annotations
+
+import io
+import re
+from pathlib import Path
+from typing import TYPE_CHECKING
+
+import numpy as np
+
+from ..errors import InputError, ProblemList
+from ..model import LOAD_KINDS, RACEWAYS, Schedule
+from ..units import SCHEDULE_HEADER_UNITS
+from .files import FileKind, FileRefused, decode_utf8, read_bytes
+from .schedule_cells import MAX_PROBLEMS, Cells, factorised, truthy
+from .schedule_header import match_header
+
+if TYPE_CHECKING:
+    import pandas as pd
+
+MAX_FILE_BYTES = 200_000_000
+MAX_ROWS = 2_000_000
+MAX_COLUMNS = 60
+MAX_XLSX_UNPACKED_BYTES = 1_000_000_000
+MAX_XLSX_RATIO = 200.0
+MAX_XLSX_MEMBERS = 10_000
+
+
+# --------------------------------------------------------------------------- raw reading
+def _guard_file(path: Path, problems: ProblemList) -> bytes:
+    kind = FileKind(
+        "schedule file",
+        "(.csv or .xlsx)",
+        MAX_FILE_BYTES,
+        f"a schedule file of at most {MAX_FILE_BYTES:,} bytes",
+        (".csv", ".xlsx"),
+        "a .csv or .xlsx schedule file",
+    )
+    try:
+        raw = read_bytes(path, kind)
+        if not raw:
+            raise FileRefused("(empty file)", "a header row and one row per circuit")
+    except FileRefused as exc:
+        problems.add("", exc.value, exc.expected)
+        problems.raise_if_any()
+    return raw
+
+
+def _read_csv(raw: bytes, problems: ProblemList) -> list[list[str]] | pd.DataFrame:
+    import pandas as pd
+
+    try:
+        text = decode_utf8(raw, "UTF-8 text (save the schedule as CSV UTF-8)")
+    except FileRefused as exc:
+        problems.add(f"row {exc.line}", exc.value, exc.expected)
+        problems.raise_if_any()
+    if not text.strip():
+        problems.add("", "(empty file)", "a header row and one row per circuit")
+        problems.raise_if_any()
+    n_lines = text.count("\n") + 1
+    if n_lines > MAX_ROWS + 1:
+        problems.add("", f"{n_lines:,} lines", f"at most {MAX_ROWS:,} circuit rows per file")
+        problems.raise_if_any()
+    try:
+        df = pd.read_csv(
+            io.StringIO(text),
+            header=None,
+            dtype=str,
+            keep_default_na=False,
+            skip_blank_lines=False,
+            engine="c",
+        )
+    except pd.errors.ParserError as exc:
+        m = re.search(r"line (\d+)", str(exc))
+        problems.add(
+            f"row {m.group(1)}" if m else "",
+            str(exc).split(". ")[-1].replace("C error: ", "").strip(),
+            "the same number of cells in every row as in the header",
+        )
+        problems.raise_if_any()
+    except pd.errors.EmptyDataError:
+        problems.add("", "(empty file)", "a header row and one row per circuit")
+        problems.raise_if_any()
+    return df
+
+
+def _xlsx_guard(raw: bytes, problems: ProblemList) -> None:
+    import zipfile
+
+    try:
+        zf = zipfile.ZipFile(io.BytesIO(raw))
+    except zipfile.BadZipFile:
+        problems.add("", "(not a zip archive)", "an .xlsx workbook saved by a spreadsheet program")
+        problems.raise_if_any()
+    infos = zf.infolist()
+    total = sum(i.file_size for i in infos)
+    if len(infos) > MAX_XLSX_MEMBERS or total > MAX_XLSX_UNPACKED_BYTES:
+        problems.add(
+            "",
+            f"{len(infos)} parts, {total:,} bytes unpacked",
+            f"a workbook unpacking to at most {MAX_XLSX_UNPACKED_BYTES:,} bytes",
+        )
+    for i in infos:
+        if i.file_size > 1_000_000 and i.file_size > MAX_XLSX_RATIO * max(i.compress_size, 1):
+            ratio = i.file_size / max(i.compress_size, 1)
+            problems.add(
+                "",
+                f"part {i.filename} packed {ratio:.0f}:1",
+                f"parts compressed at most {MAX_XLSX_RATIO:g}:1 (zip bomb guard)",
+            )
+            break
+    problems.raise_if_any()
+
+
+def _cell_text(v) -> str:
+    if v is None:
+        return ""
+    if isinstance(v, bool):
+        return "yes" if v else "no"
+    if isinstance(v, float):
+        return str(int(v)) if v.is_integer() and abs(v) < 1e15 else repr(v)
+    return str(v)
+
+
+def _read_xlsx(raw: bytes, problems: ProblemList) -> pd.DataFrame:
+    import warnings
+
+    import openpyxl
+    import pandas as pd
+
+    _xlsx_guard(raw, problems)
+    try:
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            wb = openpyxl.load_workbook(io.BytesIO(raw), read_only=True, data_only=True)
+    except Exception as exc:  # openpyxl raises several types for a damaged workbook
+        problems.add(
+            "", type(exc).__name__, "an .xlsx workbook that opens in a spreadsheet program"
+        )
+        problems.raise_if_any()
+    try:
+        ws = wb.worksheets[0]
+        if ws.max_row is not None and ws.max_row > MAX_ROWS + 1:
+            problems.add("", f"{ws.max_row:,} rows", f"at most {MAX_ROWS:,} circuit rows")
+        if ws.max_column is not None and ws.max_column > MAX_COLUMNS:
+            problems.add("", f"{ws.max_column} columns", f"at most {MAX_COLUMNS} columns")
+        problems.raise_if_any()
+        rows: list[list[str]] = []
+        width = 0
+        for r in ws.iter_rows(min_row=1, values_only=True):
+            if len(rows) > MAX_ROWS + 1 or len(r) > MAX_COLUMNS:
+                problems.add(
+                    "",
+                    "a larger sheet than its header declares",
+                    f"at most {MAX_ROWS:,} rows and {MAX_COLUMNS} columns",
+                )
+                problems.raise_if_any()
+            cells = [_cell_text(v) for v in r]
+            width = max(width, len(cells))
+            rows.append(cells)
+    finally:
+        wb.close()
+    if not rows or not any(any(c.strip() for c in r) for r in rows):
+        problems.add("", "(empty sheet)", "a header row and one row per circuit on the first sheet")
+        problems.raise_if_any()
+    rows = [r + [""] * (width - len(r)) for r in rows]
+    return pd.DataFrame(rows, dtype=object)
+
+
+# --------------------------------------------------------------------------- schedule
+def read_schedule(path: str | Path, panel_id: str | None = None) -> Schedule:
+    """Read and validate a panel schedule (CSV or XLSX).
+
+    Parameters
+    ----------
+    path : str or Path
+        The schedule file.
+    panel_id : str, optional
+        Panel id for a file without a ``panel`` column (default: the file's stem).
+
+    Returns
+    -------
+    Schedule
+        The circuits as typed columns (SI units), blank rows dropped.
+
+    Raises
+    ------
+    InputError
+        Every problem found: file, row (as the spreadsheet shows it), column, value and
+        what was expected.
+
+    Examples
+    --------
+    >>> import tempfile, pathlib
+    >>> d = pathlib.Path(tempfile.mkdtemp())
+    >>> _ = (d / "LP1.csv").write_text(
+    ...     "Circuit,Load [VA],Breaker [A],Conductor,Length [ft]\\n1,1200,20,12 AWG Cu,50\\n")
+    >>> s = read_schedule(d / "LP1.csv")
+    >>> s.panels, float(s.circuits["length_m"].iloc[0])
+    (('LP1',), 15.24)
+    """
+    p = Path(path)
+    problems = ProblemList(str(p))
+    raw = _guard_file(p, problems)
+    df = _read_xlsx(raw, problems) if p.suffix.lower() == ".xlsx" else _read_csv(raw, problems)
+    if df.shape[1] > MAX_COLUMNS:
+        problems.add("row 1", f"{df.shape[1]} columns", f"at most {MAX_COLUMNS} columns")
+        problems.raise_if_any()
+    # every column as (codes, distinct stripped texts) of the rows below the header
+    cols = {pos: factorised(df[col].to_numpy(object)[1:]) for pos, col in enumerate(df.columns)}
+    head = df.iloc[:6].astype(str)
+    found = match_header(head, lambda pos: bool((cols[pos][1] != "").any()), problems)
+    problems.raise_if_any()
+    cols, rows = _circuit_rows(cols, head, found, problems)
+    c = Cells(cols, len(rows), found, rows, problems)
+    values = _electrical_columns(c, found)
+    values.update(_installation_columns(c))
+    values["panel"] = c.text("panel", panel_id or p.stem)
+    if "panel" in found:
+        empty_panel = values["panel"] == ""
+        c.bad(
+            "panel", empty_panel, values["panel"], "a panel id in every row of a multi-panel file"
+        )
+    amb, ins = values["ambient_c"], values["insulation_c"]
+    ok_amb = np.isnan(amb) | np.isnan(ins) | (amb < ins)
+    c.bad("ambient", ~ok_amb, c.text("ambient"), "an ambient below the insulation rating")
+    _check_spaces(values["circuit"], values["poles"], values["panel"], rows, found, problems)
+    if c.count > MAX_PROBLEMS:
+        problems.add(
+            "",
+            f"{c.count - MAX_PROBLEMS} more bad cells",
+            f"(only the first {MAX_PROBLEMS} are listed)",
+        )
+    problems.raise_if_any()
+    return _schedule(p, values, c, rows)
+
+
+def _circuit_rows(cols, head, found, problems: ProblemList):
+    """Drop blank rows and repeated header rows; returns the columns and row numbers left."""
+    codes, uniq = next(iter(cols.values()))
+    n_body = len(codes)
+    rows_all = np.arange(2, n_body + 2)
+    blank = np.ones(n_body, dtype=bool)
+    for codes, uniq in cols.values():
+        blank &= (uniq == "")[codes]
+    # a header row repeated below the header (pasted twice, or a page break copy)
+    circ_pos = found["circuit"][0]
+    head_txt = str(head.iat[0, circ_pos]).strip().lower()
+    codes, uniq = cols[circ_pos]
+    rep = np.array([u.lower() == head_txt for u in uniq], dtype=bool)[codes]
+    keep = np.flatnonzero(~blank)
+    rows = rows_all[keep]
+    rep = rep[keep]
+    for r in rows[rep][:10]:
+        problems.add(f"row {r}", "a repeated header row", "circuit rows only below the header")
+    keep = keep[~rep]
+    rows = rows[~rep]
+    n = len(rows)
+    if n == 0:
+        problems.add("", "(no circuit rows)", "at least one circuit row under the header")
+        problems.raise_if_any()
+    if n > MAX_ROWS:
+        problems.add("", f"{n:,} rows", f"at most {MAX_ROWS:,} circuit rows")
+        problems.raise_if_any()
+    if n < n_body:
+        cols = {pos: (codes[keep], uniq) for pos, (codes, uniq) in cols.items()}
+    return cols, rows
+
+
+_TEMPERATURE_WORDS = {"60": 60.0, "75": 75.0, "90": 90.0, "60c": 60.0, "75c": 75.0, "90c": 90.0}
+
+
+def _electrical_columns(c: Cells, found) -> dict[str, np.ndarray]:
+    """Circuit number, poles, load (scaled by its header unit), pf, breaker, length."""
+    units = SCHEDULE_HEADER_UNITS
+    circuit = c.number(
+        "circuit", "a circuit number, a whole number from 1 to 999", 1, 999, None, integer=True
+    )
+    poles = c.number("poles", "1, 2 or 3 poles", 1, 3, 1.0, integer=True)
+    load_unit, load_scale = units["load"].get(found["load"][2], ("VA", 1.0))
+    unit_text = {"va": "VA", "kva": "kVA", "w": "W", "kw": "kW", "a": "A"}.get(
+        found["load"][2], "VA"
+    )
+    load = c.number("load", f"a load in {unit_text}, a number ≥ 0", 0, 1e8, None)
+    pf = c.number("pf", "a power factor from 0.05 to 1", 0.05, 1.0, 1.0)
+    breaker = c.number(
+        "breaker", "a breaker rating in A, e.g. 20 or '20 A'", 1, 6000, None, strip=r"a$"
+    )
+    len_scale = units["length"].get(found["length"][2], units["length"][""])[1]
+    length = c.number(
+        "length", "a one-way length greater than 0 (up to 2000 m)", 1e-6, 2000 / len_scale, None
+    )
+    return {
+        "circuit": circuit,
+        "poles": poles,
+        "load_value": load * load_scale,
+        "load_unit": load_unit,
+        "pf": pf,
+        "breaker_a": breaker,
+        "length_m": length * len_scale,
+    }
+
+
+def _installation_columns(c: Cells) -> dict[str, np.ndarray]:
+    """Insulation, termination, ambient, bundling, load kind, continuous, raceway, wires."""
+    ins = c.choice("insulation", _TEMPERATURE_WORDS, "60, 75 or 90 (°C)", 75.0, squeeze=True)
+    term = c.choice("termination", _TEMPERATURE_WORDS, "60, 75 or 90 (°C)", np.nan, squeeze=True)
+    amb = c.number("ambient", "an ambient from -40 to 85 °C", -40, 85, 30.0)
+    ccc = c.number(
+        "current_carrying",
+        "a whole number of current-carrying conductors, 1 to 80",
+        1,
+        80,
+        3.0,
+        integer=True,
+    )
+    kind = c.choice(
+        "kind",
+        {k: k for k in LOAD_KINDS}
+        | {
+            "light": "lighting",
+            "lights": "lighting",
+            "receptacles": "receptacle",
+            "recept": "receptacle",
+            "motors": "motor",
+            "heat": "heating",
+            "heater": "heating",
+        },
+        "a load kind: " + ", ".join(LOAD_KINDS),
+        "other",
+    )
+    cont = c.choice("continuous", truthy(), "yes or no", False)
+    raceway = c.choice(
+        "raceway",
+        {r: r for r in RACEWAYS}
+        | {"emt": "steel", "rmc": "steel", "imc": "steel", "free air": "free-air"},
+        "one of " + ", ".join(RACEWAYS),
+        "steel",
+    )
+    size, material = c.conductor("conductor", required=True)
+    gsize, gmat = c.conductor("ground", required=False)
+    return {
+        "insulation_c": ins.astype(float),
+        "termination_c": term.astype(float),
+        "ambient_c": amb,
+        "current_carrying": ccc,
+        "kind": kind,
+        "continuous": cont,
+        "raceway": raceway,
+        "size": size,
+        "material": material,
+        "ground_size": gsize,
+        "ground_material": gmat,
+    }
+
+
+def _check_spaces(circuit, poles, panel, rows, found, problems: ProblemList) -> None:
+    """Duplicate circuit numbers and spaces taken twice (an n-pole circuit at space s
+    takes s, s+2, ...)."""
+    import pandas as pd
+
+    valid = np.isfinite(circuit) & np.isfinite(poles)
+    if not valid.any():
+        return
+    pan_codes = pd.factorize(pd.Series(panel))[0]
+    n_pole = np.where(valid, poles, 1).astype(np.int64)
+    idx = np.repeat(np.flatnonzero(valid), n_pole[valid])
+    step = np.arange(len(idx)) - np.repeat(np.cumsum(n_pole[valid]) - n_pole[valid], n_pole[valid])
+    space = circuit[idx].astype(np.int64) + 2 * step
+    key = pan_codes[idx].astype(np.int64) * 10_000 + space
+    order = np.argsort(key, kind="stable")
+    ks = key[order]
+    dup = np.flatnonzero(ks[1:] == ks[:-1]) + 1
+    for d in dup[:MAX_PROBLEMS]:
+        j = idx[order[d]]
+        # the earliest row holding this space
+        start = d
+        while start > 0 and ks[start - 1] == ks[d]:
+            start -= 1
+        first = idx[order[start]]
+        what = (
+            "the same circuit number as"
+            if step[order[d]] == 0 and circuit[j] == circuit[first]
+            else "a space already taken by"
+        )
+        problems.add(
+            f"row {rows[j]}, column '{found['circuit'][1]}'",
+            _cell_text(circuit[j]),
+            f"a circuit number not used twice in panel {panel[j]} (it has "
+            f"{what} row {rows[first]}, space {space[order[d]]})",
+        )
+
+
+def _schedule(path: Path, v: dict, c: Cells, rows: np.ndarray) -> Schedule:
+    import pandas as pd
+
+    frame = pd.DataFrame(
+        {
+            "panel": v["panel"],
+            "circuit": v["circuit"].astype(np.int64),
+            "description": c.text("description"),
+            "poles": v["poles"].astype(np.int64),
+            "load_value": v["load_value"],
+            "pf": v["pf"],
+            "kind": v["kind"],
+            "continuous": v["continuous"].astype(bool),
+            "breaker_a": v["breaker_a"],
+            "size": v["size"],
+            "material": v["material"],
+            "insulation_c": v["insulation_c"],
+            "termination_c": v["termination_c"],
+            "ground_size": v["ground_size"],
+            "ground_material": v["ground_material"],
+            "current_carrying": v["current_carrying"].astype(np.int64),
+            "ambient_c": v["ambient_c"],
+            "raceway": v["raceway"],
+            "length_m": v["length_m"],
+            "row": rows,
+        }
+    )
+    return Schedule(path, frame, v["load_unit"], tuple(dict.fromkeys(v["panel"].tolist())))
+
+
+def read_schedules(paths, panel_ids=None) -> tuple[list[Schedule], list[InputError]]:
+    """Read several schedules; return the good ones and every file's InputError."""
+    good, bad = [], []
+    for i, path in enumerate(paths):
+        try:
+            good.append(read_schedule(path, panel_ids[i] if panel_ids else None))
+        except InputError as exc:
+            bad.append(exc)
+    return good, bad

@@ -1,0 +1,147 @@
+"""The header row of a panel schedule: column names matched forgivingly, units read.
+
+Case, spaces, underscores and hyphens do not matter; a unit goes in square or round
+brackets (``load [VA]``, ``length (m)``).
+"""
+
+from __future__ import annotations
+
+import re
+from typing import TYPE_CHECKING
+
+from ..errors import ProblemList
+from ..units import SCHEDULE_HEADER_UNITS
+
+if TYPE_CHECKING:
+    import pandas as pd
+
+# canonical column -> spellings (normalised: lower case, single spaces)
+ALIASES: dict[str, tuple[str, ...]] = {
+    "panel": ("panel", "panel id", "panelboard"),
+    "circuit": (
+        "circuit",
+        "circuits",
+        "circuit no",
+        "circuit number",
+        "ckt",
+        "ckt no",
+        "no",
+        "number",
+        "space",
+        "cct",
+    ),
+    "description": ("description", "desc", "load description", "name", "served"),
+    "poles": ("poles", "pole", "p", "no of poles"),
+    "load": ("load", "connected load"),
+    "pf": ("pf", "power factor"),
+    "kind": ("kind", "load kind", "type", "load type", "class"),
+    "continuous": ("continuous", "cont", "continuous load"),
+    "breaker": ("breaker", "breaker rating", "device", "ocpd", "trip", "rating"),
+    "conductor": ("conductor", "conductors", "wire", "wire size", "conductor size"),
+    "insulation": ("insulation", "insulation rating", "insulation temperature"),
+    "termination": ("termination", "terminations", "termination rating"),
+    "ground": ("ground", "egc", "grounding conductor", "equipment ground"),
+    "current_carrying": ("current carrying", "current carrying conductors", "ccc"),
+    "ambient": ("ambient", "ambient temperature"),
+    "raceway": ("raceway", "conduit", "raceway type"),
+    "length": ("length", "run length", "one way length"),
+}
+# column -> the quantity of its header unit (the others are temperatures)
+_QUANTITY = {"load": "load", "length": "length", "breaker": "current"}
+REQUIRED = ("circuit", "load", "breaker", "conductor", "length")
+_LOOKUP = {a: k for k, names in ALIASES.items() for a in names}
+_UNIT_RE = re.compile(r"^(?P<name>.*?)\s*[\[(]\s*(?P<unit>[^\])]*?)\s*[\])]\s*$")
+
+
+def normalise_header(text: object) -> tuple[str, str]:
+    """``"Load_[VA] "`` → ``("load", "va")``: name and unit, lower case, single spaces.
+
+    Examples
+    --------
+    >>> normalise_header("Length (ft)")
+    ('length', 'ft')
+    >>> normalise_header("  CURRENT_carrying  ")
+    ('current carrying', '')
+    """
+    s = "" if text is None else str(text)
+    m = _UNIT_RE.match(s.strip())
+    name, unit = (m.group("name"), m.group("unit")) if m else (s, "")
+    name = " ".join(re.sub(r"[_\-.#:]+", " ", name).lower().split())
+    return name, unit.strip().lower().replace("°", "")
+
+
+def match_header(
+    df: pd.DataFrame, has_values, problems: ProblemList
+) -> dict[str, tuple[int, str, str]]:
+    """canonical name -> (column position, header text, unit).
+
+    ``df`` holds the header row and the rows below it as text (the first few are enough:
+    they are searched for a header placed too low); ``has_values(pos)`` tells whether
+    column ``pos`` has a non-blank cell below the header.
+    """
+    header = [str(x) for x in df.iloc[0].tolist()]
+    found: dict[str, tuple[int, str, str]] = {}
+    unknown: list[str] = []
+    blank: list[int] = []
+    for pos, text in enumerate(header):
+        name, unit = normalise_header(text)
+        if not name:
+            if has_values(pos):
+                blank.append(pos)
+            continue
+        key = _LOOKUP.get(name)
+        if key is None:
+            unknown.append(text)
+            continue
+        if key in found:
+            problems.add(
+                f"row 1, column {pos + 1}",
+                text,
+                f"one column for {key!r} (column {found[key][0] + 1} "
+                f"'{found[key][1]}' is one already)",
+            )
+            continue
+        found[key] = (pos, text, unit)
+    missing = [k for k in REQUIRED if k not in found]
+    if missing:
+        hint = ""
+        for r in range(1, min(len(df), 6)):
+            names = {_LOOKUP.get(normalise_header(x)[0]) for x in df.iloc[r].tolist()}
+            if all(k in names for k in missing):
+                hint = (
+                    f" (they are in row {r + 1}: the header must be row 1 — remove the "
+                    "title rows above it, or unmerge them)"
+                )
+                break
+        problems.add(
+            "row 1",
+            ", ".join(header)[:80],
+            "header columns " + ", ".join(repr(k) for k in missing) + hint,
+        )
+    else:
+        for pos in blank:
+            problems.add(
+                f"row 1, column {pos + 1}",
+                "",
+                "a name for every column with values (blank or merged header cell)",
+            )
+    for key in ("load", "length", "breaker", "insulation", "ambient", "termination"):
+        if key not in found:
+            continue
+        pos, text, unit = found[key]
+        quantity = _QUANTITY.get(key, "temperature")
+        allowed = SCHEDULE_HEADER_UNITS[quantity]
+        if unit not in allowed:
+            want = {
+                "load": "'load [VA]', '[kVA]', '[W]', '[kW]' or '[A]'",
+                "length": "'length [ft]' or 'length [m]'",
+                "breaker": "'breaker [A]'",
+            }.get(key, f"'{key} [C]' (degrees Celsius)")
+            problems.add(f"row 1, column {pos + 1}", text, f"a header such as {want}")
+        elif key == "load" and unit == "":
+            problems.add(
+                f"row 1, column {pos + 1}",
+                text,
+                "the load's unit in the header: 'load [VA]', '[kVA]', '[W]', '[kW]' or '[A]'",
+            )
+    return found

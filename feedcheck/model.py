@@ -1,0 +1,231 @@
+"""The model of a job: plain frozen dataclasses in SI floats, and the one copy of each
+vocabulary (raceways, materials, occupancies, load kinds, system shapes, node kinds).
+
+No I/O here and no logic beyond small properties: the readers under
+:mod:`feedcheck.inputs` build these objects (defaults filled, the feed tree built once)
+and everything downstream only reads them.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:
+    import pandas as pd
+
+    from .calc.sizes import Size
+
+# ------------------------------------------------------------------- vocabularies
+SOURCE_ID = "source"  # the reserved id of the supply node
+NODE_KINDS = ("source", "transformer", "panel")  # nodes of the feed tree; runs are its edges
+RACEWAYS = ("steel", "aluminum", "pvc", "cable", "free-air")
+MATERIALS = ("cu", "al")
+# how users write a conductor material -> the material
+MATERIAL_WORDS = {"cu": "cu", "copper": "cu", "al": "al", "aluminum": "al", "aluminium": "al"}
+INSULATION_RATINGS_C = (60.0, 75.0, 90.0)  # conductor insulation / terminal columns [°C]
+OCCUPANCIES = ("other", "dwelling", "hospital", "hotel", "warehouse")  # Table 220.42 rows
+LOAD_KINDS = ("lighting", "receptacle", "motor", "heating", "other")  # schedule circuits
+# system shapes (VoltageSystem.kind): 208Y/120 wye, 480 V delta, 120/240 split-phase
+# three-wire, single-phase two-wire, and three-phase with the winding not stated
+SYSTEM_KINDS = ("wye", "delta", "split", "single", "line")
+VOLTAGE_DROP_MODES = ("recommended", "mandatory")
+VOLTAGE_FACTORS = ("none", "iec60909")
+
+
+@dataclass(frozen=True)
+class VoltageSystem:
+    """A nominal system voltage as the trade writes it.
+
+    Attributes
+    ----------
+    line_v : float
+        Line-to-line voltage [V] (for a 120/240 V single-phase three-wire system, 240).
+    neutral_v : float | None
+        Line-to-neutral voltage [V] where a neutral exists (120 for 120/240 V).
+    phases : int
+        1 or 3.
+    kind : str
+        One of :data:`SYSTEM_KINDS`: ``wye`` (``208Y/120``), ``delta``
+        (``480 V delta``), ``split`` (``120/240``, single-phase three-wire), ``single``
+        (single-phase two-wire) or ``line`` (three-phase, winding not stated).
+    text : str
+        The text as written.
+    """
+
+    line_v: float
+    neutral_v: float | None
+    phases: int
+    kind: str
+    text: str
+
+    @property
+    def grounded_wye(self) -> bool:
+        return self.kind == "wye"
+
+
+@dataclass(frozen=True)
+class Project:
+    name: str
+    site: str = ""
+    prepared_by: str = ""
+    date: str = ""
+    revision: str = ""
+    rules: str = "na"
+    notes: str = ""
+
+
+@dataclass(frozen=True)
+class Source:
+    """The supply at the transformer primary."""
+
+    voltage: VoltageSystem
+    fault_a: float  # available three-phase fault current [A]; inf for an infinite bus
+    x_r: float
+
+
+@dataclass(frozen=True)
+class Transformer:
+    """A transformer. ``x_r`` is always set: when the job gives none, the reader fills the
+    typical value by rating and names the table row in ``x_r_typical_row``."""
+
+    id: str
+    from_id: str
+    rating_va: float
+    primary: VoltageSystem
+    secondary: VoltageSystem
+    z_pct: float
+    x_r: float
+    primary_device_a: float
+    secondary_device_a: float | None
+    tap_pct: float = 0.0
+    z0_ratio: float = 1.0
+    x_r_typical_row: str = ""  # "" when the job gives X/R; else the typical-table row used
+
+    @property
+    def x_r_typical(self) -> bool:
+        """True when ``x_r`` was filled from the typical-value table, not given."""
+        return bool(self.x_r_typical_row)
+
+
+@dataclass(frozen=True)
+class Run:
+    id: str
+    from_id: str
+    to_id: str
+    length_m: float
+    size: Size
+    material: str
+    sets: int
+    insulation_c: float
+    raceway: str
+    ambient_c: float
+    current_carrying: int
+    ground: Size | None
+    ground_material: str
+    device_a: float | None  # device protecting the run at its sending end
+    termination_c: float | None  # None: rule of 110.14(C)
+    rooftop_mm: float | None = None  # raceway height above a sunlit roof [mm]
+    harmonic_neutral: bool = False
+    clearing_s: float | None = None
+
+
+@dataclass(frozen=True)
+class Motor:
+    id: str
+    panel_id: str
+    full_load_a: float
+    locked_rotor_a: float | None
+    hp: float | None
+
+
+@dataclass(frozen=True)
+class Panel:
+    id: str
+    rating_a: float
+    main_device_a: float | None
+    interrupting_a: float | None
+    voltage: VoltageSystem | None
+    schedule: Path | None
+    load_va: float | None
+    continuous_va: float
+    pf: float
+    instantaneous_a: float | None = None
+    occupancy: str = "other"  # lighting demand factors of the schedule (Table 220.42)
+
+
+@dataclass(frozen=True)
+class Options:
+    impedance_tolerance_pct: float = 7.5
+    voltage_factor: str = "none"  # one of VOLTAGE_FACTORS
+    voltage_drop: str = "recommended"  # one of VOLTAGE_DROP_MODES: warn | fail
+    feeder_drop_pct: float | None = None
+    branch_drop_pct: float | None = None
+    total_drop_pct: float | None = None
+
+
+@dataclass(frozen=True)
+class Tree:
+    """The feed as a radial tree, built once when the job is read.
+
+    Nodes are the source, transformers and panels; runs are the edges. A transformer
+    with no run into it hangs directly on the source (zero-length connection).
+    """
+
+    order: tuple[str, ...]  # node ids, parents before children; order[0] == "source"
+    kind: dict[str, str]  # node id -> one of NODE_KINDS
+    parent_node: dict[str, str | None]
+    parent_run: dict[str, Run | None]
+    voltage_of: dict[str, VoltageSystem]  # voltage at the node (secondary for transformers)
+    upstream_transformer: dict[str, str | None]
+    distance_m: dict[str, float]
+
+    def parent_index(self) -> list[int]:
+        pos = {n: i for i, n in enumerate(self.order)}
+        return [-1 if self.parent_node[n] is None else pos[self.parent_node[n]] for n in self.order]
+
+    def children(self, node: str) -> list[str]:
+        return [n for n in self.order if self.parent_node[n] == node]
+
+
+@dataclass(frozen=True)
+class Job:
+    """A validated job: every default filled, the feed tree built (``tree``)."""
+
+    path: Path
+    project: Project
+    source: Source
+    transformers: tuple[Transformer, ...]
+    runs: tuple[Run, ...]
+    panels: tuple[Panel, ...]
+    tree: Tree = field(compare=False, hash=False, repr=False)
+    motors: tuple[Motor, ...] = ()
+    options: Options = field(default_factory=Options)
+    text: str = ""
+
+    def element(self, element_id: str):
+        for coll in (self.transformers, self.runs, self.panels):
+            for e in coll:
+                if e.id == element_id:
+                    return e
+        return None
+
+
+@dataclass(frozen=True)
+class Schedule:
+    """A validated schedule: one row per circuit, typed columns in SI units.
+
+    ``circuits`` columns: ``panel``, ``circuit`` (int), ``description``, ``poles``,
+    ``load_value`` with ``load_unit`` (``VA``, ``W`` or ``A``), ``pf``, ``kind`` (one of
+    :data:`LOAD_KINDS`), ``continuous`` (bool), ``breaker_a``, ``size`` (canonical name),
+    ``material``, ``insulation_c``, ``termination_c`` (NaN: by 110.14(C)),
+    ``ground_size`` ("" when none), ``ground_material``, ``current_carrying``,
+    ``ambient_c``, ``raceway``, ``length_m``, ``row`` (row number as the spreadsheet
+    shows it).
+    """
+
+    path: Path
+    circuits: pd.DataFrame
+    load_unit: str
+    panels: tuple[str, ...]
