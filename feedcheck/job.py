@@ -113,7 +113,7 @@ class Panel:
 
 @dataclass(frozen=True)
 class Options:
-    impedance_tolerance_pct: float = 7.5
+    impedance_tolerance_pct: float | None = None  # None: rule fault-z-tolerance of the tables
     voltage_factor: str = "none"  # "none" | "iec60909"
     voltage_drop: str = "recommended"  # "recommended" (warn) | "mandatory" (fail)
     feeder_drop_pct: float | None = None
@@ -721,7 +721,7 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
         "impedance_tolerance",
         "percent",
         required=False,
-        default=7.5,
+        default=None,
         must_be_positive=False,
     )
     if tol is not None and not (0 <= tol <= 20):
@@ -737,7 +737,7 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
     if vd not in ("recommended", "mandatory"):
         r.add("options.voltage_drop", vd, "'recommended' (warnings) or 'mandatory' (failures)")
     options = Options(
-        impedance_tolerance_pct=tol if tol is not None else 7.5,
+        impedance_tolerance_pct=tol,
         voltage_factor=vf,
         voltage_drop=vd,
         feeder_drop_pct=r.qty(opts, "options", "feeder_drop", "percent", required=False),

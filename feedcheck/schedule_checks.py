@@ -266,7 +266,8 @@ def _phase_of_space(space: np.ndarray, system: VoltageSystem) -> np.ndarray:
 
 
 def _ampacities(c: pd.DataFrame, problems: ProblemList):
-    from .calc.ampacity import COLUMNS_C, ampacity_a, ampacity_tables, termination_c_for
+    from .calc.ampacity import COLUMNS_C, ampacity_a, termination_c_for
+    from .rulebook import current_rulebook
     from .calc.conductor import material_index, size_index
 
     size = c["size"].to_numpy(object)
@@ -274,7 +275,7 @@ def _ampacities(c: pd.DataFrame, problems: ProblemList):
     breaker = c["breaker_a"].to_numpy(float)
     term = c["termination_c"].to_numpy(float)
     term = np.where(np.isnan(term), _per_unique(termination_c_for, breaker, size), term)
-    t = ampacity_tables()
+    t = current_rulebook().ampacity
     idx = _per_unique(size_index, size)
     m = _per_unique(material_index, mat)
     cols = np.asarray(COLUMNS_C)
@@ -299,9 +300,10 @@ def _ampacities(c: pd.DataFrame, problems: ProblemList):
         c["ambient_c"].to_numpy(float),
         c["current_carrying"].to_numpy(),
         term,
+        tables=t,
     )
     unadjusted = _per_unique(
-        lambda s, m, i, t: ampacity_a(s, m, i, 30.0, 3, t), size, mat, ins, term
+        lambda s, m, i, tc: ampacity_a(s, m, i, 30.0, 3, tc, tables=t), size, mat, ins, term
     )
     return np.asarray(derated, float), np.asarray(unadjusted, float), term
 
@@ -312,6 +314,9 @@ def _min_phase_area(breaker, mat, ins, term, size):
     "minimum size that has sufficient ampacity" of 250.122(B). One call per distinct row."""
     from .calc.ampacity import ampacity_a
     from .calc.protection import max_device_a
+    from .rulebook import current_rulebook
+
+    book = current_rulebook()
     from .calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
 
     out = np.empty(len(breaker))
@@ -322,10 +327,10 @@ def _min_phase_area(breaker, mat, ins, term, size):
             if SIZES[name].area_mm2 >= SIZES[sz].area_mm2:
                 break
             try:
-                amp = float(ampacity_a(name, m, i, 30.0, 3, t))
+                amp = float(ampacity_a(name, m, i, 30.0, 3, t, tables=book.ampacity))
             except ValueError:
                 continue
-            if float(max_device_a(amp, name, m)) >= b - 1e-9:
+            if float(max_device_a(amp, name, m, tables=book.protection)) >= b - 1e-9:
                 out[k] = SIZES[name].area_mm2
                 break
     return out
@@ -335,10 +340,10 @@ def _egc_required_area(breaker, gmat, size, mat, min_area):
     """Least EGC area [mm²] by Table 250.122, increased in proportion to the circuit
     conductors' area over the minimum size (250.122(B)), capped at the circuit
     conductors (250.122(A))."""
-    from .calc.conductor import AREA_MM2, conductor_data, material_index, size_index
-    from .calc.protection import protection_tables
+    from .calc.conductor import AREA_MM2, material_index, size_index
+    from .rulebook import current_rulebook
 
-    t = protection_tables()
+    t = current_rulebook().protection
     row = np.searchsorted(t.egc_up_to_a, breaker * (1 - 1e-12), side="left")
     row = np.minimum(row, len(t.egc_up_to_a) - 1)
     cu = AREA_MM2[size_index(np.array(t.egc_cu))]
@@ -349,7 +354,7 @@ def _egc_required_area(breaker, gmat, size, mat, min_area):
     # the installed ground is a standard size, so comparing its area with the grown area
     # is the same as rounding the grown area up to the next standard size
     need = table_area * np.maximum(phase_area / min_area, 1.0)
-    rho = conductor_data().rho20
+    rho = t.rho20
     pm = material_index(mat)
     cap = phase_area * rho[gm] / rho[pm]
     return np.minimum(need, cap), table_area
@@ -410,7 +415,10 @@ def check_schedule(
     import pandas as pd
 
     from .calc.conductor import AREA_MM2, ac_impedance_ohm_per_m, size_index
-    from .calc.protection import max_device_a, next_standard_rating_a, protection_tables
+    from .calc.protection import max_device_a, next_standard_rating_a
+    from .rulebook import current_rulebook
+
+    book = current_rulebook()
     from .calc.vdrop import voltage_drop_approximate_v
 
     tiers = demand_tiers(occupancy)
@@ -442,7 +450,7 @@ def check_schedule(
 
     from .calc.protection import standard_ratings_a
 
-    std = standard_ratings_a("breaker")
+    std = standard_ratings_a("breaker", tables=book.protection)
     add(
         "standard rating",
         "sched-standard-rating",
@@ -502,10 +510,10 @@ def check_schedule(
     )
     from .calc.conductor import material_index
 
-    small = protection_tables().small_limit_a[
+    small = book.protection.small_limit_a[
         _per_unique(material_index, mat), _per_unique(size_index, size)
     ]
-    mx = np.asarray(_per_unique(max_device_a, derated, size, mat), float)
+    mx = np.asarray(_per_unique(max_device_a, derated, size, mat, tables=book.protection), float)
     add(
         "small conductor",
         "sched-small-conductor",
@@ -530,7 +538,9 @@ def check_schedule(
     )
     motor_max = np.zeros(n)
     if motor.any():
-        motor_max[motor] = next_standard_rating_a(np.minimum(2.5 * current[motor], 6000.0))
+        motor_max[motor] = next_standard_rating_a(
+            np.minimum(2.5 * current[motor], 6000.0), tables=book.protection
+        )
     add(
         "motor breaker",
         "sched-motor-breaker",
@@ -611,7 +621,7 @@ def check_schedule(
     )
 
     r_m, x_m = _per_unique(
-        lambda s, m, r: ac_impedance_ohm_per_m(s, m, r, 75.0),
+        lambda s, m, r: ac_impedance_ohm_per_m(s, m, r, 75.0, data=book.conductors),
         size,
         mat,
         c["raceway"].to_numpy(object),

@@ -2,13 +2,13 @@
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass, field
 
+from ..calc.constants import SQRT3
 from ..findings import Finding, Status
 from ..job import Job
 from ..results import NodeResult, Sheet
-from ..tables import load_table
+from ..rulebook import RuleBook, current_rulebook
 from ..topology import Tree, build_tree
 
 
@@ -27,9 +27,13 @@ class Load:
 
 @dataclass
 class Context:
+    """One check run. ``rules`` is the rule book: every table as typed records, and
+    ``rules.rule(rule_id)`` the one way to fetch a rule row."""
+
     job: Job
     tree: Tree
     loads: dict[str, Load]
+    rules: RuleBook
     findings: list[Finding] = field(default_factory=list)
     sheets: dict[str, Sheet] = field(default_factory=dict)
     nodes: dict[str, NodeResult] = field(default_factory=dict)
@@ -57,13 +61,6 @@ class Context:
             self.sheets[element_id] = Sheet(element_id, kind, title)
         return self.sheets[element_id]
 
-    def rule(self, rule_id: str) -> dict:
-        t = load_table("check_rules")
-        row = t.data[t.data["rule_id"] == rule_id]
-        if row.empty:
-            raise KeyError(f"rule {rule_id!r} missing from tables/check_rules.csv")
-        return row.iloc[0].to_dict()
-
     def method(self, name: str, source: str) -> None:
         if (name, source) not in self.methods:
             self.methods.append((name, source))
@@ -74,7 +71,7 @@ class Context:
 
     def load_current_a(self, node: str) -> float:
         v = self.tree.voltage_of[node]
-        k = math.sqrt(3) if v.phases == 3 else 1.0
+        k = SQRT3 if v.phases == 3 else 1.0
         return self.loads[node].va / (k * v.line_v)
 
 
@@ -87,8 +84,13 @@ def _f(v):
         return v
 
 
-def build_context(job: Job, panel_loads: dict[str, Load] | None = None) -> Context:
-    """Tree plus demand loads rolled up from the panels (own load + downstream)."""
+def build_context(
+    job: Job, panel_loads: dict[str, Load] | None = None, rules: RuleBook | None = None
+) -> Context:
+    """Tree plus demand loads rolled up from the panels (own load + downstream).
+
+    ``rules``: the rule book to check against (default: the tables in force,
+    shipped or ``--tables DIR``)."""
     tree = build_tree(job)
     own: dict[str, Load] = {n: Load() for n in tree.order}
     for p in job.panels:
@@ -103,4 +105,4 @@ def build_context(job: Job, panel_loads: dict[str, Load] | None = None) -> Conte
             loads[parent].va += loads[n].va
             loads[parent].continuous_va += loads[n].continuous_va
             loads[parent].w += loads[n].w
-    return Context(job, tree, loads)
+    return Context(job, tree, loads, rules if rules is not None else current_rulebook())

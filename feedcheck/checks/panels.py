@@ -94,9 +94,7 @@ def check_panel(ctx: Context, p: Panel) -> None:
 def check_standard_ratings(ctx: Context) -> None:
     """Every device rating in the job should be a standard rating (240.6(A)); a setting
     of an adjustable-trip breaker may not be, so this is a warning."""
-    from ..tables import load_table
-
-    std = set(load_table("device_ratings").data["rating_a"].astype(float))
+    std = {float(r) for r in ctx.rules.device_ratings_a}
     job = ctx.job
     devices = [(t.id, "primary device", t.primary_device_a) for t in job.transformers]
     devices += [(t.id, "secondary device", t.secondary_device_a) for t in job.transformers]

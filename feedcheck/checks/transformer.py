@@ -8,21 +8,13 @@ import math
 from ..calc import transformer as tk
 from ..calc.sizes import SIZES
 from ..job import Transformer
-from ..tables import load_table
+from ..rulebook import RuleBook
 from .context import Context
 
 
-def typical_x_r(rating_va: float) -> tuple[float, str]:
-    """Typical X/R from tables/transformer_xr.csv (nearest rating at or below)."""
-    t = load_table("transformer_xr").data
-    kva = rating_va / 1000.0
-    below = t[t["rating_kva"] <= kva + 1e-9]
-    row = below.iloc[-1] if not below.empty else t.iloc[0]
-    return float(row["x_r"]), f"{row['rating_kva']:g} kVA row"
-
-
-def transformer_x_r(t: Transformer) -> float:
-    return t.x_r if t.x_r is not None else typical_x_r(t.rating_va)[0]
+def transformer_x_r(t: Transformer, rules: RuleBook) -> float:
+    """The nameplate X/R, else the typical value of the rule book's X/R table."""
+    return t.x_r if t.x_r is not None else rules.transformer_xr.typical(t.rating_va)[0]
 
 
 def check_transformer(ctx: Context, t: Transformer) -> None:
@@ -82,8 +74,8 @@ def check_transformer(ctx: Context, t: Transformer) -> None:
     )
 
     # --- overcurrent protection, 450.3(B)
-    rules = load_table("transformer_protection").data.to_dict("records")
-    ratings = load_table("device_ratings").data["rating_a"].to_numpy(dtype=float)
+    rules = list(ctx.rules.transformer_protection)
+    ratings = ctx.rules.device_ratings_a
     sh.uses("transformer_protection", "device_ratings")
     arrangement = "primary and secondary" if t.secondary_device_a else "primary only"
     ctx.method("Transformer overcurrent protection limits", "NFPA 70-2023 450.3(B), Table 450.3(B)")
@@ -131,9 +123,9 @@ def check_transformer(ctx: Context, t: Transformer) -> None:
 
     # --- loading and regulation at the demand load
     load = ctx.loads[t.id]
-    x_r = transformer_x_r(t)
+    x_r = transformer_x_r(t, ctx.rules)
     if t.x_r is None:
-        row = typical_x_r(t.rating_va)[1]
+        row = ctx.rules.transformer_xr.typical(t.rating_va)[1]
         sh.uses("transformer_xr")
         ctx.assume(
             f"{t.id}: X/R {x_r:g} taken from the typical-value table ({row}); "
@@ -151,7 +143,7 @@ def check_transformer(ctx: Context, t: Transformer) -> None:
         "% (%X)",
     )
     n = load.va / t.rating_va
-    rule = ctx.rule("xfmr-loading")
+    rule = ctx.rules.rule("xfmr-loading")
     pct = 100.0 * n
     sh.step(
         "Loading",
@@ -162,14 +154,14 @@ def check_transformer(ctx: Context, t: Transformer) -> None:
         "xfmr-loading",
     )
     if load.va > 0:
-        ok = pct <= float(rule["limit"]) + 1e-9
+        ok = pct <= rule.number("limit") + 1e-9
         ctx.add(
             t.id,
             "loading",
             pct,
-            float(rule["limit"]),
+            rule.number("limit"),
             "%",
-            "ok" if ok else rule["status"],
+            "ok" if ok else rule.text("status"),
             "xfmr-loading",
             f"demand {load.va / 1000:.1f} kVA on {t.rating_va / 1000:g} kVA"
             + ("" if ok else "; a larger transformer or less load is needed"),
@@ -223,7 +215,7 @@ def _check_grounding(ctx: Context, t: Transformer, sh) -> None:
     areas = [(r.size.area_kcmil * r.sets, r.material) for r in runs]
     total = sum(a for a, _ in areas)
     material = runs[0].material
-    rows = load_table("grounding_electrode_conductor").data.to_dict("records")
+    rows = ctx.rules.rows("grounding_electrode_conductor")
     sh.uses("grounding_electrode_conductor")
     row = tk.gec_row(total, material, rows)
     gec_cu, gec_al = row["gec_cu"], row["gec_al"]
