@@ -112,8 +112,13 @@ class Table:
         counts: dict[str, int] = {}
         for level in self.row_confidence:
             counts[level] = counts.get(level, 0) + 1
-        order = {lv: i for i, lv in enumerate(CONFIDENCE_LEVELS)}
-        return dict(sorted(counts.items(), key=lambda kv: (order.get(kv[0], 99), kv[0])))
+        return sorted_counts(counts)
+
+
+def sorted_counts(counts: dict[str, int]) -> dict[str, int]:
+    """Counts by confidence level in the order of ``CONFIDENCE_LEVELS``, others after."""
+    order = {lv: i for i, lv in enumerate(CONFIDENCE_LEVELS)}
+    return dict(sorted(counts.items(), key=lambda kv: (order.get(kv[0], 99), kv[0])))
 
 
 def _split_header(text: str) -> tuple[dict[str, str], str, int]:
