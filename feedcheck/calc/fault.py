@@ -33,10 +33,10 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .constants import M_PER_FT, SQRT3
 from .transformer import transformer_impedance_ohm
 
-SQRT3 = math.sqrt(3.0)
-FT_PER_M = 1.0 / 0.3048
+FT_PER_M = 1.0 / M_PER_FT
 PTP_KINDS = ("3ph", "1ph-ll", "1ph-ln")
 
 
@@ -145,7 +145,7 @@ def refer_impedance_ohm(z_ohm, from_voltage_v, to_voltage_v):
 
 
 def transformer_fault_impedances_ohm(rating_va, voltage_ll_v, z_pct, x_r,
-                                     tolerance_pct=7.5, phases=3):
+                                     tolerance_pct, phases=3):
     """Transformer impedance for the maximum and the minimum fault case.
 
     Method: Z = Z_nameplate · (1 ∓ tol/100), lower for the maximum case, upper for the
@@ -166,7 +166,7 @@ def transformer_fault_impedances_ohm(rating_va, voltage_ll_v, z_pct, x_r,
 
     Examples
     --------
-    >>> zmax, zmin = transformer_fault_impedances_ohm(75e3, 208.0, 5.1, 3.5)
+    >>> zmax, zmin = transformer_fault_impedances_ohm(75e3, 208.0, 5.1, 3.5, 7.5)
     >>> round(abs(zmax) / abs(zmin), 6)
     0.860465
     """
@@ -433,7 +433,7 @@ def subtree_sum(parent_index, values):
     return out
 
 
-def motor_contribution_a(motor_flc_a, multiple=4.0):
+def motor_contribution_a(motor_flc_a, multiple):
     """Motor contribution to a fault: multiple × motor full-load current.
 
     The multiple (4 × FLC) is a common practice, no published source (rule row
@@ -441,7 +441,7 @@ def motor_contribution_a(motor_flc_a, multiple=4.0):
 
     Examples
     --------
-    >>> motor_contribution_a(65.0)
+    >>> motor_contribution_a(65.0, 4.0)
     260.0
     """
     return _out(_nonneg("motor_flc_a", motor_flc_a) * _positive("multiple", multiple))
@@ -528,7 +528,7 @@ def radial_fault_3ph(parent_index, voltage_ll_v, branch_z_max_ohm, branch_z_min_
 # --------------------------------------------------------------------------- 120/240 V
 
 
-def split_phase_source_ohm(z_full_winding_ohm, ln_multiplier=1.5):
+def split_phase_source_ohm(z_full_winding_ohm, ln_multiplier):
     """Source impedances of a single-phase 120/240 V centre-tapped secondary.
 
     Method: line-to-line faults see the full winding, Z_LL = Z_T (ohms at 240 V, from
@@ -545,7 +545,7 @@ def split_phase_source_ohm(z_full_winding_ohm, ln_multiplier=1.5):
 
     Examples
     --------
-    >>> zll, zln = split_phase_source_ohm(0.06 + 0.03j)
+    >>> zll, zln = split_phase_source_ohm(0.06 + 0.03j, 1.5)
     >>> round(zln.real, 6), round(zln.imag, 6)
     (0.02, 0.01)
     """
@@ -610,7 +610,7 @@ def ptp_factor(length_m, fault_a, c_a_ft_per_v, sets, voltage_v, kind="3ph"):
 
     Examples
     --------
-    >>> round(ptp_factor(20 * 0.3048, 46273.0, 22185.0, 2, 208.0), 3)
+    >>> round(ptp_factor(20 * M_PER_FT, 46273.0, 22185.0, 2, 208.0), 3)
     0.174
     """
     if kind not in PTP_KINDS:
@@ -641,7 +641,7 @@ def ptp_chain_a(start_a, lengths_m, c_a_ft_per_v, sets, voltage_v, kind="3ph"):
 
     Examples
     --------
-    >>> ptp_chain_a(46273.0, [20 * 0.3048], [22185.0], [2], 208.0).round(-1).tolist()
+    >>> ptp_chain_a(46273.0, [20 * M_PER_FT], [22185.0], [2], 208.0).round(-1).tolist()
     [39430.0]
     """
     lengths = np.atleast_1d(_nonneg("lengths_m", lengths_m))

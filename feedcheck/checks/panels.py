@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from ..calc.constants import SQRT3
 from ..job import Panel
 from .context import Context
 
@@ -31,10 +32,11 @@ def check_panel(ctx: Context, p: Panel) -> None:
             'no load given (add load = "… kVA" or a schedule) — load checks skipped',
         )
         return
-    k = 3**0.5 if v.phases == 3 else 1.0
+    k = SQRT3 if v.phases == 3 else 1.0
     i_load = load.va / (k * v.line_v)
     i_cont = load.continuous_va / (k * v.line_v)
-    i_design = i_load + 0.25 * i_cont
+    factor = ctx.rules.protection.continuous_factor  # rule device-continuous-125
+    i_design = i_load + (factor - 1.0) * i_cont
     sh.inputs.append(
         (
             "Demand load",
@@ -51,8 +53,8 @@ def check_panel(ctx: Context, p: Panel) -> None:
     )
     sh.step(
         "Design current",
-        "I_noncontinuous + 125 % · I_continuous",
-        f"{i_load - i_cont:.1f} + 1.25 × {i_cont:.1f}",
+        f"I_noncontinuous + {100 * factor:g} % · I_continuous",
+        f"{i_load - i_cont:.1f} + {factor:g} × {i_cont:.1f}",
         round(i_design, 1),
         "A",
         "panel-bus-load",

@@ -247,14 +247,17 @@ def _check_grounding(ctx: Context, t: Transformer, sh) -> None:
         f"{total:.1f} kcmil {material.upper()} secondary conductors",
     )
     lim_col = "cu_up_to_kcmil" if material == "cu" else "al_up_to_kcmil"
+    sbj_pct = ctx.rules.rule("sbj-sds").number("limit")
     if math.isinf(float(row[lim_col])) and total > 0:
-        sbj_area = 0.125 * total
-        sbj_text = f"at least {sbj_area:.0f} kcmil ({material.upper()}, 12.5 % of {total:.0f})"
+        sbj_area = sbj_pct / 100.0 * total
+        sbj_text = (
+            f"at least {sbj_area:.0f} kcmil ({material.upper()}, {sbj_pct:g} % of {total:.0f})"
+        )
     else:
         sbj_text = f"at least {gec_cu} Cu or {gec_al} Al"
     sh.step(
         "System bonding jumper",
-        "Table 250.102(C)(1) (12.5 % of area above its rows)",
+        f"Table 250.102(C)(1) ({sbj_pct:g} % of area above its rows)",
         f"{total:.1f} kcmil",
         sbj_text,
         "",
