@@ -428,6 +428,8 @@ _books: dict[tuple[str, int], RuleBook] = {}
 def current_rulebook() -> RuleBook:
     """The rule book for the tables in force (shipped, or ``--tables DIR``), built once."""
     udir = _tables.user_tables_dir()
+    if udir is None:
+        return default_rulebook()
     key = (str(udir), _tables.generation())
     if key not in _books:
         for old in [k for k in _books if k[1] >= 0]:

@@ -25,9 +25,9 @@ from hypothesis import strategies as st
 
 from feedcheck.calc.sizes import AWG_KCMIL_ORDER
 from feedcheck.runner import run_job
+from tests.kernels import ampacity_a
 
 from . import assert_no_traceback, cli
-from tests.kernels import ampacity_a
 
 SETTINGS = settings(
     max_examples=20,

@@ -3,8 +3,8 @@
 import math
 
 import pytest
-from tests.kernels import select_conductor
 
+from tests.kernels import select_conductor
 
 
 def test_ampacity_governs_plain_feeder():
@@ -32,8 +32,8 @@ def test_voltage_drop_governs_long_run():
     assert s.vdrop_pct <= 3.0
     # one size smaller fails: √3·I·L·(R cosθ + X sinθ) > 3 % of 208 V (approximate form,
     # REFERENCES.md; R, X from NFPA 70 Ch. 9 Table 9 through the conductor kernel)
-    from tests.kernels import ac_impedance_ohm_per_m
     from feedcheck.calc.sizes import AWG_KCMIL_ORDER
+    from tests.kernels import ac_impedance_ohm_per_m
 
     smaller = AWG_KCMIL_ORDER[AWG_KCMIL_ORDER.index(s.size) - 1]
     r, x = ac_impedance_ohm_per_m(smaller, "cu", "steel", 75.0)
