@@ -150,12 +150,17 @@ def tables_cmd(verify):
       feedcheck tables
       feedcheck --tables my_tables/ tables --verify
     """
-    from .tables import verify_all
+    from .tables import sorted_counts, verify_all
 
     good, bad = verify_all()
+    total: dict[str, int] = {}
     for t in good:
         level, detail = _confidence_parts(t.confidence)
         click.echo(f"{t.name}  [{level}]  {t.origin}")
+        counts = t.confidence_counts()
+        for k, n in counts.items():
+            total[k] = total.get(k, 0) + n
+        click.echo("    rows:   " + _counts_text(counts))
         click.echo(
             textwrap.fill(
                 t.source, 96, initial_indent="    source: ", subsequent_indent="            "
@@ -167,12 +172,20 @@ def tables_cmd(verify):
                     detail, 96, initial_indent="    note:   ", subsequent_indent="            "
                 )
             )
+    n_rows = sum(total.values())
+    total = sorted_counts(total)
+    click.echo(f"{len(good)} tables, {n_rows} rows by confidence: {_counts_text(total)}")
     for exc in bad:
         for p in exc.problems:
             click.echo(f"error: {p}", err=True)
     if verify:
         click.echo(f"{len(good)} tables verified, {len(bad)} broken", err=True)
     sys.exit(2 if bad else 0)
+
+
+def _counts_text(counts: dict[str, int]) -> str:
+    """'36 published, 14 from memory — verify' (levels as the tables module orders them)."""
+    return ", ".join(f"{n} {level}" for level, n in counts.items()) or "none"
 
 
 def _confidence_parts(text: str) -> tuple[str, str]:

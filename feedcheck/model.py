@@ -157,7 +157,7 @@ class Panel:
 
 @dataclass(frozen=True)
 class Options:
-    impedance_tolerance_pct: float = 7.5
+    impedance_tolerance_pct: float | None = None  # None: rule fault-z-tolerance of the tables
     voltage_factor: str = "none"  # one of VOLTAGE_FACTORS
     voltage_drop: str = "recommended"  # one of VOLTAGE_DROP_MODES: warn | fail
     feeder_drop_pct: float | None = None

@@ -40,22 +40,25 @@ def check_job_with_schedules(job: Job, schedules: dict, calc_date: str | None = 
     Each panel's demand is computed once, used for the feed walk, and reused by its
     circuit checks after the walk has given the panel its feeder drop.
     """
+    from .rulebook import current_rulebook
+
+    book = current_rulebook()
     if not schedules:
-        return check_job(job, calc_date=calc_date)
+        return check_job(job, calc_date=calc_date, rules=book)
     from .checks.drop_rules import job_drop_limits
     from .checks.schedules import check_schedule, schedule_demand
 
     tree = job.tree
     panels = {p.id: p for p in job.panels}
     demands = {
-        pid: schedule_demand(s, tree.voltage_of[pid], panels[pid].occupancy)
+        pid: schedule_demand(s, tree.voltage_of[pid], panels[pid].occupancy, book)
         for pid, s in schedules.items()
     }
-    results = check_job(job, {pid: d.load for pid, d in demands.items()}, calc_date)
+    results = check_job(job, {pid: d.load for pid, d in demands.items()}, calc_date, book)
     # branch drops add to the conductor drop since the transformer secondary (the same
     # basis as the panel's own total-drop check), under the job's drop limits
     drops = {n.id: float(n.values.get("conductor_vdrop_pct", 0.0) or 0.0) for n in results.nodes}
-    limits = job_drop_limits(job)
+    limits = job_drop_limits(job, book)
     for pid, s in schedules.items():
         res = check_schedule(
             s,
@@ -66,6 +69,7 @@ def check_job_with_schedules(job: Job, schedules: dict, calc_date: str | None = 
             main_a=panels[pid].main_device_a,
             limits=limits,
             demand=demands[pid],
+            rules=book,
         )
         results.schedules[pid] = res
         results.findings.extend(res.findings)

@@ -15,6 +15,10 @@ Every table is a CSV file under ``tables/`` (shipped inside the wheel as
     rating_a,fuse,breaker
     15,yes,yes
 
+Per-row confidence: any table may have a ``row_confidence`` column; a blank cell
+takes the table's ``# confidence:`` level. Each loaded :class:`Table` carries one
+level per row (``row_confidence``) and counts them (:meth:`Table.confidence_counts`).
+
 A user may point ``--tables DIR`` at a folder with their own copies (to follow
 the locally adopted code): a table found there replaces the shipped one of the
 same name; the others stay as shipped.
@@ -35,6 +39,7 @@ if TYPE_CHECKING:
 REQUIRED_META = ("title", "basis", "source", "edition", "conditions", "confidence")
 CONFIDENCE_LEVELS = ("published", "common practice", "from memory — verify")
 MAX_TABLE_BYTES = 5_000_000
+ROW_CONFIDENCE = "row_confidence"
 
 
 def shipped_tables_dir() -> Path:
@@ -46,17 +51,35 @@ def shipped_tables_dir() -> Path:
 
 _user_dir: Path | None = None
 _cache: dict[tuple[str, str], Table] = {}
+_generation = 0
 
 
 def set_user_tables_dir(path: str | Path | None) -> None:
     """Use a user's folder of tables first (``--tables DIR``); ``None`` resets."""
-    global _user_dir
+    global _user_dir, _generation
     _user_dir = Path(path) if path is not None else None
+    _generation += 1
     _cache.clear()
 
 
 def user_tables_dir() -> Path | None:
     return _user_dir
+
+
+def generation() -> int:
+    """Counts calls of :func:`set_user_tables_dir` (so caches of loaded tables renew)."""
+    return _generation
+
+
+def confidence_level(text: str) -> str:
+    """The confidence level a confidence text starts with (one of ``CONFIDENCE_LEVELS``;
+    "from memory" and "from memory — verify" are the same level); other texts are
+    returned stripped, as their own level."""
+    low = text.strip().lower()
+    for level in CONFIDENCE_LEVELS:
+        if low.startswith(level.split(" —")[0]):
+            return level
+    return text.strip()
 
 
 @dataclass(frozen=True)
@@ -70,6 +93,7 @@ class Table:
     origin: str  # "shipped" or "user"
     sha256: str = ""
     units: dict[str, str] = field(default_factory=dict)
+    row_confidence: tuple[str, ...] = ()  # one level per row (column, else the header)
 
     @property
     def title(self) -> str:
@@ -82,6 +106,19 @@ class Table:
     @property
     def confidence(self) -> str:
         return self.meta.get("confidence", "")
+
+    def confidence_counts(self) -> dict[str, int]:
+        """Rows by confidence level, in the order of ``CONFIDENCE_LEVELS`` (others after)."""
+        counts: dict[str, int] = {}
+        for level in self.row_confidence:
+            counts[level] = counts.get(level, 0) + 1
+        return sorted_counts(counts)
+
+
+def sorted_counts(counts: dict[str, int]) -> dict[str, int]:
+    """Counts by confidence level in the order of ``CONFIDENCE_LEVELS``, others after."""
+    order = {lv: i for i, lv in enumerate(CONFIDENCE_LEVELS)}
+    return dict(sorted(counts.items(), key=lambda kv: (order.get(kv[0], 99), kv[0])))
 
 
 def _split_header(text: str) -> tuple[dict[str, str], str, int]:
@@ -103,10 +140,16 @@ def _split_header(text: str) -> tuple[dict[str, str], str, int]:
     return meta, "".join(lines[n:]), n
 
 
-def table_path(name: str) -> tuple[Path, str]:
-    """Where table ``name`` is read from, and whether that is the user's copy."""
-    if _user_dir is not None:
-        p = _user_dir / f"{name}.csv"
+_CURRENT = object()
+
+
+def table_path(name: str, user_dir: Path | object | None = _CURRENT) -> tuple[Path, str]:
+    """Where table ``name`` is read from, and whether that is the user's copy.
+
+    ``user_dir`` defaults to the folder set by :func:`set_user_tables_dir`."""
+    udir = _user_dir if user_dir is _CURRENT else user_dir
+    if udir is not None:
+        p = Path(udir) / f"{name}.csv"  # type: ignore[arg-type]
         if p.is_file():
             return p, "user"
     return shipped_tables_dir() / f"{name}.csv", "shipped"
@@ -143,7 +186,9 @@ def read_table_file(path: Path, name: str, origin: str) -> Table:
             "header '# confidence:'", conf, " or ".join(repr(c) for c in CONFIDENCE_LEVELS)
         )
     try:
-        df = pd.read_csv(io.StringIO(body), skipinitialspace=True, comment=None)
+        df = pd.read_csv(
+            io.StringIO(body), skipinitialspace=True, comment=None, float_precision="round_trip"
+        )
     except Exception as exc:  # pandas raises several parser error types
         problems.add("body", "", f"CSV rows under the header ({exc})")
         problems.raise_if_any()
@@ -160,7 +205,7 @@ def read_table_file(path: Path, name: str, origin: str) -> Table:
     if df.empty:
         problems.add("body", "", "at least one data row")
     for col in df.columns:
-        if df[col].isna().any() and not col.startswith("opt_"):
+        if df[col].isna().any() and not (col.startswith("opt_") or col == ROW_CONFIDENCE):
             bad = int(df.index[df[col].isna()][0]) + n_header + 2
             problems.add(f"column '{col}'", "", "a value in every row (no gaps)", line=bad)
     not_numeric: set[str] = set()  # reported once, not again as out of order
@@ -236,7 +281,15 @@ def read_table_file(path: Path, name: str, origin: str) -> Table:
                 line=bad_pos + n_header + 2,
             )
     problems.raise_if_any()
-    return Table(name, df, meta, path, origin, hashlib.sha256(raw).hexdigest(), units)
+    header_level = confidence_level(conf)
+    if ROW_CONFIDENCE in df.columns:
+        rows = tuple(
+            header_level if pd.isna(v) or not str(v).strip() else confidence_level(str(v))
+            for v in df[ROW_CONFIDENCE]
+        )
+    else:
+        rows = (header_level,) * len(df)
+    return Table(name, df, meta, path, origin, hashlib.sha256(raw).hexdigest(), units, rows)
 
 
 def load_table(name: str) -> Table:
@@ -300,6 +353,7 @@ def used_tables() -> list[Table]:
 __all__ = [
     "InputError",
     "Table",
+    "confidence_level",
     "load_table",
     "rule",
     "set_user_tables_dir",

@@ -3,7 +3,13 @@ import shutil
 import pytest
 
 from feedcheck.errors import InputError
-from feedcheck.tables import load_table, set_user_tables_dir, shipped_tables_dir, verify_all
+from feedcheck.tables import (
+    confidence_level,
+    load_table,
+    set_user_tables_dir,
+    shipped_tables_dir,
+    verify_all,
+)
 
 
 def test_every_shipped_table_verifies():
@@ -112,3 +118,67 @@ def test_gap_in_table_is_reported(tmp_path):
     set_user_tables_dir(d)
     with pytest.raises(InputError, match="no gaps"):
         load_table("transformer_xr")
+
+
+TINY = """# title: A small table for the row-confidence convention
+# basis: invented test rows
+# source: none (test data)
+# edition: none
+# conditions: none
+# confidence: common practice
+# key: rating_kva
+# units: rating_kva=kVA
+rating_kva,x_r,row_confidence
+15,1.1,published
+30,1.2,
+45,1.3,from memory
+75,1.4,
+"""
+
+
+def test_row_confidence_blank_takes_the_header_level(tmp_path):
+    d = tmp_path / "mine"
+    d.mkdir()
+    (d / "tiny.csv").write_text(TINY, encoding="utf-8")
+    set_user_tables_dir(d)
+    t = load_table("tiny")
+    assert t.row_confidence == (
+        "published",
+        "common practice",
+        "from memory — verify",
+        "common practice",
+    )
+    assert t.confidence_counts() == {
+        "published": 1,
+        "common practice": 2,
+        "from memory — verify": 1,
+    }
+
+
+def test_table_without_the_column_has_the_header_level_on_every_row():
+    t = load_table("device_ratings")
+    assert set(t.row_confidence) == {confidence_level(t.confidence)}
+    assert sum(t.confidence_counts().values()) == len(t.data)
+
+
+def test_tables_command_prints_counts_by_confidence(tmp_path):
+    from click.testing import CliRunner
+
+    from feedcheck.cli import main
+
+    d = tmp_path / "mine"
+    d.mkdir()
+    (d / "tiny.csv").write_text(TINY, encoding="utf-8")
+    res = CliRunner().invoke(main, ["--tables", str(d), "tables"])
+    assert res.exit_code == 0, res.output
+    lines = res.output.splitlines()
+    i = lines.index("tiny  [common practice]  user")
+    assert lines[i + 1] == "    rows:   1 published, 2 common practice, 1 from memory — verify"
+    # the total line sums every table's rows, level by level
+    total = lines[-1]
+    assert total.startswith(f"{len(verify_all()[0])} tables, ")
+    good, _ = verify_all()
+    n_rows = sum(len(t.data) for t in good)
+    assert f", {n_rows} rows by confidence: " in total
+    published = sum(t.confidence_counts().get("published", 0) for t in good)
+    assert f"{published} published" in total

@@ -25,7 +25,6 @@ Tables 310.15(C)(1), 310.16, 310.17.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from functools import lru_cache
 
 import numpy as np
 
@@ -35,7 +34,6 @@ from .sizes import SIZES
 COLUMNS_C = (60.0, 75.0, 90.0)
 PARALLEL_MIN_AREA_MM2 = SIZES["1/0 AWG"].area_mm2
 SMALL_TERMINATION_MAX_AREA_MM2 = SIZES["1 AWG"].area_mm2
-CONTINUOUS_FACTOR = 1.25  # 215.2(A)(1)(a), 210.19(A)(1)(a)
 
 
 @dataclass(frozen=True)
@@ -44,6 +42,8 @@ class AmpacityTables:
 
     NaN where a table has no value (14 AWG aluminum; metric sizes outside the
     AWG/kcmil range). ``interpolated`` marks metric cells filled by interpolation.
+    Built by the rule book (``book.ampacity``, :mod:`feedcheck.rulebook`) from Tables
+    310.16 and 310.17, Table 310.15(C)(1) and the rooftop adders.
     """
 
     raceway_a: np.ndarray
@@ -54,50 +54,7 @@ class AmpacityTables:
     adj_factor: np.ndarray
     adj_rule_ids: tuple[str, ...]
     rooftop: tuple[tuple[str, float, float, float, str], ...]
-
-
-def _fill(df) -> np.ndarray:
-    out = np.full((2, 3, len(SIZE_NAMES)), np.nan)
-    idx = size_index(df["size"].to_numpy(str))
-    m = material_index(df["material"].to_numpy(str))
-    for c, col in enumerate(("c60_a", "c75_a", "c90_a")):
-        out[m, c, idx] = df[col].to_numpy(float)
-    for mm in range(2):
-        for c in range(3):
-            row = out[mm, c]
-            known = ~np.isnan(row)
-            if np.any(np.diff(row[known]) <= 0):
-                raise ValueError("ampacity table: values must rise with conductor size")
-            metric = np.array([SIZES[n].system == "metric" for n in SIZE_NAMES])
-            la = np.log(AREA_MM2[known])
-            target = np.log(AREA_MM2[metric])
-            inside = (target >= la.min() - 1e-12) & (target <= la.max() + 1e-12)
-            vals = np.exp(np.interp(target, la, np.log(row[known])))
-            row[np.flatnonzero(metric)[inside]] = vals[inside]
-    return out
-
-
-@lru_cache(maxsize=4)
-def _load(_key: object = None) -> AmpacityTables:
-    from ..tables import load_table
-
-    rac = _fill(load_table("ampacity_raceway").data)
-    fa = _fill(load_table("ampacity_free_air").data)
-    adj = load_table("adjustment_factors").data
-    roof = load_table("rooftop_adder").data
-    metric = np.array([SIZES[n].system == "metric" for n in SIZE_NAMES])
-    return AmpacityTables(
-        rac, fa, metric, adj["count_from"].to_numpy(int), adj["count_to"].to_numpy(int),
-        adj["factor"].to_numpy(float), tuple(adj["rule_id"].astype(str)),
-        tuple((str(r.edition), float(r.height_from_mm), float(r.height_to_mm), float(r.adder_c),
-               str(r.rule_id)) for r in roof.itertuples(index=False)))
-
-
-def ampacity_tables() -> AmpacityTables:
-    """The ampacity tables (loaded once per tables folder, cached)."""
-    from ..tables import user_tables_dir
-
-    return _load(str(user_tables_dir()))
+    continuous_factor: float  # rule continuous-125 (125 % → 1.25), 215.2(A)(1)(a)
 
 
 def _column(temp_c, what: str) -> np.ndarray:
@@ -152,19 +109,20 @@ def ambient_factor(insulation_c, ambient_c):
     return f[()] if f.ndim == 0 else f
 
 
-def adjustment_factor(current_carrying, tables: AmpacityTables | None = None):
+def adjustment_factor(current_carrying, *, tables: AmpacityTables):
     """Adjustment factor for the number of current-carrying conductors in one raceway.
 
     Examples
     --------
-    >>> float(adjustment_factor(6)), float(adjustment_factor(7))
+    >>> t = book.ampacity  # the rule book's record (feedcheck.rulebook)
+    >>> float(adjustment_factor(6, tables=t)), float(adjustment_factor(7, tables=t))
     (0.8, 0.7)
 
     References
     ----------
     NFPA 70-2023 Table 310.15(C)(1).
     """
-    t = tables or ampacity_tables()
+    t = tables
     n = np.asarray(current_carrying)
     if not np.all((n >= 1) & (n == np.floor(n))):
         raise ValueError(f"current_carrying: got {current_carrying}; expected a whole number ≥ 1 "
@@ -197,7 +155,7 @@ def count_current_carrying(ungrounded, neutral: bool = False, neutral_counts: bo
 
 
 def rooftop_adder_c(height_above_roof_m: float, edition: str = "2017", xhhw2: bool = False,
-                    tables: AmpacityTables | None = None) -> tuple[float, str]:
+                    *, tables: AmpacityTables) -> tuple[float, str]:
     """Temperature adder [°C] for a sunlit rooftop raceway, and its rule id.
 
     ``edition="2017"`` (2017 and later): 33 °C below 23 mm (7/8 in), else 0; XHHW-2 is
@@ -205,14 +163,14 @@ def rooftop_adder_c(height_above_roof_m: float, edition: str = "2017", xhhw2: bo
 
     Examples
     --------
-    >>> rooftop_adder_c(0.01)
+    >>> rooftop_adder_c(0.01, tables=book.ampacity)
     (33.0, 'nec-310.15(B)(2)-rooftop')
 
     References
     ----------
     NFPA 70-2023 310.15(B)(2); NFPA 70-2011 Table 310.15(B)(3)(c).
     """
-    t = tables or ampacity_tables()
+    t = tables
     h_mm = float(height_above_roof_m) * 1000.0
     if not (np.isfinite(h_mm) and h_mm >= 0):
         raise ValueError(f"height_above_roof_m: got {height_above_roof_m}; expected ≥ 0 m")
@@ -262,7 +220,7 @@ def _base(tables, free_air, m, col, idx):
 
 def ampacity_a(size, material, insulation_c, ambient_c=30.0, current_carrying=3,
                termination_c=75.0, sets=1, free_air=False, rooftop_adder_c=0.0,
-               tables: AmpacityTables | None = None):
+               *, tables: AmpacityTables):
     """Allowable ampacity [A] of a run after every correction and the termination cap.
 
     Vectorised: every argument may be an array (broadcast together); sizes are names.
@@ -287,8 +245,8 @@ def ampacity_a(size, material, insulation_c, ambient_c=30.0, current_carrying=3,
         Single conductors in free air (Table 310.17) instead of Table 310.16.
     rooftop_adder_c : float or array_like, default 0
         Added to the ambient (see :func:`rooftop_adder_c`) [°C].
-    tables : AmpacityTables, optional
-        Default :func:`ampacity_tables`.
+    tables : AmpacityTables
+        The ampacity tables (``book.ampacity`` of the rule book).
 
     Returns
     -------
@@ -303,14 +261,15 @@ def ampacity_a(size, material, insulation_c, ambient_c=30.0, current_carrying=3,
 
     Examples
     --------
-    >>> round(float(ampacity_a("3/0 AWG", "cu", 90.0, 40.0, 6, 75.0)), 1)  # 225·0.913·0.8
+    >>> t = book.ampacity
+    >>> round(float(ampacity_a("3/0 AWG", "cu", 90.0, 40.0, 6, 75.0, tables=t)), 1)  # 225·0.913·0.8
     164.3
 
     References
     ----------
     NFPA 70-2023 110.14(C), 310.10(G), 310.15(B)(1), Table 310.15(C)(1), Tables 310.16/17.
     """
-    t = tables or ampacity_tables()
+    t = tables
     idx = size_index(size)
     m = material_index(material)
     ci = _column(insulation_c, "insulation_c")
@@ -324,7 +283,7 @@ def ampacity_a(size, material, insulation_c, ambient_c=30.0, current_carrying=3,
     base = _base(t, free_air, m, ci, idx)
     fa = ambient_factor(np.asarray(COLUMNS_C)[ci], np.asarray(ambient_c, dtype=float)
                         + np.asarray(rooftop_adder_c, dtype=float))
-    fadj = adjustment_factor(current_carrying, t)
+    fadj = adjustment_factor(current_carrying, tables=t)
     cap = _base(t, free_air, m, ct, idx)
     out = np.round(np.minimum(base * fa * fadj, cap) * n_sets, 9)
     return out[()] if np.ndim(out) == 0 else out
@@ -385,7 +344,7 @@ def ampacity_chain(size: str, material: str, insulation_c: float, ambient_c: flo
                    current_carrying: int = 3, termination_c: float = 75.0, sets: int = 1,
                    free_air: bool = False, rooftop_adder_c: float = 0.0,
                    continuous_a: float = 0.0, noncontinuous_a: float = 0.0,
-                   tables: AmpacityTables | None = None) -> AmpacityChain:
+                   *, tables: AmpacityTables) -> AmpacityChain:
     """The ampacity chain of one run, with the continuous-load checks.
 
     Same method as :func:`ampacity_a`, keeping every factor. Load checks follow
@@ -399,7 +358,7 @@ def ampacity_chain(size: str, material: str, insulation_c: float, ambient_c: flo
 
     Examples
     --------
-    >>> c = ampacity_chain("3/0 AWG", "cu", 90.0, 40.0, 6, 75.0)
+    >>> c = ampacity_chain("3/0 AWG", "cu", 90.0, 40.0, 6, 75.0, tables=book.ampacity)
     >>> c.base_per_set_a, round(c.ambient_factor, 3), c.adjustment_factor, round(c.final_a, 1)
     (225.0, 0.913, 0.8, 164.3)
 
@@ -407,12 +366,12 @@ def ampacity_chain(size: str, material: str, insulation_c: float, ambient_c: flo
     ----------
     NFPA 70-2023 110.14(C), 210.19(A)(1), 215.2(A)(1), 310.15, Tables 310.16/17.
     """
-    t = tables or ampacity_tables()
+    t = tables
     for name, v in (("continuous_a", continuous_a), ("noncontinuous_a", noncontinuous_a)):
         if not (np.isfinite(v) and v >= 0):
             raise ValueError(f"{name}: got {v}; expected a load current ≥ 0 A")
     final = float(ampacity_a(size, material, insulation_c, ambient_c, current_carrying,
-                             termination_c, sets, free_air, rooftop_adder_c, t))
+                             termination_c, sets, free_air, rooftop_adder_c, tables=t))
     idx = int(size_index(size))
     m = int(material_index(material))
     ci = int(_column(insulation_c, "insulation_c"))
@@ -420,11 +379,11 @@ def ampacity_chain(size: str, material: str, insulation_c: float, ambient_c: flo
     tab = t.free_air_a if free_air else t.raceway_a
     base = float(tab[m, ci, idx])
     fa = float(ambient_factor(COLUMNS_C[ci], ambient_c + rooftop_adder_c))
-    fadj = float(adjustment_factor(current_carrying, t))
+    fadj = float(adjustment_factor(current_carrying, tables=t))
     corrected = round(base * fa * fadj * sets, 9)
     cap = float(tab[m, ct, idx]) * sets
     before = float(tab[m, min(ci, ct), idx]) * sets
-    req_before = CONTINUOUS_FACTOR * continuous_a + noncontinuous_a
+    req_before = t.continuous_factor * continuous_a + noncontinuous_a
     req_after = continuous_a + noncontinuous_a
     table_rule = "nec-310.17" if free_air else "nec-310.16"
     adj_rule = _adjustment_rule(current_carrying, t)

@@ -28,15 +28,13 @@ IEC 60228:2004, Conductors of insulated cables.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from functools import lru_cache
 
 import numpy as np
 
 from ..model import MATERIALS, RACEWAYS
+from .constants import FT_PER_KFT, M_PER_FT
 from .sizes import SIZES, SizeError, parse_size
 
-FT_PER_KFT = 1000.0
-M_PER_FT = 0.3048
 OHM_PER_KFT_TO_OHM_PER_M = 1.0 / (FT_PER_KFT * M_PER_FT)
 MU0_OVER_2PI = 2e-7  # H/m, μ0/(2π)
 FREQUENCY_HZ = 60.0
@@ -66,6 +64,8 @@ class ConductorData:
         Table 9 column (0 pvc, 1 aluminum, 2 steel) each raceway reads.
     ins_up_to_mm2, ins_thickness_mm : ndarray
         Insulation thickness steps (computed method).
+
+    Built by the rule book (``book.conductors``, :mod:`feedcheck.rulebook`).
     """
 
     r75_ohm_per_m: np.ndarray
@@ -79,44 +79,6 @@ class ConductorData:
     column: np.ndarray
     ins_up_to_mm2: np.ndarray
     ins_thickness_mm: np.ndarray
-
-
-@lru_cache(maxsize=4)
-def _load(_key: object = None) -> ConductorData:
-    from ..tables import load_table
-
-    t9 = load_table("conductor_impedance_table9").data
-    mat = load_table("conductor_materials").data.set_index("material")
-    rw = load_table("raceway_effects").data.set_index("raceway")
-    ins = load_table("insulation_thickness").data
-    n = len(SIZE_NAMES)
-    r75 = np.full((2, 3, n), np.nan)
-    xl = np.full((2, n), np.nan)
-    for row in t9.itertuples(index=False):
-        i = _SIZE_INDEX[parse_size(row.size).name]
-        for m, pre in enumerate(("cu", "al")):
-            for c, col in enumerate(("pvc", "aluminum", "steel")):
-                r75[m, c, i] = getattr(row, f"{pre}_r_{col}") * OHM_PER_KFT_TO_OHM_PER_M
-        xl[0, i] = row.xl_nonmagnetic * OHM_PER_KFT_TO_OHM_PER_M
-        xl[1, i] = row.xl_steel * OHM_PER_KFT_TO_OHM_PER_M
-    colmap = {"pvc": 0, "aluminum": 1, "steel": 2}
-
-    def m(col):
-        return mat.loc[list(MATERIALS), col].to_numpy(float)
-
-    return ConductorData(
-        r75, xl, m("rho20_ohm_mm2_per_m"), m("alpha20_per_k"), m("alpha75_per_k"),
-        m("k_strand"), rw.loc[list(RACEWAYS), "x_factor"].to_numpy(float),
-        rw.loc[list(RACEWAYS), "r_added_ohm_per_kft"].to_numpy(float) * OHM_PER_KFT_TO_OHM_PER_M,
-        np.array([colmap[c] for c in rw.loc[list(RACEWAYS), "table9_column"]]),
-        ins["up_to_mm2"].to_numpy(float), ins["thickness_mm"].to_numpy(float))
-
-
-def conductor_data() -> ConductorData:
-    """The conductor tables (loaded once per tables folder, cached)."""
-    from ..tables import user_tables_dir
-
-    return _load(str(user_tables_dir()))
 
 
 def size_index(size) -> np.ndarray:
@@ -164,7 +126,7 @@ def _check_temperature(conductor_c) -> np.ndarray:
     return t
 
 
-def dc_resistance_ohm_per_m(area_mm2, material, conductor_c, data: ConductorData | None = None):
+def dc_resistance_ohm_per_m(area_mm2, material, conductor_c, *, data: ConductorData):
     """DC resistance [Ω/m] of a stranded conductor from resistivity and temperature.
 
     Method: ``R = k_strand · ρ20 / A · (1 + α20 (T − 20))`` with ρ20 and α20 of annealed
@@ -178,8 +140,8 @@ def dc_resistance_ohm_per_m(area_mm2, material, conductor_c, data: ConductorData
         ``"cu"`` or ``"al"``.
     conductor_c : float or array_like
         Conductor temperature [°C], −50 … 400.
-    data : ConductorData, optional
-        Tables (default :func:`conductor_data`).
+    data : ConductorData
+        Conductor tables (``book.conductors`` of the rule book).
 
     Returns
     -------
@@ -198,14 +160,15 @@ def dc_resistance_ohm_per_m(area_mm2, material, conductor_c, data: ConductorData
 
     Examples
     --------
-    >>> round(float(dc_resistance_ohm_per_m(107.2, "cu", 75.0)) * 304.8, 4)  # Ω/kft, 4/0
+    >>> d = book.conductors  # the rule book's record (feedcheck.rulebook)
+    >>> round(float(dc_resistance_ohm_per_m(107.2, "cu", 75.0, data=d)) * 304.8, 4)  # Ω/kft
     0.0608
 
     References
     ----------
     IEC 60028 (IACS); NFPA 70-2023 Ch. 9 Table 8 and its notes; IEC 60228:2004.
     """
-    d = data or conductor_data()
+    d = data
     a = np.asarray(area_mm2, dtype=float)
     if not np.all(np.isfinite(a) & (a > 0)):
         raise ValueError(f"area_mm2: got {a[~(np.isfinite(a) & (a > 0))].ravel()[0]}; "
@@ -224,7 +187,7 @@ def _skin_proximity(xs2):
 
 def ac_impedance_computed_ohm_per_m(area_mm2, material, raceway, conductor_c=75.0,
                                     frequency_hz: float = FREQUENCY_HZ,
-                                    data: ConductorData | None = None):
+                                    *, data: ConductorData):
     """AC resistance and reactance [Ω/m] of one conductor computed from first principles.
 
     Method: DC resistance as :func:`dc_resistance_ohm_per_m`; skin effect
@@ -246,8 +209,8 @@ def ac_impedance_computed_ohm_per_m(area_mm2, material, raceway, conductor_c=75.
         Conductor temperature [°C].
     frequency_hz : float, default 60
         System frequency [Hz].
-    data : ConductorData, optional
-        Tables (default :func:`conductor_data`).
+    data : ConductorData
+        Conductor tables (``book.conductors`` of the rule book).
 
     Returns
     -------
@@ -271,7 +234,7 @@ def ac_impedance_computed_ohm_per_m(area_mm2, material, raceway, conductor_c=75.
 
     Examples
     --------
-    >>> r, x = ac_impedance_computed_ohm_per_m(95.0, "cu", "pvc")
+    >>> r, x = ac_impedance_computed_ohm_per_m(95.0, "cu", "pvc", data=book.conductors)
     >>> round(float(r) * 1000, 4), round(float(x) * 1000, 4)  # Ω/km
     (0.2261, 0.1355)
 
@@ -280,9 +243,9 @@ def ac_impedance_computed_ohm_per_m(area_mm2, material, raceway, conductor_c=75.
     IEC 60287-1-1:2006 §2.1.2 (skin), §2.1.4 (proximity, three single-core cables).
     NFPA 70-2023 Ch. 9 Table 9 (raceway effects, test reference).
     """
-    d = data or conductor_data()
+    d = data
     a = np.asarray(area_mm2, dtype=float)
-    r_dc = dc_resistance_ohm_per_m(a, material, conductor_c, d)
+    r_dc = dc_resistance_ohm_per_m(a, material, conductor_c, data=d)
     rw = _choice_index(raceway, RACEWAYS, "raceway")
     f = float(frequency_hz)
     if not (f > 0 and np.isfinite(f)):
@@ -304,16 +267,16 @@ def ac_impedance_computed_ohm_per_m(area_mm2, material, raceway, conductor_c=75.
     return (r[()], x[()]) if r.ndim == 0 else (np.array(r), np.array(x))
 
 
-def impedance_method(size) -> np.ndarray:
+def impedance_method(size, *, data: ConductorData) -> np.ndarray:
     """``"table"`` where NFPA 70 Ch. 9 Table 9 lists the size, else ``"computed"``."""
-    d = conductor_data()
+    d = data
     idx = size_index(size)
     out = np.where(np.isnan(d.xl_ohm_per_m[0, idx]), "computed", "table")
     return out[()] if out.ndim == 0 else out
 
 
 def ac_impedance_ohm_per_m(size, material, raceway, conductor_c=75.0,
-                           data: ConductorData | None = None):
+                           *, data: ConductorData):
     """AC resistance and reactance [Ω/m] of one conductor of one set, 60 Hz.
 
     Method: NFPA 70 Ch. 9 Table 9 for the AWG/kcmil sizes it lists, with
@@ -332,8 +295,8 @@ def ac_impedance_ohm_per_m(size, material, raceway, conductor_c=75.0,
         (nonmagnetic) columns.
     conductor_c : float or array_like, default 75
         Conductor temperature [°C]: 20 for maximum fault current, 75 or 90 for drop.
-    data : ConductorData, optional
-        Tables (default :func:`conductor_data`).
+    data : ConductorData
+        Conductor tables (``book.conductors`` of the rule book).
 
     Returns
     -------
@@ -348,7 +311,7 @@ def ac_impedance_ohm_per_m(size, material, raceway, conductor_c=75.0,
 
     Examples
     --------
-    >>> r, x = ac_impedance_ohm_per_m("250 kcmil", "cu", "steel")
+    >>> r, x = ac_impedance_ohm_per_m("250 kcmil", "cu", "steel", data=book.conductors)
     >>> round(float(r) * 304.8, 3), round(float(x) * 304.8, 3)  # Ω/kft
     (0.054, 0.052)
 
@@ -356,7 +319,7 @@ def ac_impedance_ohm_per_m(size, material, raceway, conductor_c=75.0,
     ----------
     NFPA 70-2023 Chapter 9 Table 9 and Table 8 notes; IEC 60287-1-1:2006.
     """
-    d = data or conductor_data()
+    d = data
     idx = size_index(size)
     m = material_index(material)
     rw = _choice_index(raceway, RACEWAYS, "raceway")

@@ -36,10 +36,10 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .constants import M_PER_FT, SQRT3
 from .transformer import transformer_impedance_ohm
 
-SQRT3 = math.sqrt(3.0)
-FT_PER_M = 1.0 / 0.3048
+FT_PER_M = 1.0 / M_PER_FT
 PTP_KINDS = ("3ph", "1ph-ll", "1ph-ln")
 
 
@@ -148,7 +148,7 @@ def refer_impedance_ohm(z_ohm, from_voltage_v, to_voltage_v):
 
 
 def transformer_fault_impedances_ohm(rating_va, voltage_ll_v, z_pct, x_r,
-                                     tolerance_pct=7.5, phases=3):
+                                     tolerance_pct, phases=3):
     """Transformer impedance for the maximum and the minimum fault case.
 
     Method: Z = Z_nameplate · (1 ∓ tol/100), lower for the maximum case, upper for the
@@ -169,7 +169,7 @@ def transformer_fault_impedances_ohm(rating_va, voltage_ll_v, z_pct, x_r,
 
     Examples
     --------
-    >>> zmax, zmin = transformer_fault_impedances_ohm(75e3, 208.0, 5.1, 3.5)
+    >>> zmax, zmin = transformer_fault_impedances_ohm(75e3, 208.0, 5.1, 3.5, 7.5)
     >>> round(abs(zmax) / abs(zmin), 6)
     0.860465
     """
@@ -436,7 +436,7 @@ def subtree_sum(parent_index, values):
     return out
 
 
-def motor_contribution_a(motor_flc_a, multiple=4.0):
+def motor_contribution_a(motor_flc_a, multiple):
     """Motor contribution to a fault: multiple × motor full-load current.
 
     The multiple (4 × FLC) is a common practice, no published source (rule row
@@ -444,7 +444,7 @@ def motor_contribution_a(motor_flc_a, multiple=4.0):
 
     Examples
     --------
-    >>> motor_contribution_a(65.0)
+    >>> motor_contribution_a(65.0, 4.0)
     260.0
     """
     return _out(_nonneg("motor_flc_a", motor_flc_a) * _positive("multiple", multiple))
@@ -531,7 +531,7 @@ def radial_fault_3ph(parent_index, voltage_ll_v, branch_z_max_ohm, branch_z_min_
 # --------------------------------------------------------------------------- 120/240 V
 
 
-def split_phase_source_ohm(z_full_winding_ohm, ln_multiplier=1.5):
+def split_phase_source_ohm(z_full_winding_ohm, ln_multiplier):
     """Source impedances of a single-phase 120/240 V centre-tapped secondary.
 
     Method: line-to-line faults see the full winding, Z_LL = Z_T (ohms at 240 V, from
@@ -548,7 +548,7 @@ def split_phase_source_ohm(z_full_winding_ohm, ln_multiplier=1.5):
 
     Examples
     --------
-    >>> zll, zln = split_phase_source_ohm(0.06 + 0.03j)
+    >>> zll, zln = split_phase_source_ohm(0.06 + 0.03j, 1.5)
     >>> round(zln.real, 6), round(zln.imag, 6)
     (0.02, 0.01)
     """
@@ -617,7 +617,7 @@ def ptp_factor(length_m, fault_a, c_a_ft_per_v, sets, voltage_v, kind="3ph"):
     --------
     An invented 45 ft run, one set, C = 11,900 A·ft/V, 9,930 A at its head, 208 V:
 
-    >>> round(ptp_factor(45 * 0.3048, 9930.0, 11900.0, 1, 208.0), 3)
+    >>> round(ptp_factor(45 * M_PER_FT, 9930.0, 11900.0, 1, 208.0), 3)
     0.313
     """
     if kind not in PTP_KINDS:
@@ -650,7 +650,7 @@ def ptp_chain_a(start_a, lengths_m, c_a_ft_per_v, sets, voltage_v, kind="3ph"):
     --------
     Two invented runs in series at 208 V: 45 ft (C = 11,900) then 30 ft (C = 5,900):
 
-    >>> ptp_chain_a(9930.0, [45 * 0.3048, 30 * 0.3048], [11900.0, 5900.0], [1, 1],
+    >>> ptp_chain_a(9930.0, [45 * M_PER_FT, 30 * M_PER_FT], [11900.0, 5900.0], [1, 1],
     ...             208.0).round(-1).tolist()
     [7560.0, 5730.0]
     """

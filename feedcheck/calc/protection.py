@@ -20,20 +20,21 @@ NFPA 70 National Electrical Code, 2023: 210.20(A), 215.3, 240.4, 240.6(A), 250.1
 from __future__ import annotations
 
 from dataclasses import dataclass
-from functools import lru_cache
 
 import numpy as np
 
 from .conductor import AREA_MM2, SIZE_NAMES, material_index, size_index
 from .sizes import SIZES, smallest_at_least
 
-NEXT_SIZE_UP_MAX_A = 800.0  # 240.4(B)(3), also in tables/protection_rules.csv
-CONTINUOUS_FACTOR = 1.25  # 215.3
-
 
 @dataclass(frozen=True)
 class ProtectionTables:
-    """Standard ratings, small-conductor limits and EGC rows as arrays."""
+    """Standard ratings, small-conductor limits and EGC rows as arrays.
+
+    Built by the rule book (``book.protection``, :mod:`feedcheck.rulebook`) from Table
+    240.6(A), 240.4(D), Table 250.122 and the materials' resistivity (``rho20``, Ω·mm²/m,
+    cu/al: the equal-conductance cap of 250.122(A) across materials).
+    """
 
     breaker_a: np.ndarray
     fuse_a: np.ndarray
@@ -42,39 +43,14 @@ class ProtectionTables:
     egc_up_to_a: np.ndarray
     egc_cu: tuple[str, ...]
     egc_al: tuple[str, ...]
+    rho20: np.ndarray
+    next_size_up_max_a: float  # rule prot-next-size-up, 240.4(B)
+    continuous_factor: float  # rule device-continuous-125 (125 % → 1.25), 215.3
 
 
-@lru_cache(maxsize=4)
-def _load(_key: object = None) -> ProtectionTables:
-    from ..tables import load_table
-
-    dev = load_table("device_ratings").data
-    small = load_table("small_conductor_limits").data
-    egc = load_table("egc_size").data
-    lim = np.full((2, len(SIZE_NAMES)), np.inf)
-    rid = [[""] * len(SIZE_NAMES) for _ in range(2)]
-    for r in small.itertuples(index=False):
-        m, i = int(material_index(r.material)), int(size_index(r.size))
-        lim[m, i] = float(r.max_device_a)
-        rid[m][i] = str(r.rule_id)
-    return ProtectionTables(
-        dev.loc[dev["breaker"] == "yes", "rating_a"].to_numpy(float),
-        dev.loc[dev["fuse"] == "yes", "rating_a"].to_numpy(float), lim,
-        tuple(tuple(x) for x in rid), egc["device_up_to_a"].to_numpy(float),
-        tuple(str(SIZES[s].name) if s in SIZES else s for s in egc["cu"]),
-        tuple(str(SIZES[s].name) if s in SIZES else s for s in egc["al"]))
-
-
-def protection_tables() -> ProtectionTables:
-    """The protection tables (loaded once per tables folder, cached)."""
-    from ..tables import user_tables_dir
-
-    return _load(str(user_tables_dir()))
-
-
-def standard_ratings_a(kind: str = "breaker", tables: ProtectionTables | None = None):
+def standard_ratings_a(kind: str = "breaker", *, tables: ProtectionTables):
     """Standard ratings [A] of ``"breaker"`` or ``"fuse"`` (240.6(A)), ascending."""
-    t = tables or protection_tables()
+    t = tables
     if kind not in ("breaker", "fuse"):
         raise ValueError(f"kind: got {kind!r}; expected 'breaker' or 'fuse'")
     return t.breaker_a if kind == "breaker" else t.fuse_a
@@ -88,8 +64,7 @@ def _positive(x, name):
     return a
 
 
-def next_standard_rating_a(current_a, kind: str = "breaker",
-                           tables: ProtectionTables | None = None):
+def next_standard_rating_a(current_a, kind: str = "breaker", *, tables: ProtectionTables):
     """Smallest standard device rating [A] at least ``current_a`` (vectorised).
 
     Raises
@@ -99,14 +74,15 @@ def next_standard_rating_a(current_a, kind: str = "breaker",
 
     Examples
     --------
-    >>> float(next_standard_rating_a(164.3)), float(next_standard_rating_a(175.0))
+    >>> t = book.protection  # the rule book's record (feedcheck.rulebook)
+    >>> float(next_standard_rating_a(164.3, tables=t)), float(next_standard_rating_a(175, tables=t))
     (175.0, 175.0)
 
     References
     ----------
     NFPA 70-2023 240.6(A) Table 240.6(A).
     """
-    r = standard_ratings_a(kind, tables)
+    r = standard_ratings_a(kind, tables=tables)
     a = _positive(current_a, "current_a")
     i = np.searchsorted(r, a * (1 - 1e-12), side="left")
     if np.any(i >= len(r)):
@@ -121,22 +97,24 @@ def _largest_standard_at_most(a, r):
     return np.where(i >= 0, r[np.maximum(i, 0)], 0.0)
 
 
-def device_min_for_load_a(continuous_a, noncontinuous_a=0.0):
+def device_min_for_load_a(continuous_a, noncontinuous_a=0.0, *, tables: ProtectionTables):
     """Least device rating [A] for a load: 1.25 × continuous + noncontinuous (215.3).
+
+    The factor is ``tables.continuous_factor`` (rule ``device-continuous-125``).
 
     Examples
     --------
-    >>> float(device_min_for_load_a(100.0, 20.0))
+    >>> float(device_min_for_load_a(100.0, 20.0, tables=book.protection))
     145.0
     """
     c = _positive(continuous_a, "continuous_a")
     n = _positive(noncontinuous_a, "noncontinuous_a")
-    out = CONTINUOUS_FACTOR * c + n
+    out = tables.continuous_factor * c + n
     return out[()] if out.ndim == 0 else out
 
 
-def max_device_a(ampacity_a, size, material, kind: str = "breaker",
-                 tables: ProtectionTables | None = None):
+def max_device_a(ampacity_a, size, material, kind: str = "breaker", *,
+                 tables: ProtectionTables):
     """Largest device rating [A] that protects a conductor of the given ampacity.
 
     Method: ``next_standard(ampacity)`` when that is 800 A or less (240.4(B)); otherwise
@@ -153,6 +131,8 @@ def max_device_a(ampacity_a, size, material, kind: str = "breaker",
         ``"cu"`` or ``"al"``.
     kind : str
         ``"breaker"`` or ``"fuse"`` (which standard ratings to round to).
+    tables : ProtectionTables
+        ``book.protection`` of the rule book.
 
     Returns
     -------
@@ -161,31 +141,35 @@ def max_device_a(ampacity_a, size, material, kind: str = "breaker",
 
     Examples
     --------
-    >>> float(max_device_a(164.3, "3/0 AWG", "cu")), float(max_device_a(30.0, "12 AWG", "cu"))
-    (175.0, 20.0)
-    >>> float(max_device_a(850.0, "600 kcmil", "cu"))  # 240.4(C): not above the ampacity
+    >>> t = book.protection
+    >>> float(max_device_a(164.3, "3/0 AWG", "cu", tables=t))
+    175.0
+    >>> float(max_device_a(30.0, "12 AWG", "cu", tables=t))
+    20.0
+    >>> float(max_device_a(850.0, "600 kcmil", "cu", tables=t))  # 240.4(C): not above ampacity
     800.0
 
     References
     ----------
     NFPA 70-2023 240.4(B), (C), (D); 240.6(A).
     """
-    t = tables or protection_tables()
-    r = standard_ratings_a(kind, t)
+    t = tables
+    r = standard_ratings_a(kind, tables=t)
     a = _positive(ampacity_a, "ampacity_a")
     i = np.searchsorted(r, a * (1 - 1e-12), side="left")
     nxt = r[np.minimum(i, len(r) - 1)]
-    up = np.where((i < len(r)) & (nxt <= NEXT_SIZE_UP_MAX_A), nxt, _largest_standard_at_most(a, r))
+    next_ok = (i < len(r)) & (nxt <= t.next_size_up_max_a)
+    up = np.where(next_ok, nxt, _largest_standard_at_most(a, r))
     lim = t.small_limit_a[material_index(material), size_index(size)]
     out = np.minimum(up, lim)
     return out[()] if out.ndim == 0 else out
 
 
 def device_protects_conductor(device_a, ampacity_a, size, material, kind: str = "breaker",
-                              tables: ProtectionTables | None = None):
+                              *, tables: ProtectionTables):
     """True where ``device_a`` ≤ :func:`max_device_a` (vectorised)."""
     d = _positive(device_a, "device_a")
-    out = d <= max_device_a(ampacity_a, size, material, kind, tables) + 1e-9
+    out = d <= max_device_a(ampacity_a, size, material, kind, tables=tables) + 1e-9
     return out[()] if out.ndim == 0 else out
 
 
@@ -202,26 +186,28 @@ class ProtectionCheck:
 
 
 def conductor_protection(device_a: float, ampacity_a: float, size: str, material: str,
-                         kind: str = "breaker",
-                         tables: ProtectionTables | None = None) -> ProtectionCheck:
+                         kind: str = "breaker", *,
+                         tables: ProtectionTables) -> ProtectionCheck:
     """Check one device against one run's ampacity, naming the governing rule.
 
     Examples
     --------
-    >>> c = conductor_protection(20.0, 25.0, "12 AWG", "cu")
+    >>> c = conductor_protection(20.0, 25.0, "12 AWG", "cu", tables=book.protection)
     >>> c.ok, c.rule_id
     (True, 'nec-240.4(D)(5)-cu12')
     """
-    t = tables or protection_tables()
-    mx = float(max_device_a(ampacity_a, size, material, kind, t))
+    t = tables
+    mx = float(max_device_a(ampacity_a, size, material, kind, tables=t))
     m, i = int(material_index(material)), int(size_index(size))
     small = t.small_limit_a[m, i]
     if np.isfinite(small) and small <= mx:
         rid, why = t.small_rule_id[m][i], f"small-conductor limit {small:g} A"
     elif mx > ampacity_a + 1e-9:
-        rid, why = "prot-next-size-up", "next standard rating above the ampacity (≤ 800 A)"
-    elif ampacity_a > NEXT_SIZE_UP_MAX_A:
-        rid, why = "prot-over-800", "over 800 A the device may not exceed the ampacity"
+        rid = "prot-next-size-up"
+        why = f"next standard rating above the ampacity (≤ {t.next_size_up_max_a:g} A)"
+    elif ampacity_a > t.next_size_up_max_a:
+        rid = "prot-over-800"
+        why = f"over {t.next_size_up_max_a:g} A the device may not exceed the ampacity"
     else:
         rid, why = "prot-ampacity", "device at most the ampacity"
     ok = device_a <= mx + 1e-9
@@ -247,7 +233,7 @@ class EgcResult:
 
 def egc_size(device_a: float, material: str = "cu", phase_size: str | None = None,
              phase_min_size: str | None = None, phase_material: str | None = None,
-             sets: int = 1, tables: ProtectionTables | None = None) -> EgcResult:
+             sets: int = 1, *, tables: ProtectionTables) -> EgcResult:
     """Minimum equipment grounding conductor for a run (250.122).
 
     Parameters
@@ -275,9 +261,10 @@ def egc_size(device_a: float, material: str = "cu", phase_size: str | None = Non
 
     Examples
     --------
-    >>> egc_size(400.0).size
+    >>> egc_size(400.0, tables=book.protection).size
     '3 AWG'
-    >>> r = egc_size(200.0, phase_size="250 kcmil", phase_min_size="3/0 AWG")
+    >>> r = egc_size(200.0, phase_size="250 kcmil", phase_min_size="3/0 AWG",
+    ...              tables=book.protection)
     >>> r.size, round(r.ratio, 3)   # 6 AWG × 250/167.8 = 39.1 kcmil → 4 AWG
     ('4 AWG', 1.49)
 
@@ -285,7 +272,7 @@ def egc_size(device_a: float, material: str = "cu", phase_size: str | None = Non
     ----------
     NFPA 70-2023 250.122(A), (B), (F); Table 250.122.
     """
-    t = tables or protection_tables()
+    t = tables
     if not (np.isfinite(device_a) and 0 < device_a <= t.egc_up_to_a[-1]):
         raise ValueError(f"device_a: got {device_a}; expected a device rating from 1 to "
                          f"{t.egc_up_to_a[-1]:g} A (Table 250.122)")
@@ -315,10 +302,7 @@ def egc_size(device_a: float, material: str = "cu", phase_size: str | None = Non
         pmat = int(material_index(phase_material or material))
         cap_area = float(AREA_MM2[size_index(phase_size)])
         if pmat != m:  # equal-conductance area of the EGC material
-            from .conductor import conductor_data
-
-            rho = conductor_data().rho20
-            cap_area *= rho[m] / rho[pmat]
+            cap_area *= t.rho20[m] / t.rho20[pmat]
         if chosen.area_mm2 > cap_area * (1 + 1e-9):
             capped_size = smallest_at_least(cap_area, "awg") or chosen
             if capped_size.area_mm2 < chosen.area_mm2:

@@ -29,14 +29,30 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .ampacity import PARALLEL_MIN_AREA_MM2, AmpacityChain, ampacity_chain, ampacity_tables
-from .conductor import AREA_MM2, ac_impedance_ohm_per_m, size_index
-from .protection import device_min_for_load_a, max_device_a, next_standard_rating_a
+from .ampacity import PARALLEL_MIN_AREA_MM2, AmpacityChain, AmpacityTables, ampacity_chain
+from .conductor import AREA_MM2, ConductorData, ac_impedance_ohm_per_m, size_index
+from .constants import SQRT3
+from .protection import (
+    ProtectionTables,
+    device_min_for_load_a,
+    max_device_a,
+    next_standard_rating_a,
+)
 from .sizes import AWG_KCMIL_ORDER, METRIC_ORDER
-from .withstand import k_constant, withstand_current_a
+from .withstand import WithstandData, k_constant, withstand_current_a
 
 CRITERIA = ("ampacity", "protection", "voltage drop", "withstand")
 VDROP_CONDUCTOR_C = 75.0
+
+
+@dataclass(frozen=True)
+class SizingData:
+    """The records :func:`select_conductor` reads (``book.sizing`` of the rule book)."""
+
+    ampacity: AmpacityTables
+    protection: ProtectionTables
+    conductors: ConductorData
+    withstand: WithstandData
 
 
 def _vdrop_v(current_a, r_ohm_per_m, x_ohm_per_m, length_m, pf, phases, sets):
@@ -44,7 +60,7 @@ def _vdrop_v(current_a, r_ohm_per_m, x_ohm_per_m, length_m, pf, phases, sets):
     try:
         from .vdrop import voltage_drop_approximate_v
     except ImportError:  # pragma: no cover - vdrop.py is written by another module owner
-        k = np.sqrt(3.0) if phases == 3 else 2.0
+        k = SQRT3 if phases == 3 else 2.0
         sin = np.sqrt(1.0 - pf * pf)
         return k * current_a * length_m * (r_ohm_per_m * pf + x_ohm_per_m * sin) / sets
     return float(voltage_drop_approximate_v(current_a, r_ohm_per_m, x_ohm_per_m, length_m, pf,
@@ -77,7 +93,7 @@ def select_conductor(continuous_a: float, noncontinuous_a: float = 0.0, material
                      pf: float = 0.9, vdrop_max_pct: float = 3.0, fault_a: float | None = None,
                      clearing_s: float | None = None, withstand_insulation: str = "thermoplastic",
                      rooftop_adder_c: float = 0.0, equipment_75c: bool = False,
-                     system: str = "awg") -> Selection:
+                     system: str = "awg", *, data: SizingData) -> Selection:
     """Smallest conductor size meeting ampacity, protection, voltage drop and withstand.
 
     Parameters
@@ -112,6 +128,8 @@ def select_conductor(continuous_a: float, noncontinuous_a: float = 0.0, material
         ``"thermoplastic"`` (THHN-like) or ``"thermoset"`` (XHHW-like) for k.
     system : str
         ``"awg"`` (AWG/kcmil) or ``"metric"``.
+    data : SizingData
+        Tables (``book.sizing`` of the rule book).
 
     Returns
     -------
@@ -125,7 +143,7 @@ def select_conductor(continuous_a: float, noncontinuous_a: float = 0.0, material
 
     Examples
     --------
-    >>> s = select_conductor(150.0, 30.0, "cu", 90.0, 40.0, 6)  # 4/0 carries it; 225 A needs more
+    >>> s = select_conductor(150.0, 30.0, "cu", 90.0, 40.0, 6, data=book.sizing)  # 4/0 too small
     >>> s.size, s.device_a, s.governing
     ('250 kcmil', 225.0, 'protection')
 
@@ -141,10 +159,11 @@ def select_conductor(continuous_a: float, noncontinuous_a: float = 0.0, material
         raise ValueError(f"system: got {system!r}; expected 'awg' or 'metric'")
     if not (isinstance(sets, int | np.integer) and sets >= 1):
         raise ValueError(f"sets: got {sets}; expected a whole number ≥ 1")
-    need = float(device_min_for_load_a(continuous_a, noncontinuous_a))
+    need = float(device_min_for_load_a(continuous_a, noncontinuous_a, tables=data.protection))
     if need <= 0:
         raise ValueError("continuous_a, noncontinuous_a: expected a load above 0 A")
-    dev = float(next_standard_rating_a(need)) if device_a is None else float(device_a)
+    dev = (float(next_standard_rating_a(need, tables=data.protection)) if device_a is None
+           else float(device_a))
     if dev < need - 1e-9:
         raise ValueError(f"device_a: got {dev:g} A; expected at least {need:g} A "
                          "(125 % of continuous + noncontinuous, NFPA 70 215.3)")
@@ -154,7 +173,7 @@ def select_conductor(continuous_a: float, noncontinuous_a: float = 0.0, material
         raise ValueError("clearing_s: expected a clearing time with fault_a")
     load_a = continuous_a + noncontinuous_a
     free_air = raceway == "free-air"
-    tabs = ampacity_tables()
+    tabs = data.ampacity
     order = AWG_KCMIL_ORDER if system == "awg" else METRIC_ORDER
     first: dict[str, str] = {}
     chosen = None
@@ -170,17 +189,19 @@ def select_conductor(continuous_a: float, noncontinuous_a: float = 0.0, material
             60.0 if ((dev <= 100.0 or area <= float(AREA_MM2[size_index("1 AWG")]))
                      and not equipment_75c) else 75.0)
         chain = ampacity_chain(name, material, insulation_c, ambient_c, current_carrying, term,
-                               sets, free_air, rooftop_adder_c, continuous_a, noncontinuous_a)
-        mx = float(max_device_a(chain.final_a, name, material))
+                               sets, free_air, rooftop_adder_c, continuous_a, noncontinuous_a,
+                               tables=tabs)
+        mx = float(max_device_a(chain.final_a, name, material, tables=data.protection))
         passed = {"ampacity": chain.ok_before and chain.ok_after, "protection": dev <= mx + 1e-9}
         vd_pct = None
         if check_vd:
-            r, x = ac_impedance_ohm_per_m(name, material, raceway, VDROP_CONDUCTOR_C)
+            r, x = ac_impedance_ohm_per_m(name, material, raceway, VDROP_CONDUCTOR_C,
+                                          data=data.conductors)
             vd_pct = 100.0 * _vdrop_v(load_a, r, x, length_m, pf, phases, sets) / voltage_v
             passed["voltage drop"] = vd_pct <= vdrop_max_pct + 1e-12
         ws = None
         if check_ws:
-            k = k_constant(withstand_insulation, material, "line", area).k
+            k = k_constant(withstand_insulation, material, "line", area, data=data.withstand).k
             ws = float(withstand_current_a(area, clearing_s, k)) * sets
             passed["withstand"] = ws >= fault_a
         for c, ok in passed.items():

@@ -19,7 +19,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-SQRT3 = math.sqrt(3.0)
+from .constants import SQRT3
 
 
 def _phase_factor(phases):

@@ -38,7 +38,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-SQRT3 = float(np.sqrt(3.0))
+from .constants import SQRT3
 
 #: Factor from one conductor's drop to the circuit's drop (see the module table).
 CIRCUIT_FACTORS: dict[str, float] = {"3ph": SQRT3, "1ph2w": 2.0, "1ph3w": 2.0, "ln4w": 2.0}
@@ -177,7 +177,7 @@ def voltage_drop_approximate_v(
     250 kcmil Cu in steel conduit, NFPA 70 Ch. 9 Table 9 (0.054 / 0.052 Ω per 1000 ft),
     100 A at pf 0.85 over 1000 ft, three-phase:
 
-    >>> ft = 0.3048
+    >>> from feedcheck.calc.constants import M_PER_FT as ft
     >>> vd = voltage_drop_approximate_v(100, 0.054 / 1000 / ft, 0.052 / 1000 / ft,
     ...                                 1000 * ft, 0.85, "3ph")
     >>> round(vd, 2)
@@ -372,7 +372,7 @@ def max_length_m(current_a, r_ohm_per_m, x_ohm_per_m, pf, limit_v, circuit="3ph"
 
     Examples
     --------
-    >>> ft = 0.3048
+    >>> from feedcheck.calc.constants import M_PER_FT as ft
     >>> round(max_length_m(100, 0.054 / 1000 / ft, 0.052 / 1000 / ft, 0.85, 12.69) / ft)
     1000
     """
@@ -409,7 +409,7 @@ def min_conductor_index(
     --------
     NFPA 70 Ch. 9 Table 9, Cu in steel, 2/0 … 250 kcmil (Ω per 1000 ft):
 
-    >>> ft = 0.3048
+    >>> from feedcheck.calc.constants import M_PER_FT as ft
     >>> r = [0.10, 0.079, 0.063, 0.054]
     >>> x = [0.054, 0.052, 0.051, 0.052]
     >>> per_m = lambda v: [c / 1000 / ft for c in v]

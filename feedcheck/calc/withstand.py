@@ -23,11 +23,10 @@ insulated cable.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from functools import lru_cache
 
 import numpy as np
 
-from .conductor import MATERIALS, conductor_data, material_index
+from .conductor import MATERIALS, material_index
 from .sizes import MM2_PER_KCMIL
 
 INSULATIONS = ("thermoplastic", "thermoset")
@@ -45,19 +44,40 @@ class KRow:
     rule_id: str
 
 
-@lru_cache(maxsize=4)
-def _rows(_key: object = None) -> tuple[tuple[str, str, str, float, float, float, float, str],
-                                        ...]:
-    from ..tables import load_table
+@dataclass(frozen=True)
+class KSpec:
+    """One row of the k table: insulation, conductor role, material, temperatures,
+    the largest area it applies to [mm²], k and its rule id."""
 
-    df = load_table("withstand_k").data
-    return tuple((str(r.insulation), str(r.conductor_role), str(r.material), float(r.initial_c),
-                  float(r.final_c), float(r.max_area_mm2), float(r.k), str(r.rule_id))
-                 for r in df.itertuples(index=False))
+    insulation: str
+    role: str
+    material: str
+    initial_c: float
+    final_c: float
+    max_area_mm2: float
+    k: float
+    rule_id: str
+
+
+@dataclass(frozen=True)
+class WithstandData:
+    """The k rows and the material constants (index 0 cu, 1 al) the kernels use.
+
+    Built by the rule book (``book.withstand``, :mod:`feedcheck.rulebook`) from
+    ``withstand_k.csv`` and ``conductor_materials.csv``: β [°C], volumetric heat
+    capacity Qc [J/(K·mm³)], ρ20 [Ω·mm²/m], ICEA K and T0 [°C].
+    """
+
+    k_rows: tuple[KSpec, ...]
+    beta_c: np.ndarray
+    heat_capacity_j_per_k_mm3: np.ndarray
+    rho20_ohm_mm2_per_m: np.ndarray
+    icea_k: np.ndarray
+    icea_t0_c: np.ndarray
 
 
 def k_constant(insulation: str, material: str, role: str = "line",
-               area_mm2: float = 0.0) -> KRow:
+               area_mm2: float = 0.0, *, data: WithstandData) -> KRow:
     """Tabulated k for insulation, material, role (``line`` or ``protective``) and size.
 
     Line conductors with thermoplastic insulation over 300 mm² use the lower final
@@ -65,29 +85,27 @@ def k_constant(insulation: str, material: str, role: str = "line",
 
     Examples
     --------
-    >>> k_constant("thermoset", "cu").k
+    >>> k_constant("thermoset", "cu", data=book.withstand).k
     143.0
-    >>> k_constant("thermoplastic", "cu", area_mm2=400.0).k
+    >>> k_constant("thermoplastic", "cu", area_mm2=400.0, data=book.withstand).k
     103.0
     """
-    from ..tables import user_tables_dir
-
     if insulation not in INSULATIONS:
         raise ValueError(f"insulation: got {insulation!r}; expected one of {INSULATIONS}")
     if role not in ROLES:
         raise ValueError(f"role: got {role!r}; expected one of {ROLES}")
     if material not in MATERIALS:
         raise ValueError(f"material: got {material!r}; expected one of {MATERIALS}")
-    rows = [r for r in _rows(str(user_tables_dir())) if r[0] == insulation and r[2] == material
-            and r[1].startswith(role)]
-    rows.sort(key=lambda r: r[5])
+    rows = [r for r in data.k_rows if r.insulation == insulation and r.material == material
+            and r.role.startswith(role)]
+    rows.sort(key=lambda r: r.max_area_mm2)
     for r in rows:
-        if area_mm2 <= r[5]:
-            return KRow(r[6], r[3], r[4], r[7])
+        if area_mm2 <= r.max_area_mm2:
+            return KRow(r.k, r.initial_c, r.final_c, r.rule_id)
     raise ValueError(f"area_mm2: got {area_mm2}; no k row covers it")
 
 
-def k_adiabatic(material, initial_c, final_c):
+def k_adiabatic(material, initial_c, final_c, *, data: WithstandData):
     """k [A·s^½/mm²] from the IEC 60364-5-54 Annex A / IEC 60949 formula.
 
     ``k = √(Qc (β + 20) / ρ20 · ln((β + θf)/(β + θi)))`` with Qc the volumetric heat
@@ -95,20 +113,17 @@ def k_adiabatic(material, initial_c, final_c):
 
     Examples
     --------
-    >>> round(float(k_adiabatic("cu", 70.0, 160.0)), 1)
+    >>> round(float(k_adiabatic("cu", 70.0, 160.0, data=book.withstand)), 1)
     114.8
 
     References
     ----------
     IEC 60364-5-54:2011 Annex A, Table A.54.1; IEC 60949:1988 §3.
     """
-    from ..tables import load_table
-
-    mats = load_table("conductor_materials").data.set_index("material")
     m = material_index(material)
-    beta = mats.loc[list(MATERIALS), "beta_c"].to_numpy(float)[m]
-    qc = mats.loc[list(MATERIALS), "heat_capacity_j_per_k_mm3"].to_numpy(float)[m]
-    rho = conductor_data().rho20[m] * 1e-3  # Ω·mm²/m → Ω·mm
+    beta = data.beta_c[m]
+    qc = data.heat_capacity_j_per_k_mm3[m]
+    rho = data.rho20_ohm_mm2_per_m[m] * 1e-3  # Ω·mm²/m → Ω·mm
     ti = np.asarray(initial_c, dtype=float)
     tf = np.asarray(final_c, dtype=float)
     if np.any(tf <= ti):
@@ -178,26 +193,25 @@ def min_area_mm2(fault_a, clearing_s, k):
     return out[()] if out.ndim == 0 else out
 
 
-def withstand_current_icea_a(area_mm2, clearing_s, material, initial_c, final_c):
+def withstand_current_icea_a(area_mm2, clearing_s, material, initial_c, final_c, *,
+                             data: WithstandData):
     """Withstand current [A] by the ICEA P-32-382 form.
 
     ``I = A_cmil · √(K · log10((T2 + T0)/(T1 + T0)) / t)``.
 
     Examples
     --------
-    >>> round(float(withstand_current_icea_a(107.2, 0.1, "cu", 75.0, 150.0)))  # 4/0 Cu, 75→150 °C
+    >>> d = book.withstand
+    >>> round(float(withstand_current_icea_a(107.2, 0.1, "cu", 75.0, 150.0, data=d)))  # 4/0 Cu
     35419
 
     References
     ----------
     ICEA P-32-382-2007, copper K = 0.0297, T0 = 234; aluminum K = 0.0125, T0 = 228.
     """
-    from ..tables import load_table
-
-    mats = load_table("conductor_materials").data.set_index("material")
     m = material_index(material)
-    kk = mats.loc[list(MATERIALS), "icea_k"].to_numpy(float)[m]
-    t0 = mats.loc[list(MATERIALS), "icea_t0_c"].to_numpy(float)[m]
+    kk = data.icea_k[m]
+    t0 = data.icea_t0_c[m]
     a_cmil = _check("area_mm2", area_mm2) / MM2_PER_KCMIL * 1000.0
     t = _check("clearing_s", clearing_s)
     t1 = np.asarray(initial_c, dtype=float)

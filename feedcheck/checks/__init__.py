@@ -9,25 +9,30 @@ from __future__ import annotations
 from .. import __version__
 from ..model import Job
 from ..results import NodeResult, Results
-from ..tables import load_table, table_names
+from ..rulebook import RuleBook
 from .conductors import check_run
 from .context import Context, Load, build_context
 from .fault import check_faults
+from .impedance import fault_assumptions
 from .panels import check_panel, check_standard_ratings
 from .transformer import check_transformer
 from .vdrop import check_voltage_drop
 
 
 def check_job(
-    job: Job, panel_loads: dict[str, Load] | None = None, calc_date: str | None = None
+    job: Job,
+    panel_loads: dict[str, Load] | None = None,
+    calc_date: str | None = None,
+    rules: RuleBook | None = None,
 ) -> Results:
     """Run every check on a validated job and return the results.
 
     ``calc_date`` (ISO date) labels the fault-current marking when the job gives no date;
     the command supplies it (:func:`feedcheck.commands.clock.calc_date`), checks never
-    read the clock.
+    read the clock. ``rules``: the rule book (default: the tables in force, shipped or
+    ``--tables``).
     """
-    ctx = build_context(job, panel_loads, calc_date)
+    ctx = build_context(job, panel_loads, calc_date, rules)
     tree = ctx.tree
     for n in tree.order:
         run = tree.parent_run.get(n)
@@ -64,21 +69,10 @@ def _results(ctx: Context) -> Results:
         "rules": job.project.rules,
         "file": job.path.name,
         "feedcheck_version": __version__,
-        "impedance_tolerance_pct": job.options.impedance_tolerance_pct,
+        "impedance_tolerance_pct": fault_assumptions(ctx).tolerance_pct,
         "voltage_factor": job.options.voltage_factor,
     }
-    tables = [
-        {
-            "name": t.name,
-            "title": t.title,
-            "source": t.source,
-            "edition": t.meta.get("edition", ""),
-            "confidence": t.confidence,
-            "origin": t.origin,
-            "sha256": t.sha256,
-        }
-        for t in (load_table(name) for name in table_names())
-    ]
+    tables = ctx.rules.provenance()
     runs = [
         {
             "id": r.id,

@@ -4,19 +4,16 @@ secondary-conductor arrangements."""
 
 from __future__ import annotations
 
-import math
-
 from ..calc import ampacity as ak
 from ..calc import protection as pk
 from ..calc import selection as sk
 from ..calc import withstand as wk
+from ..calc.constants import M_PER_FT, SQRT3
 from ..calc.power import current_from_apparent_power_a
 from ..calc.sizes import SIZES
 from ..model import Run
 from .compare import passes
 from .context import Context
-
-SQRT3 = math.sqrt(3.0)
 
 
 def _loads(ctx: Context, run: Run) -> tuple[float, float, float]:
@@ -29,6 +26,7 @@ def _loads(ctx: Context, run: Run) -> tuple[float, float, float]:
 
 
 def _select(
+    ctx: Context,
     run: Run,
     cont: float,
     non: float,
@@ -51,10 +49,12 @@ def _select(
         device_a=device,
         rooftop_adder_c=rooftop_c,
         system=run.size.system,
+        data=ctx.rules.sizing,
     )
 
 
 def _next_passing(
+    ctx: Context,
     run: Run,
     cont: float,
     non: float,
@@ -64,7 +64,7 @@ def _next_passing(
     rooftop_c: float,
 ) -> str:
     try:
-        sel = _select(run, cont, non, device, term, cc, rooftop_c)
+        sel = _select(ctx, run, cont, non, device, term, cc, rooftop_c)
     except ValueError as exc:
         return f"no size found with {run.sets} set(s): {exc}"
     return f"next size that passes: {sel.size} {run.material.capitalize()} ({sel.governing})"
@@ -75,7 +75,7 @@ def check_run(ctx: Context, run: Run) -> None:
     sh = ctx.sheet(run.id, "run", f"Run {run.id} ({run.from_id} → {run.to_id})")
     sh.inputs += [
         ("From → to", f"{run.from_id} → {run.to_id}"),
-        ("Length", f"{run.length_m / 0.3048:,.0f} ft ({run.length_m:,.1f} m)"),
+        ("Length", f"{run.length_m / M_PER_FT:,.0f} ft ({run.length_m:,.1f} m)"),
         (
             "Conductors",
             f"{run.sets} × {run.size.name} {run.material.capitalize()}, "
@@ -106,7 +106,9 @@ def check_run(ctx: Context, run: Run) -> None:
     cc = run.current_carrying + (1 if run.harmonic_neutral else 0)
     rooftop_c, rooftop_rule = 0.0, ""
     if run.rooftop_mm is not None:
-        rooftop_c, rooftop_rule = ak.rooftop_adder_c(run.rooftop_mm / 1000.0)
+        rooftop_c, rooftop_rule = ak.rooftop_adder_c(
+            run.rooftop_mm / 1000.0, tables=ctx.rules.ampacity
+        )
         sh.step(
             "Rooftop raceway temperature adder",
             "added to the ambient",
@@ -152,6 +154,7 @@ def check_run(ctx: Context, run: Run) -> None:
             rooftop_c,
             cont,
             non,
+            tables=ctx.rules.ampacity,
         )
     except ValueError as exc:
         ctx.add(run.id, "ampacity", None, None, "A", "fail", "run-ampacity-after", str(exc))
@@ -171,7 +174,7 @@ def check_run(ctx: Context, run: Run) -> None:
     def fix_text():
         nonlocal fix
         if fix is None:
-            fix = _next_passing(run, cont, non, device, run.termination_c, cc, rooftop_c)
+            fix = _next_passing(ctx, run, cont, non, device, run.termination_c, cc, rooftop_c)
         return fix
 
     # load before and after corrections (215.2(A)(1))
@@ -201,7 +204,7 @@ def check_run(ctx: Context, run: Run) -> None:
         f"{cont + non:.1f} A of load" + ("" if ok else "; " + fix_text()),
     )
     if device is not None:
-        need = float(pk.device_min_for_load_a(cont, non))
+        need = float(pk.device_min_for_load_a(cont, non, tables=ctx.rules.protection))
         ok = passes(device, need, "at_least")
         ctx.compare(
             run.id,
@@ -211,10 +214,13 @@ def check_run(ctx: Context, run: Run) -> None:
             "A",
             "at_least",
             "run-device-load",
-            f"{device:g} A device for 125 % × {cont:.1f} + {non:.1f} A"
+            f"{device:g} A device for {100 * ctx.rules.protection.continuous_factor:g} % × "
+            f"{cont:.1f} + {non:.1f} A"
             f" = {need:.1f} A" + ("" if ok else "; a larger device (and conductors) needed"),
         )
-        prot = pk.conductor_protection(device, chain.final_a, run.size.name, run.material)
+        prot = pk.conductor_protection(
+            device, chain.final_a, run.size.name, run.material, tables=ctx.rules.protection
+        )
         ctx.add(
             run.id,
             "device protects conductors",
@@ -245,12 +251,20 @@ def _check_egc(ctx, run, device, cont, non, term, cc, rooftop_c) -> None:
         )
         return
     try:
-        minimum = _select(run, cont, non, device, term, cc, rooftop_c).size
+        minimum = _select(ctx, run, cont, non, device, term, cc, rooftop_c).size
     except ValueError:
         minimum = run.size.name
     if SIZES[minimum].area_mm2 > run.size.area_mm2:
         minimum = run.size.name
-    need = pk.egc_size(device, run.ground_material, run.size.name, minimum, run.material, run.sets)
+    need = pk.egc_size(
+        device,
+        run.ground_material,
+        run.size.name,
+        minimum,
+        run.material,
+        run.sets,
+        tables=ctx.rules.protection,
+    )
     ok = run.ground.area_mm2 >= SIZES[need.size].area_mm2 * (1 - 1e-9)
     ctx.add(
         run.id,
@@ -277,10 +291,7 @@ def _check_withstand(ctx, run) -> None:
     up = ctx.nodes[run.from_id].values.get("fault_max_a")
     if up is None:
         return
-    from ..tables import load_table
-
-    rules = load_table("check_rules").data.set_index("rule_id")
-    t = run.clearing_s or float(rules.loc["withstand-clearing-default", "limit"])
+    t = run.clearing_s or ctx.rules.rule("withstand-clearing-default").number("limit")
     if run.clearing_s is None:
         ctx.assume(
             f"Withstand checks use a clearing time of {t:g} s where the job gives none "
@@ -293,7 +304,7 @@ def _check_withstand(ctx, run) -> None:
     ):
         if size is None:
             continue
-        k = wk.k_constant(insulation, material, role, size.area_mm2)
+        k = wk.k_constant(insulation, material, role, size.area_mm2, data=ctx.rules.withstand)
         area_total = size.area_mm2 * run.sets
         i_w = float(wk.withstand_current_a(area_total, t, k.k))
         ok = passes(up, i_w, "at_most", 0.0)
@@ -319,14 +330,14 @@ def _check_withstand(ctx, run) -> None:
 
 
 def _secondary_need_text(
-    primary_a: float, ratio: float, divisor: float, by_ratio: float, end_a, label: str
+    primary_a: float, ratio: float, divisor: float, by_ratio: float, end_a, with_end: bool
 ) -> str:
     """How the 240.21(C) required ampacity was found, with the figures actually used."""
     part = (
         f"primary device {primary_a:g} A × voltage ratio {ratio:.3f} ÷ {divisor:g}"
         f" = {by_ratio:.1f} A"
     )
-    if label == "10 ft" and end_a is not None:
+    if with_end and end_a is not None:
         return f"the larger of {part} and the end device {end_a:g} A"
     return part
 
@@ -348,31 +359,37 @@ def _check_secondary_arrangement(ctx, run, ampacity: float) -> None:
         )
         return
     ratio = t.primary.line_v / t.secondary.line_v
-    ten = ctx.rule("xfmr-secondary-10ft")
-    tw5 = ctx.rule("xfmr-secondary-25ft")
+    rules = ctx.rules
+    ten_m = rules.rule("xfmr-secondary-10ft").number("limit")
+    tw5_m = rules.rule("xfmr-secondary-25ft").number("limit")
     panel = next((p for p in ctx.job.panels if p.id == run.to_id), None)
     end_device = panel.main_device_a if panel else None
-    if run.length_m <= float(ten["limit"]) + 1e-9:
-        divisor = 10.0
+    # 240.21(C)(2)(1)(b) and (C)(6)(1): ampacity at least a share (in %) of the primary
+    # device times the voltage ratio, the shares read from their rule rows
+    if run.length_m <= ten_m + 1e-9:
+        share_pct = rules.rule("xfmr-secondary-10ft-ratio").number("limit")
+        divisor = 100.0 / share_pct
         by_ratio = t.primary_device_a * ratio / divisor
         need = max(by_ratio, end_device or 0.0)
-        rid, label = "xfmr-secondary-10ft", "10 ft"
-    elif run.length_m <= float(tw5["limit"]) + 1e-9:
-        divisor = 3.0
+        rid, label = "xfmr-secondary-10ft", f"{ten_m / M_PER_FT:.0f} ft"
+    elif run.length_m <= tw5_m + 1e-9:
+        share_pct = rules.rule("xfmr-secondary-25ft-ratio").number("limit")
+        divisor = 100.0 / share_pct
         by_ratio = t.primary_device_a * ratio / divisor
         need = by_ratio
-        rid, label = "xfmr-secondary-25ft", "25 ft"
+        rid, label = "xfmr-secondary-25ft", f"{tw5_m / M_PER_FT:.0f} ft"
     else:
         ctx.add(
             run.id,
             "secondary conductor length",
             run.length_m,
-            float(tw5["limit"]),
+            tw5_m,
             "m",
             "fail",
             "xfmr-secondary-25ft",
-            f"{run.length_m / 0.3048:,.0f} ft of secondary conductors with no device at "
-            "the transformer: more than 25 ft needs a device at the transformer",
+            f"{run.length_m / M_PER_FT:,.0f} ft of secondary conductors with no device at "
+            f"the transformer: more than {tw5_m / M_PER_FT:.0f} ft needs a device at the "
+            "transformer",
         )
         return
     ctx.compare(
@@ -384,7 +401,9 @@ def _check_secondary_arrangement(ctx, run, ampacity: float) -> None:
         "at_least",
         rid,
         f"ampacity {ampacity:.0f} A vs required {need:.0f} A: "
-        + _secondary_need_text(t.primary_device_a, ratio, divisor, by_ratio, end_device, label),
+        + _secondary_need_text(
+            t.primary_device_a, ratio, divisor, by_ratio, end_device, rid == "xfmr-secondary-10ft"
+        ),
     )
     if end_device is None:
         ctx.add(
@@ -399,11 +418,12 @@ def _check_secondary_arrangement(ctx, run, ampacity: float) -> None:
             "conductors without protection at the transformer must end in one device",
         )
     else:
+        end_pct = rules.rule("xfmr-secondary-end-device").number("limit")
         ctx.compare(
             run.id,
             "secondary conductors end in one device",
             end_device,
-            ampacity,
+            ampacity * end_pct / 100.0,
             "A",
             "at_most",
             "xfmr-secondary-end-device",

@@ -8,7 +8,7 @@ from ..calc.power import current_from_apparent_power_a
 from ..findings import Finding, Status
 from ..model import Job, Tree
 from ..results import NodeResult, Sheet
-from ..tables import load_table
+from ..rulebook import RuleBook, current_rulebook
 from .compare import TOLERANCE, Direction, compare
 
 
@@ -27,9 +27,13 @@ class Load:
 
 @dataclass
 class Context:
+    """One check run. ``rules`` is the rule book: every table as typed records, and
+    ``rules.rule(rule_id)`` the one way to fetch a rule row."""
+
     job: Job
     tree: Tree
     loads: dict[str, Load]
+    rules: RuleBook
     findings: list[Finding] = field(default_factory=list)
     sheets: dict[str, Sheet] = field(default_factory=dict)
     nodes: dict[str, NodeResult] = field(default_factory=dict)
@@ -81,13 +85,6 @@ class Context:
             self.sheets[element_id] = Sheet(element_id, kind, title)
         return self.sheets[element_id]
 
-    def rule(self, rule_id: str) -> dict:
-        t = load_table("check_rules")
-        row = t.data[t.data["rule_id"] == rule_id]
-        if row.empty:
-            raise KeyError(f"rule {rule_id!r} missing from tables/check_rules.csv")
-        return row.iloc[0].to_dict()
-
     def method(self, name: str, source: str) -> None:
         if (name, source) not in self.methods:
             self.methods.append((name, source))
@@ -111,9 +108,15 @@ def _f(v):
 
 
 def build_context(
-    job: Job, panel_loads: dict[str, Load] | None = None, calc_date: str | None = None
+    job: Job,
+    panel_loads: dict[str, Load] | None = None,
+    calc_date: str | None = None,
+    rules: RuleBook | None = None,
 ) -> Context:
-    """The job's tree plus demand loads rolled up from the panels (own load + downstream)."""
+    """The job's tree plus demand loads rolled up from the panels (own load + downstream).
+
+    ``rules``: the rule book to check against (default: the tables in force,
+    shipped or ``--tables DIR``)."""
     tree = job.tree
     own: dict[str, Load] = {n: Load() for n in tree.order}
     for p in job.panels:
@@ -128,4 +131,6 @@ def build_context(
             loads[parent].va += loads[n].va
             loads[parent].continuous_va += loads[n].continuous_va
             loads[parent].w += loads[n].w
-    return Context(job, tree, loads, calc_date=calc_date)
+    return Context(
+        job, tree, loads, rules if rules is not None else current_rulebook(), calc_date=calc_date
+    )

@@ -42,6 +42,7 @@ def drop_limits(
     feeder_pct: float | None = None,
     branch_pct: float | None = None,
     total_pct: float | None = None,
+    rules=None,
 ) -> dict[str, DropLimit]:
     """Feeder, branch and total limits for a rule choice and the job's own figures.
 
@@ -53,6 +54,8 @@ def drop_limits(
     feeder_pct, branch_pct, total_pct : float, optional
         The job's own limits [%]; each replaces the rule row of its scope and takes the
         status of the rule choice.
+    rules : RuleBook, optional
+        The rule book (default: the tables in force, shipped or ``--tables``).
 
     Examples
     --------
@@ -62,8 +65,10 @@ def drop_limits(
     >>> drop_limits("mandatory", total_pct=4.0)["total"].rule_id
     'vd-job-total'
     """
-    from ..tables import rule
+    if rules is None:
+        from ..rulebook import current_rulebook
 
+        rules = current_rulebook()
     if voltage_drop not in RULE_IDS:
         raise ValueError(
             f"voltage_drop: got {voltage_drop!r}; expected one of {', '.join(RULE_IDS)}"
@@ -82,14 +87,16 @@ def drop_limits(
             )
             continue
         rid = RULE_IDS[voltage_drop][scope]
-        row = rule("voltage_drop_limits", rid)
+        row = rules.rule(rid)
         out[scope] = DropLimit(
-            scope, float(row["max_pct"]), str(row["status"]), rid, str(row["clause"])
+            scope, row.number("max_pct"), row.text("status"), rid, row.text("clause")
         )
     return out
 
 
-def job_drop_limits(job) -> dict[str, DropLimit]:
+def job_drop_limits(job, rules=None) -> dict[str, DropLimit]:
     """:func:`drop_limits` of a job's ``[options]``."""
     o = job.options
-    return drop_limits(o.voltage_drop, o.feeder_drop_pct, o.branch_drop_pct, o.total_drop_pct)
+    return drop_limits(
+        o.voltage_drop, o.feeder_drop_pct, o.branch_drop_pct, o.total_drop_pct, rules=rules
+    )

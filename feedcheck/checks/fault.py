@@ -13,19 +13,17 @@ from ..calc import conductor as ck
 from ..calc import fault as fk
 from ..calc import fault_lg as lg
 from ..calc import transformer as tk
+from ..calc.constants import M_PER_FT, SQRT3
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
-from ..tables import load_table
 from .compare import passes
 from .context import Context
 from .impedance import (
-    SQRT3,
     branch_impedances,
     fault_assumptions,
     run_impedance_ohm,
     run_return_impedance_ohm,
     source_impedance,
 )
-from .transformer import transformer_x_r
 
 
 def _kA(a: float) -> str:
@@ -34,7 +32,7 @@ def _kA(a: float) -> str:
 
 def check_faults(ctx: Context) -> None:
     job, tree = ctx.job, ctx.tree
-    fa = fault_assumptions(job)
+    fa = fault_assumptions(ctx)
     order = list(tree.order)
     pos = {n: i for i, n in enumerate(order)}
     parent = np.array(tree.parent_index())
@@ -42,8 +40,8 @@ def check_faults(ctx: Context) -> None:
     vb = job.source.voltage.line_v
 
     zs = source_impedance(job)
-    b_max = branch_impedances(job, tree, fa, fa.cond_c_max, "max")
-    b_min = branch_impedances(job, tree, fa, fa.cond_c_min, "min")
+    b_max = branch_impedances(ctx, fa, fa.cond_c_max, "max")
+    b_min = branch_impedances(ctx, fa, fa.cond_c_min, "min")
 
     def referred(branches):
         arr = np.zeros(len(order), dtype=complex)
@@ -258,7 +256,7 @@ def _primary_terminals(ctx: Context, fa, pos, rf, vb) -> None:
             ("max", fa.cond_c_max, rf.z_max_ohm, fa.c_max),
             ("min", fa.cond_c_min, rf.z_min_ohm, fa.c_min),
         ):
-            z_run_b = k * run_impedance_ohm(run, temp) * (vb / pv.line_v) ** 2
+            z_run_b = k * run_impedance_ohm(run, temp, ctx.rules.conductors) * (vb / pv.line_v) ** 2
             z_b = z_parent[pos[p]] + z_run_b
             out[case] = float(fk.fault_current_3ph_a(vb, z_b, c)) * vb / pv.line_v
         values = ctx.nodes[t.id].values
@@ -357,7 +355,7 @@ def _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb) -> dict[str, fl
             z1 = complex(z_total_min[i] * (v.line_v / vb) ** 2)  # per-phase (equivalent)
             if v.kind == "wye":
                 zt_min = fk.transformer_fault_impedances_ohm(
-                    t.rating_va, v.line_v, t.z_pct, transformer_x_r(t), fa.tolerance_pct
+                    t.rating_va, v.line_v, t.z_pct, t.x_r, fa.tolerance_pct
                 )[1]
                 root_z1[i] = z1
                 root_z0[i] = complex(lg.transformer_zero_sequence_ohm(zt_min, fa.z0_ratio_min))
@@ -366,8 +364,8 @@ def _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb) -> dict[str, fl
                 root_z1[i] = complex(fk.split_phase_source_ohm(z_loop, fa.split_ln_multiplier)[1])
         else:
             run = tree.parent_run[n]
-            zp = run_impedance_ohm(run, fa.cond_c_min)
-            zr = run_return_impedance_ohm(run, fa.cond_c_min)
+            zp = run_impedance_ohm(run, fa.cond_c_min, ctx.rules.conductors)
+            zr = run_return_impedance_ohm(run, fa.cond_c_min, ctx.rules.conductors)
             if v.kind == "wye":
                 b1[i] = zp
                 b0[i] = complex(lg.run_zero_sequence_ohm(zp, zr))
@@ -426,13 +424,16 @@ def _v_ln(v) -> float:
 def _pickup(ctx, device_a: float, given: float | None) -> tuple[float, float, str]:
     if given is not None:
         return given / device_a, 0.0, "setting given in the job"
-    t = load_table("instantaneous_pickup").data
-    rows = t[
-        (t["device_type"].str.startswith("breaker-tm"))
-        & (t["rating_from_a"] < device_a)
-        & (device_a <= t["rating_to_a"])
-    ]
-    row = rows.iloc[0] if not rows.empty else t.iloc[0]
+    table = ctx.rules.rows("instantaneous_pickup")
+    row = next(
+        (
+            r
+            for r in table
+            if str(r["device_type"]).startswith("breaker-tm")
+            and r["rating_from_a"] < device_a <= r["rating_to_a"]
+        ),
+        table[0],
+    )
     ctx.assume(
         "Instantaneous pick-up of feeder devices: typical thermal-magnetic breaker "
         "multiple from tables/instantaneous_pickup.csv unless the job gives "
@@ -484,20 +485,23 @@ def _trip_fixes(ctx, fa, panel_id, run, required_a, z_up1, z_up0) -> str:
     """What would make the device trip: a shorter run or a larger grounding conductor.
     ``z_up1``, ``z_up0``: positive- and zero-sequence impedance up to the run's start."""
     v = ctx.tree.voltage_of[panel_id]
-    zp = run_impedance_ohm(run, fa.cond_c_min) / run.length_m
-    zr = run_return_impedance_ohm(run, fa.cond_c_min) / run.length_m
+    data = ctx.rules.conductors
+    zp = run_impedance_ohm(run, fa.cond_c_min, data) / run.length_m
+    zr = run_return_impedance_ohm(run, fa.cond_c_min, data) / run.length_m
     # wye: Z1 + Z2 + Z0 upstream; 120/240 V loop written in the same 3·V/|A + 3L·(zp + zr)|
     a = 2 * z_up1 + z_up0 if v.kind == "wye" else 3 * z_up1
     max_len = float(lg.max_length_for_trip_m(_v_ln(v), a, zp, zr, required_a, fa.c_min))
     parts = [
-        f"it would trip with the run at most {max_len / 0.3048:,.0f} ft ({max_len:,.1f} m)"
+        f"it would trip with the run at most {max_len / M_PER_FT:,.0f} ft ({max_len:,.1f} m)"
         if max_len > 0
         else "no run length would make it trip"
     ]
     material = run.ground_material if run.ground is not None else run.material
     order = AWG_KCMIL_ORDER if run.size.system == "awg" else METRIC_ORDER
     names = [s for s in order if SIZES[s].area_mm2 <= run.size.area_mm2 * (1 + 1e-9)]
-    r, x = ck.ac_impedance_ohm_per_m(np.array(names), material, run.raceway, fa.cond_c_min)
+    r, x = ck.ac_impedance_ohm_per_m(
+        np.array(names), material, run.raceway, fa.cond_c_min, data=data
+    )
     idx = lg.smallest_return_for_trip(
         _v_ln(v),
         a,
@@ -547,7 +551,9 @@ def _point_to_point(ctx, fa, order, rf) -> dict[str, float]:
         if p not in out:
             continue
         run = tree.parent_run[n]
-        r, x = ck.ac_impedance_ohm_per_m(run.size.name, run.material, run.raceway, fa.cond_c_max)
+        r, x = ck.ac_impedance_ohm_per_m(
+            run.size.name, run.material, run.raceway, fa.cond_c_max, data=ctx.rules.conductors
+        )
         c = float(fk.conductor_constant_a_ft_per_v(float(r), float(x)))
         kind_ptp = "3ph" if v.phases == 3 else "1ph-ll"
         out[n] = float(

@@ -8,20 +8,20 @@ I = V_LL/(√3·|Z|) serves both (V/|Z_loop| for single-phase).
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
 
 from ..calc import conductor as ck
 from ..calc import fault as fk
+from ..calc.constants import SQRT3
 from ..model import Job, Run, Tree
-from ..tables import load_table
-from .transformer import transformer_x_r
-
-SQRT3 = math.sqrt(3.0)
+from .context import Context
 
 
 @dataclass(frozen=True)
 class FaultAssumptions:
+    """The fault assumptions of one job: the rule book's rows, the job's own
+    impedance tolerance where it gives one, c factors per its voltage-factor option."""
+
     tolerance_pct: float
     cond_c_max: float
     cond_c_min: float
@@ -33,41 +33,45 @@ class FaultAssumptions:
     z0_ratio_min: float
 
 
-def fault_assumptions(job: Job) -> FaultAssumptions:
-    rows = load_table("fault_assumptions").data.set_index("rule_id")["value"].astype(float)
-    iec = job.options.voltage_factor == "iec60909"
+def fault_assumptions(ctx: Context) -> FaultAssumptions:
+    rows = ctx.rules.fault
+    opts = ctx.job.options
+    iec = opts.voltage_factor == "iec60909"
+    given = opts.impedance_tolerance_pct
     return FaultAssumptions(
-        tolerance_pct=job.options.impedance_tolerance_pct,
-        cond_c_max=rows["fault-cond-temp-max"],
-        cond_c_min=rows["fault-cond-temp-min"],
-        c_max=rows["fault-c-max-6pct"] if iec else 1.0,
-        c_min=rows["fault-c-min"] if iec else 1.0,
-        motor_multiple=rows["fault-motor-multiple"],
-        ptp_disagree_pct=rows["fault-ptp-disagree"],
-        split_ln_multiplier=rows["fault-split-ln-multiplier"],
-        z0_ratio_min=rows["fault-z0-ratio-min"],
+        tolerance_pct=given if given is not None else rows.z_tolerance_pct,
+        cond_c_max=rows.cond_temp_max_c,
+        cond_c_min=rows.cond_temp_min_c,
+        c_max=rows.c_max_6pct if iec else 1.0,
+        c_min=rows.c_min if iec else 1.0,
+        motor_multiple=rows.motor_multiple,
+        ptp_disagree_pct=rows.ptp_disagree_pct,
+        split_ln_multiplier=rows.split_ln_multiplier,
+        z0_ratio_min=rows.z0_ratio_min,
     )
 
 
-def run_impedance_ohm(run: Run, conductor_c: float) -> complex:
+def run_impedance_ohm(run: Run, conductor_c: float, data: ck.ConductorData) -> complex:
     """Series impedance of a run per phase (one conductor, sets in parallel) [Ω]."""
-    r, x = ck.ac_impedance_ohm_per_m(run.size.name, run.material, run.raceway, conductor_c)
+    r, x = ck.ac_impedance_ohm_per_m(
+        run.size.name, run.material, run.raceway, conductor_c, data=data
+    )
     return complex(fk.branch_impedance_ohm(run.length_m, float(r), float(x), run.sets))
 
 
-def run_return_impedance_ohm(run: Run, conductor_c: float) -> complex:
+def run_return_impedance_ohm(run: Run, conductor_c: float, data: ck.ConductorData) -> complex:
     """Impedance of the run's return path for a ground fault: its equipment grounding
     conductor (one per raceway, so ``sets`` in parallel); the phase size when none is
     given (neutral return). The raceway as a parallel path is neglected (conservative
     for the minimum current)."""
     size = run.ground if run.ground is not None else run.size
     material = run.ground_material if run.ground is not None else run.material
-    r, x = ck.ac_impedance_ohm_per_m(size.name, material, run.raceway, conductor_c)
+    r, x = ck.ac_impedance_ohm_per_m(size.name, material, run.raceway, conductor_c, data=data)
     return complex(fk.branch_impedance_ohm(run.length_m, float(r), float(x), run.sets))
 
 
 def branch_impedances(
-    job: Job, tree: Tree, fa: FaultAssumptions, conductor_c: float, tx_case: str
+    ctx: Context, fa: FaultAssumptions, conductor_c: float, tx_case: str
 ) -> dict[str, complex]:
     """Branch impedance (per-phase equivalent, at the node's own voltage) of each node.
 
@@ -76,6 +80,7 @@ def branch_impedances(
     through its ratio) and, for a single-phase unit on a three-phase node, the extra
     source loop (added later, by :func:`single_phase_on_three_phase`).
     """
+    job, tree, data = ctx.job, ctx.tree, ctx.rules.conductors
     tx = {t.id: t for t in job.transformers}
     out: dict[str, complex] = {}
     for n in tree.order:
@@ -91,7 +96,7 @@ def branch_impedances(
                 t.rating_va,
                 t.secondary.line_v,
                 t.z_pct,
-                transformer_x_r(t),
+                t.x_r,
                 tol,
                 t.secondary.phases,
             )
@@ -100,13 +105,13 @@ def branch_impedances(
                 zt = zt / SQRT3
             if run is not None:
                 parent_v = tree.voltage_of[tree.parent_node[n]]
-                zr = run_impedance_ohm(run, conductor_c)
+                zr = run_impedance_ohm(run, conductor_c, data)
                 if t.primary.phases == 1:  # loop out and back on two lines
                     zr = 2 * zr / SQRT3
                 z += complex(fk.refer_impedance_ohm(zr, parent_v.line_v, v.line_v))
             z += zt
         elif run is not None:
-            zr = run_impedance_ohm(run, conductor_c)
+            zr = run_impedance_ohm(run, conductor_c, data)
             z = 2 * zr / SQRT3 if v.phases == 1 else zr
         out[n] = z
     return out

@@ -34,7 +34,8 @@ def check_panel(ctx: Context, p: Panel) -> None:
         return
     i_load = current_from_apparent_power_a(load.va, v.line_v, v.phases)
     i_cont = current_from_apparent_power_a(load.continuous_va, v.line_v, v.phases)
-    i_design = i_load + 0.25 * i_cont
+    factor = ctx.rules.protection.continuous_factor  # rule device-continuous-125
+    i_design = i_load + (factor - 1.0) * i_cont
     sh.inputs.append(
         (
             "Demand load",
@@ -51,8 +52,8 @@ def check_panel(ctx: Context, p: Panel) -> None:
     )
     sh.step(
         "Design current",
-        "I_noncontinuous + 125 % · I_continuous",
-        f"{i_load - i_cont:.1f} + 1.25 × {i_cont:.1f}",
+        f"I_noncontinuous + {100 * factor:g} % · I_continuous",
+        f"{i_load - i_cont:.1f} + {factor:g} × {i_cont:.1f}",
         round(i_design, 1),
         "A",
         "panel-bus-load",
@@ -92,9 +93,7 @@ def check_panel(ctx: Context, p: Panel) -> None:
 def check_standard_ratings(ctx: Context) -> None:
     """Every device rating in the job should be a standard rating (240.6(A)); a setting
     of an adjustable-trip breaker may not be, so this is a warning."""
-    from ..tables import load_table
-
-    std = set(load_table("device_ratings").data["rating_a"].astype(float))
+    std = {float(r) for r in ctx.rules.device_ratings_a}
     job = ctx.job
     devices = [(t.id, "primary device", t.primary_device_a) for t in job.transformers]
     devices += [(t.id, "secondary device", t.secondary_device_a) for t in job.transformers]

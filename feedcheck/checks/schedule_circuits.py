@@ -44,10 +44,10 @@ def circuit_electrics(c: pd.DataFrame, load_unit: str, system: VoltageSystem):
     return nominal_v, load_va, load_va / kv, kind
 
 
-def ampacities(c: pd.DataFrame, problems: ProblemList):
+def ampacities(c: pd.DataFrame, problems: ProblemList, book):
     """Derated ampacity, ampacity before correction (termination column) and the
     termination temperature of every circuit; a size the table lacks is an input problem."""
-    from ..calc.ampacity import COLUMNS_C, ampacity_a, ampacity_tables, termination_c_for
+    from ..calc.ampacity import COLUMNS_C, ampacity_a, termination_c_for
     from ..calc.conductor import material_index, size_index
 
     size = c["size"].to_numpy(object)
@@ -55,7 +55,7 @@ def ampacities(c: pd.DataFrame, problems: ProblemList):
     breaker = c["breaker_a"].to_numpy(float)
     term = c["termination_c"].to_numpy(float)
     term = np.where(np.isnan(term), per_unique(termination_c_for, breaker, size), term)
-    t = ampacity_tables()
+    t = book.ampacity
     idx = per_unique(size_index, size)
     m = per_unique(material_index, mat)
     cols = np.asarray(COLUMNS_C)
@@ -80,14 +80,15 @@ def ampacities(c: pd.DataFrame, problems: ProblemList):
         c["ambient_c"].to_numpy(float),
         c["current_carrying"].to_numpy(),
         term,
+        tables=t,
     )
     unadjusted = per_unique(
-        lambda s, m, i, t: ampacity_a(s, m, i, 30.0, 3, t), size, mat, ins, term
+        lambda s, m, i, tc: ampacity_a(s, m, i, 30.0, 3, tc, tables=t), size, mat, ins, term
     )
     return np.asarray(derated, float), np.asarray(unadjusted, float), term
 
 
-def min_phase_area(breaker, mat, ins, term, size):
+def min_phase_area(breaker, mat, ins, term, size, *, book):
     """Area [mm²] of the smallest conductor of the same material and size system that the
     breaker protects (240.4, at the circuit's insulation and termination columns): the
     "minimum size that has sufficient ampacity" of 250.122(B). One call per distinct row."""
@@ -103,23 +104,22 @@ def min_phase_area(breaker, mat, ins, term, size):
             if SIZES[name].area_mm2 >= SIZES[sz].area_mm2:
                 break
             try:
-                amp = float(ampacity_a(name, m, i, 30.0, 3, t))
+                amp = float(ampacity_a(name, m, i, 30.0, 3, t, tables=book.ampacity))
             except ValueError:
                 continue
-            if float(max_device_a(amp, name, m)) >= b - 1e-9:
+            if float(max_device_a(amp, name, m, tables=book.protection)) >= b - 1e-9:
                 out[k] = SIZES[name].area_mm2
                 break
     return out
 
 
-def egc_required_area(breaker, gmat, size, mat, min_area):
+def egc_required_area(breaker, gmat, size, mat, min_area, *, book):
     """Least EGC area [mm²] by Table 250.122, increased in proportion to the circuit
     conductors' area over the minimum size (250.122(B)), capped at the circuit
     conductors (250.122(A))."""
-    from ..calc.conductor import AREA_MM2, conductor_data, material_index, size_index
-    from ..calc.protection import protection_tables
+    from ..calc.conductor import AREA_MM2, material_index, size_index
 
-    t = protection_tables()
+    t = book.protection
     row = np.searchsorted(t.egc_up_to_a, breaker * (1 - 1e-12), side="left")
     row = np.minimum(row, len(t.egc_up_to_a) - 1)
     cu = AREA_MM2[size_index(np.array(t.egc_cu))]
@@ -130,41 +130,43 @@ def egc_required_area(breaker, gmat, size, mat, min_area):
     # the installed ground is a standard size, so comparing its area with the grown area
     # is the same as rounding the grown area up to the next standard size
     need = table_area * np.maximum(phase_area / min_area, 1.0)
-    rho = conductor_data().rho20
+    rho = book.conductors.rho20
     pm = material_index(mat)
     cap = phase_area * rho[gm] / rho[pm]
     return np.minimum(need, cap), table_area
 
 
-def _device_limits(q: dict) -> None:
+def _device_limits(q: dict, book) -> None:
     """Breaker and conductor limits: 240.6(A), 210.19/210.20, 240.4(B)/(D), 430.22/430.52."""
     from ..calc.conductor import material_index, size_index
     from ..calc.protection import (
         max_device_a,
         next_standard_rating_a,
-        protection_tables,
         standard_ratings_a,
     )
 
     breaker, current, size, mat = q["breaker_a"], q["current_a"], q["size"], q["material"]
     cont, motor = q["continuous"], q["motor"]
-    q["breaker_standard"] = np.isin(breaker, standard_ratings_a("breaker"))
+    q["breaker_standard"] = np.isin(breaker, standard_ratings_a("breaker", tables=book.protection))
     q["need_breaker_a"] = np.where(cont, 1.25 * current, current)
     q["need_conductor_a"] = np.where(cont, 1.25 * current, current)
     q["motor_conductor_a"] = 1.25 * current
-    q["small_max_a"] = protection_tables().small_limit_a[
+    q["small_max_a"] = book.protection.small_limit_a[
         per_unique(material_index, mat), per_unique(size_index, size)
     ]
-    q["max_device_a"] = np.asarray(per_unique(max_device_a, q["ampacity_a"], size, mat), float)
+    q["max_device_a"] = np.asarray(per_unique(max_device_a, q["ampacity_a"], size, mat, tables=book.protection), float
+    )
     motor_max = np.zeros(len(breaker))
     if motor.any():
-        motor_max[motor] = next_standard_rating_a(np.minimum(2.5 * current[motor], 6000.0))
+        motor_max[motor] = next_standard_rating_a(
+            np.minimum(2.5 * current[motor], 6000.0), tables=book.protection
+        )
     q["motor_max_a"] = motor_max
     q["not_motor"] = ~motor
     q["not_motor_within_small"] = ~motor & ~(breaker > q["small_max_a"] + 1e-9)
 
 
-def _grounding(q: dict, c: pd.DataFrame) -> None:
+def _grounding(q: dict, c: pd.DataFrame, book) -> None:
     """Installed and required EGC area of circuits that give a ground (250.122)."""
     from ..calc.conductor import AREA_MM2, size_index
 
@@ -179,10 +181,22 @@ def _grounding(q: dict, c: pd.DataFrame) -> None:
         gm = c["ground_material"].to_numpy(object)
         ins_c = c["insulation_c"].to_numpy(float)
         min_area = per_unique(
-            min_phase_area, breaker[has_g], mat[has_g], ins_c[has_g], term[has_g], size[has_g]
+            min_phase_area,
+            breaker[has_g],
+            mat[has_g],
+            ins_c[has_g],
+            term[has_g],
+            size[has_g],
+            book=book,
         )
         need, _table = per_unique(
-            egc_required_area, breaker[has_g], gm[has_g], size[has_g], mat[has_g], min_area
+            egc_required_area,
+            breaker[has_g],
+            gm[has_g],
+            size[has_g],
+            mat[has_g],
+            min_area,
+            book=book,
         )
         g_need[has_g] = need
         g_area[has_g] = AREA_MM2[per_unique(size_index, gsize[has_g])]
@@ -190,7 +204,7 @@ def _grounding(q: dict, c: pd.DataFrame) -> None:
     q.update(ground_size=gsize, ground_ok=g_ok, ground_area_mm2=g_area, ground_need_mm2=g_need)
 
 
-def _voltage_drop(q: dict, c: pd.DataFrame, nominal_v, vd_kind, feeder_drop_pct) -> None:
+def _voltage_drop(q: dict, c: pd.DataFrame, nominal_v, vd_kind, feeder_drop_pct, book) -> None:
     """Branch drop by the approximate form at 75 °C, and the total with the feeder's."""
     import pandas as pd
 
@@ -199,7 +213,7 @@ def _voltage_drop(q: dict, c: pd.DataFrame, nominal_v, vd_kind, feeder_drop_pct)
 
     n = len(c)
     r_m, x_m = per_unique(
-        lambda s, m, r: ac_impedance_ohm_per_m(s, m, r, 75.0),
+        lambda s, m, r: ac_impedance_ohm_per_m(s, m, r, 75.0, data=book.conductors),
         q["size"],
         q["material"],
         c["raceway"].to_numpy(object),
@@ -218,12 +232,18 @@ def _voltage_drop(q: dict, c: pd.DataFrame, nominal_v, vd_kind, feeder_drop_pct)
 
 
 def circuit_quantities(
-    c: pd.DataFrame, load_unit: str, system: VoltageSystem, feeder_drop_pct, limits, problems
+    c: pd.DataFrame,
+    load_unit: str,
+    system: VoltageSystem,
+    feeder_drop_pct,
+    limits,
+    problems,
+    book,
 ) -> dict:
     """Every per-circuit quantity the rules compare, by name (arrays of one per circuit,
     or scalars)."""
     nominal_v, load_va, current, vd_kind = circuit_electrics(c, load_unit, system)
-    derated, unadjusted, term = ampacities(c, problems)
+    derated, unadjusted, term = ampacities(c, problems, book)
     poles = c["poles"].to_numpy()
     kind = c["kind"].to_numpy(object)
     q = {
@@ -253,7 +273,7 @@ def circuit_quantities(
         "branch_limit_pct": limits["branch"].max_pct,
         "total_limit_pct": limits["total"].max_pct,
     }
-    _device_limits(q)
-    _grounding(q, c)
-    _voltage_drop(q, c, nominal_v, vd_kind, feeder_drop_pct)
+    _device_limits(q, book)
+    _grounding(q, c, book)
+    _voltage_drop(q, c, nominal_v, vd_kind, feeder_drop_pct, book)
     return q

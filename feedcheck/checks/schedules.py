@@ -49,6 +49,7 @@ from ..calc.demand import KINDS, PanelDemand, Tiers, panel_demand
 from ..errors import ProblemList
 from ..findings import SEVERITY, Finding
 from ..model import OCCUPANCIES, Schedule, VoltageSystem
+from ..rulebook import RuleBook, current_rulebook
 from .context import Load
 from .schedule_circuits import circuit_electrics, circuit_quantities
 from .schedule_rules import apply_rules, circuit_findings
@@ -153,7 +154,9 @@ ScheduleResult.findings = property(
 
 
 # --------------------------------------------------------------------------- demand
-def demand_tiers(occupancy: str = "other") -> dict[str, list[tuple[float, float, float]]]:
+def demand_tiers(
+    occupancy: str = "other", rules: RuleBook | None = None
+) -> dict[str, list[tuple[float, float, float]]]:
     """Demand tiers by load kind from ``tables/demand_factors.csv`` for an occupancy.
 
     Examples
@@ -161,16 +164,16 @@ def demand_tiers(occupancy: str = "other") -> dict[str, list[tuple[float, float,
     >>> demand_tiers()["receptacle"]
     [(0.0, 10000.0, 1.0), (10000.0, inf, 0.5)]
     """
-    from ..tables import load_table
-
     if occupancy not in OCCUPANCIES:
         raise ValueError(f"occupancy: got {occupancy!r}; expected one of {', '.join(OCCUPANCIES)}")
-    t = load_table("demand_factors").data
+    book = rules if rules is not None else current_rulebook()
     out: dict[str, list[tuple[float, float, float]]] = {}
-    for r in t.itertuples(index=False):
-        if r.kind == "lighting" and r.occupancy != occupancy:
+    for r in book.rows("demand_factors"):
+        if r["kind"] == "lighting" and r["occupancy"] != occupancy:
             continue
-        out.setdefault(str(r.kind), []).append((float(r.from_va), float(r.to_va), float(r.factor)))
+        out.setdefault(str(r["kind"]), []).append(
+            (float(r["from_va"]), float(r["to_va"]), float(r["factor"]))
+        )
     return out
 
 
@@ -200,12 +203,15 @@ class ScheduleDemand:
 
 
 def schedule_demand(
-    schedule: Schedule, system: VoltageSystem, occupancy: str = "other"
+    schedule: Schedule,
+    system: VoltageSystem,
+    occupancy: str = "other",
+    rules: RuleBook | None = None,
 ) -> ScheduleDemand:
     """Connected and demand load of every panel of a schedule (no circuit checks)."""
     import pandas as pd
 
-    tiers = demand_tiers(occupancy)
+    tiers = demand_tiers(occupancy, rules)
     c = schedule.circuits
     _v, load_va, _i, _k = circuit_electrics(c, schedule.load_unit, system)
     codes, ids = pd.factorize(pd.Series(c["panel"].to_numpy(object)))
@@ -243,11 +249,8 @@ def demand_load(schedule: Schedule, system: VoltageSystem, occupancy: str = "oth
 
 
 # --------------------------------------------------------------------------- the check
-def _rule_rows() -> dict[str, dict]:
-    from ..tables import load_table
-
-    t = load_table("schedule_rules").data
-    return {r["rule_id"]: r for r in t.to_dict("records")}
+def _rule_rows(book: RuleBook) -> dict[str, dict]:
+    return {r["rule_id"]: r for r in book.rows("schedule_rules")}
 
 
 def check_schedule(
@@ -259,6 +262,7 @@ def check_schedule(
     main_a: float | None = None,
     limits: dict | None = None,
     demand: ScheduleDemand | None = None,
+    rules: RuleBook | None = None,
 ) -> ScheduleResult:
     """Check every circuit of a schedule and total its panel(s).
 
@@ -280,6 +284,8 @@ def check_schedule(
         ``branch`` and ``total``); default: the recommended rule rows.
     demand : ScheduleDemand, optional
         Its demand from :func:`schedule_demand` (same system and occupancy), if known.
+    rules : RuleBook, optional
+        The rule book (default: the tables in force, shipped or ``--tables``).
 
     Returns ScheduleResult; raises InputError (a conductor the ampacity table does not
     list for its material) or ValueError (an unknown occupancy).
@@ -296,17 +302,24 @@ def check_schedule(
     >>> r.circuits["status"].tolist(), r.totals["connected_va"]
     (['ok', 'fail'], 4200.0)
     """
+    book = rules if rules is not None else current_rulebook()
     if limits is None:
         from .drop_rules import drop_limits
 
-        limits = drop_limits()
+        limits = drop_limits(rules=book)
     if demand is None:
-        demand = schedule_demand(schedule, system, occupancy)
-    rules = _rule_rows()
+        demand = schedule_demand(schedule, system, occupancy, book)
+    rules = _rule_rows(book)
     c = schedule.circuits
     n = len(c)
     q = circuit_quantities(
-        c, schedule.load_unit, system, feeder_drop_pct, limits, ProblemList(str(schedule.path))
+        c,
+        schedule.load_unit,
+        system,
+        feeder_drop_pct,
+        limits,
+        ProblemList(str(schedule.path)),
+        book,
     )
     sev, reason, found = apply_rules(q, n, {k: str(r["status"]) for k, r in rules.items()}, limits)
     per_phase, phase_txt = _phases(q["poles"], q["circuit"], demand, system)

@@ -8,13 +8,8 @@ import math
 from ..calc import transformer as tk
 from ..calc.sizes import SIZES
 from ..model import Transformer
-from ..tables import load_table
 from .compare import passes
 from .context import Context
-
-
-def transformer_x_r(t: Transformer) -> float:
-    return t.x_r  # filled with the typical value by rating when the job is read
 
 
 def check_transformer(ctx: Context, t: Transformer) -> None:
@@ -74,8 +69,8 @@ def check_transformer(ctx: Context, t: Transformer) -> None:
     )
 
     # --- overcurrent protection, 450.3(B)
-    rules = load_table("transformer_protection").data.to_dict("records")
-    ratings = load_table("device_ratings").data["rating_a"].to_numpy(dtype=float)
+    rules = list(ctx.rules.transformer_protection)
+    ratings = ctx.rules.device_ratings_a
     sh.uses("transformer_protection", "device_ratings")
     arrangement = "primary and secondary" if t.secondary_device_a else "primary only"
     ctx.method("Transformer overcurrent protection limits", "NFPA 70-2023 450.3(B), Table 450.3(B)")
@@ -123,7 +118,7 @@ def check_transformer(ctx: Context, t: Transformer) -> None:
 
     # --- loading and regulation at the demand load
     load = ctx.loads[t.id]
-    x_r = transformer_x_r(t)
+    x_r = t.x_r
     if t.x_r_typical:
         row = t.x_r_typical_row
         sh.uses("transformer_xr")
@@ -143,7 +138,7 @@ def check_transformer(ctx: Context, t: Transformer) -> None:
         "% (%X)",
     )
     n = load.va / t.rating_va
-    rule = ctx.rule("xfmr-loading")
+    rule = ctx.rules.rule("xfmr-loading")
     pct = 100.0 * n
     sh.step(
         "Loading",
@@ -154,12 +149,12 @@ def check_transformer(ctx: Context, t: Transformer) -> None:
         "xfmr-loading",
     )
     if load.va > 0:
-        ok = passes(pct, float(rule["limit"]), "at_most")
+        ok = passes(pct, rule.number("limit"), "at_most")
         ctx.compare(
             t.id,
             "loading",
             pct,
-            float(rule["limit"]),
+            rule.number("limit"),
             "%",
             "at_most",
             "xfmr-loading",
@@ -216,7 +211,7 @@ def _check_grounding(ctx: Context, t: Transformer, sh) -> None:
     areas = [(r.size.area_kcmil * r.sets, r.material) for r in runs]
     total = sum(a for a, _ in areas)
     material = runs[0].material
-    rows = load_table("grounding_electrode_conductor").data.to_dict("records")
+    rows = ctx.rules.rows("grounding_electrode_conductor")
     sh.uses("grounding_electrode_conductor")
     row = tk.gec_row(total, material, rows)
     gec_cu, gec_al = row["gec_cu"], row["gec_al"]
@@ -248,14 +243,17 @@ def _check_grounding(ctx: Context, t: Transformer, sh) -> None:
         f"{total:.1f} kcmil {material.upper()} secondary conductors",
     )
     lim_col = "cu_up_to_kcmil" if material == "cu" else "al_up_to_kcmil"
+    sbj_pct = ctx.rules.rule("sbj-sds").number("limit")
     if math.isinf(float(row[lim_col])) and total > 0:
-        sbj_area = 0.125 * total
-        sbj_text = f"at least {sbj_area:.0f} kcmil ({material.upper()}, 12.5 % of {total:.0f})"
+        sbj_area = sbj_pct / 100.0 * total
+        sbj_text = (
+            f"at least {sbj_area:.0f} kcmil ({material.upper()}, {sbj_pct:g} % of {total:.0f})"
+        )
     else:
         sbj_text = f"at least {gec_cu} Cu or {gec_al} Al"
     sh.step(
         "System bonding jumper",
-        "Table 250.102(C)(1) (12.5 % of area above its rows)",
+        f"Table 250.102(C)(1) ({sbj_pct:g} % of area above its rows)",
         f"{total:.1f} kcmil",
         sbj_text,
         "",

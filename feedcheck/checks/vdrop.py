@@ -11,21 +11,20 @@ import numpy as np
 from ..calc import conductor as ck
 from ..calc import transformer as tk
 from ..calc import vdrop as vk
+from ..calc.constants import M_PER_FT, SQRT3
 from ..calc.power import current_from_apparent_power_a
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
-from ..tables import load_table
 from .compare import passes
 from .context import Context
 from .drop_rules import DropLimit, job_drop_limits
-from .impedance import SQRT3, branch_impedances, fault_assumptions, source_impedance
-from .transformer import transformer_x_r
+from .impedance import branch_impedances, fault_assumptions, source_impedance
 
 OPERATING_C = 75.0  # conductor temperature for steady-state drop (75 °C terminations)
 
 
 def drop_limits(ctx: Context) -> dict[str, DropLimit]:
     """Feeder, branch and total limits for this job (rule rows, or the job's own)."""
-    return job_drop_limits(ctx.job)
+    return job_drop_limits(ctx.job, ctx.rules)
 
 
 def check_voltage_drop(ctx: Context) -> None:
@@ -82,7 +81,7 @@ def check_voltage_drop(ctx: Context) -> None:
             cond_drop_here = cond_drop[p]
         if tree.kind[n] == "transformer":
             t = tx[n]
-            x_r = transformer_x_r(t)
+            x_r = t.x_r
             r_pct, x_pct = tk.impedance_parts_pct(t.z_pct, x_r)
             frac = load.va / t.rating_va
             sending = pct / 100.0 * (1 + t.tap_pct / 100.0)
@@ -145,7 +144,9 @@ def _run_drop(ctx: Context, run, pv, load, sending_pct: float, limits) -> float:
         current_from_apparent_power_a(load.va, pv.line_v, pv.phases) if load.va > 0 else 0.0
     )
     pf = load.pf
-    r, x = ck.ac_impedance_ohm_per_m(run.size.name, run.material, run.raceway, OPERATING_C)
+    r, x = ck.ac_impedance_ohm_per_m(
+        run.size.name, run.material, run.raceway, OPERATING_C, data=ctx.rules.conductors
+    )
     r, x = float(r), float(x)
     sending_v = pv.line_v * sending_pct / 100.0
     approx_v = float(vk.voltage_drop_approximate_v(current, r, x, run.length_m, pf, kind, run.sets))
@@ -169,9 +170,9 @@ def _run_drop(ctx: Context, run, pv, load, sending_pct: float, limits) -> float:
             "%",
             "fail",
             lim.rule_id,
-            f"{current:.0f} A over {run.length_m / 0.3048:,.0f} ft of {run.size.name}: the "
+            f"{current:.0f} A over {run.length_m / M_PER_FT:,.0f} ft of {run.size.name}: the "
             "load cannot be delivered (the voltage collapses); "
-            + _smallest_passing(run, current, pf, kind, lim.max_pct, pv.line_v),
+            + _smallest_passing(ctx, run, current, pf, kind, lim.max_pct, pv.line_v),
         )
         ctx.run_values.setdefault(run.id, {}).update(
             {"current_a": current, "vdrop_pct": 100.0, "length_m": run.length_m}
@@ -231,10 +232,10 @@ def _run_drop(ctx: Context, run, pv, load, sending_pct: float, limits) -> float:
     ok = passes(pct, lim.max_pct, "at_most")
     note = (
         f"{pct:.2f} % (approximate form {approx_pct:.2f} %) at {current:.0f} A over "
-        f"{run.length_m / 0.3048:,.0f} ft"
+        f"{run.length_m / M_PER_FT:,.0f} ft"
     )
     if not ok:
-        note += "; " + _smallest_passing(run, current, pf, kind, lim.max_pct, pv.line_v)
+        note += "; " + _smallest_passing(ctx, run, current, pf, kind, lim.max_pct, pv.line_v)
     ctx.compare(
         run.id,
         "feeder voltage drop",
@@ -249,10 +250,12 @@ def _run_drop(ctx: Context, run, pv, load, sending_pct: float, limits) -> float:
     return pct
 
 
-def _smallest_passing(run, current, pf, kind, limit_pct, nominal_v) -> str:
+def _smallest_passing(ctx, run, current, pf, kind, limit_pct, nominal_v) -> str:
     order = AWG_KCMIL_ORDER if run.size.system == "awg" else METRIC_ORDER
     names = [s for s in order if SIZES[s].area_mm2 >= run.size.area_mm2 * (1 - 1e-9)]
-    r, x = ck.ac_impedance_ohm_per_m(np.array(names), run.material, run.raceway, OPERATING_C)
+    r, x = ck.ac_impedance_ohm_per_m(
+        np.array(names), run.material, run.raceway, OPERATING_C, data=ctx.rules.conductors
+    )
     r, x = np.asarray(r), np.asarray(x)  # candidates; the first is the run's own size
     idx = int(
         vk.min_conductor_index(
@@ -282,20 +285,19 @@ def _smallest_passing(run, current, pf, kind, limit_pct, nominal_v) -> str:
         if idx >= 0
         else f"no {run.material.capitalize()} size up to {names[-1]} passes with {run.sets} set(s)"
     )
-    return f"{size_text}; with {run.size.name} the run may be at most {max_len / 0.3048:,.0f} ft"
+    return f"{size_text}; with {run.size.name} the run may be at most {max_len / M_PER_FT:,.0f} ft"
 
 
 def _motor_starting(ctx: Context) -> None:
     job, tree = ctx.job, ctx.tree
     if not job.motors:
         return
-    fa = fault_assumptions(job)
-    branches = branch_impedances(job, tree, fa, OPERATING_C, "nominal")
+    fa = fault_assumptions(ctx)
+    branches = branch_impedances(ctx, fa, OPERATING_C, "nominal")
     zs = source_impedance(job)
     vb = job.source.voltage.line_v
-    lr = load_table("motor_locked_rotor").data
-    limits = load_table("motor_starting_limits").data.set_index("rule_id")
-    lim = limits.loc["ms-motor-terminals"]
+    lr = ctx.rules.rows("motor_locked_rotor")
+    lim = ctx.rules.rule("ms-motor-terminals")
     ctx.method(
         "Motor starting dip, impedance divider: V_t = E_s·|Z_m|/|Z_path + Z_m| with "
         "Z_m = V_rated/I_LR at the starting power factor",
@@ -314,7 +316,7 @@ def _motor_starting(ctx: Context) -> None:
         v = tree.voltage_of[m.panel_id]
         z_node = z * (v.line_v / vb) ** 2
         hp = m.hp if m.hp is not None else math.inf
-        row = lr[lr["hp_to"] >= hp].iloc[0] if m.hp is not None else lr.iloc[-1]
+        row = next(r for r in lr if r["hp_to"] >= hp) if m.hp is not None else lr[-1]
         i_lr = m.locked_rotor_a if m.locked_rotor_a else float(row["lr_multiple"]) * m.full_load_a
         pf_start = float(row["starting_pf"])
         if v.phases == 3:
@@ -329,7 +331,7 @@ def _motor_starting(ctx: Context) -> None:
             m.id,
             "motor starting dip",
             dip,
-            float(lim["max_dip_pct"]),
+            lim.number("max_dip_pct"),
             "%",
             "at_most",
             "ms-motor-terminals",

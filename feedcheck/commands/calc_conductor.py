@@ -86,12 +86,14 @@ def _column(value: float, option: str) -> float:
 def ampacity_command(size, material, insulation, ambient, current_carrying, termination, sets,
                      free_air, rooftop_adder, continuous, noncontinuous):
     from ..calc.ampacity import ampacity_chain
+    from ..rulebook import current_rulebook
 
     ins = _column(insulation, "--insulation")
     term = _column(termination, "--termination")
     try:
         c = ampacity_chain(size.name, material.lower(), ins, ambient, current_carrying, term,
-                           sets, free_air, rooftop_adder, continuous or 0.0, noncontinuous or 0.0)
+                           sets, free_air, rooftop_adder, continuous or 0.0, noncontinuous or 0.0,
+                           tables=current_rulebook().ampacity)
     except ValueError as exc:
         raise click.UsageError(str(exc)) from None
     click.echo(f"Ampacity of {c.sets} × {c.size} {c.material}"
@@ -140,6 +142,7 @@ def size_command(continuous, noncontinuous, material, insulation, ambient, curre
                  termination, sets, raceway, device, length, voltage, phases, pf, limit, fault,
                  clearing, withstand_insulation, metric):
     from ..calc.selection import select_conductor
+    from ..rulebook import current_rulebook
     from ..units import UnitParseError, parse_quantity
 
     ins = _column(insulation, "--insulation")
@@ -163,7 +166,8 @@ def size_command(continuous, noncontinuous, material, insulation, ambient, curre
         s = select_conductor(continuous, noncontinuous, material.lower(), ins, ambient,
                              current_carrying, term, sets, raceway.lower(), device,
                              length or 0.0, volts, int(phases), pf, limit, fault, clearing,
-                             withstand_insulation, system="metric" if metric else "awg")
+                             withstand_insulation, system="metric" if metric else "awg",
+                             data=current_rulebook().sizing)
     except ValueError as exc:
         raise click.UsageError(str(exc)) from None
     click.echo(f"Selected: {s.sets} × {s.size} {material.lower()} on a {s.device_a:g} A device"

@@ -103,15 +103,18 @@ def compute(kva, primary, secondary, z, x_r, source_fault, source_x_r, tolerance
     run = None
     if length_m is not None:
         from ..calc.conductor import ac_impedance_ohm_per_m
+        from ..rulebook import current_rulebook
 
+        cd = current_rulebook().conductors
         t_max, t_min = _rule("fault-cond-temp-max"), _rule("fault-cond-temp-min")
-        r20, x20 = ac_impedance_ohm_per_m(size.name, material, raceway, conductor_c=t_max)
-        rhot, xhot = ac_impedance_ohm_per_m(size.name, material, raceway, conductor_c=t_min)
+        r20, x20 = ac_impedance_ohm_per_m(size.name, material, raceway, conductor_c=t_max, data=cd)
+        rhot, xhot = ac_impedance_ohm_per_m(size.name, material, raceway, conductor_c=t_min, data=cd)
         run = dict(z_max=F.branch_impedance_ohm(length_m, r20, x20, sets),
                    z_min=F.branch_impedance_ohm(length_m, rhot, xhot, sets),
                    c_const=F.conductor_constant_a_ft_per_v(r20, x20), t_max=t_max, t_min=t_min)
         if ground is not None:  # one grounding conductor per raceway: the sets share the return
-            rg, xg = ac_impedance_ohm_per_m(ground.name, material, raceway, conductor_c=t_min)
+            rg, xg = ac_impedance_ohm_per_m(ground.name, material, raceway, conductor_c=t_min,
+                                            data=cd)
             run["z_ground"] = F.branch_impedance_ohm(length_m, rg, xg, sets)
         out["run"] = run
     zero = 0j
@@ -229,11 +232,11 @@ def fault_command(rating_va, kva_old, primary, secondary, z_pct, z_old, x_r, sou
     if primary.phases == 1 and secondary.phases == 3:
         raise click.UsageError("a single-phase --primary cannot feed a three-phase --secondary")
     from ..errors import InputError
-    from ..inputs.defaults import typical_x_r
+    from ..rulebook import current_rulebook
 
     try:
         x_src = "given" if x_r is not None else "typical, tables/transformer_xr.csv"
-        x_r = x_r if x_r is not None else typical_x_r(kva)[0]
+        x_r = x_r if x_r is not None else current_rulebook().transformer_xr.typical(kva)[0]
         tol_src = "given" if tolerance_pct is not None else "rule fault-z-tolerance"
         tolerance_pct = tolerance_pct if tolerance_pct is not None else _rule("fault-z-tolerance")
         res = compute(kva, primary, secondary, z_pct, x_r, source_fault, source_x_r,

@@ -159,6 +159,7 @@ def voltage_drop_command(
 
     try:
         from ..calc.conductor import ac_impedance_ohm_per_m
+        from ..rulebook import current_rulebook
     except ImportError as exc:  # pragma: no cover - only while the tree is incomplete
         _fail(f"conductor impedance data are not available ({exc})")
     circuit = circuit or vdrop.circuit_of_system(system.kind, system.phases)
@@ -168,7 +169,10 @@ def voltage_drop_command(
     try:
         r_m, x_m = (
             float(v)
-            for v in ac_impedance_ohm_per_m(size.name, material, raceway, conductor_c=conductor_c)
+            for v in ac_impedance_ohm_per_m(
+                size.name, material, raceway, conductor_c=conductor_c,
+                data=current_rulebook().conductors,
+            )
         )
         approx_v = vdrop.voltage_drop_approximate_v(
             current_a, r_m, x_m, length_m, pf, circuit, sets

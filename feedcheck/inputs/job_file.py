@@ -494,7 +494,7 @@ def _options(r: Reader, opts: dict) -> Options:
         "impedance_tolerance",
         "percent",
         required=False,
-        default=7.5,
+        default=None,
         must_be_positive=False,
     )
     if tol is not None and not (0 <= tol <= 20):
@@ -510,7 +510,7 @@ def _options(r: Reader, opts: dict) -> Options:
     if vd not in VOLTAGE_DROP_MODES:
         r.add("options.voltage_drop", vd, "'recommended' (warnings) or 'mandatory' (failures)")
     return Options(
-        impedance_tolerance_pct=tol if tol is not None else 7.5,
+        impedance_tolerance_pct=tol,
         voltage_factor=vf,
         voltage_drop=vd,
         feeder_drop_pct=r.qty(opts, "options", "feeder_drop", "percent", required=False),

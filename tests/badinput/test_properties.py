@@ -24,9 +24,9 @@ import numpy as np
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from feedcheck.calc.ampacity import ampacity_a
 from feedcheck.calc.sizes import AWG_KCMIL_ORDER
 from feedcheck.runner import run_job
+from tests.kernels import ampacity_a
 
 from . import assert_no_traceback, cli
 

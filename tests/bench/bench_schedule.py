@@ -21,14 +21,13 @@ from pathlib import Path
 
 import numpy as np
 
-from feedcheck.calc.ampacity import ampacity_a, termination_c_for
-from feedcheck.calc.conductor import ac_impedance_ohm_per_m
-from feedcheck.calc.protection import max_device_a
+from feedcheck.calc.ampacity import termination_c_for
 from feedcheck.calc.vdrop import voltage_drop_approximate_v
 from feedcheck.inputs.schedule_file import read_schedule
 from feedcheck.checks.schedules import check_schedule
 from feedcheck.schedule_export import write_results
 from feedcheck.units import parse_voltage_system
+from tests.kernels import ac_impedance_ohm_per_m, ampacity_a, max_device_a
 
 SIZES = np.array(["14 AWG Cu", "12 AWG Cu", "10 AWG Cu", "8 AWG Cu", "6 AWG Cu", "12 AWG Al"])
 BREAKER = np.array([15, 20, 30, 40, 60, 15])

@@ -9,13 +9,11 @@ from hypothesis import strategies as st
 
 from feedcheck.calc.ampacity import (
     ambient_factor,
-    ampacity_a,
-    ampacity_chain,
     count_current_carrying,
-    rooftop_adder_c,
     termination_c_for,
 )
 from feedcheck.calc.sizes import AWG_KCMIL_ORDER
+from tests.kernels import ampacity_a, ampacity_chain, rooftop_adder_c
 
 CU = list(AWG_KCMIL_ORDER)
 COLS = [60.0, 75.0, 90.0]

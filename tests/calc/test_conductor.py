@@ -5,14 +5,14 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from feedcheck.calc.conductor import (
+from feedcheck.calc.conductor import parallel_impedance_ohm_per_m
+from feedcheck.calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
+from tests.kernels import (
     ac_impedance_computed_ohm_per_m,
     ac_impedance_ohm_per_m,
     dc_resistance_ohm_per_m,
     impedance_method,
-    parallel_impedance_ohm_per_m,
 )
-from feedcheck.calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
 
 ALL = list(AWG_KCMIL_ORDER) + list(METRIC_ORDER)
 

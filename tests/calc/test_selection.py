@@ -4,7 +4,7 @@ import math
 
 import pytest
 
-from feedcheck.calc.selection import select_conductor
+from tests.kernels import select_conductor
 
 
 def test_ampacity_governs_plain_feeder():

@@ -3,14 +3,9 @@
 import numpy as np
 import pytest
 
-from feedcheck.calc.withstand import (
-    k_adiabatic,
-    k_constant,
-    min_area_mm2,
-    withstand_current_a,
-    withstand_current_icea_a,
-)
+from feedcheck.calc.withstand import min_area_mm2, withstand_current_a
 from feedcheck.tables import load_table
+from tests.kernels import k_adiabatic, k_constant, withstand_current_icea_a
 
 
 def test_tabulated_k_matches_annex_a_formula():
@@ -64,7 +59,7 @@ def test_large_protective_conductor_has_a_k_row():
     # protective conductor had no k row. IEC 60364-5-54 Table A.54.2 (from memory): PVC
     # over 300 mm², 30 → 140 °C: k = 133 (Cu), 88 (Al); checked here against the Annex A
     # formula as the other rows are.
-    from feedcheck.calc.withstand import k_adiabatic, k_constant
+    from tests.kernels import k_adiabatic, k_constant
 
     for material, k_tab in (("cu", 133.0), ("al", 88.0)):
         row = k_constant("thermoplastic", material, "protective", 380.0)

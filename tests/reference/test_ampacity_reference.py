@@ -10,15 +10,10 @@ import math
 
 import pytest
 
-from feedcheck.calc.ampacity import (
-    adjustment_factor,
-    ambient_factor,
-    ampacity_a,
-    ampacity_chain,
-    ampacity_tables,
-)
+from feedcheck.calc.ampacity import ambient_factor
 from feedcheck.calc.conductor import size_index
 from feedcheck.tables import load_table
+from tests.kernels import BOOK, adjustment_factor, ampacity_a, ampacity_chain
 
 # NFPA 70-2023 Table 310.16, 60/75/90 °C
 SPOT = {
@@ -130,7 +125,7 @@ def test_worked_rooftop_adder_2017():
     NFPA 70-2017 310.15(B)(3)(c) adder 33 °C below 7/8 in. (23 mm) above the roof (from memory);
     260 × √((90 − 68)/60) = 157.4 A.
     """
-    from feedcheck.calc.ampacity import rooftop_adder_c
+    from tests.kernels import rooftop_adder_c
 
     adder, rid = rooftop_adder_c(0.010)
     assert adder == 33.0 and "rooftop" in rid
@@ -149,7 +144,7 @@ def test_continuous_load_checks():
 
 
 def test_metric_is_interpolated_and_flagged():
-    t = ampacity_tables()
+    t = BOOK.ampacity
     i = int(size_index("95 mm2"))
     assert t.interpolated[i]
     lo, hi = ampacity_a("3/0 AWG", "cu", 75.0), ampacity_a("4/0 AWG", "cu", 75.0)

@@ -7,12 +7,12 @@ IEC 60228:2004 class 2 maxima (Table 2).
 import numpy as np
 import pytest
 
-from feedcheck.calc.conductor import (
+from feedcheck.calc.sizes import SIZES
+from tests.kernels import (
     ac_impedance_computed_ohm_per_m,
     ac_impedance_ohm_per_m,
     dc_resistance_ohm_per_m,
 )
-from feedcheck.calc.sizes import SIZES
 
 KFT = 304.8  # m per 1000 ft
 

@@ -20,8 +20,8 @@ pp = pytest.importorskip("pandapower")
 sc = pytest.importorskip("pandapower.shortcircuit")
 
 from feedcheck.calc import fault as F  # noqa: E402
-from feedcheck.calc.conductor import ac_impedance_ohm_per_m  # noqa: E402
 from feedcheck.calc.transformer import transformer_impedance_ohm  # noqa: E402
+from tests.kernels import ac_impedance_ohm_per_m  # noqa: E402
 
 C_LV = 1.10  # pandapower's default c_max for low voltage (IEC 60909-0 Table 1, +10 %)
 

@@ -99,7 +99,7 @@ def test_pandapower_agrees_on_the_job_walk(write_job):
     same network as
     the job: 480 V source 30 kA X/R 6, 75 kVA 5.1 % X/R 3.5, 95 ft of 4/0 Cu in steel."""
     pytest.importorskip("pandapower")
-    from feedcheck.calc.conductor import ac_impedance_ohm_per_m
+    from tests.kernels import ac_impedance_ohm_per_m
     from tests.reference.test_fault_pandapower import _pandapower_ikss
 
     res = _job(

@@ -1,0 +1,458 @@
+"""The rule book: every data table loaded once into typed, frozen records.
+
+The checks receive one :class:`RuleBook` (``ctx.rules``) and hand its records to the
+kernels (``book.ampacity``, ``book.conductors``, ``book.protection``,
+``book.withstand``, …); no kernel under ``feedcheck/calc/`` reads a table itself.
+
+One way to fetch a rule row: ``book.rule(rule_id)`` returns a :class:`RuleRow` from
+any table keyed by ``rule_id`` (check rules, voltage-drop limits, fault assumptions,
+schedule rules, …). Tables keyed otherwise are read as records with
+``book.rows(table_name)``.
+
+The book is built from the shipped tables, with the tables of a user's folder
+(``--tables DIR``) replacing the shipped ones of the same name; every value of a
+user's table is honoured (no value of a table is repeated in the code).
+"""
+
+from __future__ import annotations
+
+from collections.abc import Mapping
+from dataclasses import dataclass
+from pathlib import Path
+from types import MappingProxyType
+from typing import Any
+
+import numpy as np
+
+from . import tables as _tables
+from .calc.ampacity import AmpacityTables
+from .calc.conductor import (
+    AREA_MM2,
+    MATERIALS,
+    OHM_PER_KFT_TO_OHM_PER_M,
+    RACEWAYS,
+    SIZE_NAMES,
+    ConductorData,
+    material_index,
+    size_index,
+)
+from .calc.protection import ProtectionTables
+from .calc.selection import SizingData
+from .calc.sizes import SIZES, parse_size
+from .calc.withstand import KSpec, WithstandData
+from .errors import ProblemList
+from .tables import Table, confidence_level
+
+Row = Mapping[str, Any]
+
+
+@dataclass(frozen=True)
+class RuleRow:
+    """One row of a rules table: its id, its columns, its table and its confidence.
+
+    ``row["limit"]`` reads a column as stored; :meth:`number` and :meth:`text` convert.
+    """
+
+    rule_id: str
+    table: str
+    fields: Row
+    confidence: str
+
+    def __getitem__(self, column: str) -> Any:
+        return self.fields[column]
+
+    def get(self, column: str, default: Any = None) -> Any:
+        return self.fields.get(column, default)
+
+    def number(self, column: str = "value") -> float:
+        """The column as a float (``value`` by default)."""
+        return float(self.fields[column])
+
+    def text(self, column: str) -> str:
+        return str(self.fields[column])
+
+
+@dataclass(frozen=True)
+class FaultAssumptions:
+    """The rows of ``fault_assumptions.csv`` by meaning (one attribute per rule id)."""
+
+    z_tolerance_pct: float  # fault-z-tolerance
+    z_tolerance_alt_pct: float  # fault-z-tolerance-alt
+    cond_temp_max_c: float  # fault-cond-temp-max
+    cond_temp_min_c: float  # fault-cond-temp-min
+    c_max_6pct: float  # fault-c-max-6pct
+    c_max_10pct: float  # fault-c-max-10pct
+    c_min: float  # fault-c-min
+    motor_multiple: float  # fault-motor-multiple
+    ptp_disagree_pct: float  # fault-ptp-disagree
+    split_ln_multiplier: float  # fault-split-ln-multiplier
+    z0_ratio_max: float  # fault-z0-ratio-max
+    z0_ratio_min: float  # fault-z0-ratio-min
+
+
+FAULT_ROWS = {
+    "z_tolerance_pct": "fault-z-tolerance",
+    "z_tolerance_alt_pct": "fault-z-tolerance-alt",
+    "cond_temp_max_c": "fault-cond-temp-max",
+    "cond_temp_min_c": "fault-cond-temp-min",
+    "c_max_6pct": "fault-c-max-6pct",
+    "c_max_10pct": "fault-c-max-10pct",
+    "c_min": "fault-c-min",
+    "motor_multiple": "fault-motor-multiple",
+    "ptp_disagree_pct": "fault-ptp-disagree",
+    "split_ln_multiplier": "fault-split-ln-multiplier",
+    "z0_ratio_max": "fault-z0-ratio-max",
+    "z0_ratio_min": "fault-z0-ratio-min",
+}
+
+
+@dataclass(frozen=True)
+class TransformerXR:
+    """Typical X/R by transformer rating (``transformer_xr.csv``)."""
+
+    rating_kva: np.ndarray
+    x_r: np.ndarray
+
+    def typical(self, rating_va: float) -> tuple[float, str]:
+        """X/R of the nearest row at or below the rating (the first row below it), and
+        a label naming the row."""
+        i = int(np.searchsorted(self.rating_kva, rating_va / 1000.0 + 1e-9, side="right")) - 1
+        i = max(i, 0)
+        return float(self.x_r[i]), f"{self.rating_kva[i]:g} kVA row"
+
+
+@dataclass(frozen=True)
+class RuleBook:
+    """Every table, loaded once, as typed records (see the module docstring).
+
+    Attributes
+    ----------
+    tables : Mapping[str, Table]
+        Every table by name, with its provenance header, origin (shipped/user),
+        SHA-256 and per-row confidence (for the report's provenance pages).
+    ampacity, conductors, protection, withstand :
+        Kernel records: :class:`~feedcheck.calc.ampacity.AmpacityTables`,
+        :class:`~feedcheck.calc.conductor.ConductorData`,
+        :class:`~feedcheck.calc.protection.ProtectionTables`,
+        :class:`~feedcheck.calc.withstand.WithstandData`.
+    transformer_xr : TransformerXR
+        Typical X/R by rating.
+    fault : FaultAssumptions
+        The fault-current assumptions.
+    transformer_protection : tuple of Mapping
+        Rows of Table 450.3(B) (for :func:`~feedcheck.calc.transformer.protection_limit`).
+    device_ratings_a : ndarray
+        Every standard device rating of Table 240.6(A) [A], ascending.
+    tables_dir : Path or None
+        The user's folder the book was built with (``--tables DIR``), if any.
+    """
+
+    tables: Mapping[str, Table]
+    ampacity: AmpacityTables
+    conductors: ConductorData
+    protection: ProtectionTables
+    withstand: WithstandData
+    transformer_xr: TransformerXR
+    fault: FaultAssumptions
+    transformer_protection: tuple[Row, ...]
+    device_ratings_a: np.ndarray
+    tables_dir: Path | None
+    _rules: Mapping[str, RuleRow]
+
+    @property
+    def sizing(self) -> SizingData:
+        """The records :func:`~feedcheck.calc.selection.select_conductor` reads."""
+        return SizingData(self.ampacity, self.protection, self.conductors, self.withstand)
+
+    def rule(self, rule_id: str) -> RuleRow:
+        """The rule row with this id (from any table keyed by ``rule_id``)."""
+        try:
+            return self._rules[rule_id]
+        except KeyError:
+            raise KeyError(f"rule {rule_id!r}: no table keyed by rule_id has this row") from None
+
+    def has_rule(self, rule_id: str) -> bool:
+        return rule_id in self._rules
+
+    def rows(self, table: str) -> tuple[Row, ...]:
+        """Every row of a table as read-only mappings, in file order."""
+        return _records(self.tables[table])
+
+    def table(self, name: str) -> Table:
+        return self.tables[name]
+
+    def provenance(self) -> list[dict[str, Any]]:
+        """One entry per table for results and reports: name, title, source, edition,
+        confidence (header), counts by row confidence, origin and SHA-256."""
+        return [
+            {
+                "name": t.name,
+                "title": t.title,
+                "source": t.source,
+                "edition": t.meta.get("edition", ""),
+                "confidence": t.confidence,
+                "origin": t.origin,
+                "sha256": t.sha256,
+            }
+            for t in (self.tables[n] for n in sorted(self.tables))
+        ]
+
+    def confidence_counts(self) -> dict[str, int]:
+        """Rows by confidence level over every table."""
+        out: dict[str, int] = {}
+        for t in self.tables.values():
+            for level, n in t.confidence_counts().items():
+                out[level] = out.get(level, 0) + n
+        return out
+
+
+def _records(t: Table) -> tuple[Row, ...]:
+    return tuple(MappingProxyType(r) for r in t.data.to_dict("records"))
+
+
+def _missing(t: Table, column: str, value: str, expected: str) -> None:
+    pl = ProblemList(str(t.path))
+    pl.add(f"column '{column}'", value, expected)
+    pl.raise_if_any()
+
+
+def _ampacity_array(t: Table) -> np.ndarray:
+    """(material, column 60/75/90, size) array; metric sizes interpolated log-log."""
+    df = t.data
+    out = np.full((2, 3, len(SIZE_NAMES)), np.nan)
+    idx = size_index(df["size"].to_numpy(str))
+    m = material_index(df["material"].to_numpy(str))
+    for c, col in enumerate(("c60_a", "c75_a", "c90_a")):
+        out[m, c, idx] = df[col].to_numpy(float)
+    metric = np.array([SIZES[n].system == "metric" for n in SIZE_NAMES])
+    for mm in range(2):
+        for c in range(3):
+            row = out[mm, c]
+            known = ~np.isnan(row)
+            if np.any(np.diff(row[known]) <= 0):
+                _missing(t, "c60_a/c75_a/c90_a", "", "values rising with conductor size")
+            la = np.log(AREA_MM2[known])
+            target = np.log(AREA_MM2[metric])
+            inside = (target >= la.min() - 1e-12) & (target <= la.max() + 1e-12)
+            vals = np.exp(np.interp(target, la, np.log(row[known])))
+            row[np.flatnonzero(metric)[inside]] = vals[inside]
+    return out
+
+
+def _ampacity(tabs: Mapping[str, Table], rules: Mapping[str, RuleRow]) -> AmpacityTables:
+    adj = tabs["adjustment_factors"].data
+    roof = tabs["rooftop_adder"].data
+    metric = np.array([SIZES[n].system == "metric" for n in SIZE_NAMES])
+    return AmpacityTables(
+        _ampacity_array(tabs["ampacity_raceway"]),
+        _ampacity_array(tabs["ampacity_free_air"]),
+        metric,
+        adj["count_from"].to_numpy(int),
+        adj["count_to"].to_numpy(int),
+        adj["factor"].to_numpy(float),
+        tuple(adj["rule_id"].astype(str)),
+        tuple(
+            (str(r.edition), float(r.height_from_mm), float(r.height_to_mm), float(r.adder_c),
+             str(r.rule_id))
+            for r in roof.itertuples(index=False)
+        ),
+        _need(rules, tabs, "ampacity_rules", "continuous-125").number() / 100.0,
+    )
+
+
+def _by_key(t: Table, key: str, wanted: tuple[str, ...], column: str):
+    df = t.data.set_index(key)
+    for w in wanted:
+        if w not in df.index:
+            _missing(t, key, w, f"a row for {w!r}")
+    return df.loc[list(wanted), column]
+
+
+def _conductors(tabs: Mapping[str, Table]) -> ConductorData:
+    t9 = tabs["conductor_impedance_table9"].data
+    mat_t, rw_t = tabs["conductor_materials"], tabs["raceway_effects"]
+    ins = tabs["insulation_thickness"].data
+    n = len(SIZE_NAMES)
+    r75 = np.full((2, 3, n), np.nan)
+    xl = np.full((2, n), np.nan)
+    names = {nm: i for i, nm in enumerate(SIZE_NAMES)}
+    for row in t9.itertuples(index=False):
+        i = names[parse_size(row.size).name]
+        for m, pre in enumerate(MATERIALS):
+            for c, col in enumerate(("pvc", "aluminum", "steel")):
+                r75[m, c, i] = getattr(row, f"{pre}_r_{col}") * OHM_PER_KFT_TO_OHM_PER_M
+        xl[0, i] = row.xl_nonmagnetic * OHM_PER_KFT_TO_OHM_PER_M
+        xl[1, i] = row.xl_steel * OHM_PER_KFT_TO_OHM_PER_M
+    colmap = {"pvc": 0, "aluminum": 1, "steel": 2}
+
+    def m(col):
+        return _by_key(mat_t, "material", MATERIALS, col).to_numpy(float)
+
+    def rw(col):
+        return _by_key(rw_t, "raceway", RACEWAYS, col)
+
+    return ConductorData(
+        r75,
+        xl,
+        m("rho20_ohm_mm2_per_m"),
+        m("alpha20_per_k"),
+        m("alpha75_per_k"),
+        m("k_strand"),
+        rw("x_factor").to_numpy(float),
+        rw("r_added_ohm_per_kft").to_numpy(float) * OHM_PER_KFT_TO_OHM_PER_M,
+        np.array([colmap[c] for c in rw("table9_column")]),
+        ins["up_to_mm2"].to_numpy(float),
+        ins["thickness_mm"].to_numpy(float),
+    )
+
+
+def _protection(
+    tabs: Mapping[str, Table], rules: Mapping[str, RuleRow], rho20: np.ndarray
+) -> ProtectionTables:
+    dev = tabs["device_ratings"].data
+    small = tabs["small_conductor_limits"].data
+    egc = tabs["egc_size"].data
+    lim = np.full((2, len(SIZE_NAMES)), np.inf)
+    rid = [[""] * len(SIZE_NAMES) for _ in range(2)]
+    for r in small.itertuples(index=False):
+        mi, i = int(material_index(r.material)), int(size_index(r.size))
+        lim[mi, i] = float(r.max_device_a)
+        rid[mi][i] = str(r.rule_id)
+    return ProtectionTables(
+        dev.loc[dev["breaker"] == "yes", "rating_a"].to_numpy(float),
+        dev.loc[dev["fuse"] == "yes", "rating_a"].to_numpy(float),
+        lim,
+        tuple(tuple(x) for x in rid),
+        egc["device_up_to_a"].to_numpy(float),
+        tuple(str(SIZES[s].name) if s in SIZES else s for s in egc["cu"]),
+        tuple(str(SIZES[s].name) if s in SIZES else s for s in egc["al"]),
+        rho20,
+        _need(rules, tabs, "protection_rules", "prot-next-size-up").number(),
+        _need(rules, tabs, "protection_rules", "device-continuous-125").number() / 100.0,
+    )
+
+
+def _withstand(tabs: Mapping[str, Table]) -> WithstandData:
+    mat_t = tabs["conductor_materials"]
+
+    def m(col):
+        return _by_key(mat_t, "material", MATERIALS, col).to_numpy(float)
+
+    rows = tuple(
+        KSpec(
+            str(r.insulation), str(r.conductor_role), str(r.material), float(r.initial_c),
+            float(r.final_c), float(r.max_area_mm2), float(r.k), str(r.rule_id),
+        )
+        for r in tabs["withstand_k"].data.itertuples(index=False)
+    )
+    return WithstandData(
+        rows, m("beta_c"), m("heat_capacity_j_per_k_mm3"), m("rho20_ohm_mm2_per_m"),
+        m("icea_k"), m("icea_t0_c"),
+    )
+
+
+def _rules(tabs: Mapping[str, Table]) -> dict[str, RuleRow]:
+    """Index of every row of every table keyed by ``rule_id``; an id in two tables is
+    an error naming both."""
+    out: dict[str, RuleRow] = {}
+    for name in sorted(tabs):
+        t = tabs[name]
+        if t.meta.get("key", "").strip() != "rule_id":
+            continue
+        for rec, conf in zip(_records(t), t.row_confidence, strict=True):
+            rid = str(rec["rule_id"])
+            if rid in out:
+                _missing(t, "rule_id", rid, f"an id not already used in {out[rid].table}.csv")
+            out[rid] = RuleRow(rid, name, rec, conf)
+    return out
+
+
+def _need(
+    rules: Mapping[str, RuleRow], tabs: Mapping[str, Table], table: str, rule_id: str
+) -> RuleRow:
+    """A rule row the checks cannot do without; its absence names the table file."""
+    if rule_id not in rules:
+        _missing(tabs[table], "rule_id", rule_id, "a row with this rule id")
+    return rules[rule_id]
+
+
+def _fault(rules: Mapping[str, RuleRow], tabs: Mapping[str, Table]) -> FaultAssumptions:
+    return FaultAssumptions(
+        **{
+            attr: _need(rules, tabs, "fault_assumptions", rid).number("value")
+            for attr, rid in FAULT_ROWS.items()
+        }
+    )
+
+
+def build_rulebook(user_dir: str | Path | None = None) -> RuleBook:
+    """Read every table (shipped, replaced by the user's copies) into a rule book.
+
+    Raises
+    ------
+    InputError
+        A table is missing, unreadable, lacks provenance, breaks its own declared
+        rules, or lacks a row the checks need.
+    """
+    udir = Path(user_dir) if user_dir is not None else None
+    names = {p.stem for p in _tables.shipped_tables_dir().glob("*.csv")}
+    if udir is not None and udir.is_dir():
+        names |= {p.stem for p in udir.glob("*.csv")}
+    tabs: dict[str, Table] = {}
+    for name in sorted(names):
+        path, origin = _tables.table_path(name, udir)
+        tabs[name] = _tables.read_table_file(path, name, origin)
+    conductors = _conductors(tabs)
+    rules = _rules(tabs)
+    return RuleBook(
+        MappingProxyType(tabs),
+        _ampacity(tabs, rules),
+        conductors,
+        _protection(tabs, rules, conductors.rho20),
+        _withstand(tabs),
+        TransformerXR(
+            tabs["transformer_xr"].data["rating_kva"].to_numpy(float),
+            tabs["transformer_xr"].data["x_r"].to_numpy(float),
+        ),
+        _fault(rules, tabs),
+        _records(tabs["transformer_protection"]),
+        tabs["device_ratings"].data["rating_a"].to_numpy(float),
+        udir,
+        MappingProxyType(rules),
+    )
+
+
+_books: dict[tuple[str, int], RuleBook] = {}
+
+
+def current_rulebook() -> RuleBook:
+    """The rule book for the tables in force (shipped, or ``--tables DIR``), built once."""
+    udir = _tables.user_tables_dir()
+    if udir is None:
+        return default_rulebook()
+    key = (str(udir), _tables.generation())
+    if key not in _books:
+        for old in [k for k in _books if k[1] >= 0]:
+            del _books[old]
+        _books[key] = build_rulebook(udir)
+    return _books[key]
+
+
+def default_rulebook() -> RuleBook:
+    """The rule book of the shipped tables alone (tests, doctests)."""
+    key = ("None", -1)
+    if key not in _books:
+        _books[key] = build_rulebook(None)
+    return _books[key]
+
+
+__all__ = [
+    "FaultAssumptions",
+    "RuleBook",
+    "RuleRow",
+    "TransformerXR",
+    "build_rulebook",
+    "confidence_level",
+    "current_rulebook",
+    "default_rulebook",
+]
