@@ -39,6 +39,18 @@ class JumperTable:
     percent_of_area: tuple[float, ...]
     rule_id: tuple[str, ...]
 
+    @classmethod
+    def from_records(cls, records) -> JumperTable:
+        """Build from the rows of ``tables/supply_side_bonding_jumper.csv`` as dicts (columns
+        ``cu_up_to_kcmil``, ``al_up_to_kcmil``, ``jumper_cu``, ``jumper_al``,
+        ``jumper_cu_kcmil``, ``jumper_al_kcmil``, ``percent_of_area``, ``rule_id``)."""
+        rows = list(records)
+        return cls({m: tuple(float(r[f"{m}_up_to_kcmil"]) for r in rows) for m in MATERIALS},
+                   {m: tuple(float(r[f"jumper_{m}_kcmil"]) for r in rows) for m in MATERIALS},
+                   {m: tuple(str(r[f"jumper_{m}"]) for r in rows) for m in MATERIALS},
+                   tuple(float(r["percent_of_area"]) for r in rows),
+                   tuple(str(r["rule_id"]) for r in rows))
+
 
 @dataclass(frozen=True)
 class JumperSize:

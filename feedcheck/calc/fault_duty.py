@@ -188,6 +188,13 @@ class TestConditionRow:
     basis: str
     rule_id: str
 
+    @classmethod
+    def from_record(cls, r) -> TestConditionRow:
+        """Build from one row of ``tables/device_test_power_factor.csv`` as a dict."""
+        return cls(str(r["family"]), float(r["above_a"]), float(r["up_to_a"]),
+                   float(r["test_pf"]), float(r["test_x_r"]), str(r["rating_basis"]),
+                   str(r["rule_id"]))
+
 
 def test_condition_row(family: str, interrupting_a: float, rows) -> TestConditionRow:
     """The test-condition row for a device family and interrupting rating.

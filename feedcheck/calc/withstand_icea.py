@@ -167,6 +167,17 @@ class InsulationType:
     sc_final_c: float
     rule_id: str
 
+    @classmethod
+    def from_record(cls, r) -> InsulationType:
+        """Build from one row of ``tables/insulation_types.csv`` as a dict (a blank or NaN
+        ``opt_wet_c`` means not listed for wet locations)."""
+        wet = r.get("opt_wet_c")
+        wet = None if wet is None or wet == "" or wet != wet else float(wet)
+        if r["family"] not in FAMILIES:
+            raise ValueError(f"insulation family: got {r['family']!r}; expected {FAMILIES}")
+        return cls(str(r["type"]), float(r["dry_c"]), wet, str(r["family"]),
+                   float(r["sc_final_c"]), str(r["rule_id"]))
+
 
 def _norm(name: str) -> str:
     return re.sub(r"[\s_]+", "", str(name).strip().upper()).replace("–", "-")
