@@ -74,6 +74,33 @@ class MotorFlcTable:
         object.__setattr__(self, "voltage_v", v)
         object.__setattr__(self, "flc_a", f)
 
+    @classmethod
+    def from_named_columns(cls, hp, columns, rule_id=()) -> MotorFlcTable:
+        """Build from columns named ``flc_<V>v_a`` (``opt_`` prefix allowed).
+
+        ``columns`` maps a column name to its values (NaN where not listed); other names
+        are ignored. This is array assembly only: the caller reads the table.
+
+        Examples
+        --------
+        >>> t = MotorFlcTable.from_named_columns([1, 2], {"flc_460v_a": [2.1, 3.4],
+        ...                                               "opt_flc_115v_a": [8.4, 13.6]})
+        >>> t.voltage_v.tolist()
+        [115.0, 460.0]
+        """
+        import re
+
+        found = []
+        for name, values in columns.items():
+            m = re.fullmatch(r"(?:opt_)?flc_(\d+)v_a", str(name))
+            if m:
+                found.append((float(m.group(1)), np.asarray(values, dtype=float)))
+        if not found:
+            raise ValueError("columns: expected columns named flc_<V>v_a")
+        found.sort(key=lambda c: c[0])
+        return cls(np.asarray(hp, dtype=float), np.array([v for v, _ in found]),
+                   np.column_stack([c for _, c in found]), tuple(rule_id))
+
 
 def hp_from_kw(power_kw):
     """Horsepower [hp] of a motor rated in kilowatts, at 746 W per hp.
