@@ -105,7 +105,8 @@ def test_motor_currents_fall_as_voltage_rises():
 
 def test_device_max_table_matches_copy():
     shipped = load_table("motor_branch_device_max").data.set_index("motor_type")
-    copy = _copy("motor_branch_device_max__nec2011-copy").set_index("motor_type")  # NFPA 70-2011 Table 430.52
+    # NFPA 70-2011 Table 430.52, as transcribed
+    copy = _copy("motor_branch_device_max__nec2011-copy").set_index("motor_type")
     assert sorted(shipped.index) == sorted(copy.index)
     for col in copy.columns:
         assert (shipped.loc[copy.index, col] == copy[col]).all(), col
