@@ -202,8 +202,10 @@ def motor_flc_row(hp, table: MotorFlcTable, between: str = "refuse"):
     if np.any(off) and between == "refuse":
         k = int(np.argmax(off.ravel()))
         x, lo, hi = h.ravel()[k], rows[j.ravel()[k]], rows[i.ravel()[k]]
-        raise ValueError(f"hp: got {x:g} hp; expected a table row (between {lo:g} and "
-                         f"{hi:g} hp: give the motor's rated horsepower)")
+        where = (f"below the first row, {hi:g} hp" if x < rows[0]
+                 else f"between {lo:g} and {hi:g} hp")
+        raise ValueError(f"hp: got {x:g} hp; expected a table row ({where}: give the "
+                         "motor's rated horsepower)")
     out = np.where(off, i, exact)
     return out if out.ndim else int(out)
 

@@ -59,7 +59,7 @@ def test_hp_within_one_percent_is_the_row():
     assert motor_flc_row(4.96, T) == 2  # 3.7 kW = 4.96 hp -> 5 hp row
     with pytest.raises(ValueError, match="between 5 and 10 hp"):
         motor_flc_row(7, T)
-    with pytest.raises(ValueError, match="between"):
+    with pytest.raises(ValueError, match="below the first row, 1 hp"):
         motor_flc_row(0.5, T)
     assert motor_flc_row(0.5, T, between="next-larger") == 0
     with pytest.raises(ValueError, match="between"):
