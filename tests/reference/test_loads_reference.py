@@ -144,6 +144,15 @@ def test_feeder_of_several_motors_forum_case(three_phase):
     assert feeder_conductor_min_a(flc) == pytest.approx(367.0)  # NFPA 70 430.24
 
 
+def test_inverse_time_breaker_of_a_100_hp_motor():
+    """100 hp, 480 V: 124 A (NFPA 70 Table 430.250) x 250 % (Table 430.52, inverse-time
+    breaker) = 310 A, next standard rating 350 A (430.52(C)(1) Ex. 1, Table 240.6(A));
+    the same figures are worked on forums.mikeholt.com thread 53887."""
+    r = branch_device_max_a(124.0, _percent("squirrel-cage", "inverse_time_breaker_pct"),
+                            _ratings())
+    assert (r.limit_a, r.permitted_a) == (pytest.approx(310.0), 350.0)
+
+
 def test_feeder_with_other_loads():
     # NFPA 70 430.24 (1)-(4): 125 % largest + others + 100 % noncontinuous + 125 % continuous
     got = feeder_conductor_min_a([12.0, 11.0, 6.0], other_noncontinuous_a=10.0,
