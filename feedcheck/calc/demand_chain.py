@@ -29,8 +29,6 @@ from dataclasses import dataclass
 import numpy as np
 
 KINDS = ("lighting", "receptacle", "motor", "heating", "other")
-MOTOR_LARGEST_ADDER = 0.25  # 430.24
-CONTINUOUS_ADDER = 0.25  # 215.2(A)(1)
 
 Tiers = Sequence[tuple[float, float, float]]  # (from_va, to_va, factor)
 
@@ -100,7 +98,9 @@ class DemandChain:
 
 
 def demand_chain(connected_va: Mapping[str, object], continuous_va: Mapping[str, object],
-                 largest_motor_va, tiers: Mapping[str, Tiers] | None = None) -> DemandChain:
+                 largest_motor_va, tiers: Mapping[str, Tiers] | None = None,
+                 largest_motor_factor: float = 1.25,
+                 continuous_factor: float = 1.25) -> DemandChain:
     """Demand and design load of a panel as one chain of steps, each applied once.
 
     Parameters
@@ -115,6 +115,9 @@ def demand_chain(connected_va: Mapping[str, object], continuous_va: Mapping[str,
         Load of the largest single motor [VA] (≤ the motor total).
     tiers : mapping kind -> tiers, optional
         Demand-factor tiers of the kinds that have them (rows from the rule book).
+    largest_motor_factor, continuous_factor : float
+        The 430.24 and 215.2(A)(1) factors (1.25; rule rows ``df-motor-largest`` and
+        ``df-continuous`` of the demand factor table); the adders are factor − 1.
 
     Returns
     -------
@@ -165,8 +168,12 @@ def demand_chain(connected_va: Mapping[str, object], continuous_va: Mapping[str,
         ratio = np.divide(dem[k], conn[k], out=np.zeros(shape), where=conn[k] > 0)
         cont_dem = cont_dem + c * ratio  # its share after the kind's demand factors
     dem_total = sum(dem.values())
-    motor_add = MOTOR_LARGEST_ADDER * big
-    cont_add = CONTINUOUS_ADDER * cont_dem
+    for name, f_ in (("largest_motor_factor", largest_motor_factor),
+                     ("continuous_factor", continuous_factor)):
+        if not 1.0 <= float(f_) <= 2.0:
+            raise ValueError(f"{name}: got {f_!r}; expected a factor from 1 to 2 (1.25)")
+    motor_add = (float(largest_motor_factor) - 1.0) * big
+    cont_add = (float(continuous_factor) - 1.0) * cont_dem
     f = _scalar
     return DemandChain(
         {k: f(v) for k, v in conn.items()}, f(sum(conn.values())),

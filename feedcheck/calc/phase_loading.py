@@ -15,8 +15,9 @@ Method:
   line-to-neutral load to the phase (A, B, C) that leaves the heaviest phase lightest.
   Deterministic; the caller reports the assignment.
 * Design current of the heaviest phase: 125 % of its continuous part plus its
-  noncontinuous part (NFPA 70 215.2(A)(1), 210.19(A)(1)); the feeder, bus, main device
-  and transformer winding are judged on it, not on the balanced average.
+  noncontinuous part (NFPA 70 215.2(A)(1), 210.19(A)(1)), plus 25 % of the largest
+  motor current on that phase (430.24; motors are never also "continuous"); the feeder,
+  bus, main device and transformer winding are judged on it, not on the balanced average.
 
 References
 ----------
@@ -193,7 +194,7 @@ class PhaseLoading:
     connection: tuple[str, ...]
 
 
-def phase_loading(load_va, continuous, connection, voltage_ll_v) -> PhaseLoading:
+def phase_loading(load_va, continuous, connection, voltage_ll_v, motor=None) -> PhaseLoading:
     """Phase currents, heaviest-phase design current and imbalance of a panel.
 
     Parameters
@@ -206,6 +207,10 @@ def phase_loading(load_va, continuous, connection, voltage_ll_v) -> PhaseLoading
         Connection of each element; ``"LL"``/``"LN"`` = unspecified, assigned to balance.
     voltage_ll_v : float
         Panel line-to-line voltage [V].
+    motor : array of bool, shape (n,), optional
+        Which elements are motors (at their table full-load current). Motors count at
+        100 % (never as continuous), and each phase adds 25 % of the largest motor
+        current on that phase (430.24), once.
 
     Returns
     -------
@@ -225,12 +230,25 @@ def phase_loading(load_va, continuous, connection, voltage_ll_v) -> PhaseLoading
     """
     s = np.atleast_1d(_nonneg("load_va", load_va))
     cont = np.broadcast_to(np.asarray(continuous, dtype=bool), s.shape)
+    mot = (np.zeros(s.shape, bool) if motor is None
+           else np.broadcast_to(np.asarray(motor, dtype=bool), s.shape))
+    if np.any(cont & mot):
+        raise ValueError("continuous: a motor is not also a continuous load (430.24 takes "
+                         "125 % of the largest motor instead)")
     conn = assign_connections(s, connection, voltage_ll_v)
     c_a = phase_currents_a(s[cont], [c for c, k in zip(conn, cont, strict=True) if k],
                            voltage_ll_v) if cont.any() else np.zeros(3)
     n_a = phase_currents_a(s[~cont], [c for c, k in zip(conn, cont, strict=True) if not k],
                            voltage_ll_v) if (~cont).any() else np.zeros(3)
-    design = CONTINUOUS_FACTOR * c_a + n_a
+    largest = np.zeros(3)  # largest motor current on each phase (430.24)
+    if mot.any():
+        i_m = np.atleast_1d(element_current_a(s[mot], [c for c, k in zip(conn, mot,
+                                                                          strict=True) if k],
+                                              voltage_ll_v))
+        for i, c in zip(i_m, (c for c, k in zip(conn, mot, strict=True) if k), strict=True):
+            ph = list(CONNECTIONS[c])
+            largest[ph] = np.maximum(largest[ph], i)
+    design = CONTINUOUS_FACTOR * c_a + n_a + (CONTINUOUS_FACTOR - 1.0) * largest
     total = c_a + n_a
     k = int(np.argmax(design))
     avg = float(total.mean())

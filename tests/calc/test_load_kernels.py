@@ -279,3 +279,20 @@ def test_secondary_at_nominal_and_vector():
     assert out.tolist() == pytest.approx([208, 208])
     with pytest.raises(ValueError, match="tap_pct"):
         secondary_voltage_v(480, 480, 208, 20)
+
+
+def test_motor_adder_is_per_phase_and_once():
+    # two single-phase motors on different pairs: each phase takes 25 % of its own largest
+    r = phase_loading([4800.0, 2400.0], [False, False], ["AB", "BC"], 480, motor=[True, True])
+    i1, i2 = 10.0, 5.0
+    assert r.design_a.tolist() == pytest.approx([1.25 * i1, i1 + i2 + 0.25 * i1, 1.25 * i2])
+    with pytest.raises(ValueError, match="not also a continuous"):
+        phase_loading([4800.0], [True], ["AB"], 480, motor=[True])
+
+
+def test_chain_factors_from_rule_rows():
+    r = demand_chain({"motor": 10e3, "lighting": 1e3}, {"lighting": 1e3}, 10e3,
+                     largest_motor_factor=1.25, continuous_factor=1.25)
+    assert r.design_va == pytest.approx(11e3 + 2500 + 250)
+    with pytest.raises(ValueError, match="largest_motor_factor"):
+        demand_chain({"motor": 1.0}, {}, 1.0, largest_motor_factor=0.8)

@@ -268,3 +268,17 @@ def test_plus_tap_lowers_the_secondary():
     assert t == 2.5
     assert secondary_voltage_v(480, 480, 208, t) == pytest.approx(208 * 480 / 492)
     assert secondary_voltage_v(480, 480, 208, parse_tap_pct("-2.5 %")) > 208
+
+
+def test_heaviest_phase_with_motors_430_24_per_phase(three_phase):
+    """Per phase, 125 % of the largest motor on that phase + the other motors at 100 %
+    (NFPA 70 430.24) + continuous other loads at 125 % (215.2(A)(1)). 480 V panel: two
+    three-phase motors of 124 and 77 A (100 hp and 60 hp, NFPA 70 Table 430.250) and a
+    48 kVA continuous single-phase load on AB (100 A, I = S / V_LL)."""
+    k = SQRT3 * 480
+    r = phase_loading([124 * k, 77 * k, 48_000], [False, False, True], ["ABC", "ABC", "AB"],
+                      480, motor=[True, True, False])
+    a = 1.25 * 124 + 77 + 1.25 * 100
+    c = 1.25 * 124 + 77
+    assert r.design_a.tolist() == pytest.approx([a, a, c])
+    assert r.design_current_a == pytest.approx(a)
