@@ -143,15 +143,7 @@ def demand_chain(connected_va: Mapping[str, object], continuous_va: Mapping[str,
     NFPA 70-2017 Table 220.42, 220.44; 430.24; 215.2(A)(1).
     """
     tiers = dict(tiers or {})
-    for name, m in (("connected_va", connected_va), ("continuous_va", continuous_va),
-                    ("tiers", tiers)):
-        bad = set(m) - set(KINDS)
-        if bad:
-            raise ValueError(f"{name}: unknown kind {sorted(bad)[0]!r}; expected one of "
-                             + ", ".join(KINDS))
-    if "motor" in continuous_va or "motor" in tiers:
-        raise ValueError("continuous_va/tiers: motors take 125 % of the largest motor "
-                         "(430.24), not a continuous or demand factor")
+    _check_kinds(connected_va, continuous_va, tiers, largest_motor_factor, continuous_factor)
     conn = {k: _nonneg(f"connected_va[{k}]", connected_va.get(k, 0.0)) for k in KINDS}
     shape = np.broadcast_shapes(*(v.shape for v in conn.values()))
     conn = {k: np.broadcast_to(v, shape).astype(float) for k, v in conn.items()}
@@ -168,10 +160,6 @@ def demand_chain(connected_va: Mapping[str, object], continuous_va: Mapping[str,
         ratio = np.divide(dem[k], conn[k], out=np.zeros(shape), where=conn[k] > 0)
         cont_dem = cont_dem + c * ratio  # its share after the kind's demand factors
     dem_total = sum(dem.values())
-    for name, f_ in (("largest_motor_factor", largest_motor_factor),
-                     ("continuous_factor", continuous_factor)):
-        if not 1.0 <= float(f_) <= 2.0:
-            raise ValueError(f"{name}: got {f_!r}; expected a factor from 1 to 2 (1.25)")
     motor_add = (float(largest_motor_factor) - 1.0) * big
     cont_add = (float(continuous_factor) - 1.0) * cont_dem
     f = _scalar
@@ -179,6 +167,23 @@ def demand_chain(connected_va: Mapping[str, object], continuous_va: Mapping[str,
         {k: f(v) for k, v in conn.items()}, f(sum(conn.values())),
         {k: f(v) for k, v in dem.items()}, f(dem_total), f(big), f(motor_add),
         f(cont_dem), f(cont_add), f(dem_total + motor_add + cont_add))
+
+
+def _check_kinds(connected_va, continuous_va, tiers, largest_motor_factor,
+                 continuous_factor):
+    for name, m in (("connected_va", connected_va), ("continuous_va", continuous_va),
+                    ("tiers", tiers)):
+        bad = set(m) - set(KINDS)
+        if bad:
+            raise ValueError(f"{name}: unknown kind {sorted(bad)[0]!r}; expected one of "
+                             + ", ".join(KINDS))
+    if "motor" in continuous_va or "motor" in tiers:
+        raise ValueError("continuous_va/tiers: motors take 125 % of the largest motor "
+                         "(430.24), not a continuous or demand factor")
+    for name, f_ in (("largest_motor_factor", largest_motor_factor),
+                     ("continuous_factor", continuous_factor)):
+        if not 1.0 <= float(f_) <= 2.0:
+            raise ValueError(f"{name}: got {f_!r}; expected a factor from 1 to 2 (1.25)")
 
 
 def _scalar(x):
