@@ -14,6 +14,7 @@ from .conductors import check_run
 from .context import Context, Load, build_context
 from .fault import check_faults
 from .panels import check_panel, check_standard_ratings
+from .summary import describe_results
 from .transformer import check_transformer
 from .vdrop import check_voltage_drop
 
@@ -43,7 +44,7 @@ def check_job(job: Job, panel_loads: dict[str, Load] | None = None) -> Results:
     check_voltage_drop(ctx)
     for run in job.runs:
         check_run(ctx, run)
-    return _results(ctx)
+    return describe_results(ctx, _results(ctx))
 
 
 def _results(ctx: Context) -> Results:
