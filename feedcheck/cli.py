@@ -89,7 +89,8 @@ def check_cmd(job_file, fmt, out, show_all):
       feedcheck check job.toml --format json --out results.json
     Exit code 0: no failing check; 1: a check failed; 2: the input is invalid.
     """
-    from .render_text import render_csv, render_json, render_text
+    from .render.json_csv import render_csv, render_json
+    from .render.text import render_text
     from .runner import run_job
 
     results = run_job(job_file)

@@ -1,7 +1,7 @@
 """``feedcheck schedule``: check panel schedules (CSV/XLSX) circuit by circuit.
 
 Thin: parse the options, call :mod:`feedcheck.schedule`, :mod:`feedcheck.schedule_checks`
-and :mod:`feedcheck.schedule_export`, print. Heavy modules are imported in the body.
+and :mod:`feedcheck.render.schedules`, print. Heavy modules are imported in the body.
 """
 
 from __future__ import annotations
@@ -97,7 +97,7 @@ def schedule_command(inputs, system, job_file, feeder_drop, occupancy, bus_a, ma
         else:
             results = _from_files(files, system, feeder_drop, occupancy, bus_a, main_a, done)
         if out:
-            from ..schedule_export import write_results
+            from ..render.schedules import write_results
 
             write_results(results, out, CAUTION)
     except KeyboardInterrupt:
