@@ -82,6 +82,7 @@ def rerun_command(report_pdf):
     import json
     import tempfile
 
+    from ..render.display import MISSING
     from ..render.json_csv import render_json
     from ..render.pdf.embed import NotAReport, extract_inputs
     from ..render.pdf.rerun_compare import compare_results, table_changes
@@ -97,7 +98,7 @@ def rerun_command(report_pdf):
         rerun = json.loads(render_json(results))
     job = ex.results.get("job", {})
     click.echo(
-        f"report: {job.get('name', '?')} (rev {job.get('revision') or '–'}), made with "
+        f"report: {job.get('name', '?')} (rev {job.get('revision') or MISSING}), made with "
         f"feedcheck {job.get('feedcheck_version', '?')}; rerun with feedcheck "
         f"{rerun['job'].get('feedcheck_version', '?')}"
     )

@@ -32,6 +32,7 @@ from ..display import (
     node_title,
     percent,
     plain,
+    status_word,
 )
 
 GREY = colors.Color(0.45, 0.45, 0.45)
@@ -207,11 +208,8 @@ def one_line_diagrams(results, width: float = 500.0) -> list[Drawing]:
             for k, v in flags.get(n.via_run or "", {}).items():
                 marks[k] = marks.get(k, 0) + v
             if marks:
-                head += (
-                    "   ["
-                    + ", ".join(f"{marks[s]} {s.upper()}" for s in ("fail", "warn") if s in marks)
-                    + "]"
-                )
+                counts = [f"{marks[s]} {status_word(s)}" for s in ("fail", "warn") if s in marks]
+                head += "   [" + ", ".join(counts) + "]"
             d.add(
                 Line(
                     x + 12,

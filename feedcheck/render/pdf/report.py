@@ -36,7 +36,7 @@ from reportlab.platypus import (
 )
 
 from ... import __version__
-from ..display import display_for, node_caption
+from ..display import MISSING, display_for, node_caption
 from . import sections as sx
 from .drawing import (
     fault_current_chart,
@@ -112,7 +112,7 @@ class _Doc(BaseDocTemplate):
         w, h = letter
         canv.saveState()
         canv.setFont(f.bold, 8.5)
-        left = f"{j.get('name', '')} — rev {j.get('revision') or '–'}"
+        left = f"{j.get('name', '')} — rev {j.get('revision') or MISSING}"
         canv.drawString(MARGIN, h - 34, txt(_clip(left, 95)))
         canv.setFont(f.regular, 8.5)
         canv.drawRightString(w - MARGIN, h - 34, "Feed calculation report")
@@ -144,7 +144,7 @@ def _page_of_factory(results, pages: dict[str, int]):
                 return str(pages[f"sheet:{cand}"])
             if cand in schedules and f"sched:{cand}" in pages:
                 return str(pages[f"sched:{cand}"])
-        return "–"
+        return MISSING
 
     return page_of
 

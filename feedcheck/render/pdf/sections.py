@@ -176,7 +176,7 @@ def cover(results, heading) -> list:
         ("Site", j.get("site", "")),
         ("Prepared by", j.get("prepared_by", "")),
         ("Date", j.get("date", "")),
-        ("Revision", j.get("revision", "") or "–"),
+        ("Revision", j.get("revision", "") or MISSING),
         ("Rule set", j.get("rules", "")),
         ("Job file", f"{j.get('file', '')}  (sha256 {results.job_sha256[:16]})"),
         ("Made with", f"feedcheck {j.get('feedcheck_version', '')}"),
@@ -321,7 +321,7 @@ def sheet_section(sheet, node, findings, tables_by_name, heading) -> list:
                     p(s.label, "cellb"),
                     [p(s.formula), p("= " + s.substituted, "note")],
                     p(f"{res} {s.unit}".strip(), "cellb"),
-                    p(s.rule_id or "–"),
+                    p(s.rule_id or MISSING),
                 ]
             )
         out.append(grid_table(rows, [18, 112, 210, 70, WIDTH - 410]))
@@ -341,7 +341,7 @@ def sheet_section(sheet, node, findings, tables_by_name, heading) -> list:
                     p(name),
                     p(tb.title if tb else ""),
                     p(tb.edition if tb else ""),
-                    p(tb.sha256[:16] if tb else "–"),
+                    p(tb.sha256[:16] if tb else MISSING),
                 ]
             )
         out.append(grid_table(rows, [130, 200, 100, WIDTH - 430]))
