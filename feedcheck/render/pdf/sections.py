@@ -63,56 +63,48 @@ SCHEDULE_COLUMNS: dict[str, tuple[str, float, int | None]] = {
 }
 
 
+_STYLES: dict[str, ParagraphStyle] = {}
+
+
 def styles() -> dict[str, ParagraphStyle]:
+    """The paragraph styles of the report (made once, after the fonts are registered)."""
+    if _STYLES:
+        return _STYLES
     f = fonts()
     base = ParagraphStyle("fc-body", fontName=f.regular, fontSize=9, leading=11.5)
-    return {
-        "body": base,
-        "small": ParagraphStyle("fc-small", parent=base, fontSize=7.5, leading=9),
-        "cell": ParagraphStyle("fc-cell", parent=base, fontSize=7.8, leading=9.4),
-        "cellb": ParagraphStyle(
-            "fc-cellb", parent=base, fontName=f.bold, fontSize=7.8, leading=9.4
-        ),
-        "sched": ParagraphStyle("fc-sched", parent=base, fontSize=6.8, leading=8),
-        "schedb": ParagraphStyle(
-            "fc-schedb", parent=base, fontName=f.bold, fontSize=6.8, leading=8
-        ),
-        "note": ParagraphStyle(
-            "fc-note", parent=base, fontSize=7, leading=8.4, textColor=colors.Color(0.3, 0.3, 0.3)
-        ),
-        "h1": ParagraphStyle(
-            "fc-h1",
-            parent=base,
-            fontName=f.bold,
-            fontSize=14,
-            leading=18,
-            spaceAfter=6,
-            keepWithNext=1,
-        ),
-        "h2": ParagraphStyle(
-            "fc-h2",
-            parent=base,
-            fontName=f.bold,
-            fontSize=10.5,
-            leading=13,
-            spaceBefore=8,
-            spaceAfter=3,
-            keepWithNext=1,
-        ),
-        "title": ParagraphStyle("fc-title", parent=base, fontName=f.bold, fontSize=22, leading=27),
-        "subtitle": ParagraphStyle("fc-sub", parent=base, fontSize=12, leading=16),
-        "box": ParagraphStyle(
-            "fc-box",
-            parent=base,
-            fontSize=9,
-            leading=12,
-            borderColor=colors.black,
-            borderWidth=1,
-            borderPadding=6,
-            spaceBefore=10,
-            spaceAfter=10,
-        ),
-    }
+
+    def style(name: str, size: float, leading: float, bold: bool = False, **kw):
+        font = f.bold if bold else f.regular
+        return ParagraphStyle(
+            name, parent=base, fontName=font, fontSize=size, leading=leading, **kw
+        )
+
+    _STYLES.update(
+        {
+            "body": base,
+            "small": style("fc-small", 7.5, 9),
+            "cell": style("fc-cell", 7.8, 9.4),
+            "cellb": style("fc-cellb", 7.8, 9.4, bold=True),
+            "sched": style("fc-sched", 6.8, 8),
+            "schedb": style("fc-schedb", 6.8, 8, bold=True),
+            "note": style("fc-note", 7, 8.4, textColor=colors.Color(0.3, 0.3, 0.3)),
+            "h1": style("fc-h1", 14, 18, bold=True, spaceAfter=6, keepWithNext=1),
+            "h2": style("fc-h2", 10.5, 13, bold=True, spaceBefore=8, spaceAfter=3, keepWithNext=1),
+            "title": style("fc-title", 22, 27, bold=True),
+            "subtitle": style("fc-sub", 12, 16),
+            "box": style(
+                "fc-box",
+                9,
+                12,
+                borderColor=colors.black,
+                borderWidth=1,
+                borderPadding=6,
+                spaceBefore=10,
+                spaceAfter=10,
+            ),
+        }
+    )
+    return _STYLES
 
 
 def p(text: object, style: str = "cell") -> Paragraph:
