@@ -25,9 +25,9 @@ from feedcheck.calc.ampacity import ampacity_a, termination_c_for
 from feedcheck.calc.conductor import ac_impedance_ohm_per_m
 from feedcheck.calc.protection import max_device_a
 from feedcheck.calc.vdrop import voltage_drop_approximate_v
+from feedcheck.render.schedules import write_results
 from feedcheck.schedule import read_schedule
 from feedcheck.schedule_checks import check_schedule
-from feedcheck.render.schedules import write_results
 from feedcheck.units import parse_voltage_system
 
 SIZES = np.array(["14 AWG Cu", "12 AWG Cu", "10 AWG Cu", "8 AWG Cu", "6 AWG Cu", "12 AWG Al"])
