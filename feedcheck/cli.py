@@ -93,7 +93,8 @@ def check_cmd(job_file, fmt, out, show_all):
     Exit code 0: no failing check; 1: a check failed; 2: the input is invalid.
     """
     from .commands.clock import calc_date
-    from .render_text import render_csv, render_json, render_text
+    from .render.json_csv import render_csv, render_json
+    from .render.text import render_text
     from .runner import run_job
 
     results = run_job(job_file, calc_date())

@@ -1,5 +1,7 @@
 """What a check run hands to the renderers: per-node figures, calculation sheets,
-findings. Renderers (CLI, PDF, exports) show these; they compute nothing."""
+findings, and what the renderers need to show them (the feed as a diagram, the
+provenance of every table, the length unit). Renderers (CLI, PDF, exports) show
+these; they compute nothing and read nothing else."""
 
 from __future__ import annotations
 
@@ -63,6 +65,89 @@ class NodeResult:
     parent: str | None
     via_run: str | None
     values: dict[str, float] = field(default_factory=dict)
+    phases: int | None = None  # 1 or 3: the node's system (None: not known)
+
+
+@dataclass(frozen=True)
+class DiagramNode:
+    """One node of the feed as the one-line diagram shows it.
+
+    ``ratings`` holds nameplate and device figures in SI with the unit in the key:
+    source ``fault_a``, ``x_r``; transformer ``rating_va``, ``z_pct``, ``x_r``,
+    ``primary``/``secondary`` (the systems as written), ``primary_phases``,
+    ``secondary_phases``, ``primary_device_a``, ``secondary_device_a``, ``tap_pct``;
+    panel ``rating_a`` (bus), ``main_device_a``, ``interrupting_a``,
+    ``instantaneous_a``. A figure the job does not give is absent.
+    """
+
+    id: str
+    kind: str  # "source" | "transformer" | "panel"
+    voltage: str  # the system at the node as written (a transformer's secondary)
+    voltage_v: float  # its line-to-line voltage [V]
+    phases: int
+    parent: str | None
+    via_run: str | None
+    ratings: dict[str, float | str] = field(default_factory=dict)
+
+
+@dataclass(frozen=True)
+class DiagramRun:
+    """One run of conductors between two nodes."""
+
+    id: str
+    from_id: str
+    to_id: str
+    length_m: float
+    size: str  # "4/0 AWG", "95 mm2"
+    material: str  # "cu" | "al"
+    sets: int
+    device_a: float | None  # device protecting the run at its sending end
+    ground: str | None  # equipment grounding conductor as written ("4 AWG Cu")
+
+
+@dataclass(frozen=True)
+class DiagramMotor:
+    """A motor fed from a panel."""
+
+    id: str
+    panel_id: str
+    full_load_a: float
+    locked_rotor_a: float | None
+    hp: float | None
+
+
+@dataclass(frozen=True)
+class Diagram:
+    """The feed as drawn: nodes in feed order, runs, motors."""
+
+    nodes: tuple[DiagramNode, ...] = ()
+    runs: tuple[DiagramRun, ...] = ()
+    motors: tuple[DiagramMotor, ...] = ()
+
+    def run(self, run_id: str | None) -> DiagramRun | None:
+        """The run with this id (None when there is none)."""
+        return next((r for r in self.runs if r.id == run_id), None)
+
+    def node(self, node_id: str | None) -> DiagramNode | None:
+        """The node with this id (None when there is none)."""
+        return next((n for n in self.nodes if n.id == node_id), None)
+
+
+@dataclass(frozen=True)
+class TableProvenance:
+    """Where a table's figures come from (its provenance header) and, for tables that
+    rate each row, every row's confidence as (row, confidence) pairs."""
+
+    name: str
+    title: str
+    source: str
+    edition: str
+    confidence: str
+    basis: str
+    conditions: str
+    origin: str  # "shipped" or "user"
+    sha256: str
+    row_confidence: tuple[tuple[str, str], ...] = ()
 
 
 @dataclass
@@ -76,6 +161,11 @@ class Results:
     methods: list[tuple[str, str]] = field(default_factory=list)
     schedules: dict = field(default_factory=dict)
     runs: list[dict] = field(default_factory=list)
+    # for the renderers only (not part of to_dict(), whose keys are held stable):
+    diagram: Diagram = field(default_factory=Diagram)
+    provenance: list[TableProvenance] = field(default_factory=list)
+    job_sha256: str = ""  # of the job file's bytes
+    length_unit: str = "m"  # lengths shown to people: "m" or "ft"
 
     @property
     def exit_code(self) -> int:

@@ -15,6 +15,7 @@ from .context import Context, Load, build_context
 from .fault import check_faults
 from .impedance import fault_assumptions
 from .panels import check_panel, check_standard_ratings
+from .summary import describe_results
 from .transformer import check_transformer
 from .vdrop import check_voltage_drop
 
@@ -55,7 +56,7 @@ def check_job(
     check_voltage_drop(ctx)
     for run in job.runs:
         check_run(ctx, run)
-    return _results(ctx)
+    return describe_results(ctx, _results(ctx))
 
 
 def _results(ctx: Context) -> Results:

@@ -269,7 +269,7 @@ def check_schedule(
     Parameters
     ----------
     schedule : Schedule
-        From :func:`feedcheck.schedule.read_schedule`.
+        From :func:`feedcheck.inputs.schedule_file.read_schedule`.
     system : VoltageSystem
         The panel's nominal system (``208Y/120 V``, ``120/240 V`` …).
     feeder_drop_pct : float or dict

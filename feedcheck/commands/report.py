@@ -43,7 +43,7 @@ def report_command(job_file, out):
     """
     from pathlib import Path
 
-    from ..report.pdf import write_report
+    from ..render.pdf.report import write_report
     from ..runner import load_and_check
 
     job, results = load_and_check(job_file)
@@ -82,8 +82,10 @@ def rerun_command(report_pdf):
     import json
     import tempfile
 
-    from ..render_text import render_json
-    from ..report.embed import NotAReport, compare_results, extract_inputs, table_changes
+    from ..render.display import MISSING
+    from ..render.json_csv import render_json
+    from ..render.pdf.embed import NotAReport, extract_inputs
+    from ..render.pdf.rerun_compare import compare_results, table_changes
     from ..runner import load_and_check
 
     with tempfile.TemporaryDirectory(prefix="feedcheck-rerun-") as tmp:
@@ -96,7 +98,7 @@ def rerun_command(report_pdf):
         rerun = json.loads(render_json(results))
     job = ex.results.get("job", {})
     click.echo(
-        f"report: {job.get('name', '?')} (rev {job.get('revision') or '–'}), made with "
+        f"report: {job.get('name', '?')} (rev {job.get('revision') or MISSING}), made with "
         f"feedcheck {job.get('feedcheck_version', '?')}; rerun with feedcheck "
         f"{rerun['job'].get('feedcheck_version', '?')}"
     )

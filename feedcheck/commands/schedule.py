@@ -1,8 +1,9 @@
 """``feedcheck schedule``: check panel schedules (CSV/XLSX) circuit by circuit.
 
 Thin: parse the options, call :mod:`feedcheck.inputs.schedule_file`,
-:mod:`feedcheck.checks.schedules` and :mod:`feedcheck.schedule_export`, print. Heavy
-modules are imported in the body.
+:mod:`feedcheck.checks.schedules`, :mod:`feedcheck.render.schedules` (the --out file) and
+:mod:`feedcheck.render.schedule_text` (the summary printed). Heavy modules are imported in
+the body.
 """
 
 from __future__ import annotations
@@ -101,7 +102,7 @@ def schedule_command(inputs, system, job_file, feeder_drop, occupancy, bus_a, ma
         else:
             results = _from_files(files, system, feeder_drop, occupancy, bus_a, main_a, done)
         if out:
-            from ..schedule_export import write_results
+            from ..render.schedules import write_results
 
             write_results(results, out, CAUTION)
     except KeyboardInterrupt:
@@ -119,7 +120,9 @@ def schedule_command(inputs, system, job_file, feeder_drop, occupancy, bus_a, ma
     except OSError as exc:
         _report_partial(done, files, f"could not write {out} ({exc.strerror})")
         sys.exit(2)
-    click.echo(_summary(results, show_all), nl=False)
+    from ..render.schedule_text import render_schedule_summary
+
+    click.echo(render_schedule_summary(results, show_all, SHOW_CIRCUITS), nl=False)
     if out:
         click.echo(f"wrote {out}", err=True)
     sys.exit(1 if any(r.exit_code for r in results) else 0)
@@ -183,37 +186,3 @@ def _from_job(job_file, files):
     return [res.schedules[pid] for pid in wanted if pid in res.schedules]
 
 
-def _summary(results, show_all: bool) -> str:
-    lines = []
-    n_fail = n_warn = n_circ = 0
-    for r in results:
-        c = r.circuits
-        st = c["status"].to_numpy()
-        fails, warns = int((st == "fail").sum()), int((st == "warn").sum())
-        n_fail, n_warn, n_circ = n_fail + fails, n_warn + warns, n_circ + len(c)
-        t = r.totals
-        if "panels" in t:
-            lines.append(f"{r.path.name}: {t['panels']} panels, {len(c)} circuits, "
-                         f"{fails} fail, {warns} warn; connected {t['connected_va'] / 1e3:,.1f} "
-                         f"kVA, demand {t['demand_va'] / 1e3:,.1f} kVA, worst imbalance "
-                         f"{t['worst_imbalance_pct']:.1f} %  ({r.system})")
-        else:
-            lines.append(
-                f"{r.path.name}  panel {t['panel']}  {r.system}: {len(c)} circuits, {fails} fail, "
-                f"{warns} warn; connected {t['connected_va'] / 1e3:.1f} kVA, demand "
-                f"{t['demand_va'] / 1e3:.1f} kVA (design {t['design_current_a']:.1f} A); "
-                f"phases A/B/C {t['phase_a_va'] / 1e3:.1f}/{t['phase_b_va'] / 1e3:.1f}/"
-                f"{t['phase_c_va'] / 1e3:.1f} kVA, imbalance {t['imbalance_pct']:.1f} %")
-        bad = c[st != "ok"]
-        shown = bad if show_all else bad.head(SHOW_CIRCUITS)
-        for row in shown.itertuples(index=False):
-            lines.append(f"  {row.status.upper():4}  {row.panel}/{row.circuit}  {row.reason}")
-        if len(bad) > len(shown):
-            lines.append(f"  … {len(bad) - len(shown)} more (--all lists them, --out saves all)")
-        panel_ids = set(r.panels["panel"])
-        for f in r.findings:
-            if f.status in ("fail", "warn") and f.subject in panel_ids:
-                lines.append(f"  {f.status.upper():4}  {f.subject}  {f.check}: {f.note}")
-    lines.append(f"\n{len(results)} file(s), {n_circ} circuits: {n_fail} fail, {n_warn} warn")
-    lines.append(CAUTION)
-    return "\n".join(lines) + "\n"

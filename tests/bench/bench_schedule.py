@@ -23,9 +23,9 @@ import numpy as np
 
 from feedcheck.calc.ampacity import termination_c_for
 from feedcheck.calc.vdrop import voltage_drop_approximate_v
-from feedcheck.inputs.schedule_file import read_schedule
 from feedcheck.checks.schedules import check_schedule
-from feedcheck.schedule_export import write_results
+from feedcheck.inputs.schedule_file import read_schedule
+from feedcheck.render.schedules import write_results
 from feedcheck.units import parse_voltage_system
 from tests.kernels import ac_impedance_ohm_per_m, ampacity_a, max_device_a
 

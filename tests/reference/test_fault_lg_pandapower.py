@@ -24,7 +24,7 @@ pp = pytest.importorskip("pandapower")
 sc = pytest.importorskip("pandapower.shortcircuit")
 
 from feedcheck.calc import fault as F  # noqa: E402
-from feedcheck.calc.conductor import ac_impedance_ohm_per_m  # noqa: E402
+from tests.kernels import ac_impedance_ohm_per_m  # noqa: E402
 from feedcheck.calc.fault_duty import fault_lg_delta_wye_a  # noqa: E402
 
 C = {"max": 1.10, "min": 0.90}  # IEC 60909-0:2016 Table 1, LV, +10 % tolerance systems

@@ -12,7 +12,7 @@ import pytest
 
 from feedcheck.calc import fault as F
 from feedcheck.calc.bonding import JumperTable, jumper_passes, supply_side_jumper_size
-from feedcheck.calc.conductor import ac_impedance_ohm_per_m
+from tests.kernels import ac_impedance_ohm_per_m
 from feedcheck.calc.fault_duty import (
     TestConditionRow,
     asymmetry_multiplying_factor,
@@ -181,7 +181,7 @@ def test_icea_constants_in_the_shipped_table():
 def test_icea_withstand_matches_existing_kernel_and_round_trips():
     """Cross-method with feedcheck.calc.withstand.withstand_current_icea_a (same ICEA
     P-32-382 formula, table-fed), and T2 recovered from the current."""
-    from feedcheck.calc.withstand import withstand_current_icea_a
+    from tests.kernels import withstand_current_icea_a
 
     a = parse_size("4/0 AWG").area_mm2
     got = icea_withstand_current_a(a, 0.1, CU_K, CU_T0, 75.0, 150.0)

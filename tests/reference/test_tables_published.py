@@ -155,6 +155,8 @@ def _copies():
     out = []
     for p in sorted(REF.glob("*__*.csv")):
         table = p.stem.split("__")[0]
+        if table not in KEYS:
+            continue  # copies of tables held by their own tests (motors, loads, issue-12 tables)
         head, rows = _read_copy(p)
         if table == "grounding_electrode_conductor":
             rows = [_gec_copy_row(r) for r in rows]

@@ -13,17 +13,17 @@ from click.testing import CliRunner
 from reportlab.pdfgen import canvas
 
 from feedcheck.cli import main
-from feedcheck.report.embed import (
+from feedcheck.render.pdf.embed import (
     FORMAT,
     MANIFEST_NAME,
     RESULTS_NAME,
     NotAReport,
     attach,
-    compare_results,
     extract_inputs,
     input_attachments,
     safe_relative,
 )
+from feedcheck.render.pdf.rerun_compare import compare_results
 
 
 def _run(*args):

@@ -1,6 +1,7 @@
 """Drawings for the PDF report (reportlab.graphics): the one-line diagram, the
 voltage profile and the fault-current chart. They draw figures from the
-results; they compute none.
+results (node figures, and the feed's description in ``results.diagram``);
+they compute none. Figures are formatted by :mod:`feedcheck.render.display`.
 
 The one-line diagram is a ladder: one row per node in feed order (source,
 transformers, panels), each indented by its depth in the feed, fed by a line
@@ -20,6 +21,19 @@ from pathlib import Path
 from reportlab.graphics.shapes import Circle, Drawing, Line, PolyLine, Rect, String
 from reportlab.lib import colors
 from reportlab.pdfbase.pdfmetrics import stringWidth
+
+from ..display import (
+    DEFAULT_DISPLAY,
+    Display,
+    amps,
+    display_for,
+    fixed,
+    kiloamps,
+    node_title,
+    percent,
+    plain,
+    status_word,
+)
 
 GREY = colors.Color(0.45, 0.45, 0.45)
 LIGHT = colors.Color(0.88, 0.88, 0.88)
@@ -78,14 +92,6 @@ def txt(s: object) -> str:
     return s
 
 
-def fmt_ka(v) -> str:
-    if v is None:
-        return "–"
-    if isinstance(v, float) and math.isinf(v):
-        return "∞"
-    return f"{v / 1000:,.2f} kA"
-
-
 # ------------------------------------------------------------ one-line diagram
 
 ROW_H = 38.0
@@ -119,33 +125,31 @@ def _symbol(d: Drawing, kind: str, x: float, y: float) -> float:
     return 7.0
 
 
-def _node_lines(node, run) -> tuple[str, str, str]:
-    head = f"{node.id} — {node.kind}, {node.voltage}"
-    if node.kind == "source" and node.id == "source":
-        head = f"Source, {node.voltage}"
+def _node_lines(node, run, display: Display) -> tuple[str, str, str]:
+    head = node_title(node.id, node.kind, node.voltage)
     v = node.values
     parts = []
     if "fault_max_a" in v:
-        parts.append(f"Isc max {fmt_ka(v['fault_max_a'])}")
+        parts.append(f"Isc max {kiloamps(v['fault_max_a'])}")
     if "fault_min_a" in v:
-        parts.append(f"min {fmt_ka(v['fault_min_a'])}")
+        parts.append(f"min {kiloamps(v['fault_min_a'])}")
     if "vdrop_pct" in v and v["vdrop_pct"] is not None:
-        parts.append(f"drop {v['vdrop_pct']:.2f} %")
+        parts.append(f"drop {percent(v['vdrop_pct'])}")
     if node.kind == "transformer":
         if "rated_secondary_a" in v:
-            parts.append(f"rated {v['rated_secondary_a']:,.1f} A secondary")
+            parts.append(f"rated {amps(v['rated_secondary_a'])} secondary")
         if "loading_pct" in v:
-            parts.append(f"loading {v['loading_pct']:.0f} %")
+            parts.append(f"loading {percent(v['loading_pct'], 0)}")
     if not parts and node.kind != "source":
         parts.append("no fault-current or voltage-drop figures in these results")
     if node.kind == "source" and "fault_max_a" not in v:
         parts.append("supply at the transformer primary")
     sub = ""
     if run is not None:
-        sets = f"{run.sets} × " if getattr(run, "sets", 1) > 1 else ""
+        sets = f"{run.sets} × " if run.sets > 1 else ""
         sub = (
-            f"fed by run {run.id}: {sets}{run.size.name} {run.material.capitalize()}, "
-            f"{run.length_m:,.1f} m ({run.length_m / 0.3048:,.0f} ft)"
+            f"fed by run {run.id}: {sets}{run.size} {run.material.capitalize()}, "
+            f"{display.length_pair(run.length_m)}"
         )
     elif node.via_run:
         sub = f"fed by run {node.via_run}"
@@ -154,16 +158,18 @@ def _node_lines(node, run) -> tuple[str, str, str]:
     return head, " · ".join(parts), sub
 
 
-def one_line_diagrams(results, job=None, width: float = 500.0) -> list[Drawing]:
+def one_line_diagrams(results, width: float = 500.0) -> list[Drawing]:
     """One-line diagram of the feed as one or more drawings (16 rows each).
 
     Each node is labelled with its maximum and minimum fault current and its
-    voltage drop where the results carry them.
+    voltage drop where the results carry them; each feeding run (from
+    ``results.diagram``) with its sets, size, material and length.
     """
     f = fonts()
+    display = display_for(results)
     nodes = list(results.nodes)
     depth = _depths(nodes)
-    runs = {r.id: r for r in getattr(job, "runs", ())} if job is not None else {}
+    runs = {r.id: r for r in results.diagram.runs}
     max_depth = max(depth.values(), default=0)
     flags: dict[str, dict[str, int]] = {}
     for fnd in getattr(results, "findings", ()):
@@ -197,16 +203,13 @@ def one_line_diagrams(results, job=None, width: float = 500.0) -> list[Drawing]:
             d.add(Line(px, y, x - 9, y, strokeColor=colors.black, strokeWidth=1.2))
         for n in chunk:
             x, y = pos[n.id]
-            head, figs, sub = _node_lines(n, runs.get(n.via_run) if n.via_run else None)
+            head, figs, sub = _node_lines(n, runs.get(n.via_run) if n.via_run else None, display)
             marks = {**flags.get(n.id, {})}
             for k, v in flags.get(n.via_run or "", {}).items():
                 marks[k] = marks.get(k, 0) + v
             if marks:
-                head += (
-                    "   ["
-                    + ", ".join(f"{marks[s]} {s.upper()}" for s in ("fail", "warn") if s in marks)
-                    + "]"
-                )
+                counts = [f"{marks[s]} {status_word(s)}" for s in ("fail", "warn") if s in marks]
+                head += "   [" + ", ".join(counts) + "]"
             d.add(
                 Line(
                     x + 12,
@@ -286,9 +289,11 @@ def _axes(d, x0, y0, w, h, xt, yt, xlabel, ylabel, xfmt, yfmt):
 _DASHES = (None, [4, 2], [1, 2], [6, 2, 1, 2], [3, 3], [8, 3])
 
 
-def voltage_profile_chart(results, width: float = 500.0, height: float = 260.0) -> Drawing | None:
-    """Voltage (% of nominal) against distance from the source along each path
-    to a panel; None when no node carries ``voltage_pct``."""
+def voltage_profile_chart(
+    results, display: Display = DEFAULT_DISPLAY, width: float = 500.0, height: float = 260.0
+) -> Drawing | None:
+    """Voltage (% of nominal) against distance from the source (in the display's
+    length unit) along each path to a panel; None when no node carries ``voltage_pct``."""
     f = fonts()
     nodes = [n for n in results.nodes]
     have = {n.id: n for n in nodes if n.values.get("voltage_pct") is not None}
@@ -306,7 +311,7 @@ def voltage_profile_chart(results, width: float = 500.0, height: float = 260.0) 
             cur = by_id.get(cur.parent) if cur.parent else None
         paths.append(list(reversed(path)))
     vs = [n.values["voltage_pct"] for n in have.values()]
-    ds = [n.distance_m for n in have.values()]
+    ds = [display.length_value(n.distance_m) for n in have.values()]
     yt = nice_ticks(min(min(vs), 100.0 - 1.0) - 0.2, max(max(vs), 100.0))
     xt = nice_ticks(0.0, max(max(ds), 1.0))
     d = Drawing(width, height)
@@ -319,15 +324,15 @@ def voltage_profile_chart(results, width: float = 500.0, height: float = 260.0) 
         h,
         xt,
         yt,
-        "distance from the source (m)",
+        f"distance from the source ({display.length_unit})",
         "voltage (% of nominal)",
-        lambda t: f"{t:g}",
-        lambda t: f"{t:g}",
+        plain,
+        plain,
     )
     for i, path in enumerate(paths):
         pts = []
         for n in path:
-            pts += [sx(n.distance_m), sy(n.values["voltage_pct"])]
+            pts += [sx(display.length_value(n.distance_m)), sy(n.values["voltage_pct"])]
         if len(pts) >= 4:
             d.add(
                 PolyLine(
@@ -339,9 +344,9 @@ def voltage_profile_chart(results, width: float = 500.0, height: float = 260.0) 
             )
     placed: list[tuple[float, float, float, float]] = []  # label boxes already drawn
     for n in have.values():
-        x, y = sx(n.distance_m), sy(n.values["voltage_pct"])
+        x, y = sx(display.length_value(n.distance_m)), sy(n.values["voltage_pct"])
         d.add(Circle(x, y, 2.2, fillColor=colors.black, strokeColor=colors.black))
-        label = txt(f"{n.id} {n.values['voltage_pct']:.2f} %")
+        label = txt(f"{n.id} {percent(n.values['voltage_pct'])}")
         w = stringWidth(label, f.regular, 6.5)
         lx, ly = _free_spot(x + 3, y + 3, w, 7.0, placed)
         placed.append((lx, ly, lx + w, ly + 7.0))
@@ -401,7 +406,7 @@ def fault_current_chart(results, width: float = 500.0) -> Drawing | None:
         [0.0, 1.0],
         "fault current (kA)",
         "",
-        lambda t: f"{t:g}",
+        plain,
         lambda t: "",
     )
     for i, n in enumerate(rows):
@@ -423,7 +428,7 @@ def fault_current_chart(results, width: float = 500.0) -> Drawing | None:
                     strokeWidth=0.6,
                 )
             )
-            d.add(String(x1 + 3, yc + dy, f"{v / 1000:,.2f}", fontName=f.regular, fontSize=6.5))
+            d.add(String(x1 + 3, yc + dy, fixed(v, 2, 1e-3), fontName=f.regular, fontSize=6.5))
     ly = height - 12
     d.add(Rect(x0, ly, 10, 7, fillColor=GREY, strokeColor=colors.black, strokeWidth=0.6))
     d.add(String(x0 + 14, ly + 1, "maximum (bolted three-phase)", fontName=f.regular, fontSize=7))

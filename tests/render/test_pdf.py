@@ -20,9 +20,10 @@ import pytest
 from pypdf import PdfReader
 
 from feedcheck import CAUTION
-from feedcheck.report import sections as sx
-from feedcheck.report.embed import MANIFEST_NAME, RESULTS_NAME
-from feedcheck.report.pdf import render_pdf, write_report
+from feedcheck.render import display
+from feedcheck.render.pdf import sections as sx
+from feedcheck.render.pdf.embed import MANIFEST_NAME, RESULTS_NAME
+from feedcheck.render.pdf.report import render_pdf, write_report
 from feedcheck.runner import load_and_check
 
 
@@ -178,8 +179,8 @@ def _twelve_panel_job() -> str:
 
 
 def test_twelve_panel_diagram_on_one_page(write_job, tmp_path):
-    job, results = load_and_check(write_job(_twelve_panel_job(), "twelve.toml"))
-    data, pages, anchors = render_pdf(job, results)
+    _, results = load_and_check(write_job(_twelve_panel_job(), "twelve.toml"))
+    data, pages, anchors = render_pdf(results)
     reader = PdfReader(io.BytesIO(data))
     page = _text(reader)[anchors["diagram"] - 1]
     for i in range(1, 13):
@@ -225,7 +226,7 @@ def test_new_keys_and_schedules_render_generically(harbor):
     results = copy.deepcopy(harbor.results)
     results.nodes[-1].values["widget_margin_pct"] = 12.5
     results.schedules = {"LP1": _schedule()}
-    data, _, anchors = render_pdf(harbor.job, results)
+    data, _, anchors = render_pdf(results)
     pages = _text(PdfReader(io.BytesIO(data)))
     assert any("Widget margin" in pg for pg in pages)
     sched = pages[anchors["sched:LP1"] - 1]
@@ -233,7 +234,35 @@ def test_new_keys_and_schedules_render_generically(harbor):
 
 
 def test_node_figure_labels():
-    assert sx.node_figure("fault_max_a", 12_345.0) == ("Fault current, maximum", "12.35", "kA")
-    assert sx.node_figure("new_thing_ohm", 0.0123) == ("New thing", "0.0123", "Ω")
-    assert sx.fmt_num(float("inf")) == "∞" and sx.fmt_num(None) == "–"
-    assert sx.fmt_num(30_000.0) == "30,000"
+    assert display.node_figure("fault_max_a", 12_345.0) == (
+        "Fault current, maximum",
+        "12.35",
+        "kA",
+    )
+    assert display.node_figure("new_thing_ohm", 0.0123) == ("New thing", "0.0123", "Ω")
+    assert display.number(float("inf")) == "unlimited" and display.number(None) == "–"
+    assert display.number(30_000.0) == "30,000"
+
+
+def test_pages_come_from_the_results_alone(harbor, monkeypatch):
+    """No table or job file is read while the pages are drawn: provenance, the job's
+    fingerprint and the feed's runs all come from the results."""
+    import copy
+
+    def no_disk(*a, **k):
+        raise AssertionError("the PDF renderer read a table or the job file")
+
+    monkeypatch.setattr("feedcheck.tables.load_table", no_disk)
+    monkeypatch.setattr("feedcheck.tables.read_table_file", no_disk)
+    results = copy.deepcopy(harbor.results)
+    results.length_unit = "ft"
+    data, _, anchors = render_pdf(results)
+    pages = _text(PdfReader(io.BytesIO(data)))
+    text = " ".join(pages)
+    assert results.job_sha256[:16] in pages[0]
+    assert "distance from the source (ft)" in text and "Len ft" in text
+    # the one-line diagram gives each run's length in the display unit first
+    # (1 ft = 0.3048 m exactly: international foot, 1959 yard and pound agreement)
+    run = results.diagram.runs[0]
+    diagram = pages[anchors["diagram"] - 1]
+    assert f"{run.length_m / 0.3048:,.0f} ft ({run.length_m:,.1f} m)" in diagram

@@ -4,50 +4,22 @@ CSV, XLSX or JSON by the output file's suffix; written atomically (a temporary f
 beside the target, renamed on success, removed on any error or interrupt). Text cells
 that a spreadsheet would read as a formula (``= + - @``, tab, carriage return) get a
 leading quote in CSV and XLSX. Renderers compute nothing: figures come from
-:class:`~feedcheck.checks.schedules.ScheduleResult`.
+:class:`~feedcheck.checks.schedules.ScheduleResult`. The formula guard is
+:mod:`feedcheck.render.cells`.
 """
 
 from __future__ import annotations
 
 import json
 import math
-import re
 from pathlib import Path
 
 import numpy as np
 
-from .io_atomic import atomic_path
-from .render_text import FORMULA_PREFIXES
+from ..io_atomic import atomic_path
+from .cells import neutralise_column
 
 FORMATS = (".csv", ".xlsx", ".json")
-_FORMULA_CHARS = np.array(FORMULA_PREFIXES)
-_FORMULA_START = "^[" + re.escape("".join(FORMULA_PREFIXES)) + "]"
-
-
-def neutralise_column(values: np.ndarray) -> np.ndarray:
-    """Prefix text cells starting like a formula with ``'`` (vectorised).
-
-    Examples
-    --------
-    >>> neutralise_column(np.array(["=1+1", "ok", "@SUM(A1)"], dtype=object)).tolist()
-    ["'=1+1", 'ok', "'@SUM(A1)"]
-    """
-    import pandas as pd
-    from pandas.api.types import infer_dtype
-
-    values = np.asarray(values, dtype=object)
-    if infer_dtype(values, skipna=False) == "string":
-        # every cell is text: test the first character in C (numpy U1 keeps one char)
-        hit = np.isin(values.astype("U1"), _FORMULA_CHARS)
-        out = values.copy()
-        if hit.any():
-            out[hit] = "'" + values[hit]
-        return out
-    s = pd.Series(values, dtype=object)
-    hit = s.str.match(_FORMULA_START, na=False).to_numpy(bool)  # non-text cells: no match
-    out = s.to_numpy(object).copy()
-    out[hit] = "'" + s[hit].astype(str).to_numpy(object)
-    return out
 
 
 def circuits_frame(results) -> pd.DataFrame:  # noqa: F821 - pandas imported lazily
@@ -114,8 +86,10 @@ def _csv_cells(values: np.ndarray, quote) -> np.ndarray | None:
         codes, txt = values.astype(np.intp), np.array(["False", "True"], dtype=object)
     elif values.dtype == object and infer_dtype(values, skipna=False) == "string":
         codes, uniq = pd.factorize(values)
-        txt = np.array([quote(u) for u in neutralise_column(np.asarray(uniq, dtype=object))]
-                       + [None], dtype=object)[:-1]
+        txt = np.array(
+            [quote(u) for u in neutralise_column(np.asarray(uniq, dtype=object))] + [None],
+            dtype=object,
+        )[:-1]
     else:
         return None
     return txt[codes]
@@ -138,10 +112,15 @@ def _write_csv_fast(results, tmp: Path) -> bool:
         if list(r.circuits.columns) != cols or list(r.circuits.dtypes) != dtypes:
             return False
         for k, d in zip(cols, dtypes, strict=True):
-            if not isinstance(d, np.dtype) or d.kind not in "fiubO" or (
-                    d.kind == "f" and d != np.float64) or (
-                    d.kind == "O" and infer_dtype(r.circuits[k].to_numpy(), skipna=False)
-                    != "string"):
+            if (
+                not isinstance(d, np.dtype)
+                or d.kind not in "fiubO"
+                or (d.kind == "f" and d != np.float64)
+                or (
+                    d.kind == "O"
+                    and infer_dtype(r.circuits[k].to_numpy(), skipna=False) != "string"
+                )
+            ):
                 return False
     quote = _csv_quoter()
     with open(tmp, "w", encoding="utf-8", newline="") as fh:
@@ -150,7 +129,7 @@ def _write_csv_fast(results, tmp: Path) -> bool:
             c = r.circuits
             name = quote(neutralise_column(np.array([r.path.name], dtype=object))[0])
             for start in range(0, len(c), CSV_CHUNK_ROWS):
-                part = c.iloc[start:start + CSV_CHUNK_ROWS]
+                part = c.iloc[start : start + CSV_CHUNK_ROWS]
                 cells = [_csv_cells(part[k].to_numpy(), quote) for k in cols]
                 if any(x is None for x in cells):
                     return False
@@ -211,12 +190,14 @@ def _xl(v):
 def _json(results, caution: str) -> str:
     out = {"caution": caution, "files": []}
     for r in results:
-        out["files"].append({
-            "file": r.path.name,
-            "system": r.system,
-            "totals": {k: _xl(v) for k, v in r.totals.items()},
-            "panels": json.loads(r.panels.to_json(orient="records")),
-            "circuits": json.loads(r.circuits.to_json(orient="records")),
-            "findings": [f.as_dict() for f in r.findings if f.status in ("fail", "warn")],
-        })
+        out["files"].append(
+            {
+                "file": r.path.name,
+                "system": r.system,
+                "totals": {k: _xl(v) for k, v in r.totals.items()},
+                "panels": json.loads(r.panels.to_json(orient="records")),
+                "circuits": json.loads(r.circuits.to_json(orient="records")),
+                "findings": [f.as_dict() for f in r.findings if f.status in ("fail", "warn")],
+            }
+        )
     return json.dumps(out, indent=1, ensure_ascii=False) + "\n"

@@ -7,6 +7,10 @@ its revision, "page X of Y" and a short caution line. Page numbers of the
 calculation sheets are known by building the document until they settle
 (usually twice).
 
+The pages are drawn from :class:`~feedcheck.results.Results` alone (figures,
+sheets, the feed's diagram description, table provenance, display units); the job
+is read only for the files to embed.
+
 The output is reproducible: with ``SOURCE_DATE_EPOCH`` set, the same job and
 tables give the same bytes (reportlab's invariant mode, fixed dates, no random
 ids). The job file, its schedules and the results JSON are embedded as file
@@ -15,7 +19,6 @@ attachments so ``feedcheck rerun`` can re-check the report.
 
 from __future__ import annotations
 
-import hashlib
 import io
 from dataclasses import dataclass
 from pathlib import Path
@@ -32,7 +35,8 @@ from reportlab.platypus import (
     Spacer,
 )
 
-from .. import __version__
+from ... import __version__
+from ..display import MISSING, display_for, node_caption
 from . import sections as sx
 from .drawing import (
     fault_current_chart,
@@ -108,7 +112,7 @@ class _Doc(BaseDocTemplate):
         w, h = letter
         canv.saveState()
         canv.setFont(f.bold, 8.5)
-        left = f"{j.get('name', '')} — rev {j.get('revision') or '–'}"
+        left = f"{j.get('name', '')} — rev {j.get('revision') or MISSING}"
         canv.drawString(MARGIN, h - 34, txt(_clip(left, 95)))
         canv.setFont(f.regular, 8.5)
         canv.drawRightString(w - MARGIN, h - 34, "Feed calculation report")
@@ -140,19 +144,9 @@ def _page_of_factory(results, pages: dict[str, int]):
                 return str(pages[f"sheet:{cand}"])
             if cand in schedules and f"sched:{cand}" in pages:
                 return str(pages[f"sched:{cand}"])
-        return "–"
+        return MISSING
 
     return page_of
-
-
-def _meta_of(name: str) -> dict:
-    from ..errors import InputError
-    from ..tables import load_table
-
-    try:
-        return dict(load_table(name).meta)
-    except (InputError, OSError, KeyError):
-        return {}
 
 
 def _ordered_sheets(results) -> list:
@@ -167,20 +161,9 @@ def _ordered_sheets(results) -> list:
     return order
 
 
-def build_story(job, results, pages: dict[str, int], job_sha: str) -> list:
-    """Flowables of the whole report; ``pages`` maps anchors to pages (from the
-    previous pass) and is filled again while drawing."""
-    st = sx.styles()
-    new_pages: dict[str, int] = pages.setdefault("__new__", {})  # type: ignore[assignment]
-
-    def heading(text, key, level, style):
-        return _Heading(text, st[style], key, level, new_pages)
-
-    page_of = _page_of_factory(results, {k: v for k, v in pages.items() if k != "__new__"})
-    story: list = sx.cover(results, job_sha, heading)
-    story += [PageBreak()]
-    story += sx.findings_summary(results, page_of, heading)
-    story += [PageBreak(), heading("One-line diagram", "diagram", 0, "h1")]
+def _drawings_story(results, display, heading) -> list:
+    """The one-line diagram and the two charts."""
+    story = [PageBreak(), heading("One-line diagram", "diagram", 0, "h1")]
     story.append(
         sx.p(
             "Feed order from the source down; each node shows its maximum and minimum fault "
@@ -189,10 +172,10 @@ def build_story(job, results, pages: dict[str, int], job_sha: str) -> list:
         )
     )
     story.append(Spacer(1, 6))
-    for d in one_line_diagrams(results, job, width=sx.WIDTH):
+    for d in one_line_diagrams(results, width=sx.WIDTH):
         story += [d, Spacer(1, 4)]
     story += [CondPageBreak(330), heading("Voltage profile and fault current", "charts", 0, "h1")]
-    vp = voltage_profile_chart(results, width=sx.WIDTH)
+    vp = voltage_profile_chart(results, display, width=sx.WIDTH)
     story.append(sx.p("Voltage along each path from the source to a panel", "h2"))
     story.append(vp if vp is not None else sx.p("No voltage figures in these results.", "body"))
     fc = fault_current_chart(results, width=sx.WIDTH)
@@ -201,18 +184,18 @@ def build_story(job, results, pages: dict[str, int], job_sha: str) -> list:
     story.append(
         fc if fc is not None else sx.p("No fault-current figures in these results.", "body")
     )
-    story += [PageBreak(), heading("Calculation sheets", "sheets", 0, "h1")]
-    by_subject: dict[str, list] = {}
-    for f in results.sorted_findings():
-        by_subject.setdefault(f.subject, []).append(f)
+    return story
+
+
+def _sheets_story(results, by_subject: dict, heading) -> list:
+    """One calculation sheet per element, node figures without a sheet, other findings."""
+    story = [PageBreak(), heading("Calculation sheets", "sheets", 0, "h1")]
     nodes = {n.id: n for n in results.nodes}
-    tables_by_name = {t.get("name"): t for t in results.tables}
-    first = True
+    tables_by_name = {t.name: t for t in results.provenance}
     shown_subjects = set()
-    for sheet in _ordered_sheets(results):
-        if not first:
+    for i, sheet in enumerate(_ordered_sheets(results)):
+        if i:
             story.append(CondPageBreak(300))
-        first = False
         shown_subjects.add(sheet.element_id)
         story += sx.sheet_section(
             sheet,
@@ -225,7 +208,8 @@ def build_story(job, results, pages: dict[str, int], job_sha: str) -> list:
     for n in results.nodes:
         if n.id not in results.sheets and n.values:
             story.append(CondPageBreak(200))
-            story.append(heading(f"Figures at {n.id} ({n.kind})", f"node:{n.id}", 1, "h1"))
+            title = f"Figures at {node_caption(n.id, n.kind)}"
+            story.append(heading(title, f"node:{n.id}", 1, "h1"))
             story.append(sx.node_figures_table(n))
     rest = [f for s, fs in by_subject.items() if s not in shown_subjects for f in fs]
     rest = [f for f in rest if f.subject.split("/")[0] not in (results.schedules or {})]
@@ -233,21 +217,49 @@ def build_story(job, results, pages: dict[str, int], job_sha: str) -> list:
         story.append(CondPageBreak(200))
         story.append(heading("Other findings", "other", 1, "h1"))
         story.append(sx.findings_table(rest, with_subject=True))
-    if results.schedules:
-        story += [PageBreak(), heading("Panel schedules", "schedules", 0, "h1")]
-        for i, (pid, sched) in enumerate(results.schedules.items()):
-            if i:
-                story.append(CondPageBreak(250))
-            story += sx.schedule_section(pid, sched, heading)
-            rows = by_subject_prefix(by_subject, pid)
-            if rows:
-                story.append(sx.p("Circuit findings", "h2"))
-                story.append(sx.findings_table(rows, with_subject=True))
-            story.append(Spacer(1, 10))
+    return story
+
+
+def _schedules_story(results, by_subject: dict, display, heading) -> list:
+    if not results.schedules:
+        return []
+    story = [PageBreak(), heading("Panel schedules", "schedules", 0, "h1")]
+    for i, (pid, sched) in enumerate(results.schedules.items()):
+        if i:
+            story.append(CondPageBreak(250))
+        story += sx.schedule_section(pid, sched, heading, display)
+        rows = by_subject_prefix(by_subject, pid)
+        if rows:
+            story.append(sx.p("Circuit findings", "h2"))
+            story.append(sx.findings_table(rows, with_subject=True))
+        story.append(Spacer(1, 10))
+    return story
+
+
+def build_story(results, pages: dict[str, int]) -> list:
+    """Flowables of the whole report; ``pages`` maps anchors to pages (from the
+    previous pass) and is filled again while drawing."""
+    st = sx.styles()
+    new_pages: dict[str, int] = pages.setdefault("__new__", {})  # type: ignore[assignment]
+
+    def heading(text, key, level, style):
+        return _Heading(text, st[style], key, level, new_pages)
+
+    page_of = _page_of_factory(results, {k: v for k, v in pages.items() if k != "__new__"})
+    display = display_for(results)
+    by_subject: dict[str, list] = {}
+    for f in results.sorted_findings():
+        by_subject.setdefault(f.subject, []).append(f)
+    story: list = sx.cover(results, heading)
+    story += [PageBreak()]
+    story += sx.findings_summary(results, page_of, heading)
+    story += _drawings_story(results, display, heading)
+    story += _sheets_story(results, by_subject, heading)
+    story += _schedules_story(results, by_subject, display, heading)
     story += [PageBreak()]
     story += sx.methods_section(results, heading)
     story += [PageBreak()]
-    story += sx.tables_section(results, _meta_of, heading)
+    story += sx.tables_section(results, heading)
     story += [PageBreak()]
     story += sx.cautions_section(heading)
     return story
@@ -257,10 +269,9 @@ def by_subject_prefix(by_subject: dict, panel_id: str) -> list:
     return [f for s, fs in by_subject.items() if s.startswith(panel_id + "/") for f in fs]
 
 
-def render_pdf(job, results) -> tuple[bytes, int, dict[str, int]]:
+def render_pdf(results) -> tuple[bytes, int, dict[str, int]]:
     """The report without attachments: (bytes, page count, anchor → page)."""
     fonts()
-    job_sha = hashlib.sha256(Path(job.path).read_bytes()).hexdigest()
     j = results.job_summary
     pages: dict[str, int] = {}
     total = 0
@@ -278,7 +289,7 @@ def render_pdf(job, results) -> tuple[bytes, int, dict[str, int]]:
             creator=f"feedcheck {__version__}",
             keywords="feedcheck report",
         )
-        doc.build(build_story(job, results, prev, job_sha))
+        doc.build(build_story(results, prev))
         new_pages, new_total = prev["__new__"], doc.page
         data = buf.getvalue()
         if new_pages == pages and new_total == total:
@@ -289,10 +300,10 @@ def render_pdf(job, results) -> tuple[bytes, int, dict[str, int]]:
 
 def write_report(job, results, out_path: str | Path) -> ReportInfo:
     """Write the report PDF (atomically) with the inputs and results embedded."""
-    from ..io_atomic import write_bytes_atomic
-    from ..render_text import render_json
+    from ...io_atomic import write_bytes_atomic
+    from ..json_csv import render_json
 
-    data, total, pages = render_pdf(job, results)
+    data, total, pages = render_pdf(results)
     files = input_attachments(job)
     files.append((RESULTS_NAME, render_json(results).encode("utf-8")))
     data = attach(data, files)

@@ -16,7 +16,20 @@ from reportlab.lib import colors
 from reportlab.lib.styles import ParagraphStyle
 from reportlab.platypus import Paragraph, Spacer, Table, TableStyle
 
-from .. import CAUTION
+from ... import CAUTION
+from ..display import (
+    DEFAULT_DISPLAY,
+    MISSING,
+    STATUS_MEANING,
+    Display,
+    figure_label,
+    fixed,
+    is_flagged,
+    node_figure,
+    number,
+    status_word,
+    whole_or_number,
+)
 from .drawing import fonts, txt
 
 WIDTH = 528.0  # frame width in points (US letter, 42 pt margins)
@@ -24,49 +37,11 @@ FAIL_BG = colors.Color(0.97, 0.80, 0.80)
 WARN_BG = colors.Color(1.0, 0.92, 0.70)
 HEAD_BG = colors.Color(0.86, 0.86, 0.86)
 GRID = colors.Color(0.55, 0.55, 0.55)
-STATUS_WORD = {"fail": "FAIL", "warn": "WARN", "ok": "ok", "info": "info"}
 SHORT_CAUTION = (
     "An aid, not an approval: verify against the locally adopted code; "
     "a licensed electrician or engineer must review."
 )
 
-# key: (label, display unit, scale, decimals)
-NODE_LABELS: dict[str, tuple[str, str, float, int]] = {
-    "load_va": ("Demand load", "kVA", 1e-3, 1),
-    "load_a": ("Demand current", "A", 1, 1),
-    "design_current_a": ("Design current (continuous at 125 %)", "A", 1, 1),
-    "rated_primary_a": ("Rated primary current", "A", 1, 1),
-    "rated_secondary_a": ("Rated secondary current", "A", 1, 1),
-    "loading_pct": ("Loading", "%", 1, 1),
-    "regulation_pct": ("Regulation (exact phasor)", "%", 1, 3),
-    "regulation_approx_pct": ("Regulation (approximate)", "%", 1, 3),
-    "x_r_transformer": ("Transformer X/R", "", 1, 2),
-    "fault_max_a": ("Fault current, maximum", "kA", 1e-3, 2),
-    "fault_min_a": ("Fault current, minimum", "kA", 1e-3, 2),
-    "fault_lg_min_a": ("Line-to-ground fault current, minimum", "kA", 1e-3, 2),
-    "x_r": ("X/R at the fault point", "", 1, 2),
-    "peak_a": ("Peak asymmetrical current", "kA", 1e-3, 2),
-    "asym_rms_a": ("Asymmetrical rms current", "kA", 1e-3, 2),
-    "fault_ptp_a": ("Fault current, point-to-point method", "kA", 1e-3, 2),
-    "fault_ptp_diff_pct": ("Point-to-point against ohmic", "%", 1, 1),
-    "vdrop_pct": ("Voltage drop from the source", "%", 1, 2),
-    "voltage_pct": ("Voltage", "% of nominal", 1, 2),
-    "segment_vdrop_pct": ("Voltage drop in the feeding run", "%", 1, 2),
-}
-_SUFFIX_UNITS = (
-    ("_kcmil", "kcmil"),
-    ("_mm2", "mm²"),
-    ("_pct", "%"),
-    ("_ohm", "Ω"),
-    ("_var", "var"),
-    ("_va", "VA"),
-    ("_a", "A"),
-    ("_v", "V"),
-    ("_w", "W"),
-    ("_m", "m"),
-    ("_s", "s"),
-    ("_c", "°C"),
-)
 # schedule column: (header, width weight, decimals or None for text)
 SCHEDULE_COLUMNS: dict[str, tuple[str, float, int | None]] = {
     "circuit": ("Ckt", 0.6, None),
@@ -78,7 +53,7 @@ SCHEDULE_COLUMNS: dict[str, tuple[str, float, int | None]] = {
     "current_a": ("I A", 0.75, 1),
     "breaker_a": ("Brkr A", 0.75, 0),
     "size": ("Wire", 1.3, None),
-    "length_m": ("Len m", 0.75, 1),
+    "length_m": ("Len", 0.75, None),  # header and figure in the display's length unit
     "ampacity_a": ("Amp A", 0.75, 0),
     "vdrop_pct": ("Drop %", 0.8, 2),
     "total_vdrop_pct": ("Total %", 0.85, 2),
@@ -88,56 +63,48 @@ SCHEDULE_COLUMNS: dict[str, tuple[str, float, int | None]] = {
 }
 
 
+_STYLES: dict[str, ParagraphStyle] = {}
+
+
 def styles() -> dict[str, ParagraphStyle]:
+    """The paragraph styles of the report (made once, after the fonts are registered)."""
+    if _STYLES:
+        return _STYLES
     f = fonts()
     base = ParagraphStyle("fc-body", fontName=f.regular, fontSize=9, leading=11.5)
-    return {
-        "body": base,
-        "small": ParagraphStyle("fc-small", parent=base, fontSize=7.5, leading=9),
-        "cell": ParagraphStyle("fc-cell", parent=base, fontSize=7.8, leading=9.4),
-        "cellb": ParagraphStyle(
-            "fc-cellb", parent=base, fontName=f.bold, fontSize=7.8, leading=9.4
-        ),
-        "sched": ParagraphStyle("fc-sched", parent=base, fontSize=6.8, leading=8),
-        "schedb": ParagraphStyle(
-            "fc-schedb", parent=base, fontName=f.bold, fontSize=6.8, leading=8
-        ),
-        "note": ParagraphStyle(
-            "fc-note", parent=base, fontSize=7, leading=8.4, textColor=colors.Color(0.3, 0.3, 0.3)
-        ),
-        "h1": ParagraphStyle(
-            "fc-h1",
-            parent=base,
-            fontName=f.bold,
-            fontSize=14,
-            leading=18,
-            spaceAfter=6,
-            keepWithNext=1,
-        ),
-        "h2": ParagraphStyle(
-            "fc-h2",
-            parent=base,
-            fontName=f.bold,
-            fontSize=10.5,
-            leading=13,
-            spaceBefore=8,
-            spaceAfter=3,
-            keepWithNext=1,
-        ),
-        "title": ParagraphStyle("fc-title", parent=base, fontName=f.bold, fontSize=22, leading=27),
-        "subtitle": ParagraphStyle("fc-sub", parent=base, fontSize=12, leading=16),
-        "box": ParagraphStyle(
-            "fc-box",
-            parent=base,
-            fontSize=9,
-            leading=12,
-            borderColor=colors.black,
-            borderWidth=1,
-            borderPadding=6,
-            spaceBefore=10,
-            spaceAfter=10,
-        ),
-    }
+
+    def style(name: str, size: float, leading: float, bold: bool = False, **kw):
+        font = f.bold if bold else f.regular
+        return ParagraphStyle(
+            name, parent=base, fontName=font, fontSize=size, leading=leading, **kw
+        )
+
+    _STYLES.update(
+        {
+            "body": base,
+            "small": style("fc-small", 7.5, 9),
+            "cell": style("fc-cell", 7.8, 9.4),
+            "cellb": style("fc-cellb", 7.8, 9.4, bold=True),
+            "sched": style("fc-sched", 6.8, 8),
+            "schedb": style("fc-schedb", 6.8, 8, bold=True),
+            "note": style("fc-note", 7, 8.4, textColor=colors.Color(0.3, 0.3, 0.3)),
+            "h1": style("fc-h1", 14, 18, bold=True, spaceAfter=6, keepWithNext=1),
+            "h2": style("fc-h2", 10.5, 13, bold=True, spaceBefore=8, spaceAfter=3, keepWithNext=1),
+            "title": style("fc-title", 22, 27, bold=True),
+            "subtitle": style("fc-sub", 12, 16),
+            "box": style(
+                "fc-box",
+                9,
+                12,
+                borderColor=colors.black,
+                borderWidth=1,
+                borderPadding=6,
+                spaceBefore=10,
+                spaceAfter=10,
+            ),
+        }
+    )
+    return _STYLES
 
 
 def p(text: object, style: str = "cell") -> Paragraph:
@@ -145,50 +112,8 @@ def p(text: object, style: str = "cell") -> Paragraph:
     return Paragraph(escape(txt(text)), styles()[style])
 
 
-def fmt_num(v) -> str:
-    """A figure for display: thousands separators, sensible decimals, ∞, –."""
-    if v is None or (isinstance(v, float) and math.isnan(v)):
-        return "–"
-    if isinstance(v, str):
-        return v
-    if isinstance(v, bool):
-        return str(v)
-    v = float(v)
-    if math.isinf(v):
-        return "∞" if v > 0 else "−∞"
-    a = abs(v)
-    if a >= 1000:
-        return f"{v:,.0f}"
-    if a >= 100:
-        return f"{v:.1f}"
-    if a >= 1 or a == 0:
-        return f"{v:.2f}"
-    return f"{v:.3g}"
-
-
-def node_figure(key: str, value) -> tuple[str, str, str]:
-    """(label, formatted value, unit) for a node figure; unknown keys get a
-    label from the key and a unit from its suffix."""
-    if key in NODE_LABELS:
-        label, unit, scale, dec = NODE_LABELS[key]
-        if isinstance(value, (int, float)) and not isinstance(value, bool):
-            shown = "∞" if math.isinf(value) else f"{value * scale:,.{dec}f}"
-        else:
-            shown = fmt_num(value)
-        return label, shown, unit
-    unit = ""
-    stem = key
-    for suf, u in _SUFFIX_UNITS:
-        if key.endswith(suf):
-            unit, stem = u, key[: -len(suf)]
-            break
-    label = stem.replace("_", " ").strip().capitalize() or key
-    return label, fmt_num(value), unit
-
-
 def status_cell(status: str) -> Paragraph:
-    word = STATUS_WORD.get(status, str(status))
-    return p(word, "cellb" if status in ("fail", "warn") else "cell")
+    return p(status_word(status), "cellb" if is_flagged(status) else "cell")
 
 
 def grid_table(
@@ -229,7 +154,7 @@ def _clip(s: str, n: int) -> str:
     return s if len(s) <= n else s[: n - 1] + "…"
 
 
-def cover(results, job_sha: str, heading) -> list:
+def cover(results, heading) -> list:
     j = results.job_summary
     c = results.counts()
     out = [
@@ -243,9 +168,9 @@ def cover(results, job_sha: str, heading) -> list:
         ("Site", j.get("site", "")),
         ("Prepared by", j.get("prepared_by", "")),
         ("Date", j.get("date", "")),
-        ("Revision", j.get("revision", "") or "–"),
+        ("Revision", j.get("revision", "") or MISSING),
         ("Rule set", j.get("rules", "")),
-        ("Job file", f"{j.get('file', '')}  (sha256 {job_sha[:16]})"),
+        ("Job file", f"{j.get('file', '')}  (sha256 {results.job_sha256[:16]})"),
         ("Made with", f"feedcheck {j.get('feedcheck_version', '')}"),
     ]
     extra = [
@@ -269,18 +194,10 @@ def cover(results, job_sha: str, heading) -> list:
         )
     )
     out += [Spacer(1, 14), p("Summary of checks", "h2")]
-    words = [("fail", "FAIL"), ("warn", "WARN"), ("ok", "OK"), ("info", "INFO")]
+    order = ("fail", "warn", "ok", "info")
     cells = [
-        [p(f"{w}: {c.get(s, 0)}", "h2") for s, w in words],
-        [
-            p(t, "small")
-            for t in (
-                "checks that failed",
-                "checks that need attention",
-                "checks that passed",
-                "figures reported for information",
-            )
-        ],
+        [p(f"{status_word(s, loud=True)}: {c.get(s, 0)}", "h2") for s in order],
+        [p(STATUS_MEANING[s], "small") for s in order],
     ]
     t = Table(cells, colWidths=[WIDTH / 4] * 4)
     cmds = [("BOX", (i, 0), (i, 1), 1, colors.black) for i in range(4)]
@@ -293,13 +210,13 @@ def cover(results, job_sha: str, heading) -> list:
     out.append(Paragraph(escape(txt(CAUTION)), styles()["box"]))
     out += [Spacer(1, 4), p("Tables used (versions)", "h2")]
     trows = [headed(["table", "origin", "edition", "sha256 (first 16)"])]
-    for tb in results.tables:
+    for tb in results.provenance:
         trows.append(
             [
-                p(tb.get("name", ""), "note"),
-                p(tb.get("origin", ""), "note"),
-                p(_clip(tb.get("edition", ""), 60), "note"),
-                p(str(tb.get("sha256", ""))[:16], "note"),
+                p(tb.name, "note"),
+                p(tb.origin, "note"),
+                p(_clip(tb.edition, 60), "note"),
+                p(tb.sha256[:16], "note"),
             ]
         )
     out.append(grid_table(trows, [150, 56, 202, 120]))
@@ -351,8 +268,8 @@ def findings_table(findings, page_of=None, with_subject=False):
             row.append(p(f.subject, "cellb"))
         row += [
             _check_cell(f),
-            p(fmt_num(f.value) + (unit if f.value is not None else "")),
-            p(fmt_num(f.limit) + (unit if f.limit is not None else "")),
+            p(number(f.value) + (unit if f.value is not None else "")),
+            p(number(f.limit) + (unit if f.limit is not None else "")),
             p(f.rule_id),
         ]
         if page_of:
@@ -389,14 +306,14 @@ def sheet_section(sheet, node, findings, tables_by_name, heading) -> list:
         out.append(p("Calculation", "h2"))
         rows = [headed(["#", "step", "formula and substituted values", "result", "rule id"])]
         for i, s in enumerate(sheet.steps, start=1):
-            res = s.result if isinstance(s.result, str) else fmt_num(s.result)
+            res = number(s.result)
             rows.append(
                 [
                     p(str(i)),
                     p(s.label, "cellb"),
                     [p(s.formula), p("= " + s.substituted, "note")],
                     p(f"{res} {s.unit}".strip(), "cellb"),
-                    p(s.rule_id or "–"),
+                    p(s.rule_id or MISSING),
                 ]
             )
         out.append(grid_table(rows, [18, 112, 210, 70, WIDTH - 410]))
@@ -410,13 +327,13 @@ def sheet_section(sheet, node, findings, tables_by_name, heading) -> list:
         out.append(p("Tables used", "h2"))
         rows = [headed(["table", "title", "edition", "sha256"])]
         for name in sheet.tables_used:
-            tb = tables_by_name.get(name, {})
+            tb = tables_by_name.get(name)
             rows.append(
                 [
                     p(name),
-                    p(tb.get("title", "")),
-                    p(tb.get("edition", "")),
-                    p(str(tb.get("sha256", "–"))[:16]),
+                    p(tb.title if tb else ""),
+                    p(tb.edition if tb else ""),
+                    p(tb.sha256[:16] if tb else MISSING),
                 ]
             )
         out.append(grid_table(rows, [130, 200, 100, WIDTH - 430]))
@@ -426,19 +343,30 @@ def sheet_section(sheet, node, findings, tables_by_name, heading) -> list:
 # ------------------------------------------------------------ schedules
 
 
-def _cell_text(col: str, v, decimals) -> str:
+def _cell_text(col: str, v, decimals, display: Display) -> str:
     if v is None or (isinstance(v, float) and math.isnan(v)):
         return ""
     if col == "status":
-        return STATUS_WORD.get(str(v).lower(), str(v))
-    if decimals is not None and isinstance(v, (int, float)) and not isinstance(v, bool):
-        return "∞" if math.isinf(v) else f"{v:,.{decimals}f}"
+        return status_word(v)
+    numeric = isinstance(v, (int, float)) and not isinstance(v, bool)
+    if col == "length_m" and numeric:
+        return display.length_figure(v)
+    if decimals is not None and numeric:
+        return fixed(v, decimals)
     if isinstance(v, float):
-        return fmt_num(v)
+        return number(v)
     return str(v)
 
 
-def schedule_table(circuits, panel_id: str = ""):
+def _column_header(col: str, display: Display) -> str:
+    if col == "length_m":
+        return f"{SCHEDULE_COLUMNS[col][0]} {display.length_unit}"
+    if col in SCHEDULE_COLUMNS:
+        return SCHEDULE_COLUMNS[col][0]
+    return figure_label(col)[0]
+
+
+def schedule_table(circuits, panel_id: str = "", display: Display = DEFAULT_DISPLAY):
     """Panel schedule as a table: known columns in a fixed order, others after
     (a column that only repeats the panel's id is left out). Rows flagged
     ``fail``/``warn`` carry the status word, a tint and a bar."""
@@ -451,9 +379,7 @@ def schedule_table(circuits, panel_id: str = ""):
     cols = [c for c in cols if not (panel_id and (circuits[c].astype(str) == panel_id).all())]
     weights = [SCHEDULE_COLUMNS.get(c, (c, 1.2, None))[1] for c in cols]
     scale = WIDTH / sum(weights)
-    rows = [
-        [p(SCHEDULE_COLUMNS.get(c, (node_figure(c, 0)[0], 0, None))[0], "schedb") for c in cols]
-    ]
+    rows = [[p(_column_header(c, display), "schedb") for c in cols]]
     statuses = []
     for rec in circuits.to_dict("records"):
         st = str(rec.get("status", "")).lower()
@@ -461,25 +387,19 @@ def schedule_table(circuits, panel_id: str = ""):
         row = []
         for c in cols:
             dec = SCHEDULE_COLUMNS.get(c, ("", 0, None))[2]
-            text = _cell_text(c, rec.get(c), dec)
-            bold = c == "status" and st in ("fail", "warn")
+            text = _cell_text(c, rec.get(c), dec, display)
+            bold = c == "status" and is_flagged(st)
             row.append(p(text, "schedb" if bold else "sched"))
         rows.append(row)
     sc = cols.index("status") if "status" in cols else None
     return grid_table(rows, [w * scale for w in weights], status_col=sc, statuses=statuses, pad=1.5)
 
 
-def _total(v) -> str:
-    if isinstance(v, float) and v.is_integer() and abs(v) < 1e15:
-        return f"{int(v):,}"
-    return fmt_num(v)
-
-
-def schedule_section(panel_id, schedule, heading) -> list:
+def schedule_section(panel_id, schedule, heading, display: Display = DEFAULT_DISPLAY) -> list:
     out = [heading(f"Panel schedule — {panel_id}", f"sched:{panel_id}", 1, "h1")]
     circuits = getattr(schedule, "circuits", None)
     if circuits is not None and len(circuits):
-        out.append(schedule_table(circuits, panel_id))
+        out.append(schedule_table(circuits, panel_id, display))
     else:
         out.append(p("No circuits in this schedule.", "body"))
     totals = getattr(schedule, "totals", None) or {}
@@ -491,7 +411,7 @@ def schedule_section(panel_id, schedule, heading) -> list:
                 label, _, unit = node_figure(str(k), v)
             else:
                 label, unit = str(k), ""
-            rows.append([p(label, "cellb"), p(_total(v)), p(unit)])
+            rows.append([p(label, "cellb"), p(whole_or_number(v)), p(unit)])
         t = grid_table(rows, [200, 110, 60], False)
         t.hAlign = "LEFT"
         out.append(t)
@@ -517,7 +437,7 @@ def methods_section(results, heading) -> list:
     return out
 
 
-def tables_section(results, meta_of, heading) -> list:
+def tables_section(results, heading) -> list:
     out = [heading("Table provenance", "tables", 0, "h1")]
     out.append(
         p(
@@ -527,18 +447,17 @@ def tables_section(results, meta_of, heading) -> list:
             "body",
         )
     )
-    for tb in results.tables:
-        meta = meta_of(tb.get("name", ""))
+    for tb in results.provenance:
         rows = [
-            ("Title", tb.get("title", "")),
-            ("Source", tb.get("source", "")),
-            ("Edition", tb.get("edition", "")),
-            ("Confidence", tb.get("confidence", "")),
-            ("Basis", meta.get("basis", "–")),
-            ("Conditions", meta.get("conditions", "–")),
-            ("Origin", f"{tb.get('origin', '')} copy, sha256 {tb.get('sha256', '')}"),
+            ("Title", tb.title),
+            ("Source", tb.source),
+            ("Edition", tb.edition),
+            ("Confidence", tb.confidence),
+            ("Basis", tb.basis or MISSING),
+            ("Conditions", tb.conditions or MISSING),
+            ("Origin", f"{tb.origin} copy, sha256 {tb.sha256}"),
         ]
-        out.append(p(tb.get("name", ""), "h2"))
+        out.append(p(tb.name, "h2"))
         out.append(grid_table([[p(a, "cellb"), p(b)] for a, b in rows], [80, WIDTH - 80], False))
     return out
 

@@ -1,0 +1,57 @@
+"""The terminal summary of ``feedcheck schedule`` (no computation here): per file its
+totals, its failing and warning circuits, its panel findings; then the count."""
+
+from __future__ import annotations
+
+from .. import CAUTION
+from .display import fixed, status_word
+
+
+def _kva(v) -> str:
+    return fixed(v, 1, 1e-3)
+
+
+def _totals_line(r, circuits: int, fails: int, warns: int) -> str:
+    t = r.totals
+    if "panels" in t:
+        return (
+            f"{r.path.name}: {t['panels']} panels, {circuits} circuits, {fails} fail, "
+            f"{warns} warn; connected {_kva(t['connected_va'])} kVA, demand "
+            f"{_kva(t['demand_va'])} kVA, worst imbalance "
+            f"{fixed(t['worst_imbalance_pct'], 1)} %  ({r.system})"
+        )
+    return (
+        f"{r.path.name}  panel {t['panel']}  {r.system}: {circuits} circuits, {fails} fail, "
+        f"{warns} warn; connected {_kva(t['connected_va'])} kVA, demand "
+        f"{_kva(t['demand_va'])} kVA (design {fixed(t['design_current_a'], 1)} A); "
+        f"phases A/B/C {_kva(t['phase_a_va'])}/{_kva(t['phase_b_va'])}/"
+        f"{_kva(t['phase_c_va'])} kVA, imbalance {fixed(t['imbalance_pct'], 1)} %"
+    )
+
+
+def render_schedule_summary(results, show_all: bool, shown_circuits: int = 20) -> str:
+    """Summary of checked schedules for a terminal; without ``show_all`` at most
+    ``shown_circuits`` failing or warning circuits per file are listed."""
+    lines = []
+    n_fail = n_warn = n_circ = 0
+    for r in results:
+        c = r.circuits
+        st = c["status"].to_numpy()
+        fails, warns = int((st == "fail").sum()), int((st == "warn").sum())
+        n_fail, n_warn, n_circ = n_fail + fails, n_warn + warns, n_circ + len(c)
+        lines.append(_totals_line(r, len(c), fails, warns))
+        bad = c[st != "ok"]
+        shown = bad if show_all else bad.head(shown_circuits)
+        for row in shown.itertuples(index=False):
+            word = status_word(row.status, loud=True)
+            lines.append(f"  {word:4}  {row.panel}/{row.circuit}  {row.reason}")
+        if len(bad) > len(shown):
+            lines.append(f"  … {len(bad) - len(shown)} more (--all lists them, --out saves all)")
+        panel_ids = set(r.panels["panel"])
+        for f in r.findings:
+            if f.status in ("fail", "warn") and f.subject in panel_ids:
+                word = status_word(f.status, loud=True)
+                lines.append(f"  {word:4}  {f.subject}  {f.check}: {f.note}")
+    lines.append(f"\n{len(results)} file(s), {n_circ} circuits: {n_fail} fail, {n_warn} warn")
+    lines.append(CAUTION)
+    return "\n".join(lines) + "\n"

@@ -1,0 +1,96 @@
+"""The terminal summary of ``feedcheck check`` (no computation here): node figures,
+schedule totals, failing and warning findings (all with ``--all``), assumptions."""
+
+from __future__ import annotations
+
+import io
+import textwrap
+
+from .. import CAUTION
+from ..results import Results
+from .display import (
+    FIGURES,
+    MISSING,
+    TERMINAL,
+    TERMINAL_FIGURES,
+    figure_cell,
+    fixed,
+    number,
+    status_word,
+)
+
+PHASE_KEYS = ("phase_a_va", "phase_b_va", "phase_c_va")
+
+
+def _node_table(results: Results) -> list[str]:
+    keys = [k for k in TERMINAL_FIGURES if any(k in n.values for n in results.nodes)]
+    header = ["node", "kind", "voltage", *[FIGURES[k].column for k in keys]]
+    rows = [
+        [n.id, n.kind, n.voltage, *[figure_cell(k, n.values.get(k)) for k in keys]]
+        for n in results.nodes
+    ]
+    widths = [max(len(str(r[i])) for r in [header, *rows]) for i in range(len(header))]
+    return [
+        "  ".join(
+            str(c).ljust(w) if i < 3 else str(c).rjust(w)
+            for i, (c, w) in enumerate(zip(r, widths, strict=True))
+        ).rstrip()
+        for r in [header, *rows]
+    ]
+
+
+def _phase_keys(results: Results, panel_id: str) -> tuple[str, ...]:
+    """Per-phase load keys of a panel: two on a single-phase system, three otherwise."""
+    node = next((n for n in results.nodes if n.id == panel_id), None)
+    return PHASE_KEYS[:2] if node is not None and node.phases == 1 else PHASE_KEYS
+
+
+def _schedule_line(results: Results, panel_id: str, totals: dict) -> str:
+    def kva(key: str) -> str:
+        return fixed(totals.get(key, 0), 1, 1e-3)
+
+    phases = "/".join(kva(k) for k in _phase_keys(results, panel_id) if k in totals)
+    return (
+        f"schedule {panel_id}: {int(totals.get('circuits', 0))} circuits, demand "
+        f"{kva('demand_va')} kVA (continuous at 125 %: {kva('design_va')} kVA), phases "
+        f"{phases} kVA, imbalance {fixed(totals.get('imbalance_pct', 0), 1)} %; "
+        f"{int(totals.get('fail_circuits', 0))} circuits fail, "
+        f"{int(totals.get('warn_circuits', 0))} warn"
+    )
+
+
+def _finding_lines(f) -> str:
+    fig = ""
+    if f.value is not None and isinstance(f.value, float):
+        fig = number(f.value, TERMINAL)
+        if f.limit is not None:
+            fig += f" vs {number(f.limit, TERMINAL)}"
+        fig += f" {f.unit}".rstrip()
+    head = f"{status_word(f.status):4}  {f.subject}  {f.check}: {fig}  [{f.rule_id}]\n"
+    note = textwrap.fill(f.note, width=96, initial_indent="      ", subsequent_indent="      ")
+    return head + note + "\n"
+
+
+def render_text(results: Results, show_all: bool = False) -> str:
+    """The summary as text for a terminal (``show_all``: passing and info findings too)."""
+    out = io.StringIO()
+    j = results.job_summary
+    out.write(f"{j['name']}  (rev {j['revision'] or MISSING}, rules {j['rules']})\n\n")
+    out.write("\n".join(_node_table(results)) + "\n\n")
+    for pid, sr in results.schedules.items():
+        out.write(_schedule_line(results, pid, sr.totals) + "\n")
+    if results.schedules:
+        out.write("\n")
+    for f in results.sorted_findings():
+        if show_all or f.status in ("fail", "warn"):
+            out.write(_finding_lines(f))
+    c = results.counts()
+    out.write(
+        f"\n{c['fail']} fail, {c['warn']} warn, {c['ok']} ok, {c['info']} info"
+        + ("" if show_all else "   (--all lists every finding)")
+        + "\n"
+    )
+    for a in results.assumptions:
+        out.write(f"assumed: {a}\n")
+    out.write(f"\n{CAUTION}\n")
+    return out.getvalue()

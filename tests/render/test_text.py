@@ -1,0 +1,63 @@
+"""The terminal summary reads everything from the results: a panel's phases come from
+its node, not from re-reading the voltage text."""
+
+from __future__ import annotations
+
+import re
+
+import pytest
+
+from feedcheck.render.text import render_text
+from feedcheck.runner import run_job
+
+
+def _phase_figures(text: str, panel: str) -> list[str]:
+    m = re.search(rf"schedule {panel}: .*?phases ([0-9.,/]+) kVA", text)
+    assert m, text
+    return m.group(1).split("/")
+
+
+@pytest.mark.parametrize(
+    ("job", "panel", "phases", "shown"),
+    [
+        ("maple_farmhouse.toml", "SHOP", 1, 2),  # 120/240 V: lines A and B
+        ("harbor_kitchen.toml", "LP1", 3, 3),  # 208Y/120 V: lines A, B and C
+    ],
+)
+def test_phase_loads_follow_the_node_phases(samples, monkeypatch, job, panel, phases, shown):
+    results = run_job(samples / job)
+    node = next(n for n in results.nodes if n.id == panel)
+    assert node.phases == phases
+
+    def no_parsing(*a, **k):
+        raise AssertionError("the text renderer parsed a voltage")
+
+    monkeypatch.setattr("feedcheck.units.parse_voltage_system", no_parsing)
+    assert len(_phase_figures(render_text(results), panel)) == shown
+
+
+def test_unlimited_source_fault_is_a_word_not_a_symbol(write_job):
+    job = write_job(
+        """
+[project]
+name = "Infinite bus (generated)"
+[source]
+voltage = "480 V delta"
+phases = 3
+available_fault = "infinite"
+x_r = 8
+[[transformer]]
+id = "T1"
+rating = "75 kVA"
+primary = "480 V delta"
+secondary = "208Y/120 V"
+impedance = "5 %"
+x_r = 4
+primary_device = "110 A"
+"""
+    )
+    results = run_job(job)
+    source = next(n for n in results.nodes if n.id == "source")
+    assert source.values.get("fault_max_a") == float("inf")
+    text = render_text(results, show_all=True)
+    assert "∞" not in text and not re.search(r"\binf\b", text) and "unlimited" in text
