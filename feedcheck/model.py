@@ -203,6 +203,7 @@ class Job:
     motors: tuple[Motor, ...] = ()
     options: Options = field(default_factory=Options)
     text: str = ""
+    file_sha256: str = ""  # of the job file's bytes as read
 
     def element(self, element_id: str):
         for coll in (self.transformers, self.runs, self.panels):

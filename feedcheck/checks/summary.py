@@ -8,8 +8,6 @@ they never go back to the job, the tables or the disk.
 
 from __future__ import annotations
 
-import hashlib
-
 from ..results import (
     Diagram,
     DiagramMotor,
@@ -18,7 +16,7 @@ from ..results import (
     Results,
     TableProvenance,
 )
-from ..tables import Table, load_table, table_names
+from ..tables import Table
 from .context import Context
 
 # today's reports show metres (feet beside them on the one-line diagram); a job's own
@@ -32,17 +30,11 @@ def describe_results(ctx: Context, results: Results) -> Results:
     for node in results.nodes:
         node.phases = tree.voltage_of[node.id].phases
     results.diagram = feed_diagram(ctx)
-    results.provenance = [table_provenance(load_table(name)) for name in table_names()]
-    results.job_sha256 = _file_sha256(ctx.job.path)
+    book = ctx.rules.tables
+    results.provenance = [table_provenance(book[name]) for name in sorted(book)]
+    results.job_sha256 = ctx.job.file_sha256
     results.length_unit = DEFAULT_LENGTH_UNIT
     return results
-
-
-def _file_sha256(path) -> str:
-    try:
-        return hashlib.sha256(path.read_bytes()).hexdigest()
-    except OSError:
-        return ""
 
 
 def _ratings(ctx: Context, node_id: str, kind: str) -> dict[str, float | str]:

@@ -9,6 +9,7 @@ tree, built once (``job.tree``).
 
 from __future__ import annotations
 
+import hashlib
 import math
 import re
 import tomllib
@@ -151,7 +152,8 @@ def read_job(path: str | Path) -> Job:
             line=int(m.group(1)) if m else None,
         )
         pl.raise_if_any()
-    return parse_job_data(data, text, p)
+    job = parse_job_data(data, text, p)
+    return replace(job, file_sha256=hashlib.sha256(raw).hexdigest())
 
 
 def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
