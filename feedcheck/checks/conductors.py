@@ -71,8 +71,8 @@ def _next_passing(
     return next_passing(ctx, run, RunDuty(cont, non, device, cc, rooftop_c))
 
 
-def check_run(ctx: Context, run: Run) -> None:
-    tree = ctx.tree
+def _run_sheet(ctx: Context, run: Run):
+    """The run's calculation sheet with its inputs."""
     sh = ctx.sheet(run.id, "run", f"Run {run.id} ({run.from_id} → {run.to_id})")
     sh.inputs += [
         ("From → to", f"{run.from_id} → {run.to_id}"),
@@ -104,9 +104,13 @@ def check_run(ctx: Context, run: Run) -> None:
         "egc_size",
         "conductor_impedance_table9",
     )
-    cont, non, _pf = _loads(ctx, run)
-    device, where = run_device(ctx.job, run)
-    if tree.kind[run.from_id] == "transformer" and device is not None:
+    return sh
+
+
+def _device_source(ctx: Context, run: Run, sh, device: float | None, where: str) -> None:
+    """Say which device protects the run when it is not the run's own
+    (:func:`~feedcheck.checks.taps.run_device`)."""
+    if ctx.tree.kind[run.from_id] == "transformer" and device is not None:
         ctx.add(
             run.id,
             "secondary conductor protection",
@@ -129,7 +133,10 @@ def check_run(ctx: Context, run: Run) -> None:
             device,
             "A",
         )
-    cc = run.current_carrying + (1 if run.harmonic_neutral else 0)
+
+
+def _rooftop_c(ctx: Context, run: Run, sh) -> float:
+    """Rooftop raceway temperature adder [°C] (0 when the run is not on a roof)."""
     rooftop_c, rooftop_rule = 0.0, ""
     if run.rooftop_mm is not None:
         rooftop_c, rooftop_rule = ak.rooftop_adder_c(
@@ -143,6 +150,96 @@ def check_run(ctx: Context, run: Run) -> None:
             "°C",
             rooftop_rule,
         )
+    return rooftop_c
+
+
+def _termination_c(run: Run, sh, device: float | None, load_a: float) -> float:
+    """Terminal temperature column: the job's, else the 110.14(C)(1) rule."""
+    term = run.termination_c
+    if term is None:
+        basis = device if device is not None else load_a
+        term = float(ak.termination_c_for(basis, run.size.name))
+        sh.step(
+            "Termination temperature column",
+            "110.14(C)(1): ≤ 100 A or 14–1 AWG → 60 °C, else 75 °C",
+            f"circuit {basis:.0f} A, {run.size.name}",
+            term,
+            "°C",
+            "term-60c-100a" if term == 60 else "term-75c-over-100a",
+        )
+    return term
+
+
+def _check_device(ctx: Context, run: Run, device: float, ampacity_a: float, cont: float,
+                  non: float, fix_text) -> None:
+    """Device against the load (215.3) and the conductors (240.4)."""
+    need = float(pk.device_min_for_load_a(cont, non, tables=ctx.rules.protection))
+    ok = passes(device, need, "at_least")
+    ctx.compare(
+        run.id,
+        "device vs load",
+        device,
+        need,
+        "A",
+        "at_least",
+        "run-device-load",
+        f"{device:g} A device for {100 * ctx.rules.protection.continuous_factor:g} % × "
+        f"{cont:.1f} + {non:.1f} A"
+        f" = {need:.1f} A" + ("" if ok else "; a larger device (and conductors) needed"),
+    )
+    prot = pk.conductor_protection(
+        device, ampacity_a, run.size.name, run.material, tables=ctx.rules.protection
+    )
+    ctx.add(
+        run.id,
+        "device protects conductors",
+        device,
+        prot.max_device_a,
+        "A",
+        "ok" if prot.ok else "fail",
+        prot.rule_id,
+        prot.note + ("" if prot.ok else "; " + fix_text()),
+    )
+
+
+def _check_ampacity(ctx: Context, run: Run, chain, load_a: float, fix_text) -> None:
+    """Ampacity before and after corrections against the load (215.2(A)(1))."""
+    # load before and after corrections (215.2(A)(1))
+    ok = chain.ok_before
+    before_a = min(chain.base_per_set_a * chain.sets, chain.termination_cap_a)
+    ctx.add(
+        run.id,
+        "ampacity vs 125 % continuous + noncontinuous",
+        chain.required_before_a,
+        before_a,
+        "A",
+        "ok" if ok else "fail",
+        "run-ampacity-before",
+        f"needs {chain.required_before_a:.1f} A before corrections"
+        + ("" if ok else "; " + fix_text()),
+    )
+    ok = chain.ok_after
+    ctx.add(
+        run.id,
+        "allowable ampacity vs load",
+        load_a,
+        chain.final_a,
+        "A",
+        "ok" if ok else "fail",
+        "run-ampacity-after",
+        f"allowable {chain.final_a:.1f} A ({chain.governed_by} governs) for "
+        f"{load_a:.1f} A of load" + ("" if ok else "; " + fix_text()),
+    )
+
+
+def check_run(ctx: Context, run: Run) -> None:
+    tree = ctx.tree
+    sh = _run_sheet(ctx, run)
+    cont, non, _pf = _loads(ctx, run)
+    device, where = run_device(ctx.job, run)
+    _device_source(ctx, run, sh, device, where)
+    cc = run.current_carrying + (1 if run.harmonic_neutral else 0)
+    rooftop_c = _rooftop_c(ctx, run, sh)
     if run.sets > 1 and run.size.area_kcmil < SIZES["1/0 AWG"].area_kcmil * (1 - 1e-9):
         ctx.add(
             run.id,
@@ -155,18 +252,7 @@ def check_run(ctx: Context, run: Run) -> None:
             f"{run.sets} sets of {run.size.name}: conductors in parallel must be 1/0 AWG or larger",
         )
         return
-    term = run.termination_c
-    if term is None:
-        basis = device if device is not None else cont + non
-        term = float(ak.termination_c_for(basis, run.size.name))
-        sh.step(
-            "Termination temperature column",
-            "110.14(C)(1): ≤ 100 A or 14–1 AWG → 60 °C, else 75 °C",
-            f"circuit {basis:.0f} A, {run.size.name}",
-            term,
-            "°C",
-            "term-60c-100a" if term == 60 else "term-75c-over-100a",
-        )
+    term = _termination_c(run, sh, device, cont + non)
     try:
         chain = ak.ampacity_chain(
             run.size.name,
@@ -203,60 +289,9 @@ def check_run(ctx: Context, run: Run) -> None:
             fix = _next_passing(ctx, run, cont, non, device, run.termination_c, cc, rooftop_c)
         return fix
 
-    # load before and after corrections (215.2(A)(1))
-    ok = chain.ok_before
-    before_a = min(chain.base_per_set_a * chain.sets, chain.termination_cap_a)
-    ctx.add(
-        run.id,
-        "ampacity vs 125 % continuous + noncontinuous",
-        chain.required_before_a,
-        before_a,
-        "A",
-        "ok" if ok else "fail",
-        "run-ampacity-before",
-        f"needs {chain.required_before_a:.1f} A before corrections"
-        + ("" if ok else "; " + fix_text()),
-    )
-    ok = chain.ok_after
-    ctx.add(
-        run.id,
-        "allowable ampacity vs load",
-        cont + non,
-        chain.final_a,
-        "A",
-        "ok" if ok else "fail",
-        "run-ampacity-after",
-        f"allowable {chain.final_a:.1f} A ({chain.governed_by} governs) for "
-        f"{cont + non:.1f} A of load" + ("" if ok else "; " + fix_text()),
-    )
+    _check_ampacity(ctx, run, chain, cont + non, fix_text)
     if device is not None:
-        need = float(pk.device_min_for_load_a(cont, non, tables=ctx.rules.protection))
-        ok = passes(device, need, "at_least")
-        ctx.compare(
-            run.id,
-            "device vs load",
-            device,
-            need,
-            "A",
-            "at_least",
-            "run-device-load",
-            f"{device:g} A device for {100 * ctx.rules.protection.continuous_factor:g} % × "
-            f"{cont:.1f} + {non:.1f} A"
-            f" = {need:.1f} A" + ("" if ok else "; a larger device (and conductors) needed"),
-        )
-        prot = pk.conductor_protection(
-            device, chain.final_a, run.size.name, run.material, tables=ctx.rules.protection
-        )
-        ctx.add(
-            run.id,
-            "device protects conductors",
-            device,
-            prot.max_device_a,
-            "A",
-            "ok" if prot.ok else "fail",
-            prot.rule_id,
-            prot.note + ("" if prot.ok else "; " + fix_text()),
-        )
+        _check_device(ctx, run, device, chain.final_a, cont, non, fix_text)
         _check_egc(ctx, run, device, cont, non, term, cc, rooftop_c)
     else:
         check_unprotected_run(ctx, run, chain.final_a)
