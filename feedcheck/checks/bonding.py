@@ -24,6 +24,11 @@ def _table(ctx: Context) -> bk.JumperTable:
 def check_sds_conductors(ctx: Context, run: Run) -> None:
     """Size the supply-side bonding jumper and grounded conductor of secondary conductors
     leaving the transformer without a device, and check the sizes the job states."""
+    ctx.method(
+        "Supply-side bonding jumper and grounded conductor of a separately derived system "
+        "by the largest ungrounded conductor (12.5 % of its area above the table)",
+        "NFPA 70-2023 250.30(A)(2), (A)(3), 250.102(C), Table 250.102(C)(1)",
+    )
     try:
         need = bk.supply_side_jumper_size(run.size.area_kcmil, 1, run.material, _table(ctx))
     except ValueError as exc:

@@ -104,6 +104,7 @@ def check_panel_protection(ctx: Context, p: Panel) -> None:
         return
     from .taps import bus_device
 
+    ctx.method("Panelboard protected by a device rated at most its bus", "NFPA 70-2023 408.36")
     device, what = bus_device(ctx.job, p.id)
     if device is None:
         ctx.add(p.id, "bus protection", None, p.rating_a, "A", "fail", "panel-bus-protection",

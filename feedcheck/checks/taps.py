@@ -84,6 +84,11 @@ def feeder_device(job: Job, run: Run) -> tuple[float | None, str]:
 def check_unprotected_run(ctx: Context, run: Run, ampacity_a: float) -> None:
     """A run with no device protecting it (:func:`run_device` gives none): a declared
     tap rule and all its conditions, or a failure of 240.21."""
+    ctx.method(
+        "Conductors without a device at their supply: declared tap rule, length, ampacity "
+        "against the feeder (or primary) device share, one device at the end",
+        "NFPA 70-2023 240.21, 240.21(B)(1), (B)(2), (C)(2), (C)(6)",
+    )
     if run.tap_rule in SECONDARY_TAPS or (
         not run.tap_rule and ctx.tree.kind.get(run.from_id) == "transformer"
     ):
