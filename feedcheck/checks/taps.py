@@ -89,9 +89,22 @@ def check_unprotected_run(ctx: Context, run: Run, ampacity_a: float) -> None:
         "against the feeder (or primary) device share, one device at the end",
         "NFPA 70-2023 240.21, 240.21(B)(1), (B)(2), (C)(2), (C)(6)",
     )
-    if run.tap_rule in SECONDARY_TAPS or (
-        not run.tap_rule and ctx.tree.kind.get(run.from_id) == "transformer"
-    ):
+    from_transformer = ctx.tree.kind.get(run.from_id) == "transformer"
+    if run.tap_rule in FEEDER_TAPS and from_transformer:
+        ctx.add(
+            run.id,
+            "overcurrent protection",
+            None,
+            None,
+            "A",
+            "fail",
+            "feeder-unprotected",
+            f"tap_rule = '{run.tap_rule}' is a feeder tap rule (240.21(B)); conductors from "
+            f"the transformer secondary are under 240.21(C): declare 'transformer secondary "
+            f"{run.tap_rule}' or give the run's device",
+        )
+        return
+    if run.tap_rule in SECONDARY_TAPS or (not run.tap_rule and from_transformer):
         from .secondary import check_secondary_arrangement
 
         check_secondary_arrangement(ctx, run, ampacity_a)

@@ -346,3 +346,12 @@ def test_suggested_size_passes_every_check_when_substituted(write_job):
     bad = [(c, x["status"]) for c, x in checks_of(fixed, "S").items()
            if x["status"] == "fail" and not c.startswith("voltage")]
     assert bad == []
+
+
+def test_feeder_tap_rule_on_secondary_conductors_fails(write_job):
+    # NFPA 70-2023 240.21(B) covers taps from a feeder; transformer secondary conductors
+    # are under 240.21(C) (the feeder-tap fractions do not apply to them)
+    _, doc = check(write_job, secondary(extra='tap_rule = "10 ft"'))
+    f = finding(doc, "S", "overcurrent protection")
+    assert (f["status"], f["rule_id"]) == ("fail", "feeder-unprotected")
+    assert "transformer secondary 10 ft" in f["note"]
