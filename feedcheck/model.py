@@ -32,6 +32,9 @@ LOAD_KINDS = ("lighting", "receptacle", "motor", "heating", "other")  # schedule
 SYSTEM_KINDS = ("wye", "delta", "split", "single", "line")
 VOLTAGE_DROP_MODES = ("recommended", "mandatory")
 VOLTAGE_FACTORS = ("none", "iec60909")
+# tap rules a run without an overcurrent device may be built under (run key tap_rule):
+# NFPA 70 240.21(B)(1), (B)(2), (C)(2), (C)(6)
+TAP_RULES = ("10 ft", "25 ft", "transformer secondary 10 ft", "transformer secondary 25 ft")
 
 
 @dataclass(frozen=True)
@@ -129,6 +132,16 @@ class Run:
     rooftop_mm: float | None = None  # raceway height above a sunlit roof [mm]
     harmonic_neutral: bool = False
     clearing_s: float | None = None
+    # issue 12 (protection): the tap rule a run without a device is built under (one of
+    # TAP_RULES, "" when none is declared), the insulation type name when the job gives
+    # one ("" when only a temperature), and the supply-side bonding jumper and grounded
+    # conductor of transformer secondary conductors (None when not stated)
+    tap_rule: str = ""
+    insulation_type: str = ""
+    bonding_jumper: Size | None = None
+    bonding_jumper_material: str = "cu"
+    neutral: Size | None = None
+    neutral_material: str = "cu"
 
 
 @dataclass(frozen=True)

@@ -40,7 +40,7 @@ to = "LP1"                     # what it feeds: a panel (or a transformer primar
 length = "95 ft"
 conductors = "4/0 AWG Cu"      # size and material: "250 kcmil Al", "95 mm2 Cu"
 sets = 1                       # parallel sets per phase
-insulation = "75 degC"         # 60, 75 or 90 degC
+insulation = "75 degC"         # 60, 75 or 90 degC, or a type: "THHN", "XHHW-2", "THWN-2"
 raceway = "steel"              # steel | aluminum | pvc | cable | free-air
 ambient = "30 degC"
 current_carrying = 3           # current-carrying conductors in the raceway or cable
@@ -50,6 +50,10 @@ device = "250 A"               # device at the sending end protecting this run
 # clearing_time = "0.05 s"     # optional: device clearing time for the withstand check
 # rooftop_height = "0.5 in"    # optional: raceway height above a sunlit roof
 # harmonic_neutral = false     # optional: count the neutral as current-carrying
+# tap_rule = "10 ft"           # only for a run with no device: "10 ft", "25 ft",
+#                              # "transformer secondary 10 ft" or "transformer secondary 25 ft"
+# bonding_jumper = "2 AWG Cu"  # secondary conductors without a device: supply-side bonding
+# neutral = "4/0 AWG Cu"       # jumper and grounded conductor (250.30(A)(2), (A)(3))
 
 [[panel]]
 id = "LP1"

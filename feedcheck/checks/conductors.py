@@ -7,13 +7,16 @@ from __future__ import annotations
 from ..calc import ampacity as ak
 from ..calc import protection as pk
 from ..calc import selection as sk
-from ..calc import withstand as wk
-from ..calc.constants import M_PER_FT, SQRT3
+from ..calc.constants import M_PER_FT
 from ..calc.power import current_from_apparent_power_a
 from ..calc.sizes import SIZES
 from ..model import Run
+from .bonding import check_sds_conductors
 from .compare import passes
 from .context import Context
+from .run_fix import RunDuty, next_passing
+from .taps import check_unprotected_run, run_device
+from .withstand import check_withstand
 
 
 def _loads(ctx: Context, run: Run) -> tuple[float, float, float]:
@@ -63,15 +66,13 @@ def _next_passing(
     cc: int,
     rooftop_c: float,
 ) -> str:
-    try:
-        sel = _select(ctx, run, cont, non, device, term, cc, rooftop_c)
-    except ValueError as exc:
-        return f"no size found with {run.sets} set(s): {exc}"
-    return f"next size that passes: {sel.size} {run.material.capitalize()} ({sel.governing})"
+    """The size (and device) with which every conductor check of the run passes,
+    verified by re-running them (:mod:`feedcheck.checks.run_fix`)."""
+    return next_passing(ctx, run, RunDuty(cont, non, device, cc, rooftop_c))
 
 
-def check_run(ctx: Context, run: Run) -> None:
-    tree = ctx.tree
+def _run_sheet(ctx: Context, run: Run):
+    """The run's calculation sheet with its inputs."""
     sh = ctx.sheet(run.id, "run", f"Run {run.id} ({run.from_id} → {run.to_id})")
     sh.inputs += [
         ("From → to", f"{run.from_id} → {run.to_id}"),
@@ -93,6 +94,8 @@ def check_run(ctx: Context, run: Run) -> None:
         ),
         ("Device at the sending end", f"{run.device_a:g} A" if run.device_a else "none"),
     ]
+    if run.tap_rule:
+        sh.inputs.append(("Tap rule declared", run.tap_rule))
     sh.uses(
         "ampacity_raceway",
         "adjustment_factors",
@@ -101,9 +104,39 @@ def check_run(ctx: Context, run: Run) -> None:
         "egc_size",
         "conductor_impedance_table9",
     )
-    cont, non, _pf = _loads(ctx, run)
-    device = run.device_a
-    cc = run.current_carrying + (1 if run.harmonic_neutral else 0)
+    return sh
+
+
+def _device_source(ctx: Context, run: Run, sh, device: float | None, where: str) -> None:
+    """Say which device protects the run when it is not the run's own
+    (:func:`~feedcheck.checks.taps.run_device`)."""
+    if ctx.tree.kind[run.from_id] == "transformer" and device is not None:
+        ctx.add(
+            run.id,
+            "secondary conductor protection",
+            device,
+            None,
+            "A",
+            "info",
+            "run-device-protects",
+            "secondary conductors protected by a device at the transformer (checked as a "
+            "feeder)"
+            + ("" if where == "run" else ": the transformer's secondary_device, taken at "
+               "its secondary terminals (declare tap_rule if it sits where they end)"),
+        )
+    if where in ("transformer primary", "transformer secondary"):
+        sh.step(
+            "Device protecting the run",
+            f"no device of its own: the transformer's {where.split()[1]} device, taken at "
+            "the run's supply end (declare tap_rule if the run is a tap)",
+            where,
+            device,
+            "A",
+        )
+
+
+def _rooftop_c(ctx: Context, run: Run, sh) -> float:
+    """Rooftop raceway temperature adder [°C] (0 when the run is not on a roof)."""
     rooftop_c, rooftop_rule = 0.0, ""
     if run.rooftop_mm is not None:
         rooftop_c, rooftop_rule = ak.rooftop_adder_c(
@@ -117,6 +150,96 @@ def check_run(ctx: Context, run: Run) -> None:
             "°C",
             rooftop_rule,
         )
+    return rooftop_c
+
+
+def _termination_c(run: Run, sh, device: float | None, load_a: float) -> float:
+    """Terminal temperature column: the job's, else the 110.14(C)(1) rule."""
+    term = run.termination_c
+    if term is None:
+        basis = device if device is not None else load_a
+        term = float(ak.termination_c_for(basis, run.size.name))
+        sh.step(
+            "Termination temperature column",
+            "110.14(C)(1): ≤ 100 A or 14–1 AWG → 60 °C, else 75 °C",
+            f"circuit {basis:.0f} A, {run.size.name}",
+            term,
+            "°C",
+            "term-60c-100a" if term == 60 else "term-75c-over-100a",
+        )
+    return term
+
+
+def _check_device(ctx: Context, run: Run, device: float, ampacity_a: float, cont: float,
+                  non: float, fix_text) -> None:
+    """Device against the load (215.3) and the conductors (240.4)."""
+    need = float(pk.device_min_for_load_a(cont, non, tables=ctx.rules.protection))
+    ok = passes(device, need, "at_least")
+    ctx.compare(
+        run.id,
+        "device vs load",
+        device,
+        need,
+        "A",
+        "at_least",
+        "run-device-load",
+        f"{device:g} A device for {100 * ctx.rules.protection.continuous_factor:g} % × "
+        f"{cont:.1f} + {non:.1f} A"
+        f" = {need:.1f} A" + ("" if ok else "; a larger device (and conductors) needed"),
+    )
+    prot = pk.conductor_protection(
+        device, ampacity_a, run.size.name, run.material, tables=ctx.rules.protection
+    )
+    ctx.add(
+        run.id,
+        "device protects conductors",
+        device,
+        prot.max_device_a,
+        "A",
+        "ok" if prot.ok else "fail",
+        prot.rule_id,
+        prot.note + ("" if prot.ok else "; " + fix_text()),
+    )
+
+
+def _check_ampacity(ctx: Context, run: Run, chain, load_a: float, fix_text) -> None:
+    """Ampacity before and after corrections against the load (215.2(A)(1))."""
+    # load before and after corrections (215.2(A)(1))
+    ok = chain.ok_before
+    before_a = min(chain.base_per_set_a * chain.sets, chain.termination_cap_a)
+    ctx.add(
+        run.id,
+        "ampacity vs 125 % continuous + noncontinuous",
+        chain.required_before_a,
+        before_a,
+        "A",
+        "ok" if ok else "fail",
+        "run-ampacity-before",
+        f"needs {chain.required_before_a:.1f} A before corrections"
+        + ("" if ok else "; " + fix_text()),
+    )
+    ok = chain.ok_after
+    ctx.add(
+        run.id,
+        "allowable ampacity vs load",
+        load_a,
+        chain.final_a,
+        "A",
+        "ok" if ok else "fail",
+        "run-ampacity-after",
+        f"allowable {chain.final_a:.1f} A ({chain.governed_by} governs) for "
+        f"{load_a:.1f} A of load" + ("" if ok else "; " + fix_text()),
+    )
+
+
+def check_run(ctx: Context, run: Run) -> None:
+    tree = ctx.tree
+    sh = _run_sheet(ctx, run)
+    cont, non, _pf = _loads(ctx, run)
+    device, where = run_device(ctx.job, run)
+    _device_source(ctx, run, sh, device, where)
+    cc = run.current_carrying + (1 if run.harmonic_neutral else 0)
+    rooftop_c = _rooftop_c(ctx, run, sh)
     if run.sets > 1 and run.size.area_kcmil < SIZES["1/0 AWG"].area_kcmil * (1 - 1e-9):
         ctx.add(
             run.id,
@@ -129,18 +252,7 @@ def check_run(ctx: Context, run: Run) -> None:
             f"{run.sets} sets of {run.size.name}: conductors in parallel must be 1/0 AWG or larger",
         )
         return
-    term = run.termination_c
-    if term is None:
-        basis = device if device is not None else cont + non
-        term = float(ak.termination_c_for(basis, run.size.name))
-        sh.step(
-            "Termination temperature column",
-            "110.14(C)(1): ≤ 100 A or 14–1 AWG → 60 °C, else 75 °C",
-            f"circuit {basis:.0f} A, {run.size.name}",
-            term,
-            "°C",
-            "term-60c-100a" if term == 60 else "term-75c-over-100a",
-        )
+    term = _termination_c(run, sh, device, cont + non)
     try:
         chain = ak.ampacity_chain(
             run.size.name,
@@ -177,64 +289,15 @@ def check_run(ctx: Context, run: Run) -> None:
             fix = _next_passing(ctx, run, cont, non, device, run.termination_c, cc, rooftop_c)
         return fix
 
-    # load before and after corrections (215.2(A)(1))
-    ok = chain.ok_before
-    before_a = min(chain.base_per_set_a * chain.sets, chain.termination_cap_a)
-    ctx.add(
-        run.id,
-        "ampacity vs 125 % continuous + noncontinuous",
-        chain.required_before_a,
-        before_a,
-        "A",
-        "ok" if ok else "fail",
-        "run-ampacity-before",
-        f"needs {chain.required_before_a:.1f} A before corrections"
-        + ("" if ok else "; " + fix_text()),
-    )
-    ok = chain.ok_after
-    ctx.add(
-        run.id,
-        "allowable ampacity vs load",
-        cont + non,
-        chain.final_a,
-        "A",
-        "ok" if ok else "fail",
-        "run-ampacity-after",
-        f"allowable {chain.final_a:.1f} A ({chain.governed_by} governs) for "
-        f"{cont + non:.1f} A of load" + ("" if ok else "; " + fix_text()),
-    )
+    _check_ampacity(ctx, run, chain, cont + non, fix_text)
     if device is not None:
-        need = float(pk.device_min_for_load_a(cont, non, tables=ctx.rules.protection))
-        ok = passes(device, need, "at_least")
-        ctx.compare(
-            run.id,
-            "device vs load",
-            device,
-            need,
-            "A",
-            "at_least",
-            "run-device-load",
-            f"{device:g} A device for {100 * ctx.rules.protection.continuous_factor:g} % × "
-            f"{cont:.1f} + {non:.1f} A"
-            f" = {need:.1f} A" + ("" if ok else "; a larger device (and conductors) needed"),
-        )
-        prot = pk.conductor_protection(
-            device, chain.final_a, run.size.name, run.material, tables=ctx.rules.protection
-        )
-        ctx.add(
-            run.id,
-            "device protects conductors",
-            device,
-            prot.max_device_a,
-            "A",
-            "ok" if prot.ok else "fail",
-            prot.rule_id,
-            prot.note + ("" if prot.ok else "; " + fix_text()),
-        )
+        _check_device(ctx, run, device, chain.final_a, cont, non, fix_text)
         _check_egc(ctx, run, device, cont, non, term, cc, rooftop_c)
-    _check_withstand(ctx, run)
-    if tree.kind[run.from_id] == "transformer":
-        _check_secondary_arrangement(ctx, run, chain.final_a)
+    else:
+        check_unprotected_run(ctx, run, chain.final_a)
+        if tree.kind[run.from_id] == "transformer":
+            check_sds_conductors(ctx, run)
+    check_withstand(ctx, run, cont + non, chain.corrected_a)
 
 
 def _check_egc(ctx, run, device, cont, non, term, cc, rooftop_c) -> None:
@@ -285,147 +348,3 @@ def _check_egc(ctx, run, device, cont, non, term, cc, rooftop_c) -> None:
         "",
         "run-egc-size",
     )
-
-
-def _check_withstand(ctx, run) -> None:
-    up = ctx.nodes[run.from_id].values.get("fault_max_a")
-    if up is None:
-        return
-    t = run.clearing_s or ctx.rules.rule("withstand-clearing-default").number("limit")
-    if run.clearing_s is None:
-        ctx.assume(
-            f"Withstand checks use a clearing time of {t:g} s where the job gives none "
-            "(common practice; state the device's actual clearing time)."
-        )
-    insulation = "thermoset" if run.insulation_c >= 90 else "thermoplastic"
-    for role, size, material in (
-        ("line", run.size, run.material),
-        ("protective", run.ground, run.ground_material),
-    ):
-        if size is None:
-            continue
-        k = wk.k_constant(insulation, material, role, size.area_mm2, data=ctx.rules.withstand)
-        area_total = size.area_mm2 * run.sets
-        i_w = float(wk.withstand_current_a(area_total, t, k.k))
-        ok = passes(up, i_w, "at_most", 0.0)
-        what = "phase conductors" if role == "line" else "grounding conductor"
-        ctx.compare(
-            run.id,
-            f"withstand, {what}",
-            up,
-            i_w,
-            "A",
-            "at_most",
-            "run-withstand",
-            f"{what} withstand {i_w / 1000:,.1f} kA for {t:g} s "
-            f"(k = {k.k:g}, {insulation}, {k.rule_id}) vs {up / 1000:,.2f} kA available at "
-            "the sending end" + ("" if ok else "; a faster device or larger conductor"),
-            fail_status="warn",
-            tolerance=0.0,
-        )
-    ctx.method(
-        "Short-circuit withstand, adiabatic I²t = k²S²",
-        "IEC 60364-4-43 434.5.2; IEC 60364-5-54 Annex A; IEC 60949",
-    )
-
-
-def _secondary_need_text(
-    primary_a: float, ratio: float, divisor: float, by_ratio: float, end_a, with_end: bool
-) -> str:
-    """How the 240.21(C) required ampacity was found, with the figures actually used."""
-    part = (
-        f"primary device {primary_a:g} A × voltage ratio {ratio:.3f} ÷ {divisor:g}"
-        f" = {by_ratio:.1f} A"
-    )
-    if with_end and end_a is not None:
-        return f"the larger of {part} and the end device {end_a:g} A"
-    return part
-
-
-def _check_secondary_arrangement(ctx, run, ampacity: float) -> None:
-    """Transformer secondary conductors without a device at the transformer: the 10 ft
-    and 25 ft arrangements of 240.21(C)(2) and (C)(6)."""
-    t = next(x for x in ctx.job.transformers if x.id == run.from_id)
-    if run.device_a is not None:
-        ctx.add(
-            run.id,
-            "secondary conductor protection",
-            run.device_a,
-            None,
-            "A",
-            "info",
-            "run-device-protects",
-            "secondary conductors protected by a device at the transformer (checked as a feeder)",
-        )
-        return
-    ratio = t.primary.line_v / t.secondary.line_v
-    rules = ctx.rules
-    ten_m = rules.rule("xfmr-secondary-10ft").number("limit")
-    tw5_m = rules.rule("xfmr-secondary-25ft").number("limit")
-    panel = next((p for p in ctx.job.panels if p.id == run.to_id), None)
-    end_device = panel.main_device_a if panel else None
-    # 240.21(C)(2)(1)(b) and (C)(6)(1): ampacity at least a share (in %) of the primary
-    # device times the voltage ratio, the shares read from their rule rows
-    if run.length_m <= ten_m + 1e-9:
-        share_pct = rules.rule("xfmr-secondary-10ft-ratio").number("limit")
-        divisor = 100.0 / share_pct
-        by_ratio = t.primary_device_a * ratio / divisor
-        need = max(by_ratio, end_device or 0.0)
-        rid, label = "xfmr-secondary-10ft", f"{ten_m / M_PER_FT:.0f} ft"
-    elif run.length_m <= tw5_m + 1e-9:
-        share_pct = rules.rule("xfmr-secondary-25ft-ratio").number("limit")
-        divisor = 100.0 / share_pct
-        by_ratio = t.primary_device_a * ratio / divisor
-        need = by_ratio
-        rid, label = "xfmr-secondary-25ft", f"{tw5_m / M_PER_FT:.0f} ft"
-    else:
-        ctx.add(
-            run.id,
-            "secondary conductor length",
-            run.length_m,
-            tw5_m,
-            "m",
-            "fail",
-            "xfmr-secondary-25ft",
-            f"{run.length_m / M_PER_FT:,.0f} ft of secondary conductors with no device at "
-            f"the transformer: more than {tw5_m / M_PER_FT:.0f} ft needs a device at the "
-            "transformer",
-        )
-        return
-    ctx.compare(
-        run.id,
-        f"secondary conductors ({label} arrangement)",
-        ampacity,
-        need,
-        "A",
-        "at_least",
-        rid,
-        f"ampacity {ampacity:.0f} A vs required {need:.0f} A: "
-        + _secondary_need_text(
-            t.primary_device_a, ratio, divisor, by_ratio, end_device, rid == "xfmr-secondary-10ft"
-        ),
-    )
-    if end_device is None:
-        ctx.add(
-            run.id,
-            "secondary conductors end in one device",
-            None,
-            None,
-            "",
-            "fail",
-            "xfmr-secondary-end-device",
-            f"{run.to_id} has no main device; secondary "
-            "conductors without protection at the transformer must end in one device",
-        )
-    else:
-        end_pct = rules.rule("xfmr-secondary-end-device").number("limit")
-        ctx.compare(
-            run.id,
-            "secondary conductors end in one device",
-            end_device,
-            ampacity * end_pct / 100.0,
-            "A",
-            "at_most",
-            "xfmr-secondary-end-device",
-            f"main device {end_device:g} A vs conductor ampacity {ampacity:.0f} A",
-        )

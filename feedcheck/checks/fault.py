@@ -24,6 +24,7 @@ from .impedance import (
     run_return_impedance_ohm,
     source_impedance,
 )
+from .taps import run_device
 
 
 def _kA(a: float) -> str:
@@ -445,15 +446,12 @@ def _pickup(ctx, device_a: float, given: float | None) -> tuple[float, float, st
 def _instantaneous_checks(ctx, fa, lg_min, pos, z1_total, z0_total) -> None:
     """Does the device feeding each panel trip instantaneously for a far-end ground fault?"""
     job, tree = ctx.job, ctx.tree
-    tx = {t.id: t for t in job.transformers}
     for p in job.panels:
         if p.id not in lg_min:
             continue
         run = tree.parent_run[p.id]
         up = tree.parent_node[p.id]
-        device = run.device_a
-        if device is None and up in tx:
-            device = tx[up].secondary_device_a
+        device, _where = run_device(job, run)  # the one rule of checks/taps.py
         if device is None:
             continue
         mult, tol, rid = _pickup(ctx, device, p.instantaneous_a)

@@ -19,6 +19,7 @@ def check_panel(ctx: Context, p: Panel) -> None:
             f"{p.interrupting_a / 1000:g} kA" if p.interrupting_a else "not given",
         ),
     ]
+    check_panel_protection(ctx, p)
     load = ctx.loads[p.id]
     if load.va <= 0:
         ctx.add(
@@ -88,6 +89,34 @@ def check_panel(ctx: Context, p: Panel) -> None:
             "panel-main-bus",
             f"main device {p.main_device_a:g} A on a {p.rating_a:g} A bus",
         )
+
+
+def check_panel_protection(ctx: Context, p: Panel) -> None:
+    """NFPA 70-2023 408.36: the device protecting the bus (the panel's main, or the device
+    protecting the run into it, :func:`~feedcheck.checks.taps.bus_device`) rated at most
+    the bus. A panel with a main and a load is held by ``check_panel``'s "main device vs
+    bus" finding; this covers main-lugs panels and panels without a load."""
+    if p.main_device_a is not None:
+        if ctx.loads[p.id].va <= 0:
+            ctx.compare(p.id, "main device vs bus", p.main_device_a, p.rating_a, "A",
+                        "at_most", "panel-main-bus",
+                        f"main device {p.main_device_a:g} A on a {p.rating_a:g} A bus")
+        return
+    from .taps import bus_device
+
+    ctx.method("Panelboard protected by a device rated at most its bus", "NFPA 70-2023 408.36")
+    device, what = bus_device(ctx.job, p.id)
+    if device is None:
+        ctx.add(p.id, "bus protection", None, p.rating_a, "A", "fail", "panel-bus-protection",
+                f"main-lugs panel {p.id} with {what}: a panelboard is protected by a "
+                f"device rated at most its {p.rating_a:g} A bus; add a main device or a "
+                "device on the run into it")
+        return
+    ctx.compare(p.id, "bus protection", device, p.rating_a, "A", "at_most",
+                "panel-bus-protection",
+                f"main-lugs {p.rating_a:g} A bus protected by the {device:g} A {what}"
+                + ("" if device <= p.rating_a + 1e-9 else
+                   f"; add a main device of at most {p.rating_a:g} A or reduce that device"))
 
 
 def check_standard_ratings(ctx: Context) -> None:

@@ -22,6 +22,7 @@ from ..model import (
     OCCUPANCIES,
     RACEWAYS,
     SOURCE_ID,
+    TAP_RULES,
     VOLTAGE_DROP_MODES,
     VOLTAGE_FACTORS,
     Job,
@@ -51,6 +52,7 @@ INTERRUPTING_RANGE_A = (1.0e3, 300.0e3)  # equipment interrupting ratings
 _DEVICE = (*DEVICE_RANGE_A, "an ampere rating from 1 A to 6000 A")
 _INTERRUPTING = (*INTERRUPTING_RANGE_A, "an interrupting rating from 1 kA to 300 kA")
 _TEMPERATURE_RATING = "'60 degC', '75 degC' or '90 degC'"
+_INSULATION = "'60 degC', '75 degC', '90 degC' or an insulation type such as 'THHN' or 'XHHW-2'"
 
 PROJECT_KEYS = ("name", "site", "prepared_by", "date", "revision", "rules", "notes")
 SOURCE_KEYS = ("voltage", "phases", "available_fault", "short_circuit_mva", "x_r")
@@ -84,6 +86,9 @@ RUN_KEYS = (
     "rooftop_height",
     "harmonic_neutral",
     "clearing_time",
+    "tap_rule",
+    "bonding_jumper",
+    "neutral",
 )
 PANEL_KEYS = (
     "id",
@@ -345,11 +350,16 @@ def _transformer(r: Reader, t: dict, path: str, phases: int) -> Transformer:
 
 def _run_temperatures(r: Reader, t: dict, path: str) -> tuple[float | None, ...]:
     """Insulation, termination and ambient temperatures of a run [°C]."""
-    ins = r.qty(
-        t, path, "insulation", "temperature", required=False, default=75.0, must_be_positive=False
-    )
+    type_rating = _insulation_type_rating(t.get("insulation"))
+    if type_rating is not None:
+        ins = type_rating
+    else:
+        ins = r.qty(
+            t, path, "insulation", "temperature", required=False, default=75.0,
+            must_be_positive=False,
+        )
     if ins not in INSULATION_RATINGS_C:
-        r.add(f"{path}.insulation", t.get("insulation"), _TEMPERATURE_RATING)
+        r.add(f"{path}.insulation", t.get("insulation"), _INSULATION)
     term = r.qty(t, path, "termination", "temperature", required=False, must_be_positive=False)
     if term is not None and term not in INSULATION_RATINGS_C:
         r.add(f"{path}.termination", t.get("termination"), _TEMPERATURE_RATING)
@@ -406,6 +416,7 @@ def _run(r: Reader, t: dict, path: str) -> Run:
         harmonic_neutral=r.flag(t, path, "harmonic_neutral"),
         clearing_s=r.qty(t, path, "clearing_time", "time", required=False),
     )
+    run = _run_protection_keys(r, t, path, run)
     if run.rooftop_mm is None:
         return run
     if run.rooftop_mm < 0:
@@ -415,6 +426,51 @@ def _run(r: Reader, t: dict, path: str) -> Run:
             "a height above the roof of zero or more",
         )
     return replace(run, rooftop_mm=run.rooftop_mm * 1000.0)  # read in m, kept in mm
+
+
+def _insulation_type_rating(value) -> float | None:
+    """Temperature rating [°C] of an insulation type name (``"THHN"``), its dry-location
+    rating (NFPA 70-2023 Table 310.4(A)); None when ``value`` is not a known type name
+    (then it is read as a temperature)."""
+    if not isinstance(value, str) or not value.strip() or value.strip()[0].isdigit():
+        return None
+    from ..calc.withstand_icea import InsulationType, insulation_type
+    from ..tables import load_table
+
+    records = load_table("insulation_types").data.to_dict("records")
+    rows = [InsulationType.from_record(x) for x in records]
+    try:
+        return insulation_type(value, rows).dry_c
+    except ValueError:
+        return None
+
+
+def _run_protection_keys(r: Reader, t: dict, path: str, run: Run) -> Run:
+    """The run keys of issue 12: tap_rule, the insulation type name, bonding_jumper and
+    neutral (supply-side bonding jumper and grounded conductor of secondary conductors)."""
+    tap = r.text(t, path, "tap_rule", required=False)
+    if tap and tap not in TAP_RULES:
+        r.add(f"{path}.tap_rule", tap, "one of " + ", ".join(repr(x) for x in TAP_RULES))
+        tap = ""
+    if tap and run.device_a is not None:
+        r.add(f"{path}.tap_rule", tap, "no tap_rule on a run that has a device (omit one)")
+    ins = t.get("insulation")
+    type_name = ins.strip() if _insulation_type_rating(ins) is not None else ""
+    jumper, jumper_mat = r.conductor(
+        t, path, "bonding_jumper", required=False, default_material=run.material
+    )
+    neutral, neutral_mat = r.conductor(
+        t, path, "neutral", required=False, default_material=run.material
+    )
+    return replace(
+        run,
+        tap_rule=tap,
+        insulation_type=type_name,
+        bonding_jumper=jumper,
+        bonding_jumper_material=jumper_mat,
+        neutral=neutral,
+        neutral_material=neutral_mat,
+    )
 
 
 def _panel(r: Reader, t: dict, path: str, folder: Path) -> Panel:

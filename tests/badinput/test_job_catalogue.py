@@ -162,7 +162,7 @@ CASES = [
     ('raceway-unknown', 'raceway = "steel"', 'raceway = "plastic"',
      [("run[1].raceway got 'plastic'; expected one of steel, aluminum, pvc, cable, free-air", 'plastic')]),
     ('insulation-105', 'insulation = "75 degC"', 'insulation = "105 degC"',
-     [("run[1].insulation got '105 degC'; expected '60 degC', '75 degC' or '90 degC'", '105 degC')]),
+     [("run[1].insulation got '105 degC'; expected '60 degC', '75 degC', '90 degC' or an insulation type such as 'THHN' or 'XHHW-2'", '105 degC')]),
     ('unknown-to', 'to = "PB"', 'to = "PX"',
      [(f"run[2].to got 'PX'; expected {NODE}", 'to = "PX"'), ("panel[2].id got 'PB'; expected a [[run]] with to = 'PB' feeding it", 'id = "PB"')]),
     ('unknown-from-case', 'from = "PA"', 'from = "pa"',
