@@ -371,50 +371,58 @@ def _free_spot(x: float, y: float, w: float, h: float, placed) -> tuple[float, f
     return x, y
 
 
-def fault_current_chart(results, width: float = 500.0) -> Drawing | None:
-    """Maximum and minimum fault current at each node as paired bars (kA);
-    None when no node carries ``fault_max_a`` or ``fault_min_a``."""
-    f = fonts()
+FAULT_ROW_H = 22.0
+FAULT_ROWS_PER_CHART = 24  # 24 × 22 pt + axes and legend stays well inside a letter page
+
+
+def _finite(v) -> bool:
+    return isinstance(v, (int, float)) and not isinstance(v, bool) and math.isfinite(v)
+
+
+def fault_current_charts(
+    results, width: float = 500.0, rows_per_chart: int = FAULT_ROWS_PER_CHART
+) -> list[Drawing]:
+    """Maximum and minimum fault current at each node as paired bars (kA), in
+    feed order, split into charts of at most ``rows_per_chart`` nodes that share
+    one scale (so bars on different pages compare); empty when no node carries
+    ``fault_max_a`` or ``fault_min_a``."""
     rows = [
         n
         for n in results.nodes
-        if any(
-            isinstance(n.values.get(k), (int, float)) and math.isfinite(n.values[k])
-            for k in ("fault_max_a", "fault_min_a")
-        )
+        if any(_finite(n.values.get(k)) for k in ("fault_max_a", "fault_min_a"))
     ]
     if not rows:
-        return None
+        return []
     vals = [
-        n.values.get(k)
+        n.values[k]
         for n in rows
         for k in ("fault_max_a", "fault_min_a")
-        if isinstance(n.values.get(k), (int, float)) and math.isfinite(n.values[k])
+        if _finite(n.values.get(k))
     ]
     xt = nice_ticks(0.0, max(vals) / 1000.0)
-    row_h = 22.0
+    step = max(1, int(rows_per_chart))
+    return [_fault_chart_part(rows[i : i + step], xt, width) for i in range(0, len(rows), step)]
+
+
+def fault_current_chart(results, width: float = 500.0) -> Drawing | None:
+    """The first part of :func:`fault_current_charts` (None without figures)."""
+    parts = fault_current_charts(results, width)
+    return parts[0] if parts else None
+
+
+def _fault_chart_part(rows, xt, width: float) -> Drawing:
+    f = fonts()
+    row_h = FAULT_ROW_H
     height = row_h * len(rows) + 70
     d = Drawing(width, height)
     x0, y0, w, h = 70, 34, width - 130, row_h * len(rows)
-    sx, _ = _axes(
-        d,
-        x0,
-        y0,
-        w,
-        h,
-        xt,
-        [0.0, 1.0],
-        "fault current (kA)",
-        "",
-        plain,
-        lambda t: "",
-    )
+    sx, _ = _axes(d, x0, y0, w, h, xt, [0.0, 1.0], "fault current (kA)", "", plain, lambda t: "")
     for i, n in enumerate(rows):
         yc = y0 + h - row_h * (i + 0.5)
         d.add(String(x0 - 4, yc - 3, txt(n.id), fontName=f.bold, fontSize=7.5, textAnchor="end"))
         for k, dy, fill in (("fault_max_a", 2.5, GREY), ("fault_min_a", -6.5, colors.white)):
             v = n.values.get(k)
-            if not isinstance(v, (int, float)) or not math.isfinite(v):
+            if not _finite(v):
                 continue
             x1 = sx(v / 1000.0)
             d.add(
