@@ -46,6 +46,7 @@ from .drawing import (
     voltage_profile_chart,
 )
 from .embed import RESULTS_NAME, attach, input_attachments
+from .tables_embed import table_attachments
 
 MARGIN = 42.0
 TOP = 60.0
@@ -314,6 +315,7 @@ def write_report(job, results, out_path: str | Path) -> ReportInfo:
     data, total, pages = render_pdf(results)
     files = input_attachments(job)
     files.append((RESULTS_NAME, render_json(results).encode("utf-8")))
+    files += table_attachments(results)  # the user's own tables (--tables DIR), if any
     data = attach(data, files)
     write_bytes_atomic(out_path, data)
     sheets = {k.split(":", 1)[1]: v for k, v in pages.items() if k.startswith("sheet:")}
