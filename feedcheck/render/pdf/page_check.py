@@ -39,7 +39,7 @@ def report_calc_date(results: dict) -> str | None:
     its own date is dated by the day the report was made), or None."""
     for f in results.get("findings", []):
         if isinstance(f, dict) and f.get("rule_id") == "fault-marking":
-            m = _CALC_DATE.search(str(f.get("message", "")))
+            m = _CALC_DATE.search(str(f.get("note", "")))
             if m:
                 return m.group(1)
     return None
