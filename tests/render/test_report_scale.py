@@ -6,13 +6,16 @@ from __future__ import annotations
 import pytest
 from click.testing import CliRunner
 from pypdf import PdfReader
+from scale_job import write_scale_job  # beside this file (pytest puts its folder on sys.path)
 
 from feedcheck.cli import main
-from feedcheck.render.pdf.drawing import fault_current_charts, one_line_diagrams
+from feedcheck.render.pdf.drawing import (
+    fault_current_charts,
+    one_line_diagrams,
+    voltage_profile_charts,
+)
 from feedcheck.render.pdf.report import BOTTOM, TOP
 from feedcheck.runner import load_and_check
-
-from scale_job import write_scale_job  # beside this file (pytest puts its folder on sys.path)
 
 FRAME_H = 792.0 - TOP - BOTTOM  # letter page body
 
@@ -26,11 +29,19 @@ def test_drawings_of_a_large_feed_fit_a_page(tmp_path):
     charts = fault_current_charts(results, width=528)
     sheets = one_line_diagrams(results, width=528)
     assert len(charts) > 1 and len(sheets) > 1
-    assert all(d.height < FRAME_H for d in [*charts, *sheets])
+    profiles = voltage_profile_charts(results, width=528)
+    assert len(profiles) > 1
+    assert all(d.height < FRAME_H for d in [*charts, *sheets, *profiles])
+    # each node with a voltage is labelled in some profile part, each part legibly few
+    labelled = [{s.text.split()[0] for s in d.contents if getattr(s, "fontSize", 0) == 6.5}
+                for d in profiles]
+    assert all(len(ids) <= 16 for ids in labelled)
+    assert set().union(*labelled) == {
+        n.id for n in results.nodes if n.values.get("voltage_pct") is not None}
     # every node with a figure is in exactly one chart part, on one shared scale
-    assert sum(len([s for s in c.contents if getattr(s, "fontSize", 0) == 7.5]) for c in charts) == (
-        sum("fault_max_a" in n.values or "fault_min_a" in n.values for n in results.nodes)
-    )
+    rows = sum(len([s for s in c.contents if getattr(s, "fontSize", 0) == 7.5]) for c in charts)
+    with_figures = [n for n in results.nodes if {"fault_max_a", "fault_min_a"} & set(n.values)]
+    assert rows == len(with_figures)
 
 
 @pytest.mark.slow

@@ -289,16 +289,24 @@ def _axes(d, x0, y0, w, h, xt, yt, xlabel, ylabel, xfmt, yfmt):
 _DASHES = (None, [4, 2], [1, 2], [6, 2, 1, 2], [3, 3], [8, 3])
 
 
-def voltage_profile_chart(
-    results, display: Display = DEFAULT_DISPLAY, width: float = 500.0, height: float = 260.0
-) -> Drawing | None:
+PROFILE_LABELS_PER_CHART = 16
+
+
+def voltage_profile_charts(
+    results,
+    display: Display = DEFAULT_DISPLAY,
+    width: float = 500.0,
+    height: float = 260.0,
+    max_labels: int = PROFILE_LABELS_PER_CHART,
+) -> list[Drawing]:
     """Voltage (% of nominal) against distance from the source (in the display's
-    length unit) along each path to a panel; None when no node carries ``voltage_pct``."""
-    f = fonts()
-    nodes = [n for n in results.nodes]
+    length unit) along each path to a panel, in charts of at most about
+    ``max_labels`` labelled nodes (paths kept whole, in feed order) on one shared
+    scale; empty when no node carries ``voltage_pct``."""
+    nodes = list(results.nodes)
     have = {n.id: n for n in nodes if n.values.get("voltage_pct") is not None}
     if not have:
-        return None
+        return []
     by_id = {n.id: n for n in nodes}
     parents = {n.parent for n in nodes if n.parent}
     leaves = [n for n in nodes if n.id in have and (n.id not in parents or n.kind == "panel")]
@@ -314,6 +322,29 @@ def voltage_profile_chart(
     ds = [display.length_value(n.distance_m) for n in have.values()]
     yt = nice_ticks(min(min(vs), 100.0 - 1.0) - 0.2, max(max(vs), 100.0))
     xt = nice_ticks(0.0, max(max(ds), 1.0))
+    groups: list[list] = [[]]
+    shown: set[str] = set()
+    for path in paths:
+        ids = {n.id for n in path}
+        if groups[-1] and len(shown | ids) > max_labels:
+            groups.append([])
+            shown = set()
+        groups[-1].append(path)
+        shown |= ids
+    return [_profile_part(g, xt, yt, display, width, height) for g in groups]
+
+
+def voltage_profile_chart(
+    results, display: Display = DEFAULT_DISPLAY, width: float = 500.0, height: float = 260.0
+) -> Drawing | None:
+    """The first part of :func:`voltage_profile_charts` (None without figures)."""
+    parts = voltage_profile_charts(results, display, width, height)
+    return parts[0] if parts else None
+
+
+def _profile_part(paths, xt, yt, display: Display, width: float, height: float) -> Drawing:
+    f = fonts()
+    have = {n.id: n for path in paths for n in path}
     d = Drawing(width, height)
     x0, y0, w, h = 52, 34, width - 70, height - 46
     sx, sy = _axes(

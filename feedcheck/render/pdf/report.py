@@ -43,7 +43,7 @@ from .drawing import (
     fonts,
     one_line_diagrams,
     txt,
-    voltage_profile_chart,
+    voltage_profile_charts,
 )
 from .embed import RESULTS_NAME, attach, input_attachments
 from .tables_embed import table_attachments
@@ -179,9 +179,15 @@ def _drawings_story(results, display, heading) -> list:
             story.append(sx.p(f"One-line diagram, sheet {i + 1} of {len(sheets)}", "h2"))
         story += [d, Spacer(1, 4)]
     story += [CondPageBreak(330), heading("Voltage profile and fault current", "charts", 0, "h1")]
-    vp = voltage_profile_chart(results, display, width=sx.WIDTH)
+    profiles = voltage_profile_charts(results, display, width=sx.WIDTH)
     story.append(sx.p("Voltage along each path from the source to a panel", "h2"))
-    story.append(vp if vp is not None else sx.p("No voltage figures in these results.", "body"))
+    if not profiles:
+        story.append(sx.p("No voltage figures in these results.", "body"))
+    for i, chart in enumerate(profiles):
+        if i:
+            title = f"Voltage along each path (continued, part {i + 1} of {len(profiles)})"
+            story += [CondPageBreak(chart.height + 30), sx.p(title, "h2")]
+        story.append(chart)
     charts = fault_current_charts(results, width=sx.WIDTH)
     story.append(CondPageBreak(200))
     story.append(sx.p("Fault current at each node", "h2"))
@@ -189,9 +195,8 @@ def _drawings_story(results, display, heading) -> list:
         story.append(sx.p("No fault-current figures in these results.", "body"))
     for i, chart in enumerate(charts):
         if i:
-            story.append(
-                sx.p(f"Fault current at each node (continued, part {i + 1} of {len(charts)})", "h2")
-            )
+            title = f"Fault current at each node (continued, part {i + 1} of {len(charts)})"
+            story += [CondPageBreak(chart.height + 30), sx.p(title, "h2")]
         story.append(chart)
     return story
 
