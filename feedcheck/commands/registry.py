@@ -9,7 +9,17 @@ from __future__ import annotations
 
 def register(main, calc) -> None:
     """Add the command objects to ``main`` and ``calc``."""
-    from . import calc_conductor, calc_fault, calc_transformer, calc_vdrop, report, schedule
+    from . import (
+        calc_conductor,
+        calc_fault,
+        calc_transformer,
+        calc_vdrop,
+        compare,
+        extract,
+        labels,
+        report,
+        schedule,
+    )
 
     for group, command in (
         (calc, calc_transformer.rated_current_command),
@@ -21,5 +31,8 @@ def register(main, calc) -> None:
         (main, report.report_command),
         (main, report.rerun_command),
         (main, schedule.schedule_command),
+        (main, extract.extract_command),
+        (main, compare.compare_command),
+        (main, labels.labels_command),
     ):
         group.add_command(command)

@@ -68,19 +68,23 @@ def rerun_command(report_pdf):
     """Re-check a feedcheck report from the inputs embedded in it.
 
     Takes the job file and schedules out of the PDF into a temporary folder,
-    checks them again with the current tables (or your own with --tables), and
-    compares every node figure and every finding with the results embedded in
-    the report (relative tolerance 1e-9).
+    checks them again with the current tables (the report's own custom tables
+    when it carries them, or yours with --tables), and compares every node figure
+    and every finding with the results embedded in the report (relative
+    tolerance 1e-9). The pages are re-rendered from the re-run and their text
+    compared with the report's, page by page: an edited page is named with its
+    first differing figure.
 
     \b
     Examples:
       feedcheck rerun harbor_kitchen.pdf
       feedcheck --tables local_tables/ rerun harbor_kitchen.pdf
-    Exit code 0: all figures match; 1: a figure differs;
+    Exit code 0: all figures and pages match; 1: a figure or a page differs;
     2: the file is not a readable feedcheck report.
     """
     import json
     import tempfile
+    from pathlib import Path
 
     from ..render.display import MISSING
     from ..render.json_csv import render_json
@@ -94,8 +98,20 @@ def rerun_command(report_pdf):
         except NotAReport as exc:
             click.echo(f"error: {exc}", err=True)
             sys.exit(2)
-        _, results = load_and_check(ex.job_path)
+        from ..render.pdf.tables_embed import TablesDamaged, use_embedded_tables
+
+        try:  # custom tables embedded in the report, unless --tables names others
+            own = use_embedded_tables(report_pdf, Path(tmp) / "embedded-tables")
+        except TablesDamaged as exc:
+            click.echo(f"error: {report_pdf}: {exc}", err=True)
+            sys.exit(2)
+        if own:
+            click.echo(f"using the report's own tables: {', '.join(own)}")
+        from ..render.pdf.page_check import check_pages, report_calc_date
+
+        _, results = load_and_check(ex.job_path, report_calc_date(ex.results))
         rerun = json.loads(render_json(results))
+        n_pages, page_diffs = check_pages(report_pdf, results)  # the printed pages too
     job = ex.results.get("job", {})
     click.echo(
         f"report: {job.get('name', '?')} (rev {job.get('revision') or MISSING}), made with "
@@ -107,8 +123,14 @@ def rerun_command(report_pdf):
     n, diffs = compare_results(ex.results, rerun)
     if not diffs:
         click.echo(f"all {n} figures match")
-        sys.exit(0)
-    click.echo(f"{len(diffs)} of {n} figures differ (element: figure: report, rerun):")
-    for d in diffs:
-        click.echo(f"  {d}")
-    sys.exit(1)
+    else:
+        click.echo(f"{len(diffs)} of {n} figures differ (element: figure: report, rerun):")
+        for d in diffs:
+            click.echo(f"  {d}")
+    if not page_diffs:
+        click.echo(f"all {n_pages} pages read as the re-run prints them")
+    else:
+        click.echo(f"{len(page_diffs)} of {n_pages} pages differ from the re-rendered report:")
+        for d in page_diffs:
+            click.echo(f"  {d}")
+    sys.exit(1 if diffs or page_diffs else 0)

@@ -289,16 +289,24 @@ def _axes(d, x0, y0, w, h, xt, yt, xlabel, ylabel, xfmt, yfmt):
 _DASHES = (None, [4, 2], [1, 2], [6, 2, 1, 2], [3, 3], [8, 3])
 
 
-def voltage_profile_chart(
-    results, display: Display = DEFAULT_DISPLAY, width: float = 500.0, height: float = 260.0
-) -> Drawing | None:
+PROFILE_LABELS_PER_CHART = 16
+
+
+def voltage_profile_charts(
+    results,
+    display: Display = DEFAULT_DISPLAY,
+    width: float = 500.0,
+    height: float = 260.0,
+    max_labels: int = PROFILE_LABELS_PER_CHART,
+) -> list[Drawing]:
     """Voltage (% of nominal) against distance from the source (in the display's
-    length unit) along each path to a panel; None when no node carries ``voltage_pct``."""
-    f = fonts()
-    nodes = [n for n in results.nodes]
+    length unit) along each path to a panel, in charts of at most about
+    ``max_labels`` labelled nodes (paths kept whole, in feed order) on one shared
+    scale; empty when no node carries ``voltage_pct``."""
+    nodes = list(results.nodes)
     have = {n.id: n for n in nodes if n.values.get("voltage_pct") is not None}
     if not have:
-        return None
+        return []
     by_id = {n.id: n for n in nodes}
     parents = {n.parent for n in nodes if n.parent}
     leaves = [n for n in nodes if n.id in have and (n.id not in parents or n.kind == "panel")]
@@ -314,6 +322,29 @@ def voltage_profile_chart(
     ds = [display.length_value(n.distance_m) for n in have.values()]
     yt = nice_ticks(min(min(vs), 100.0 - 1.0) - 0.2, max(max(vs), 100.0))
     xt = nice_ticks(0.0, max(max(ds), 1.0))
+    groups: list[list] = [[]]
+    shown: set[str] = set()
+    for path in paths:
+        ids = {n.id for n in path}
+        if groups[-1] and len(shown | ids) > max_labels:
+            groups.append([])
+            shown = set()
+        groups[-1].append(path)
+        shown |= ids
+    return [_profile_part(g, xt, yt, display, width, height) for g in groups]
+
+
+def voltage_profile_chart(
+    results, display: Display = DEFAULT_DISPLAY, width: float = 500.0, height: float = 260.0
+) -> Drawing | None:
+    """The first part of :func:`voltage_profile_charts` (None without figures)."""
+    parts = voltage_profile_charts(results, display, width, height)
+    return parts[0] if parts else None
+
+
+def _profile_part(paths, xt, yt, display: Display, width: float, height: float) -> Drawing:
+    f = fonts()
+    have = {n.id: n for path in paths for n in path}
     d = Drawing(width, height)
     x0, y0, w, h = 52, 34, width - 70, height - 46
     sx, sy = _axes(
@@ -371,50 +402,58 @@ def _free_spot(x: float, y: float, w: float, h: float, placed) -> tuple[float, f
     return x, y
 
 
-def fault_current_chart(results, width: float = 500.0) -> Drawing | None:
-    """Maximum and minimum fault current at each node as paired bars (kA);
-    None when no node carries ``fault_max_a`` or ``fault_min_a``."""
-    f = fonts()
+FAULT_ROW_H = 22.0
+FAULT_ROWS_PER_CHART = 24  # 24 × 22 pt + axes and legend stays well inside a letter page
+
+
+def _finite(v) -> bool:
+    return isinstance(v, (int, float)) and not isinstance(v, bool) and math.isfinite(v)
+
+
+def fault_current_charts(
+    results, width: float = 500.0, rows_per_chart: int = FAULT_ROWS_PER_CHART
+) -> list[Drawing]:
+    """Maximum and minimum fault current at each node as paired bars (kA), in
+    feed order, split into charts of at most ``rows_per_chart`` nodes that share
+    one scale (so bars on different pages compare); empty when no node carries
+    ``fault_max_a`` or ``fault_min_a``."""
     rows = [
         n
         for n in results.nodes
-        if any(
-            isinstance(n.values.get(k), (int, float)) and math.isfinite(n.values[k])
-            for k in ("fault_max_a", "fault_min_a")
-        )
+        if any(_finite(n.values.get(k)) for k in ("fault_max_a", "fault_min_a"))
     ]
     if not rows:
-        return None
+        return []
     vals = [
-        n.values.get(k)
+        n.values[k]
         for n in rows
         for k in ("fault_max_a", "fault_min_a")
-        if isinstance(n.values.get(k), (int, float)) and math.isfinite(n.values[k])
+        if _finite(n.values.get(k))
     ]
     xt = nice_ticks(0.0, max(vals) / 1000.0)
-    row_h = 22.0
+    step = max(1, int(rows_per_chart))
+    return [_fault_chart_part(rows[i : i + step], xt, width) for i in range(0, len(rows), step)]
+
+
+def fault_current_chart(results, width: float = 500.0) -> Drawing | None:
+    """The first part of :func:`fault_current_charts` (None without figures)."""
+    parts = fault_current_charts(results, width)
+    return parts[0] if parts else None
+
+
+def _fault_chart_part(rows, xt, width: float) -> Drawing:
+    f = fonts()
+    row_h = FAULT_ROW_H
     height = row_h * len(rows) + 70
     d = Drawing(width, height)
     x0, y0, w, h = 70, 34, width - 130, row_h * len(rows)
-    sx, _ = _axes(
-        d,
-        x0,
-        y0,
-        w,
-        h,
-        xt,
-        [0.0, 1.0],
-        "fault current (kA)",
-        "",
-        plain,
-        lambda t: "",
-    )
+    sx, _ = _axes(d, x0, y0, w, h, xt, [0.0, 1.0], "fault current (kA)", "", plain, lambda t: "")
     for i, n in enumerate(rows):
         yc = y0 + h - row_h * (i + 0.5)
         d.add(String(x0 - 4, yc - 3, txt(n.id), fontName=f.bold, fontSize=7.5, textAnchor="end"))
         for k, dy, fill in (("fault_max_a", 2.5, GREY), ("fault_min_a", -6.5, colors.white)):
             v = n.values.get(k)
-            if not isinstance(v, (int, float)) or not math.isfinite(v):
+            if not _finite(v):
                 continue
             x1 = sx(v / 1000.0)
             d.add(

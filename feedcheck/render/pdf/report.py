@@ -39,13 +39,14 @@ from ... import __version__
 from ..display import MISSING, display_for, node_caption
 from . import sections as sx
 from .drawing import (
-    fault_current_chart,
+    fault_current_charts,
     fonts,
     one_line_diagrams,
     txt,
-    voltage_profile_chart,
+    voltage_profile_charts,
 )
 from .embed import RESULTS_NAME, attach, input_attachments
+from .tables_embed import table_attachments
 
 MARGIN = 42.0
 TOP = 60.0
@@ -172,18 +173,31 @@ def _drawings_story(results, display, heading) -> list:
         )
     )
     story.append(Spacer(1, 6))
-    for d in one_line_diagrams(results, width=sx.WIDTH):
+    sheets = one_line_diagrams(results, width=sx.WIDTH)
+    for i, d in enumerate(sheets):
+        if len(sheets) > 1:
+            story.append(sx.p(f"One-line diagram, sheet {i + 1} of {len(sheets)}", "h2"))
         story += [d, Spacer(1, 4)]
     story += [CondPageBreak(330), heading("Voltage profile and fault current", "charts", 0, "h1")]
-    vp = voltage_profile_chart(results, display, width=sx.WIDTH)
+    profiles = voltage_profile_charts(results, display, width=sx.WIDTH)
     story.append(sx.p("Voltage along each path from the source to a panel", "h2"))
-    story.append(vp if vp is not None else sx.p("No voltage figures in these results.", "body"))
-    fc = fault_current_chart(results, width=sx.WIDTH)
+    if not profiles:
+        story.append(sx.p("No voltage figures in these results.", "body"))
+    for i, chart in enumerate(profiles):
+        if i:
+            title = f"Voltage along each path (continued, part {i + 1} of {len(profiles)})"
+            story += [CondPageBreak(chart.height + 30), sx.p(title, "h2")]
+        story.append(chart)
+    charts = fault_current_charts(results, width=sx.WIDTH)
     story.append(CondPageBreak(200))
     story.append(sx.p("Fault current at each node", "h2"))
-    story.append(
-        fc if fc is not None else sx.p("No fault-current figures in these results.", "body")
-    )
+    if not charts:
+        story.append(sx.p("No fault-current figures in these results.", "body"))
+    for i, chart in enumerate(charts):
+        if i:
+            title = f"Fault current at each node (continued, part {i + 1} of {len(charts)})"
+            story += [CondPageBreak(chart.height + 30), sx.p(title, "h2")]
+        story.append(chart)
     return story
 
 
@@ -306,6 +320,7 @@ def write_report(job, results, out_path: str | Path) -> ReportInfo:
     data, total, pages = render_pdf(results)
     files = input_attachments(job)
     files.append((RESULTS_NAME, render_json(results).encode("utf-8")))
+    files += table_attachments(results)  # the user's own tables (--tables DIR), if any
     data = attach(data, files)
     write_bytes_atomic(out_path, data)
     sheets = {k.split(":", 1)[1]: v for k, v in pages.items() if k.startswith("sheet:")}
