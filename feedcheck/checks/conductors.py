@@ -8,21 +8,19 @@ from ..calc import ampacity as ak
 from ..calc import protection as pk
 from ..calc import selection as sk
 from ..calc import withstand as wk
-from ..calc.constants import M_PER_FT, SQRT3
-from ..calc.power import current_from_apparent_power_a
+from ..calc.constants import M_PER_FT
 from ..calc.sizes import SIZES
 from ..model import Run
 from .compare import passes
 from .context import Context
+from .termination import termination_note
 
 
 def _loads(ctx: Context, run: Run) -> tuple[float, float, float]:
-    """Continuous and noncontinuous load current on a run, and its power factor."""
-    v = ctx.tree.voltage_of[run.from_id]
-    load = ctx.loads[run.to_id]
-    cont = current_from_apparent_power_a(load.continuous_va, v.line_v, v.phases)
-    non = current_from_apparent_power_a(load.va - load.continuous_va, v.line_v, v.phases)
-    return cont, non, load.pf
+    """Continuous and noncontinuous load current on a run (its heaviest line, single-
+    phase elements at S / V_LL: checks/loads.py), and its power factor."""
+    cont, non = ctx.feed_currents_a(run.to_id)
+    return cont, non, ctx.loads[run.to_id].pf
 
 
 def _select(
@@ -169,6 +167,7 @@ def check_run(ctx: Context, run: Run) -> None:
             "termination_c": term,
         }
     )
+    tnote = termination_note(ctx, run, term, chain.termination_cap_a)  # issue 13 item 7
     fix = None
 
     def fix_text():
@@ -189,6 +188,7 @@ def check_run(ctx: Context, run: Run) -> None:
         "ok" if ok else "fail",
         "run-ampacity-before",
         f"needs {chain.required_before_a:.1f} A before corrections"
+        + tnote
         + ("" if ok else "; " + fix_text()),
     )
     ok = chain.ok_after
@@ -201,7 +201,7 @@ def check_run(ctx: Context, run: Run) -> None:
         "ok" if ok else "fail",
         "run-ampacity-after",
         f"allowable {chain.final_a:.1f} A ({chain.governed_by} governs) for "
-        f"{cont + non:.1f} A of load" + ("" if ok else "; " + fix_text()),
+        f"{cont + non:.1f} A of load" + tnote + ("" if ok else "; " + fix_text()),
     )
     if device is not None:
         need = float(pk.device_min_for_load_a(cont, non, tables=ctx.rules.protection))

@@ -187,14 +187,28 @@ class ScheduleDemand:
     panel_ids: tuple[str, ...]
     figures: PanelDemand
     continuous_factor: float
+    # demand current on lines A, B, C of each panel [A], continuous / noncontinuous
+    phase_cont_a: np.ndarray | None = None  # (panels, 3)
+    phase_non_a: np.ndarray | None = None
 
     @property
     def loads(self) -> dict[str, Load]:
         f = self.figures
         return {
-            pid: Load(float(f.demand_va[j]), float(f.continuous_va[j]), float(f.real_w[j]))
+            pid: Load(
+                float(f.demand_va[j]),
+                float(f.continuous_va[j]),
+                float(f.real_w[j]),
+                None if self.phase_cont_a is None else tuple(map(float, self.phase_cont_a[j])),
+                None if self.phase_non_a is None else tuple(map(float, self.phase_non_a[j])),
+                float(f.connected_va[j, KINDS.index("lighting")]),
+            )
             for j, pid in enumerate(self.panel_ids)
         }
+
+    def design_phase_a(self) -> np.ndarray:
+        """Design current of every line of every panel (continuous at 125 %) [A]."""
+        return self.continuous_factor * self.phase_cont_a + self.phase_non_a
 
     @property
     def load(self) -> Load:
@@ -213,7 +227,7 @@ def schedule_demand(
 
     tiers = demand_tiers(occupancy, rules)
     c = schedule.circuits
-    _v, load_va, _i, _k = circuit_electrics(c, schedule.load_unit, system)
+    _v, load_va, current_a, _k = circuit_electrics(c, schedule.load_unit, system)
     codes, ids = pd.factorize(pd.Series(c["panel"].to_numpy(object)))
     kcode = np.asarray(pd.Categorical(c["kind"].to_numpy(object), categories=KINDS).codes)
     figures = panel_demand(
@@ -226,6 +240,9 @@ def schedule_demand(
         {k: _tiers(rows) for k, rows in tiers.items()},
         tiers["motor-largest"][0][2],
     )
+    cont = c["continuous"].to_numpy(bool)
+    dem_a = current_a * figures.circuit_factor  # demand current on each pole of a circuit
+    args = (c["poles"].to_numpy(), c["circuit"].to_numpy(), np.asarray(codes), len(ids), system)
     return ScheduleDemand(
         occupancy,
         load_va,
@@ -233,7 +250,21 @@ def schedule_demand(
         tuple(str(p) for p in ids),
         figures,
         tiers["continuous"][0][2],
+        _line_currents(np.where(cont, dem_a, 0.0), *args),
+        _line_currents(np.where(cont, 0.0, dem_a), *args),
     )
+
+
+def _line_currents(current_a, poles, circuit, codes, n_pan: int, system) -> np.ndarray:
+    """Current on lines A, B, C of each panel [A]: each circuit's current on every
+    line of its spaces (a two-pole 208 V load draws S / 208 V on both of its lines)."""
+    counts = np.asarray(poles).astype(np.int64)
+    owner = np.repeat(np.arange(len(counts)), counts)
+    step = np.arange(len(owner)) - np.repeat(np.cumsum(counts) - counts, counts)
+    ph = _phase_of_space(np.asarray(circuit)[owner].astype(np.int64) + 2 * step, system)
+    return np.bincount(
+        codes[owner] * 3 + ph, weights=current_a[owner], minlength=3 * n_pan
+    ).reshape(n_pan, 3)
 
 
 def _tiers(rows: list[tuple[float, float, float]]) -> Tiers:
@@ -385,6 +416,7 @@ def _panel_table(demand: ScheduleDemand, per_phase, sev, system: VoltageSystem):
     design_va = f.demand_va + (demand.continuous_factor - 1.0) * f.continuous_va
     n_ph = 3 if system.phases == 3 else (2 if system.kind == "split" else 1)
     used = per_phase[:, :n_ph]
+    dph = demand.design_phase_a()
     avg = used.mean(axis=1)
     imbalance = (
         np.divide(np.abs(used - avg[:, None]).max(axis=1), avg, out=np.zeros(n_pan), where=avg > 0)
@@ -402,9 +434,14 @@ def _panel_table(demand: ScheduleDemand, per_phase, sev, system: VoltageSystem):
             "demand_va": f.demand_va,
             "continuous_va": f.continuous_va,
             "design_va": design_va,
-            "design_current_a": current_from_apparent_power_a(
+            # the heaviest line's design current (215.2(A)(1)), not the balanced average
+            "design_current_a": dph[:, :n_ph].max(axis=1),
+            "balanced_design_current_a": current_from_apparent_power_a(
                 design_va, system.line_v, system.phases
             ),
+            "phase_a_design_a": dph[:, 0],
+            "phase_b_design_a": dph[:, 1],
+            "phase_c_design_a": dph[:, 2],
             "phase_a_va": per_phase[:, 0],
             "phase_b_va": per_phase[:, 1],
             "phase_c_va": per_phase[:, 2],
@@ -419,8 +456,8 @@ def _panel_table(demand: ScheduleDemand, per_phase, sev, system: VoltageSystem):
 
 
 def _panel_findings(panels, design_va, imbalance, per_phase, rules, system, bus_a, main_a):
-    """Phase balance of each panel, and its design current against bus and main device."""
-    from ..calc.power import current_from_apparent_power_a
+    """Phase balance of each panel, and its heaviest phase's design current against bus
+    and main device."""
     from .compare import compare
 
     n_ph = 3 if system.phases == 3 else (2 if system.kind == "split" else 1)
@@ -443,7 +480,8 @@ def _panel_findings(panels, design_va, imbalance, per_phase, rules, system, bus_
                 tolerance=0.0,
             )
         )
-        i_d = float(current_from_apparent_power_a(design_va[j], system.line_v, system.phases))
+        i_d = float(panels["design_current_a"].iat[j])
+        heavy = "ABC"[int(np.argmax(panels[[f"phase_{x}_design_a" for x in "abc"]].iloc[j]))]
         for rid, what, rating in (
             ("panel-bus-load", "bus rating", bus_a),
             ("panel-main-load", "main device", main_a),
@@ -458,7 +496,8 @@ def _panel_findings(panels, design_va, imbalance, per_phase, rules, system, bus_
                         str(pid),
                         f"demand vs {what}",
                         "A",
-                        f"design current {i_d:.1f} A (continuous at 125 %) vs {what} {rating:g} A",
+                        f"design current of the heaviest phase ({heavy}) {i_d:.1f} A "
+                        f"(continuous at 125 %) vs {what} {rating:g} A",
                     )
                 )
     return findings

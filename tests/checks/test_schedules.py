@@ -158,9 +158,20 @@ def test_demand_receptacles_and_motor_by_hand(tmp_path):
     assert t["continuous_va"] == pytest.approx(2000)
     assert t["design_va"] == pytest.approx(11000 + 4750 + 2000 * 1.25)
     assert r.demand.va == pytest.approx(17750) and r.demand.continuous_va == pytest.approx(2000)
-    i = (11000 + 4750 + 2500) / (np.sqrt(3) * 208)  # 50.7 A: within the 60 A main
+    i = (11000 + 4750 + 2500) / (np.sqrt(3) * 208)  # 50.7 A balanced average
+    assert r.panels["balanced_design_current_a"].iat[0] == pytest.approx(i)
+    # Issue 13 item 2: the main is judged on the heaviest phase, not the average. Circuits
+    # 1 and 2 share phase A (panelboard numbering, common practice, no source): 11,000 VA
+    # of receptacle demand (220.44) at 120 V = 91.7 A > 60 A main (NFPA 70-2023 215.2(A)(1),
+    # 408.36); phase B: 4750 VA / 120 V = 39.6 A; phase C: 1.25 × 2000 / 120 = 20.8 A.
+    p = r.panels.iloc[0]
+    assert [p["phase_a_design_a"], p["phase_b_design_a"], p["phase_c_design_a"]] == (
+        pytest.approx([11000 / 120, 4750 / 120, 2500 / 120])
+    )
     main = next(f for f in r.findings if f.check == "demand vs main device")
-    assert main.value == pytest.approx(i) and main.status == "ok"
+    assert main.value == pytest.approx(11000 / 120) and main.status == "fail"
+    bus = next(f for f in r.findings if f.check == "demand vs bus rating")
+    assert bus.value == pytest.approx(11000 / 120) and bus.status == "ok"  # 100 A bus
 
 
 def test_multi_panel_file_totals_per_panel(tmp_path):
