@@ -147,6 +147,11 @@ class Motor:
     full_load_a: float
     locked_rotor_a: float | None
     hp: float | None
+    # the motor's branch circuit, for the starting dip at its terminals (None: not given)
+    length_m: float | None = None
+    size: Size | None = None
+    material: str = "cu"
+    raceway: str = "steel"
 
 
 @dataclass(frozen=True)

@@ -73,7 +73,9 @@ power_factor = 0.9
 # id = "EF-1"
 # panel = "LP1"
 # full_load = "30.8 A"
-# locked_rotor = "185 A"       # optional
+# locked_rotor = "185 A"       # optional; at least the full-load current
+# length = "120 ft"            # optional branch run to the motor (with conductors):
+# conductors = "8 AWG Cu"      # the starting dip is then computed at its terminals
 
 # [options]
 # impedance_tolerance = "7.5 %"   # transformer %Z tolerance (IEEE C57.12.00)

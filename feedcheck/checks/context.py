@@ -25,6 +25,7 @@ class Load:
     phase_cont_a: tuple[float, float, float] | None = None
     phase_non_a: tuple[float, float, float] | None = None
     lighting_va: float | None = None  # connected general lighting of a schedule [VA]
+    chain: object = None  # calc.demand_chain.DemandChain of a schedule, for the sheet
 
     @property
     def pf(self) -> float:
@@ -49,6 +50,7 @@ class Context:
     calc_date: str | None = None  # ISO date of the calculation, handed in by the command
     phases: dict[str, PhaseLoad] = field(default_factory=dict)  # line currents per node
     lighting_minimum: list = field(default_factory=list)  # 220.12 figures (checks/lighting)
+    chains: dict = field(default_factory=dict)  # panel id -> DemandChain of its schedule
 
     def design_factor(self) -> float:
         """The continuous-load factor (rule device-continuous-125)."""
@@ -155,6 +157,7 @@ def build_context(
     ctx = Context(job, tree, loads, book, calc_date=calc_date)
     ctx.phases = roll_up_phases(job, tree, own)
     ctx.lighting_minimum = minima
+    ctx.chains = {n: o.chain for n, o in own.items() if o.chain is not None}
     return ctx
 
 

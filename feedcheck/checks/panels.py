@@ -5,7 +5,7 @@ from __future__ import annotations
 from ..calc.power import current_from_apparent_power_a
 from ..model import Panel
 from .context import Context
-from .loads import phase_design_steps
+from .loads import demand_chain_steps, phase_design_steps
 
 
 def check_panel(ctx: Context, p: Panel) -> None:
@@ -48,6 +48,7 @@ def check_panel(ctx: Context, p: Panel) -> None:
         round(i_load, 1),
         "A",
     )
+    demand_chain_steps(ctx.chains.get(p.id), sh)
     i_design, phase = phase_design_steps(ctx, p.id, sh, "panel-bus-load")
     ctx.nodes[p.id].values.update(
         {"load_va": load.va, "load_a": i_load, "design_current_a": i_design}

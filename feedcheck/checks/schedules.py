@@ -190,6 +190,29 @@ class ScheduleDemand:
     # demand current on lines A, B, C of each panel [A], continuous / noncontinuous
     phase_cont_a: np.ndarray | None = None  # (panels, 3)
     phase_non_a: np.ndarray | None = None
+    continuous_by_kind_va: np.ndarray | None = None  # (panels, kinds) connected
+    tiers: dict | None = None  # demand tiers by kind (for the chain on the sheet)
+    motor_factor: float = 1.25  # rule df-motor-largest, as panel_demand used it
+
+    def chain(self, j: int):
+        """The demand arithmetic of panel ``j`` as one chain (calc/demand_chain.py)."""
+        from ..calc.demand_chain import demand_chain
+
+        f = self.figures
+        conn = {k: float(f.connected_va[j, i]) for i, k in enumerate(KINDS)}
+        cont = {
+            k: float(self.continuous_by_kind_va[j, i])
+            for i, k in enumerate(KINDS)
+            if k != "motor"
+        }
+        return demand_chain(
+            conn,
+            cont,
+            float(f.largest_motor_va[j]),
+            self.tiers,
+            self.motor_factor,
+            self.continuous_factor,
+        )
 
     @property
     def loads(self) -> dict[str, Load]:
@@ -202,6 +225,7 @@ class ScheduleDemand:
                 None if self.phase_cont_a is None else tuple(map(float, self.phase_cont_a[j])),
                 None if self.phase_non_a is None else tuple(map(float, self.phase_non_a[j])),
                 float(f.connected_va[j, KINDS.index("lighting")]),
+                None if self.tiers is None else self.chain(j),
             )
             for j, pid in enumerate(self.panel_ids)
         }
@@ -230,17 +254,19 @@ def schedule_demand(
     _v, load_va, current_a, _k = circuit_electrics(c, schedule.load_unit, system)
     codes, ids = pd.factorize(pd.Series(c["panel"].to_numpy(object)))
     kcode = np.asarray(pd.Categorical(c["kind"].to_numpy(object), categories=KINDS).codes)
+    # a motor is never also "continuous": 430.24 takes its 125 % as the largest motor
+    # (calc/demand_chain.py step 3), so the 125 % of 215.2(A)(1) is not applied again
+    cont = c["continuous"].to_numpy(bool) & (kcode != KINDS.index("motor"))
     figures = panel_demand(
         kcode,
         load_va,
-        c["continuous"].to_numpy(bool),
+        cont,
         c["pf"].to_numpy(float),
         codes,
         len(ids),
         {k: _tiers(rows) for k, rows in tiers.items()},
         tiers["motor-largest"][0][2],
     )
-    cont = c["continuous"].to_numpy(bool)
     dem_a = current_a * figures.circuit_factor  # demand current on each pole of a circuit
     args = (c["poles"].to_numpy(), c["circuit"].to_numpy(), np.asarray(codes), len(ids), system)
     return ScheduleDemand(
@@ -252,6 +278,13 @@ def schedule_demand(
         tiers["continuous"][0][2],
         _line_currents(np.where(cont, dem_a, 0.0), *args),
         _line_currents(np.where(cont, 0.0, dem_a), *args),
+        np.bincount(
+            np.asarray(codes) * len(KINDS) + kcode,
+            weights=np.where(cont, load_va, 0.0),
+            minlength=len(KINDS) * len(ids),
+        ).reshape(len(ids), len(KINDS)),
+        {k: rows for k, rows in tiers.items() if k in KINDS and k != "motor"},
+        tiers["motor-largest"][0][2],
     )
 
 

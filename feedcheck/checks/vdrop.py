@@ -355,7 +355,17 @@ def _motor_starting(ctx: Context) -> None:
         else:
             es = v.line_v
             zr, zx = (z_node * SQRT3).real, (z_node * SQRT3).imag
-        vt = float(vk.motor_starting_voltage_pct(es, i_lr, pf_start, zr, zx, es))
+        lr_text = f"locked rotor {i_lr:.0f} A" + (
+            "" if m.locked_rotor_a else f", {row['lr_multiple']:g} × FLC typical"
+        )
+        bus = float(vk.motor_starting_voltage_pct(es, i_lr, pf_start, zr, zx, es))
+        other = ctx.rules.rule("ms-other-loads")
+        ctx.compare(m.id, "starting dip at the panel", 100.0 - bus,
+                    other.number("max_dip_pct"), "%", "at_most", "ms-other-loads",
+                    f"{m.panel_id} at {bus:.1f} % while {m.id} starts ({lr_text}): other "
+                    "loads on the panel see this dip", fail_status=str(other["status"]))
+        br, bx, where = _motor_branch(ctx, m, v.phases)
+        vt = float(vk.motor_starting_voltage_pct(es, i_lr, pf_start, zr + br, zx + bx, es))
         dip = 100.0 - vt
         ctx.compare(
             m.id,
@@ -365,9 +375,27 @@ def _motor_starting(ctx: Context) -> None:
             "%",
             "at_most",
             "ms-motor-terminals",
-            f"{vt:.1f} % of rated voltage at {m.panel_id} while starting "
-            f"(locked rotor {i_lr:.0f} A"
-            + ("" if m.locked_rotor_a else f", {row['lr_multiple']:g} × FLC typical")
-            + ")",
+            f"{vt:.1f} % of rated voltage {where} while starting ({lr_text})",
             fail_status=str(lim["status"]),
         )
+
+
+def _motor_branch(ctx: Context, m, phases: int) -> tuple[float, float, str]:
+    """R and X [Ω] of the motor's branch run as the dip divider sees it (per phase for
+    three-phase, out and back for single-phase), and where the dip is computed."""
+    if m.length_m is None or m.size is None:
+        ctx.assume(
+            f"{m.id}: starting dip computed at panel {m.panel_id}, its branch run not "
+            "included (give length and conductors on [[motor]] for the terminals)"
+        )
+        return 0.0, 0.0, f"at {m.panel_id} (branch run not given: at the terminals it is lower)"
+    r, x = ck.ac_impedance_ohm_per_m(
+        m.size.name, m.material, m.raceway, OPERATING_C, data=ctx.rules.conductors
+    )
+    k = 1.0 if phases == 3 else 2.0
+    return (
+        k * float(r) * m.length_m,
+        k * float(x) * m.length_m,
+        f"at the motor terminals ({m.length_m / M_PER_FT:,.0f} ft of {m.size.name} "
+        f"{m.material.capitalize()} from {m.panel_id})",
+    )

@@ -89,3 +89,38 @@ def area_m2(r: Reader, t: dict, path: str) -> float | None:
         r.add(f"{path}.area", raw, expected)
         return None
     return area_m2
+
+
+def locked_rotor_check(r: Reader, t: dict, path: str, lra, fla) -> None:
+    """A locked-rotor current below the full-load current is an input error: it would
+    give a silently tiny starting dip (calc/motors.locked_rotor_multiple)."""
+    if lra is None or fla is None:
+        return
+    from ..calc.motors import locked_rotor_multiple
+
+    try:
+        locked_rotor_multiple(lra, fla)
+    except ValueError:
+        r.add(
+            f"{path}.locked_rotor",
+            t.get("locked_rotor"),
+            f"a locked-rotor current at least the full-load current ({fla:g} A); "
+            "typically 5 to 8 times it",
+        )
+
+
+def motor_branch(r: Reader, t: dict, path: str) -> dict:
+    """The motor's branch run (``length`` and ``conductors``, optional ``raceway``) for
+    the starting dip at its terminals; both or neither."""
+    from ..model import RACEWAYS
+
+    if "length" not in t and "conductors" not in t:
+        return {}
+    length = r.qty(t, path, "length", "length")
+    size, material = r.conductor(t, path, "conductors")
+    raceway = r.text(t, path, "raceway", required=False, default="steel")
+    if raceway not in RACEWAYS:
+        r.add(f"{path}.raceway", raceway, "one of " + ", ".join(RACEWAYS))
+    if length is not None and not 0 < length <= 2000:
+        r.add(f"{path}.length", t.get("length"), "a branch length above 0 and up to 2000 m")
+    return {"length_m": length, "size": size, "material": material or "cu", "raceway": raceway}

@@ -34,6 +34,7 @@ from ..model import (
 )
 from .defaults import typical_x_r
 from .element_keys import area_m2 as _area
+from .element_keys import locked_rotor_check, motor_branch
 from .element_keys import phases_connected as _phases_connected
 from .element_keys import tap_pct as _tap
 from .feed_rules import check_feed, check_voltages
@@ -102,7 +103,9 @@ PANEL_KEYS = (
     "occupancy",
     "area",
 )
-MOTOR_KEYS = ("id", "panel", "full_load", "hp", "locked_rotor")
+MOTOR_KEYS = (
+    "id", "panel", "full_load", "hp", "locked_rotor", "length", "conductors", "raceway"
+)
 OPTION_KEYS = (
     "impedance_tolerance",
     "voltage_factor",
@@ -485,12 +488,15 @@ def _motor(r: Reader, t: dict, path: str) -> Motor:
     hp = r.number(t, path, "hp", 0.1, 1000)
     if fla is None and "full_load" not in t:
         r.add(f"{path}.full_load", None, "the motor's full-load current, e.g. '30.8 A'")
+    lra = r.qty(t, path, "locked_rotor", "current", required=False)
+    locked_rotor_check(r, t, path, lra, fla)
     return Motor(
         id=r.text(t, path, "id"),
         panel_id=r.text(t, path, "panel"),
         full_load_a=fla or 1.0,
-        locked_rotor_a=r.qty(t, path, "locked_rotor", "current", required=False),
+        locked_rotor_a=lra,
         hp=hp,
+        **motor_branch(r, t, path),
     )
 
 

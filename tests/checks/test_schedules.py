@@ -281,3 +281,25 @@ def test_demand_is_computed_once_per_panel(samples, monkeypatch):
     monkeypatch.setattr(sc, "panel_demand", counted)
     res = run_job(samples / "harbor_kitchen.toml")
     assert len(res.schedules) == 2 and len(calls) == 2  # LP1 and EQ1, once each
+
+
+def test_largest_motor_25_percent_counted_once(tmp_path):
+    """Issue 13 item 3, by hand: 18,000 VA continuous lighting + one 28,300 VA motor that
+    the schedule also marks continuous. Demand 18,000 + 28,300 = 46,300 VA; + 25 % of the
+    largest motor 7,075 VA (NFPA 70-2023 430.24), once; + 25 % of the continuous lighting
+    4,500 VA (215.2(A)(1)); design 57,875 VA. Before: the motor's 125 % went into the
+    continuous total (53,375 VA) and got 125 % again (66,719 VA)."""
+    from feedcheck.checks.schedules import schedule_demand
+
+    rows = [
+        _row(1, poles=3, kind="lighting", cont="yes", va=18_000, brk=70, cond="4 AWG Cu"),
+        _row(7, poles=3, kind="motor", cont="yes", va=28_300, brk=150, cond="1/0 AWG Cu"),
+    ]
+    r = _check(tmp_path, rows)
+    assert r.totals["continuous_va"] == pytest.approx(18_000)
+    assert r.totals["design_va"] == pytest.approx(46_300 + 7_075 + 4_500)
+    chain = schedule_demand(read_schedule(tmp_path / "P1.csv"), WYE).chain(0)
+    assert float(chain.connected_total_va) == pytest.approx(46_300)
+    assert float(chain.largest_motor_adder_va) == pytest.approx(7_075)
+    assert float(chain.continuous_adder_va) == pytest.approx(4_500)
+    assert float(chain.design_va) == pytest.approx(57_875)
