@@ -241,7 +241,14 @@ def _run_drop(
             "length_m": run.length_m,
         }
     )
-    lim = limits["feeder"]
+    figures = (pct, approx_pct, current, pf, kind)
+    _feeder_finding(ctx, run, pv, limits["feeder"], upstream_pct, figures)
+    return pct
+
+
+def _feeder_finding(ctx: Context, run, pv, lim, upstream_pct: float, figures) -> None:
+    """The feeder-drop finding of a run: the feeder as a whole up to its receiving end."""
+    pct, approx_pct, current, pf, kind = figures
     cum = upstream_pct + pct
     ok = passes(cum, lim.max_pct, "at_most")
     note = (
@@ -268,7 +275,6 @@ def _run_drop(
         note,
         fail_status=lim.status,
     )
-    return pct
 
 
 def _balanced(feed, pv) -> bool:
