@@ -242,7 +242,10 @@ def report_connections(ctx) -> None:
     assumption of the report and an info finding naming the key that fixes it."""
     for t in ctx.job.transformers:
         ph = ctx.phases.get(t.id)
-        if ph is None or not ph.single_phase_feed:
+        if ph is None:
+            continue
+        if not ph.single_phase_feed:
+            _say_unbalanced_primary(ctx, t, ph)
             continue
         pair = "-".join(ph.connection)
         sh = ctx.sheet(t.id, "transformer", f"Transformer {t.id}")
@@ -299,4 +302,18 @@ def demand_chain_steps(chain, sheet) -> None:
         f" + {float(chain.continuous_adder_va):,.0f}",
         round(float(chain.design_va)),
         "VA",
+    )
+
+
+def _say_unbalanced_primary(ctx, t: Transformer, ph: PhaseLoad) -> None:
+    """State how an unbalanced three-phase secondary is carried to the primary."""
+    load = ph.cont_a + ph.non_a
+    if ph.lines != 3 or load.max() - load.min() <= 1e-9 * max(1.0, load.max()):
+        return
+    how = ("line to neutral on the same phase" if t.primary.kind == "wye"
+           else "line to line on the primary pair of its winding (a on A-B, b on B-C, c on C-A)")
+    ctx.assume(
+        f"{t.id}: the secondary phases are unequally loaded; the balanced part is carried "
+        f"to the primary as a three-phase load and each phase's excess {how} "
+        "(the winding pairing moves the excess between phases, not its size)"
     )

@@ -231,3 +231,16 @@ def test_transformer_winding_heaviest_phase(check_json, tmp_path):
     assert f["value"] == pytest.approx(118.75, rel=1e-9)
     assert f["limit"] == pytest.approx(75000 / (math.sqrt(3) * 208), rel=1e-9)
     assert f["status"] == "ok"
+
+
+def test_unbalanced_secondary_carried_to_the_primary_is_stated(write_job, tmp_path):
+    """The delta primary of a 208Y/120 V unit sees 11.4 kVA on phase a as a single-phase
+    load on one primary pair: 11,400 / 480 = 23.75 A on two lines (NFPA 70-2023
+    Informative Annex D, line-to-line loads at S / V); the report says how."""
+    from feedcheck.runner import run_job
+
+    (tmp_path / "HEAVY_A.csv").write_text(SCHEDULE, encoding="utf-8")
+    res = run_job(write_job(HEAVY_A))
+    assert any("T: the secondary phases are unequally loaded" in a for a in res.assumptions)
+    r = next(x for x in res.findings if x.subject == "T" and x.check == "winding loading (heaviest phase)")
+    assert r.value == pytest.approx(118.75, rel=1e-9)
