@@ -242,5 +242,8 @@ def test_unbalanced_secondary_carried_to_the_primary_is_stated(write_job, tmp_pa
     (tmp_path / "HEAVY_A.csv").write_text(SCHEDULE, encoding="utf-8")
     res = run_job(write_job(HEAVY_A))
     assert any("T: the secondary phases are unequally loaded" in a for a in res.assumptions)
-    r = next(x for x in res.findings if x.subject == "T" and x.check == "winding loading (heaviest phase)")
+    r = next(
+        x for x in res.findings
+        if x.subject == "T" and x.check == "winding loading (heaviest phase)"
+    )
     assert r.value == pytest.approx(118.75, rel=1e-9)
