@@ -25,7 +25,13 @@ MATERIALS = ("cu", "al")
 # how users write a conductor material -> the material
 MATERIAL_WORDS = {"cu": "cu", "copper": "cu", "al": "al", "aluminum": "al", "aluminium": "al"}
 INSULATION_RATINGS_C = (60.0, 75.0, 90.0)  # conductor insulation / terminal columns [°C]
-OCCUPANCIES = ("other", "dwelling", "hospital", "hotel", "warehouse")  # Table 220.42 rows
+# occupancies: the lighting demand factor rows of Table 220.42 (other, dwelling, hospital,
+# hotel, warehouse; the rest at 100 % like "other") and the unit loads of Table 220.12
+OCCUPANCIES = (
+    "other", "dwelling", "hospital", "hotel", "warehouse",
+    "auditorium", "bank", "barber", "church", "club", "courtroom", "garage", "industrial",
+    "lodge", "office", "restaurant", "school", "store",
+)
 LOAD_KINDS = ("lighting", "receptacle", "motor", "heating", "other")  # schedule circuits
 # system shapes (VoltageSystem.kind): 208Y/120 wye, 480 V delta, 120/240 split-phase
 # three-wire, single-phase two-wire, and three-phase with the winding not stated
@@ -105,6 +111,9 @@ class Transformer:
     tap_pct: float = 0.0
     z0_ratio: float = 1.0
     x_r_typical_row: str = ""  # "" when the job gives X/R; else the typical-table row used
+    # lines a single-phase unit takes on a three-phase feed: "AB", "BC" or "CA";
+    # "" = assigned to balance by the checks
+    phases_connected: str = ""
 
     @property
     def x_r_typical(self) -> bool:
@@ -151,6 +160,11 @@ class Motor:
     full_load_a: float
     locked_rotor_a: float | None
     hp: float | None
+    # the motor's branch circuit, for the starting dip at its terminals (None: not given)
+    length_m: float | None = None
+    size: Size | None = None
+    material: str = "cu"
+    raceway: str = "steel"
 
 
 @dataclass(frozen=True)
@@ -166,6 +180,7 @@ class Panel:
     pf: float
     instantaneous_a: float | None = None
     occupancy: str = "other"  # lighting demand factors of the schedule (Table 220.42)
+    area_m2: float | None = None  # floor area served, for the 220.12 minimum lighting [m²]
 
 
 @dataclass(frozen=True)

@@ -31,7 +31,11 @@ impedance = "5.0 %"            # nameplate %Z
 # x_r = 3.5                    # optional; a typical value by rating is used if absent
 primary_device = "110 A"       # fuse or breaker rating on the primary
 secondary_device = "250 A"     # optional: device on the secondary (450.3(B) arrangement)
-# tap = "+2.5 %"               # optional no-load tap: -5, -2.5, 0, +2.5, +5 %
+# tap = "+2.5 %"               # optional no-load tap, signed as on the nameplate: "+" is
+#                              # above normal and LOWERS the secondary; "-" raises it
+#                              # (-5, -2.5, 0, +2.5, +5 %; unsigned or boost/buck refused)
+# phases_connected = "A-B"     # single-phase unit on a three-phase feed: its pair of lines
+#                              # (absent: chosen to balance the phases, and said so)
 
 [[run]]                        # one conductor run between two elements
 id = "F-LP1"
@@ -65,13 +69,17 @@ load = "40 kVA"                # demand load (a schedule replaces it when given)
 continuous = "10 kVA"          # the continuous part of the load
 power_factor = 0.9
 # schedule = "LP1.csv"         # optional: panel schedule beside this file (CSV or XLSX)
-# occupancy = "other"          # lighting demand: other, dwelling, hospital, hotel, warehouse
+# occupancy = "other"          # lighting demand: other, dwelling, hospital, hotel, warehouse;
+#                              # with area also office, store, school, industrial, ... (220.12)
+# area = "12000 ft2"           # floor area served: minimum lighting load of Table 220.12
 
 # [[motor]]                    # optional: motors, for fault contribution and starting dip
 # id = "EF-1"
 # panel = "LP1"
 # full_load = "30.8 A"
-# locked_rotor = "185 A"       # optional
+# locked_rotor = "185 A"       # optional; at least the full-load current
+# length = "120 ft"            # optional branch run to the motor (with conductors):
+# conductors = "8 AWG Cu"      # the starting dip is then computed at its terminals
 
 # [options]
 # impedance_tolerance = "7.5 %"   # transformer %Z tolerance (IEEE C57.12.00)

@@ -33,7 +33,12 @@ def test_review_job_long_run_names_the_smallest_passing_conductor(samples, write
     i = 24e3 / (math.sqrt(3) * 208)
     ze = 0.12 * 0.85 + 0.044 * math.sqrt(1 - 0.85**2)
     hand_pct = math.sqrt(3) * i * 0.420 * ze / 208 * 100
-    assert g.value == pytest.approx(hand_pct, rel=5e-3)  # Table 9 R to 2-3 digits
+    runs = {r["id"]: r for r in fixed.runs}
+    assert runs["F-RTU"]["vdrop_pct"] == pytest.approx(hand_pct, rel=5e-3)  # Table 9 R 2-3 digits
+    # issue 13 item 6: the 3 % counts the feeder as a whole, the run into MDP included
+    upstream = sum(r["vdrop_pct"] for r in fixed.runs if r["to"] == "MDP")
+    assert upstream > 0
+    assert g.value == pytest.approx(runs["F-RTU"]["vdrop_pct"] + upstream, rel=1e-9)
     assert g.value < 3.0 and g.status == "ok"
 
 
@@ -53,9 +58,11 @@ def test_job_own_limit_is_cited(samples, write_job):
 
 def test_motor_starting_dip_is_reported(samples):
     res = run_job(samples / "cedar_annex_review.toml")
-    f = next(x for x in res.findings if x.subject == "RTU-1")
-    assert f.check == "motor starting dip" and f.rule_id == "ms-motor-terminals"
+    f = next(x for x in res.findings if x.subject == "RTU-1" and x.check == "motor starting dip")
+    assert f.rule_id == "ms-motor-terminals"
     assert 0 < f.value < 100
+    g = next(x for x in res.findings if x.subject == "RTU-1" and x.check != f.check)
+    assert g.rule_id == "ms-other-loads" and g.value == f.value  # no branch run in the job
 
 
 def test_motor_contribution_referred_through_the_transformer(samples):
@@ -73,8 +80,10 @@ def test_demo_jobs_pass(samples, name):
 
 
 def test_no_load_tap_shifts_the_secondary_voltage(samples, write_job):
-    # A +2.5 % no-load tap raises the secondary voltage by 2.5 % of the primary voltage
-    # (per-unit arithmetic, common practice, no source): E_s = 1.025 pu before the drop.
+    # Issue 13 item 10, nameplate convention: a "+2.5 %" primary tap is above normal (more
+    # primary turns), so the secondary voltage is LOWER: E_s = 1 / 1.025 = 0.9756 pu
+    # before the drop, 2.44 points below the normal tap (IEEE Std C57.12.00, taps as
+    # rated primary voltages of the winding, from memory). Today's code raised it 2.5.
     text = (samples / "harbor_kitchen.toml").read_text()
     base = run_job(write_job(text, "base.toml"))
     tapped = run_job(
@@ -82,4 +91,4 @@ def test_no_load_tap_shifts_the_secondary_voltage(samples, write_job):
     )
     v0 = next(n for n in base.nodes if n.id == "T1").values["voltage_pct"]
     v1 = next(n for n in tapped.nodes if n.id == "T1").values["voltage_pct"]
-    assert v1 - v0 == pytest.approx(2.5, abs=0.05)
+    assert v1 - v0 == pytest.approx(100 / 1.025 - 100, abs=0.05)

@@ -14,6 +14,8 @@ from .conductors import check_run
 from .context import Context, Load, build_context
 from .fault import check_faults
 from .impedance import fault_assumptions
+from .lighting import report_minimum_lighting
+from .loads import check_transformer_phases, report_connections
 from .panels import check_panel, check_standard_ratings
 from .summary import describe_results
 from .transformer import check_transformer
@@ -49,8 +51,11 @@ def check_job(
         )
     for t in job.transformers:
         check_transformer(ctx, t)
+        check_transformer_phases(ctx, t)
+    report_connections(ctx)
     for p in job.panels:
         check_panel(ctx, p)
+    report_minimum_lighting(ctx)
     check_standard_ratings(ctx)
     check_faults(ctx)
     check_voltage_drop(ctx)

@@ -8,7 +8,6 @@ from ..calc import ampacity as ak
 from ..calc import protection as pk
 from ..calc import selection as sk
 from ..calc.constants import M_PER_FT
-from ..calc.power import current_from_apparent_power_a
 from ..calc.sizes import SIZES
 from ..model import Run
 from .bonding import check_sds_conductors
@@ -16,16 +15,15 @@ from .compare import passes
 from .context import Context
 from .run_fix import RunDuty, next_passing
 from .taps import check_unprotected_run, run_device
+from .termination import termination_note
 from .withstand import check_withstand
 
 
 def _loads(ctx: Context, run: Run) -> tuple[float, float, float]:
-    """Continuous and noncontinuous load current on a run, and its power factor."""
-    v = ctx.tree.voltage_of[run.from_id]
-    load = ctx.loads[run.to_id]
-    cont = current_from_apparent_power_a(load.continuous_va, v.line_v, v.phases)
-    non = current_from_apparent_power_a(load.va - load.continuous_va, v.line_v, v.phases)
-    return cont, non, load.pf
+    """Continuous and noncontinuous load current on a run (its heaviest line, single-
+    phase elements at S / V_LL: checks/loads.py), and its power factor."""
+    cont, non = ctx.feed_currents_a(run.to_id)
+    return cont, non, ctx.loads[run.to_id].pf
 
 
 def _select(
@@ -202,8 +200,11 @@ def _check_device(ctx: Context, run: Run, device: float, ampacity_a: float, cont
     )
 
 
-def _check_ampacity(ctx: Context, run: Run, chain, load_a: float, fix_text) -> None:
-    """Ampacity before and after corrections against the load (215.2(A)(1))."""
+def _check_ampacity(
+    ctx: Context, run: Run, chain, load_a: float, fix_text, tnote: str = ""
+) -> None:
+    """Ampacity before and after corrections against the load (215.2(A)(1)); ``tnote``
+    says when the 60 °C termination rule governs."""
     # load before and after corrections (215.2(A)(1))
     ok = chain.ok_before
     before_a = min(chain.base_per_set_a * chain.sets, chain.termination_cap_a)
@@ -216,6 +217,7 @@ def _check_ampacity(ctx: Context, run: Run, chain, load_a: float, fix_text) -> N
         "ok" if ok else "fail",
         "run-ampacity-before",
         f"needs {chain.required_before_a:.1f} A before corrections"
+        + tnote
         + ("" if ok else "; " + fix_text()),
     )
     ok = chain.ok_after
@@ -228,7 +230,7 @@ def _check_ampacity(ctx: Context, run: Run, chain, load_a: float, fix_text) -> N
         "ok" if ok else "fail",
         "run-ampacity-after",
         f"allowable {chain.final_a:.1f} A ({chain.governed_by} governs) for "
-        f"{load_a:.1f} A of load" + ("" if ok else "; " + fix_text()),
+        f"{load_a:.1f} A of load" + tnote + ("" if ok else "; " + fix_text()),
     )
 
 
@@ -281,6 +283,7 @@ def check_run(ctx: Context, run: Run) -> None:
             "termination_c": term,
         }
     )
+    tnote = termination_note(ctx, run, term, chain.termination_cap_a)  # issue 13 item 7
     fix = None
 
     def fix_text():
@@ -289,7 +292,7 @@ def check_run(ctx: Context, run: Run) -> None:
             fix = _next_passing(ctx, run, cont, non, device, run.termination_c, cc, rooftop_c)
         return fix
 
-    _check_ampacity(ctx, run, chain, cont + non, fix_text)
+    _check_ampacity(ctx, run, chain, cont + non, fix_text, tnote)
     if device is not None:
         _check_device(ctx, run, device, chain.final_a, cont, non, fix_text)
         _check_egc(ctx, run, device, cont, non, term, cc, rooftop_c)

@@ -10,6 +10,7 @@ from ..model import Job, Tree
 from ..results import NodeResult, Sheet
 from ..rulebook import RuleBook, current_rulebook
 from .compare import TOLERANCE, Direction, compare
+from .loads import PhaseLoad, roll_up_phases
 
 
 @dataclass
@@ -19,6 +20,12 @@ class Load:
     va: float = 0.0
     continuous_va: float = 0.0
     w: float = 0.0  # real power, to derive the combined power factor
+    # own load per line (A, B, C) at the node's voltage [A] when known (schedules);
+    # None: spread evenly over the node's lines
+    phase_cont_a: tuple[float, float, float] | None = None
+    phase_non_a: tuple[float, float, float] | None = None
+    lighting_va: float | None = None  # connected general lighting of a schedule [VA]
+    chain: object = None  # calc.demand_chain.DemandChain of a schedule, for the sheet
 
     @property
     def pf(self) -> float:
@@ -41,6 +48,20 @@ class Context:
     assumptions: list[str] = field(default_factory=list)
     methods: list[tuple[str, str]] = field(default_factory=list)
     calc_date: str | None = None  # ISO date of the calculation, handed in by the command
+    phases: dict[str, PhaseLoad] = field(default_factory=dict)  # line currents per node
+    lighting_minimum: list = field(default_factory=list)  # 220.12 figures (checks/lighting)
+    chains: dict = field(default_factory=dict)  # panel id -> DemandChain of its schedule
+
+    def design_factor(self) -> float:
+        """The continuous-load factor (rule device-continuous-125)."""
+        return self.rules.protection.continuous_factor
+
+    def feed_currents_a(self, node: str) -> tuple[float, float]:
+        """Continuous and noncontinuous current [A] of the heaviest line of the feed
+        into ``node`` (on the lines of what feeds it), continuous at 125 %."""
+        ph = self.phases[node]
+        k = ph.feed_heaviest(self.design_factor())
+        return float(ph.feed_cont_a[k]), float(ph.feed_non_a[k])
 
     def add(
         self,
@@ -118,12 +139,14 @@ def build_context(
     ``rules``: the rule book to check against (default: the tables in force,
     shipped or ``--tables DIR``)."""
     tree = job.tree
+    book = rules if rules is not None else current_rulebook()
     own: dict[str, Load] = {n: Load() for n in tree.order}
     for p in job.panels:
         if panel_loads and p.id in panel_loads:
             own[p.id] = panel_loads[p.id]
         elif p.load_va is not None:
             own[p.id] = Load(p.load_va, p.continuous_va, p.load_va * p.pf)
+    minima = _add_minimum_lighting(job, book, own)
     loads = {n: Load(o.va, o.continuous_va, o.w) for n, o in own.items()}
     for n in reversed(tree.order):
         parent = tree.parent_node[n]
@@ -131,6 +154,39 @@ def build_context(
             loads[parent].va += loads[n].va
             loads[parent].continuous_va += loads[n].continuous_va
             loads[parent].w += loads[n].w
-    return Context(
-        job, tree, loads, rules if rules is not None else current_rulebook(), calc_date=calc_date
-    )
+    ctx = Context(job, tree, loads, book, calc_date=calc_date)
+    ctx.phases = roll_up_phases(job, tree, own)
+    ctx.lighting_minimum = minima
+    ctx.chains = {n: o.chain for n, o in own.items() if o.chain is not None}
+    return ctx
+
+
+def _add_minimum_lighting(job: Job, book: RuleBook, own: dict[str, Load]) -> list:
+    """Add each panel's shortfall below the 220.12 minimum lighting to its own load
+    (continuous, pf 1, evenly over its lines); the figures for the report."""
+    from dataclasses import replace
+
+    from .lighting import minimum_lighting
+    from .loads import line_v, lines_of
+
+    lighting = {n: o.lighting_va for n, o in own.items() if o.lighting_va is not None}
+    minima = minimum_lighting(job, book, lighting)
+    for m in minima:
+        short = m.used_va - (m.scheduled_va or 0.0)
+        if short <= 0:
+            continue
+        o = own[m.panel_id]
+        v = job.tree.voltage_of[m.panel_id]
+        k = lines_of(v)
+        extra = [short / k / line_v(v) if j < k else 0.0 for j in range(3)]
+        cont = o.phase_cont_a
+        own[m.panel_id] = replace(
+            o,
+            va=o.va + short,
+            continuous_va=o.continuous_va + short,
+            w=o.w + short,
+            phase_cont_a=None
+            if cont is None
+            else tuple(a + b for a, b in zip(cont, extra, strict=True)),
+        )
+    return minima

@@ -5,6 +5,7 @@ from __future__ import annotations
 from ..calc.power import current_from_apparent_power_a
 from ..model import Panel
 from .context import Context
+from .loads import demand_chain_steps, phase_design_steps
 
 
 def check_panel(ctx: Context, p: Panel) -> None:
@@ -34,9 +35,6 @@ def check_panel(ctx: Context, p: Panel) -> None:
         )
         return
     i_load = current_from_apparent_power_a(load.va, v.line_v, v.phases)
-    i_cont = current_from_apparent_power_a(load.continuous_va, v.line_v, v.phases)
-    factor = ctx.rules.protection.continuous_factor  # rule device-continuous-125
-    i_design = i_load + (factor - 1.0) * i_cont
     sh.inputs.append(
         (
             "Demand load",
@@ -45,20 +43,14 @@ def check_panel(ctx: Context, p: Panel) -> None:
         )
     )
     sh.step(
-        "Demand current",
+        "Demand current, balanced average",
         "I = S / (√3 · V_LL)" if v.phases == 3 else "I = S / V",
         f"{load.va:,.0f} / ({'√3 · ' if v.phases == 3 else ''}{v.line_v:g})",
         round(i_load, 1),
         "A",
     )
-    sh.step(
-        "Design current",
-        f"I_noncontinuous + {100 * factor:g} % · I_continuous",
-        f"{i_load - i_cont:.1f} + {factor:g} × {i_cont:.1f}",
-        round(i_design, 1),
-        "A",
-        "panel-bus-load",
-    )
+    demand_chain_steps(ctx.chains.get(p.id), sh)
+    i_design, phase = phase_design_steps(ctx, p.id, sh, "panel-bus-load")
     ctx.nodes[p.id].values.update(
         {"load_va": load.va, "load_a": i_load, "design_current_a": i_design}
     )
@@ -76,7 +68,8 @@ def check_panel(ctx: Context, p: Panel) -> None:
             "A",
             "at_most",
             rid,
-            f"design current {i_design:.1f} A (continuous at 125 %) vs {what} {rating:g} A",
+            f"design current of the heaviest phase ({phase}) {i_design:.1f} A "
+            f"(continuous at 125 %) vs {what} {rating:g} A",
         )
     if p.main_device_a:
         ctx.compare(

@@ -187,14 +187,52 @@ class ScheduleDemand:
     panel_ids: tuple[str, ...]
     figures: PanelDemand
     continuous_factor: float
+    # demand current on lines A, B, C of each panel [A], continuous / noncontinuous
+    phase_cont_a: np.ndarray | None = None  # (panels, 3)
+    phase_non_a: np.ndarray | None = None
+    continuous_by_kind_va: np.ndarray | None = None  # (panels, kinds) connected
+    tiers: dict | None = None  # demand tiers by kind (for the chain on the sheet)
+    motor_factor: float = 1.25  # rule df-motor-largest, as panel_demand used it
+
+    def chain(self, j: int):
+        """The demand arithmetic of panel ``j`` as one chain (calc/demand_chain.py)."""
+        from ..calc.demand_chain import demand_chain
+
+        f = self.figures
+        conn = {k: float(f.connected_va[j, i]) for i, k in enumerate(KINDS)}
+        cont = {
+            k: float(self.continuous_by_kind_va[j, i])
+            for i, k in enumerate(KINDS)
+            if k != "motor"
+        }
+        return demand_chain(
+            conn,
+            cont,
+            float(f.largest_motor_va[j]),
+            self.tiers,
+            self.motor_factor,
+            self.continuous_factor,
+        )
 
     @property
     def loads(self) -> dict[str, Load]:
         f = self.figures
         return {
-            pid: Load(float(f.demand_va[j]), float(f.continuous_va[j]), float(f.real_w[j]))
+            pid: Load(
+                float(f.demand_va[j]),
+                float(f.continuous_va[j]),
+                float(f.real_w[j]),
+                None if self.phase_cont_a is None else tuple(map(float, self.phase_cont_a[j])),
+                None if self.phase_non_a is None else tuple(map(float, self.phase_non_a[j])),
+                float(f.connected_va[j, KINDS.index("lighting")]),
+                None if self.tiers is None else self.chain(j),
+            )
             for j, pid in enumerate(self.panel_ids)
         }
+
+    def design_phase_a(self) -> np.ndarray:
+        """Design current of every line of every panel (continuous at 125 %) [A]."""
+        return self.continuous_factor * self.phase_cont_a + self.phase_non_a
 
     @property
     def load(self) -> Load:
@@ -213,19 +251,24 @@ def schedule_demand(
 
     tiers = demand_tiers(occupancy, rules)
     c = schedule.circuits
-    _v, load_va, _i, _k = circuit_electrics(c, schedule.load_unit, system)
+    _v, load_va, current_a, _k = circuit_electrics(c, schedule.load_unit, system)
     codes, ids = pd.factorize(pd.Series(c["panel"].to_numpy(object)))
     kcode = np.asarray(pd.Categorical(c["kind"].to_numpy(object), categories=KINDS).codes)
+    # a motor is never also "continuous": 430.24 takes its 125 % as the largest motor
+    # (calc/demand_chain.py step 3), so the 125 % of 215.2(A)(1) is not applied again
+    cont = c["continuous"].to_numpy(bool) & (kcode != KINDS.index("motor"))
     figures = panel_demand(
         kcode,
         load_va,
-        c["continuous"].to_numpy(bool),
+        cont,
         c["pf"].to_numpy(float),
         codes,
         len(ids),
         {k: _tiers(rows) for k, rows in tiers.items()},
         tiers["motor-largest"][0][2],
     )
+    dem_a = current_a * figures.circuit_factor  # demand current on each pole of a circuit
+    args = (c["poles"].to_numpy(), c["circuit"].to_numpy(), np.asarray(codes), len(ids), system)
     return ScheduleDemand(
         occupancy,
         load_va,
@@ -233,7 +276,28 @@ def schedule_demand(
         tuple(str(p) for p in ids),
         figures,
         tiers["continuous"][0][2],
+        _line_currents(np.where(cont, dem_a, 0.0), *args),
+        _line_currents(np.where(cont, 0.0, dem_a), *args),
+        np.bincount(
+            np.asarray(codes) * len(KINDS) + kcode,
+            weights=np.where(cont, load_va, 0.0),
+            minlength=len(KINDS) * len(ids),
+        ).reshape(len(ids), len(KINDS)),
+        {k: rows for k, rows in tiers.items() if k in KINDS and k != "motor"},
+        tiers["motor-largest"][0][2],
     )
+
+
+def _line_currents(current_a, poles, circuit, codes, n_pan: int, system) -> np.ndarray:
+    """Current on lines A, B, C of each panel [A]: each circuit's current on every
+    line of its spaces (a two-pole 208 V load draws S / 208 V on both of its lines)."""
+    counts = np.asarray(poles).astype(np.int64)
+    owner = np.repeat(np.arange(len(counts)), counts)
+    step = np.arange(len(owner)) - np.repeat(np.cumsum(counts) - counts, counts)
+    ph = _phase_of_space(np.asarray(circuit)[owner].astype(np.int64) + 2 * step, system)
+    return np.bincount(
+        codes[owner] * 3 + ph, weights=current_a[owner], minlength=3 * n_pan
+    ).reshape(n_pan, 3)
 
 
 def _tiers(rows: list[tuple[float, float, float]]) -> Tiers:
@@ -385,6 +449,7 @@ def _panel_table(demand: ScheduleDemand, per_phase, sev, system: VoltageSystem):
     design_va = f.demand_va + (demand.continuous_factor - 1.0) * f.continuous_va
     n_ph = 3 if system.phases == 3 else (2 if system.kind == "split" else 1)
     used = per_phase[:, :n_ph]
+    dph = demand.design_phase_a()
     avg = used.mean(axis=1)
     imbalance = (
         np.divide(np.abs(used - avg[:, None]).max(axis=1), avg, out=np.zeros(n_pan), where=avg > 0)
@@ -402,9 +467,14 @@ def _panel_table(demand: ScheduleDemand, per_phase, sev, system: VoltageSystem):
             "demand_va": f.demand_va,
             "continuous_va": f.continuous_va,
             "design_va": design_va,
-            "design_current_a": current_from_apparent_power_a(
+            # the heaviest line's design current (215.2(A)(1)), not the balanced average
+            "design_current_a": dph[:, :n_ph].max(axis=1),
+            "balanced_design_current_a": current_from_apparent_power_a(
                 design_va, system.line_v, system.phases
             ),
+            "phase_a_design_a": dph[:, 0],
+            "phase_b_design_a": dph[:, 1],
+            "phase_c_design_a": dph[:, 2],
             "phase_a_va": per_phase[:, 0],
             "phase_b_va": per_phase[:, 1],
             "phase_c_va": per_phase[:, 2],
@@ -419,8 +489,8 @@ def _panel_table(demand: ScheduleDemand, per_phase, sev, system: VoltageSystem):
 
 
 def _panel_findings(panels, design_va, imbalance, per_phase, rules, system, bus_a, main_a):
-    """Phase balance of each panel, and its design current against bus and main device."""
-    from ..calc.power import current_from_apparent_power_a
+    """Phase balance of each panel, and its heaviest phase's design current against bus
+    and main device."""
     from .compare import compare
 
     n_ph = 3 if system.phases == 3 else (2 if system.kind == "split" else 1)
@@ -443,7 +513,8 @@ def _panel_findings(panels, design_va, imbalance, per_phase, rules, system, bus_
                 tolerance=0.0,
             )
         )
-        i_d = float(current_from_apparent_power_a(design_va[j], system.line_v, system.phases))
+        i_d = float(panels["design_current_a"].iat[j])
+        heavy = "ABC"[int(np.argmax(panels[[f"phase_{x}_design_a" for x in "abc"]].iloc[j]))]
         for rid, what, rating in (
             ("panel-bus-load", "bus rating", bus_a),
             ("panel-main-load", "main device", main_a),
@@ -458,7 +529,8 @@ def _panel_findings(panels, design_va, imbalance, per_phase, rules, system, bus_
                         str(pid),
                         f"demand vs {what}",
                         "A",
-                        f"design current {i_d:.1f} A (continuous at 125 %) vs {what} {rating:g} A",
+                        f"design current of the heaviest phase ({heavy}) {i_d:.1f} A "
+                        f"(continuous at 125 %) vs {what} {rating:g} A",
                     )
                 )
     return findings

@@ -12,12 +12,12 @@ from ..calc import conductor as ck
 from ..calc import transformer as tk
 from ..calc import vdrop as vk
 from ..calc.constants import M_PER_FT, SQRT3
-from ..calc.power import current_from_apparent_power_a
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
 from .compare import passes
 from .context import Context
 from .drop_rules import DropLimit, job_drop_limits
 from .impedance import branch_impedances, fault_assumptions, source_impedance
+from .loads import lines_of
 
 OPERATING_C = 75.0  # conductor temperature for steady-state drop (75 °C terminations)
 
@@ -74,7 +74,7 @@ def check_voltage_drop(ctx: Context) -> None:
             continue
         if run is not None:
             pv = tree.voltage_of[p]
-            seg = _run_drop(ctx, run, pv, load, pct, limits)
+            seg = _run_drop(ctx, run, pv, load, pct, limits, cond_drop[p])
             pct -= seg
             cond_drop_here = cond_drop[p] + seg
         else:
@@ -84,7 +84,9 @@ def check_voltage_drop(ctx: Context) -> None:
             x_r = t.x_r
             r_pct, x_pct = tk.impedance_parts_pct(t.z_pct, x_r)
             frac = load.va / t.rating_va
-            sending = pct / 100.0 * (1 + t.tap_pct / 100.0)
+            # nameplate convention: a "+" tap (above normal) has more primary turns, so
+            # the secondary sits lower: E_s = E_applied / (1 + tap) (calc/taps.py)
+            sending = pct / 100.0 / (1 + t.tap_pct / 100.0)
             try:
                 reg = tk.secondary_drop_pct_exact(r_pct, x_pct, frac, load.pf, sending)
             except ValueError:
@@ -102,7 +104,7 @@ def check_voltage_drop(ctx: Context) -> None:
                 )
             sheet.step(
                 "Secondary voltage under load (primary at its actual voltage, tap "
-                f"{t.tap_pct:+g} %)",
+                f"{t.tap_pct:+g} %: + lowers the secondary, nameplate convention)",
                 "E_r = √(E_s² − b²) − a; a = n(r cos φ + x sin φ), b = n(x cos φ − r sin φ)",
                 f"E_s = {sending:.4f} pu, n = {frac:.3f}, cos φ = {load.pf:.3f}",
                 round(100 * sending - reg, 3),
@@ -137,12 +139,21 @@ def check_voltage_drop(ctx: Context) -> None:
     _motor_starting(ctx)
 
 
-def _run_drop(ctx: Context, run, pv, load, sending_pct: float, limits) -> float:
-    """Drop of one run [% of nominal], with its findings and calculation steps."""
+def _run_drop(
+    ctx: Context, run, pv, load, sending_pct: float, limits, upstream_pct: float = 0.0
+) -> float:
+    """Drop of one run [% of nominal], with its findings and calculation steps.
+
+    The feeder limit is held against the feeder as a whole (issue 13 item 6): the runs
+    from the transformer secondary (or the source) to the run's receiving end, this run
+    included (``upstream_pct`` the conductor drop before it), as the informational
+    notes of 215.2(A) count it."""
     kind = vk.circuit_of_system(pv.kind, pv.phases)
-    current = (
-        current_from_apparent_power_a(load.va, pv.line_v, pv.phases) if load.va > 0 else 0.0
-    )
+    ph = ctx.phases[run.to_id]
+    if ph.single_phase_feed:  # a single-phase unit on two lines of a three-phase feed
+        kind = "1ph2w"
+    feed = ph.feed_cont_a + ph.feed_non_a
+    current = float(feed.max()) if load.va > 0 else 0.0  # the heaviest line
     pf = load.pf
     r, x = ck.ac_impedance_ohm_per_m(
         run.size.name, run.material, run.raceway, OPERATING_C, data=ctx.rules.conductors
@@ -182,10 +193,12 @@ def _run_drop(ctx: Context, run, pv, load, sending_pct: float, limits) -> float:
     approx_pct = 100.0 * approx_v / pv.line_v
     sh = ctx.sheet(run.id, "run", f"Run {run.id} ({run.from_id} → {run.to_id})")
     kk = {"3ph": "√3", "1ph2w": "2", "1ph3w": "2", "ln4w": "2"}[kind]
+    three = pv.phases == 3 and not ph.single_phase_feed
     sh.step(
-        "Load current on the run",
-        "I = S / (√3·V_LL)" if pv.phases == 3 else "I = S / V",
-        f"{load.va:,.0f} VA / ({'√3 × ' if pv.phases == 3 else ''}{pv.line_v:g} V)",
+        "Load current on the run (heaviest line)",
+        "I = S / (√3·V_LL)" if three else "I = S / V_LL (single-phase)",
+        f"{load.va:,.0f} VA / ({'√3 × ' if three else ''}{pv.line_v:g} V)"
+        + ("" if _balanced(feed, pv) else "; lines " + _lines_text(feed)),
         round(current, 1),
         "A",
     )
@@ -228,18 +241,33 @@ def _run_drop(ctx: Context, run, pv, load, sending_pct: float, limits) -> float:
             "length_m": run.length_m,
         }
     )
-    lim = limits["feeder"]
-    ok = passes(pct, lim.max_pct, "at_most")
+    figures = (pct, approx_pct, current, pf, kind)
+    _feeder_finding(ctx, run, pv, limits["feeder"], upstream_pct, figures)
+    return pct
+
+
+def _feeder_finding(ctx: Context, run, pv, lim, upstream_pct: float, figures) -> None:
+    """The feeder-drop finding of a run: the feeder as a whole up to its receiving end."""
+    pct, approx_pct, current, pf, kind = figures
+    cum = upstream_pct + pct
+    ok = passes(cum, lim.max_pct, "at_most")
     note = (
         f"{pct:.2f} % (approximate form {approx_pct:.2f} %) at {current:.0f} A over "
         f"{run.length_m / M_PER_FT:,.0f} ft"
     )
+    if upstream_pct > 0:
+        note += (
+            f", plus {upstream_pct:.2f} % in the feeder runs before it: {cum:.2f} % for "
+            "the feeder as a whole"
+        )
+        ctx.run_values[run.id]["feeder_vdrop_pct"] = cum
     if not ok:
-        note += "; " + _smallest_passing(ctx, run, current, pf, kind, lim.max_pct, pv.line_v)
+        room = max(lim.max_pct - upstream_pct, 1e-6)
+        note += "; " + _smallest_passing(ctx, run, current, pf, kind, room, pv.line_v)
     ctx.compare(
         run.id,
         "feeder voltage drop",
-        pct,
+        cum,
         lim.max_pct,
         "%",
         "at_most",
@@ -247,7 +275,15 @@ def _run_drop(ctx: Context, run, pv, load, sending_pct: float, limits) -> float:
         note,
         fail_status=lim.status,
     )
-    return pct
+
+
+def _balanced(feed, pv) -> bool:
+    used = feed[: lines_of(pv)]
+    return bool(used.max() - used.min() <= 1e-9 * max(1.0, used.max()))
+
+
+def _lines_text(feed) -> str:
+    return " / ".join(f"{x} {a:.1f} A" for x, a in zip("ABC", feed, strict=True))
 
 
 def _smallest_passing(ctx, run, current, pf, kind, limit_pct, nominal_v) -> str:
@@ -325,7 +361,17 @@ def _motor_starting(ctx: Context) -> None:
         else:
             es = v.line_v
             zr, zx = (z_node * SQRT3).real, (z_node * SQRT3).imag
-        vt = float(vk.motor_starting_voltage_pct(es, i_lr, pf_start, zr, zx, es))
+        lr_text = f"locked rotor {i_lr:.0f} A" + (
+            "" if m.locked_rotor_a else f", {row['lr_multiple']:g} × FLC typical"
+        )
+        bus = float(vk.motor_starting_voltage_pct(es, i_lr, pf_start, zr, zx, es))
+        other = ctx.rules.rule("ms-other-loads")
+        ctx.compare(m.id, "starting dip at the panel", 100.0 - bus,
+                    other.number("max_dip_pct"), "%", "at_most", "ms-other-loads",
+                    f"{m.panel_id} at {bus:.1f} % while {m.id} starts ({lr_text}): other "
+                    "loads on the panel see this dip", fail_status=str(other["status"]))
+        br, bx, where = _motor_branch(ctx, m, v.phases)
+        vt = float(vk.motor_starting_voltage_pct(es, i_lr, pf_start, zr + br, zx + bx, es))
         dip = 100.0 - vt
         ctx.compare(
             m.id,
@@ -335,9 +381,27 @@ def _motor_starting(ctx: Context) -> None:
             "%",
             "at_most",
             "ms-motor-terminals",
-            f"{vt:.1f} % of rated voltage at {m.panel_id} while starting "
-            f"(locked rotor {i_lr:.0f} A"
-            + ("" if m.locked_rotor_a else f", {row['lr_multiple']:g} × FLC typical")
-            + ")",
+            f"{vt:.1f} % of rated voltage {where} while starting ({lr_text})",
             fail_status=str(lim["status"]),
         )
+
+
+def _motor_branch(ctx: Context, m, phases: int) -> tuple[float, float, str]:
+    """R and X [Ω] of the motor's branch run as the dip divider sees it (per phase for
+    three-phase, out and back for single-phase), and where the dip is computed."""
+    if m.length_m is None or m.size is None:
+        ctx.assume(
+            f"{m.id}: starting dip computed at panel {m.panel_id}, its branch run not "
+            "included (give length and conductors on [[motor]] for the terminals)"
+        )
+        return 0.0, 0.0, f"at {m.panel_id} (branch run not given: at the terminals it is lower)"
+    r, x = ck.ac_impedance_ohm_per_m(
+        m.size.name, m.material, m.raceway, OPERATING_C, data=ctx.rules.conductors
+    )
+    k = 1.0 if phases == 3 else 2.0
+    return (
+        k * float(r) * m.length_m,
+        k * float(x) * m.length_m,
+        f"at the motor terminals ({m.length_m / M_PER_FT:,.0f} ft of {m.size.name} "
+        f"{m.material.capitalize()} from {m.panel_id})",
+    )

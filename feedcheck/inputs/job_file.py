@@ -35,6 +35,10 @@ from ..model import (
     Transformer,
 )
 from .defaults import typical_x_r
+from .element_keys import area_m2 as _area
+from .element_keys import locked_rotor_check, motor_branch
+from .element_keys import phases_connected as _phases_connected
+from .element_keys import tap_pct as _tap
 from .feed_rules import check_feed, check_voltages
 from .files import FileKind, FileRefused, decode_utf8, read_bytes
 from .paths import relative_file_inside
@@ -68,6 +72,7 @@ TRANSFORMER_KEYS = (
     "secondary_device",
     "tap",
     "zero_sequence_ratio",
+    "phases_connected",
 )
 RUN_KEYS = (
     "id",
@@ -102,8 +107,11 @@ PANEL_KEYS = (
     "power_factor",
     "instantaneous_trip",
     "occupancy",
+    "area",
 )
-MOTOR_KEYS = ("id", "panel", "full_load", "hp", "locked_rotor")
+MOTOR_KEYS = (
+    "id", "panel", "full_load", "hp", "locked_rotor", "length", "conductors", "raceway"
+)
 OPTION_KEYS = (
     "impedance_tolerance",
     "voltage_factor",
@@ -319,9 +327,7 @@ def _transformer(r: Reader, t: dict, path: str, phases: int) -> Transformer:
             t["impedance"],
             "a percent impedance from 0.5 % to 25 % (distribution transformers are 1-10 %)",
         )
-    tap = r.qty(t, path, "tap", "percent", required=False, default=0.0, must_be_positive=False)
-    if tap is not None and (abs(tap) > 5 or abs(tap / 2.5 - round(tap / 2.5)) > 1e-9):
-        r.add(f"{path}.tap", t.get("tap"), "a no-load tap of -5, -2.5, 0, +2.5 or +5 %")
+    tap = _tap(r, t, path)
     if prim and sec and prim.phases != sec.phases:
         r.add(
             f"{path}.secondary",
@@ -345,7 +351,9 @@ def _transformer(r: Reader, t: dict, path: str, phases: int) -> Transformer:
         ),
         tap_pct=tap or 0.0,
         z0_ratio=r.number(t, path, "zero_sequence_ratio", 0.1, 3, default=1.0) or 1.0,
+        phases_connected=_phases_connected(r, t, path, prim),
     )
+
 
 
 def _run_temperatures(r: Reader, t: dict, path: str) -> tuple[float | None, ...]:
@@ -513,7 +521,9 @@ def _panel(r: Reader, t: dict, path: str, folder: Path) -> Panel:
         pf=pf or 0.9,
         instantaneous_a=r.qty(t, path, "instantaneous_trip", "current", required=False),
         occupancy=_occupancy(r, t, path),
+        area_m2=_area(r, t, path),
     )
+
 
 
 def _occupancy(r: Reader, t: dict, path: str) -> str:
@@ -523,7 +533,8 @@ def _occupancy(r: Reader, t: dict, path: str) -> str:
         r.add(
             f"{path}.occupancy",
             occ,
-            "one of " + ", ".join(OCCUPANCIES) + " (lighting demand factors of Table 220.42)",
+            "one of " + ", ".join(OCCUPANCIES)
+            + " (lighting demand factors of Table 220.42, unit loads of Table 220.12)",
         )
         return "other"
     return occ
@@ -535,12 +546,15 @@ def _motor(r: Reader, t: dict, path: str) -> Motor:
     hp = r.number(t, path, "hp", 0.1, 1000)
     if fla is None and "full_load" not in t:
         r.add(f"{path}.full_load", None, "the motor's full-load current, e.g. '30.8 A'")
+    lra = r.qty(t, path, "locked_rotor", "current", required=False)
+    locked_rotor_check(r, t, path, lra, fla)
     return Motor(
         id=r.text(t, path, "id"),
         panel_id=r.text(t, path, "panel"),
         full_load_a=fla or 1.0,
-        locked_rotor_a=r.qty(t, path, "locked_rotor", "current", required=False),
+        locked_rotor_a=lra,
         hp=hp,
+        **motor_branch(r, t, path),
     )
 
 

@@ -158,9 +158,20 @@ def test_demand_receptacles_and_motor_by_hand(tmp_path):
     assert t["continuous_va"] == pytest.approx(2000)
     assert t["design_va"] == pytest.approx(11000 + 4750 + 2000 * 1.25)
     assert r.demand.va == pytest.approx(17750) and r.demand.continuous_va == pytest.approx(2000)
-    i = (11000 + 4750 + 2500) / (np.sqrt(3) * 208)  # 50.7 A: within the 60 A main
+    i = (11000 + 4750 + 2500) / (np.sqrt(3) * 208)  # 50.7 A balanced average
+    assert r.panels["balanced_design_current_a"].iat[0] == pytest.approx(i)
+    # Issue 13 item 2: the main is judged on the heaviest phase, not the average. Circuits
+    # 1 and 2 share phase A (panelboard numbering, common practice, no source): 11,000 VA
+    # of receptacle demand (220.44) at 120 V = 91.7 A > 60 A main (NFPA 70-2023 215.2(A)(1),
+    # 408.36); phase B: 4750 VA / 120 V = 39.6 A; phase C: 1.25 × 2000 / 120 = 20.8 A.
+    p = r.panels.iloc[0]
+    assert [p["phase_a_design_a"], p["phase_b_design_a"], p["phase_c_design_a"]] == (
+        pytest.approx([11000 / 120, 4750 / 120, 2500 / 120])
+    )
     main = next(f for f in r.findings if f.check == "demand vs main device")
-    assert main.value == pytest.approx(i) and main.status == "ok"
+    assert main.value == pytest.approx(11000 / 120) and main.status == "fail"
+    bus = next(f for f in r.findings if f.check == "demand vs bus rating")
+    assert bus.value == pytest.approx(11000 / 120) and bus.status == "ok"  # 100 A bus
 
 
 def test_multi_panel_file_totals_per_panel(tmp_path):
@@ -270,3 +281,25 @@ def test_demand_is_computed_once_per_panel(samples, monkeypatch):
     monkeypatch.setattr(sc, "panel_demand", counted)
     res = run_job(samples / "harbor_kitchen.toml")
     assert len(res.schedules) == 2 and len(calls) == 2  # LP1 and EQ1, once each
+
+
+def test_largest_motor_25_percent_counted_once(tmp_path):
+    """Issue 13 item 3, by hand: 18,000 VA continuous lighting + one 28,300 VA motor that
+    the schedule also marks continuous. Demand 18,000 + 28,300 = 46,300 VA; + 25 % of the
+    largest motor 7,075 VA (NFPA 70-2023 430.24), once; + 25 % of the continuous lighting
+    4,500 VA (215.2(A)(1)); design 57,875 VA. Before: the motor's 125 % went into the
+    continuous total (53,375 VA) and got 125 % again (66,719 VA)."""
+    from feedcheck.checks.schedules import schedule_demand
+
+    rows = [
+        _row(1, poles=3, kind="lighting", cont="yes", va=18_000, brk=70, cond="4 AWG Cu"),
+        _row(7, poles=3, kind="motor", cont="yes", va=28_300, brk=150, cond="1/0 AWG Cu"),
+    ]
+    r = _check(tmp_path, rows)
+    assert r.totals["continuous_va"] == pytest.approx(18_000)
+    assert r.totals["design_va"] == pytest.approx(46_300 + 7_075 + 4_500)
+    chain = schedule_demand(read_schedule(tmp_path / "P1.csv"), WYE).chain(0)
+    assert float(chain.connected_total_va) == pytest.approx(46_300)
+    assert float(chain.largest_motor_adder_va) == pytest.approx(7_075)
+    assert float(chain.continuous_adder_va) == pytest.approx(4_500)
+    assert float(chain.design_va) == pytest.approx(57_875)

@@ -35,7 +35,14 @@ def test_annex_d_example_d3_store_building(tmp_path):
     assert t["continuous_va"] == pytest.approx(published_continuous)
     design = published_receptacle_demand + 1.25 * published_continuous
     assert t["design_va"] == pytest.approx(design)
-    assert t["design_current_a"] == pytest.approx((12_200 + 1.25 * 16_200) / 240)
+    # the example's balanced figure (S / 240 V)
+    assert t["balanced_design_current_a"] == pytest.approx((12_200 + 1.25 * 16_200) / 240)
+    # Issue 13 item 2: the design current is the heaviest line's (215.2(A)(1)). Line A
+    # (spaces 1,2 5,6 9,10 by panelboard numbering, common practice, no source) carries six
+    # receptacle circuits at the 12,200/14,400 demand ratio: 6 × 1440 × 12,200 / 14,400 /
+    # 120 V = 61.0 A, plus both two-pole lighting loads at 125 %: 1.25 × (9000 + 6000) /
+    # 240 V = 78.125 A → 139.125 A (the sign, space 15, is on line B).
+    assert t["design_current_a"] == pytest.approx(6 * 1440 * 12_200 / 14_400 / 120 + 78.125)
 
 
 def test_table_220_42_dwelling_tiers_annex_d_example_d1a(tmp_path):

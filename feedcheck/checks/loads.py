@@ -1,0 +1,319 @@
+"""Phase-by-phase loads of the feed: single-phase elements on three-phase panels and the
+heaviest phase.
+
+Every node (panel, transformer secondary, source) gets the current on each of its
+lines, continuous and noncontinuous apart, own load plus everything it feeds; and every
+element gets the current it draws on the lines of what feeds it (what the run into it
+carries). Feeders, buses, mains and transformer windings are judged on the heaviest
+line's design current (continuous part at 125 %), not on the balanced average
+(NFPA 70-2023 215.2(A)(1), 210.19(A)(1)).
+
+Method (:mod:`feedcheck.calc.phase_loading`):
+
+* a panel's own load comes per line from its schedule (each circuit on the phases of
+  its spaces), or, given as one figure in the job, spread evenly over its lines;
+* a panel fed at its own voltage passes its line currents up unchanged;
+* a single-phase transformer on a three-phase panel draws S / V_LL on the two lines
+  of its pair (job key ``phases_connected``; when absent the pairs are assigned to
+  balance and the report says so);
+* a three-phase transformer passes its balanced part up as a three-phase load and the
+  excess of each secondary phase over the lightest as a single-phase load: line to line
+  on the primary pair of that phase's winding for a delta primary, line to neutral on
+  the same phase for a wye primary (the winding pairing, e.g. a on AB, is an assumption
+  stated in the report; it moves the excess between phases, not its size).
+* currents on one line from several elements add arithmetically (an upper bound of the
+  phasor sum; conservative for conductor, bus and device checks).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from ..calc import phase_loading as pl
+from ..model import Job, Transformer, Tree, VoltageSystem
+
+PAIR_OF_PHASE = ("AB", "BC", "CA")  # delta primary winding of secondary phase a, b, c
+LETTERS = ("A", "B", "C")
+
+
+def lines_of(v: VoltageSystem) -> int:
+    """Number of ungrounded lines: 3 (three-phase), 2 (120/240 V), 1 (two-wire)."""
+    return 3 if v.phases == 3 else (2 if v.kind == "split" else 1)
+
+
+def line_v(v: VoltageSystem) -> float:
+    """Volts per ampere of one line's share of a balanced load [V]: S = I · Σ V_line."""
+    return {3: v.line_v / math.sqrt(3.0), 2: v.line_v / 2.0, 1: v.line_v}[lines_of(v)]
+
+
+@dataclass
+class PhaseLoad:
+    """Line currents at a node and the currents its feed carries.
+
+    ``cont_a``/``non_a``: continuous / noncontinuous current on lines A, B, C of the
+    node's own voltage (transformers: the secondary) [A]; ``feed_cont_a``/``feed_non_a``
+    the same on the lines of the node feeding it; ``connection`` the lines the element
+    takes there (``ABC``, a pair, a phase), ``assigned`` True when chosen to balance.
+    """
+
+    lines: int
+    cont_a: np.ndarray = field(default_factory=lambda: np.zeros(3))
+    non_a: np.ndarray = field(default_factory=lambda: np.zeros(3))
+    feed_cont_a: np.ndarray = field(default_factory=lambda: np.zeros(3))
+    feed_non_a: np.ndarray = field(default_factory=lambda: np.zeros(3))
+    connection: str = "ABC"
+    assigned: bool = False
+    single_phase_feed: bool = False  # a single-phase element on a three-phase node
+
+    def design_a(self, factor: float) -> np.ndarray:
+        return factor * self.cont_a + self.non_a
+
+    def heaviest(self, factor: float) -> int:
+        """Index of the line with the largest design current (first one on ties)."""
+        return int(np.argmax(self.design_a(factor)[: self.lines]))
+
+    def feed_heaviest(self, factor: float) -> int:
+        return int(np.argmax(factor * self.feed_cont_a + self.feed_non_a))
+
+
+def roll_up_phases(job: Job, tree: Tree, own: dict) -> dict[str, PhaseLoad]:
+    """Line currents of every node (own load + downstream) and of every feed.
+
+    ``own``: node id -> :class:`~feedcheck.checks.context.Load` of the node's own load
+    (``phase_cont_a``/``phase_non_a`` when known per line, else spread evenly).
+    """
+    tx = {t.id: t for t in job.transformers}
+    out: dict[str, PhaseLoad] = {}
+    for n in tree.order:
+        v = tree.voltage_of[n]
+        k = lines_of(v)
+        o = own[n]
+        pload = PhaseLoad(k)
+        if o.phase_cont_a is not None:
+            pload.cont_a += np.asarray(o.phase_cont_a, float)
+            pload.non_a += np.asarray(o.phase_non_a, float)
+        else:
+            pload.cont_a[:k] += o.continuous_va / k / line_v(v)
+            pload.non_a[:k] += (o.va - o.continuous_va) / k / line_v(v)
+        out[n] = pload
+    for p in reversed(tree.order):
+        kids = tree.children(p)
+        if kids:
+            _feed_children(tree, tx, p, kids, out)
+    return out
+
+
+def _feed_children(tree: Tree, tx: dict, p: str, kids: list[str], out: dict) -> None:
+    """Currents each child draws on the lines of ``p``; added to ``p``'s lines."""
+    pv = tree.voltage_of[p]
+    parent = out[p]
+    if pv.phases != 3:
+        for c in kids:
+            fc, fn = _single_phase_parent_feed(tree, tx.get(c), c, pv, out[c])
+            _store(out[c], parent, fc, fn)
+        return
+    # three-phase node: every child as elements (VA, connection, continuous)
+    elements: list[tuple[str, float, float, str]] = []  # (child, cont VA, non VA, conn)
+    for c in kids:
+        elements += _elements_of_child(tree, tx.get(c), c, out[c])
+    va = [ce + ne for _, ce, ne, _ in elements]
+    conn = pl.assign_connections(va, [e[3] for e in elements], pv.line_v) if elements else []
+    for c in kids:
+        fc, fn = np.zeros(3), np.zeros(3)
+        for (child, ce, ne, given), used in zip(elements, conn, strict=True):
+            if child != c:
+                continue
+            ph = list(pl.CONNECTIONS[used])
+            fc[ph] += pl.element_current_a(ce, used, pv.line_v)
+            fn[ph] += pl.element_current_a(ne, used, pv.line_v)
+            if given in pl.UNSPECIFIED:
+                out[c].connection, out[c].assigned = used, True
+        _store(out[c], parent, fc, fn)
+
+
+def _store(child: PhaseLoad, parent: PhaseLoad, fc, fn) -> None:
+    child.feed_cont_a, child.feed_non_a = fc, fn
+    parent.cont_a += fc
+    parent.non_a += fn
+
+
+def _elements_of_child(tree, t: Transformer | None, c: str, load: PhaseLoad):
+    """A child of a three-phase node as (child, cont VA, non VA, connection) elements."""
+    v = tree.voltage_of[c]
+    lv = line_v(v)
+    cont_va, non_va = load.cont_a * lv, load.non_a * lv
+    if t is None:  # a panel at the node's own voltage: its lines pass up unchanged
+        return [(c, float(cont_va[j]), float(non_va[j]), LETTERS[j]) for j in range(3)]
+    if t.primary.phases == 1:
+        load.single_phase_feed = True
+        given = getattr(t, "phases_connected", "") or "LL"
+        return [(c, float(cont_va.sum()), float(non_va.sum()), given)]
+    out = []
+    bal_c, bal_n = 3 * cont_va.min(), 3 * non_va.min()
+    out.append((c, float(bal_c), float(bal_n), "ABC"))
+    wye = t.primary.kind == "wye"
+    for j in range(3):
+        ec, en = cont_va[j] - cont_va.min(), non_va[j] - non_va.min()
+        if ec > 0 or en > 0:
+            out.append((c, float(ec), float(en), LETTERS[j] if wye else PAIR_OF_PHASE[j]))
+    return out
+
+
+def _single_phase_parent_feed(tree, t, c: str, pv: VoltageSystem, load: PhaseLoad):
+    """Line currents a child draws from a single-phase (two- or three-wire) node."""
+    if t is None:  # a panel at the node's voltage
+        return load.cont_a.copy(), load.non_a.copy()
+    lv = line_v(tree.voltage_of[c])
+    cont_va, non_va = float((load.cont_a * lv).sum()), float((load.non_a * lv).sum())
+    fc, fn = np.zeros(3), np.zeros(3)
+    if lines_of(pv) == 2 and abs(t.primary.line_v - pv.line_v) <= 0.5:
+        lines, volts, load.connection = [0, 1], pv.line_v, "AB"
+    else:  # a two-wire node, or a line-to-neutral primary on 120/240 V
+        lines = [1] if getattr(t, "phases_connected", "") == "B" else [0]
+        volts = t.primary.line_v
+        load.connection = LETTERS[lines[0]]
+    fc[lines] = cont_va / volts
+    fn[lines] = non_va / volts
+    return fc, fn
+
+
+# ------------------------------------------------------------------ checks and sheets
+def phase_design_steps(ctx, node: str, sheet, rule_id: str) -> tuple[float, str]:
+    """Sheet steps with every line's continuous, noncontinuous and design current, and
+    the heaviest line's design current [A] with its letter."""
+    ph = ctx.phases[node]
+    f = ctx.design_factor()
+    design = ph.design_a(f)
+    for j in range(ph.lines):
+        sheet.step(
+            f"Phase {LETTERS[j]} current",
+            f"I_design = {100 * f:g} % · I_continuous + I_noncontinuous",
+            f"{f:g} × {ph.cont_a[j]:.1f} + {ph.non_a[j]:.1f}",
+            round(float(design[j]), 1),
+            "A",
+        )
+    k = ph.heaviest(f)
+    value = float(design[k])
+    sheet.step(
+        "Design current (heaviest phase)",
+        "max over the phases of I_design",
+        f"phase {LETTERS[k]}",
+        round(value, 1),
+        "A",
+        rule_id,
+    )
+    return value, LETTERS[k]
+
+
+def check_transformer_phases(ctx, t: Transformer) -> None:
+    """Each secondary winding judged on its heaviest line's design current (continuous
+    at 125 %) against the rated secondary current (rule xfmr-loading)."""
+    from ..calc.power import current_from_apparent_power_a
+
+    v = t.secondary
+    ph = ctx.phases[t.id]
+    if float((ph.cont_a + ph.non_a).sum()) <= 0:
+        return
+    rated = float(current_from_apparent_power_a(t.rating_va, v.line_v, v.phases))
+    sh = ctx.sheet(t.id, "transformer", f"Transformer {t.id}")
+    value, letter = phase_design_steps(ctx, t.id, sh, "xfmr-loading")
+    rule = ctx.rules.rule("xfmr-loading")
+    limit_a = rated * rule.number("limit") / 100.0
+    ctx.nodes[t.id].values["design_current_a"] = value
+    ctx.compare(
+        t.id,
+        "winding loading (heaviest phase)",
+        value,
+        limit_a,
+        "A",
+        "at_most",
+        "xfmr-loading",
+        f"phase {letter} secondary design current {value:.1f} A (continuous at 125 %) vs "
+        f"{rule.number('limit'):g} % of the rated {rated:.1f} A",
+        fail_status=rule["status"],
+    )
+
+
+def report_connections(ctx) -> None:
+    """Say how single-phase units sit on three-phase feeds; an assigned pair is an
+    assumption of the report and an info finding naming the key that fixes it."""
+    for t in ctx.job.transformers:
+        ph = ctx.phases.get(t.id)
+        if ph is None:
+            continue
+        if not ph.single_phase_feed:
+            _say_unbalanced_primary(ctx, t, ph)
+            continue
+        pair = "-".join(ph.connection)
+        sh = ctx.sheet(t.id, "transformer", f"Transformer {t.id}")
+        sh.inputs.append(("Lines taken on the feed", pair + (" (assigned)" if ph.assigned else "")))
+        if ph.assigned:
+            text = (
+                f"{t.id}: single-phase unit placed on lines {pair} of "
+                f"{ctx.tree.parent_node[t.id]} to balance the phases (the job gives no "
+                f'pair; set phases_connected = "{pair}" on [[transformer]] {t.id} to fix it)'
+            )
+            ctx.assume(text)
+            ctx.add(t.id, "lines taken on the feed", None, None, "", "info",
+                    "phase-connection", text)
+
+
+def demand_chain_steps(chain, sheet) -> None:
+    """The schedule's demand arithmetic on the panel sheet, each step once: connected →
+    demand factors → largest motor 25 % (430.24) → continuous 125 % (215.2(A)(1))."""
+    if chain is None:
+        return
+    kinds = [k for k, v in chain.connected_va.items() if v > 0]
+    sheet.step(
+        "1. Connected load",
+        "Σ circuit loads by kind",
+        " + ".join(f"{k} {chain.connected_va[k]:,.0f}" for k in kinds) or "0",
+        round(float(chain.connected_total_va)),
+        "VA",
+    )
+    sheet.step(
+        "2. After demand factors",
+        "each kind through its tiers (Table 220.42, 220.44; others 100 %)",
+        " + ".join(f"{k} {chain.demand_va[k]:,.0f}" for k in kinds) or "0",
+        round(float(chain.demand_total_va)),
+        "VA",
+    )
+    sheet.step(
+        "3. Largest motor",
+        "+ 25 % of the largest motor (430.24), once",
+        f"0.25 × {float(chain.largest_motor_va):,.0f}",
+        round(float(chain.largest_motor_adder_va)),
+        "VA",
+    )
+    sheet.step(
+        "4. Continuous loads",
+        "+ 25 % of the continuous non-motor demand (215.2(A)(1))",
+        f"0.25 × {float(chain.continuous_demand_va):,.0f}",
+        round(float(chain.continuous_adder_va)),
+        "VA",
+    )
+    sheet.step(
+        "Design load",
+        "step 2 + step 3 + step 4",
+        f"{float(chain.demand_total_va):,.0f} + {float(chain.largest_motor_adder_va):,.0f}"
+        f" + {float(chain.continuous_adder_va):,.0f}",
+        round(float(chain.design_va)),
+        "VA",
+    )
+
+
+def _say_unbalanced_primary(ctx, t: Transformer, ph: PhaseLoad) -> None:
+    """State how an unbalanced three-phase secondary is carried to the primary."""
+    load = ph.cont_a + ph.non_a
+    if ph.lines != 3 or load.max() - load.min() <= 1e-9 * max(1.0, load.max()):
+        return
+    how = ("line to neutral on the same phase" if t.primary.kind == "wye"
+           else "line to line on the primary pair of its winding (a on A-B, b on B-C, c on C-A)")
+    ctx.assume(
+        f"{t.id}: the secondary phases are unequally loaded; the balanced part is carried "
+        f"to the primary as a three-phase load and each phase's excess {how} "
+        "(the winding pairing moves the excess between phases, not its size)"
+    )
