@@ -32,6 +32,15 @@ LOAD_KINDS = ("lighting", "receptacle", "motor", "heating", "other")  # schedule
 SYSTEM_KINDS = ("wye", "delta", "split", "single", "line")
 VOLTAGE_DROP_MODES = ("recommended", "mandatory")
 VOLTAGE_FACTORS = ("none", "iec60909")
+# device families of a panel (its ``device_type``) -> the row family of
+# tables/device_test_power_factor.csv (test power factor of the interrupting rating)
+DEVICE_FAMILIES = {
+    "molded-case": "mccb",
+    "insulated-case": "iccb",
+    "power-breaker": "lvpcb-unfused",
+    "power-breaker-fused": "lvpcb-fused",
+    "fuse": "fuse",
+}
 
 
 @dataclass(frozen=True)
@@ -100,7 +109,7 @@ class Transformer:
     primary_device_a: float
     secondary_device_a: float | None
     tap_pct: float = 0.0
-    z0_ratio: float = 1.0
+    z0_ratio: float | None = None  # None: rules fault-z0-ratio-max / -min
     x_r_typical_row: str = ""  # "" when the job gives X/R; else the typical-table row used
 
     @property
@@ -153,6 +162,7 @@ class Panel:
     pf: float
     instantaneous_a: float | None = None
     occupancy: str = "other"  # lighting demand factors of the schedule (Table 220.42)
+    device_type: str | None = None  # one of DEVICE_FAMILIES; None: molded-case assumed
 
 
 @dataclass(frozen=True)

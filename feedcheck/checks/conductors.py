@@ -288,7 +288,8 @@ def _check_egc(ctx, run, device, cont, non, term, cc, rooftop_c) -> None:
 
 
 def _check_withstand(ctx, run) -> None:
-    up = ctx.nodes[run.from_id].values.get("fault_max_a")
+    values = ctx.nodes[run.from_id].values  # the governing (largest) case, issue 12
+    up = values.get("fault_duty_sym_a", values.get("fault_max_a"))
     if up is None:
         return
     t = run.clearing_s or ctx.rules.rule("withstand-clearing-default").number("limit")

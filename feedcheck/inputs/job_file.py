@@ -17,6 +17,7 @@ from pathlib import Path
 
 from ..errors import ProblemList
 from ..model import (
+    DEVICE_FAMILIES,
     INSULATION_RATINGS_C,
     OCCUPANCIES,
     RACEWAYS,
@@ -96,6 +97,7 @@ PANEL_KEYS = (
     "power_factor",
     "instantaneous_trip",
     "occupancy",
+    "device_type",
 )
 MOTOR_KEYS = ("id", "panel", "full_load", "hp", "locked_rotor")
 OPTION_KEYS = (
@@ -337,7 +339,7 @@ def _transformer(r: Reader, t: dict, path: str, phases: int) -> Transformer:
             t, path, "secondary_device", "current", required=False, within=_DEVICE
         ),
         tap_pct=tap or 0.0,
-        z0_ratio=r.number(t, path, "zero_sequence_ratio", 0.1, 3, default=1.0) or 1.0,
+        z0_ratio=r.number(t, path, "zero_sequence_ratio", 0.1, 3),
     )
 
 
@@ -455,6 +457,7 @@ def _panel(r: Reader, t: dict, path: str, folder: Path) -> Panel:
         pf=pf or 0.9,
         instantaneous_a=r.qty(t, path, "instantaneous_trip", "current", required=False),
         occupancy=_occupancy(r, t, path),
+        device_type=_device_type(r, t, path),
     )
 
 
@@ -469,6 +472,17 @@ def _occupancy(r: Reader, t: dict, path: str) -> str:
         )
         return "other"
     return occ
+
+
+def _device_type(r: Reader, t: dict, path: str) -> str | None:
+    """Family of the panel's devices, for the test X/R of its interrupting rating."""
+    if "device_type" not in t:
+        return None
+    kind = r.text(t, path, "device_type")
+    if kind not in DEVICE_FAMILIES:
+        r.add(f"{path}.device_type", kind, "one of " + ", ".join(DEVICE_FAMILIES))
+        return None
+    return kind
 
 
 def _motor(r: Reader, t: dict, path: str) -> Motor:
