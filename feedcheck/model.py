@@ -31,7 +31,7 @@ LOAD_KINDS = ("lighting", "receptacle", "motor", "heating", "other")  # schedule
 # three-wire, single-phase two-wire, and three-phase with the winding not stated
 SYSTEM_KINDS = ("wye", "delta", "split", "single", "line")
 VOLTAGE_DROP_MODES = ("recommended", "mandatory")
-VOLTAGE_FACTORS = ("none", "iec60909")
+VOLTAGE_FACTORS = ("none", "iec60909", "iec60909-10pct")  # c_max 1.05 / 1.10
 # device families of a panel (its ``device_type``) -> the row family of
 # tables/device_test_power_factor.csv (test power factor of the interrupting rating)
 DEVICE_FAMILIES = {

@@ -78,6 +78,24 @@ def check_faults(ctx: Context) -> None:
     peak[finite] = fk.peak_current_a(fault_max[finite], rf.x_r[finite])
     asym[finite] = fk.asymmetric_rms_half_cycle_a(fault_max[finite], rf.x_r[finite])
 
+    _describe_3ph(ctx, fa)
+    lg_min = _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb)
+    ptp = _point_to_point(ctx, fa, order, rf)
+    _primary_terminals(ctx, fa, pos, rf, vb)
+    z_node_max = {n: complex(rf.z_max_ohm[i] * (v_node[i] / vb) ** 2) for i, n in enumerate(order)}
+    worst = worst_case_figures(ctx, fa, z_node_max, dict(zip(order, motor_node, strict=True)))
+    describe_methods(ctx, fa, worst)
+    flag_return_paths(ctx)
+
+    figs = _Figures(
+        rf, fault_max, motor_node, ohmic_max_no_motor, peak, asym, lg_min, ptp, worst, v_node, vb
+    )
+    when = _calc_date(ctx)
+    for i, n in enumerate(order):
+        _record_node(ctx, fa, figs, i, n, when)
+
+
+def _describe_3ph(ctx: Context, fa) -> None:
     ctx.method(
         "Three-phase bolted fault, complex ohmic method: source + transformer (%Z, X/R)"
         " + conductors summed as complex impedances, I = c·V_LL/(√3·|Z|)",
@@ -94,129 +112,151 @@ def check_faults(ctx: Context) -> None:
         f"each run's conductors at its insulation's rated temperature, at least "
         f"{fa.cond_c_min:g} °C (tables/fault_assumptions.csv; NFPA 70 Table 310.4(1))."
     )
-    if job.options.voltage_factor == "iec60909":
+    if ctx.job.options.voltage_factor != "none":
         ctx.assume(
             f"IEC 60909 voltage factors applied: c_max = {fa.c_max:g}, c_min = {fa.c_min:g}."
         )
     else:
         ctx.assume("No voltage factor applied to fault currents (c = 1, nominal voltage).")
 
-    lg_min = _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb)
-    ptp = _point_to_point(ctx, fa, order, rf)
-    _primary_terminals(ctx, fa, pos, rf, vb)
-    z_node_max = {n: complex(rf.z_max_ohm[i] * (v_node[i] / vb) ** 2) for i, n in enumerate(order)}
-    worst = worst_case_figures(ctx, fa, z_node_max, dict(zip(order, motor_node, strict=True)))
-    describe_methods(ctx, fa, worst)
-    flag_return_paths(ctx)
 
-    when = _calc_date(ctx)
-    for i, n in enumerate(order):
-        node = ctx.nodes[n]
-        node.values.update(
-            {
-                "fault_max_a": float(fault_max[i]),
-                "fault_min_a": float(rf.fault_min_a[i]),
-                "x_r": float(rf.x_r[i]),
-                "peak_a": float(peak[i]),
-                "asym_rms_a": float(asym[i]),
-            }
-        )
-        if motor_node[i] > 0:
-            node.values["fault_motor_a"] = float(motor_node[i])
-        if n in lg_min:
-            node.values["fault_lg_min_a"] = lg_min[n]
-        if n in ptp:
-            node.values["fault_ptp_a"] = ptp[n]
-            diff = float(fk.percent_difference(ptp[n], ohmic_max_no_motor[i]))
-            node.values["fault_ptp_diff_pct"] = diff
-            ok = abs(diff) <= fa.ptp_disagree_pct
-            ctx.add(
-                n,
-                "point-to-point vs ohmic",
-                diff,
-                fa.ptp_disagree_pct,
-                "%",
-                "ok" if ok else "warn",
-                "fault-ptp-disagree",
-                f"point-to-point {_kA(ptp[n])} vs ohmic {_kA(ohmic_max_no_motor[i])}"
-                + (
-                    ""
-                    if ok
-                    else "; the point-to-point method adds impedance magnitudes (no X/R) and "
-                    "reads low where conductor resistance dominates — the ohmic figure is the "
-                    "one used for ratings; review the impedance data if the gap surprises you"
-                ),
-            )
-        if n == "source":
-            continue
-        sh = ctx.sheet(n, tree.kind[n], "")
-        z_max_node = rf.z_max_ohm[i] * (v_node[i] / vb) ** 2
-        z_min_node = rf.z_min_ohm[i] * (v_node[i] / vb) ** 2
-        v = tree.voltage_of[n]
-        form = "I = c·V_LL / (√3·|Z|)" if v.phases == 3 else "I = c·V / |Z_loop| (Z_loop = √3·Z)"
+@dataclass(frozen=True)
+class _Figures:
+    """The walk's figures per node (arrays in tree order; dicts by node id)."""
+
+    rf: _Walk
+    fault_max: np.ndarray
+    motor_node: np.ndarray
+    ohmic_no_motor: np.ndarray
+    peak: np.ndarray
+    asym: np.ndarray
+    lg_min: dict
+    ptp: dict
+    worst: dict
+    v_node: np.ndarray
+    vb: float
+
+
+def _record_node(ctx: Context, fa, g: _Figures, i: int, n: str, when: str) -> None:
+    """Node values, the point-to-point finding, the sheet and the duty of one node."""
+    rf, tree = g.rf, ctx.tree
+    node = ctx.nodes[n]
+    node.values.update(
+        {
+            "fault_max_a": float(g.fault_max[i]),
+            "fault_min_a": float(rf.fault_min_a[i]),
+            "x_r": float(rf.x_r[i]),
+            "peak_a": float(g.peak[i]),
+            "asym_rms_a": float(g.asym[i]),
+        }
+    )
+    if g.motor_node[i] > 0:
+        node.values["fault_motor_a"] = float(g.motor_node[i])
+    if n in g.lg_min:
+        node.values["fault_lg_min_a"] = g.lg_min[n]
+    if n in g.ptp:
+        _ptp_finding(ctx, fa, n, g.ptp[n], float(g.ohmic_no_motor[i]))
+    if n == "source":
+        return
+    _sheet_steps(ctx, fa, g, i, n)
+    first = "3ph" if tree.voltage_of[n].phases == 3 else "ll"
+    faults = {first: float(g.fault_max[i])}
+    x_rs = {first: float(rf.x_r[i])}
+    if n in g.worst:
+        faults.update(g.worst[n].faults_a)
+        x_rs.update(g.worst[n].x_r)
+        for case, key in (("ln", "fault_ln_max_a"), ("lg", "fault_lg_max_a")):
+            if case in g.worst[n].faults_a:
+                node.values[key] = g.worst[n].faults_a[case]
+    record_duty(ctx, n, node_duty(ctx, n, faults, x_rs), when)
+
+
+def _ptp_finding(ctx: Context, fa, n: str, ptp_a: float, ohmic_a: float) -> None:
+    values = ctx.nodes[n].values
+    values["fault_ptp_a"] = ptp_a
+    diff = float(fk.percent_difference(ptp_a, ohmic_a))
+    values["fault_ptp_diff_pct"] = diff
+    ok = abs(diff) <= fa.ptp_disagree_pct
+    ctx.add(
+        n,
+        "point-to-point vs ohmic",
+        diff,
+        fa.ptp_disagree_pct,
+        "%",
+        "ok" if ok else "warn",
+        "fault-ptp-disagree",
+        f"point-to-point {_kA(ptp_a)} vs ohmic {_kA(ohmic_a)}"
+        + (
+            ""
+            if ok
+            else "; the point-to-point method adds impedance magnitudes (no X/R) and "
+            "reads low where conductor resistance dominates — the ohmic figure is the "
+            "one used for ratings; review the impedance data if the gap surprises you"
+        ),
+    )
+
+
+def _sheet_steps(ctx: Context, fa, g: _Figures, i: int, n: str) -> None:
+    rf, tree, vb, v_node = g.rf, ctx.tree, g.vb, g.v_node
+    motor_node, fault_max, peak, lg_min, ptp = g.motor_node, g.fault_max, g.peak, g.lg_min, g.ptp
+    sh = ctx.sheet(n, tree.kind[n], "")
+    z_max_node = rf.z_max_ohm[i] * (v_node[i] / vb) ** 2
+    z_min_node = rf.z_min_ohm[i] * (v_node[i] / vb) ** 2
+    v = tree.voltage_of[n]
+    form = "I = c·V_LL / (√3·|Z|)" if v.phases == 3 else "I = c·V / |Z_loop| (Z_loop = √3·Z)"
+    sh.step(
+        "Total impedance to this node, maximum case",
+        "Z = Z_source + Z_transformer + Σ Z_runs (referred to this voltage)",
+        f"{z_max_node.real * 1e3:.3f} + j{z_max_node.imag * 1e3:.3f} mΩ",
+        round(abs(z_max_node) * 1e3, 3),
+        "mΩ",
+        "fault-z-tolerance",
+    )
+    sh.step(
+        "Maximum three-phase fault current",
+        form,
+        f"{fa.c_max:g} × {v.line_v:g} / (√3 × {abs(z_max_node) * 1e3:.3f} mΩ)"
+        + (f" + motors {motor_node[i]:.0f} A" if motor_node[i] > 0 else ""),
+        round(float(fault_max[i])),
+        "A",
+        "fault-cond-temp-max",
+    )
+    sh.step(
+        "Minimum three-phase fault current",
+        form,
+        f"{fa.c_min:g} × {v.line_v:g} / (√3 × {abs(z_min_node) * 1e3:.3f} mΩ)",
+        round(float(rf.fault_min_a[i])),
+        "A",
+        "fault-cond-temp-min",
+    )
+    sh.step(
+        "X/R and peak",
+        "κ = 1.02 + 0.98·e^(−3/(X/R)); i_p = κ·√2·I_max",
+        f"X/R = {rf.x_r[i]:.2f}",
+        round(float(peak[i])),
+        "A",
+        "iec60909-kappa",
+    )
+    if n in lg_min:
         sh.step(
-            "Total impedance to this node, maximum case",
-            "Z = Z_source + Z_transformer + Σ Z_runs (referred to this voltage)",
-            f"{z_max_node.real * 1e3:.3f} + j{z_max_node.imag * 1e3:.3f} mΩ",
-            round(abs(z_max_node) * 1e3, 3),
-            "mΩ",
-            "fault-z-tolerance",
-        )
-        sh.step(
-            "Maximum three-phase fault current",
-            form,
-            f"{fa.c_max:g} × {v.line_v:g} / (√3 × {abs(z_max_node) * 1e3:.3f} mΩ)"
-            + (f" + motors {motor_node[i]:.0f} A" if motor_node[i] > 0 else ""),
-            round(float(fault_max[i])),
+            "Minimum line-to-ground fault current",
+            "I = 3·V_LN / |Z1 + Z2 + Z0|"
+            if v.kind == "wye"
+            else "I = V_LN / |Z_LN,source + Σ(Z_phase + Z_return)|",
+            f"V_LN = {v.neutral_v:g} V",
+            round(lg_min[n]),
             "A",
-            "fault-cond-temp-max",
+            "fault-z0-ratio-min",
         )
+    if n in ptp:
         sh.step(
-            "Minimum three-phase fault current",
-            form,
-            f"{fa.c_min:g} × {v.line_v:g} / (√3 × {abs(z_min_node) * 1e3:.3f} mΩ)",
-            round(float(rf.fault_min_a[i])),
+            "Point-to-point figure (second method)",
+            "I = I_start · Π 1/(1 + f)",
+            "f = √3·L·I/(C·n·V) per run",
+            round(ptp[n]),
             "A",
-            "fault-cond-temp-min",
+            "fault-ptp-disagree",
         )
-        sh.step(
-            "X/R and peak",
-            "κ = 1.02 + 0.98·e^(−3/(X/R)); i_p = κ·√2·I_max",
-            f"X/R = {rf.x_r[i]:.2f}",
-            round(float(peak[i])),
-            "A",
-            "iec60909-kappa",
-        )
-        if n in lg_min:
-            sh.step(
-                "Minimum line-to-ground fault current",
-                "I = 3·V_LN / |Z1 + Z2 + Z0|"
-                if v.kind == "wye"
-                else "I = V_LN / |Z_LN,source + Σ(Z_phase + Z_return)|",
-                f"V_LN = {v.neutral_v:g} V",
-                round(lg_min[n]),
-                "A",
-                "fault-z0-ratio-min",
-            )
-        if n in ptp:
-            sh.step(
-                "Point-to-point figure (second method)",
-                "I = I_start · Π 1/(1 + f)",
-                "f = √3·L·I/(C·n·V) per run",
-                round(ptp[n]),
-                "A",
-                "fault-ptp-disagree",
-            )
-        first = "3ph" if tree.voltage_of[n].phases == 3 else "ll"
-        faults = {first: float(fault_max[i])}
-        x_rs = {first: float(rf.x_r[i])}
-        if n in worst:
-            faults.update(worst[n].faults_a)
-            x_rs.update(worst[n].x_r)
-            for case, key in (("ln", "fault_ln_max_a"), ("lg", "fault_lg_max_a")):
-                if case in worst[n].faults_a:
-                    node.values[key] = worst[n].faults_a[case]
-        record_duty(ctx, n, node_duty(ctx, n, faults, x_rs), when)
 
 
 @dataclass(frozen=True)
@@ -501,7 +541,7 @@ def _point_to_point(ctx, fa, order, rf) -> dict[str, float]:
             src = job.source.fault_a
             if t.secondary.phases == 1 and job.source.voltage.phases == 3:
                 src = src * SQRT3 / 2  # line-to-line fault on a three-phase source
-            out[n] = float(
+            out[n] = fa.c_max * float(  # the ohmic maximum's voltage factor
                 fk.ptp_secondary_current_a(
                     rated,
                     t.z_pct,

@@ -42,13 +42,14 @@ class FaultAssumptions:
 def fault_assumptions(ctx: Context) -> FaultAssumptions:
     rows = ctx.rules.fault
     opts = ctx.job.options
-    iec = opts.voltage_factor == "iec60909"
+    iec = opts.voltage_factor in ("iec60909", "iec60909-10pct")
+    c_max = rows.c_max_10pct if opts.voltage_factor == "iec60909-10pct" else rows.c_max_6pct
     given = opts.impedance_tolerance_pct
     return FaultAssumptions(
         tolerance_pct=given if given is not None else rows.z_tolerance_pct,
         cond_c_max=rows.cond_temp_max_c,
         cond_c_min=rows.cond_temp_min_c,
-        c_max=rows.c_max_6pct if iec else 1.0,
+        c_max=c_max if iec else 1.0,
         c_min=rows.c_min if iec else 1.0,
         motor_multiple=rows.motor_multiple,
         ptp_disagree_pct=rows.ptp_disagree_pct,

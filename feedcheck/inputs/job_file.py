@@ -519,7 +519,7 @@ def _options(r: Reader, opts: dict) -> Options:
         )
     vf = r.text(opts, "options", "voltage_factor", required=False, default="none")
     if vf not in VOLTAGE_FACTORS:
-        r.add("options.voltage_factor", vf, "'none' or 'iec60909'")
+        r.add("options.voltage_factor", vf, "'none', 'iec60909' or 'iec60909-10pct'")
     vd = r.text(opts, "options", "voltage_drop", required=False, default="recommended")
     if vd not in VOLTAGE_DROP_MODES:
         r.add("options.voltage_drop", vd, "'recommended' (warnings) or 'mandatory' (failures)")
