@@ -258,6 +258,9 @@ def fault_command(rating_va, kva_old, primary, secondary, z_pct, z_old, x_r, sou
     _print_rows(res, motor_flc)
     if device_a is not None:
         _print_trip(res, device_a, pickup)
+        if ground is None and length_m is not None:
+            click.echo("  (no --ground: the return is taken as a conductor of the phase size; "
+                       "a smaller grounding conductor or a raceway return gives less current)")
     out("")
     out("Ohmic: I = c·V/|Z| with complex Z (source + transformer + run); line-to-ground by "
         "symmetrical components, delta–wye Z0 = transformer Z0 only.")
