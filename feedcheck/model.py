@@ -37,7 +37,16 @@ LOAD_KINDS = ("lighting", "receptacle", "motor", "heating", "other")  # schedule
 # three-wire, single-phase two-wire, and three-phase with the winding not stated
 SYSTEM_KINDS = ("wye", "delta", "split", "single", "line")
 VOLTAGE_DROP_MODES = ("recommended", "mandatory")
-VOLTAGE_FACTORS = ("none", "iec60909")
+VOLTAGE_FACTORS = ("none", "iec60909", "iec60909-10pct")  # c_max 1.05 / 1.10
+# device families of a panel (its ``device_type``) -> the row family of
+# tables/device_test_power_factor.csv (test power factor of the interrupting rating)
+DEVICE_FAMILIES = {
+    "molded-case": "mccb",
+    "insulated-case": "iccb",
+    "power-breaker": "lvpcb-unfused",
+    "power-breaker-fused": "lvpcb-fused",
+    "fuse": "fuse",
+}
 # tap rules a run without an overcurrent device may be built under (run key tap_rule):
 # NFPA 70 240.21(B)(1), (B)(2), (C)(2), (C)(6)
 TAP_RULES = ("10 ft", "25 ft", "transformer secondary 10 ft", "transformer secondary 25 ft")
@@ -109,7 +118,7 @@ class Transformer:
     primary_device_a: float
     secondary_device_a: float | None
     tap_pct: float = 0.0
-    z0_ratio: float = 1.0
+    z0_ratio: float | None = None  # None: rules fault-z0-ratio-max / -min
     x_r_typical_row: str = ""  # "" when the job gives X/R; else the typical-table row used
     # lines a single-phase unit takes on a three-phase feed: "AB", "BC" or "CA";
     # "" = assigned to balance by the checks
@@ -181,6 +190,7 @@ class Panel:
     instantaneous_a: float | None = None
     occupancy: str = "other"  # lighting demand factors of the schedule (Table 220.42)
     area_m2: float | None = None  # floor area served, for the 220.12 minimum lighting [m²]
+    device_type: str | None = None  # one of DEVICE_FAMILIES; None: molded-case assumed
 
 
 @dataclass(frozen=True)

@@ -114,11 +114,15 @@ class TransformerXR:
     x_r: np.ndarray
 
     def typical(self, rating_va: float) -> tuple[float, str]:
-        """X/R of the nearest row at or below the rating (the first row below it), and
+        """X/R of the rating's row, else of the next rating above it (the higher X/R:
+        conservative for the maximum fault and peak; the last row above the table), and
         a label naming the row."""
-        i = int(np.searchsorted(self.rating_kva, rating_va / 1000.0 + 1e-9, side="right")) - 1
-        i = max(i, 0)
-        return float(self.x_r[i]), f"{self.rating_kva[i]:g} kVA row"
+        i = int(np.searchsorted(self.rating_kva, rating_va / 1000.0 - 1e-9, side="left"))
+        i = min(i, len(self.rating_kva) - 1)
+        label = f"{self.rating_kva[i]:g} kVA row"
+        if abs(self.rating_kva[i] - rating_va / 1000.0) > 1e-9:
+            label += ", the next listed rating (higher X/R, conservative for the maximum)"
+        return float(self.x_r[i]), label
 
 
 @dataclass(frozen=True)

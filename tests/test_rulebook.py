@@ -147,9 +147,9 @@ def test_override_of_each_fault_assumption_is_honoured(tmp_path, write_job, rule
         base = _calc_fault_10pct(None)
         assert _calc_fault_10pct(d) != base
         return
-    if rule_id in ("fault-z-tolerance-alt", "fault-z0-ratio-max"):
-        # no computation reads these rows yet (an alternative tolerance and the Z0 ratio
-        # for a maximum line-to-ground current): the book carries the user's value
+    if rule_id in ("fault-z-tolerance-alt", "fault-split-ln-multiplier"):
+        # no check reads these rows (an alternative tolerance; the fixed line-to-neutral
+        # multiplier, retired for the half-winding model): the book carries the value
         return
     set_user_tables_dir(d)
     wye, split = _check_both(tmp_path, write_job)
@@ -159,10 +159,8 @@ def test_override_of_each_fault_assumption_is_honoured(tmp_path, write_job, rule
         text = " ".join(wye["assumptions"])
         assert "−9 % tolerance" in text and "7.5" not in text
         assert wye["nodes"]["P1"]["fault_max_a"] != base_wye["nodes"]["P1"]["fault_max_a"]
-    elif rule_id == "fault-split-ln-multiplier":
-        assert split["nodes"]["SHOP"]["fault_lg_min_a"] != (
-            base_split["nodes"]["SHOP"]["fault_lg_min_a"]
-        )
+    elif rule_id == "fault-z0-ratio-max":
+        assert wye["nodes"]["P1"]["fault_lg_max_a"] != base_wye["nodes"]["P1"]["fault_lg_max_a"]
     elif rule_id == "fault-z0-ratio-min":
         assert wye["nodes"]["P1"]["fault_lg_min_a"] != base_wye["nodes"]["P1"]["fault_lg_min_a"]
     elif rule_id == "fault-motor-multiple":

@@ -15,8 +15,18 @@ from ..calc import fault_lg as lg
 from ..calc import transformer as tk
 from ..calc.constants import M_PER_FT, SQRT3
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
-from .compare import passes
 from .context import Context
+from .fault_duty import (
+    describe_methods,
+    flag_return_paths,
+    motor_contribution,
+    node_duty,
+    record_duty,
+    split_ln_source_ohm,
+    transformer_loop_ohm,
+    worst_case_figures,
+    z0_ratio,
+)
 from .impedance import (
     branch_impedances,
     fault_assumptions,
@@ -42,7 +52,7 @@ def check_faults(ctx: Context) -> None:
 
     zs = source_impedance(job)
     b_max = branch_impedances(ctx, fa, fa.cond_c_max, "max")
-    b_min = branch_impedances(ctx, fa, fa.cond_c_min, "min")
+    b_min = branch_impedances(ctx, fa, None, "min")
 
     def referred(branches):
         arr = np.zeros(len(order), dtype=complex)
@@ -59,15 +69,9 @@ def check_faults(ctx: Context) -> None:
             for zb in (zb_max, zb_min):
                 zp = fk.cumulative_impedance_ohm(parent, zb, zs)[pos[p]]
                 zb[pos[t.id]] += (2 / SQRT3 - 1) * zp
-    # motor contribution, referred to the base voltage, summed at the motor's node and
-    # every node above it, then referred back to each node's own voltage
-    motor_b = np.zeros(len(order))
-    for m in job.motors:
-        i_m = float(fk.motor_contribution_a(m.full_load_a, fa.motor_multiple))
-        motor_b[pos[m.panel_id]] += i_m * tree.voltage_of[m.panel_id].line_v / vb
     rf = _walk_3ph(job, parent, v_node, zb_max, zb_min, zs, fa, vb)
     ohmic_max_no_motor = rf.fault_max_a
-    motor_node = np.asarray(fk.subtree_sum(parent, motor_b)) * vb / v_node
+    motor_node = motor_contribution(ctx, fa, vb)  # every motor on the same system
     fault_max = rf.fault_max_a + motor_node
     finite = np.isfinite(fault_max)
     peak = np.full(len(order), np.inf)
@@ -75,6 +79,24 @@ def check_faults(ctx: Context) -> None:
     peak[finite] = fk.peak_current_a(fault_max[finite], rf.x_r[finite])
     asym[finite] = fk.asymmetric_rms_half_cycle_a(fault_max[finite], rf.x_r[finite])
 
+    _describe_3ph(ctx, fa)
+    lg_min = _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb)
+    ptp = _point_to_point(ctx, fa, order, rf)
+    _primary_terminals(ctx, fa, pos, rf, vb)
+    z_node_max = {n: complex(rf.z_max_ohm[i] * (v_node[i] / vb) ** 2) for i, n in enumerate(order)}
+    worst = worst_case_figures(ctx, fa, z_node_max, dict(zip(order, motor_node, strict=True)))
+    describe_methods(ctx, fa, worst)
+    flag_return_paths(ctx)
+
+    figs = _Figures(
+        rf, fault_max, motor_node, ohmic_max_no_motor, peak, asym, lg_min, ptp, worst, v_node, vb
+    )
+    when = _calc_date(ctx)
+    for i, n in enumerate(order):
+        _record_node(ctx, fa, figs, i, n, when)
+
+
+def _describe_3ph(ctx: Context, fa) -> None:
     ctx.method(
         "Three-phase bolted fault, complex ohmic method: source + transformer (%Z, X/R)"
         " + conductors summed as complex impedances, I = c·V_LL/(√3·|Z|)",
@@ -88,123 +110,154 @@ def check_faults(ctx: Context) -> None:
     ctx.assume(
         f"Fault maximum: transformer impedance at −{fa.tolerance_pct:g} % tolerance, "
         f"conductors at {fa.cond_c_max:g} °C; minimum: +{fa.tolerance_pct:g} %, "
-        f"conductors at {fa.cond_c_min:g} °C (tables/fault_assumptions.csv)."
+        f"each run's conductors at its insulation's rated temperature, at least "
+        f"{fa.cond_c_min:g} °C (tables/fault_assumptions.csv; NFPA 70 Table 310.4(1))."
     )
-    if job.options.voltage_factor == "iec60909":
+    if ctx.job.options.voltage_factor != "none":
         ctx.assume(
             f"IEC 60909 voltage factors applied: c_max = {fa.c_max:g}, c_min = {fa.c_min:g}."
         )
     else:
         ctx.assume("No voltage factor applied to fault currents (c = 1, nominal voltage).")
-    if job.motors:
-        ctx.assume(
-            f"Motor contribution: {fa.motor_multiple:g} × motor full-load current, "
-            "added at the motor's panel and every node upstream (common practice)."
-        )
 
-    lg_min = _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb)
-    ptp = _point_to_point(ctx, fa, order, rf)
-    _primary_terminals(ctx, fa, pos, rf, vb)
 
-    when = _calc_date(ctx)
-    for i, n in enumerate(order):
-        node = ctx.nodes[n]
-        node.values.update(
-            {
-                "fault_max_a": float(fault_max[i]),
-                "fault_min_a": float(rf.fault_min_a[i]),
-                "x_r": float(rf.x_r[i]),
-                "peak_a": float(peak[i]),
-                "asym_rms_a": float(asym[i]),
-            }
-        )
-        if motor_node[i] > 0:
-            node.values["fault_motor_a"] = float(motor_node[i])
-        if n in lg_min:
-            node.values["fault_lg_min_a"] = lg_min[n]
-        if n in ptp:
-            node.values["fault_ptp_a"] = ptp[n]
-            diff = float(fk.percent_difference(ptp[n], ohmic_max_no_motor[i]))
-            node.values["fault_ptp_diff_pct"] = diff
-            ok = abs(diff) <= fa.ptp_disagree_pct
-            ctx.add(
-                n,
-                "point-to-point vs ohmic",
-                diff,
-                fa.ptp_disagree_pct,
-                "%",
-                "ok" if ok else "warn",
-                "fault-ptp-disagree",
-                f"point-to-point {_kA(ptp[n])} vs ohmic {_kA(ohmic_max_no_motor[i])}"
-                + (
-                    ""
-                    if ok
-                    else "; the point-to-point method adds impedance magnitudes (no X/R) and "
-                    "reads low where conductor resistance dominates — the ohmic figure is the "
-                    "one used for ratings; review the impedance data if the gap surprises you"
-                ),
-            )
-        if n == "source":
-            continue
-        sh = ctx.sheet(n, tree.kind[n], "")
-        z_max_node = rf.z_max_ohm[i] * (v_node[i] / vb) ** 2
-        z_min_node = rf.z_min_ohm[i] * (v_node[i] / vb) ** 2
-        v = tree.voltage_of[n]
-        form = "I = c·V_LL / (√3·|Z|)" if v.phases == 3 else "I = c·V / |Z_loop| (Z_loop = √3·Z)"
+@dataclass(frozen=True)
+class _Figures:
+    """The walk's figures per node (arrays in tree order; dicts by node id)."""
+
+    rf: _Walk
+    fault_max: np.ndarray
+    motor_node: np.ndarray
+    ohmic_no_motor: np.ndarray
+    peak: np.ndarray
+    asym: np.ndarray
+    lg_min: dict
+    ptp: dict
+    worst: dict
+    v_node: np.ndarray
+    vb: float
+
+
+def _record_node(ctx: Context, fa, g: _Figures, i: int, n: str, when: str) -> None:
+    """Node values, the point-to-point finding, the sheet and the duty of one node."""
+    rf, tree = g.rf, ctx.tree
+    node = ctx.nodes[n]
+    node.values.update(
+        {
+            "fault_max_a": float(g.fault_max[i]),
+            "fault_min_a": float(rf.fault_min_a[i]),
+            "x_r": float(rf.x_r[i]),
+            "peak_a": float(g.peak[i]),
+            "asym_rms_a": float(g.asym[i]),
+        }
+    )
+    if g.motor_node[i] > 0:
+        node.values["fault_motor_a"] = float(g.motor_node[i])
+    if n in g.lg_min:
+        node.values["fault_lg_min_a"] = g.lg_min[n]
+    if n in g.ptp:
+        _ptp_finding(ctx, fa, n, g.ptp[n], float(g.ohmic_no_motor[i]))
+    if n == "source":
+        return
+    _sheet_steps(ctx, fa, g, i, n)
+    first = "3ph" if tree.voltage_of[n].phases == 3 else "ll"
+    faults = {first: float(g.fault_max[i])}
+    x_rs = {first: float(rf.x_r[i])}
+    if n in g.worst:
+        faults.update(g.worst[n].faults_a)
+        x_rs.update(g.worst[n].x_r)
+        for case, key in (("ln", "fault_ln_max_a"), ("lg", "fault_lg_max_a")):
+            if case in g.worst[n].faults_a:
+                node.values[key] = g.worst[n].faults_a[case]
+    record_duty(ctx, n, node_duty(ctx, n, faults, x_rs), when)
+
+
+def _ptp_finding(ctx: Context, fa, n: str, ptp_a: float, ohmic_a: float) -> None:
+    values = ctx.nodes[n].values
+    values["fault_ptp_a"] = ptp_a
+    diff = float(fk.percent_difference(ptp_a, ohmic_a))
+    values["fault_ptp_diff_pct"] = diff
+    ok = abs(diff) <= fa.ptp_disagree_pct
+    ctx.add(
+        n,
+        "point-to-point vs ohmic",
+        diff,
+        fa.ptp_disagree_pct,
+        "%",
+        "ok" if ok else "warn",
+        "fault-ptp-disagree",
+        f"point-to-point {_kA(ptp_a)} vs ohmic {_kA(ohmic_a)}"
+        + (
+            ""
+            if ok
+            else "; the point-to-point method adds impedance magnitudes (no X/R) and "
+            "reads low where conductor resistance dominates — the ohmic figure is the "
+            "one used for ratings; review the impedance data if the gap surprises you"
+        ),
+    )
+
+
+def _sheet_steps(ctx: Context, fa, g: _Figures, i: int, n: str) -> None:
+    rf, tree, vb, v_node = g.rf, ctx.tree, g.vb, g.v_node
+    motor_node, fault_max, peak, lg_min, ptp = g.motor_node, g.fault_max, g.peak, g.lg_min, g.ptp
+    sh = ctx.sheet(n, tree.kind[n], "")
+    z_max_node = rf.z_max_ohm[i] * (v_node[i] / vb) ** 2
+    z_min_node = rf.z_min_ohm[i] * (v_node[i] / vb) ** 2
+    v = tree.voltage_of[n]
+    form = "I = c·V_LL / (√3·|Z|)" if v.phases == 3 else "I = c·V / |Z_loop| (Z_loop = √3·Z)"
+    sh.step(
+        "Total impedance to this node, maximum case",
+        "Z = Z_source + Z_transformer + Σ Z_runs (referred to this voltage)",
+        f"{z_max_node.real * 1e3:.3f} + j{z_max_node.imag * 1e3:.3f} mΩ",
+        round(abs(z_max_node) * 1e3, 3),
+        "mΩ",
+        "fault-z-tolerance",
+    )
+    sh.step(
+        "Maximum three-phase fault current",
+        form,
+        f"{fa.c_max:g} × {v.line_v:g} / (√3 × {abs(z_max_node) * 1e3:.3f} mΩ)"
+        + (f" + motors {motor_node[i]:.0f} A" if motor_node[i] > 0 else ""),
+        round(float(fault_max[i])),
+        "A",
+        "fault-cond-temp-max",
+    )
+    sh.step(
+        "Minimum three-phase fault current",
+        form,
+        f"{fa.c_min:g} × {v.line_v:g} / (√3 × {abs(z_min_node) * 1e3:.3f} mΩ)",
+        round(float(rf.fault_min_a[i])),
+        "A",
+        "fault-cond-temp-min",
+    )
+    sh.step(
+        "X/R and peak",
+        "κ = 1.02 + 0.98·e^(−3/(X/R)); i_p = κ·√2·I_max",
+        f"X/R = {rf.x_r[i]:.2f}",
+        round(float(peak[i])),
+        "A",
+        "iec60909-kappa",
+    )
+    if n in lg_min:
         sh.step(
-            "Total impedance to this node, maximum case",
-            "Z = Z_source + Z_transformer + Σ Z_runs (referred to this voltage)",
-            f"{z_max_node.real * 1e3:.3f} + j{z_max_node.imag * 1e3:.3f} mΩ",
-            round(abs(z_max_node) * 1e3, 3),
-            "mΩ",
-            "fault-z-tolerance",
-        )
-        sh.step(
-            "Maximum three-phase fault current",
-            form,
-            f"{fa.c_max:g} × {v.line_v:g} / (√3 × {abs(z_max_node) * 1e3:.3f} mΩ)"
-            + (f" + motors {motor_node[i]:.0f} A" if motor_node[i] > 0 else ""),
-            round(float(fault_max[i])),
+            "Minimum line-to-ground fault current",
+            "I = 3·V_LN / |Z1 + Z2 + Z0|"
+            if v.kind == "wye"
+            else "I = V_LN / |Z_LN,source + Σ(Z_phase + Z_return)|",
+            f"V_LN = {v.neutral_v:g} V",
+            round(lg_min[n]),
             "A",
-            "fault-cond-temp-max",
+            "fault-z0-ratio-min",
         )
+    if n in ptp:
         sh.step(
-            "Minimum three-phase fault current",
-            form,
-            f"{fa.c_min:g} × {v.line_v:g} / (√3 × {abs(z_min_node) * 1e3:.3f} mΩ)",
-            round(float(rf.fault_min_a[i])),
+            "Point-to-point figure (second method)",
+            "I = I_start · Π 1/(1 + f)",
+            "f = √3·L·I/(C·n·V) per run",
+            round(ptp[n]),
             "A",
-            "fault-cond-temp-min",
+            "fault-ptp-disagree",
         )
-        sh.step(
-            "X/R and peak",
-            "κ = 1.02 + 0.98·e^(−3/(X/R)); i_p = κ·√2·I_max",
-            f"X/R = {rf.x_r[i]:.2f}",
-            round(float(peak[i])),
-            "A",
-            "iec60909-kappa",
-        )
-        if n in lg_min:
-            sh.step(
-                "Minimum line-to-ground fault current",
-                "I = 3·V_LN / |Z1 + Z2 + Z0|"
-                if v.kind == "wye"
-                else "I = V_LN / |Z_LN,source + Σ(Z_phase + Z_return)|",
-                f"V_LN = {v.neutral_v:g} V",
-                round(lg_min[n]),
-                "A",
-                "fault-z0-ratio-min",
-            )
-        if n in ptp:
-            sh.step(
-                "Point-to-point figure (second method)",
-                "I = I_start · Π 1/(1 + f)",
-                "f = √3·L·I/(C·n·V) per run",
-                round(ptp[n]),
-                "A",
-                "fault-ptp-disagree",
-            )
-        _check_rating_and_marking(ctx, n, float(fault_max[i]), when)
 
 
 @dataclass(frozen=True)
@@ -255,7 +308,7 @@ def _primary_terminals(ctx: Context, fa, pos, rf, vb) -> None:
         out = {}
         for case, temp, z_parent, c in (
             ("max", fa.cond_c_max, rf.z_max_ohm, fa.c_max),
-            ("min", fa.cond_c_min, rf.z_min_ohm, fa.c_min),
+            ("min", fa.min_c(run), rf.z_min_ohm, fa.c_min),
         ):
             z_run_b = k * run_impedance_ohm(run, temp, ctx.rules.conductors) * (vb / pv.line_v) ** 2
             z_b = z_parent[pos[p]] + z_run_b
@@ -283,53 +336,6 @@ def _calc_date(ctx: Context) -> str:
     return ctx.calc_date or "on a date not given"
 
 
-def _check_rating_and_marking(ctx: Context, n: str, fault_max: float, when: str) -> None:
-    kind = ctx.tree.kind[n]
-    ctx.add(
-        n,
-        "available fault current (marking)",
-        fault_max,
-        None,
-        "A",
-        "info",
-        "fault-marking",
-        f"maximum available fault current {_kA(fault_max)}, "
-        f"complex ohmic method (IEEE Std 141), calculated {when}",
-    )
-    if kind != "panel":
-        return
-    panel = next(p for p in ctx.job.panels if p.id == n)
-    if panel.interrupting_a is None:
-        ctx.add(
-            n,
-            "interrupting rating",
-            fault_max,
-            None,
-            "A",
-            "warn",
-            "panel-interrupting",
-            f"no interrupting rating given; it must be at least {_kA(fault_max)}",
-        )
-        return
-    ok = passes(panel.interrupting_a, fault_max, "at_least", 0.0)
-    ctx.compare(
-        n,
-        "interrupting rating",
-        fault_max,
-        panel.interrupting_a,
-        "A",
-        "at_most",
-        "panel-interrupting",
-        f"rating {_kA(panel.interrupting_a)} vs available {_kA(fault_max)}"
-        + (
-            ""
-            if ok
-            else " — equipment with a higher rating (or a series-rated combination) is needed"
-        ),
-        tolerance=0.0,
-    )
-
-
 def _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb) -> dict[str, float]:
     """Minimum line-to-ground current at every node below a grounded secondary
     (wye: symmetrical components; 120/240 V: line-to-neutral loop)."""
@@ -355,18 +361,17 @@ def _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb) -> dict[str, fl
             lg_parent[i] = -1
             z1 = complex(z_total_min[i] * (v.line_v / vb) ** 2)  # per-phase (equivalent)
             if v.kind == "wye":
-                zt_min = fk.transformer_fault_impedances_ohm(
-                    t.rating_va, v.line_v, t.z_pct, t.x_r, fa.tolerance_pct
-                )[1]
+                zt_min = transformer_loop_ohm(t, fa.tolerance_pct, "min")
                 root_z1[i] = z1
-                root_z0[i] = complex(lg.transformer_zero_sequence_ohm(zt_min, fa.z0_ratio_min))
-            else:  # 120/240 V: line-to-neutral source impedance of common practice
-                z_loop = z1 * SQRT3
-                root_z1[i] = complex(fk.split_phase_source_ohm(z_loop, fa.split_ln_multiplier)[1])
+                ratio = z0_ratio(t, fa, "min")
+                root_z0[i] = complex(lg.transformer_zero_sequence_ohm(zt_min, ratio))
+            else:  # 120/240 V: half-winding model at 120 V
+                zt_loop = transformer_loop_ohm(t, fa.tolerance_pct, "min")
+                root_z1[i] = split_ln_source_ohm(z1, zt_loop)
         else:
             run = tree.parent_run[n]
-            zp = run_impedance_ohm(run, fa.cond_c_min, ctx.rules.conductors)
-            zr = run_return_impedance_ohm(run, fa.cond_c_min, ctx.rules.conductors)
+            zp = run_impedance_ohm(run, fa.min_c(run), ctx.rules.conductors)
+            zr = run_return_impedance_ohm(run, fa.min_c(run), ctx.rules.conductors)
             if v.kind == "wye":
                 b1[i] = zp
                 b0[i] = complex(lg.run_zero_sequence_ohm(zp, zr))
@@ -484,8 +489,8 @@ def _trip_fixes(ctx, fa, panel_id, run, required_a, z_up1, z_up0) -> str:
     ``z_up1``, ``z_up0``: positive- and zero-sequence impedance up to the run's start."""
     v = ctx.tree.voltage_of[panel_id]
     data = ctx.rules.conductors
-    zp = run_impedance_ohm(run, fa.cond_c_min, data) / run.length_m
-    zr = run_return_impedance_ohm(run, fa.cond_c_min, data) / run.length_m
+    zp = run_impedance_ohm(run, fa.min_c(run), data) / run.length_m
+    zr = run_return_impedance_ohm(run, fa.min_c(run), data) / run.length_m
     # wye: Z1 + Z2 + Z0 upstream; 120/240 V loop written in the same 3·V/|A + 3L·(zp + zr)|
     a = 2 * z_up1 + z_up0 if v.kind == "wye" else 3 * z_up1
     max_len = float(lg.max_length_for_trip_m(_v_ln(v), a, zp, zr, required_a, fa.c_min))
@@ -498,7 +503,7 @@ def _trip_fixes(ctx, fa, panel_id, run, required_a, z_up1, z_up0) -> str:
     order = AWG_KCMIL_ORDER if run.size.system == "awg" else METRIC_ORDER
     names = [s for s in order if SIZES[s].area_mm2 <= run.size.area_mm2 * (1 + 1e-9)]
     r, x = ck.ac_impedance_ohm_per_m(
-        np.array(names), material, run.raceway, fa.cond_c_min, data=data
+        np.array(names), material, run.raceway, fa.min_c(run), data=data
     )
     idx = lg.smallest_return_for_trip(
         _v_ln(v),
@@ -534,7 +539,7 @@ def _point_to_point(ctx, fa, order, rf) -> dict[str, float]:
             src = job.source.fault_a
             if t.secondary.phases == 1 and job.source.voltage.phases == 3:
                 src = src * SQRT3 / 2  # line-to-line fault on a three-phase source
-            out[n] = float(
+            out[n] = fa.c_max * float(  # the ohmic maximum's voltage factor
                 fk.ptp_secondary_current_a(
                     rated,
                     t.z_pct,

@@ -13,7 +13,7 @@ from dataclasses import dataclass
 from ..calc import conductor as ck
 from ..calc import fault as fk
 from ..calc.constants import SQRT3
-from ..model import Job, Run, Tree
+from ..model import Job, Run
 from .context import Context
 
 
@@ -29,24 +29,31 @@ class FaultAssumptions:
     c_min: float
     motor_multiple: float
     ptp_disagree_pct: float
-    split_ln_multiplier: float
+    z0_ratio_max: float
     z0_ratio_min: float
+
+    def min_c(self, run: Run) -> float:
+        """Conductor temperature of a run for the minimum fault [°C]: the higher of its
+        insulation's rated temperature (the most it may run at, NFPA 70-2023 Table
+        310.4(1)) and rule fault-cond-temp-min."""
+        return max(self.cond_c_min, run.insulation_c)
 
 
 def fault_assumptions(ctx: Context) -> FaultAssumptions:
     rows = ctx.rules.fault
     opts = ctx.job.options
-    iec = opts.voltage_factor == "iec60909"
+    iec = opts.voltage_factor in ("iec60909", "iec60909-10pct")
+    c_max = rows.c_max_10pct if opts.voltage_factor == "iec60909-10pct" else rows.c_max_6pct
     given = opts.impedance_tolerance_pct
     return FaultAssumptions(
         tolerance_pct=given if given is not None else rows.z_tolerance_pct,
         cond_c_max=rows.cond_temp_max_c,
         cond_c_min=rows.cond_temp_min_c,
-        c_max=rows.c_max_6pct if iec else 1.0,
+        c_max=c_max if iec else 1.0,
         c_min=rows.c_min if iec else 1.0,
         motor_multiple=rows.motor_multiple,
         ptp_disagree_pct=rows.ptp_disagree_pct,
-        split_ln_multiplier=rows.split_ln_multiplier,
+        z0_ratio_max=rows.z0_ratio_max,
         z0_ratio_min=rows.z0_ratio_min,
     )
 
@@ -71,12 +78,13 @@ def run_return_impedance_ohm(run: Run, conductor_c: float, data: ck.ConductorDat
 
 
 def branch_impedances(
-    ctx: Context, fa: FaultAssumptions, conductor_c: float, tx_case: str
+    ctx: Context, fa: FaultAssumptions, conductor_c: float | None, tx_case: str
 ) -> dict[str, complex]:
     """Branch impedance (per-phase equivalent, at the node's own voltage) of each node.
 
     ``tx_case``: ``"max"`` (transformer Z at its lower tolerance) or ``"min"`` (upper)
-    or ``"nominal"``. A transformer's branch includes the run that feeds it (referred
+    or ``"nominal"``; ``conductor_c`` None: each run at :meth:`FaultAssumptions.min_c`.
+    A transformer's branch includes the run that feeds it (referred
     through its ratio) and, for a single-phase unit on a three-phase node, the extra
     source loop (added later, by :func:`single_phase_on_three_phase`).
     """
@@ -88,6 +96,7 @@ def branch_impedances(
             continue
         v = tree.voltage_of[n]
         run = tree.parent_run.get(n)
+        temp_c = conductor_c if conductor_c is not None or run is None else fa.min_c(run)
         z = 0j
         if tree.kind[n] == "transformer":
             t = tx[n]
@@ -105,13 +114,13 @@ def branch_impedances(
                 zt = zt / SQRT3
             if run is not None:
                 parent_v = tree.voltage_of[tree.parent_node[n]]
-                zr = run_impedance_ohm(run, conductor_c, data)
+                zr = run_impedance_ohm(run, temp_c, data)
                 if t.primary.phases == 1:  # loop out and back on two lines
                     zr = 2 * zr / SQRT3
                 z += complex(fk.refer_impedance_ohm(zr, parent_v.line_v, v.line_v))
             z += zt
         elif run is not None:
-            zr = run_impedance_ohm(run, conductor_c, data)
+            zr = run_impedance_ohm(run, temp_c, data)
             z = 2 * zr / SQRT3 if v.phases == 1 else zr
         out[n] = z
     return out

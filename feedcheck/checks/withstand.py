@@ -29,7 +29,7 @@ DUTY_KEYS = {
     "fault_ll_max_a": "line-to-line maximum",
     "fault_ln_max_a": "line-to-neutral maximum",
     "fault_lg_max_a": "line-to-ground maximum",
-    "fault_duty_a": "governing maximum",
+    "fault_duty_sym_a": "governing maximum (symmetrical)",
 }
 
 

@@ -2,9 +2,10 @@
 end of one run — maximum and minimum, line-to-ground, asymmetry, and the point-to-point
 figure beside the ohmic one.
 
-Thin: parse the options, look up conductor R and X and the rule rows, call the kernels in
-:mod:`feedcheck.calc.fault` and :mod:`feedcheck.calc.fault_lg`, print. Heavy modules are
-imported inside the command.
+Thin: parse the options into an in-memory one-transformer job (source → transformer
+``T`` → run ``R`` → panel ``P``), run the same checks as ``feedcheck check`` on it and
+print their figures and the instantaneous-trip finding. Heavy modules are imported inside
+the command.
 """
 
 from __future__ import annotations
@@ -33,7 +34,9 @@ SOURCE_CURRENT = QuantityType("current", allow_inf=True)
 TOLERANCE = QuantityType("percent", must_be_positive=False)
 DEVICE_TYPES = ("breaker-tm", "breaker-tm-adj", "breaker-electronic", "fuse-time-delay",
                 "fuse-fast")
-FACTORS = {"none": None, "iec-6pct": "fault-c-max-6pct", "iec-10pct": "fault-c-max-10pct"}
+# --factors → the job option voltage_factor, and the c_max row it reads
+FACTORS = {"none": "none", "iec-6pct": "iec60909", "iec-10pct": "iec60909-10pct"}
+FACTOR_ROWS = {"iec-6pct": "fault-c-max-6pct", "iec-10pct": "fault-c-max-10pct"}
 
 HELP = f"""Available fault current at a transformer's secondary terminals and, with a
 run, at the run's far end: maximum and minimum three-phase (single-phase: line-to-line
@@ -84,98 +87,85 @@ def _pickup(device_type: str, device_a: float) -> tuple[float, float, str]:
     return float(row["multiple"]), float(row["tolerance_pct"]), str(row["rule_id"])
 
 
-def compute(kva, primary, secondary, z, x_r, source_fault, source_x_r, tolerance_pct, factors,
-            length_m, size, material, raceway, sets, ground, motor_flc):
-    """Every figure the command prints, as a dict (no printing)."""
-    from ..calc import fault as F
-    from ..calc import fault_lg as G
-    from ..calc.transformer import rated_current_a
+def one_transformer_job(kva, primary, secondary, z, x_r, source_fault, source_x_r,
+                        tolerance_pct, factors, length_m, size, material, raceway, sets,
+                        ground, motor_flc, instantaneous_a=None, device_a=None):
+    """The command's options as an in-memory job: the source, one transformer ``T`` and,
+    with a run, the run ``R`` to a panel ``P`` (the motors and the device at ``P``)."""
+    from pathlib import Path
 
-    c_max = 1.0 if FACTORS[factors] is None else _rule(FACTORS[factors])
-    c_min = 1.0 if FACTORS[factors] is None else _rule("fault-c-min")
-    split = secondary.kind in ("split", "single")
-    ph = 1 if split else 3
-    vs, vp = secondary.line_v, primary.line_v
-    zt_max, zt_min = F.transformer_fault_impedances_ohm(kva, vs, z, x_r, tolerance_pct, ph)
-    zs = F.refer_impedance_ohm(F.source_impedance_ohm(vp, source_fault, source_x_r), vp, vs)
-    out = dict(c_max=c_max, c_min=c_min, split=split, phases=ph, zs=zs, zt_max=zt_max,
-               zt_min=zt_min, rated_a=rated_current_a(kva, vs, ph))
-    run = None
+    from ..inputs.tree import build_tree
+    from ..model import Job, Motor, Options, Panel, Project, Run, Source, Transformer
+
+    source = Source(primary, source_fault, source_x_r)
+    tx = (Transformer("T", "source", kva, primary, secondary, z, x_r, 1.0, None),)
+    runs, panels, motors = (), (), ()
     if length_m is not None:
-        from ..calc.conductor import ac_impedance_ohm_per_m
-        from ..rulebook import current_rulebook
+        runs = (Run("R", "T", "P", length_m, size, material, sets, 75.0, raceway, 30.0, 3,
+                    ground, material, device_a, None),)
+        panels = (Panel("P", device_a or 1.0, None, None, None, None, None, 0.0, 1.0,
+                        instantaneous_a=instantaneous_a),)
+        if motor_flc:
+            motors = (Motor("M", "P", motor_flc, None, None),)
+    return Job(Path("calc-fault.toml"), Project("feedcheck calc fault"), source, tx, runs,
+               panels, build_tree(source, tx, runs, panels), motors,
+               Options(impedance_tolerance_pct=tolerance_pct,
+                       voltage_factor=FACTORS[factors]))
 
-        cd = current_rulebook().conductors
-        t_max, t_min = _rule("fault-cond-temp-max"), _rule("fault-cond-temp-min")
-        r20, x20 = ac_impedance_ohm_per_m(size.name, material, raceway, conductor_c=t_max, data=cd)
-        rhot, xhot = ac_impedance_ohm_per_m(size.name, material, raceway, conductor_c=t_min, data=cd)
-        run = dict(z_max=F.branch_impedance_ohm(length_m, r20, x20, sets),
-                   z_min=F.branch_impedance_ohm(length_m, rhot, xhot, sets),
-                   c_const=F.conductor_constant_a_ft_per_v(r20, x20), t_max=t_max, t_min=t_min)
-        if ground is not None:  # one grounding conductor per raceway: the sets share the return
-            rg, xg = ac_impedance_ohm_per_m(ground.name, material, raceway, conductor_c=t_min,
-                                            data=cd)
-            run["z_ground"] = F.branch_impedance_ohm(length_m, rg, xg, sets)
-        out["run"] = run
-    zero = 0j
-    points = [("secondary terminals", zero, zero, zero)]
-    if run is not None:
-        points.append(("end of run", run["z_max"], run["z_min"], run.get("z_ground")))
-    tol = tolerance_pct
-    if split:
-        m = _rule("fault-split-ln-multiplier")
-        zll_max, zln_max = F.split_phase_source_ohm(zt_max, m)
-        zll_min, zln_min = F.split_phase_source_ohm(zt_min, m)
-        zs_ll = 2.0 * zs  # a single-phase unit draws through two source lines
-        zs_ln = zs_ll * (secondary.neutral_v / vs) ** 2 if secondary.neutral_v else None
-        out["ln_multiplier"] = m
-        # the primary's line-to-line fault current feeds a single-phase unit: √3/2 × 3-phase
-        ptp_ll = F.ptp_secondary_current_a(out["rated_a"], z, tol, source_fault * math.sqrt(3)
-                                           / 2.0, vp, vs)
-    else:
-        ptp_ll = F.ptp_secondary_current_a(out["rated_a"], z, tol, source_fault, vp, vs)
+
+def compute(kva, primary, secondary, z, x_r, source_fault, source_x_r, tolerance_pct, factors,
+            length_m, size, material, raceway, sets, ground, motor_flc, instantaneous_a=None,
+            device_a=None):
+    """Every figure the command prints, as a dict (no printing), read from the results of
+    the same checks as `feedcheck check` on :func:`one_transformer_job`."""
+    from ..calc import fault as F
+    from ..calc.transformer import rated_current_a
+    from ..checks import check_job
+    from ..rulebook import current_rulebook
+
+    book = current_rulebook()
+    job = one_transformer_job(kva, primary, secondary, z, x_r, source_fault, source_x_r,
+                              tolerance_pct, factors, length_m, size, material, raceway, sets,
+                              ground, motor_flc, instantaneous_a, device_a)
+    res = check_job(job, rules=book)
+    nodes = {n.id: n.values for n in res.nodes}
+    split = secondary.kind in ("split", "single")
+    c_max = 1.0 if factors == "none" else book.rule(FACTOR_ROWS[factors]).number()
+    c_min = 1.0 if factors == "none" else book.fault.c_min
+    out = dict(c_max=c_max, c_min=c_min, split=split, phases=1 if split else 3,
+               rated_a=rated_current_a(kva, secondary.line_v, 1 if split else 3),
+               ptp_warn_pct=book.fault.ptp_disagree_pct, findings=res.findings)
+    if length_m is not None:
+        cd = book.conductors
+        from ..calc.conductor import ac_impedance_ohm_per_m
+
+        t_max = book.fault.cond_temp_max_c
+        r20, x20 = ac_impedance_ohm_per_m(size.name, material, raceway, conductor_c=t_max,
+                                          data=cd)
+        out["run"] = dict(c_const=F.conductor_constant_a_ft_per_v(r20, x20), t_max=t_max,
+                          t_min=max(book.fault.cond_temp_min_c, 75.0))
     rows = []
-    for name, zr_max, zr_min, zg in points:
-        row = dict(name=name)
-        if split:
-            zmax, zmin = zs_ll + zll_max + 2 * zr_max, zs_ll + zll_min + 2 * zr_min
-            row["max_a"] = F.fault_current_1ph_a(vs, zmax, c_max)
-            row["min_a"] = F.fault_current_1ph_a(vs, zmin, c_min)
-            if zs_ln is not None:
-                vn = secondary.neutral_v
-                row["ln_max_a"] = F.fault_current_1ph_a(vn, zs_ln + zln_max + 2 * zr_max, c_max)
-                # minimum line-to-ground: back on the grounding conductor (or the neutral)
-                zret = zr_min if zg is None else zg
-                row["lg_min_a"] = F.fault_current_1ph_a(vn, zs_ln + zln_min + zr_min + zret,
-                                                        c_min)
-        else:
-            zmax, zmin = zs + zt_max + zr_max, zs + zt_min + zr_min
-            row["max_a"] = F.fault_current_3ph_a(vs, zmax, c_max)
-            row["min_a"] = F.fault_current_3ph_a(vs, zmin, c_min)
-            if secondary.grounded_wye and (zg is not None or name == "secondary terminals"):
-                z0_t = G.transformer_zero_sequence_ohm(zt_min, _rule("fault-z0-ratio-min"))
-                z1 = zs + zt_min + zr_min
-                z0 = z0_t + (G.run_zero_sequence_ohm(zr_min, zg) if zg is not None else 0j)
-                row["lg_min_a"] = G.fault_current_lg_a(secondary.neutral_v, z1, z0, c=c_min)
-                row["z_lg_sum"] = 2 * z1 + z0
-        row["x_r"] = F.x_r_ratio(zmax)
-        row["peak_a"] = F.peak_current_a(row["max_a"], row["x_r"])
-        row["asym_a"] = F.asymmetric_rms_half_cycle_a(row["max_a"], row["x_r"])
+    for name, nid in (("secondary terminals", "T"), ("end of run", "P")):
+        if nid not in nodes:
+            continue
+        v = nodes[nid]
+        motor = v.get("fault_motor_a", 0.0)
+        row = dict(name=name, max_a=v["fault_max_a"] - motor, min_a=v["fault_min_a"],
+                   x_r=v["x_r"], peak_a=v["peak_a"], asym_a=v["asym_rms_a"],
+                   ptp_a=v["fault_ptp_a"], ptp_diff_pct=v["fault_ptp_diff_pct"],
+                   with_motor_a=v["fault_max_a"], motor_a=motor,
+                   duty_a=v["fault_duty_a"], duty_case=v["fault_duty_case"])
+        for key, mine in (("fault_ln_max_a", "ln_max_a"), ("fault_lg_min_a", "lg_min_a"),
+                          ("fault_lg_max_a", "lg_max_a")):
+            if key in v:
+                row[mine] = v[key]
         rows.append(row)
-    # point-to-point, maximum case (same tolerance and 20 °C impedance data as the ohmic max)
-    rows[0]["ptp_a"] = c_max * ptp_ll
-    if run is not None:
-        kind, v = ("1ph-ll", vs) if split else ("3ph", vs)
-        rows[1]["ptp_a"] = float(F.ptp_chain_a(rows[0]["ptp_a"], [length_m], [run["c_const"]],
-                                               [sets], v, kind)[0])
-    for row in rows:
-        row["ptp_diff_pct"] = F.percent_difference(row["ptp_a"], row["max_a"])
     if motor_flc:
-        mult = _rule("fault-motor-multiple")
-        out["motor_a"] = F.motor_contribution_a(motor_flc, mult)
-        out["motor_multiple"] = mult
+        out["motor_multiple"] = book.fault.motor_multiple
+        if length_m is None:  # no panel to hang the motors on: added at full magnitude
+            rows[0]["motor_a"] = float(F.motor_contribution_a(motor_flc, book.fault.motor_multiple))
+            rows[0]["with_motor_a"] = rows[0]["max_a"] + rows[0]["motor_a"]
     out["rows"] = rows
-    out["ptp_warn_pct"] = _rule("fault-ptp-disagree")
     return out
 
 
@@ -239,13 +229,19 @@ def fault_command(rating_va, kva_old, primary, secondary, z_pct, z_old, x_r, sou
         x_r = x_r if x_r is not None else current_rulebook().transformer_xr.typical(kva)[0]
         tol_src = "given" if tolerance_pct is not None else "rule fault-z-tolerance"
         tolerance_pct = tolerance_pct if tolerance_pct is not None else _rule("fault-z-tolerance")
+        inst_a = None
+        if device_a is not None:
+            if pickup_multiple is not None:
+                pickup = (pickup_multiple, 0.0, "given setting")
+            else:
+                pickup = _pickup(device_type, device_a)
+            inst_a = device_a * pickup[0] * (1 + pickup[1] / 100.0)
         res = compute(kva, primary, secondary, z_pct, x_r, source_fault, source_x_r,
                       tolerance_pct, factors, length_m, size, material.lower(), raceway.lower(),
-                      sets, ground, motor_flc)
+                      sets, ground, motor_flc, inst_a, device_a)
     except (ValueError, InputError) as exc:
         _fail(str(exc))
     out = click.echo
-    split = res["split"]
     src = ("infinite" if math.isinf(source_fault)
            else f"{source_fault / 1e3:g} kA, X/R {source_x_r:g}")
     out(f"Transformer {kva / 1e3:g} kVA {primary.text} → {secondary.text}, %Z {z_pct:g} "
@@ -259,14 +255,31 @@ def fault_command(rating_va, kva_old, primary, secondary, z_pct, z_old, x_r, sou
                                            else "") + f"; R at {run['t_max']:g} °C (max) and "
             f"{run['t_min']:g} °C (min); C = {run['c_const']:.0f} A·ft/V")
     out("")
-    head = "line-to-line" if split else "three-phase"
+    _print_rows(res, motor_flc)
+    if device_a is not None:
+        _print_trip(res, device_a, pickup)
+        if ground is None and length_m is not None:
+            click.echo("  (no --ground: the return is taken as a conductor of the phase size; "
+                       "a smaller grounding conductor or a raceway return gives less current)")
+    out("")
+    out("Ohmic: I = c·V/|Z| with complex Z (source + transformer + run); line-to-ground by "
+        "symmetrical components, delta–wye Z0 = transformer Z0 only.")
+    out("Point-to-point: magnitudes add (no X/R), so it reads at or below the ohmic figure.")
+    out(CAUTION)
+
+
+def _print_rows(res, motor_flc) -> None:
+    out = click.echo
+    head = "line-to-line" if res["split"] else "three-phase"
     for row in res["rows"]:
         out(f"At the {row['name']}:")
         out(f"  {head} maximum   {row['max_a']:>10,.0f} A   X/R {row['x_r']:.2f}")
         out(f"  {head} minimum   {row['min_a']:>10,.0f} A")
         if "ln_max_a" in row:
-            out(f"  line-to-neutral max  {row['ln_max_a']:>10,.0f} A   (half winding, "
-                f"{res['ln_multiplier']:g} × line-to-line at the terminals)")
+            out(f"  line-to-neutral max  {row['ln_max_a']:>10,.0f} A   (half winding: "
+                "1.5 × %R, 1.2 × %X)")
+        if "lg_max_a" in row:
+            out(f"  line-to-ground max   {row['lg_max_a']:>10,.0f} A")
         if "lg_min_a" in row:
             out(f"  line-to-ground min   {row['lg_min_a']:>10,.0f} A")
         out(f"  peak (κ·√2·I)        {row['peak_a']:>10,.0f} A")
@@ -275,49 +288,26 @@ def fault_command(rating_va, kva_old, primary, secondary, z_pct, z_old, x_r, sou
             if abs(row["ptp_diff_pct"]) > res["ptp_warn_pct"] else ""
         out(f"  point-to-point       {row['ptp_a']:>10,.0f} A   {row['ptp_diff_pct']:+.1f} % vs "
             f"ohmic maximum{flag}")
-    if "motor_a" in res:
-        last = res["rows"][-1]
-        out(f"  with motors          {last['max_a'] + res['motor_a']:>10,.0f} A   "
-            f"(+ {res['motor_multiple']:g} × {motor_flc:g} A FLC, added at full magnitude)")
-    if device_a is not None:
-        from ..calc.fault_lg import instantaneous_trip_check
-
-        last = res["rows"][-1]
-        if "lg_min_a" not in last:
-            out("\nInstantaneous-trip check skipped: no line-to-ground figure (ungrounded or "
-                "delta secondary, or no --ground for the run)")
-        else:
-            if pickup_multiple is not None:
-                mult, tol, rid = pickup_multiple, 0.0, "given setting"
-            else:
-                mult, tol, rid = _pickup(device_type, device_a)
-            chk = instantaneous_trip_check(last["lg_min_a"], device_a, mult, tol)
-            verdict = ("trips instantaneously" if chk.trips
-                       else "does NOT reach instantaneous pickup")
-            out(f"\nDevice {device_a:g} A, pickup {mult:g} × (+{tol:g} %) = "
-                f"{chk.required_a:,.0f} A ({rid}): minimum line-to-ground "
-                f"{last['lg_min_a']:,.0f} A → {verdict} "
-                f"(ratio {chk.margin:.2f})")
-            if not chk.trips and "run" in res and "z_lg_sum" in last:
-                _fix_hint(res, last, secondary, length_m, sets, chk.required_a)
-    out("")
-    out("Ohmic: I = c·V/|Z| with complex Z (source + transformer + run); line-to-ground by "
-        "symmetrical components, delta–wye Z0 = transformer Z0 only.")
-    out("Point-to-point: magnitudes add (no X/R), so it reads at or below the ohmic figure.")
-    out(CAUTION)
+        if motor_flc:
+            out(f"  with motors          {row['with_motor_a']:>10,.0f} A   "
+                f"(+ {res['motor_multiple']:g} × {motor_flc:g} A FLC, added at full magnitude)")
+        out(f"  interrupting duty    {row['duty_a']:>10,.0f} A   ({row['duty_case']} governs)")
 
 
-def _fix_hint(res, last, secondary, length_m, sets, required_a) -> None:
-    from ..calc import fault_lg as G
-
-    run = res["run"]
-    zp, zg = run["z_min"] / length_m, run["z_ground"] / length_m
-    up = last["z_lg_sum"] - 3.0 * length_m * (zp + zg)
-    lmax = G.max_length_for_trip_m(secondary.neutral_v, up, zp, zg, required_a, c=res["c_min"])
-    rmax = G.max_return_resistance_for_trip_ohm_per_m(secondary.neutral_v, up, length_m, zp,
-                                                      zg.imag, required_a, c=res["c_min"])
-    click.echo(f"  would trip with this run up to {lmax:.1f} m ({lmax / FT:.0f} ft) long, or with "
-               f"a return path of at most {rmax * 304.8 * sets:.4f} Ω per 1000 ft per "
-               "grounding conductor" if rmax > 0 else
-               f"  would trip with this run up to {lmax:.1f} m ({lmax / FT:.0f} ft) long; no "
-               "grounding conductor alone fixes it")
+def _print_trip(res, device_a, pickup) -> None:
+    """The instantaneous-trip line from the check's own finding at the end of the run."""
+    mult, tol, rid = pickup
+    hit = [f for f in res["findings"]
+           if f.subject == "P" and f.check == "ground fault trips instantaneously"]
+    if not hit:
+        click.echo("\nInstantaneous-trip check skipped: no line-to-ground figure at the end of "
+                   "a run (ungrounded or delta secondary, or no run given)")
+        return
+    f = hit[0]
+    verdict = "trips instantaneously" if f.status == "ok" else \
+        "does NOT reach instantaneous pickup"
+    click.echo(f"\nDevice {device_a:g} A, pickup {mult:g} × (+{tol:g} %) = {f.limit:,.0f} A "
+               f"({rid}): minimum line-to-ground {f.value:,.0f} A → {verdict} "
+               f"(ratio {f.value / f.limit:.2f})")
+    if f.status != "ok" and "; " in f.note:
+        click.echo("  " + f.note.split("; ", 1)[1])

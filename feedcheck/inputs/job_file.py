@@ -18,6 +18,7 @@ from pathlib import Path
 
 from ..errors import ProblemList
 from ..model import (
+    DEVICE_FAMILIES,
     INSULATION_RATINGS_C,
     OCCUPANCIES,
     RACEWAYS,
@@ -108,6 +109,7 @@ PANEL_KEYS = (
     "instantaneous_trip",
     "occupancy",
     "area",
+    "device_type",
 )
 MOTOR_KEYS = (
     "id", "panel", "full_load", "hp", "locked_rotor", "length", "conductors", "raceway"
@@ -350,7 +352,7 @@ def _transformer(r: Reader, t: dict, path: str, phases: int) -> Transformer:
             t, path, "secondary_device", "current", required=False, within=_DEVICE
         ),
         tap_pct=tap or 0.0,
-        z0_ratio=r.number(t, path, "zero_sequence_ratio", 0.1, 3, default=1.0) or 1.0,
+        z0_ratio=r.number(t, path, "zero_sequence_ratio", 0.1, 3),
         phases_connected=_phases_connected(r, t, path, prim),
     )
 
@@ -522,6 +524,7 @@ def _panel(r: Reader, t: dict, path: str, folder: Path) -> Panel:
         instantaneous_a=r.qty(t, path, "instantaneous_trip", "current", required=False),
         occupancy=_occupancy(r, t, path),
         area_m2=_area(r, t, path),
+        device_type=_device_type(r, t, path),
     )
 
 
@@ -538,6 +541,17 @@ def _occupancy(r: Reader, t: dict, path: str) -> str:
         )
         return "other"
     return occ
+
+
+def _device_type(r: Reader, t: dict, path: str) -> str | None:
+    """Family of the panel's devices, for the test X/R of its interrupting rating."""
+    if "device_type" not in t:
+        return None
+    kind = r.text(t, path, "device_type")
+    if kind not in DEVICE_FAMILIES:
+        r.add(f"{path}.device_type", kind, "one of " + ", ".join(DEVICE_FAMILIES))
+        return None
+    return kind
 
 
 def _motor(r: Reader, t: dict, path: str) -> Motor:
@@ -577,7 +591,7 @@ def _options(r: Reader, opts: dict) -> Options:
         )
     vf = r.text(opts, "options", "voltage_factor", required=False, default="none")
     if vf not in VOLTAGE_FACTORS:
-        r.add("options.voltage_factor", vf, "'none' or 'iec60909'")
+        r.add("options.voltage_factor", vf, "'none', 'iec60909' or 'iec60909-10pct'")
     vd = r.text(opts, "options", "voltage_drop", required=False, default="recommended")
     if vd not in VOLTAGE_DROP_MODES:
         r.add("options.voltage_drop", vd, "'recommended' (warnings) or 'mandatory' (failures)")

@@ -289,6 +289,16 @@ FIGURES: dict[str, Figure] = {
     "fault_lg_min_a": Figure(
         "Line-to-ground fault current, minimum", "I L-G min kA", "kA", 1e-3, 2
     ),
+    "fault_ln_max_a": Figure(
+        "Line-to-neutral fault current, maximum", "I L-N max kA", "kA", 1e-3, 2
+    ),
+    "fault_lg_max_a": Figure(
+        "Line-to-ground fault current, maximum", "I L-G max kA", "kA", 1e-3, 2
+    ),
+    "fault_duty_sym_a": Figure("Governing maximum fault current", "duty sym kA", "kA", 1e-3, 2),
+    "fault_duty_x_r": Figure("X/R of the governing fault", "duty X/R", "", 1, 2),
+    "fault_duty_mf": Figure("Asymmetry multiplying factor", "MF", "", 1, 3),
+    "fault_duty_a": Figure("Interrupting duty (governing × MF)", "duty kA", "kA", 1e-3, 2),
     "x_r": Figure("X/R at the fault point", "X/R", "", 1, 2),
     "peak_a": Figure("Peak asymmetrical current", "peak kA", "kA", 1e-3, 2),
     "asym_rms_a": Figure("Asymmetrical rms current", "asym kA", "kA", 1e-3, 2),

@@ -61,8 +61,13 @@ def test_split_phase_secondary():
     assert res.exit_code == 0, res.output
     i_ll = _figure(res.output, "line-to-line maximum", "secondary terminals")
     assert i_ll == pytest.approx(50e3 / 240 * 100 / 2.0, abs=0.6)  # IEEE Std 141-1993 ch. 4
+    # half-winding model: I_LN = S/(V_LN·|1.5·%R + j1.2·%X|/100), fuse makers'
+    # point-to-point application literature (common practice, no standard)
+    r = 2.0 / math.sqrt(1 + 1.6**2)
+    i_ln = 50e3 / (120 * abs(1.5 * r + 1.2j * 1.6 * r) / 100)
+    assert 1.33 * i_ll < i_ln < 1.67 * i_ll  # the note's range
     assert _figure(res.output, "line-to-neutral max", "secondary terminals") == pytest.approx(
-        1.5 * i_ll, abs=1)  # common practice multiplier, no source
+        i_ln, abs=1)
 
 
 def test_help_has_example_and_caution():
@@ -121,12 +126,10 @@ def test_both_or_neither_spelling_is_a_usage_error(args, msg):
     assert msg in res.output
 
 
-def test_quick_figures_agree_with_the_feed_walk():
-    """calc fault and the feed walk of `feedcheck check` on the same one-transformer job
-    (cross-method check; the figures themselves are held against IEEE Std 141 ch. 4 and
-    IEC 60909-0 in tests/reference/). Known difference, the feed walk being right: the
-    minimum line-to-ground figure uses V_LN = V_LL/√3 (120.09 V on 208Y/120 V, consistent
-    with the three-phase figure) in the walk, the nameplate 120 V in calc fault."""
+def test_quick_figures_are_the_feed_walk_figures():
+    """calc fault runs the checks of `feedcheck check` on an in-memory one-transformer job:
+    its figures are the walk's on the same job built by hand (the figures themselves are
+    held against IEEE Std 141 ch. 4 and IEC 60909-0 in tests/reference/)."""
     from pathlib import Path
 
     from feedcheck.calc.sizes import SIZES
@@ -143,25 +146,84 @@ def test_quick_figures_agree_with_the_feed_walk():
     runs = (Run("R1", "T1", "P1", length_m, SIZES["4/0 AWG"], "cu", 1, 75.0, "steel", 30.0, 3,
                 SIZES["4 AWG"], "cu", 225.0, None),)
     panels = (Panel("P1", 225.0, None, None, None, None, None, 0.0, 1.0),)
-    job = Job(
-        Path("quick.toml"),
-        Project("quick", date="2026-12-02"),
-        source,
-        transformers,
-        runs,
-        panels,
-        build_tree(source, transformers, runs, panels),
-        (),
-        Options(),
-    )
+    job = Job(Path("quick.toml"), Project("quick", date="2026-12-02"), source, transformers,
+              runs, panels, build_tree(source, transformers, runs, panels), (),
+              Options(impedance_tolerance_pct=7.5))
     nodes = {n.id: n.values for n in check_job(job).nodes}
     quick = compute(75e3, prim, sec, 5.1, 3.5, 30e3, 6.0, 7.5, "none", length_m,
-                    SIZES["4/0 AWG"], "cu", "steel", 1, SIZES["4 AWG"], None)["rows"]
+                    SIZES["4/0 AWG"], "cu", "steel", 1, SIZES["4 AWG"], None, None, 225.0)["rows"]
     for row, node in zip(quick, ("T1", "P1"), strict=True):
         v = nodes[node]
         for mine, walk in (("max_a", "fault_max_a"), ("min_a", "fault_min_a"), ("x_r", "x_r"),
                            ("peak_a", "peak_a"), ("asym_a", "asym_rms_a"),
-                           ("ptp_a", "fault_ptp_a")):
-            assert row[mine] == pytest.approx(v[walk], rel=1e-9), (node, mine)
-        assert v["fault_lg_min_a"] == pytest.approx(
-            row["lg_min_a"] * (208 / math.sqrt(3)) / 120, rel=1e-6)
+                           ("ptp_a", "fault_ptp_a"), ("lg_min_a", "fault_lg_min_a"),
+                           ("lg_max_a", "fault_lg_max_a"), ("duty_a", "fault_duty_a")):
+            assert row[mine] == pytest.approx(v[walk], rel=1e-12), (node, mine)
+
+
+CHECK_JOB = """
+[project]
+name = "calc fault vs check (invented)"
+
+[source]
+voltage = "480 V delta"
+available_fault = "30 kA"
+x_r = 6
+
+[[transformer]]
+id = "T1"
+rating = "75 kVA"
+primary = "480 V delta"
+secondary = "208Y/120 V"
+impedance = "5.1 %"
+x_r = 3.5
+primary_device = "110 A"
+
+[[run]]
+id = "R1"
+from = "T1"
+to = "P1"
+length = "95 ft"
+conductors = "4/0 AWG Cu"
+raceway = "steel"
+ground = "4 AWG Cu"
+device = "225 A"
+
+[[panel]]
+id = "P1"
+rating = "225 A"
+load = "10 kVA"
+
+[[motor]]
+id = "M1"
+panel = "P1"
+full_load = "30 A"
+
+[options]
+voltage_factor = "{vf}"
+"""
+
+
+@pytest.mark.parametrize(("factors", "vf"), [("none", "none"), ("iec-10pct", "iec60909-10pct")])
+def test_calc_fault_prints_the_figures_of_check(write_job, factors, vf):
+    """`feedcheck calc fault` and `feedcheck check` on the same job print the same figures
+    (to the ampere printed)."""
+    import json
+
+    from feedcheck.cli import main
+
+    doc = json.loads(CliRunner().invoke(
+        main, ["check", str(write_job(CHECK_JOB.format(vf=vf))), "--format", "json"]).stdout)
+    nodes = {n["id"]: n for n in doc["nodes"]}
+    res = _run([*BASE, "--source-fault", "30kA", "--source-x-r", "6", "--length", "95 ft",
+                "--size", "4/0 AWG", "--ground", "4 AWG", "--motor-flc", "30A",
+                "--factors", factors])
+    assert res.exit_code == 0, res.output
+    for section, nid in (("secondary terminals", "T1"), ("end of run", "P1")):
+        n = nodes[nid]
+        for label, key in (("with motors", "fault_max_a"), ("three-phase minimum", "fault_min_a"),
+                           ("line-to-ground min", "fault_lg_min_a"),
+                           ("line-to-ground max", "fault_lg_max_a"),
+                           ("point-to-point", "fault_ptp_a"),
+                           ("interrupting duty", "fault_duty_a")):
+            assert _figure(res.output, label, section) == pytest.approx(n[key], abs=0.51)

@@ -12,9 +12,10 @@ from .test_job import GOOD
 
 
 def _typical_row(rating_kva: float) -> float:
-    # the rule the README states: the row of the nearest rating at or below
+    # the rule the README states: the rating's row, else the next listed rating above it
+    # (the higher X/R, conservative for the maximum fault; issue 12)
     t = load_table("transformer_xr").data
-    return float(t[t["rating_kva"] <= rating_kva]["x_r"].iloc[-1])
+    return float(t[t["rating_kva"] >= rating_kva]["x_r"].iloc[0])
 
 
 def test_missing_x_r_is_filled_from_the_typical_table_and_flagged(write_job):
@@ -23,10 +24,10 @@ def test_missing_x_r_is_filled_from_the_typical_table_and_flagged(write_job):
     assert t.x_r_typical and t.x_r_typical_row == "75 kVA row"
 
 
-def test_rating_between_rows_takes_the_row_below(write_job):
+def test_rating_between_rows_takes_the_next_row_above(write_job):
     (t,) = read_job(write_job(GOOD.replace('rating = "75 kVA"', 'rating = "80 kVA"'))).transformers
-    assert t.x_r == _typical_row(80.0) == _typical_row(75.0)
-    assert t.x_r_typical_row == "75 kVA row"
+    assert t.x_r == _typical_row(80.0) == _typical_row(100.0) > _typical_row(75.0)
+    assert t.x_r_typical_row.startswith("100 kVA row, the next listed rating")
 
 
 def test_given_x_r_is_kept_and_not_flagged(write_job):
