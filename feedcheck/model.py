@@ -223,9 +223,20 @@ class Schedule:
     ``ground_size`` ("" when none), ``ground_material``, ``current_carrying``,
     ``ambient_c``, ``raceway``, ``length_m``, ``row`` (row number as the spreadsheet
     shows it).
+
+    ``notices``: what the reader skipped or did not understand (unknown columns, totals
+    rows, a stated total that differs from the sum), one line each. ``spaces``: panel →
+    ``(spares, spaces)``, the poles of rows with a breaker but no load and of rows with
+    no breaker (NFPA 70-2023 408.4(A): a directory names spares and spaces; from
+    memory); they carry no load (Art. 220 sums served loads) and are
+    not in ``circuits``. ``length_unit``: ``ft`` or ``m`` as the schedule wrote lengths.
     """
 
     path: Path
     circuits: pd.DataFrame
     load_unit: str
     panels: tuple[str, ...]
+    notices: tuple[str, ...] = ()
+    spaces: dict = field(default_factory=dict, compare=False, hash=False)
+    length_unit: str = "ft"
+    system: str = ""  # the file's own ``system`` column, "" when it has none

@@ -10,6 +10,8 @@ from ..errors import ProblemList
 from ..model import MATERIAL_WORDS
 
 MAX_PROBLEMS = 100  # bad cells listed one by one; the rest are counted
+# control characters (tab, LF and CR are cell separators, never inside a number)
+CONTROL_RE = r"[\x00-\x1f\x7f]"
 _TRUE = {"yes", "y", "true", "t", "1", "x", "c", "cont", "continuous"}
 _FALSE = {"no", "n", "false", "f", "0", "", "-", "nc"}
 
@@ -90,6 +92,8 @@ class Cells:
             return np.full(self.n, np.nan if default is None else default)
         codes, uniq = self.col(key)
         s = pd.Series(uniq, dtype=object)
+        # a control character (a NUL byte …) is never part of a number: refused, not dropped
+        control = s.str.contains(CONTROL_RE, regex=True).to_numpy(bool)
         clean = s.str.replace(r"[,_\s]", "", regex=True)
         if strip:
             clean = clean.str.replace(strip, "", regex=True, case=False)
@@ -97,10 +101,12 @@ class Cells:
         empty = uniq == ""
         if default is not None:
             v[empty] = default
+        v[control] = np.nan
         ok = np.isfinite(v) & (v >= lo) & (v <= hi)
         if integer:
             ok &= v == np.floor(v)
         self.bad(key, (~ok & (~empty | (default is None)))[codes], (codes, uniq), expected)
+        v[~ok] = np.nan  # a bad cell is never computed with (poles -1 or 1e9 …)
         return v[codes]
 
     def choice(

@@ -22,7 +22,7 @@ LOAD = "expected a load in VA, a number ≥ 0"
 # fmt: off
 CASES = [
     ("missing-column", CSV.replace(",breaker [A]", "").replace(",20,", ","),
-     "row 1 got 'circuit, description, load [VA], conductor, length [ft]'; expected header columns 'breaker'"),
+     "row 1 got 'circuit, description, load [VA], conductor, length [ft]'; expected header columns 'breaker' ('breaker', 'breaker rating', 'breaker size', 'brkr', 'bkr', 'cb', 'device', 'ocpd', 'trip', 'amps', 'amp', 'rating') (case, spaces and a unit in brackets do not matter)"),
     ("load-text", CSV.replace("1200", "lots"), f"row 2, column 'load [VA]' got 'lots'; {LOAD}"),
     ("load-negative", CSV.replace("1200", "-5"), f"row 2, column 'load [VA]' got '-5'; {LOAD}"),
     ("load-nan", CSV.replace("1200", "nan"), f"row 2, column 'load [VA]' got 'nan'; {LOAD}"),
