@@ -142,7 +142,11 @@ def schedule_command(inputs, system, job_file, feeder_drop, occupancy, bus_a, ma
         if out and (results or not unreadable):
             from ..render.schedules import write_results
 
-            write_results(results, out, CAUTION)
+            try:
+                write_results(results, out, CAUTION)
+            except ValueError as exc:  # more circuits than an XLSX sheet holds
+                _report_partial(done, files, str(exc))
+                sys.exit(2)
     except KeyboardInterrupt:
         _report_partial(done, files, "interrupted")
         sys.exit(130)
@@ -274,7 +278,7 @@ def _from_files(files, opts, panel_opts, done, unreadable):
         with click.progressbar(files, label="checking schedules", file=sys.stderr) as bar:
             for f in bar:
                 one(f)
-    elif big and sys.stderr.isatty():
+    elif big and _on_terminal():
         for f in files:
             _one_with_stages(f, one)
     else:
@@ -284,6 +288,10 @@ def _from_files(files, opts, panel_opts, done, unreadable):
         raise InputError([p for exc in bad for p in exc.problems])
     unreadable.extend(bad)
     return results
+
+
+def _on_terminal() -> bool:
+    return sys.stderr.isatty()
 
 
 def _size(path: Path) -> int:

@@ -194,14 +194,14 @@ def write_results(results, target: str | Path, caution: str = "") -> None:
     if suffix not in FORMATS:
         raise ValueError(f"output: got {target.name!r}; expected a .csv, .xlsx or .json file")
     if suffix == ".csv":
-        # the panel totals beside the circuits, written first (both atomically)
-        with atomic_path(panels_csv_path(target)) as tmp:
-            _safe_frame(panels_frame(results)).to_csv(tmp, index=False, lineterminator="\n")
-    with atomic_path(target) as tmp:
-        if suffix == ".csv":
+        # the circuits and, beside them, the panel totals: both or neither written
+        with atomic_path(panels_csv_path(target)) as ptmp, atomic_path(target) as tmp:
             if not _write_csv_fast(results, tmp):
                 _safe_frame(circuits_frame(results)).to_csv(tmp, index=False, lineterminator="\n")
-        elif suffix == ".xlsx":
+            _safe_frame(panels_frame(results)).to_csv(ptmp, index=False, lineterminator="\n")
+        return
+    with atomic_path(target) as tmp:
+        if suffix == ".xlsx":
             _write_xlsx(results, circuits_frame(results), tmp, caution)
         else:
             tmp.write_text(_json(results, caution), encoding="utf-8")
