@@ -85,7 +85,7 @@ def test_unknown_column_is_named_and_can_be_mapped(tmp_path, clean):
     header = list(COLS)
     header[3] = "Cont"
     header.append("Ins")
-    rows = [r + ["90"] for r in ROWS]
+    rows = [[*r, "90"] for r in ROWS]
     # "Cont" is a known spelling; "Ins" is not: named, never dropped in silence
     p = _csv(tmp_path / "x.csv", header, rows)
     s = read_schedule(p)
@@ -116,7 +116,8 @@ def test_missing_required_column_lists_every_spelling(tmp_path):
 
 
 def test_spares_spaces_totals_round_trip(tmp_path, clean):
-    rows = ROWS + [
+    rows = [
+        *ROWS,
         ["5", "SPARE", "1", "", "", "20", "", ""],  # breaker, no load: a spare
         ["6", "Spare", "1", "", "0", "20", "", "0"],  # a 0 length on a spare is fine
         ["7", "SPACE", "1", "", "", "", "", ""],  # no breaker: a space
@@ -130,7 +131,8 @@ def test_spares_spaces_totals_round_trip(tmp_path, clean):
 
 
 def test_stated_total_that_differs_is_a_warning(tmp_path):
-    rows = ROWS + [
+    rows = [
+        *ROWS,
         ["", "Subtotal", "", "", "2540", "", "", ""],
         ["", "Grand total", "", "", "9000", "", "", ""],
     ]
@@ -207,8 +209,8 @@ def test_counts_are_integers(tmp_path, clean):
 
 
 def test_system_column(tmp_path):
-    header = COLS + ["System"]
-    rows = [r + ["120/240 V"] for r in ROWS]
+    header = [*COLS, "System"]
+    rows = [[*r, "120/240 V"] for r in ROWS]
     s = read_schedule(_csv(tmp_path / "x.csv", header, rows))
     assert s.system == "120/240 V"
     rows[1][-1] = "208Y/120 V"
