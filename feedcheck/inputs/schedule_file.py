@@ -67,6 +67,8 @@ MAX_COLUMNS = 60
 MAX_XLSX_UNPACKED_BYTES = 1_000_000_000
 MAX_XLSX_RATIO = 200.0
 MAX_XLSX_MEMBERS = 10_000
+# ``20 A 22kAIC``, ``20/22 kAIC``: the interrupting rating after a breaker rating
+AIC_SUFFIX = r"\s*[,/;]?\s*\d+(?:[.,]\d+)?\s*(?:k\s*a?|ka)?\s*aic\s*$"
 
 
 # --------------------------------------------------------------------------- raw reading
@@ -320,6 +322,18 @@ def read_schedule(
             f"(only the first {MAX_PROBLEMS} are listed)",
         )
     problems.raise_if_any()
+    if "aic" in found:
+        notices.append(
+            f"column '{found['aic'][1]}' (interrupting ratings) read and validated but not "
+            "checked: hold them against the panel's available fault current"
+        )
+    if c.assumed_copper.any():
+        at = rows[c.assumed_copper]
+        notices.append(
+            f"warning: {len(at)} conductor cell(s) without a material read as copper (Cu), "
+            f"rows {', '.join(map(str, at[:10]))}{' …' if len(at) > 10 else ''}: write Cu or "
+            "Al to confirm"
+        )
     unit = found["load"][2] or "va"
     scale = SCHEDULE_HEADER_UNITS["load"].get(unit, ("VA", 1.0))[1]
     compare_totals(totals, values["load_value"], values["panel"], scale, unit.upper(), notices)
@@ -402,7 +416,23 @@ def _electrical_columns(c: Cells, found) -> dict[str, np.ndarray]:
     load = c.number("load", f"a load in {unit_text}, a number ≥ 0", 0, 1e8, None)
     pf = c.number("pf", "a power factor from 0.05 to 1", 0.05, 1.0, 1.0)
     breaker = c.number(
-        "breaker", "a breaker rating in A, e.g. 20 or '20 A'", 1, 6000, None, strip=r"a$"
+        "breaker",
+        "a breaker rating in A, e.g. 20, '20 A' or '20 A 22kAIC'",
+        1,
+        6000,
+        None,
+        strip=r"a$",
+        pre=AIC_SUFFIX,
+    )
+    # an interrupting rating (its own column, or after the breaker rating) is read and
+    # validated; ``schedule`` has no fault current to hold it against (``check`` does)
+    c.number(
+        "aic",
+        "an interrupting rating such as 22kAIC, '22 kA' or 10000",
+        1,
+        300_000,
+        np.nan,
+        strip=r"(?:k?a?ic|ka|a)$",
     )
     len_scale = units["length"].get(found["length"][2], units["length"][""])[1]
     length = c.number(
@@ -455,8 +485,21 @@ def _installation_columns(c: Cells) -> dict[str, np.ndarray]:
         "one of " + ", ".join(RACEWAYS),
         "steel",
     )
-    size, material = c.conductor("conductor", required=True)
-    gsize, gmat = c.conductor("ground", required=False)
+    cell = c.conductor("conductor", required=True)
+    size, material = cell["size"], cell["material"]
+    ground = c.conductor("ground", required=False)
+    # a ground column wins; a blank one takes the ground written in the conductor cell
+    no_g = ground["size"] == ""
+    gsize = np.where(no_g, cell["ground_size"], ground["size"])
+    gmat = np.where(no_g, cell["ground_material"], ground["material"])
+    # an insulation type in the cell (THHN …): the lower of it and the insulation column
+    import pandas as pd
+
+    ins = pd.Series(ins, dtype=object).astype(float).to_numpy()
+    stated = c.text("insulation") != ""
+    typed = cell["insulation_c"]
+    ins = np.where(np.isnan(typed), ins, np.where(stated, np.fmin(ins, typed), typed))
+    c.assumed_copper = cell["assumed"] | (ground["assumed"] & ~no_g)
     return {
         "insulation_c": ins.astype(float),
         "termination_c": term.astype(float),

@@ -67,6 +67,7 @@ ALIASES: dict[str, tuple[str, ...]] = {
     "raceway": ("raceway", "conduit", "raceway type"),
     "length": ("length", "run length", "one way length", "distance"),
     "system": ("system", "voltage system", "panel voltage", "voltage"),
+    "aic": ("aic", "kaic", "interrupting rating", "breaker aic"),
 }
 # a unit written as the header's last word (``Load VA``, ``Length ft``): name → unit
 _UNIT_WORDS = {

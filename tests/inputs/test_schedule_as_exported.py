@@ -224,3 +224,61 @@ def test_metre_lengths_kept_for_people(tmp_path):
     s = read_schedule(_csv(tmp_path / "x.csv", header, ROWS))
     assert s.length_unit == "m"
     assert np.allclose(s.circuits["length_m"], [85, 70, 35, 50])
+
+
+@pytest.mark.parametrize(
+    ("cell", "size", "mat", "ins", "ground"),
+    [
+        ("500 MCM CU THHN", "500 kcmil", "cu", 90.0, ""),
+        ("3#12, 1#12G", "12 AWG", "cu", 75.0, "12 AWG"),
+        ("3-#10 CU THWN, #10 CU GND", "10 AWG", "cu", 75.0, "10 AWG"),
+        ("2 AWG AL XHHW-2", "2 AWG", "al", 90.0, ""),
+        ("12 AWG Cu TW", "12 AWG", "cu", 60.0, ""),
+    ],
+)
+def test_trade_conductor_cells(tmp_path, cell, size, mat, ins, ground):
+    # insulation temperature ratings: NFPA 70-2023 Table 310.4(1) (from memory):
+    # THHN, XHHW-2 90 °C; THWN 75 °C; TW 60 °C
+    rows = [["1", "x", "1", "no", "1000", "20", f'"{cell}"', "30"]]
+    s = read_schedule(_csv(tmp_path / "x.csv", COLS, rows))
+    c = s.circuits.iloc[0]
+    assert (c["size"], c["material"], c["insulation_c"], c["ground_size"]) == (
+        size,
+        mat,
+        ins,
+        ground,
+    )
+    assumed = any("read as copper" in n for n in s.notices)
+    assert assumed == (cell == "3#12, 1#12G")
+
+
+def test_conductor_cell_says_what_could_not_be_read(tmp_path):
+    rows = [["1", "x", "1", "no", "1000", "20", "12 AWG Cu blue", "30"]]
+    with pytest.raises(InputError) as e:
+        read_schedule(_csv(tmp_path / "x.csv", COLS, rows))
+    assert "could not read 'blue'" in e.value.problems[0].expected
+
+
+def test_insulation_column_and_cell_type_take_the_lower(tmp_path):
+    header = [*COLS, "Insulation"]
+    rows = [["1", "x", "1", "no", "1000", "20", "12 AWG Cu TW", "30", "90"]]
+    s = read_schedule(_csv(tmp_path / "x.csv", header, rows))
+    assert s.circuits["insulation_c"].iloc[0] == 60.0
+
+
+@pytest.mark.parametrize("cell", ["20A 22kAIC", "20 A, 22 kAIC", "20/10kAIC", "20"])
+def test_aic_after_breaker_rating(tmp_path, clean, cell):
+    rows = [r[:] for r in ROWS]
+    rows[0][5] = f'"{cell}"'
+    got, _ = _result(_csv(tmp_path / "x.csv", COLS, rows))
+    assert got.equals(clean[0])
+
+
+def test_aic_column_read_and_said_unchecked(tmp_path):
+    header = [*COLS, "AIC"]
+    rows = [[*r, "22kAIC"] for r in ROWS]
+    s = read_schedule(_csv(tmp_path / "x.csv", header, rows))
+    assert any("interrupting ratings" in n and "not checked" in n for n in s.notices)
+    rows[0][-1] = "strong"
+    with pytest.raises(InputError, match="interrupting rating"):
+        read_schedule(_csv(tmp_path / "y.csv", header, rows))
