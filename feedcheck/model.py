@@ -153,6 +153,7 @@ class Panel:
     pf: float
     instantaneous_a: float | None = None
     occupancy: str = "other"  # lighting demand factors of the schedule (Table 220.42)
+    schedule_columns: tuple[tuple[str, str], ...] = ()  # the schedule's column map
 
 
 @dataclass(frozen=True)

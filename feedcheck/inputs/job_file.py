@@ -96,6 +96,7 @@ PANEL_KEYS = (
     "power_factor",
     "instantaneous_trip",
     "occupancy",
+    "columns",
 )
 MOTOR_KEYS = ("id", "panel", "full_load", "hp", "locked_rotor")
 OPTION_KEYS = (
@@ -455,7 +456,31 @@ def _panel(r: Reader, t: dict, path: str, folder: Path) -> Panel:
         pf=pf or 0.9,
         instantaneous_a=r.qty(t, path, "instantaneous_trip", "current", required=False),
         occupancy=_occupancy(r, t, path),
+        schedule_columns=_schedule_columns(r, t, path),
     )
+
+
+def _schedule_columns(r: Reader, t: dict, path: str) -> tuple[tuple[str, str], ...]:
+    """``columns = {"Cont?" = "continuous", Ins = "insulation"}``: the schedule's column
+    map (:func:`feedcheck.inputs.schedule_header.parse_column_map`)."""
+    from .schedule_header import parse_column_map
+
+    cols = t.get("columns")
+    if cols is None:
+        return ()
+    if not isinstance(cols, dict) or not all(
+        isinstance(k, str) and isinstance(v, str) for k, v in cols.items()
+    ):
+        r.add(f"{path}.columns", cols, 'a table of header = column, e.g. {Ins = "insulation"}')
+        return ()
+    try:
+        return tuple(
+            parse_column_map(",".join(f"{k}={v}" for k, v in cols.items()), f"{path}.columns")
+            .items()
+        )
+    except ValueError as exc:
+        r.add(f"{path}.columns", cols, str(exc).split("expected ", 1)[-1])
+        return ()
 
 
 def _occupancy(r: Reader, t: dict, path: str) -> str:

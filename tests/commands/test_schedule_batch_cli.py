@@ -129,3 +129,38 @@ def test_progress_for_one_large_file_on_a_terminal(tmp_path, monkeypatch):
     r = _run("schedule", p, "--system", "208Y/120 V")
     assert r.exit_code == 0, r.output
     assert seen == [p]
+
+
+def test_job_panel_columns_key(tmp_path):
+    from tests.badinput import GOOD as JOB
+
+    sched = tmp_path / "pb.csv"
+    sched.write_text(
+        GOOD.replace("Length [ft]\n", "Length [ft],Ins\n")
+        .replace(",60\n", ",60,90\n")
+        .replace(",40\n", ",40,90\n")
+    )
+    job = tmp_path / "job.toml"
+    job.write_text(JOB.replace('load = "20 kVA"', 'load = "20 kVA"\nschedule = "pb.csv"'))
+    r = _run("check", job, "--format", "json")
+    assert r.exit_code in (0, 1), r.output
+    import json
+
+    (s,) = json.loads(r.stdout)["schedules"].values()
+    assert any("'Ins' not understood" in n for n in s["notices"])
+    job.write_text(
+        JOB.replace(
+            'load = "20 kVA"',
+            'load = "20 kVA"\nschedule = "pb.csv"\ncolumns = {Ins = "insulation"}',
+        )
+    )
+    r = _run("check", job, "--format", "json")
+    (s,) = json.loads(r.stdout)["schedules"].values()
+    assert not any("not understood" in n for n in s["notices"])
+    job.write_text(
+        JOB.replace(
+            'load = "20 kVA"', 'load = "20 kVA"\nschedule = "pb.csv"\ncolumns = {Ins = "isolation"}'
+        )
+    )
+    r = _run("check", job)
+    assert r.exit_code == 2 and ".columns" in r.stderr and "HEADER=COLUMN" in r.stderr
