@@ -140,9 +140,10 @@ def set_aside(cols, rows, found, default_panel: str, notices: list[str]):
     kind = classify(text, found)
     panel = text("panel")
     panel = np.where(panel == "", default_panel, panel)
-    poles = np.array(
-        [int(p) if p in ("1", "2", "3") else 1 for p in text("poles").tolist()], dtype=np.int64
-    )
+    import pandas as pd
+
+    codes, uniq = pd.factorize(text("poles"))
+    poles = np.array([int(u) if u in ("1", "2", "3") else 1 for u in uniq] + [1])[codes]
     spaces: dict[str, tuple[int, int]] = {}
     for pid in dict.fromkeys(panel[kind != TOTAL].tolist()):
         mine = panel == pid
