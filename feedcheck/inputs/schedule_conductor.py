@@ -106,4 +106,8 @@ def _size(words: list[str]) -> tuple[str, str]:
         return name, ""
     if not words:
         return "", "a size (e.g. 12 AWG, #12, 500 MCM)"
+    try:
+        parse_size(" ".join(words))
+    except SizeError as exc:  # its own hint: the standard sizes, the nearest one
+        return "", f"{' '.join(words)!r} (expected {exc.expected})"
     return "", f"{' '.join(words)!r} (not a conductor size)"
