@@ -191,6 +191,7 @@ class Panel:
     occupancy: str = "other"  # lighting demand factors of the schedule (Table 220.42)
     area_m2: float | None = None  # floor area served, for the 220.12 minimum lighting [m²]
     device_type: str | None = None  # one of DEVICE_FAMILIES; None: molded-case assumed
+    schedule_columns: tuple[tuple[str, str], ...] = ()  # the schedule's column map
 
 
 @dataclass(frozen=True)
@@ -262,9 +263,20 @@ class Schedule:
     ``ground_size`` ("" when none), ``ground_material``, ``current_carrying``,
     ``ambient_c``, ``raceway``, ``length_m``, ``row`` (row number as the spreadsheet
     shows it).
+
+    ``notices``: what the reader skipped or did not understand (unknown columns, totals
+    rows, a stated total that differs from the sum), one line each. ``spaces``: panel →
+    ``(spares, spaces)``, the poles of rows with a breaker but no load and of rows with
+    no breaker (NFPA 70-2023 408.4(A): a directory names spares and spaces; from
+    memory); they carry no load (Art. 220 sums served loads) and are
+    not in ``circuits``. ``length_unit``: ``ft`` or ``m`` as the schedule wrote lengths.
     """
 
     path: Path
     circuits: pd.DataFrame
     load_unit: str
     panels: tuple[str, ...]
+    notices: tuple[str, ...] = ()
+    spaces: dict = field(default_factory=dict, compare=False, hash=False)
+    length_unit: str = "ft"
+    system: str = ""  # the file's own ``system`` column, "" when it has none

@@ -202,6 +202,7 @@ class Results:
             "schedules": {
                 pid: {
                     "totals": {k: clean(_plain(v)) for k, v in sr.totals.items()},
+                    "notices": list(getattr(sr, "notices", [])),
                     "circuits": [
                         {k: clean(_plain(v)) for k, v in row.items()}
                         for row in sr.circuits.to_dict("records")

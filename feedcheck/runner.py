@@ -86,7 +86,8 @@ def _read_job_schedules(job: Job) -> dict:
         if p.schedule is None:
             continue
         try:
-            sched = read_schedule(p.schedule, panel_id=p.id)
+            cols = dict(getattr(p, "schedule_columns", ()))
+            sched = read_schedule(p.schedule, panel_id=p.id, columns=cols or None)
         except InputError as exc:
             problems.extend(exc.problems)
             continue

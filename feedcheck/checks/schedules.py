@@ -109,6 +109,8 @@ class ScheduleResult:
     findings: list[Finding]
     demand: Load
     demands: dict[str, Load] = field(default_factory=dict)
+    notices: list[str] = field(default_factory=list)  # from the reader (Schedule.notices)
+    length_unit: str = "ft"  # as the schedule wrote lengths (exports show both)
 
     @property
     def exit_code(self) -> int:
@@ -388,6 +390,9 @@ def check_schedule(
     sev, reason, found = apply_rules(q, n, {k: str(r["status"]) for k, r in rules.items()}, limits)
     per_phase, phase_txt = _phases(q["poles"], q["circuit"], demand, system)
     panels, design_va, imbalance = _panel_table(demand, per_phase, sev, system)
+    spaces = getattr(schedule, "spaces", {}) or {}
+    panels["spares"] = [int(spaces.get(str(p), (0, 0))[0]) for p in panels["panel"]]
+    panels["spaces"] = [int(spaces.get(str(p), (0, 0))[1]) for p in panels["panel"]]
     findings = _panel_findings(
         panels, design_va, imbalance, per_phase, rules, system, bus_a, main_a
     )
@@ -406,6 +411,8 @@ def check_schedule(
         deferred,
         demands[str(panels["panel"].iat[0])],
         demands,
+        list(getattr(schedule, "notices", ())),
+        getattr(schedule, "length_unit", "ft"),
     )
 
 
@@ -434,6 +441,12 @@ def _phases(poles, circuit, demand: ScheduleDemand, system: VoltageSystem):
     for k in range(int(counts.max()) if n else 0):
         sel = step == k
         phase_txt[owner[sel]] = phase_txt[owner[sel]] + letters[ph[sel]]
+    # the order people write: A-B-C, B-C, A-C (not the space order CAB)
+    import pandas as pd
+
+    codes, uniq = pd.factorize(phase_txt)
+    tidy = np.array(["-".join(sorted(t)) for t in uniq] + [None], dtype=object)[:-1]
+    phase_txt = tidy[codes] if n else phase_txt
     return per_phase, phase_txt
 
 
@@ -571,6 +584,8 @@ def _totals(panels, demand: ScheduleDemand, imbalance, n: int, occupancy: str, s
         return {
             "panels": len(panels),
             "circuits": n,
+            "spares": int(panels["spares"].sum()),
+            "spaces": int(panels["spaces"].sum()),
             "connected_va": float(f.connected_va.sum()),
             "demand_va": float(f.demand_va.sum()),
             "worst_imbalance_pct": float(imbalance.max()),
@@ -578,8 +593,14 @@ def _totals(panels, demand: ScheduleDemand, imbalance, n: int, occupancy: str, s
             "system": system.text,
         }
     totals = {
-        k: (float(v) if isinstance(v, (int, float, np.floating, np.integer)) else v)
-        for k, v in panels.iloc[0].to_dict().items()
+        k: (
+            int(v)
+            if isinstance(v, (int, np.integer))
+            else float(v)
+            if isinstance(v, (float, np.floating))
+            else v
+        )
+        for k, v in zip(panels.columns, (panels[k].iat[0] for k in panels.columns), strict=True)
     }
     totals["occupancy"] = occupancy
     totals["system"] = system.text

@@ -20,6 +20,7 @@ from .params import CURRENT, VOLTAGE_SYSTEM, QuantityType
 DROP = QuantityType("percent", must_be_positive=False)
 
 PROGRESS_FROM = 10  # show a progress bar from this many files on
+LARGE_FILE_BYTES = 5_000_000  # ... or for a single file this large (terminal only)
 SHOW_CIRCUITS = 20  # failing/warning circuits listed per file without --all
 
 HELP = f"""Check panel schedules: every circuit's breaker, conductor, grounding
@@ -30,7 +31,12 @@ FILE_OR_FOLDER is a .csv or .xlsx schedule, or a folder of them. Columns
 breaker [A], conductor ("12 AWG Cu"), length [ft|m]; optional description,
 poles, power factor, kind (lighting, receptacle, motor, heating, other),
 continuous (yes/no), insulation, termination, ground, current carrying,
-ambient, raceway, panel (several panels in one file).
+ambient, raceway, panel (several panels in one file), system. Common
+spellings are accepted (Ckt #, Load VA, Brkr, BKR (A), Trip, Amps, Wire,
+Load Description ...); a column not understood is named in a notice and its
+values are not used: map it with --columns. Spare and space rows count as
+the panel's spaces; TOTAL rows are skipped and compared with the sum; the
+two-column panel form (odd circuits left, even right) is detected.
 
 \b
 Examples:
@@ -38,24 +44,40 @@ Examples:
   feedcheck schedule schedules/ --system "120/240 V" --out results.xlsx
   feedcheck schedule --job site.toml LP1.csv EQ1.csv
   feedcheck schedule --job site.toml           (every schedule of the job)
+  feedcheck schedule mixed/ --systems systems.txt --keep-going --out r.csv
+  feedcheck schedule LP1.csv --system "120/240 V" --columns "Cont?=continuous,Ins=insulation"
 
 Exit code 0: no failing check (warnings allowed); 1: a check failed; 2: an
-input could not be read (nothing is written).
+input could not be read (by default nothing is written; with --keep-going the
+readable files are checked and written, and the exit code is 2 at the end).
 
 {CAUTION}
 """
 
 
-def _expand(paths: tuple[str, ...]) -> list[Path]:
-    out: list[Path] = []
+def _expand(paths: tuple[str, ...], out: str | None = None) -> list[Path]:
+    """The schedule files: the files named, and the .csv/.xlsx files of the folders named
+    (without results files this command wrote, which are skipped with a notice)."""
+    from ..render.schedules import is_results_file, panels_csv_path
+
+    own = set()
+    if out:
+        own = {Path(out).resolve(), panels_csv_path(out).resolve()}
+    out_files: list[Path] = []
     for p in map(Path, paths):
         if p.is_dir():
-            out.extend(sorted(q for q in p.iterdir()
-                              if q.suffix.lower() in (".csv", ".xlsx") and q.is_file()
-                              and not q.name.startswith((".", "~$"))))
+            for q in sorted(p.iterdir()):
+                if (q.suffix.lower() not in (".csv", ".xlsx") or not q.is_file()
+                        or q.name.startswith((".", "~$"))):
+                    continue
+                if q.resolve() in own or is_results_file(q):
+                    click.echo(f"skipped {q}: a results file feedcheck schedule wrote",
+                               err=True)
+                    continue
+                out_files.append(q)
         else:
-            out.append(p)
-    return out
+            out_files.append(p)
+    return out_files
 
 
 @click.command("schedule", help=HELP, context_settings={"help_option_names": ["-h", "--help"],
@@ -77,34 +99,54 @@ def _expand(paths: tuple[str, ...]) -> list[Path]:
               help="Write every circuit with status and reason to .csv, .xlsx or .json "
                    "(atomically).")
 @click.option("--all", "show_all", is_flag=True, help="List every failing/warning circuit.")
+@click.option("--columns", "columns", metavar="MAP",
+              help='Name columns the reader does not know: "Cont?=continuous,Ins=insulation" '
+                   "(HEADER=COLUMN, or HEADER=ignore to skip a column knowingly).")
+@click.option("--layout", type=click.Choice(["auto", "one-row", "two-column"]), default="auto",
+              show_default=True,
+              help="auto detects the two-column panel form (odd circuits left, even right).")
+@click.option("--systems", "systems_file", type=click.Path(exists=True, dir_okay=False),
+              help='Per-file voltage systems: lines "LP1.csv = 208Y/120 V" (# comments).')
+@click.option("--keep-going", "keep_going", is_flag=True,
+              help="Check every readable file and write their results; list each unreadable "
+                   "file with its errors; exit 2 at the end if any was unreadable.")
 def schedule_command(inputs, system, job_file, feeder_drop, occupancy, bus_a, main_a, out,
-                     show_all):
+                     show_all, columns, layout, systems_file, keep_going):
     from ..errors import InputError
 
     if system is not None and job_file:
         raise click.UsageError("give either --system or --job, not both")
-    if system is None and not job_file:
-        raise click.UsageError('give the panel voltage with --system "208Y/120 V" or a --job')
+    if job_file and (systems_file or columns or layout != "auto"):
+        raise click.UsageError("--systems, --columns and --layout are for files without --job")
+    column_map = _column_map(columns)
     if out and Path(out).suffix.lower() not in (".csv", ".xlsx", ".json"):
         raise click.UsageError(f"--out: got {out!r}; expected a .csv, .xlsx or .json file")
     if job_file and (bus_a or main_a or feeder_drop or occupancy):
         raise click.UsageError(
             "--bus, --main, --feeder-drop and --occupancy come from the job with --job")
     occupancy = occupancy or "other"
-    files = _expand(inputs)
+    files = _expand(inputs, out)
     if not files and not job_file:
         raise click.UsageError("no .csv or .xlsx schedule found in the inputs")
     done: list[str] = []
+    unreadable: list = []
     try:
         if job_file:
             results = _from_job(job_file, files)
             done = [str(r.path) for r in results]
         else:
-            results = _from_files(files, system, feeder_drop, occupancy, bus_a, main_a, done)
-        if out:
+            opts = {"system": system, "systems": _systems(systems_file), "columns": column_map,
+                    "layout": layout, "keep_going": keep_going}
+            results = _from_files(files, opts, (feeder_drop, occupancy, bus_a, main_a), done,
+                                  unreadable)
+        if out and (results or not unreadable):
             from ..render.schedules import write_results
 
-            write_results(results, out, CAUTION)
+            try:
+                write_results(results, out, CAUTION)
+            except ValueError as exc:  # more circuits than an XLSX sheet holds
+                _report_partial(done, files, str(exc))
+                sys.exit(2)
     except KeyboardInterrupt:
         _report_partial(done, files, "interrupted")
         sys.exit(130)
@@ -123,9 +165,64 @@ def schedule_command(inputs, system, job_file, feeder_drop, occupancy, bus_a, ma
     from ..render.schedule_text import render_schedule_summary
 
     click.echo(render_schedule_summary(results, show_all, SHOW_CIRCUITS), nl=False)
-    if out:
+    if out and (results or not unreadable):
         click.echo(f"wrote {out}", err=True)
+    if unreadable:
+        for exc in unreadable:
+            for p in exc.problems:
+                click.echo(f"error: {p}", err=True)
+        names = list(dict.fromkeys(p.file for exc in unreadable for p in exc.problems))
+        click.echo(f"{len(names)} file(s) could not be read (listed above; not in the results): "
+                   f"{', '.join(names)}", err=True)
+        sys.exit(2)
     sys.exit(1 if any(r.exit_code for r in results) else 0)
+
+
+def _column_map(columns: str | None) -> dict[str, str]:
+    from ..inputs.schedule_header import parse_column_map
+
+    if not columns:
+        return {}
+    try:
+        return parse_column_map(columns, "--columns")
+    except ValueError as exc:
+        raise click.UsageError(str(exc)) from None
+
+
+def _systems(path: str | None) -> dict[str, str]:
+    """``--systems FILE``: file name → system text (each line ``NAME = SYSTEM``)."""
+    from ..errors import InputError, Problem
+    from ..units import parse_voltage_system
+
+    if not path:
+        return {}
+    try:
+        raw = Path(path).read_bytes()[:1_000_001]
+        text = raw.decode("utf-8-sig")
+    except (OSError, UnicodeDecodeError) as exc:
+        raise InputError(
+            [Problem(path, "", str(exc), "a UTF-8 text file of NAME = SYSTEM lines")]
+        ) from None
+    out, problems = {}, []
+    for i, line in enumerate(text.splitlines(), 1):
+        body = line.split("#", 1)[0].strip()
+        if not body:
+            continue
+        name, eq, sys_text = body.partition("=")
+        try:
+            if not eq or not name.strip():
+                raise ValueError
+            parse_voltage_system(sys_text.strip())
+        except Exception:  # any unreadable line is reported with its number
+            problems.append(Problem(path, f"line {i}", line.strip(),
+                                    'a line such as "LP1.csv = 208Y/120 V"', i))
+            continue
+        out[Path(name.strip()).name] = sys_text.strip()
+    if len(raw) > 1_000_000:
+        problems.append(Problem(path, "", "(over 1,000,000 bytes)", "a short mapping file"))
+    if problems:
+        raise InputError(problems)
+    return out
 
 
 def _report_partial(done, files, why: str) -> None:
@@ -133,31 +230,92 @@ def _report_partial(done, files, why: str) -> None:
                f"were checked: {', '.join(done) or 'none'}", err=True)
 
 
-def _from_files(files, system, feeder_drop, occupancy, bus_a, main_a, done):
+def _file_system(path: Path, s, opts):
+    """The system of one file: --systems line, else its own ``system`` column, else
+    --system; the two in-file sources must agree when both are given."""
+    from ..errors import InputError, Problem
+    from ..units import parse_voltage_system
+
+    mapped = opts["systems"].get(path.name)
+    text = mapped or s.system or opts["system"]
+    if text is None:
+        raise InputError([Problem(str(path), "", "(no system)",
+                                  'a voltage system: --system "208Y/120 V", a line in '
+                                  "--systems FILE, or a system column in the file")])
+    try:
+        own = parse_voltage_system(s.system) if s.system else None
+        system = text if not isinstance(text, str) else parse_voltage_system(text)
+    except Exception as exc:  # the units parser's error names the text
+        where = "column 'system'" if text == s.system else "system"
+        raise InputError([Problem(str(path), where, str(text), str(exc))]) from None
+    if own is not None and own != system:
+        raise InputError([Problem(str(path), "column 'system'", s.system,
+                                  f"the same system as --systems or --system gives ({text})")])
+    return system
+
+
+def _from_files(files, opts, panel_opts, done, unreadable):
     from ..checks.schedules import check_schedule
     from ..errors import InputError
     from ..inputs.schedule_file import read_schedule
 
-    results, problems = [], []
+    feeder_drop, occupancy, bus_a, main_a = panel_opts
+    results, bad = [], []
 
-    def one(path):
+    def one(path, stage=lambda _w: None):
         try:
-            s = read_schedule(path)
+            stage("reading")
+            s = read_schedule(path, columns=opts["columns"], layout=opts["layout"])
+            system = _file_system(path, s, opts)
+            stage("checking")
             results.append(check_schedule(s, system, feeder_drop, occupancy, bus_a, main_a))
             done.append(str(path))
         except InputError as exc:
-            problems.extend(exc.problems)
+            bad.append(exc)
 
+    big = [f for f in files if _size(f) >= LARGE_FILE_BYTES]
     if len(files) >= PROGRESS_FROM:
         with click.progressbar(files, label="checking schedules", file=sys.stderr) as bar:
             for f in bar:
                 one(f)
+    elif big and _on_terminal():
+        for f in files:
+            _one_with_stages(f, one)
     else:
         for f in files:
             one(f)
-    if problems:
-        raise InputError(problems)
+    if bad and not opts["keep_going"]:
+        raise InputError([p for exc in bad for p in exc.problems])
+    unreadable.extend(bad)
     return results
+
+
+def _on_terminal() -> bool:
+    return sys.stderr.isatty()
+
+
+def _size(path: Path) -> int:
+    try:
+        return path.stat().st_size
+    except OSError:
+        return 0
+
+
+def _one_with_stages(path: Path, one) -> None:
+    """A large file's stages (reading, checking) as a progress bar on the terminal."""
+    with click.progressbar(length=2, label=f"{path.name}", file=sys.stderr,
+                           item_show_func=lambda w: w) as bar:
+        state = {"n": 0}
+
+        def stage(what):
+            if state["n"]:
+                bar.update(1, what)
+            else:
+                bar.update(0, what)
+            state["n"] += 1
+
+        one(path, stage)
+        bar.update(1, "done")
 
 
 def _from_job(job_file, files):

@@ -110,6 +110,7 @@ PANEL_KEYS = (
     "occupancy",
     "area",
     "device_type",
+    "columns",
 )
 MOTOR_KEYS = (
     "id", "panel", "full_load", "hp", "locked_rotor", "length", "conductors", "raceway"
@@ -525,8 +526,31 @@ def _panel(r: Reader, t: dict, path: str, folder: Path) -> Panel:
         occupancy=_occupancy(r, t, path),
         area_m2=_area(r, t, path),
         device_type=_device_type(r, t, path),
+        schedule_columns=_schedule_columns(r, t, path),
     )
 
+
+def _schedule_columns(r: Reader, t: dict, path: str) -> tuple[tuple[str, str], ...]:
+    """``columns = {"Cont?" = "continuous", Ins = "insulation"}``: the schedule's column
+    map (:func:`feedcheck.inputs.schedule_header.parse_column_map`)."""
+    from .schedule_header import parse_column_map
+
+    cols = t.get("columns")
+    if cols is None:
+        return ()
+    if not isinstance(cols, dict) or not all(
+        isinstance(k, str) and isinstance(v, str) for k, v in cols.items()
+    ):
+        r.add(f"{path}.columns", cols, 'a table of header = column, e.g. {Ins = "insulation"}')
+        return ()
+    try:
+        return tuple(
+            parse_column_map(",".join(f"{k}={v}" for k, v in cols.items()), f"{path}.columns")
+            .items()
+        )
+    except ValueError as exc:
+        r.add(f"{path}.columns", cols, str(exc).split("expected ", 1)[-1])
+        return ()
 
 
 def _occupancy(r: Reader, t: dict, path: str) -> str:

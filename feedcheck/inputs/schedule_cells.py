@@ -5,11 +5,11 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..calc.sizes import SizeError, parse_size
 from ..errors import ProblemList
-from ..model import MATERIAL_WORDS
 
 MAX_PROBLEMS = 100  # bad cells listed one by one; the rest are counted
+# control characters (tab, LF and CR are cell separators, never inside a number)
+CONTROL_RE = r"[\x00-\x1f\x7f]"
 _TRUE = {"yes", "y", "true", "t", "1", "x", "c", "cont", "continuous"}
 _FALSE = {"no", "n", "false", "f", "0", "", "-", "nc"}
 
@@ -48,6 +48,7 @@ class Cells:
         self.rows = rows
         self.problems = problems
         self.count = 0
+        self.assumed_copper = np.zeros(n, dtype=bool)  # set by the conductor columns
 
     def col(self, key: str) -> tuple[np.ndarray, np.ndarray]:
         return self.cols[self.found[key][0]]
@@ -83,6 +84,7 @@ class Cells:
         default: float | None,
         integer: bool = False,
         strip: str = "",
+        pre: str = "",
     ) -> np.ndarray:
         import pandas as pd
 
@@ -90,6 +92,10 @@ class Cells:
             return np.full(self.n, np.nan if default is None else default)
         codes, uniq = self.col(key)
         s = pd.Series(uniq, dtype=object)
+        # a control character (a NUL byte …) is never part of a number: refused, not dropped
+        control = s.str.contains(CONTROL_RE, regex=True).to_numpy(bool)
+        if pre:  # removed before spaces are: a part of the cell with its own number
+            s = s.str.replace(pre, "", regex=True, case=False)
         clean = s.str.replace(r"[,_\s]", "", regex=True)
         if strip:
             clean = clean.str.replace(strip, "", regex=True, case=False)
@@ -97,10 +103,12 @@ class Cells:
         empty = uniq == ""
         if default is not None:
             v[empty] = default
+        v[control] = np.nan
         ok = np.isfinite(v) & (v >= lo) & (v <= hi)
         if integer:
             ok &= v == np.floor(v)
         self.bad(key, (~ok & (~empty | (default is None)))[codes], (codes, uniq), expected)
+        v[~ok] = np.nan  # a bad cell is never computed with (poles -1 or 1e9 …)
         return v[codes]
 
     def choice(
@@ -121,34 +129,43 @@ class Cells:
         self.bad(key, (pd.isna(mapped) & (low != ""))[codes], (codes, uniq), expected)
         return mapped[codes]
 
-    def conductor(self, key: str, required: bool) -> tuple[np.ndarray, np.ndarray]:
+    def conductor(self, key: str, required: bool) -> dict[str, np.ndarray]:
+        """Conductor cells read as the trade writes them
+        (:func:`~feedcheck.inputs.schedule_conductor.parse_conductor_cell`): ``size``,
+        ``material``, ``insulation_c`` (NaN: not in the cell), ``ground_size``,
+        ``ground_material`` and ``assumed`` (no material written: copper)."""
+        from .schedule_conductor import parse_conductor_cell
+
+        names = ("size", "material", "insulation_c", "ground_size", "ground_material", "assumed")
         if key not in self.found:
-            return np.full(self.n, "", dtype=object), np.full(self.n, "", dtype=object)
+            out = {k: np.full(self.n, "", dtype=object) for k in names}
+            out["insulation_c"] = np.full(self.n, np.nan)
+            out["assumed"] = np.zeros(self.n, dtype=bool)
+            return out
         codes, uniq = self.col(key)
-        sizes, mats = [], []
-        for u in uniq:
-            parts = u.rsplit(None, 1)
-            size = mat = None
-            if len(parts) == 2 and parts[1].lower() in MATERIAL_WORDS:
-                mat = MATERIAL_WORDS[parts[1].lower()]
-                try:
-                    size = parse_size(parts[0]).name
-                except SizeError:
-                    size = None
-            sizes.append(size)
-            mats.append(mat)
-        bad = np.array([sz is None for sz in sizes]) & ((uniq != "") | required)
-        self.bad(
-            key,
-            bad[codes],
-            (codes, uniq),
-            "a size and material such as '12 AWG Cu', '1/0 AWG Al' or '4 mm2 Cu'",
+        parsed = [parse_conductor_cell(u) if u else ("", "", None, "", "", "", False) for u in uniq]
+        problem = np.array([p[5] for p in parsed] + [None], dtype=object)[:-1]
+        if required:
+            problem[uniq == ""] = "a conductor size and material"
+        for why in dict.fromkeys(x for x in problem.tolist() if x):
+            self.bad(
+                key,
+                (problem == why)[codes],
+                (codes, uniq),
+                "a conductor such as '12 AWG Cu', '500 MCM CU THHN' or '3#12, 1#12G'; "
+                f"could not read {why}",
+            )
+        cols = list(zip(*parsed, strict=True)) if parsed else [[]] * 7
+        out = {}
+        for j, k in enumerate(names[:5]):
+            vals = [np.nan if v is None else v for v in cols[j]] if k == "insulation_c" else cols[j]
+            arr = np.array([*vals, None], dtype=object)[:-1]
+            out[k] = arr[codes]
+        out["insulation_c"] = out["insulation_c"].astype(float)
+        out["assumed"] = (
+            np.array([*cols[6], False], dtype=bool)[:-1][codes] & (problem == "")[codes]
         )
-        size_u = np.array([sz if sz is not None else "" for sz in sizes] + [None], dtype=object)[
-            :-1
-        ]
-        mat_u = np.array([m if m is not None else "" for m in mats] + [None], dtype=object)[:-1]
-        return size_u[codes], mat_u[codes]
+        return out
 
 
 def truthy() -> dict[str, object]:

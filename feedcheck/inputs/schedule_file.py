@@ -44,6 +44,7 @@ from __future__ import annotations
 
 import io
 import re
+from dataclasses import replace
 from pathlib import Path
 from typing import TYPE_CHECKING
 
@@ -55,6 +56,7 @@ from ..units import SCHEDULE_HEADER_UNITS
 from .files import FileKind, FileRefused, decode_utf8, read_bytes
 from .schedule_cells import MAX_PROBLEMS, Cells, factorised, truthy
 from .schedule_header import match_header
+from .schedule_rows import compare_totals, set_aside, unfold_two_column
 
 if TYPE_CHECKING:
     import pandas as pd
@@ -65,6 +67,8 @@ MAX_COLUMNS = 60
 MAX_XLSX_UNPACKED_BYTES = 1_000_000_000
 MAX_XLSX_RATIO = 200.0
 MAX_XLSX_MEMBERS = 10_000
+# ``20 A 22kAIC``, ``20/22 kAIC``: the interrupting rating after a breaker rating
+AIC_SUFFIX = r"\s*[,/;]?\s*\d+(?:[.,]\d+)?\s*(?:k\s*a?|ka)?\s*aic\s*$"
 
 
 # --------------------------------------------------------------------------- raw reading
@@ -98,6 +102,8 @@ def _read_csv(raw: bytes, problems: ProblemList) -> list[list[str]] | pd.DataFra
     if not text.strip():
         problems.add("", "(empty file)", "a header row and one row per circuit")
         problems.raise_if_any()
+    if "\x00" in text:
+        _refuse_nul(text, problems)
     n_lines = text.count("\n") + 1
     if n_lines > MAX_ROWS + 1:
         problems.add("", f"{n_lines:,} lines", f"at most {MAX_ROWS:,} circuit rows per file")
@@ -123,6 +129,30 @@ def _read_csv(raw: bytes, problems: ProblemList) -> list[list[str]] | pd.DataFra
         problems.add("", "(empty file)", "a header row and one row per circuit")
         problems.raise_if_any()
     return df
+
+
+def _refuse_nul(text: str, problems: ProblemList) -> None:
+    """A NUL byte ends a cell early in the CSV reader (``12\\x0000`` would read as 12):
+    refuse it with the cell's place."""
+    import csv
+
+    lines = text.split("\n")
+    header = next(csv.reader([lines[0].replace("\x00", "")]), [])
+    listed = 0
+    for i, line in enumerate(lines):
+        if "\x00" not in line:
+            continue
+        cells = next(csv.reader([line.replace("\x00", "\ufffe")]), [])
+        for j, cell in enumerate(cells):
+            if "\ufffe" in cell and listed < MAX_PROBLEMS:
+                name = header[j].strip() if j < len(header) else f"{j + 1}"
+                problems.add(
+                    f"row {i + 1}, column '{name}'",
+                    cell.replace("\ufffe", "\x00"),
+                    "a cell without NUL bytes or other control characters",
+                )
+                listed += 1
+    problems.raise_if_any()
 
 
 def _xlsx_guard(raw: bytes, problems: ProblemList) -> None:
@@ -181,21 +211,24 @@ def _read_xlsx(raw: bytes, problems: ProblemList) -> pd.DataFrame:
         problems.raise_if_any()
     try:
         ws = wb.worksheets[0]
-        if ws.max_row is not None and ws.max_row > MAX_ROWS + 1:
-            problems.add("", f"{ws.max_row:,} rows", f"at most {MAX_ROWS:,} circuit rows")
-        if ws.max_column is not None and ws.max_column > MAX_COLUMNS:
-            problems.add("", f"{ws.max_column} columns", f"at most {MAX_COLUMNS} columns")
-        problems.raise_if_any()
+        # the stored dimension (``<dimension ref="A1:G2"/>``) may be wrong or forged: a
+        # sheet tagged smaller than it is would lose rows. Forget it and read every row;
+        # the limits hold on the rows actually read.
+        ws.reset_dimensions()
         rows: list[list[str]] = []
         width = 0
-        for r in ws.iter_rows(min_row=1, values_only=True):
-            if len(rows) > MAX_ROWS + 1 or len(r) > MAX_COLUMNS:
+        for r in ws.iter_rows(values_only=True):
+            if len(rows) > MAX_ROWS:
                 problems.add(
-                    "",
-                    "a larger sheet than its header declares",
-                    f"at most {MAX_ROWS:,} rows and {MAX_COLUMNS} columns",
+                    "", f"more than {MAX_ROWS + 1:,} rows", f"at most {MAX_ROWS:,} circuit rows"
                 )
                 problems.raise_if_any()
+            if len(r) > MAX_COLUMNS and any(v is not None for v in r[MAX_COLUMNS:]):
+                problems.add(
+                    f"row {len(rows) + 1}", f"{len(r)} columns", f"at most {MAX_COLUMNS} columns"
+                )
+                problems.raise_if_any()
+            r = r[:MAX_COLUMNS]
             cells = [_cell_text(v) for v in r]
             width = max(width, len(cells))
             rows.append(cells)
@@ -209,7 +242,12 @@ def _read_xlsx(raw: bytes, problems: ProblemList) -> pd.DataFrame:
 
 
 # --------------------------------------------------------------------------- schedule
-def read_schedule(path: str | Path, panel_id: str | None = None) -> Schedule:
+def read_schedule(
+    path: str | Path,
+    panel_id: str | None = None,
+    columns: dict[str, str] | None = None,
+    layout: str = "auto",
+) -> Schedule:
     """Read and validate a panel schedule (CSV or XLSX).
 
     Parameters
@@ -218,6 +256,11 @@ def read_schedule(path: str | Path, panel_id: str | None = None) -> Schedule:
         The schedule file.
     panel_id : str, optional
         Panel id for a file without a ``panel`` column (default: the file's stem).
+    columns : dict, optional
+        The user's column map, normalised header → column or ``ignore``
+        (:func:`feedcheck.inputs.schedule_header.parse_column_map`).
+    layout : str
+        ``auto`` (detect the two-column panel form), ``one-row`` or ``two-column``.
 
     Returns
     -------
@@ -242,17 +285,23 @@ def read_schedule(path: str | Path, panel_id: str | None = None) -> Schedule:
     """
     p = Path(path)
     problems = ProblemList(str(p))
+    notices: list[str] = []
     raw = _guard_file(p, problems)
     df = _read_xlsx(raw, problems) if p.suffix.lower() == ".xlsx" else _read_csv(raw, problems)
     if df.shape[1] > MAX_COLUMNS:
         problems.add("row 1", f"{df.shape[1]} columns", f"at most {MAX_COLUMNS} columns")
         problems.raise_if_any()
+    df, row_no = unfold_two_column(df, layout, notices, problems)
     # every column as (codes, distinct stripped texts) of the rows below the header
     cols = {pos: factorised(df[col].to_numpy(object)[1:]) for pos, col in enumerate(df.columns)}
     head = df.iloc[:6].astype(str)
-    found = match_header(head, lambda pos: bool((cols[pos][1] != "").any()), problems)
+    found = match_header(
+        head, lambda pos: bool((cols[pos][1] != "").any()), problems, notices, columns
+    )
     problems.raise_if_any()
-    cols, rows = _circuit_rows(cols, head, found, problems)
+    cols, rows = _circuit_rows(cols, head, found, problems, row_no)
+    keep, spaces, totals = set_aside(cols, rows, found, panel_id or p.stem, notices)
+    cols, rows = _only(cols, rows, keep, problems)
     c = Cells(cols, len(rows), found, rows, problems)
     values = _electrical_columns(c, found)
     values.update(_installation_columns(c))
@@ -273,14 +322,56 @@ def read_schedule(path: str | Path, panel_id: str | None = None) -> Schedule:
             f"(only the first {MAX_PROBLEMS} are listed)",
         )
     problems.raise_if_any()
-    return _schedule(p, values, c, rows)
+    if "aic" in found:
+        notices.append(
+            f"column '{found['aic'][1]}' (interrupting ratings) read and validated but not "
+            "checked: hold them against the panel's available fault current"
+        )
+    if c.assumed_copper.any():
+        at = rows[c.assumed_copper]
+        notices.append(
+            f"warning: {len(at)} conductor cell(s) without a material read as copper (Cu), "
+            f"rows {', '.join(map(str, at[:10]))}{' …' if len(at) > 10 else ''}: write Cu or "
+            "Al to confirm"
+        )
+    unit = found["load"][2] or "va"
+    scale = SCHEDULE_HEADER_UNITS["load"].get(unit, ("VA", 1.0))[1]
+    compare_totals(totals, values["load_value"], values["panel"], scale, unit.upper(), notices)
+    length_unit = "ft" if found["length"][2] in ("", "ft", "feet", "foot") else "m"
+    system = _one_system(c, problems)
+    sched = _schedule(p, values, c, rows, tuple(notices), spaces, length_unit)
+    return replace(sched, system=system) if system else sched
 
 
-def _circuit_rows(cols, head, found, problems: ProblemList):
+def _one_system(c: Cells, problems: ProblemList) -> str:
+    """The file's ``system`` column: one voltage system for the whole file, or ""."""
+    if "system" not in c.found:
+        return ""
+    texts = [t for t in dict.fromkeys(c.text("system").tolist()) if t]
+    if len(texts) > 1:
+        problems.add(
+            f"column '{c.found['system'][1]}'",
+            ", ".join(texts[:4]),
+            "one voltage system for the whole file (one file per panel system)",
+        )
+        problems.raise_if_any()
+    return texts[0] if texts else ""
+
+
+def _only(cols, rows, keep, problems: ProblemList):
+    """The circuit rows alone (spares, spaces and totals rows set aside)."""
+    if keep.all():
+        return cols, rows
+    if not keep.any():
+        problems.add("", "(no circuit rows)", "at least one circuit row with a load")
+        problems.raise_if_any()
+    return {pos: (codes[keep], uniq) for pos, (codes, uniq) in cols.items()}, rows[keep]
+
+
+def _circuit_rows(cols, head, found, problems: ProblemList, rows_all):
     """Drop blank rows and repeated header rows; returns the columns and row numbers left."""
     codes, uniq = next(iter(cols.values()))
     n_body = len(codes)
-    rows_all = np.arange(2, n_body + 2)
     blank = np.ones(n_body, dtype=bool)
     for codes, uniq in cols.values():
         blank &= (uniq == "")[codes]
@@ -325,7 +416,23 @@ def _electrical_columns(c: Cells, found) -> dict[str, np.ndarray]:
     load = c.number("load", f"a load in {unit_text}, a number ≥ 0", 0, 1e8, None)
     pf = c.number("pf", "a power factor from 0.05 to 1", 0.05, 1.0, 1.0)
     breaker = c.number(
-        "breaker", "a breaker rating in A, e.g. 20 or '20 A'", 1, 6000, None, strip=r"a$"
+        "breaker",
+        "a breaker rating in A, e.g. 20, '20 A' or '20 A 22kAIC'",
+        1,
+        6000,
+        None,
+        strip=r"a$",
+        pre=AIC_SUFFIX,
+    )
+    # an interrupting rating (its own column, or after the breaker rating) is read and
+    # validated; ``schedule`` has no fault current to hold it against (``check`` does)
+    c.number(
+        "aic",
+        "an interrupting rating such as 22kAIC, '22 kA' or 10000",
+        1,
+        300_000,
+        np.nan,
+        strip=r"(?:k?a?ic|ka|a)$",
     )
     len_scale = units["length"].get(found["length"][2], units["length"][""])[1]
     length = c.number(
@@ -378,8 +485,21 @@ def _installation_columns(c: Cells) -> dict[str, np.ndarray]:
         "one of " + ", ".join(RACEWAYS),
         "steel",
     )
-    size, material = c.conductor("conductor", required=True)
-    gsize, gmat = c.conductor("ground", required=False)
+    cell = c.conductor("conductor", required=True)
+    size, material = cell["size"], cell["material"]
+    ground = c.conductor("ground", required=False)
+    # a ground column wins; a blank one takes the ground written in the conductor cell
+    no_g = ground["size"] == ""
+    gsize = np.where(no_g, cell["ground_size"], ground["size"])
+    gmat = np.where(no_g, cell["ground_material"], ground["material"])
+    # an insulation type in the cell (THHN …): the lower of it and the insulation column
+    import pandas as pd
+
+    ins = pd.Series(ins, dtype=object).astype(float).to_numpy()
+    stated = c.text("insulation") != ""
+    typed = cell["insulation_c"]
+    ins = np.where(np.isnan(typed), ins, np.where(stated, np.fmin(ins, typed), typed))
+    c.assumed_copper = cell["assumed"] | (ground["assumed"] & ~no_g)
     return {
         "insulation_c": ins.astype(float),
         "termination_c": term.astype(float),
@@ -432,7 +552,7 @@ def _check_spaces(circuit, poles, panel, rows, found, problems: ProblemList) -> 
         )
 
 
-def _schedule(path: Path, v: dict, c: Cells, rows: np.ndarray) -> Schedule:
+def _schedule(path: Path, v: dict, c: Cells, rows, notices, spaces, length_unit) -> Schedule:
     import pandas as pd
 
     frame = pd.DataFrame(
@@ -459,7 +579,8 @@ def _schedule(path: Path, v: dict, c: Cells, rows: np.ndarray) -> Schedule:
             "row": rows,
         }
     )
-    return Schedule(path, frame, v["load_unit"], tuple(dict.fromkeys(v["panel"].tolist())))
+    panels = tuple(dict.fromkeys(v["panel"].tolist()))
+    return Schedule(path, frame, v["load_unit"], panels, notices, spaces, length_unit)
 
 
 def read_schedules(paths, panel_ids=None) -> tuple[list[Schedule], list[InputError]]:

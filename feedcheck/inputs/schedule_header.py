@@ -30,22 +30,63 @@ ALIASES: dict[str, tuple[str, ...]] = {
         "space",
         "cct",
     ),
-    "description": ("description", "desc", "load description", "name", "served"),
+    "description": (
+        "description",
+        "desc",
+        "load description",
+        "circuit description",
+        "name",
+        "served",
+        "load served",
+    ),
     "poles": ("poles", "pole", "p", "no of poles"),
-    "load": ("load", "connected load"),
+    "load": ("load", "connected load", "load va", "va", "load kva", "kva", "load w", "watts"),
     "pf": ("pf", "power factor"),
     "kind": ("kind", "load kind", "type", "load type", "class"),
     "continuous": ("continuous", "cont", "continuous load"),
-    "breaker": ("breaker", "breaker rating", "device", "ocpd", "trip", "rating"),
-    "conductor": ("conductor", "conductors", "wire", "wire size", "conductor size"),
+    "breaker": (
+        "breaker",
+        "breaker rating",
+        "breaker size",
+        "brkr",
+        "bkr",
+        "cb",
+        "device",
+        "ocpd",
+        "trip",
+        "amps",
+        "amp",
+        "rating",
+    ),
+    "conductor": ("conductor", "conductors", "wire", "wires", "wire size", "conductor size"),
     "insulation": ("insulation", "insulation rating", "insulation temperature"),
     "termination": ("termination", "terminations", "termination rating"),
     "ground": ("ground", "egc", "grounding conductor", "equipment ground"),
     "current_carrying": ("current carrying", "current carrying conductors", "ccc"),
     "ambient": ("ambient", "ambient temperature"),
     "raceway": ("raceway", "conduit", "raceway type"),
-    "length": ("length", "run length", "one way length"),
+    "length": ("length", "run length", "one way length", "distance"),
+    "system": ("system", "voltage system", "panel voltage", "voltage"),
+    "aic": ("aic", "kaic", "interrupting rating", "breaker aic"),
 }
+# a unit written as the header's last word (``Load VA``, ``Length ft``): name → unit
+_UNIT_WORDS = {
+    "load": {"va": "va", "kva": "kva", "w": "w", "watts": "w", "kw": "kw", "a": "a"},
+    "length": {"ft": "ft", "feet": "ft", "m": "m"},
+    "breaker": {"a": "a", "amps": "a", "amp": "a"},
+}
+# header names standing for their unit: ``VA`` is a load in VA, ``Amps`` a breaker in A
+_NAME_UNITS = {
+    "va": "va",
+    "kva": "kva",
+    "watts": "w",
+    "load va": "va",
+    "load kva": "kva",
+    "load w": "w",
+    "amps": "a",
+    "amp": "a",
+}
+IGNORE = "ignore"  # a user mapping's word for a column to be skipped knowingly
 # column -> the quantity of its header unit (the others are temperatures)
 _QUANTITY = {"load": "load", "length": "length", "breaker": "current"}
 REQUIRED = ("circuit", "load", "breaker", "conductor", "length")
@@ -66,22 +107,67 @@ def normalise_header(text: object) -> tuple[str, str]:
     s = "" if text is None else str(text)
     m = _UNIT_RE.match(s.strip())
     name, unit = (m.group("name"), m.group("unit")) if m else (s, "")
-    name = " ".join(re.sub(r"[_\-.#:]+", " ", name).lower().split())
+    name = " ".join(re.sub(r"[_\-.#:?]+", " ", name).lower().split())
     return name, unit.strip().lower().replace("°", "")
 
 
+def _split_unit_word(name: str, unit: str) -> tuple[str, str]:
+    """``("load va", "")`` → ``("load", "va")``; a name standing for its unit keeps it."""
+    if unit:
+        return name, unit
+    if name in _NAME_UNITS:
+        return name, _NAME_UNITS[name]
+    head, _, last = name.rpartition(" ")
+    key = _LOOKUP.get(head)
+    if head and key in _UNIT_WORDS and last in _UNIT_WORDS[key]:
+        return head, _UNIT_WORDS[key][last]
+    return name, unit
+
+
+def parse_column_map(text: str, where: str) -> dict[str, str]:
+    """``"Cont?=continuous, Ins=insulation"`` → {normalised header: column} (a column of
+    :data:`ALIASES`, or ``ignore``); raises ValueError naming what is wrong.
+
+    >>> parse_column_map("Cont?=continuous, Ins=insulation, Notes=ignore", "--columns")
+    {'cont': 'continuous', 'ins': 'insulation', 'notes': 'ignore'}
+    """
+    out: dict[str, str] = {}
+    for part in filter(None, (p.strip() for p in re.split(r"[,;]", text))):
+        head, eq, col = part.partition("=")
+        key = _LOOKUP.get(normalise_header(col)[0]) if col.strip().lower() != IGNORE else IGNORE
+        if not eq or not head.strip() or key is None:
+            raise ValueError(
+                f"{where}: got {part!r}; expected HEADER=COLUMN with COLUMN one of "
+                + ", ".join(ALIASES)
+                + f" or {IGNORE}"
+            )
+        out[normalise_header(head)[0]] = key
+    return out
+
+
+def accepted_spellings(key: str) -> str:
+    """Every header spelling of a column, for an error message (never cut)."""
+    return f"{key!r} (" + ", ".join(f"'{a}'" for a in ALIASES[key]) + ")"
+
+
 def match_header(
-    df: pd.DataFrame, has_values, problems: ProblemList
+    df: pd.DataFrame,
+    has_values,
+    problems: ProblemList,
+    notices: list[str] | None = None,
+    user_map: dict[str, str] | None = None,
 ) -> dict[str, tuple[int, str, str]]:
     """canonical name -> (column position, header text, unit).
 
     ``df`` holds the header row and the rows below it as text (the first few are enough:
     they are searched for a header placed too low); ``has_values(pos)`` tells whether
-    column ``pos`` has a non-blank cell below the header.
+    column ``pos`` has a non-blank cell below the header. ``user_map`` (normalised header
+    → column or ``ignore``, :func:`parse_column_map`) comes first; every other header not
+    understood is named in ``notices`` (never dropped in silence).
     """
     header = [str(x) for x in df.iloc[0].tolist()]
+    user_map = user_map or {}
     found: dict[str, tuple[int, str, str]] = {}
-    unknown: list[str] = []
     blank: list[int] = []
     for pos, text in enumerate(header):
         name, unit = normalise_header(text)
@@ -89,9 +175,20 @@ def match_header(
             if has_values(pos):
                 blank.append(pos)
             continue
-        key = _LOOKUP.get(name)
+        key = user_map.get(name)
         if key is None:
-            unknown.append(text)
+            name, unit = _split_unit_word(name, unit)
+            key = _LOOKUP.get(name)
+        if key == IGNORE:
+            if notices is not None:
+                notices.append(f"column {pos + 1} '{text}' ignored (as the column map says)")
+            continue
+        if key is None:
+            if notices is not None and has_values(pos):
+                notices.append(
+                    f"column {pos + 1} '{text}' not understood: its values are NOT used "
+                    '(name it with --columns "HEADER=COLUMN", or HEADER=ignore)'
+                )
             continue
         if key in found:
             problems.add(
@@ -115,8 +212,11 @@ def match_header(
                 break
         problems.add(
             "row 1",
-            ", ".join(header)[:80],
-            "header columns " + ", ".join(repr(k) for k in missing) + hint,
+            ", ".join(header),
+            "header columns "
+            + "; ".join(accepted_spellings(k) for k in missing)
+            + " (case, spaces and a unit in brackets do not matter)"
+            + hint,
         )
     else:
         for pos in blank:

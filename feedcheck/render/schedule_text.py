@@ -11,6 +11,26 @@ def _kva(v) -> str:
     return fixed(v, 1, 1e-3)
 
 
+def _phase_letters(system_text: str) -> str:
+    """``ABC`` for a three-phase system, ``AB`` for a single-phase (split or two-wire) one."""
+    from ..units import parse_voltage_system
+
+    try:
+        return "ABC" if parse_voltage_system(system_text).phases == 3 else "AB"
+    except Exception:  # an unparsable text: show all three, as the totals hold them
+        return "ABC"
+
+
+def _phases_text(t: dict, letters: str) -> str:
+    vals = "/".join(_kva(t[f"phase_{x.lower()}_va"]) for x in letters)
+    return f"phases {'/'.join(letters)} {vals} kVA"
+
+
+def _spaces_text(t: dict) -> str:
+    sp, sc = int(t.get("spares", 0) or 0), int(t.get("spaces", 0) or 0)
+    return f"; {sp} spare, {sc} space" if sp or sc else ""
+
+
 def _totals_line(r, circuits: int, fails: int, warns: int) -> str:
     t = r.totals
     if "panels" in t:
@@ -18,14 +38,14 @@ def _totals_line(r, circuits: int, fails: int, warns: int) -> str:
             f"{r.path.name}: {t['panels']} panels, {circuits} circuits, {fails} fail, "
             f"{warns} warn; connected {_kva(t['connected_va'])} kVA, demand "
             f"{_kva(t['demand_va'])} kVA, worst imbalance "
-            f"{fixed(t['worst_imbalance_pct'], 1)} %  ({r.system})"
+            f"{fixed(t['worst_imbalance_pct'], 1)} %{_spaces_text(t)}  ({r.system})"
         )
     return (
         f"{r.path.name}  panel {t['panel']}  {r.system}: {circuits} circuits, {fails} fail, "
         f"{warns} warn; connected {_kva(t['connected_va'])} kVA, demand "
         f"{_kva(t['demand_va'])} kVA (design {fixed(t['design_current_a'], 1)} A); "
-        f"phases A/B/C {_kva(t['phase_a_va'])}/{_kva(t['phase_b_va'])}/"
-        f"{_kva(t['phase_c_va'])} kVA, imbalance {fixed(t['imbalance_pct'], 1)} %"
+        f"{_phases_text(t, _phase_letters(r.system))}, imbalance "
+        f"{fixed(t['imbalance_pct'], 1)} %{_spaces_text(t)}"
     )
 
 
@@ -40,6 +60,9 @@ def render_schedule_summary(results, show_all: bool, shown_circuits: int = 20) -
         fails, warns = int((st == "fail").sum()), int((st == "warn").sum())
         n_fail, n_warn, n_circ = n_fail + fails, n_warn + warns, n_circ + len(c)
         lines.append(_totals_line(r, len(c), fails, warns))
+        for note in getattr(r, "notices", []):
+            word = "WARN" if note.startswith(("warning:", "column")) else "note"
+            lines.append(f"  {word:4}  {note.removeprefix('warning: ')}")
         bad = c[st != "ok"]
         shown = bad if show_all else bad.head(shown_circuits)
         for row in shown.itertuples(index=False):

@@ -22,12 +22,12 @@ LOAD = "expected a load in VA, a number ≥ 0"
 # fmt: off
 CASES = [
     ("missing-column", CSV.replace(",breaker [A]", "").replace(",20,", ","),
-     "row 1 got 'circuit, description, load [VA], conductor, length [ft]'; expected header columns 'breaker'"),
+     "row 1 got 'circuit, description, load [VA], conductor, length [ft]'; expected header columns 'breaker' ('breaker', 'breaker rating', 'breaker size', 'brkr', 'bkr', 'cb', 'device', 'ocpd', 'trip', 'amps', 'amp', 'rating') (case, spaces and a unit in brackets do not matter)"),
     ("load-text", CSV.replace("1200", "lots"), f"row 2, column 'load [VA]' got 'lots'; {LOAD}"),
     ("load-negative", CSV.replace("1200", "-5"), f"row 2, column 'load [VA]' got '-5'; {LOAD}"),
     ("load-nan", CSV.replace("1200", "nan"), f"row 2, column 'load [VA]' got 'nan'; {LOAD}"),
     ("size-unknown", CSV.replace("12 AWG Cu,60", "13 AWG Cu,60"),
-     "row 2, column 'conductor' got '13 AWG Cu'; expected a size and material such as '12 AWG Cu', '1/0 AWG Al' or '4 mm2 Cu'"),
+     "row 2, column 'conductor' got '13 AWG Cu'; expected a conductor such as '12 AWG Cu', '500 MCM CU THHN' or '3#12, 1#12G'; could not read '13 AWG' (expected a standard size: 14 AWG … 4/0 AWG, 250 … 2000 kcmil, or 1.5 … 630 mm2 — did you mean '3 AWG' or '1 AWG'?)"),
     ("length-unit-unknown", CSV.replace("length [ft]", "length [furlong]"),
      "row 1, column 6 got 'length [furlong]'; expected a header such as 'length [ft]' or 'length [m]'"),
     ("circuit-twice", CSV.replace("\n3,", "\n1,"),

@@ -51,7 +51,7 @@ def test_phase_mapping_multi_pole(tmp_path):
     # common practice, no source: a multi-pole circuit n takes n, n+2, ...
     rows = [_row(1, poles=3, va=300), _row(4, poles=2, va=200), _row(7, va=50)]
     r = _check(tmp_path, rows)
-    assert r.circuits["phase"].tolist() == ["ABC", "BC", "A"]
+    assert r.circuits["phase"].tolist() == ["A-B-C", "B-C", "A"]  # as people write them
     t = r.totals
     # by hand: A = 100 + 50; B = 100 + 100; C = 100 + 100
     assert (t["phase_a_va"], t["phase_b_va"], t["phase_c_va"]) == pytest.approx((150, 200, 200))

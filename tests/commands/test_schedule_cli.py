@@ -36,7 +36,7 @@ def test_errors_flagged_exit_1_and_csv_neutralised(samples, tmp_path):
     text = out.read_text(encoding="utf-8")
     assert "status" in text.splitlines()[0] and "reason" in text.splitlines()[0]
     assert "'=HYPERLINK" in text and ",=HYPERLINK" not in text and '"=HYPERLINK' not in text
-    assert [p.name for p in tmp_path.iterdir()] == ["res.csv"]
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["res.csv", "res.panels.csv"]
 
 
 def test_xlsx_and_json_exports(samples, tmp_path):
@@ -92,6 +92,7 @@ def test_folder_with_progress_and_interrupt_leaves_nothing(samples, tmp_path, mo
     r = _run("schedule", src, *WYE, "--out", out)
     assert r.exit_code == 0 and "12 file(s)" in r.stdout and out.exists()
     out.unlink()
+    (tmp_path / "res.panels.csv").unlink()
     import feedcheck.checks.schedules as sc
 
     real = sc.check_schedule

@@ -1,0 +1,215 @@
+"""Rows of a panel schedule that are not circuits, and the two-column panel form.
+
+* **Two-column form**: a panel is often scheduled as it is built, odd circuits on the
+  left half of a row and even ones on the right (the right half's columns in the same
+  or mirrored order). The halves are unfolded into one circuit per row, left first;
+  each keeps its spreadsheet row number.
+* **Spares and spaces**: a row whose load is blank or 0 and which says ``spare`` or
+  ``space`` (or has neither conductor nor length) is not a circuit. With a breaker it is
+  a *spare*, without one a *space* (NFPA 70-2023 408.4(A): the directory names spare
+  positions and spaces; from memory). Both count toward the panel's spaces, never its
+  load (NFPA 70-2023 Art. 220 sums the loads served; a spare serves none).
+* **Totals rows**: a row with a cell starting ``total``, ``subtotal``, ``grand total``,
+  ``phase total`` … is skipped with a notice; a (grand) total's load is compared with
+  the sum of the circuits' loads.
+"""
+
+from __future__ import annotations
+
+import re
+
+import numpy as np
+
+from ..errors import ProblemList
+from .schedule_header import _LOOKUP, _split_unit_word, normalise_header
+
+TOTAL_RE = re.compile(
+    r"^\s*(grand\s+|sub\s*-?\s*|phase\s+\w?\s*|panel\s+|connected\s+)?totals?\b", re.I
+)
+_SPARE_RE = re.compile(r"^\s*(spare|space)s?\b", re.I)
+_NO_LOAD = {"", "0", "0.0", "-", "--", "—", "n/a", "na"}
+_NO_DEVICE = {"", "0", "-", "--", "—", "n/a", "na", "space", "spc"}
+CIRCUIT, SPARE, SPACE, TOTAL = 0, 1, 2, 3
+# a stated total may be rounded: it differs when off by more than this share or 1 unit
+TOTAL_TOLERANCE = 0.005  # common practice, no source
+
+
+def _key(text: object) -> str | None:
+    name, unit = normalise_header(text)
+    return _LOOKUP.get(_split_unit_word(name, unit)[0])
+
+
+def unfold_two_column(df, layout: str, notices: list[str], problems: ProblemList):
+    """The table with one circuit per row, and each body row's spreadsheet row number.
+
+    ``layout``: ``auto`` (detect a header whose two halves name the same columns, each
+    with a circuit column), ``one-row`` or ``two-column``.
+    """
+    import pandas as pd
+
+    header = df.iloc[0].tolist()
+    n_body = len(df) - 1
+    rows = np.arange(2, n_body + 2)
+    if layout == "one-row":
+        return df, rows
+    keys = [_key(h) for h in header]
+    split = None
+    if sum(k == "circuit" for k in keys) == 2:
+        for cut in range(1, len(keys)):  # halves in the same or the mirrored order
+            left = [i for i in range(cut) if keys[i] is not None]
+            right = [i for i in range(cut, len(keys)) if keys[i] is not None]
+            names = [keys[i] for i in left]
+            if sorted(names) == sorted(keys[i] for i in right) and len(set(names)) == len(names):
+                split = (left, {keys[i]: i for i in right})
+                break
+    if split is None:
+        if layout == "two-column":
+            problems.add(
+                "row 1",
+                ", ".join(map(str, header)),
+                "a two-column panel form: two halves naming the same columns, each with a "
+                "circuit column",
+            )
+            problems.raise_if_any()
+        return df, rows
+    left, right_of = split
+    right = [right_of[keys[i]] for i in left]
+    body = df.iloc[1:]
+    lhalf = body.iloc[:, left].to_numpy(object)
+    rhalf = body.iloc[:, right].to_numpy(object)
+    both = np.empty((2 * n_body, len(left)), dtype=object)
+    both[0::2], both[1::2] = lhalf, rhalf
+    head = np.array([[header[i] for i in left]], dtype=object)
+    out = pd.DataFrame(np.vstack([head, both]), dtype=object)
+    notices.append(
+        f"two-column panel form: columns {left[0] + 1}–{left[-1] + 1} and "
+        f"{min(right) + 1}–{max(right) + 1} read as one circuit per half-row"
+    )
+    return out, np.repeat(rows, 2)
+
+
+def classify(text, found) -> np.ndarray:
+    """CIRCUIT, SPARE, SPACE or TOTAL per body row; ``text(key)`` gives a column's cells."""
+    load = text("load")
+    n = len(load)
+    kind = np.full(n, CIRCUIT, dtype=np.int8)
+    total = np.zeros(n, dtype=bool)
+    for key in ("circuit", "description", "load", "breaker", "conductor"):
+        if key in found:
+            total |= _matches(text(key), TOTAL_RE)
+    no_load = _in(load, _NO_LOAD)
+    said = _matches(text("description"), _SPARE_RE) | _matches(text("circuit"), _SPARE_RE)
+    said |= _matches(text("breaker"), _SPARE_RE) | _matches(load, _SPARE_RE)
+    bare = _in(text("conductor"), _NO_LOAD) & _in(text("length"), _NO_LOAD)
+    spare = no_load & (said | bare) & ~total
+    kind[spare] = SPARE
+    kind[spare & _in(text("breaker"), _NO_DEVICE)] = SPACE
+    kind[total] = TOTAL
+    return kind
+
+
+def _matches(cells: np.ndarray, rx: re.Pattern) -> np.ndarray:
+    import pandas as pd
+
+    codes, uniq = pd.factorize(np.asarray(cells, dtype=object))
+    hit = np.array([bool(rx.match(str(u))) for u in uniq] + [False], dtype=bool)
+    return hit[codes]
+
+
+def _in(cells: np.ndarray, words: set[str]) -> np.ndarray:
+    import pandas as pd
+
+    codes, uniq = pd.factorize(np.asarray(cells, dtype=object))
+    hit = np.array([str(u).strip().lower() in words for u in uniq] + [True], dtype=bool)
+    return hit[codes]
+
+
+def set_aside(cols, rows, found, default_panel: str, notices: list[str]):
+    """Split the body rows into circuits and the rest.
+
+    Returns the circuit rows' mask, panel → (spare poles, space poles), and the totals
+    rows as (row number, cell that names it, stated load text, panel text).
+    """
+
+    def text(key: str) -> np.ndarray:
+        if key not in found:
+            return np.full(len(rows), "", dtype=object)
+        codes, uniq = cols[found[key][0]]
+        return uniq[codes]
+
+    kind = classify(text, found)
+    panel = text("panel")
+    panel = np.where(panel == "", default_panel, panel)
+    import pandas as pd
+
+    codes, uniq = pd.factorize(text("poles"))
+    poles = np.array([int(u) if u in ("1", "2", "3") else 1 for u in uniq] + [1])[codes]
+    spaces: dict[str, tuple[int, int]] = {}
+    for pid in dict.fromkeys(panel[kind != TOTAL].tolist()):
+        mine = panel == pid
+        spaces[str(pid)] = (
+            int(poles[mine & (kind == SPARE)].sum()),
+            int(poles[mine & (kind == SPACE)].sum()),
+        )
+    totals = []
+    named = {k: text(k) for k in ("circuit", "description", "load", "breaker", "conductor")}
+    load = text("load")
+    for i in np.flatnonzero(kind == TOTAL):
+        label = next((str(v[i]) for v in named.values() if TOTAL_RE.match(str(v[i]))), "total")
+        totals.append((int(rows[i]), label, str(load[i]), str(text("panel")[i])))
+    n_sp, n_sc = int((kind == SPARE).sum()), int((kind == SPACE).sum())
+    # a spare with its conductor and length given stays a circuit of no load: its
+    # breaker still protects that conductor and is checked
+    wired = (kind != CIRCUIT) & (kind != TOTAL)
+    wired &= ~_in(text("conductor"), _NO_LOAD) & ~_in(text("length"), _NO_LOAD)
+    wired &= ~_in(text("breaker"), _NO_DEVICE)
+    if wired.any() and "load" in found:
+        codes, uniq = cols[found["load"][0]]
+        zero = np.flatnonzero(uniq == "0")
+        if not len(zero):
+            uniq = np.append(uniq, np.array(["0"], dtype=object))
+            zero = [len(uniq) - 1]
+        codes = codes.copy()
+        codes[wired & _in(load, _NO_LOAD)] = zero[0]
+        cols[found["load"][0]] = (codes, uniq)
+    if n_sp or n_sc:
+        notices.append(
+            f"{n_sp} spare and {n_sc} space row(s) counted as the panel's spaces"
+            + (
+                f" ({int(wired.sum())} wired spare(s) kept as circuits of no load)"
+                if wired.any()
+                else ""
+            )
+        )
+    return (kind == CIRCUIT) | wired, spaces, totals
+
+
+def compare_totals(totals, load_value, panel, scale: float, unit: str, notices: list[str]):
+    """A notice per totals row; a (grand) total's stated load against the circuits' sum."""
+    panels = list(dict.fromkeys(np.asarray(panel).tolist()))
+    for row, label, stated, pan in totals:
+        m = TOTAL_RE.match(label)
+        word = (m.group(1) or "").strip().lower() if m else ""
+        head = f"row {row} ('{label}') skipped as a totals row"
+        if word.startswith(("sub", "phase")):
+            notices.append(head)
+            continue
+        pid = pan or (panels[0] if len(panels) == 1 else "")
+        mine = np.asarray(panel) == pid if pid else np.ones(len(load_value), dtype=bool)
+        computed = float(np.nansum(np.asarray(load_value)[mine])) / scale
+        try:
+            value = float(stated.replace(",", "").replace(" ", ""))
+        except ValueError:
+            notices.append(f"{head}; its load {stated!r} was not read as a number")
+            continue
+        if not np.isfinite(value):
+            notices.append(f"{head}; its load {stated!r} was not read as a number")
+        elif abs(value - computed) > max(TOTAL_TOLERANCE * abs(computed), 1.0):
+            notices.append(
+                f"warning: {head}; it states {value:,.6g} {unit} but the circuits sum to "
+                f"{computed:,.6g} {unit}"
+                + (f" (panel {pid})" if pid else "")
+                + ": a circuit may be missing or mistyped"
+            )
+        else:
+            notices.append(f"{head}; it agrees with the circuits' sum ({computed:,.6g} {unit})")
