@@ -94,6 +94,10 @@ def schedule_command(inputs, system, job_file, feeder_drop, occupancy, bus_a, ma
     files = _expand(inputs)
     if not files and not job_file:
         raise click.UsageError("no .csv or .xlsx schedule found in the inputs")
+    if out:
+        from ..io_atomic import check_output
+
+        check_output(out, [*files, *([job_file] if job_file else [])])  # before the work
     done: list[str] = []
     try:
         if job_file:
@@ -102,7 +106,10 @@ def schedule_command(inputs, system, job_file, feeder_drop, occupancy, bus_a, ma
         else:
             results = _from_files(files, system, feeder_drop, occupancy, bus_a, main_a, done)
         if out:
+            from ..io_atomic import check_output
             from ..render.schedules import write_results
+
+            check_output(out, [*files, *done, *([job_file] if job_file else [])])
 
             write_results(results, out, CAUTION)
     except KeyboardInterrupt:
