@@ -77,7 +77,7 @@ def _check_out_folder(value):
 @click.option(
     "--out",
     "out",
-    type=click.Path(),
+    type=click.Path(dir_okay=False),
     callback=lambda ctx, param, value: _check_out_folder(value),
     help="Write the JSON/CSV/text to this file (atomically) instead of stdout; never one "
     "of the job's inputs, a folder or a read-only file.",

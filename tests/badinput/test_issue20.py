@@ -458,6 +458,9 @@ def test_folder_as_output_is_refused(tmp_path, job_with_schedule, cmd, form):
         (tmp_path / "existing").mkdir()
     out = str(tmp_path / form) if form == "existing" else str(tmp_path / "new") + os.sep
     r = cli(cmd, job_with_schedule, "-o" if cmd == "report" else "--out", out)
+    if cmd == "check" and form == "existing":  # click's own check of --out says it
+        assert r.exit_code == 2 and "is a directory" in r.stderr
+        return
     (line,) = assert_rejected(r, n=1)
     assert line.endswith("got 'a folder'; expected an output file name "
                          "(give a file inside the folder)")
@@ -491,11 +494,10 @@ def test_read_only_output_is_never_replaced(tmp_path, job_with_schedule, argv):
 
 def test_sigterm_while_writing_removes_the_temporary_file(tmp_path):
     target = tmp_path / "out.json"
-    with pytest.raises(KeyboardInterrupt):
-        with io_atomic.atomic_path(target) as tmp:
-            tmp.write_text("partial")
-            os.kill(os.getpid(), signal.SIGTERM)
-            time.sleep(1)  # the signal arrives here
+    with pytest.raises(KeyboardInterrupt), io_atomic.atomic_path(target) as tmp:
+        tmp.write_text("partial")
+        os.kill(os.getpid(), signal.SIGTERM)
+        time.sleep(1)  # the signal arrives here
     assert not target.exists()
     assert list(tmp_path.iterdir()) == []
     assert signal.getsignal(signal.SIGTERM) is not None  # the former handler is back
@@ -562,3 +564,92 @@ def test_sigterm_of_a_real_process_leaves_no_part_file(tmp_path):
     proc.wait(timeout=20)
     assert proc.returncode != 0
     assert list(tmp_path.iterdir()) == []
+
+
+# ------------------------------------------------------------------ item 18: impossible results
+def _json_of(tmp_path, text, schedule: str | None = None):
+    job = tmp_path / "job.toml"
+    job.write_text(text, encoding="utf-8")
+    if schedule is not None:
+        (tmp_path / "S.csv").write_text(schedule, encoding="utf-8")
+    r = cli("check", job, "--format", "json")
+    assert_no_traceback(r)
+    assert r.exit_code in (0, 1), r.output
+    return r.exit_code, json.loads(r.stdout)
+
+
+def _fails(d, check):
+    return [f for f in d["findings"] if f["check"] == check and f["status"] == "fail"]
+
+
+def test_overloaded_high_impedance_transformer_fails_without_negative_volts(tmp_path):
+    # 25 %Z unit at 4.4 × its rating: the regulation formula has no real root
+    text = GOOD.replace('impedance = "4.6 %"', 'impedance = "25 %"').replace(
+        'load = "60 kVA"', 'load = "475 kVA"'
+    )
+    code, d = _json_of(tmp_path, text)
+    assert code == 1
+    (f,) = _fails(d, "transformer voltage under load")
+    assert f["subject"] == "TX1" and "cannot deliver" in f["note"]
+    for n in d["nodes"]:
+        assert n["voltage_v"] >= 0.0 and 0.0 <= n["voltage_pct"] <= 100.0, n
+
+
+def test_source_that_cannot_deliver_the_load_fails(tmp_path):
+    # 100 A available at 480 V feeding about 222 A of load: |Z_s| = 480/(√3·100) = 2.77 Ω,
+    # the load's drop through it exceeds the voltage (IEEE Std 141-1993 ch. 3 and 4)
+    text = GOOD.replace('available_fault = "25 kA"', 'available_fault = "100 A"').replace(
+        'load = "60 kVA"', 'load = "165 kVA"'
+    )
+    code, d = _json_of(tmp_path, text)
+    assert code == 1
+    (f,) = _fails(d, "source voltage under load")
+    assert f["subject"] == "source"
+    assert all(n["voltage_v"] == 0.0 for n in d["nodes"])
+
+
+def test_source_impedance_is_in_the_drop(tmp_path):
+    # Z_s = V_LL/(√3·I_sc) split by X/R (IEEE Std 141-1993 ch. 4); exact phasor drop
+    # VD = Es + IR cos θ + IX sin θ − √(Es² − (IX cos θ − IR sin θ)²) per phase
+    # (IEEE Std 141-1993 ch. 3), computed here by hand for the job's total demand.
+    import math
+
+    _, d = _json_of(tmp_path, GOOD)
+    src = next(n for n in d["nodes"] if n["id"] == "source")
+    v_ll, i_sc, x_r = 480.0, 25e3, 5.0
+    z = v_ll / (math.sqrt(3) * i_sc)
+    r, x = z / math.hypot(1, x_r), z * x_r / math.hypot(1, x_r)
+    va, pf = 80e3, 0.9  # 60 kVA + 20 kVA of panel load, power factor 0.9 (job's own)
+    i = va / (math.sqrt(3) * v_ll)
+    es = v_ll / math.sqrt(3)
+    s = math.sqrt(1 - pf * pf)
+    vd = es + i * r * pf + i * x * s - math.sqrt(es**2 - (i * x * pf - i * r * s) ** 2)
+    assert src["vdrop_pct"] == pytest.approx(100 * vd / es, rel=1e-6)
+    assert 0.0 < src["vdrop_pct"] < 1.0
+
+
+def test_infinite_source_drops_nothing(tmp_path):
+    text = GOOD.replace('available_fault = "25 kA"', 'available_fault = "infinite"')
+    _, d = _json_of(tmp_path, text)
+    src = next(n for n in d["nodes"] if n["id"] == "source")
+    assert src["voltage_pct"] == 100.0 and src["vdrop_pct"] == 0.0
+
+
+def test_circuits_on_a_collapsed_panel_are_never_ok(tmp_path):
+    text = GOOD.replace('load = "20 kVA"\n', 'schedule = "S.csv"\n').replace(
+        'impedance = "4.6 %"', 'impedance = "25 %"'
+    ).replace('load = "60 kVA"', 'load = "475 kVA"')
+    sched = (
+        "circuit,load [VA],breaker [A],conductor,length [ft]\n"
+        "1,100,20,12 AWG Cu,10\n"
+        "3,100000000,20,14 AWG Cu,50\n"  # 100 MVA on 14 AWG
+    )
+    _, d = _json_of(tmp_path, text, sched)
+    drops = [f for f in d["findings"] if f["subject"].startswith("PB/") and "drop" in f["check"]]
+    assert drops
+    assert all(f["status"] != "ok" for f in drops if f["check"] == "total voltage drop")
+    rows = [c for s in d["schedules"].values() for c in s.get("circuits", [])] if isinstance(
+        d["schedules"], dict) else []
+    for f in drops:  # printable figures: no drop beyond the whole voltage (plus the feeder's)
+        assert f["value"] <= 200.0, f
+    assert rows == [] or all(c.get("vdrop_pct", 0) <= 100.0 for c in rows)
