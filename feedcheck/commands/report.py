@@ -140,8 +140,9 @@ def _named_in_report(exc, tmp: str, report_pdf: str):
     from ..errors import InputError
 
     def name(file: str) -> str:
-        if file.startswith(tmp):
-            return f"{report_pdf}[embedded {os.path.relpath(file, tmp)}]"
-        return file.replace(tmp, f"{report_pdf}[embedded]")
+        for root in (os.path.realpath(tmp), tmp):
+            if file.startswith(root + os.sep):
+                return f"{report_pdf}[embedded {os.path.relpath(file, root)}]"
+        return file
 
     return InputError([dataclasses.replace(p, file=name(p.file)) for p in exc.problems])
