@@ -5,7 +5,7 @@ Parse, call the library, render, map problems to exit codes.
 
 Exit codes: 0 no failing check (warnings allowed), 1 at least one failing check,
 2 the input could not be read or is invalid (nothing is written), 3 an internal error
-(a fault in feedcheck; nothing is written).
+(a fault in feedcheck; nothing is written), 130 interrupted (nothing is written).
 """
 
 from __future__ import annotations
@@ -17,7 +17,7 @@ import textwrap
 import click
 
 from . import CAUTION, __version__
-from .commands.errors import handle_input_errors
+from .commands.errors import guard_all, handle_input_errors
 from .commands.params import VOLTAGE_SYSTEM
 
 CONTEXT = {"help_option_names": ["-h", "--help"], "max_content_width": 100}
@@ -79,7 +79,8 @@ def _check_out_folder(value):
     "out",
     type=click.Path(dir_okay=False),
     callback=lambda ctx, param, value: _check_out_folder(value),
-    help="Write the JSON/CSV/text to this file (atomically) instead of stdout.",
+    help="Write the JSON/CSV/text to this file (atomically) instead of stdout; never one "
+    "of the job's inputs, a folder or a read-only file.",
 )
 @click.option("--all", "show_all", is_flag=True, help="Also list passing and info findings.")
 @handle_input_errors
@@ -90,20 +91,27 @@ def check_cmd(job_file, fmt, out, show_all):
     Examples:
       feedcheck check sample_jobs/harbor_kitchen.toml
       feedcheck check job.toml --format json --out results.json
-    Exit code 0: no failing check; 1: a check failed; 2: the input is invalid.
+    Exit code 0: no failing check; 1: a check failed; 2: the input is invalid;
+    130: interrupted.
     """
     from .commands.clock import calc_date
     from .render.json_csv import render_csv, render_json
     from .render.text import render_text
-    from .runner import run_job
+    from .runner import load_and_check
 
-    results = run_job(job_file, calc_date())
+    if out:
+        from .io_atomic import check_output
+
+        check_output(out, [job_file])  # before the work; again below with the schedules
+    job, results = load_and_check(job_file, calc_date())
     text = {"json": render_json, "csv": render_csv}.get(
         fmt, functools.partial(render_text, show_all=show_all)
     )(results)
     if out:
+        from .commands.report import job_inputs
         from .io_atomic import write_text_atomic
 
+        check_output(out, job_inputs(job))
         write_text_atomic(out, text)
         click.echo(f"wrote {out}", err=True)
     else:
@@ -214,5 +222,6 @@ def _register_optional() -> None:
 
 
 _register_optional()
+guard_all(main)  # every command: input errors exit 2, interrupts 130, faults 3 (no traceback)
 
 __all__ = ["VOLTAGE_SYSTEM", "main"]

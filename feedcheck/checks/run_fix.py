@@ -77,6 +77,12 @@ def next_passing(ctx: Context, run: Run, duty: RunDuty) -> str:
     if device is not None:
         need = float(pk.device_min_for_load_a(duty.cont_a, duty.non_a, tables=ctx.rules.protection))
         if device < need - 1e-9:
+            largest = float(pk.standard_ratings_a(tables=ctx.rules.protection)[-1])
+            if need > largest + 1e-9:
+                return (
+                    f"no standard device carries {need:,.0f} A (largest {largest:g} A): "
+                    "split the load over more feeders"
+                )
             device = float(pk.next_standard_rating_a(need, tables=ctx.rules.protection))
             device_text = f" with a {device:g} A device"
     duty = replace(duty, device_a=device)

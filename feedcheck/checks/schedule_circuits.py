@@ -219,7 +219,8 @@ def _voltage_drop(q: dict, c: pd.DataFrame, nominal_v, vd_kind, feeder_drop_pct,
         c["raceway"].to_numpy(object),
     )
     vd_v = voltage_drop_approximate_v(q["current_a"], r_m, x_m, q["length_m"], q["pf"], vd_kind)
-    vd_pct = 100.0 * np.asarray(vd_v, float) / nominal_v
+    # a drop of all the voltage is the most there is (no load beyond it is delivered)
+    vd_pct = np.minimum(100.0 * np.asarray(vd_v, float) / nominal_v, 100.0)
     panel = q["panel"]
     if isinstance(feeder_drop_pct, dict):
         feeder = np.array([float(feeder_drop_pct.get(p, 0.0)) for p in pd.unique(panel)])[

@@ -15,6 +15,7 @@ from ..calc.constants import M_PER_FT, SQRT3
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
 from .compare import passes
 from .context import Context
+from .deliverable import COLLAPSED_PCT, source_voltage_pct, transformer_collapsed
 from .drop_rules import DropLimit, job_drop_limits
 from .impedance import branch_impedances, fault_assumptions, source_impedance
 from .loads import lines_of
@@ -31,7 +32,8 @@ def check_voltage_drop(ctx: Context) -> None:
     job, tree = ctx.job, ctx.tree
     limits = drop_limits(ctx)
     tx = {t.id: t for t in job.transformers}
-    v_pct: dict[str, float] = {"source": 100.0}
+    src_pct = source_voltage_pct(ctx, limits["feeder"].rule_id)
+    v_pct: dict[str, float] = {"source": src_pct}
     cond_drop: dict[str, float] = {"source": 0.0}  # conductor drop since the transformer [%]
     ctx.method(
         "Voltage drop of a run, exact phasor form: VD = Es + IR cos θ + IX sin θ − "
@@ -46,10 +48,15 @@ def check_voltage_drop(ctx: Context) -> None:
     )
     ctx.assume(
         "Steady-state voltage drop uses each node's demand load at its power factor, "
-        f"conductors at {OPERATING_C:g} °C, and a source at nominal voltage."
+        f"conductors at {OPERATING_C:g} °C, and a source whose open-circuit voltage is "
+        "nominal, less the drop of the total demand through the source impedance."
     )
     ctx.nodes["source"].values.update(
-        {"voltage_pct": 100.0, "vdrop_pct": 0.0, "voltage_v": job.source.voltage.line_v}
+        {
+            "voltage_pct": src_pct,
+            "vdrop_pct": 100.0 - src_pct,
+            "voltage_v": job.source.voltage.line_v * src_pct / 100.0,
+        }
     )
     for n in tree.order[1:]:
         p = tree.parent_node[n]
@@ -59,8 +66,15 @@ def check_voltage_drop(ctx: Context) -> None:
         pct = v_pct[p]
         sheet = ctx.sheet(n, tree.kind[n], "")
         if pct <= 0.0:  # the voltage collapsed upstream: nothing below can be computed
-            v_pct[n], cond_drop[n] = 0.0, cond_drop[p]
-            ctx.nodes[n].values.update({"voltage_pct": 0.0, "vdrop_pct": 100.0, "voltage_v": 0.0})
+            v_pct[n], cond_drop[n] = 0.0, COLLAPSED_PCT
+            ctx.nodes[n].values.update(
+                {
+                    "voltage_pct": 0.0,
+                    "vdrop_pct": 100.0,
+                    "voltage_v": 0.0,
+                    "conductor_vdrop_pct": COLLAPSED_PCT,
+                }
+            )
             ctx.add(
                 n,
                 "voltage drop",
@@ -91,17 +105,9 @@ def check_voltage_drop(ctx: Context) -> None:
                 reg = tk.secondary_drop_pct_exact(r_pct, x_pct, frac, load.pf, sending)
             except ValueError:
                 reg = 100.0 * sending  # no real secondary voltage: the load cannot be served
-                ctx.add(
-                    n,
-                    "transformer voltage under load",
-                    0.0,
-                    None,
-                    "%",
-                    "fail",
-                    "xfmr-loading",
-                    f"{t.id} cannot deliver {load.va / 1000:.1f} kVA: "
-                    "no real secondary voltage (load far beyond its rating)",
-                )
+            if not 100 * sending - reg > 0.0:
+                reg = 100.0 * sending
+                transformer_collapsed(ctx, n, t, load, "xfmr-loading")
             sheet.step(
                 "Secondary voltage under load (primary at its actual voltage, tap "
                 f"{t.tap_pct:+g} %: + lowers the secondary, nameplate convention)",
@@ -111,7 +117,7 @@ def check_voltage_drop(ctx: Context) -> None:
                 "% of nominal",
             )
             pct = 100 * sending - reg
-            cond_drop_here = 0.0
+            cond_drop_here = 0.0 if pct > 0.0 else COLLAPSED_PCT
             ctx.nodes[n].values["transformer_drop_pct"] = reg
         v_pct[n] = pct
         cond_drop[n] = cond_drop_here

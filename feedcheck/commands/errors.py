@@ -1,7 +1,8 @@
 """Error handling shared by the CLI commands.
 
-Input problems: one line each on stderr, exit code 2, nothing written. Any other
-exception is a fault in feedcheck: a short message, exit code 3, no traceback
+Input problems: one line each on stderr, exit code 2, nothing written. An interrupt
+(Ctrl-C, SIGINT; SIGTERM while an output is written): exit code 130, nothing written.
+Any other exception is a fault in feedcheck: a short message, exit code 3, no traceback
 (``FEEDCHECK_DEBUG=1`` shows it).
 """
 
@@ -15,9 +16,12 @@ import click
 
 from ..errors import InputError
 
+INTERRUPTED = 130  # 128 + SIGINT, as shells report an interrupted program
+
 
 def handle_input_errors(fn):
-    """Map InputError to exit 2 and unexpected exceptions to exit 3, without tracebacks."""
+    """Map InputError to exit 2, an interrupt to exit 130 and unexpected exceptions to
+    exit 3, without tracebacks."""
 
     @functools.wraps(fn)
     def wrapper(*args, **kwargs):
@@ -31,13 +35,10 @@ def handle_input_errors(fn):
                 f"{n} problem{'s' if n != 1 else ''} in the input; nothing was written.", err=True
             )
             sys.exit(2)
-        except (
-            click.ClickException,
-            click.exceptions.Exit,
-            click.Abort,
-            SystemExit,
-            KeyboardInterrupt,
-        ):
+        except KeyboardInterrupt:
+            click.echo("interrupted; nothing was written.", err=True)
+            sys.exit(INTERRUPTED)
+        except (click.ClickException, click.exceptions.Exit, click.Abort, SystemExit):
             raise
         except OSError as exc:  # the machine said no (missing folder, disk full, permission)
             where = exc.filename or "a file"
@@ -54,4 +55,15 @@ def handle_input_errors(fn):
             )
             sys.exit(3)
 
+    wrapper.guarded = True
     return wrapper
+
+
+def guard_all(group: click.Group) -> None:
+    """Give every command under ``group`` (nested groups included) the wrapper of
+    :func:`handle_input_errors`, unless it has it already."""
+    for cmd in group.commands.values():
+        if isinstance(cmd, click.Group):
+            guard_all(cmd)
+        elif cmd.callback is not None and not getattr(cmd.callback, "guarded", False):
+            cmd.callback = handle_input_errors(cmd.callback)

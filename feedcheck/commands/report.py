@@ -10,6 +10,11 @@ import click
 from .. import CAUTION
 from .errors import handle_input_errors
 
+
+def job_inputs(job) -> list:
+    """The files a job was read from: the job file and its panels' schedules."""
+    return [job.path, *(p.schedule for p in job.panels if getattr(p, "schedule", None))]
+
 CONTEXT = {"help_option_names": ["-h", "--help"], "max_content_width": 100}
 
 
@@ -19,8 +24,9 @@ CONTEXT = {"help_option_names": ["-h", "--help"], "max_content_width": 100}
     "-o",
     "--out",
     "out",
-    type=click.Path(dir_okay=False, writable=True),
-    help="PDF file to write (default: the job file's name with .pdf, in the current folder).",
+    type=click.Path(),
+    help="PDF file to write (default: the job file's name with .pdf, in the current folder); "
+    "never one of the job's inputs, a folder or a read-only file.",
 )
 @handle_input_errors
 def report_command(job_file, out):
@@ -39,18 +45,22 @@ def report_command(job_file, out):
       feedcheck report sample_jobs/harbor_kitchen.toml -o harbor_kitchen.pdf
       feedcheck --tables my_tables/ report job.toml -o job-local-tables.pdf
     Exit code 0: written, no failing check; 1: written, a check failed;
-    2: the input is invalid (nothing written).
+    2: the input is invalid (nothing written); 130: interrupted (nothing written).
     """
     from pathlib import Path
 
+    from ..io_atomic import check_output
     from ..render.pdf.report import write_report
     from ..runner import load_and_check
 
+    target = out if out else Path(job_file).stem + ".pdf"
+    check_output(target, [job_file])
     job, results = load_and_check(job_file)
-    target = Path(out) if out else Path(Path(job_file).stem + ".pdf")
+    target = Path(target)
     if not target.parent.resolve().is_dir():
         click.echo(f"error: folder {target.parent} does not exist; nothing was written", err=True)
         sys.exit(2)
+    check_output(target, job_inputs(job))
     info = write_report(job, results, target)
     c = results.counts()
     click.echo(
@@ -80,24 +90,29 @@ def rerun_command(report_pdf):
       feedcheck rerun harbor_kitchen.pdf
       feedcheck --tables local_tables/ rerun harbor_kitchen.pdf
     Exit code 0: all figures and pages match; 1: a figure or a page differs;
-    2: the file is not a readable feedcheck report.
+    2: the file is not a readable feedcheck report (not a regular file, over
+    100 MB, embedded files over 60 MB unpacked, duplicate attachment names,
+    AES-encrypted, damaged results); 130: interrupted.
     """
     import json
     import tempfile
     from pathlib import Path
 
+    from ..errors import InputError
+    from ..io_atomic import interrupts_unwind
     from ..render.display import MISSING
     from ..render.json_csv import render_json
-    from ..render.pdf.embed import NotAReport, extract_inputs
+    from ..render.pdf.embed import NotAReport, read_report, write_inputs
     from ..render.pdf.rerun_compare import compare_results, table_changes
     from ..runner import load_and_check
 
-    with tempfile.TemporaryDirectory(prefix="feedcheck-rerun-") as tmp:
-        try:
-            ex = extract_inputs(report_pdf, tmp)
-        except NotAReport as exc:
-            click.echo(f"error: {exc}", err=True)
-            sys.exit(2)
+    try:
+        embedded = read_report(report_pdf)  # checked whole before any folder is made
+    except NotAReport as exc:
+        click.echo(f"error: {exc}", err=True)
+        sys.exit(2)
+    with interrupts_unwind(), tempfile.TemporaryDirectory(prefix="feedcheck-rerun-") as tmp:
+        ex = write_inputs(embedded, tmp)
         from ..render.pdf.tables_embed import TablesDamaged, use_embedded_tables
 
         try:  # custom tables embedded in the report, unless --tables names others
@@ -109,7 +124,10 @@ def rerun_command(report_pdf):
             click.echo(f"using the report's own tables: {', '.join(own)}")
         from ..render.pdf.page_check import check_pages, report_calc_date
 
-        _, results = load_and_check(ex.job_path, report_calc_date(ex.results))
+        try:
+            _, results = load_and_check(ex.job_path, report_calc_date(ex.results))
+        except InputError as exc:  # name the report, not the temporary folder
+            raise _named_in_report(exc, tmp, report_pdf) from None
         rerun = json.loads(render_json(results))
         n_pages, page_diffs = check_pages(report_pdf, results)  # the printed pages too
     job = ex.results.get("job", {})
@@ -134,3 +152,19 @@ def rerun_command(report_pdf):
         for d in page_diffs:
             click.echo(f"  {d}")
     sys.exit(1 if diffs or page_diffs else 0)
+
+
+def _named_in_report(exc, tmp: str, report_pdf: str):
+    """The input error with the temporary folder's paths named as parts of the report."""
+    import dataclasses
+    import os
+
+    from ..errors import InputError
+
+    def name(file: str) -> str:
+        for root in (os.path.realpath(tmp), tmp):
+            if file.startswith(root + os.sep):
+                return f"{report_pdf}[embedded {os.path.relpath(file, root)}]"
+        return file
+
+    return InputError([dataclasses.replace(p, file=name(p.file)) for p in exc.problems])

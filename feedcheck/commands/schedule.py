@@ -128,6 +128,10 @@ def schedule_command(inputs, system, job_file, feeder_drop, occupancy, bus_a, ma
     files = _expand(inputs, out)
     if not files and not job_file:
         raise click.UsageError("no .csv or .xlsx schedule found in the inputs")
+    if out:
+        from ..io_atomic import check_output
+
+        check_output(out, [*files, *([job_file] if job_file else [])])  # before the work
     done: list[str] = []
     unreadable: list = []
     try:
@@ -140,8 +144,10 @@ def schedule_command(inputs, system, job_file, feeder_drop, occupancy, bus_a, ma
             results = _from_files(files, opts, (feeder_drop, occupancy, bus_a, main_a), done,
                                   unreadable)
         if out and (results or not unreadable):
+            from ..io_atomic import check_output
             from ..render.schedules import write_results
 
+            check_output(out, [*files, *done, *([job_file] if job_file else [])])
             try:
                 write_results(results, out, CAUTION)
             except ValueError as exc:  # more circuits than an XLSX sheet holds

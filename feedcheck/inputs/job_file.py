@@ -16,6 +16,7 @@ import tomllib
 from dataclasses import replace
 from pathlib import Path
 
+from ..calc.withstand import MAX_ADIABATIC_S
 from ..errors import ProblemList
 from ..model import (
     DEVICE_FAMILIES,
@@ -43,7 +44,13 @@ from .element_keys import tap_pct as _tap
 from .feed_rules import check_feed, check_voltages
 from .files import FileKind, FileRefused, decode_utf8, read_bytes
 from .paths import relative_file_inside
-from .toml_reader import Reader, array_of_tables
+from .toml_reader import (
+    DEEP_KEY_VALUE,
+    KEY_PARTS_EXPECTED,
+    Reader,
+    array_of_tables,
+    deep_key_line,
+)
 from .tree import build_tree
 
 MAX_JOB_BYTES = 2_000_000
@@ -56,6 +63,8 @@ DEVICE_RANGE_A = (1.0, 6000.0)  # ratings: 6000 A is the largest standard (NFPA 
 INTERRUPTING_RANGE_A = (1.0e3, 300.0e3)  # equipment interrupting ratings
 _DEVICE = (*DEVICE_RANGE_A, "an ampere rating from 1 A to 6000 A")
 _INTERRUPTING = (*INTERRUPTING_RANGE_A, "an interrupting rating from 1 kA to 300 kA")
+# the adiabatic withstand method holds up to MAX_ADIABATIC_S (IEC 60364-4-43:2008 434.5.2)
+_CLEARING = (0.001, MAX_ADIABATIC_S, f"a clearing time from 0.001 s to {MAX_ADIABATIC_S:g} s")
 _TEMPERATURE_RATING = "'60 degC', '75 degC' or '90 degC'"
 _INSULATION = "'60 degC', '75 degC', '90 degC' or an insulation type such as 'THHN' or 'XHHW-2'"
 
@@ -152,6 +161,9 @@ def read_job(path: str | Path) -> Job:
         text = decode_utf8(raw, "UTF-8 text (save the file as UTF-8)")
     except FileRefused as exc:
         pl.add("", exc.value, exc.expected, line=exc.line)
+        pl.raise_if_any()
+    if (deep := deep_key_line(text)) is not None:
+        pl.add("", DEEP_KEY_VALUE, KEY_PARTS_EXPECTED, line=deep)
         pl.raise_if_any()
     try:
         data = tomllib.loads(text)
@@ -425,7 +437,7 @@ def _run(r: Reader, t: dict, path: str) -> Run:
         if "rooftop_height" in t
         else None,
         harmonic_neutral=r.flag(t, path, "harmonic_neutral"),
-        clearing_s=r.qty(t, path, "clearing_time", "time", required=False),
+        clearing_s=r.qty(t, path, "clearing_time", "time", required=False, within=_CLEARING),
     )
     run = _run_protection_keys(r, t, path, run)
     if run.rooftop_mm is None:

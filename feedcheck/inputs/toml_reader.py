@@ -15,6 +15,39 @@ from ..units import UnitParseError, parse_quantity, parse_voltage_system
 VOLTAGE_RANGE_V = (100.0, 1000.0)  # line-to-line; "low voltage" is 1000 V and less
 
 
+# ---------------------------------------------------------------- bounded parsing
+MAX_KEY_PARTS = 16  # a job's deepest key is three parts (run.x.y); dotted keys beyond are refused
+
+# The standard library's TOML parser builds each dotted key part by part (time grows
+# with the square of its parts: a 2 MB ``[k.k.k…]`` runs for minutes). This scan runs
+# before it, in linear time: strings and comments are taken whole (their dots are not
+# keys); a chain of key parts joined by more than MAX_KEY_PARTS - 1 dots is refused.
+_BARE = r"[A-Za-z0-9_-]++"
+_BASIC = r'"(?:[^"\\\n]|\\.)*+"'
+_LITERAL = r"'[^'\n]*+'"
+_PART = f"(?:{_BARE}|{_BASIC}|{_LITERAL})"
+_SCAN_RE = re.compile(
+    rf"(?P<chain>(?<![A-Za-z0-9_.-]){_PART}(?:[ \t]*+\.[ \t]*+{_PART}){{{MAX_KEY_PARTS}}})"
+    r'|"""[\s\S]*?"""|\'\'\'[\s\S]*?\'\'\''
+    rf"|{_BASIC}|{_LITERAL}|#[^\n]*+"
+)
+
+DEEP_KEY_VALUE = f"a dotted key of more than {MAX_KEY_PARTS} parts"
+KEY_PARTS_EXPECTED = f"keys of at most {MAX_KEY_PARTS} dotted parts (a job needs three)"
+
+
+def deep_key_line(text: str) -> int | None:
+    """1-based line of the first key with more than ``MAX_KEY_PARTS`` dotted parts, or None.
+
+    Linear in the length of ``text``; run before parsing so a file built to make the
+    parser's work grow with the square of a key's length is refused at once.
+    """
+    for m in _SCAN_RE.finditer(text):
+        if m.group("chain"):
+            return text.count("\n", 0, m.start()) + 1
+    return None
+
+
 # ---------------------------------------------------------------- key locations
 _HEADER_RE = re.compile(r"^\s*(\[\[?)\s*([A-Za-z_][\w.-]*)\s*\]\]?\s*(#.*)?$")
 _KEY_RE = re.compile(r"^\s*([A-Za-z_][\w-]*)\s*=")

@@ -159,7 +159,7 @@ def test_internal_error_is_reported_without_traceback(monkeypatch, samples):
     def boom(path, calc_date=None):
         raise ZeroDivisionError("simulated fault")
 
-    monkeypatch.setattr(feedcheck.runner, "run_job", boom)
+    monkeypatch.setattr(feedcheck.runner, "load_and_check", boom)  # check reads job + results
     r = _run("check", str(samples / "harbor_kitchen.toml"))
     assert r.exit_code == 3
     assert "internal error: ZeroDivisionError: simulated fault" in r.stderr

@@ -8,7 +8,10 @@ A report carries, as PDF file attachments:
 * ``feedcheck-results.json`` — the results as rendered by
   :func:`feedcheck.render.json_csv.render_json` when the report was made.
 
-:func:`extract_inputs` writes the inputs into a folder (never outside it); the
+:func:`read_report` reads and checks them within bounded memory (only what the
+manifest names, within a total budget; duplicates, AES encryption and results of the
+wrong shape refused); :func:`extract_inputs` writes the inputs into a folder (never
+outside it); the
 comparison of a re-run with the embedded results is
 :mod:`feedcheck.render.pdf.rerun_compare`. Nothing here computes an electrical figure.
 """
@@ -21,13 +24,21 @@ import re
 from dataclasses import dataclass
 from pathlib import Path, PurePosixPath
 
-from ...inputs.files import FileRefused, check_size, decode_utf8
+from ...inputs.files import FileKind, FileRefused, decode_utf8, read_bytes
 
 MANIFEST_NAME = "feedcheck-inputs.json"
 RESULTS_NAME = "feedcheck-results.json"
 INPUT_PREFIX = "inputs/"
 FORMAT = "feedcheck-report-inputs/1"
-MAX_ATTACHMENT_BYTES = 20_000_000
+MAX_ATTACHMENT_BYTES = 20_000_000  # one embedded file, unpacked
+MAX_TOTAL_BYTES = 60_000_000  # all embedded files read, unpacked, together
+MAX_ATTACHMENTS = 1_000  # attachments listed (a report carries a job and its schedules)
+REPORT_FILE = FileKind(
+    noun="report",
+    folder_hint="(.pdf)",
+    max_bytes=100_000_000,
+    too_large="a report PDF under 100 MB",
+)
 
 
 class NotAReport(Exception):
@@ -106,34 +117,207 @@ def safe_relative(name: str) -> PurePosixPath:
     return p
 
 
-def _read_attachments(pdf_path: Path) -> dict[str, bytes]:
+def _quiet_pypdf():
     import logging
-
-    from pypdf import PdfReader
-    from pypdf.errors import PyPdfError
 
     log = logging.getLogger("pypdf")
     level = log.level
     log.setLevel(logging.ERROR)  # a damaged file gets one clear message, not pypdf's notes
+    return log, level
+
+
+def _open_pdf(pdf_path: Path):
+    """A PdfReader of the report, read from a regular file of bounded size; an
+    encrypted report is opened with an empty password (RC4 as pypdf does it alone;
+    AES is refused, see below)."""
+    from pypdf import PdfReader
+    from pypdf.errors import DependencyError
+
     try:
-        reader = PdfReader(str(pdf_path))
-        found = {}
-        for name, contents in reader.attachments.items():
-            if not contents:
-                continue
-            data = contents[0]
-            try:
-                check_size(len(data), MAX_ATTACHMENT_BYTES, "a smaller attachment")
-            except FileRefused:
-                raise NotAReport(f"attachment {name!r} is larger than expected") from None
-            found[name] = data
-        return found
+        raw = read_bytes(pdf_path, REPORT_FILE)
+    except FileRefused as exc:
+        raise NotAReport(f"{pdf_path}: got {exc.value!r}; expected {exc.expected}") from None
+    reader = PdfReader(io.BytesIO(raw))
+    if reader.is_encrypted:
+        try:
+            ok = reader.decrypt("")
+        except DependencyError:
+            raise NotAReport(
+                f"{pdf_path}: the report is encrypted with AES, which feedcheck does not "
+                "open; save an unencrypted copy of it (any PDF viewer can) and rerun that"
+            ) from None
+        if not ok:
+            raise NotAReport(f"{pdf_path}: the report needs a password; save an unencrypted copy")
+    return reader
+
+
+def _attachment_entries(reader, pdf_path: Path) -> dict[str, object]:
+    """Attachment name → its one entry (contents not yet read). Two attachments of
+    the same name are refused: which one a reader would take is not defined."""
+    entries: dict[str, object] = {}
+    for entry in reader.attachment_list:
+        for name in entry._names:
+            if name in entries and entries[name] is not entry:
+                raise NotAReport(f"{pdf_path}: attachment {name!r} appears twice; refused")
+            entries[name] = entry
+            if len(entries) > MAX_ATTACHMENTS:
+                raise NotAReport(
+                    f"{pdf_path}: more than {MAX_ATTACHMENTS} attachments; "
+                    "not a feedcheck report"
+                )
+    return entries
+
+
+class _Budget:
+    """Reads attachment contents within a per-file and a total uncompressed budget."""
+
+    def __init__(self, pdf_path: Path, entries: dict[str, object]) -> None:
+        self.pdf_path, self.entries, self.used = pdf_path, entries, 0
+
+    def read(self, name: str) -> bytes | None:
+        entry = self.entries.get(name)
+        if entry is None:
+            return None
+        data = entry.content
+        if len(data) > MAX_ATTACHMENT_BYTES:
+            raise NotAReport(
+                f"{self.pdf_path}: attachment {name!r} unpacks to {len(data)} bytes; "
+                f"expected at most {MAX_ATTACHMENT_BYTES}"
+            )
+        self.used += len(data)
+        if self.used > MAX_TOTAL_BYTES:
+            raise NotAReport(
+                f"{self.pdf_path}: the embedded inputs unpack to more than "
+                f"{MAX_TOTAL_BYTES} bytes in all; refused"
+            )
+        return data
+
+
+def _json(data: bytes, pdf_path: Path, what: str):
+    try:
+        return json.loads(decode_utf8(data, "UTF-8", drop_bom=False))
+    except (FileRefused, json.JSONDecodeError, RecursionError) as exc:
+        raise NotAReport(f"{pdf_path}: the embedded {what} are damaged") from exc
+
+
+@dataclass(frozen=True)
+class Embedded:
+    """A report's embedded manifest, results and input files (relative path → bytes),
+    read and checked but not yet written anywhere."""
+
+    job: str
+    schedules: tuple[str, ...]
+    files: dict[str, bytes]
+    results: dict
+    manifest: dict
+
+
+def read_report(pdf_path: str | Path) -> Embedded:
+    """Read and check what a report embeds, within bounded memory; write nothing.
+
+    Only the attachments the report's own manifest names are unpacked (each at most
+    ``MAX_ATTACHMENT_BYTES``, together at most ``MAX_TOTAL_BYTES``).
+
+    Raises
+    ------
+    NotAReport
+        Not a regular file or too large; unreadable as a PDF; encrypted with AES or a
+        password; duplicate attachment names; no feedcheck manifest or results; an
+        unsafe input name; results of the wrong shape (:func:`check_results_shape`).
+    """
+    from pypdf.errors import PyPdfError
+
+    pdf_path = Path(pdf_path)
+    log, level = _quiet_pypdf()
+    try:
+        reader = _open_pdf(pdf_path)
+        budget = _Budget(pdf_path, _attachment_entries(reader, pdf_path))
+        raw_manifest, raw_results = budget.read(MANIFEST_NAME), budget.read(RESULTS_NAME)
+        if raw_manifest is None or raw_results is None:
+            raise NotAReport(
+                f"{pdf_path}: not a feedcheck report (no embedded inputs and results)"
+            )
+        manifest = _json(raw_manifest, pdf_path, "manifest")
+        job, schedules = _manifest_names(manifest, pdf_path)
+        results = _json(raw_results, pdf_path, "results")
+        check_results_shape(results, pdf_path)
+        files: dict[str, bytes] = {}
+        for rel in (job, *schedules):
+            data = budget.read(INPUT_PREFIX + rel)
+            if data is None:
+                raise NotAReport(f"{pdf_path}: embedded input {rel!r} is missing")
+            files[rel] = data
+        return Embedded(job, schedules, files, results, manifest)
     except NotAReport:
         raise
-    except (OSError, PyPdfError, ValueError, KeyError, TypeError, AttributeError) as exc:
+    except (OSError, PyPdfError, ValueError, KeyError, TypeError, AttributeError,
+            RecursionError) as exc:
         raise NotAReport(f"{pdf_path}: cannot read it as a PDF ({exc})") from exc
     finally:
         log.setLevel(level)
+
+
+def _manifest_names(manifest, pdf_path: Path) -> tuple[str, tuple[str, ...]]:
+    """The job file's and the schedules' relative paths, checked safe and distinct."""
+    if not isinstance(manifest, dict) or manifest.get("format") != FORMAT:
+        raise NotAReport(f"{pdf_path}: unknown embedded-inputs format")
+    job_name = manifest.get("job")
+    schedules = manifest.get("schedules") or []
+    if (
+        not isinstance(job_name, str)
+        or not isinstance(schedules, list)
+        or not all(isinstance(s, str) for s in schedules)
+        or len(schedules) > MAX_ATTACHMENTS
+    ):
+        raise NotAReport(f"{pdf_path}: the embedded manifest is damaged")
+    names = [str(safe_relative(n)) for n in (job_name, *schedules)]
+    if len(set(names)) != len(names):
+        raise NotAReport(f"{pdf_path}: the embedded manifest names an input twice")
+    return names[0], tuple(names[1:])
+
+
+def _shape_problem(results) -> str | None:
+    if not isinstance(results, dict):
+        return f"the results are {_kind(results)}, not an object"
+    if not isinstance(results.get("job", {}), dict):
+        return f"'job' is {_kind(results['job'])}, not an object"
+    for key, need in (("nodes", ("id",)), ("findings", ("subject", "check"))):
+        if key not in results:
+            return f"'{key}' is missing"
+        items = results[key]
+        if not isinstance(items, list):
+            return f"'{key}' is {_kind(items)}, not a list"
+        for i, item in enumerate(items):
+            if not isinstance(item, dict):
+                return f"{key}[{i}] is {_kind(item)}, not an object"
+            for k in need:
+                if not isinstance(item.get(k), str):
+                    return f"{key}[{i}].{k} is {_kind(item.get(k))}, not a text"
+    tables = results.get("tables", [])
+    if not isinstance(tables, list):
+        return f"'tables' is {_kind(tables)}, not a list"
+    return None
+
+
+def _kind(v) -> str:
+    return "missing" if v is None else {
+        dict: "an object", list: "a list", str: "a text", bool: "true/false",
+        int: "a number", float: "a number"}.get(type(v), type(v).__name__)
+
+
+def check_results_shape(results, pdf_path: Path | str = "report") -> None:
+    """Refuse embedded results that are not shaped as ``render_json`` writes them:
+    an object with an optional ``job`` object, ``nodes`` (objects with a text ``id``)
+    and ``findings`` (objects with a text ``subject`` and ``check``) lists.
+
+    Raises
+    ------
+    NotAReport
+        Naming the first part of the wrong shape.
+    """
+    problem = _shape_problem(results)
+    if problem:
+        raise NotAReport(f"{pdf_path}: the embedded results are damaged: {problem}")
 
 
 def extract_inputs(pdf_path: str | Path, dest: str | Path) -> Extracted:
@@ -145,42 +329,22 @@ def extract_inputs(pdf_path: str | Path, dest: str | Path) -> Extracted:
     Raises
     ------
     NotAReport
-        The file is unreadable, has no feedcheck manifest or results, or an
-        attachment name would leave ``dest``.
+        As :func:`read_report`; nothing is written then.
     """
-    pdf_path = Path(pdf_path)
+    return write_inputs(read_report(pdf_path), dest)
+
+
+def write_inputs(emb: Embedded, dest: str | Path) -> Extracted:
+    """Write checked embedded inputs into ``dest`` (never outside it)."""
     dest = Path(dest).resolve()
-    found = _read_attachments(pdf_path)
-    if MANIFEST_NAME not in found or RESULTS_NAME not in found:
-        raise NotAReport(f"{pdf_path}: not a feedcheck report (no embedded inputs and results)")
-    try:
-        manifest = json.loads(decode_utf8(found[MANIFEST_NAME], "UTF-8", drop_bom=False))
-        results = json.loads(decode_utf8(found[RESULTS_NAME], "UTF-8", drop_bom=False))
-    except (FileRefused, json.JSONDecodeError) as exc:
-        raise NotAReport(f"{pdf_path}: the embedded manifest or results are damaged") from exc
-    if not isinstance(manifest, dict) or manifest.get("format") != FORMAT:
-        raise NotAReport(f"{pdf_path}: unknown embedded-inputs format")
-    if not isinstance(results, dict) or not {"nodes", "findings"} <= set(results):
-        raise NotAReport(f"{pdf_path}: the embedded results lack nodes and findings")
-    job_name = manifest.get("job")
-    schedules = manifest.get("schedules") or []
-    if not isinstance(job_name, str) or not isinstance(schedules, list):
-        raise NotAReport(f"{pdf_path}: the embedded manifest is damaged")
     written: dict[str, Path] = {}
-    for name in [job_name, *schedules]:
-        rel = safe_relative(str(name))
-        key = INPUT_PREFIX + str(rel)
-        if key not in found:
-            raise NotAReport(f"{pdf_path}: embedded input {str(rel)!r} is missing")
+    for rel, data in emb.files.items():
         target = (dest / rel).resolve()
         if not target.is_relative_to(dest):
-            raise NotAReport(f"unsafe attachment name {name!r}")
+            raise NotAReport(f"unsafe attachment name {rel!r}")
         target.parent.mkdir(parents=True, exist_ok=True)
-        target.write_bytes(found[key])
-        written[str(rel)] = target
+        target.write_bytes(data)
+        written[rel] = target
     return Extracted(
-        written[str(safe_relative(job_name))],
-        tuple(written[str(safe_relative(s))] for s in schedules),
-        results,
-        manifest,
+        written[emb.job], tuple(written[s] for s in emb.schedules), emb.results, emb.manifest
     )

@@ -122,10 +122,16 @@ def compare_results(report: dict, rerun: dict) -> tuple[int, list[Difference]]:
     return compared, diffs
 
 
+def _tables(results: dict) -> dict[str, dict]:
+    tables = results.get("tables", [])
+    if not isinstance(tables, list):
+        return {}
+    return {t["name"]: t for t in tables if isinstance(t, dict) and isinstance(t.get("name"), str)}
+
+
 def table_changes(report: dict, rerun: dict) -> list[str]:
     """Tables whose content (sha256) differs between the report and the re-run."""
-    old = {t["name"]: t for t in report.get("tables", []) if isinstance(t, dict) and "name" in t}
-    new = {t["name"]: t for t in rerun.get("tables", []) if isinstance(t, dict) and "name" in t}
+    old, new = _tables(report), _tables(rerun)
     out = []
     for name in sorted(set(old) & set(new)):
         if old[name].get("sha256") != new[name].get("sha256"):

@@ -107,9 +107,16 @@ def styles() -> dict[str, ParagraphStyle]:
     return _STYLES
 
 
+# Text the user wrote may be of any length: a schedule cell shows its first
+# SCHEDULE_CELL_CHARS characters, any other paragraph its first PARAGRAPH_CHARS, with an
+# ellipsis (the whole text stays in the embedded inputs and results).
+SCHEDULE_CELL_CHARS = 160
+PARAGRAPH_CHARS = 1500
+
+
 def p(text: object, style: str = "cell") -> Paragraph:
-    """Paragraph of plain (escaped) text."""
-    return Paragraph(escape(txt(text)), styles()[style])
+    """Paragraph of plain (escaped) text, clipped to ``PARAGRAPH_CHARS`` with an ellipsis."""
+    return Paragraph(escape(txt(_clip(text, PARAGRAPH_CHARS))), styles()[style])
 
 
 def status_cell(status: str) -> Paragraph:
@@ -387,7 +394,7 @@ def schedule_table(circuits, panel_id: str = "", display: Display = DEFAULT_DISP
         row = []
         for c in cols:
             dec = SCHEDULE_COLUMNS.get(c, ("", 0, None))[2]
-            text = _cell_text(c, rec.get(c), dec, display)
+            text = _clip(_cell_text(c, rec.get(c), dec, display), SCHEDULE_CELL_CHARS)
             bold = c == "status" and is_flagged(st)
             row.append(p(text, "schedb" if bold else "sched"))
         rows.append(row)
