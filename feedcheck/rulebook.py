@@ -17,7 +17,7 @@ user's table is honoured (no value of a table is repeated in the code).
 from __future__ import annotations
 
 from collections.abc import Mapping
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from pathlib import Path
 from types import MappingProxyType
 from typing import Any
@@ -162,6 +162,7 @@ class RuleBook:
     device_ratings_a: np.ndarray
     tables_dir: Path | None
     _rules: Mapping[str, RuleRow]
+    _rows: dict = field(default_factory=dict, compare=False, repr=False)
 
     @property
     def sizing(self) -> SizingData:
@@ -179,8 +180,12 @@ class RuleBook:
         return rule_id in self._rules
 
     def rows(self, table: str) -> tuple[Row, ...]:
-        """Every row of a table as read-only mappings, in file order."""
-        return _records(self.tables[table])
+        """Every row of a table as read-only mappings, in file order (made once per
+        table: the rows are read-only and the book's tables do not change)."""
+        rows = self._rows.get(table)
+        if rows is None:
+            rows = self._rows[table] = _records(self.tables[table])
+        return rows
 
     def table(self, name: str) -> Table:
         return self.tables[name]

@@ -38,7 +38,9 @@ def check_job_with_schedules(job: Job, schedules: dict, calc_date: str | None = 
     """Check a job whose panels' schedules are already read (``{panel_id: Schedule}``).
 
     Each panel's demand is computed once, used for the feed walk, and reused by its
-    circuit checks after the walk has given the panel its feeder drop.
+    circuit checks after the walk has given the panel its feeder drop. Panels alike in
+    system, occupancy and load unit are checked in one frame
+    (:class:`~feedcheck.checks.schedule_batch.ScheduleBatch`).
     """
     from .rulebook import current_rulebook
 
@@ -46,31 +48,14 @@ def check_job_with_schedules(job: Job, schedules: dict, calc_date: str | None = 
     if not schedules:
         return check_job(job, calc_date=calc_date, rules=book)
     from .checks.drop_rules import job_drop_limits
-    from .checks.schedules import check_schedule, schedule_demand
+    from .checks.schedule_batch import ScheduleBatch
 
-    tree = job.tree
-    panels = {p.id: p for p in job.panels}
-    demands = {
-        pid: schedule_demand(s, tree.voltage_of[pid], panels[pid].occupancy, book)
-        for pid, s in schedules.items()
-    }
-    results = check_job(job, {pid: d.load for pid, d in demands.items()}, calc_date, book)
+    batch = ScheduleBatch(job, schedules, book)
+    results = check_job(job, batch.loads(), calc_date, book)
     # branch drops add to the conductor drop since the transformer secondary (the same
     # basis as the panel's own total-drop check), under the job's drop limits
     drops = {n.id: float(n.values.get("conductor_vdrop_pct", 0.0) or 0.0) for n in results.nodes}
-    limits = job_drop_limits(job, book)
-    for pid, s in schedules.items():
-        res = check_schedule(
-            s,
-            tree.voltage_of[pid],
-            feeder_drop_pct=drops.get(pid, 0.0),
-            occupancy=panels[pid].occupancy,
-            bus_a=panels[pid].rating_a,
-            main_a=panels[pid].main_device_a,
-            limits=limits,
-            demand=demands[pid],
-            rules=book,
-        )
+    for pid, res in batch.check(drops, job_drop_limits(job, book)).items():
         results.schedules[pid] = res
         results.findings.extend(res.findings)
     return results

@@ -16,6 +16,7 @@ import re
 from functools import lru_cache
 
 from .model import VoltageSystem
+from .units_fast import fast_convert
 
 # Digits may be grouped by thousands with "," (1,200 ft) or by "_" (1_200 ft); a comma
 # in any other place ("1,5 m", a decimal comma) is refused rather than misread as 15 m.
@@ -100,15 +101,25 @@ _APPARENT_RE = re.compile(r"^(?:[kMG]?VA|(?:kilo|mega|giga)?volt_?ampere)$")
 @lru_cache(maxsize=1)
 def registry():
     """The package's single pint UnitRegistry (created on first use)."""
-    import pint
-
-    ureg = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+    ureg = _new_registry()
     ureg.define("var = volt * ampere = VAr")
     ureg.define("kvar = 1000 * var")
     ureg.define("cycle = second / 60")  # one cycle of a 60 Hz system
     # Electrical horsepower (746 W), as on motor nameplates and in the motor tables.
     ureg.define("hp = 746 * watt = HP")
     return ureg
+
+
+def _new_registry():
+    """pint's default registry, from pint's on-disk cache of its parsed definitions when
+    one can be kept (the user's cache folder); built from the definition files when the
+    cache cannot be read or written (a read-only home), silently: same units either way."""
+    import pint
+
+    try:
+        return pint.UnitRegistry(autoconvert_offset_to_baseunit=True, cache_folder=":auto:")
+    except Exception:  # an unusable cache folder: no cache
+        return pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
 
 
 def Q_(value, unit: str):
@@ -241,7 +252,13 @@ def _number_and_unit(
 
 
 def _convert(value: float, unit: str, dimension: str, text: str, expected: str) -> float:
-    """``value`` in ``unit`` converted by pint to the SI unit of ``dimension``."""
+    """``value`` in ``unit`` converted to the SI unit of ``dimension``: the units users
+    type most without building the registry (:mod:`feedcheck.units_fast`), pint otherwise."""
+    fast = fast_convert(value, unit, dimension)
+    if fast is not None:
+        if not math.isfinite(fast):
+            raise UnitParseError(text, expected + " (a finite number)")
+        return fast
     ureg = registry()
     si_unit = DIMENSIONS[dimension][1]
     shown = unit if len(unit) <= 40 else unit[:37] + "..."

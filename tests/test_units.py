@@ -73,3 +73,51 @@ def test_single_phase_plain_voltage_needs_phase_count():
 def test_bad_voltage_systems(text):
     with pytest.raises(UnitParseError):
         parse_voltage_system(text)
+
+
+# ---- the conversion table used without the pint registry (feedcheck.units_fast)
+def test_fast_units_match_pint_bit_for_bit():
+    """Every entry of the fast table gives the float pint gives (the reference library:
+    pint's own definitions, e.g. foot = 12 inch, inch = 2.54 cm; kcmil = 1000 cmil)."""
+    import numpy as np
+
+    from feedcheck.units import DIMENSIONS, Q_
+    from feedcheck.units_fast import FAST_UNITS
+
+    rng = np.random.default_rng(17)
+    values = [*rng.uniform(0, 1e4, 300).round(3).tolist(), 0.1, 0.3, 85.0, 95.0, 1e-9, 1e12]
+    for unit, (dimension, factor) in FAST_UNITS.items():
+        si = "degC" if dimension == "temperature" else DIMENSIONS[dimension][1]
+        for v in values:
+            assert v * factor == float(Q_(v, unit).to(si).magnitude), (unit, v)
+
+
+def test_fast_path_and_pint_fallback_agree_through_parse_quantity():
+    # an unlisted unit (yd) still goes through pint: 1 yd = 0.9144 m (NIST SP 811, B.8)
+    assert parse_quantity("3 yd", "length") == pytest.approx(2.7432, rel=1e-12)
+    # a listed unit of the wrong kind is refused by pint's dimension check as before
+    with pytest.raises(UnitParseError):
+        parse_quantity("3 ft", "current")
+    with pytest.raises(UnitParseError, match="finite"):
+        parse_quantity("1e308 kA", "current")
+
+
+def test_registry_without_a_writable_cache_folder(tmp_path):
+    """pint's definition cache unusable (cache folder under a file): the registry is
+    built from the definitions silently, and units still convert."""
+    import os
+    import subprocess
+    import sys
+
+    blocker = tmp_path / "file"
+    blocker.write_text("")
+    env = {**os.environ, "XDG_CACHE_HOME": str(blocker / "cache"), "HOME": str(blocker)}
+    code = (
+        "from feedcheck.units import registry, parse_quantity;"
+        "registry();print(parse_quantity('3 yd', 'length'))"
+    )
+    out = subprocess.run(
+        [sys.executable, "-W", "error", "-c", code], env=env, capture_output=True, text=True
+    )
+    assert out.returncode == 0, out.stderr
+    assert float(out.stdout) == pytest.approx(2.7432, rel=1e-12)

@@ -10,6 +10,7 @@ from ..errors import ProblemList
 MAX_PROBLEMS = 100  # bad cells listed one by one; the rest are counted
 # control characters (tab, LF and CR are cell separators, never inside a number)
 CONTROL_RE = r"[\x00-\x1f\x7f]"
+SMALL_COLUMN = 2000  # up to this many cells: factorised without pandas
 _TRUE = {"yes", "y", "true", "t", "1", "x", "c", "cont", "continuous"}
 _FALSE = {"no", "n", "false", "f", "0", "", "-", "nc"}
 
@@ -18,7 +19,15 @@ def factorised(raw: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     """Column cells as (codes, distinct stripped texts): ``texts[codes]`` is the column.
 
     Every parse and test below runs once per distinct text, not once per cell.
+    A short column of texts is numbered in plain Python (pandas' fixed cost per call
+    outweighs the work there); the result is the same.
     """
+    if len(raw) <= SMALL_COLUMN:
+        cells = raw.tolist()
+        if all(type(t) is str for t in cells):
+            seen: dict[str, int] = {}
+            codes = np.array([seen.setdefault(t.strip(), len(seen)) for t in cells], np.intp)
+            return codes, np.array([*seen, None], dtype=object)[:-1]
     import pandas as pd
 
     codes, uniq = pd.factorize(raw)

@@ -1,0 +1,206 @@
+"""A job's panel schedules checked together: one frame per kind of panel, not one per panel.
+
+The schedule checks cost a fixed amount per call (pandas frames, factorising, one
+Series per column) whatever the schedule's size, while the per-circuit work is a few
+microseconds: a 1,000-panel job spent most of its check in those fixed costs. Here the
+schedules of every panel sharing a voltage system, an occupancy and a load unit are
+joined into one frame with a ``panel`` column (the multi-panel form the schedule checks
+already accept), checked once with each panel's own feeder drop, bus and main ratings,
+and split back into one :class:`~feedcheck.checks.schedules.ScheduleResult` per panel:
+the same figures, findings and order as checking each panel on its own
+(``tests/checks/test_schedule_batch.py`` holds the two against each other).
+
+A group of one panel, or a group whose joined check reports bad input (a conductor the
+table lacks: the message must name the panel's own file), is checked panel by panel.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..errors import InputError, ProblemList
+from ..model import Job, Schedule, VoltageSystem
+from ..rulebook import RuleBook
+from .schedule_circuits import circuit_quantities
+from .schedule_rules import apply_rules, circuit_findings
+from .schedules import (
+    ScheduleDemand,
+    ScheduleResult,
+    _circuits_frame,
+    _Deferred,
+    _panel_findings,
+    _panel_table,
+    _phases,
+    _rule_rows,
+    check_schedule,
+    schedule_demand,
+)
+
+
+@dataclass
+class _Group:
+    system: VoltageSystem
+    occupancy: str
+    ids: list[str]
+    joined: Schedule | None = None  # None: checked panel by panel
+    demand: ScheduleDemand | None = None
+
+
+class ScheduleBatch:
+    """Every schedule of a job: demand first (for the feed walk), circuit checks after."""
+
+    def __init__(self, job: Job, schedules: dict[str, Schedule], book: RuleBook):
+        self.job, self.schedules, self.book = job, schedules, book
+        self.panels = {p.id: p for p in job.panels}
+        groups: dict[tuple, _Group] = {}
+        for pid, s in schedules.items():
+            v, occ = job.tree.voltage_of[pid], self.panels[pid].occupancy
+            key = (v, occ, s.load_unit)
+            groups.setdefault(key, _Group(v, occ, [])).ids.append(pid)
+        self.groups = list(groups.values())
+        self.demands: dict[str, ScheduleDemand] = {}
+        for g in self.groups:
+            if len(g.ids) > 1:
+                g.joined = _join([schedules[p] for p in g.ids])
+                g.demand = schedule_demand(g.joined, g.system, g.occupancy, book)
+            else:
+                pid = g.ids[0]
+                self.demands[pid] = schedule_demand(schedules[pid], g.system, g.occupancy, book)
+
+    def loads(self) -> dict:
+        """Each panel's demand load for the feed walk, ``{panel_id: Load}``."""
+        out = {}
+        for g in self.groups:
+            if g.demand is not None:
+                out.update(g.demand.loads)
+            else:
+                out[g.ids[0]] = self.demands[g.ids[0]].load
+        return {pid: out[pid] for pid in self.schedules}
+
+    def check(self, drops: dict[str, float], limits: dict) -> dict[str, ScheduleResult]:
+        """Every panel's checked schedule, in the order the schedules were given."""
+        out: dict[str, ScheduleResult] = {}
+        for g in self.groups:
+            done = None
+            if g.joined is not None:
+                try:
+                    done = self._check_joined(g, drops, limits)
+                except InputError:
+                    done = None  # re-checked one by one: the message names the file
+            if done is None:
+                done = {pid: self._check_one(pid, g, drops, limits) for pid in g.ids}
+            out.update(done)
+        return {pid: out[pid] for pid in self.schedules}
+
+    def _check_one(self, pid, g: _Group, drops, limits) -> ScheduleResult:
+        p = self.panels[pid]
+        return check_schedule(
+            self.schedules[pid],
+            g.system,
+            feeder_drop_pct=drops.get(pid, 0.0),
+            occupancy=g.occupancy,
+            bus_a=p.rating_a,
+            main_a=p.main_device_a,
+            limits=limits,
+            demand=self.demands.get(pid)
+            or schedule_demand(self.schedules[pid], g.system, g.occupancy, self.book),
+            rules=self.book,
+        )
+
+    def _check_joined(self, g: _Group, drops, limits) -> dict[str, ScheduleResult]:
+        """The group's circuits in one frame, split back per panel (as check_schedule)."""
+        s, system, demand = g.joined, g.system, g.demand
+        rules = _rule_rows(self.book)
+        c = s.circuits
+        q = circuit_quantities(
+            c,
+            s.load_unit,
+            system,
+            {pid: drops.get(pid, 0.0) for pid in g.ids},
+            limits,
+            ProblemList(str(s.path)),
+            self.book,
+        )
+        statuses = {k: str(r["status"]) for k, r in rules.items()}
+        sev, reason, found = apply_rules(q, len(c), statuses, limits)
+        per_phase, phase_txt = _phases(q["poles"], q["circuit"], demand, system)
+        panels, design_va, imbalance = _panel_table(demand, per_phase, sev, system)
+        counts = [
+            (getattr(self.schedules[pid], "spaces", {}) or {}).get(pid, (0, 0))
+            for pid in demand.panel_ids
+        ]
+        panels["spares"] = [int(n[0]) for n in counts]
+        panels["spaces"] = [int(n[1]) for n in counts]
+        circuits = _circuits_frame(c, q, phase_txt, sev, reason)
+        loads = demand.loads
+        starts = np.searchsorted(demand.panel_code, np.arange(len(g.ids) + 1))
+        out = {}
+        for j, pid in enumerate(demand.panel_ids):
+            a, b = int(starts[j]), int(starts[j + 1])
+            p = self.panels[pid]
+            panel_row = panels.iloc[j : j + 1].reset_index(drop=True)
+            findings = _panel_findings(
+                panel_row,
+                design_va[j : j + 1],
+                imbalance[j : j + 1],
+                per_phase[j : j + 1],
+                rules,
+                system,
+                p.rating_a,
+                p.main_device_a,
+            )
+            mine = _slice_found(found, a, b)
+            any_fail = any(f[6] == "fail" for f in mine) or any(
+                f.status == "fail" for f in findings
+            )
+            out[pid] = ScheduleResult(
+                self.schedules[pid].path,
+                system.text,
+                circuits.iloc[a:b].reset_index(drop=True),
+                _totals_of(panel_row, g.occupancy, system),
+                panel_row,
+                _Deferred(_builder(q["panel"][a:b], q["circuit"][a:b], mine, findings), any_fail),
+                loads[pid],
+                {pid: loads[pid]},
+                list(getattr(self.schedules[pid], "notices", ())),
+                getattr(self.schedules[pid], "length_unit", "ft"),
+            )
+        return out
+
+
+def _builder(panel, circuit, found, findings):
+    return lambda: circuit_findings(panel, circuit, found) + findings
+
+
+def _join(schedules: list[Schedule]) -> Schedule:
+    """One schedule holding the circuits of several one-panel schedules, in order."""
+    import pandas as pd
+
+    circuits = pd.concat([s.circuits for s in schedules], ignore_index=True)
+    panels = tuple(p for s in schedules for p in s.panels)
+    return Schedule(schedules[0].path, circuits, schedules[0].load_unit, panels)
+
+
+def _slice_found(found: list, a: int, b: int) -> list:
+    """The rule failures of circuits ``a:b`` renumbered from 0 (rules without one
+    dropped), as :func:`~feedcheck.checks.schedule_rules.apply_rules` gives them."""
+    out = []
+    for name, rid, idx, vals, lims, unit, status, texts in found:
+        sel = (idx >= a) & (idx < b)
+        if sel.any():
+            out.append((name, rid, idx[sel] - a, vals[sel], lims[sel], unit, status, texts[sel]))
+    return out
+
+
+def _totals_of(panel_row, occupancy: str, system: VoltageSystem) -> dict:
+    """One panel's totals, as :func:`feedcheck.checks.schedules.check_schedule` gives
+    them for a one-panel schedule."""
+    totals = {
+        k: (float(v) if isinstance(v, (int, float, np.floating, np.integer)) else v)
+        for k, v in panel_row.iloc[0].to_dict().items()
+    }
+    totals["occupancy"] = occupancy
+    totals["system"] = system.text
+    return totals

@@ -1,0 +1,50 @@
+"""The job's schedules checked in one frame equal each schedule checked on its own
+(identity between two ways of the same computation, on invented data)."""
+
+import pandas as pd
+
+from feedcheck.checks.schedules import check_schedule, schedule_demand
+from feedcheck.inputs.job_file import read_job
+from feedcheck.rulebook import current_rulebook
+from feedcheck.runner import _read_job_schedules, check_job_with_schedules
+from tests.bench.bench_building import job_text
+
+
+def test_one_frame_equals_panel_by_panel(tmp_path):
+    (tmp_path / "job.toml").write_text(job_text(12, tmp_path), encoding="utf-8")
+    job = read_job(tmp_path / "job.toml")
+    schedules = _read_job_schedules(job)
+    res = check_job_with_schedules(job, schedules, "2026-12-01")
+    book = current_rulebook()
+    from feedcheck.checks.drop_rules import job_drop_limits
+
+    limits = job_drop_limits(job, book)
+    drops = {n.id: float(n.values.get("conductor_vdrop_pct", 0.0) or 0.0) for n in res.nodes}
+    assert list(res.schedules) == list(schedules) and len(schedules) == 12
+    for p in job.panels:
+        v = job.tree.voltage_of[p.id]
+        alone = check_schedule(
+            schedules[p.id],
+            v,
+            feeder_drop_pct=drops[p.id],
+            occupancy=p.occupancy,
+            bus_a=p.rating_a,
+            main_a=p.main_device_a,
+            limits=limits,
+            demand=schedule_demand(schedules[p.id], v, p.occupancy, book),
+            rules=book,
+        )
+        got = res.schedules[p.id]
+        pd.testing.assert_frame_equal(got.circuits, alone.circuits, check_exact=True)
+        pd.testing.assert_frame_equal(got.panels, alone.panels, check_exact=True)
+        assert got.totals == alone.totals
+        assert got.exit_code == alone.exit_code
+        assert got.findings == alone.findings
+        assert (got.path, got.system, got.demand, got.demands) == (
+            alone.path,
+            alone.system,
+            alone.demand,
+            alone.demands,
+        )
+    # the failing circuits of the invented data make the comparison bite
+    assert any(f.status == "fail" for r in res.schedules.values() for f in r.findings)
