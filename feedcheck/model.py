@@ -28,9 +28,24 @@ INSULATION_RATINGS_C = (60.0, 75.0, 90.0)  # conductor insulation / terminal col
 # occupancies: the lighting demand factor rows of Table 220.42 (other, dwelling, hospital,
 # hotel, warehouse; the rest at 100 % like "other") and the unit loads of Table 220.12
 OCCUPANCIES = (
-    "other", "dwelling", "hospital", "hotel", "warehouse",
-    "auditorium", "bank", "barber", "church", "club", "courtroom", "garage", "industrial",
-    "lodge", "office", "restaurant", "school", "store",
+    "other",
+    "dwelling",
+    "hospital",
+    "hotel",
+    "warehouse",
+    "auditorium",
+    "bank",
+    "barber",
+    "church",
+    "club",
+    "courtroom",
+    "garage",
+    "industrial",
+    "lodge",
+    "office",
+    "restaurant",
+    "school",
+    "store",
 )
 LOAD_KINDS = ("lighting", "receptacle", "motor", "heating", "other")  # schedule circuits
 # system shapes (VoltageSystem.kind): 208Y/120 wye, 480 V delta, 120/240 split-phase

@@ -261,8 +261,13 @@ def _ampacity(tabs: Mapping[str, Table], rules: Mapping[str, RuleRow]) -> Ampaci
         adj["factor"].to_numpy(float),
         tuple(adj["rule_id"].astype(str)),
         tuple(
-            (str(r.edition), float(r.height_from_mm), float(r.height_to_mm), float(r.adder_c),
-             str(r.rule_id))
+            (
+                str(r.edition),
+                float(r.height_from_mm),
+                float(r.height_to_mm),
+                float(r.adder_c),
+                str(r.rule_id),
+            )
             for r in roof.itertuples(index=False)
         ),
         _need(rules, tabs, "ampacity_rules", "continuous-125").number() / 100.0,
@@ -349,14 +354,24 @@ def _withstand(tabs: Mapping[str, Table]) -> WithstandData:
 
     rows = tuple(
         KSpec(
-            str(r.insulation), str(r.conductor_role), str(r.material), float(r.initial_c),
-            float(r.final_c), float(r.max_area_mm2), float(r.k), str(r.rule_id),
+            str(r.insulation),
+            str(r.conductor_role),
+            str(r.material),
+            float(r.initial_c),
+            float(r.final_c),
+            float(r.max_area_mm2),
+            float(r.k),
+            str(r.rule_id),
         )
         for r in tabs["withstand_k"].data.itertuples(index=False)
     )
     return WithstandData(
-        rows, m("beta_c"), m("heat_capacity_j_per_k_mm3"), m("rho20_ohm_mm2_per_m"),
-        m("icea_k"), m("icea_t0_c"),
+        rows,
+        m("beta_c"),
+        m("heat_capacity_j_per_k_mm3"),
+        m("rho20_ohm_mm2_per_m"),
+        m("icea_k"),
+        m("icea_t0_c"),
     )
 
 

@@ -25,9 +25,7 @@ ampacity_a = partial(_ak.ampacity_a, tables=BOOK.ampacity)
 ampacity_chain = partial(_ak.ampacity_chain, tables=BOOK.ampacity)
 rooftop_adder_c = partial(_ak.rooftop_adder_c, tables=BOOK.ampacity)
 # conductor impedance
-ac_impedance_computed_ohm_per_m = partial(
-    _ck.ac_impedance_computed_ohm_per_m, data=BOOK.conductors
-)
+ac_impedance_computed_ohm_per_m = partial(_ck.ac_impedance_computed_ohm_per_m, data=BOOK.conductors)
 ac_impedance_ohm_per_m = partial(_ck.ac_impedance_ohm_per_m, data=BOOK.conductors)
 dc_resistance_ohm_per_m = partial(_ck.dc_resistance_ohm_per_m, data=BOOK.conductors)
 impedance_method = partial(_ck.impedance_method, data=BOOK.conductors)

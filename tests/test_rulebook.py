@@ -119,9 +119,24 @@ def _check_both(tmp_path, write_job):
 
 
 def _calc_fault_10pct(tables_dir) -> str:
-    args = ["calc", "fault", "--kva", "75kVA", "--primary", "480 V delta", "--secondary",
-            "208Y/120 V", "--z", "5%", "--x-r", "3", "--source-fault", "30kA",
-            "--factors", "iec-10pct"]
+    args = [
+        "calc",
+        "fault",
+        "--kva",
+        "75kVA",
+        "--primary",
+        "480 V delta",
+        "--secondary",
+        "208Y/120 V",
+        "--z",
+        "5%",
+        "--x-r",
+        "3",
+        "--source-fault",
+        "30kA",
+        "--factors",
+        "iec-10pct",
+    ]
     if tables_dir is not None:
         args = ["--tables", str(tables_dir), *args]
     res = CliRunner().invoke(main, args)
@@ -186,7 +201,8 @@ def test_missing_fault_row_is_an_input_error(tmp_path):
     d.mkdir()
     src = shipped_tables_dir() / "fault_assumptions.csv"
     text = "".join(
-        x for x in src.read_text(encoding="utf-8").splitlines(keepends=True)
+        x
+        for x in src.read_text(encoding="utf-8").splitlines(keepends=True)
         if not x.startswith("fault-c-min,")
     )
     (d / "fault_assumptions.csv").write_text(text, encoding="utf-8")

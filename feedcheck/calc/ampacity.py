@@ -101,10 +101,14 @@ def ambient_factor(insulation_c, ambient_c):
     ta = np.asarray(ambient_c, dtype=float)
     if not np.all(np.isfinite(ta)) or np.any(ta >= tc) or np.any(ta < -50.0):
         bad = np.broadcast_to(ta, np.broadcast(ta, tc).shape)[
-            ~np.broadcast_to(np.isfinite(ta) & (ta < tc) & (ta >= -50.0),
-                             np.broadcast(ta, tc).shape)].ravel()[0]
-        raise ValueError(f"ambient_c: got {bad:g} °C; expected −50 °C up to below the "
-                         "insulation rating (no ampacity is left at or above it)")
+            ~np.broadcast_to(
+                np.isfinite(ta) & (ta < tc) & (ta >= -50.0), np.broadcast(ta, tc).shape
+            )
+        ].ravel()[0]
+        raise ValueError(
+            f"ambient_c: got {bad:g} °C; expected −50 °C up to below the "
+            "insulation rating (no ampacity is left at or above it)"
+        )
     f = np.sqrt((tc - ta) / (tc - 30.0))
     return f[()] if f.ndim == 0 else f
 
@@ -125,8 +129,10 @@ def adjustment_factor(current_carrying, *, tables: AmpacityTables):
     t = tables
     n = np.asarray(current_carrying)
     if not np.all((n >= 1) & (n == np.floor(n))):
-        raise ValueError(f"current_carrying: got {current_carrying}; expected a whole number ≥ 1 "
-                         "of current-carrying conductors in the raceway")
+        raise ValueError(
+            f"current_carrying: got {current_carrying}; expected a whole number ≥ 1 "
+            "of current-carrying conductors in the raceway"
+        )
     row = np.searchsorted(t.adj_to, n.astype(np.int64), side="left")
     f = t.adj_factor[np.minimum(row, len(t.adj_factor) - 1)]
     return f[()] if f.ndim == 0 else f
@@ -154,8 +160,13 @@ def count_current_carrying(ungrounded, neutral: bool = False, neutral_counts: bo
     return int(n) if n.ndim == 0 else n
 
 
-def rooftop_adder_c(height_above_roof_m: float, edition: str = "2017", xhhw2: bool = False,
-                    *, tables: AmpacityTables) -> tuple[float, str]:
+def rooftop_adder_c(
+    height_above_roof_m: float,
+    edition: str = "2017",
+    xhhw2: bool = False,
+    *,
+    tables: AmpacityTables,
+) -> tuple[float, str]:
     """Temperature adder [°C] for a sunlit rooftop raceway, and its rule id.
 
     ``edition="2017"`` (2017 and later): 33 °C below 23 mm (7/8 in), else 0; XHHW-2 is
@@ -176,8 +187,9 @@ def rooftop_adder_c(height_above_roof_m: float, edition: str = "2017", xhhw2: bo
         raise ValueError(f"height_above_roof_m: got {height_above_roof_m}; expected ≥ 0 m")
     rows = [r for r in t.rooftop if r[0] == str(edition)]
     if not rows:
-        raise ValueError(f"edition: got {edition!r}; expected one of "
-                         f"{sorted({r[0] for r in t.rooftop})}")
+        raise ValueError(
+            f"edition: got {edition!r}; expected one of {sorted({r[0] for r in t.rooftop})}"
+        )
     if xhhw2 and str(edition) != "2011":
         return 0.0, rows[0][4]
     for _, _lo, hi, adder, rid in rows:
@@ -206,21 +218,36 @@ def termination_c_for(circuit_a, size, equipment_75c: bool = False):
 
 
 def _base(tables, free_air, m, col, idx):
-    table = np.where(np.asarray(free_air, dtype=bool), tables.free_air_a[m, col, idx],
-                     tables.raceway_a[m, col, idx])
+    table = np.where(
+        np.asarray(free_air, dtype=bool),
+        tables.free_air_a[m, col, idx],
+        tables.raceway_a[m, col, idx],
+    )
     if np.any(np.isnan(table)):
         pos = np.flatnonzero(np.isnan(np.asarray(table).ravel()))[0]
         name = SIZE_NAMES[np.asarray(idx).ravel()[pos]]
         mat = ("cu", "al")[np.asarray(m).ravel()[pos]]
-        raise ValueError(f"size: got {name!r} {mat}; expected a size the ampacity table lists "
-                         "for that material (14 AWG … 2000 kcmil Cu, 12 AWG … 2000 kcmil Al; "
-                         "metric sizes within that area range)")
+        raise ValueError(
+            f"size: got {name!r} {mat}; expected a size the ampacity table lists "
+            "for that material (14 AWG … 2000 kcmil Cu, 12 AWG … 2000 kcmil Al; "
+            "metric sizes within that area range)"
+        )
     return table
 
 
-def ampacity_a(size, material, insulation_c, ambient_c=30.0, current_carrying=3,
-               termination_c=75.0, sets=1, free_air=False, rooftop_adder_c=0.0,
-               *, tables: AmpacityTables):
+def ampacity_a(
+    size,
+    material,
+    insulation_c,
+    ambient_c=30.0,
+    current_carrying=3,
+    termination_c=75.0,
+    sets=1,
+    free_air=False,
+    rooftop_adder_c=0.0,
+    *,
+    tables: AmpacityTables,
+):
     """Allowable ampacity [A] of a run after every correction and the termination cap.
 
     Vectorised: every argument may be an array (broadcast together); sizes are names.
@@ -278,11 +305,15 @@ def ampacity_a(size, material, insulation_c, ambient_c=30.0, current_carrying=3,
     if not np.all((n_sets >= 1) & (n_sets == np.floor(n_sets))):
         raise ValueError(f"sets: got {sets}; expected a whole number ≥ 1")
     if np.any((n_sets > 1) & (AREA_MM2[idx] < PARALLEL_MIN_AREA_MM2 * (1 - 1e-9))):
-        raise ValueError("sets: conductors in parallel must be 1/0 AWG or larger "
-                         "(NFPA 70 310.10(G)(1)); got a smaller size with sets > 1")
+        raise ValueError(
+            "sets: conductors in parallel must be 1/0 AWG or larger "
+            "(NFPA 70 310.10(G)(1)); got a smaller size with sets > 1"
+        )
     base = _base(t, free_air, m, ci, idx)
-    fa = ambient_factor(np.asarray(COLUMNS_C)[ci], np.asarray(ambient_c, dtype=float)
-                        + np.asarray(rooftop_adder_c, dtype=float))
+    fa = ambient_factor(
+        np.asarray(COLUMNS_C)[ci],
+        np.asarray(ambient_c, dtype=float) + np.asarray(rooftop_adder_c, dtype=float),
+    )
     fadj = adjustment_factor(current_carrying, tables=t)
     cap = _base(t, free_air, m, ct, idx)
     out = np.round(np.minimum(base * fa * fadj, cap) * n_sets, 9)
@@ -325,26 +356,52 @@ class AmpacityChain:
     def steps(self) -> tuple[tuple[str, float, str, str], ...]:
         """(label, value, unit, rule id) for each link of the chain, in order."""
         return (
-            (f"table ampacity, {self.insulation_c:g} °C column, one conductor",
-             self.base_per_set_a, "A", self.table_rule_id),
-            ("ambient used (with rooftop adder)", self.ambient_c + self.rooftop_adder_c, "°C",
-             "ambient-formula"),
+            (
+                f"table ampacity, {self.insulation_c:g} °C column, one conductor",
+                self.base_per_set_a,
+                "A",
+                self.table_rule_id,
+            ),
+            (
+                "ambient used (with rooftop adder)",
+                self.ambient_c + self.rooftop_adder_c,
+                "°C",
+                "ambient-formula",
+            ),
             ("ambient correction factor", self.ambient_factor, "", "ambient-formula"),
-            (f"adjustment factor, {self.current_carrying} current-carrying",
-             self.adjustment_factor, "", self.adjustment_rule_id),
+            (
+                f"adjustment factor, {self.current_carrying} current-carrying",
+                self.adjustment_factor,
+                "",
+                self.adjustment_rule_id,
+            ),
             ("parallel sets", float(self.sets), "", "parallel-min-1/0"),
             ("corrected ampacity", self.corrected_a, "A", "adjust-more-than-3"),
-            (f"termination limit, {self.termination_c:g} °C column", self.termination_cap_a,
-             "A", "term-60c-100a" if self.termination_c == 60 else "term-75c-over-100a"),
+            (
+                f"termination limit, {self.termination_c:g} °C column",
+                self.termination_cap_a,
+                "A",
+                "term-60c-100a" if self.termination_c == 60 else "term-75c-over-100a",
+            ),
             ("allowable ampacity", self.final_a, "A", self.table_rule_id),
         )
 
 
-def ampacity_chain(size: str, material: str, insulation_c: float, ambient_c: float = 30.0,
-                   current_carrying: int = 3, termination_c: float = 75.0, sets: int = 1,
-                   free_air: bool = False, rooftop_adder_c: float = 0.0,
-                   continuous_a: float = 0.0, noncontinuous_a: float = 0.0,
-                   *, tables: AmpacityTables) -> AmpacityChain:
+def ampacity_chain(
+    size: str,
+    material: str,
+    insulation_c: float,
+    ambient_c: float = 30.0,
+    current_carrying: int = 3,
+    termination_c: float = 75.0,
+    sets: int = 1,
+    free_air: bool = False,
+    rooftop_adder_c: float = 0.0,
+    continuous_a: float = 0.0,
+    noncontinuous_a: float = 0.0,
+    *,
+    tables: AmpacityTables,
+) -> AmpacityChain:
     """The ampacity chain of one run, with the continuous-load checks.
 
     Same method as :func:`ampacity_a`, keeping every factor. Load checks follow
@@ -370,8 +427,20 @@ def ampacity_chain(size: str, material: str, insulation_c: float, ambient_c: flo
     for name, v in (("continuous_a", continuous_a), ("noncontinuous_a", noncontinuous_a)):
         if not (np.isfinite(v) and v >= 0):
             raise ValueError(f"{name}: got {v}; expected a load current ≥ 0 A")
-    final = float(ampacity_a(size, material, insulation_c, ambient_c, current_carrying,
-                             termination_c, sets, free_air, rooftop_adder_c, tables=t))
+    final = float(
+        ampacity_a(
+            size,
+            material,
+            insulation_c,
+            ambient_c,
+            current_carrying,
+            termination_c,
+            sets,
+            free_air,
+            rooftop_adder_c,
+            tables=t,
+        )
+    )
     idx = int(size_index(size))
     m = int(material_index(material))
     ci = int(_column(insulation_c, "insulation_c"))
@@ -387,15 +456,40 @@ def ampacity_chain(size: str, material: str, insulation_c: float, ambient_c: flo
     req_after = continuous_a + noncontinuous_a
     table_rule = "nec-310.17" if free_air else "nec-310.16"
     adj_rule = _adjustment_rule(current_carrying, t)
-    rules = [table_rule, "ambient-formula", adj_rule,
-             "term-60c-100a" if termination_c == 60 else "term-75c-over-100a",
-             "continuous-125", "load-after-derating"]
+    rules = [
+        table_rule,
+        "ambient-formula",
+        adj_rule,
+        "term-60c-100a" if termination_c == 60 else "term-75c-over-100a",
+        "continuous-125",
+        "load-after-derating",
+    ]
     if sets > 1:
         rules.append("parallel-min-1/0")
     return AmpacityChain(
-        SIZE_NAMES[idx], ("cu", "al")[m], "interpolated" if t.interpolated[idx] else "table",
-        float(insulation_c), base, float(ambient_c), float(rooftop_adder_c), fa,
-        int(current_carrying), fadj, adj_rule, int(sets), corrected, float(termination_c),
-        cap, final, "termination limit" if cap < corrected else "corrected insulation column",
-        table_rule, float(continuous_a), float(noncontinuous_a), req_before,
-        before >= req_before - 1e-9, req_after, final >= req_after - 1e-9, tuple(rules))
+        SIZE_NAMES[idx],
+        ("cu", "al")[m],
+        "interpolated" if t.interpolated[idx] else "table",
+        float(insulation_c),
+        base,
+        float(ambient_c),
+        float(rooftop_adder_c),
+        fa,
+        int(current_carrying),
+        fadj,
+        adj_rule,
+        int(sets),
+        corrected,
+        float(termination_c),
+        cap,
+        final,
+        "termination limit" if cap < corrected else "corrected insulation column",
+        table_rule,
+        float(continuous_a),
+        float(noncontinuous_a),
+        req_before,
+        before >= req_before - 1e-9,
+        req_after,
+        final >= req_after - 1e-9,
+        tuple(rules),
+    )

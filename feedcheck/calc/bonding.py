@@ -45,11 +45,13 @@ class JumperTable:
         ``cu_up_to_kcmil``, ``al_up_to_kcmil``, ``jumper_cu``, ``jumper_al``,
         ``jumper_cu_kcmil``, ``jumper_al_kcmil``, ``percent_of_area``, ``rule_id``)."""
         rows = list(records)
-        return cls({m: tuple(float(r[f"{m}_up_to_kcmil"]) for r in rows) for m in MATERIALS},
-                   {m: tuple(float(r[f"jumper_{m}_kcmil"]) for r in rows) for m in MATERIALS},
-                   {m: tuple(str(r[f"jumper_{m}"]) for r in rows) for m in MATERIALS},
-                   tuple(float(r["percent_of_area"]) for r in rows),
-                   tuple(str(r["rule_id"]) for r in rows))
+        return cls(
+            {m: tuple(float(r[f"{m}_up_to_kcmil"]) for r in rows) for m in MATERIALS},
+            {m: tuple(float(r[f"jumper_{m}_kcmil"]) for r in rows) for m in MATERIALS},
+            {m: tuple(str(r[f"jumper_{m}"]) for r in rows) for m in MATERIALS},
+            tuple(float(r["percent_of_area"]) for r in rows),
+            tuple(str(r["rule_id"]) for r in rows),
+        )
 
 
 @dataclass(frozen=True)
@@ -74,8 +76,9 @@ def _material(material):
     return material
 
 
-def supply_side_jumper_size(phase_area_kcmil, sets, material, table: JumperTable,
-                            jumper_material=None):
+def supply_side_jumper_size(
+    phase_area_kcmil, sets, material, table: JumperTable, jumper_material=None
+):
     """Least supply-side bonding jumper (or SDS grounded conductor) for a phase set.
 
     Method (NFPA 70-2023 250.102(C)(1)): equivalent area A = sets × area of the largest
@@ -125,14 +128,17 @@ def supply_side_jumper_size(phase_area_kcmil, sets, material, table: JumperTable
     m = _material(material)
     jm = m if jumper_material is None else _material(jumper_material)
     if jm != m:
-        raise ValueError("jumper and phase conductors of different materials: size from an "
-                         "ungrounded conductor of the jumper's material with the same "
-                         "ampacity (Table 250.102(C)(1) note)")
+        raise ValueError(
+            "jumper and phase conductors of different materials: size from an "
+            "ungrounded conductor of the jumper's material with the same "
+            "ampacity (Table 250.102(C)(1) note)"
+        )
     a = np.asarray(phase_area_kcmil, dtype=float)
     n = np.asarray(sets, dtype=float)
     if np.any(~np.isfinite(a) | (a <= 0)):
-        raise ValueError(f"phase_area_kcmil must be finite and above zero, got "
-                         f"{phase_area_kcmil!r}")
+        raise ValueError(
+            f"phase_area_kcmil must be finite and above zero, got {phase_area_kcmil!r}"
+        )
     if np.any(~np.isfinite(n) | (n < 1) | (n != np.round(n))):
         raise ValueError(f"sets must be a whole number ≥ 1, got {sets!r}")
     eq = a * n
@@ -143,8 +149,13 @@ def supply_side_jumper_size(phase_area_kcmil, sets, material, table: JumperTable
     tab = np.asarray(table.jumper_kcmil[jm], dtype=float)[row]
     req = np.where(pct > 0, np.minimum(pct / 100.0 * eq, eq), tab)
     names = np.asarray(table.jumper_name[jm], dtype=object)[row]
-    names = np.where(pct > 0, np.asarray([f"{p:g} % of area" for p in np.atleast_1d(pct)],
-                                         dtype=object).reshape(pct.shape), names)
+    names = np.where(
+        pct > 0,
+        np.asarray([f"{p:g} % of area" for p in np.atleast_1d(pct)], dtype=object).reshape(
+            pct.shape
+        ),
+        names,
+    )
     ids = np.asarray(table.rule_id, dtype=object)[row]
     rule = np.where(pct > 0, "percent", "table").astype(object)
     if eq.ndim == 0:
@@ -164,7 +175,8 @@ def jumper_passes(jumper_area_kcmil, required_kcmil):
     have = np.asarray(jumper_area_kcmil, dtype=float)
     need = np.asarray(required_kcmil, dtype=float)
     if np.any(~np.isfinite(have) | (have <= 0)):
-        raise ValueError(f"jumper_area_kcmil must be finite and above zero, got "
-                         f"{jumper_area_kcmil!r}")
+        raise ValueError(
+            f"jumper_area_kcmil must be finite and above zero, got {jumper_area_kcmil!r}"
+        )
     out = have * (1.0 + AREA_RTOL) >= need
     return out if out.ndim else bool(out)

@@ -171,8 +171,10 @@ def dc_resistance_ohm_per_m(area_mm2, material, conductor_c, *, data: ConductorD
     d = data
     a = np.asarray(area_mm2, dtype=float)
     if not np.all(np.isfinite(a) & (a > 0)):
-        raise ValueError(f"area_mm2: got {a[~(np.isfinite(a) & (a > 0))].ravel()[0]}; "
-                         "expected a positive cross-section in mm²")
+        raise ValueError(
+            f"area_mm2: got {a[~(np.isfinite(a) & (a > 0))].ravel()[0]}; "
+            "expected a positive cross-section in mm²"
+        )
     m = material_index(material)
     t = _check_temperature(conductor_c)
     r = d.k_strand[m] * d.rho20[m] / a * (1.0 + d.alpha20[m] * (t - 20.0))
@@ -185,9 +187,15 @@ def _skin_proximity(xs2):
     return x4 / (192.0 + 0.8 * x4)
 
 
-def ac_impedance_computed_ohm_per_m(area_mm2, material, raceway, conductor_c=75.0,
-                                    frequency_hz: float = FREQUENCY_HZ,
-                                    *, data: ConductorData):
+def ac_impedance_computed_ohm_per_m(
+    area_mm2,
+    material,
+    raceway,
+    conductor_c=75.0,
+    frequency_hz: float = FREQUENCY_HZ,
+    *,
+    data: ConductorData,
+):
     """AC resistance and reactance [Ω/m] of one conductor computed from first principles.
 
     Method: DC resistance as :func:`dc_resistance_ohm_per_m`; skin effect
@@ -253,8 +261,9 @@ def ac_impedance_computed_ohm_per_m(area_mm2, material, raceway, conductor_c=75.
     xs2 = 8.0 * np.pi * f / r_dc * 1e-7
     fx = _skin_proximity(xs2)
     xs = np.sqrt(xs2)  # IEC 60287-1-1 §2.1.2 branches for xs > 2.8
-    ys = np.where(xs <= 2.8, fx, np.where(xs <= 3.8, -0.136 - 0.0177 * xs + 0.0563 * xs2,
-                                          0.354 * xs - 0.733))
+    ys = np.where(
+        xs <= 2.8, fx, np.where(xs <= 3.8, -0.136 - 0.0177 * xs + 0.0563 * xs2, 0.354 * xs - 0.733)
+    )
     dc = STRAND_DIAMETER_FACTOR * np.sqrt(4.0 * a / np.pi)
     k = np.minimum(np.searchsorted(d.ins_up_to_mm2, a * (1 - 1e-9)), len(d.ins_up_to_mm2) - 1)
     big_d = dc + 2.0 * d.ins_thickness_mm[k]
@@ -275,8 +284,7 @@ def impedance_method(size, *, data: ConductorData) -> np.ndarray:
     return out[()] if out.ndim == 0 else out
 
 
-def ac_impedance_ohm_per_m(size, material, raceway, conductor_c=75.0,
-                           *, data: ConductorData):
+def ac_impedance_ohm_per_m(size, material, raceway, conductor_c=75.0, *, data: ConductorData):
     """AC resistance and reactance [Ω/m] of one conductor of one set, 60 Hz.
 
     Method: NFPA 70 Ch. 9 Table 9 for the AWG/kcmil sizes it lists, with
@@ -330,8 +338,13 @@ def ac_impedance_ohm_per_m(size, material, raceway, conductor_c=75.0,
     x = d.xl_ohm_per_m[(col == 2).astype(np.intp), idx]
     missing = np.isnan(r)
     if np.any(missing):
-        rc, xc = ac_impedance_computed_ohm_per_m(AREA_MM2[idx[missing]], np.array(
-            MATERIALS)[m[missing]], np.array(RACEWAYS)[rw[missing]], t[missing], data=d)
+        rc, xc = ac_impedance_computed_ohm_per_m(
+            AREA_MM2[idx[missing]],
+            np.array(MATERIALS)[m[missing]],
+            np.array(RACEWAYS)[rw[missing]],
+            t[missing],
+            data=d,
+        )
         r = np.array(r, dtype=float)
         x = np.array(x, dtype=float)
         r[missing] = rc

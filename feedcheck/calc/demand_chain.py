@@ -49,11 +49,17 @@ def tiered_demand_va(connected_va, tiers: Tiers):
     """
     c = _nonneg("connected_va", connected_va)
     t = [(float(a), float(b), float(f)) for a, b, f in tiers]
-    if not t or t[0][0] != 0 or not np.isinf(t[-1][1]) or any(
-            t[k][1] != t[k + 1][0] for k in range(len(t) - 1)) or any(
-            not (0 <= f <= 1.25) for _, _, f in t):
-        raise ValueError(f"tiers: got {tiers!r}; expected contiguous (from_va, to_va, "
-                         "factor) rows from 0 to inf with factors in 0..1.25")
+    if (
+        not t
+        or t[0][0] != 0
+        or not np.isinf(t[-1][1])
+        or any(t[k][1] != t[k + 1][0] for k in range(len(t) - 1))
+        or any(not (0 <= f <= 1.25) for _, _, f in t)
+    ):
+        raise ValueError(
+            f"tiers: got {tiers!r}; expected contiguous (from_va, to_va, "
+            "factor) rows from 0 to inf with factors in 0..1.25"
+        )
     out = np.zeros_like(c)
     for lo, hi, f in t:
         out = out + f * np.clip(c - lo, 0.0, hi - lo)
@@ -97,10 +103,14 @@ class DemandChain:
     design_va: float | np.ndarray
 
 
-def demand_chain(connected_va: Mapping[str, object], continuous_va: Mapping[str, object],
-                 largest_motor_va, tiers: Mapping[str, Tiers] | None = None,
-                 largest_motor_factor: float = 1.25,
-                 continuous_factor: float = 1.25) -> DemandChain:
+def demand_chain(
+    connected_va: Mapping[str, object],
+    continuous_va: Mapping[str, object],
+    largest_motor_va,
+    tiers: Mapping[str, Tiers] | None = None,
+    largest_motor_factor: float = 1.25,
+    continuous_factor: float = 1.25,
+) -> DemandChain:
     """Demand and design load of a panel as one chain of steps, each applied once.
 
     Parameters
@@ -150,8 +160,10 @@ def demand_chain(connected_va: Mapping[str, object], continuous_va: Mapping[str,
     big = _nonneg("largest_motor_va", largest_motor_va)
     if np.any(big > conn["motor"] * (1 + 1e-9)):
         raise ValueError("largest_motor_va: above the connected motor load")
-    dem = {k: (np.asarray(tiered_demand_va(conn[k], tiers[k])) if k in tiers else conn[k])
-           for k in KINDS}
+    dem = {
+        k: (np.asarray(tiered_demand_va(conn[k], tiers[k])) if k in tiers else conn[k])
+        for k in KINDS
+    }
     cont_dem = np.zeros(shape)
     for k, v in continuous_va.items():
         c = _nonneg(f"continuous_va[{k}]", v)
@@ -164,24 +176,38 @@ def demand_chain(connected_va: Mapping[str, object], continuous_va: Mapping[str,
     cont_add = (float(continuous_factor) - 1.0) * cont_dem
     f = _scalar
     return DemandChain(
-        {k: f(v) for k, v in conn.items()}, f(sum(conn.values())),
-        {k: f(v) for k, v in dem.items()}, f(dem_total), f(big), f(motor_add),
-        f(cont_dem), f(cont_add), f(dem_total + motor_add + cont_add))
+        {k: f(v) for k, v in conn.items()},
+        f(sum(conn.values())),
+        {k: f(v) for k, v in dem.items()},
+        f(dem_total),
+        f(big),
+        f(motor_add),
+        f(cont_dem),
+        f(cont_add),
+        f(dem_total + motor_add + cont_add),
+    )
 
 
-def _check_kinds(connected_va, continuous_va, tiers, largest_motor_factor,
-                 continuous_factor):
-    for name, m in (("connected_va", connected_va), ("continuous_va", continuous_va),
-                    ("tiers", tiers)):
+def _check_kinds(connected_va, continuous_va, tiers, largest_motor_factor, continuous_factor):
+    for name, m in (
+        ("connected_va", connected_va),
+        ("continuous_va", continuous_va),
+        ("tiers", tiers),
+    ):
         bad = set(m) - set(KINDS)
         if bad:
-            raise ValueError(f"{name}: unknown kind {sorted(bad)[0]!r}; expected one of "
-                             + ", ".join(KINDS))
+            raise ValueError(
+                f"{name}: unknown kind {sorted(bad)[0]!r}; expected one of " + ", ".join(KINDS)
+            )
     if "motor" in continuous_va or "motor" in tiers:
-        raise ValueError("continuous_va/tiers: motors take 125 % of the largest motor "
-                         "(430.24), not a continuous or demand factor")
-    for name, f_ in (("largest_motor_factor", largest_motor_factor),
-                     ("continuous_factor", continuous_factor)):
+        raise ValueError(
+            "continuous_va/tiers: motors take 125 % of the largest motor "
+            "(430.24), not a continuous or demand factor"
+        )
+    for name, f_ in (
+        ("largest_motor_factor", largest_motor_factor),
+        ("continuous_factor", continuous_factor),
+    ):
         if not 1.0 <= float(f_) <= 2.0:
             raise ValueError(f"{name}: got {f_!r}; expected a factor from 1 to 2 (1.25)")
 

@@ -55,8 +55,10 @@ def _positive(name: str, value, allow_inf: bool = False) -> np.ndarray:
     arr = np.asarray(value, dtype=float)
     bad = np.isnan(arr) | (arr <= 0) | (~np.isfinite(arr) & (not allow_inf))
     if np.any(bad):
-        raise ValueError(f"{name} must be a number greater than zero"
-                         f"{'' if allow_inf else ' and finite'}, got {value!r}")
+        raise ValueError(
+            f"{name} must be a number greater than zero"
+            f"{'' if allow_inf else ' and finite'}, got {value!r}"
+        )
     return arr
 
 
@@ -147,8 +149,7 @@ def refer_impedance_ohm(z_ohm, from_voltage_v, to_voltage_v):
     return _out(z * a**2)
 
 
-def transformer_fault_impedances_ohm(rating_va, voltage_ll_v, z_pct, x_r,
-                                     tolerance_pct, phases=3):
+def transformer_fault_impedances_ohm(rating_va, voltage_ll_v, z_pct, x_r, tolerance_pct, phases=3):
     """Transformer impedance for the maximum and the minimum fault case.
 
     Method: Z = Z_nameplate · (1 ∓ tol/100), lower for the maximum case, upper for the
@@ -239,8 +240,10 @@ def fault_current_3ph_a(voltage_ll_v, z_total_ohm, c=1.0):
     cc = _positive("c", c)
     z = np.abs(_impedance("z_total_ohm", z_total_ohm))
     if np.any(z <= 0):
-        raise ValueError("z_total_ohm must not be zero: an infinite source needs a "
-                         "transformer or conductor impedance in the path")
+        raise ValueError(
+            "z_total_ohm must not be zero: an infinite source needs a "
+            "transformer or conductor impedance in the path"
+        )
     return _out(cc * v / (SQRT3 * z))
 
 
@@ -342,8 +345,10 @@ def _check_parents(parent_index) -> np.ndarray:
     idx = np.arange(p.size)
     if np.any((p < -1) | (p >= idx)):
         bad = int(np.flatnonzero((p < -1) | (p >= idx))[0])
-        raise ValueError(f"parent_index[{bad}] = {int(p[bad])}: expected −1 (root) or the "
-                         "index of an earlier node (parents before children)")
+        raise ValueError(
+            f"parent_index[{bad}] = {int(p[bad])}: expected −1 (root) or the "
+            "index of an earlier node (parents before children)"
+        )
     return p.astype(np.intp)
 
 
@@ -431,7 +436,7 @@ def subtree_sum(parent_index, values):
     order = np.argsort(depth, kind="stable")
     bounds = np.searchsorted(depth[order], np.arange(top + 2))
     for lvl in range(top, 0, -1):
-        nodes = order[bounds[lvl]:bounds[lvl + 1]]
+        nodes = order[bounds[lvl] : bounds[lvl + 1]]
         np.add.at(out, p[nodes], out[nodes])
     return out
 
@@ -464,13 +469,24 @@ class RadialFault:
     asym_rms_a: np.ndarray
     c_max: float
     c_min: float
-    method: str = ("ohmic: I = c·V_LL/(√3·|Z|), Z = source + transformer + runs (complex sum); "
-                   "motor contribution added arithmetically to the maximum")
+    method: str = (
+        "ohmic: I = c·V_LL/(√3·|Z|), Z = source + transformer + runs (complex sum); "
+        "motor contribution added arithmetically to the maximum"
+    )
 
 
-def radial_fault_3ph(parent_index, voltage_ll_v, branch_z_max_ohm, branch_z_min_ohm,
-                     root_z_max_ohm=0.0, root_z_min_ohm=0.0, c_max=1.0, c_min=1.0,
-                     motor_a=None, base_voltage_ll_v=None):
+def radial_fault_3ph(
+    parent_index,
+    voltage_ll_v,
+    branch_z_max_ohm,
+    branch_z_min_ohm,
+    root_z_max_ohm=0.0,
+    root_z_min_ohm=0.0,
+    c_max=1.0,
+    c_min=1.0,
+    motor_a=None,
+    base_voltage_ll_v=None,
+):
     """Maximum and minimum three-phase fault current at every node of a radial feed.
 
     Method: total impedance per node by :func:`cumulative_impedance_ohm`; I by
@@ -522,10 +538,18 @@ def radial_fault_3ph(parent_index, voltage_ll_v, branch_z_max_ohm, branch_z_min_
     motors = np.zeros(p.size) if motor_a is None else subtree_sum(p, _nonneg("motor_a", motor_a))
     imax = imax + motors
     xr = np.asarray(x_r_ratio(zmax))
-    return RadialFault(zmax, zmin, xr, imax, imin, motors,
-                       np.asarray(peak_current_a(imax, xr)),
-                       np.asarray(asymmetric_rms_half_cycle_a(imax, xr)),
-                       float(c_max), float(c_min))
+    return RadialFault(
+        zmax,
+        zmin,
+        xr,
+        imax,
+        imin,
+        motors,
+        np.asarray(peak_current_a(imax, xr)),
+        np.asarray(asymmetric_rms_half_cycle_a(imax, xr)),
+        float(c_max),
+        float(c_min),
+    )
 
 
 # --------------------------------------------------------------------------- 120/240 V
@@ -575,8 +599,14 @@ def conductor_constant_a_ft_per_v(r_ohm_per_m, x_ohm_per_m):
     return _out(1000.0 / z_kft)
 
 
-def ptp_secondary_current_a(rated_current_a, z_pct, tolerance_pct=0.0, primary_fault_a=None,
-                            primary_v=None, secondary_v=None):
+def ptp_secondary_current_a(
+    rated_current_a,
+    z_pct,
+    tolerance_pct=0.0,
+    primary_fault_a=None,
+    primary_v=None,
+    secondary_v=None,
+):
     """Point-to-point starting figure at a transformer secondary.
 
     Infinite primary: I = I_rated · 100 / (%Z · (1 − tol/100)). With the source included
@@ -625,8 +655,12 @@ def ptp_factor(length_m, fault_a, c_a_ft_per_v, sets, voltage_v, kind="3ph"):
     k = SQRT3 if kind == "3ph" else 2.0
     length_ft = _nonneg("length_m", length_m) * FT_PER_M
     n = _positive("sets", sets)
-    return _out(k * length_ft * _nonneg("fault_a", fault_a)
-                / (_positive("c_a_ft_per_v", c_a_ft_per_v) * n * _positive("voltage_v", voltage_v)))
+    return _out(
+        k
+        * length_ft
+        * _nonneg("fault_a", fault_a)
+        / (_positive("c_a_ft_per_v", c_a_ft_per_v) * n * _positive("voltage_v", voltage_v))
+    )
 
 
 def ptp_chain_a(start_a, lengths_m, c_a_ft_per_v, sets, voltage_v, kind="3ph"):

@@ -77,11 +77,16 @@ def governing_duty_a(fault_3ph_a=None, fault_ll_a=None, fault_ln_a=None, fault_l
     >>> governing_duty_a([4150.0, 9000.0], None, None, [4448.0, 8000.0]).case.tolist()
     ['lg', '3ph']
     """
-    given = [(n, v) for n, v in zip(FAULT_CASES, (fault_3ph_a, fault_ll_a, fault_ln_a,
-                                                 fault_lg_a), strict=True) if v is not None]
+    given = [
+        (n, v)
+        for n, v in zip(FAULT_CASES, (fault_3ph_a, fault_ll_a, fault_ln_a, fault_lg_a), strict=True)
+        if v is not None
+    ]
     if not given:
-        raise ValueError("at least one fault case is needed (three-phase, line-to-line, "
-                         "line-to-neutral or line-to-ground)")
+        raise ValueError(
+            "at least one fault case is needed (three-phase, line-to-line, "
+            "line-to-neutral or line-to-ground)"
+        )
     names = tuple(n for n, _ in given)
     arrs = []
     for n, v in given:
@@ -191,9 +196,15 @@ class TestConditionRow:
     @classmethod
     def from_record(cls, r) -> TestConditionRow:
         """Build from one row of ``tables/device_test_power_factor.csv`` as a dict."""
-        return cls(str(r["family"]), float(r["above_a"]), float(r["up_to_a"]),
-                   float(r["test_pf"]), float(r["test_x_r"]), str(r["rating_basis"]),
-                   str(r["rule_id"]))
+        return cls(
+            str(r["family"]),
+            float(r["above_a"]),
+            float(r["up_to_a"]),
+            float(r["test_pf"]),
+            float(r["test_x_r"]),
+            str(r["rating_basis"]),
+            str(r["rule_id"]),
+        )
 
 
 def test_condition_row(family: str, interrupting_a: float, rows) -> TestConditionRow:
@@ -212,8 +223,9 @@ def test_condition_row(family: str, interrupting_a: float, rows) -> TestConditio
     hits = [r for r in rows if r.family == family and r.above_a < i <= r.up_to_a]
     if not hits:
         known = sorted({r.family for r in rows})
-        raise ValueError(f"no test-condition row for family {family!r} at {i:g} A "
-                         f"(families: {', '.join(known)})")
+        raise ValueError(
+            f"no test-condition row for family {family!r} at {i:g} A (families: {', '.join(known)})"
+        )
     return hits[0]
 
 
@@ -221,8 +233,9 @@ test_condition_row.__test__ = False  # not a pytest test despite its name
 TestConditionRow.__test__ = False
 
 
-def fault_lg_delta_wye_a(voltage_ln_v, z_source_ohm, z_transformer_ohm, z0_ratio,
-                         z_phase_ohm=0j, z_return_ohm=0j, c=1.0):
+def fault_lg_delta_wye_a(
+    voltage_ln_v, z_source_ohm, z_transformer_ohm, z0_ratio, z_phase_ohm=0j, z_return_ohm=0j, c=1.0
+):
     """Bolted line-to-ground fault at or downstream of a delta–wye transformer's
     grounded secondary, honouring a given zero-sequence ratio.
 

@@ -45,8 +45,9 @@ def transformer_zero_sequence_ohm(z1_transformer_ohm, z0_ratio=1.0):
     >>> transformer_zero_sequence_ohm(0.01 + 0.03j, 0.85)
     (0.0085+0.0255j)
     """
-    return _out(_impedance("z1_transformer_ohm", z1_transformer_ohm)
-                * _positive("z0_ratio", z0_ratio))
+    return _out(
+        _impedance("z1_transformer_ohm", z1_transformer_ohm) * _positive("z0_ratio", z0_ratio)
+    )
 
 
 def run_zero_sequence_ohm(z_phase_ohm, z_return_ohm):
@@ -58,8 +59,9 @@ def run_zero_sequence_ohm(z_phase_ohm, z_return_ohm):
     >>> round(z0.real, 6), round(z0.imag, 6)
     (0.07, 0.04)
     """
-    return _out(_impedance("z_phase_ohm", z_phase_ohm) + 3.0 * _impedance("z_return_ohm",
-                                                                         z_return_ohm))
+    return _out(
+        _impedance("z_phase_ohm", z_phase_ohm) + 3.0 * _impedance("z_return_ohm", z_return_ohm)
+    )
 
 
 def fault_current_lg_a(voltage_ln_v, z1_ohm, z0_ohm, z2_ohm=None, c=1.0):
@@ -96,8 +98,9 @@ def fault_current_lg_a(voltage_ln_v, z1_ohm, z0_ohm, z2_ohm=None, c=1.0):
     return _out(3.0 * _positive("c", c) * v / z)
 
 
-def radial_fault_lg_a(parent_index, voltage_ln_v, branch_z1_ohm, branch_z0_ohm,
-                      root_z1_ohm, root_z0_ohm, c=1.0):
+def radial_fault_lg_a(
+    parent_index, voltage_ln_v, branch_z1_ohm, branch_z0_ohm, root_z1_ohm, root_z0_ohm, c=1.0
+):
     """Line-to-ground fault current at every node of a radial feed.
 
     Z1 and Z0 are summed along the tree by
@@ -153,8 +156,9 @@ def instantaneous_trip_check(fault_min_a, device_a, pickup_multiple, tolerance_p
     tol = _nonneg("tolerance_pct", tolerance_pct)
     req = pickup * (1.0 + tol / 100.0)
     trips = i >= req
-    return InstantaneousCheck(_out(i), _out(pickup), _out(req),
-                              trips if np.ndim(trips) else bool(trips), _out(i / req))
+    return InstantaneousCheck(
+        _out(i), _out(pickup), _out(req), trips if np.ndim(trips) else bool(trips), _out(i / req)
+    )
 
 
 def _solve_abs(a, b, k):
@@ -170,8 +174,9 @@ def _solve_abs(a, b, k):
     return np.where(cc > 0, 0.0, np.maximum(t, 0.0))
 
 
-def max_length_for_trip_m(voltage_ln_v, z_sum_upstream_ohm, z_phase_ohm_per_m,
-                          z_return_ohm_per_m, required_a, c=1.0):
+def max_length_for_trip_m(
+    voltage_ln_v, z_sum_upstream_ohm, z_phase_ohm_per_m, z_return_ohm_per_m, required_a, c=1.0
+):
     """Longest run that still gives at least ``required_a`` for a line-to-ground fault
     at its far end.
 
@@ -201,16 +206,28 @@ def max_length_for_trip_m(voltage_ln_v, z_sum_upstream_ohm, z_phase_ohm_per_m,
     14.3
     """
     a = _impedance("z_sum_upstream_ohm", z_sum_upstream_ohm)
-    b = 3.0 * (_impedance("z_phase_ohm_per_m", z_phase_ohm_per_m)
-               + _impedance("z_return_ohm_per_m", z_return_ohm_per_m))
-    k = 3.0 * _positive("c", c) * _positive("voltage_ln_v", voltage_ln_v) \
+    b = 3.0 * (
+        _impedance("z_phase_ohm_per_m", z_phase_ohm_per_m)
+        + _impedance("z_return_ohm_per_m", z_return_ohm_per_m)
+    )
+    k = (
+        3.0
+        * _positive("c", c)
+        * _positive("voltage_ln_v", voltage_ln_v)
         / _positive("required_a", required_a)
+    )
     return _out(_solve_abs(a, b, k))
 
 
-def max_return_resistance_for_trip_ohm_per_m(voltage_ln_v, z_sum_upstream_ohm, length_m,
-                                             z_phase_ohm_per_m, x_return_ohm_per_m,
-                                             required_a, c=1.0):
+def max_return_resistance_for_trip_ohm_per_m(
+    voltage_ln_v,
+    z_sum_upstream_ohm,
+    length_m,
+    z_phase_ohm_per_m,
+    x_return_ohm_per_m,
+    required_a,
+    c=1.0,
+):
     """Largest return-path resistance per metre that still trips at the far end.
 
     Method: solve |A + 3L·(z_phase + j·x_ret) + 3L·r| = 3·c·V_LN / I_required for r. The
@@ -230,16 +247,29 @@ def max_return_resistance_for_trip_ohm_per_m(voltage_ln_v, z_sum_upstream_ohm, l
     1.7092
     """
     length = _positive("length_m", length_m)
-    a = (_impedance("z_sum_upstream_ohm", z_sum_upstream_ohm)
-         + 3.0 * length * (_impedance("z_phase_ohm_per_m", z_phase_ohm_per_m)
-                           + 1j * _nonneg("x_return_ohm_per_m", x_return_ohm_per_m)))
-    k = 3.0 * _positive("c", c) * _positive("voltage_ln_v", voltage_ln_v) \
+    a = _impedance("z_sum_upstream_ohm", z_sum_upstream_ohm) + 3.0 * length * (
+        _impedance("z_phase_ohm_per_m", z_phase_ohm_per_m)
+        + 1j * _nonneg("x_return_ohm_per_m", x_return_ohm_per_m)
+    )
+    k = (
+        3.0
+        * _positive("c", c)
+        * _positive("voltage_ln_v", voltage_ln_v)
         / _positive("required_a", required_a)
+    )
     return _out(_solve_abs(a, 3.0 * length + 0j, k))
 
 
-def smallest_return_for_trip(voltage_ln_v, z_sum_upstream_ohm, length_m, z_phase_ohm_per_m,
-                             r_return_ohm_per_m, x_return_ohm_per_m, required_a, c=1.0):
+def smallest_return_for_trip(
+    voltage_ln_v,
+    z_sum_upstream_ohm,
+    length_m,
+    z_phase_ohm_per_m,
+    r_return_ohm_per_m,
+    x_return_ohm_per_m,
+    required_a,
+    c=1.0,
+):
     """Index of the first candidate return conductor (candidates ordered by area) that
     makes the far-end line-to-ground current reach ``required_a``; −1 if none does.
 
@@ -254,8 +284,9 @@ def smallest_return_for_trip(voltage_ln_v, z_sum_upstream_ohm, length_m, z_phase
     r = np.atleast_1d(_nonneg("r_return_ohm_per_m", r_return_ohm_per_m))
     x = np.broadcast_to(_nonneg("x_return_ohm_per_m", x_return_ohm_per_m), r.shape)
     length = _positive("length_m", length_m)
-    z = (_impedance("z_sum_upstream_ohm", z_sum_upstream_ohm)
-         + 3.0 * length * (_impedance("z_phase_ohm_per_m", z_phase_ohm_per_m) + r + 1j * x))
+    z = _impedance("z_sum_upstream_ohm", z_sum_upstream_ohm) + 3.0 * length * (
+        _impedance("z_phase_ohm_per_m", z_phase_ohm_per_m) + r + 1j * x
+    )
     i = 3.0 * _positive("c", c) * _positive("voltage_ln_v", voltage_ln_v) / np.abs(z)
     ok = np.flatnonzero(i >= _positive("required_a", required_a))
     return int(ok[0]) if ok.size else -1

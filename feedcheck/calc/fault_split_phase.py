@@ -106,8 +106,10 @@ class SplitPhaseFault:
     x_r_ll: np.ndarray | float
     x_r_ln: np.ndarray | float
     case: str
-    method: str = ("half-winding model: Z_LN = (1.5·R_T + j1.2·X_T)/4 at V_LL/2 (fuse-maker "
-                   "note, common practice); I = c·V/|Z_loop|")
+    method: str = (
+        "half-winding model: Z_LN = (1.5·R_T + j1.2·X_T)/4 at V_LL/2 (fuse-maker "
+        "note, common practice); I = c·V/|Z_loop|"
+    )
 
 
 def _xr(z):
@@ -115,9 +117,20 @@ def _xr(z):
         return np.where(z.real > 0, z.imag / np.where(z.real > 0, z.real, 1.0), np.inf)
 
 
-def split_phase_fault(rating_va, voltage_ll_v, z_pct, x_r, case="max", tolerance_pct=7.5,
-                      z_source_ohm=0j, z_line_ohm=0j, z_neutral_ohm=0j, r_factor=R_FACTOR,
-                      x_factor=X_FACTOR, c=1.0):
+def split_phase_fault(
+    rating_va,
+    voltage_ll_v,
+    z_pct,
+    x_r,
+    case="max",
+    tolerance_pct=7.5,
+    z_source_ohm=0j,
+    z_line_ohm=0j,
+    z_neutral_ohm=0j,
+    r_factor=R_FACTOR,
+    x_factor=X_FACTOR,
+    c=1.0,
+):
     """Line-to-line and line-to-neutral fault current of a 120/240 V centre-tapped secondary.
 
     Method: the transformer impedance at its lower (``case="max"``) or upper (``"min"``)
@@ -178,8 +191,9 @@ def split_phase_fault(rating_va, voltage_ll_v, z_pct, x_r, case="max", tolerance
     z_ln = zs / 4.0 + np.asarray(half_winding_impedance_ohm(zt, r_factor, x_factor)) + zl + zn
     i_ll = cc * v / np.abs(z_ll)
     i_ln = cc * (v / 2.0) / np.abs(z_ln)
-    return SplitPhaseFault(_out(i_ll), _out(i_ln), _out(z_ll), _out(z_ln), _out(_xr(z_ll)),
-                           _out(_xr(z_ln)), case)
+    return SplitPhaseFault(
+        _out(i_ll), _out(i_ln), _out(z_ll), _out(z_ln), _out(_xr(z_ll)), _out(_xr(z_ln)), case
+    )
 
 
 def ln_to_ll_ratio_terminals(x_r, r_factor=R_FACTOR, x_factor=X_FACTOR):

@@ -95,8 +95,7 @@ def minimum_lighting_load(scheduled_va, area_m2, unit_va_per_m2) -> MinimumLight
     def f(x):
         return x if np.ndim(x) else x.item()
 
-    return MinimumLighting(f(s * np.ones_like(used)), f(m * np.ones_like(used)), f(used),
-                           f(below))
+    return MinimumLighting(f(s * np.ones_like(used)), f(m * np.ones_like(used)), f(used), f(below))
 
 
 def _nonneg(name, x):

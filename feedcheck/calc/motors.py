@@ -33,8 +33,12 @@ W_PER_HP = 746.0  # electrical horsepower, common practice (NEMA ratings), see m
 CONTINUOUS_FACTOR = 1.25  # 430.22, 430.24 (largest motor), 215.2(A)(1) (other loads)
 HP_MATCH_RTOL = 0.01  # a horsepower within 1 % of a table row is that row
 # 430.248 / 430.250 notes: system voltage range -> rated-voltage column
-SYSTEM_VOLTAGE_RANGES_V = ((110.0, 120.0, 115.0), (220.0, 240.0, 230.0),
-                           (440.0, 480.0, 460.0), (550.0, 600.0, 575.0))
+SYSTEM_VOLTAGE_RANGES_V = (
+    (110.0, 120.0, 115.0),
+    (220.0, 240.0, 230.0),
+    (440.0, 480.0, 460.0),
+    (550.0, 600.0, 575.0),
+)
 
 
 @dataclass(frozen=True)
@@ -98,8 +102,12 @@ class MotorFlcTable:
         if not found:
             raise ValueError("columns: expected columns named flc_<V>v_a")
         found.sort(key=lambda c: c[0])
-        return cls(np.asarray(hp, dtype=float), np.array([v for v, _ in found]),
-                   np.column_stack([c for _, c in found]), tuple(rule_id))
+        return cls(
+            np.asarray(hp, dtype=float),
+            np.array([v for v, _ in found]),
+            np.column_stack([c for _, c in found]),
+            tuple(rule_id),
+        )
 
 
 def hp_from_kw(power_kw):
@@ -162,7 +170,8 @@ def table_column_voltage_v(voltage_v, columns_v):
         raise ValueError(
             f"voltage_v: got {bad:g} V; expected a rated motor voltage of the table "
             f"({', '.join(f'{c:g}' for c in cols)} V) or a system voltage in 110–120, "
-            "220–240, 440–480 or 550–600 V (NFPA 70 Tables 430.248/430.250 notes)")
+            "220–240, 440–480 or 550–600 V (NFPA 70 Tables 430.248/430.250 notes)"
+        )
     return out if out.ndim else float(out)
 
 
@@ -194,18 +203,22 @@ def motor_flc_row(hp, table: MotorFlcTable, between: str = "refuse"):
     near_i = np.isclose(h, rows[i], rtol=HP_MATCH_RTOL, atol=0)
     near_j = np.isclose(h, rows[j], rtol=HP_MATCH_RTOL, atol=0)
     exact = np.where(near_j, j, np.where(near_i, i, -1))
-    over = (h > rows[-1] * (1 + HP_MATCH_RTOL))
+    over = h > rows[-1] * (1 + HP_MATCH_RTOL)
     if np.any(over):
-        raise ValueError(f"hp: got {h[over].ravel()[0]:g} hp; the table ends at "
-                         f"{rows[-1]:g} hp (use the nameplate and the maker's data)")
+        raise ValueError(
+            f"hp: got {h[over].ravel()[0]:g} hp; the table ends at "
+            f"{rows[-1]:g} hp (use the nameplate and the maker's data)"
+        )
     off = exact < 0
     if np.any(off) and between == "refuse":
         k = int(np.argmax(off.ravel()))
         x, lo, hi = h.ravel()[k], rows[j.ravel()[k]], rows[i.ravel()[k]]
-        where = (f"below the first row, {hi:g} hp" if x < rows[0]
-                 else f"between {lo:g} and {hi:g} hp")
-        raise ValueError(f"hp: got {x:g} hp; expected a table row ({where}: give the "
-                         "motor's rated horsepower)")
+        where = (
+            f"below the first row, {hi:g} hp" if x < rows[0] else f"between {lo:g} and {hi:g} hp"
+        )
+        raise ValueError(
+            f"hp: got {x:g} hp; expected a table row ({where}: give the motor's rated horsepower)"
+        )
     out = np.where(off, i, exact)
     return out if out.ndim else int(out)
 
@@ -253,8 +266,10 @@ def motor_flc_a(hp, voltage_v, table: MotorFlcTable, between: str = "refuse"):
     out = table.flc_a[row.ravel(), col].reshape(row.shape)
     if np.any(np.isnan(out)):
         k = int(np.argmax(np.isnan(out).ravel()))
-        raise ValueError(f"hp/voltage: the table lists no current for "
-                         f"{table.hp[row.ravel()[k]]:g} hp at {col_v.ravel()[k]:g} V")
+        raise ValueError(
+            f"hp/voltage: the table lists no current for "
+            f"{table.hp[row.ravel()[k]]:g} hp at {col_v.ravel()[k]:g} V"
+        )
     return out if out.ndim else float(out)
 
 
@@ -306,8 +321,7 @@ def feeder_conductor_min_a(motor_flc_a, other_noncontinuous_a=0.0, other_continu
         m = m.reshape(1)
     nc = _currents("other_noncontinuous_a", other_noncontinuous_a)
     c = _currents("other_continuous_a", other_continuous_a)
-    out = m.sum(axis=-1) + (CONTINUOUS_FACTOR - 1.0) * m.max(axis=-1) + nc \
-        + CONTINUOUS_FACTOR * c
+    out = m.sum(axis=-1) + (CONTINUOUS_FACTOR - 1.0) * m.max(axis=-1) + nc + CONTINUOUS_FACTOR * c
     return out if np.ndim(out) else float(out)
 
 
@@ -377,8 +391,9 @@ def branch_device_max_a(flc_a, percent, standard_ratings_a) -> BranchDeviceMax:
     limit = f * p / 100.0
     i = np.searchsorted(r, limit * (1 - 1e-12), side="left")
     if np.any(i >= r.size):
-        raise ValueError(f"flc_a: limit {float(np.max(limit)):g} A above the largest "
-                         f"standard rating {r[-1]:g} A")
+        raise ValueError(
+            f"flc_a: limit {float(np.max(limit)):g} A above the largest standard rating {r[-1]:g} A"
+        )
     permitted = r[i]
 
     def _out(x):
@@ -416,7 +431,8 @@ def locked_rotor_multiple(locked_rotor_a, flc_a):
         raise ValueError(
             f"locked_rotor_a: got {lr_b.ravel()[k]:g} A, below the full-load current "
             f"{f_b.ravel()[k]:g} A; expected the starting (locked-rotor) current, "
-            "several times the full-load current")
+            "several times the full-load current"
+        )
     out = lr / f
     return out if out.ndim else float(out)
 

@@ -38,8 +38,15 @@ SQRT3 = math.sqrt(3.0)
 CONTINUOUS_FACTOR = 1.25  # 215.2(A)(1), 210.19(A)(1)
 PHASES = ("A", "B", "C")
 # connection code -> phases loaded (indices); "" = unspecified
-CONNECTIONS = {"A": (0,), "B": (1,), "C": (2,), "AB": (0, 1), "BC": (1, 2), "CA": (2, 0),
-               "ABC": (0, 1, 2)}
+CONNECTIONS = {
+    "A": (0,),
+    "B": (1,),
+    "C": (2,),
+    "AB": (0, 1),
+    "BC": (1, 2),
+    "CA": (2, 0),
+    "ABC": (0, 1, 2),
+}
 PAIRS = ("AB", "BC", "CA")
 UNSPECIFIED = {"LL": PAIRS, "LN": ("A", "B", "C")}
 
@@ -76,8 +83,9 @@ def element_current_a(load_va, connection, voltage_ll_v):
         div[conn == code] = {1: v / SQRT3, 2: v, 3: SQRT3 * v}[len(ph)]
     bad = ~np.isin(conn, list(CONNECTIONS))
     if np.any(bad):
-        raise ValueError(f"connection: got {conn[bad].ravel()[0]!r}; expected one of "
-                         f"{', '.join(CONNECTIONS)}")
+        raise ValueError(
+            f"connection: got {conn[bad].ravel()[0]!r}; expected one of {', '.join(CONNECTIONS)}"
+        )
     out = s / div
     return out if out.ndim else float(out)
 
@@ -108,8 +116,7 @@ def assign_connections(load_va, connection, voltage_ll_v):
     phase_a = np.zeros(3)
     if fixed:
         phase_a += phase_currents_a(s[fixed], [conn[i] for i in fixed], voltage_ll_v)
-    todo = sorted((i for i, c in enumerate(conn) if c in UNSPECIFIED),
-                  key=lambda i: (-s[i], i))
+    todo = sorted((i for i, c in enumerate(conn) if c in UNSPECIFIED), key=lambda i: (-s[i], i))
     for i in todo:
         best = None
         for cand in UNSPECIFIED[conn[i]]:
@@ -151,8 +158,10 @@ def phase_currents_a(load_va, connection, voltage_ll_v):
     conn = np.broadcast_to(np.asarray(connection, dtype=object), s.shape)
     unset = np.isin(conn, list(UNSPECIFIED))
     if np.any(unset):
-        raise ValueError("connection: unspecified (LL/LN) connections must be assigned "
-                         "first (assign_connections)")
+        raise ValueError(
+            "connection: unspecified (LL/LN) connections must be assigned "
+            "first (assign_connections)"
+        )
     i = np.atleast_1d(element_current_a(s, conn, voltage_ll_v))
     out = np.zeros(3)
     for code, ph in CONNECTIONS.items():
@@ -230,21 +239,36 @@ def phase_loading(load_va, continuous, connection, voltage_ll_v, motor=None) -> 
     """
     s = np.atleast_1d(_nonneg("load_va", load_va))
     cont = np.broadcast_to(np.asarray(continuous, dtype=bool), s.shape)
-    mot = (np.zeros(s.shape, bool) if motor is None
-           else np.broadcast_to(np.asarray(motor, dtype=bool), s.shape))
+    mot = (
+        np.zeros(s.shape, bool)
+        if motor is None
+        else np.broadcast_to(np.asarray(motor, dtype=bool), s.shape)
+    )
     if np.any(cont & mot):
-        raise ValueError("continuous: a motor is not also a continuous load (430.24 takes "
-                         "125 % of the largest motor instead)")
+        raise ValueError(
+            "continuous: a motor is not also a continuous load (430.24 takes "
+            "125 % of the largest motor instead)"
+        )
     conn = assign_connections(s, connection, voltage_ll_v)
-    c_a = phase_currents_a(s[cont], [c for c, k in zip(conn, cont, strict=True) if k],
-                           voltage_ll_v) if cont.any() else np.zeros(3)
-    n_a = phase_currents_a(s[~cont], [c for c, k in zip(conn, cont, strict=True) if not k],
-                           voltage_ll_v) if (~cont).any() else np.zeros(3)
+    c_a = (
+        phase_currents_a(s[cont], [c for c, k in zip(conn, cont, strict=True) if k], voltage_ll_v)
+        if cont.any()
+        else np.zeros(3)
+    )
+    n_a = (
+        phase_currents_a(
+            s[~cont], [c for c, k in zip(conn, cont, strict=True) if not k], voltage_ll_v
+        )
+        if (~cont).any()
+        else np.zeros(3)
+    )
     largest = np.zeros(3)  # largest motor current on each phase (430.24)
     if mot.any():
-        i_m = np.atleast_1d(element_current_a(s[mot], [c for c, k in zip(conn, mot,
-                                                                          strict=True) if k],
-                                              voltage_ll_v))
+        i_m = np.atleast_1d(
+            element_current_a(
+                s[mot], [c for c, k in zip(conn, mot, strict=True) if k], voltage_ll_v
+            )
+        )
         for i, c in zip(i_m, (c for c, k in zip(conn, mot, strict=True) if k), strict=True):
             ph = list(CONNECTIONS[c])
             largest[ph] = np.maximum(largest[ph], i)

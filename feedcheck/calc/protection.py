@@ -59,8 +59,10 @@ def standard_ratings_a(kind: str = "breaker", *, tables: ProtectionTables):
 def _positive(x, name):
     a = np.asarray(x, dtype=float)
     if not np.all(np.isfinite(a) & (a >= 0)):
-        raise ValueError(f"{name}: got {a[~(np.isfinite(a) & (a >= 0))].ravel()[0]}; "
-                         "expected a finite current ≥ 0 A")
+        raise ValueError(
+            f"{name}: got {a[~(np.isfinite(a) & (a >= 0))].ravel()[0]}; "
+            "expected a finite current ≥ 0 A"
+        )
     return a
 
 
@@ -86,8 +88,10 @@ def next_standard_rating_a(current_a, kind: str = "breaker", *, tables: Protecti
     a = _positive(current_a, "current_a")
     i = np.searchsorted(r, a * (1 - 1e-12), side="left")
     if np.any(i >= len(r)):
-        raise ValueError(f"current_a: got {a.max():g} A; expected at most {r[-1]:g} A, the "
-                         "largest standard rating")
+        raise ValueError(
+            f"current_a: got {a.max():g} A; expected at most {r[-1]:g} A, the "
+            "largest standard rating"
+        )
     out = r[i]
     return out[()] if out.ndim == 0 else out
 
@@ -113,8 +117,7 @@ def device_min_for_load_a(continuous_a, noncontinuous_a=0.0, *, tables: Protecti
     return out[()] if out.ndim == 0 else out
 
 
-def max_device_a(ampacity_a, size, material, kind: str = "breaker", *,
-                 tables: ProtectionTables):
+def max_device_a(ampacity_a, size, material, kind: str = "breaker", *, tables: ProtectionTables):
     """Largest device rating [A] that protects a conductor of the given ampacity.
 
     Method: ``next_standard(ampacity)`` when that is 800 A or less (240.4(B)); otherwise
@@ -165,8 +168,9 @@ def max_device_a(ampacity_a, size, material, kind: str = "breaker", *,
     return out[()] if out.ndim == 0 else out
 
 
-def device_protects_conductor(device_a, ampacity_a, size, material, kind: str = "breaker",
-                              *, tables: ProtectionTables):
+def device_protects_conductor(
+    device_a, ampacity_a, size, material, kind: str = "breaker", *, tables: ProtectionTables
+):
     """True where ``device_a`` ≤ :func:`max_device_a` (vectorised)."""
     d = _positive(device_a, "device_a")
     out = d <= max_device_a(ampacity_a, size, material, kind, tables=tables) + 1e-9
@@ -185,9 +189,15 @@ class ProtectionCheck:
     note: str
 
 
-def conductor_protection(device_a: float, ampacity_a: float, size: str, material: str,
-                         kind: str = "breaker", *,
-                         tables: ProtectionTables) -> ProtectionCheck:
+def conductor_protection(
+    device_a: float,
+    ampacity_a: float,
+    size: str,
+    material: str,
+    kind: str = "breaker",
+    *,
+    tables: ProtectionTables,
+) -> ProtectionCheck:
     """Check one device against one run's ampacity, naming the governing rule.
 
     Examples
@@ -211,8 +221,9 @@ def conductor_protection(device_a: float, ampacity_a: float, size: str, material
     else:
         rid, why = "prot-ampacity", "device at most the ampacity"
     ok = device_a <= mx + 1e-9
-    note = (f"{device_a:g} A device, {ampacity_a:.1f} A conductor: largest permitted "
-            f"{mx:g} A ({why})")
+    note = (
+        f"{device_a:g} A device, {ampacity_a:.1f} A conductor: largest permitted {mx:g} A ({why})"
+    )
     return ProtectionCheck(float(device_a), float(ampacity_a), mx, bool(ok), rid, note)
 
 
@@ -231,9 +242,16 @@ class EgcResult:
     reasoning: str
 
 
-def egc_size(device_a: float, material: str = "cu", phase_size: str | None = None,
-             phase_min_size: str | None = None, phase_material: str | None = None,
-             sets: int = 1, *, tables: ProtectionTables) -> EgcResult:
+def egc_size(
+    device_a: float,
+    material: str = "cu",
+    phase_size: str | None = None,
+    phase_min_size: str | None = None,
+    phase_material: str | None = None,
+    sets: int = 1,
+    *,
+    tables: ProtectionTables,
+) -> EgcResult:
     """Minimum equipment grounding conductor for a run (250.122).
 
     Parameters
@@ -274,8 +292,10 @@ def egc_size(device_a: float, material: str = "cu", phase_size: str | None = Non
     """
     t = tables
     if not (np.isfinite(device_a) and 0 < device_a <= t.egc_up_to_a[-1]):
-        raise ValueError(f"device_a: got {device_a}; expected a device rating from 1 to "
-                         f"{t.egc_up_to_a[-1]:g} A (Table 250.122)")
+        raise ValueError(
+            f"device_a: got {device_a}; expected a device rating from 1 to "
+            f"{t.egc_up_to_a[-1]:g} A (Table 250.122)"
+        )
     if not (isinstance(sets, int | np.integer) and sets >= 1):
         raise ValueError(f"sets: got {sets}; expected a whole number ≥ 1")
     m = int(material_index(material))
@@ -292,8 +312,10 @@ def egc_size(device_a: float, material: str = "cu", phase_size: str | None = Non
             ratio = float(ps / pm)
             area = table.area_mm2 * ratio
             rules.append("egc-proportional")
-            why.append(f"phase conductors upsized {SIZE_NAMES[size_index(phase_min_size)]} → "
-                       f"{SIZE_NAMES[size_index(phase_size)]} (×{ratio:.3f} circular mils)")
+            why.append(
+                f"phase conductors upsized {SIZE_NAMES[size_index(phase_min_size)]} → "
+                f"{SIZE_NAMES[size_index(phase_size)]} (×{ratio:.3f} circular mils)"
+            )
     chosen = smallest_at_least(area, "awg")
     if chosen is None:
         raise ValueError(f"device_a: EGC area {area:.0f} mm² exceeds the largest size")
@@ -312,5 +334,14 @@ def egc_size(device_a: float, material: str = "cu", phase_size: str | None = Non
     if sets > 1:
         rules.append("egc-parallel")
         why.append(f"one {chosen.name} in each of {sets} raceways")
-    return EgcResult(chosen.name, ("cu", "al")[m], table_name, float(device_a), ratio, capped,
-                     int(sets), tuple(rules), "; ".join(why) + f" → {chosen.name} {material}")
+    return EgcResult(
+        chosen.name,
+        ("cu", "al")[m],
+        table_name,
+        float(device_a),
+        ratio,
+        capped,
+        int(sets),
+        tuple(rules),
+        "; ".join(why) + f" → {chosen.name} {material}",
+    )

@@ -63,9 +63,17 @@ def _vdrop_v(current_a, r_ohm_per_m, x_ohm_per_m, length_m, pf, phases, sets):
         k = SQRT3 if phases == 3 else 2.0
         sin = np.sqrt(1.0 - pf * pf)
         return k * current_a * length_m * (r_ohm_per_m * pf + x_ohm_per_m * sin) / sets
-    return float(voltage_drop_approximate_v(current_a, r_ohm_per_m, x_ohm_per_m, length_m, pf,
-                                            circuit="3ph" if phases == 3 else "1ph2w",
-                                            sets=sets))
+    return float(
+        voltage_drop_approximate_v(
+            current_a,
+            r_ohm_per_m,
+            x_ohm_per_m,
+            length_m,
+            pf,
+            circuit="3ph" if phases == 3 else "1ph2w",
+            sets=sets,
+        )
+    )
 
 
 @dataclass(frozen=True)
@@ -85,15 +93,31 @@ class Selection:
     rule_ids: tuple[str, ...]
 
 
-def select_conductor(continuous_a: float, noncontinuous_a: float = 0.0, material: str = "cu",
-                     insulation_c: float = 75.0, ambient_c: float = 30.0,
-                     current_carrying: int = 3, termination_c: float | None = None,
-                     sets: int = 1, raceway: str = "steel", device_a: float | None = None,
-                     length_m: float = 0.0, voltage_v: float | None = None, phases: int = 3,
-                     pf: float = 0.9, vdrop_max_pct: float = 3.0, fault_a: float | None = None,
-                     clearing_s: float | None = None, withstand_insulation: str = "thermoplastic",
-                     rooftop_adder_c: float = 0.0, equipment_75c: bool = False,
-                     system: str = "awg", *, data: SizingData) -> Selection:
+def select_conductor(
+    continuous_a: float,
+    noncontinuous_a: float = 0.0,
+    material: str = "cu",
+    insulation_c: float = 75.0,
+    ambient_c: float = 30.0,
+    current_carrying: int = 3,
+    termination_c: float | None = None,
+    sets: int = 1,
+    raceway: str = "steel",
+    device_a: float | None = None,
+    length_m: float = 0.0,
+    voltage_v: float | None = None,
+    phases: int = 3,
+    pf: float = 0.9,
+    vdrop_max_pct: float = 3.0,
+    fault_a: float | None = None,
+    clearing_s: float | None = None,
+    withstand_insulation: str = "thermoplastic",
+    rooftop_adder_c: float = 0.0,
+    equipment_75c: bool = False,
+    system: str = "awg",
+    *,
+    data: SizingData,
+) -> Selection:
     """Smallest conductor size meeting ampacity, protection, voltage drop and withstand.
 
     Parameters
@@ -162,11 +186,16 @@ def select_conductor(continuous_a: float, noncontinuous_a: float = 0.0, material
     need = float(device_min_for_load_a(continuous_a, noncontinuous_a, tables=data.protection))
     if need <= 0:
         raise ValueError("continuous_a, noncontinuous_a: expected a load above 0 A")
-    dev = (float(next_standard_rating_a(need, tables=data.protection)) if device_a is None
-           else float(device_a))
+    dev = (
+        float(next_standard_rating_a(need, tables=data.protection))
+        if device_a is None
+        else float(device_a)
+    )
     if dev < need - 1e-9:
-        raise ValueError(f"device_a: got {dev:g} A; expected at least {need:g} A "
-                         "(125 % of continuous + noncontinuous, NFPA 70 215.3)")
+        raise ValueError(
+            f"device_a: got {dev:g} A; expected at least {need:g} A "
+            "(125 % of continuous + noncontinuous, NFPA 70 215.3)"
+        )
     check_vd = length_m > 0 and voltage_v is not None
     check_ws = fault_a is not None
     if check_ws and clearing_s is None:
@@ -185,18 +214,39 @@ def select_conductor(continuous_a: float, noncontinuous_a: float = 0.0, material
         m = 0 if material == "cu" else 1
         if np.isnan(tabs.raceway_a[m, 0, idx]):
             continue
-        term = termination_c if termination_c is not None else (
-            60.0 if ((dev <= 100.0 or area <= float(AREA_MM2[size_index("1 AWG")]))
-                     and not equipment_75c) else 75.0)
-        chain = ampacity_chain(name, material, insulation_c, ambient_c, current_carrying, term,
-                               sets, free_air, rooftop_adder_c, continuous_a, noncontinuous_a,
-                               tables=tabs)
+        term = (
+            termination_c
+            if termination_c is not None
+            else (
+                60.0
+                if (
+                    (dev <= 100.0 or area <= float(AREA_MM2[size_index("1 AWG")]))
+                    and not equipment_75c
+                )
+                else 75.0
+            )
+        )
+        chain = ampacity_chain(
+            name,
+            material,
+            insulation_c,
+            ambient_c,
+            current_carrying,
+            term,
+            sets,
+            free_air,
+            rooftop_adder_c,
+            continuous_a,
+            noncontinuous_a,
+            tables=tabs,
+        )
         mx = float(max_device_a(chain.final_a, name, material, tables=data.protection))
         passed = {"ampacity": chain.ok_before and chain.ok_after, "protection": dev <= mx + 1e-9}
         vd_pct = None
         if check_vd:
-            r, x = ac_impedance_ohm_per_m(name, material, raceway, VDROP_CONDUCTOR_C,
-                                          data=data.conductors)
+            r, x = ac_impedance_ohm_per_m(
+                name, material, raceway, VDROP_CONDUCTOR_C, data=data.conductors
+            )
             vd_pct = 100.0 * _vdrop_v(load_a, r, x, length_m, pf, phases, sets) / voltage_v
             passed["voltage drop"] = vd_pct <= vdrop_max_pct + 1e-12
         ws = None
@@ -212,17 +262,37 @@ def select_conductor(continuous_a: float, noncontinuous_a: float = 0.0, material
             if len(first) == len(passed):
                 break
     if chosen is None:
-        missing = [c for c in CRITERIA if c not in first and (
-            c in ("ampacity", "protection") or (c == "voltage drop" and check_vd)
-            or (c == "withstand" and check_ws))]
-        raise ValueError("no standard size meets every criterion"
-                         + (f" (none meets: {', '.join(missing)})" if missing else "")
-                         + "; try more parallel sets, a higher insulation column or a "
-                         "shorter run")
+        missing = [
+            c
+            for c in CRITERIA
+            if c not in first
+            and (
+                c in ("ampacity", "protection")
+                or (c == "voltage drop" and check_vd)
+                or (c == "withstand" and check_ws)
+            )
+        ]
+        raise ValueError(
+            "no standard size meets every criterion"
+            + (f" (none meets: {', '.join(missing)})" if missing else "")
+            + "; try more parallel sets, a higher insulation column or a "
+            "shorter run"
+        )
     name, term, chain, mx, vd_pct, ws = chosen
     rank = {n: i for i, n in enumerate(order)}
     present = [c for c in CRITERIA if c in first]
     governing = max(present, key=lambda c: (rank[first[c]], -CRITERIA.index(c)))
     rules = [*chain.rule_ids, "device-continuous-125", "prot-next-size-up"]
-    return Selection(name, sets, dev, term, governing,
-                     tuple((c, first[c]) for c in present), chain, mx, vd_pct, ws, tuple(rules))
+    return Selection(
+        name,
+        sets,
+        dev,
+        term,
+        governing,
+        tuple((c, first[c]) for c in present),
+        chain,
+        mx,
+        vd_pct,
+        ws,
+        tuple(rules),
+    )

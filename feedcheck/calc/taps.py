@@ -26,10 +26,12 @@ import numpy as np
 
 MAX_TAP_PCT = 10.0  # common practice, no source: distribution transformers ±5 %, some -10 %
 _SIGNED = re.compile(r"^\s*([+-])\s*(\d+(?:\.\d+)?)\s*%?\s*$")
-_WORDED = re.compile(r"^\s*(\d+(?:\.\d+)?)\s*%?\s+(above|below)(?:\s+(?:normal|nominal|rated))?"
-                     r"\s*$", re.IGNORECASE)
-_ZERO = re.compile(r"^\s*(?:[+-]?\s*0+(?:\.0+)?\s*%?|nominal|normal|rated)\s*$",
-                   re.IGNORECASE)
+_WORDED = re.compile(
+    r"^\s*(\d+(?:\.\d+)?)\s*%?\s+(above|below)(?:\s+(?:normal|nominal|rated))?"
+    r"\s*$",
+    re.IGNORECASE,
+)
+_ZERO = re.compile(r"^\s*(?:[+-]?\s*0+(?:\.0+)?\s*%?|nominal|normal|rated)\s*$", re.IGNORECASE)
 _AMBIGUOUS_WORDS = ("boost", "buck", "raise", "lower", "up", "down", "±", "+/-", "+-")
 
 
@@ -52,16 +54,21 @@ def parse_tap_pct(text: str) -> float:
     """
     if not isinstance(text, str):
         raise ValueError(f"tap: got {text!r}; expected text such as '+2.5 %' or '-5 %'")
-    expect = ("expected a signed percent of rated primary voltage, '+2.5 %' (above "
-              "normal: lowers the secondary) or '-2.5 %' (below normal: raises it), or "
-              "'2.5 % above' / '2.5 % below', or '0'")
+    expect = (
+        "expected a signed percent of rated primary voltage, '+2.5 %' (above "
+        "normal: lowers the secondary) or '-2.5 %' (below normal: raises it), or "
+        "'2.5 % above' / '2.5 % below', or '0'"
+    )
     low = text.strip().lower()
     if _ZERO.match(low):
         return 0.0
     if any(w in low for w in _AMBIGUOUS_WORDS if not w.isalpha()) or any(
-            re.search(rf"\b{w}\b", low) for w in _AMBIGUOUS_WORDS if w.isalpha()):
-        raise ValueError(f"tap: got {text!r}, which is ambiguous (the direction may refer "
-                         f"to the tap or to the secondary voltage); {expect}")
+        re.search(rf"\b{w}\b", low) for w in _AMBIGUOUS_WORDS if w.isalpha()
+    ):
+        raise ValueError(
+            f"tap: got {text!r}, which is ambiguous (the direction may refer "
+            f"to the tap or to the secondary voltage); {expect}"
+        )
     m = _SIGNED.match(low)
     if m:
         value = float(m.group(2)) * (1 if m.group(1) == "+" else -1)
@@ -71,8 +78,10 @@ def parse_tap_pct(text: str) -> float:
             raise ValueError(f"tap: got {text!r}; {expect}")
         value = float(m.group(1)) * (1 if m.group(2) == "above" else -1)
     if abs(value) > MAX_TAP_PCT:
-        raise ValueError(f"tap: got {text!r}; expected at most ±{MAX_TAP_PCT:g} % "
-                         "(no-load taps of distribution transformers)")
+        raise ValueError(
+            f"tap: got {text!r}; expected at most ±{MAX_TAP_PCT:g} % "
+            "(no-load taps of distribution transformers)"
+        )
     return value
 
 

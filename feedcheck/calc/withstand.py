@@ -76,8 +76,14 @@ class WithstandData:
     icea_t0_c: np.ndarray
 
 
-def k_constant(insulation: str, material: str, role: str = "line",
-               area_mm2: float = 0.0, *, data: WithstandData) -> KRow:
+def k_constant(
+    insulation: str,
+    material: str,
+    role: str = "line",
+    area_mm2: float = 0.0,
+    *,
+    data: WithstandData,
+) -> KRow:
     """Tabulated k for insulation, material, role (``line`` or ``protective``) and size.
 
     Line conductors with thermoplastic insulation over 300 mm² use the lower final
@@ -96,8 +102,11 @@ def k_constant(insulation: str, material: str, role: str = "line",
         raise ValueError(f"role: got {role!r}; expected one of {ROLES}")
     if material not in MATERIALS:
         raise ValueError(f"material: got {material!r}; expected one of {MATERIALS}")
-    rows = [r for r in data.k_rows if r.insulation == insulation and r.material == material
-            and r.role.startswith(role)]
+    rows = [
+        r
+        for r in data.k_rows
+        if r.insulation == insulation and r.material == material and r.role.startswith(role)
+    ]
     rows.sort(key=lambda r: r.max_area_mm2)
     for r in rows:
         if area_mm2 <= r.max_area_mm2:
@@ -165,8 +174,9 @@ def withstand_current_a(area_mm2, clearing_s, k):
     t = _check("clearing_s", clearing_s)
     kk = _check("k", k)
     if np.any(t > MAX_ADIABATIC_S):
-        raise ValueError(f"clearing_s: got {t.max():g} s; the adiabatic method holds up to "
-                         f"{MAX_ADIABATIC_S:g} s")
+        raise ValueError(
+            f"clearing_s: got {t.max():g} s; the adiabatic method holds up to {MAX_ADIABATIC_S:g} s"
+        )
     out = kk * s / np.sqrt(t)
     return out[()] if out.ndim == 0 else out
 
@@ -187,14 +197,16 @@ def min_area_mm2(fault_a, clearing_s, k):
     t = _check("clearing_s", clearing_s)
     kk = _check("k", k)
     if np.any(t > MAX_ADIABATIC_S):
-        raise ValueError(f"clearing_s: got {t.max():g} s; the adiabatic method holds up to "
-                         f"{MAX_ADIABATIC_S:g} s")
+        raise ValueError(
+            f"clearing_s: got {t.max():g} s; the adiabatic method holds up to {MAX_ADIABATIC_S:g} s"
+        )
     out = i * np.sqrt(t) / kk
     return out[()] if out.ndim == 0 else out
 
 
-def withstand_current_icea_a(area_mm2, clearing_s, material, initial_c, final_c, *,
-                             data: WithstandData):
+def withstand_current_icea_a(
+    area_mm2, clearing_s, material, initial_c, final_c, *, data: WithstandData
+):
     """Withstand current [A] by the ICEA P-32-382 form.
 
     ``I = A_cmil · √(K · log10((T2 + T0)/(T1 + T0)) / t)``.

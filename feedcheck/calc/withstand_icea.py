@@ -39,8 +39,9 @@ def _arr(name, x, allow_zero=False):
     a = np.asarray(x, dtype=float)
     ok = np.isfinite(a) & ((a >= 0) if allow_zero else (a > 0))
     if not np.all(ok):
-        raise ValueError(f"{name} must be finite and {'not below' if allow_zero else 'above'}"
-                         f" zero, got {x!r}")
+        raise ValueError(
+            f"{name} must be finite and {'not below' if allow_zero else 'above'} zero, got {x!r}"
+        )
     return a
 
 
@@ -175,8 +176,14 @@ class InsulationType:
         wet = None if wet is None or wet == "" or wet != wet else float(wet)
         if r["family"] not in FAMILIES:
             raise ValueError(f"insulation family: got {r['family']!r}; expected {FAMILIES}")
-        return cls(str(r["type"]), float(r["dry_c"]), wet, str(r["family"]),
-                   float(r["sc_final_c"]), str(r["rule_id"]))
+        return cls(
+            str(r["type"]),
+            float(r["dry_c"]),
+            wet,
+            str(r["family"]),
+            float(r["sc_final_c"]),
+            str(r["rule_id"]),
+        )
 
 
 def _norm(name: str) -> str:
@@ -197,8 +204,10 @@ def insulation_type(name: str, rows) -> InsulationType:
     """
     key = _norm(name)
     if "/" in key:
-        raise ValueError(f"insulation {name!r}: give the one marking that applies to the "
-                         "location (e.g. THHN for dry, THWN-2 for wet)")
+        raise ValueError(
+            f"insulation {name!r}: give the one marking that applies to the "
+            "location (e.g. THHN for dry, THWN-2 for wet)"
+        )
     key = re.sub(r"(?<=[A-Z])2$", "-2", key)
     for r in rows:
         if _norm(r.name) == key:
@@ -221,6 +230,7 @@ def insulation_rating_c(row: InsulationType, wet: bool) -> float:
     if not wet:
         return float(row.dry_c)
     if row.wet_c is None:
-        raise ValueError(f"insulation {row.name} is not listed for wet locations "
-                         "(NFPA 70 Table 310.4(A))")
+        raise ValueError(
+            f"insulation {row.name} is not listed for wet locations (NFPA 70 Table 310.4(A))"
+        )
     return float(row.wet_c)

@@ -32,47 +32,100 @@ def check_sds_conductors(ctx: Context, run: Run) -> None:
     try:
         need = bk.supply_side_jumper_size(run.size.area_kcmil, 1, run.material, _table(ctx))
     except ValueError as exc:
-        ctx.add(run.id, "supply-side bonding jumper", None, None, "kcmil", "warn",
-                "sds-bonding-jumper", f"not evaluated: {exc}")
+        ctx.add(
+            run.id,
+            "supply-side bonding jumper",
+            None,
+            None,
+            "kcmil",
+            "warn",
+            "sds-bonding-jumper",
+            f"not evaluated: {exc}",
+        )
         return
     name = str(need.size)
     per = " per raceway (one set in each)" if run.sets > 1 else ""
-    basis = (
-        f"{run.size.name} {run.material.capitalize()} ungrounded conductors{per} → "
-        + (f"{name} ({need.rule_id})" if need.rule == "table"
-           else f"{float(need.required_kcmil):.1f} kcmil (12.5 % of the area, {need.rule_id})")
+    basis = f"{run.size.name} {run.material.capitalize()} ungrounded conductors{per} → " + (
+        f"{name} ({need.rule_id})"
+        if need.rule == "table"
+        else f"{float(need.required_kcmil):.1f} kcmil (12.5 % of the area, {need.rule_id})"
     )
     ctx.sheet(run.id, "run", "").step(
         "Supply-side bonding jumper and grounded conductor (separately derived system)",
         "Table 250.102(C)(1) by the largest ungrounded conductor; 12.5 % above the table",
-        basis, name, "", "sds-bonding-jumper",
+        basis,
+        name,
+        "",
+        "sds-bonding-jumper",
     )
     required = float(need.required_kcmil)
-    _held(ctx, run, "supply-side bonding jumper", run.bonding_jumper,
-          run.bonding_jumper_material, required, name, "sds-bonding-jumper",
-          "bonding_jumper", basis)
+    _held(
+        ctx,
+        run,
+        "supply-side bonding jumper",
+        run.bonding_jumper,
+        run.bonding_jumper_material,
+        required,
+        name,
+        "sds-bonding-jumper",
+        "bonding_jumper",
+        basis,
+    )
     grounded_min = required
     if run.sets > 1:  # parallel grounded conductors: 1/0 AWG or larger (310.10(G))
         grounded_min = max(required, SIZES["1/0 AWG"].area_kcmil)
-    _held(ctx, run, "grounded conductor", run.neutral, run.neutral_material, grounded_min,
-          name if grounded_min == required else "1/0 AWG", "sds-grounded-conductor",
-          "neutral", basis)
+    _held(
+        ctx,
+        run,
+        "grounded conductor",
+        run.neutral,
+        run.neutral_material,
+        grounded_min,
+        name if grounded_min == required else "1/0 AWG",
+        "sds-grounded-conductor",
+        "neutral",
+        basis,
+    )
 
 
 def _held(ctx, run, what, size: Size | None, material, required, name, rid, key, basis):
     if size is None:
-        ctx.add(run.id, what, None, required, "kcmil", "info", rid,
-                f"not stated: at least {name} {run.material.capitalize()}"
-                f"{' in each raceway' if run.sets > 1 else ''} ({basis}); state it as "
-                f"{key} = \"…\" to have it checked")
+        ctx.add(
+            run.id,
+            what,
+            None,
+            required,
+            "kcmil",
+            "info",
+            rid,
+            f"not stated: at least {name} {run.material.capitalize()}"
+            f"{' in each raceway' if run.sets > 1 else ''} ({basis}); state it as "
+            f'{key} = "…" to have it checked',
+        )
         return
     if material != run.material:
-        ctx.add(run.id, what, size.area_kcmil, required, "kcmil", "warn", rid,
-                f"{size.name} {material.capitalize()} with {run.material.capitalize()} phase "
-                "conductors: not evaluated (Table 250.102(C)(1) note: size from an "
-                "ungrounded conductor of the jumper's material with the same ampacity)")
+        ctx.add(
+            run.id,
+            what,
+            size.area_kcmil,
+            required,
+            "kcmil",
+            "warn",
+            rid,
+            f"{size.name} {material.capitalize()} with {run.material.capitalize()} phase "
+            "conductors: not evaluated (Table 250.102(C)(1) note: size from an "
+            "ungrounded conductor of the jumper's material with the same ampacity)",
+        )
         return
     ok = bk.jumper_passes(size.area_kcmil, required)
-    ctx.add(run.id, what, size.area_kcmil, required, "kcmil", "ok" if ok else "fail", rid,
-            f"{size.name} {material.capitalize()} given; at least {name} needed: {basis}"
-            + ("" if ok else f"; use {name} or larger"))
+    ctx.add(
+        run.id,
+        what,
+        size.area_kcmil,
+        required,
+        "kcmil",
+        "ok" if ok else "fail",
+        rid,
+        f"{size.name} {material.capitalize()} given; at least {name} needed: {basis}"
+        + ("" if ok else f"; use {name} or larger"),
+    )

@@ -119,8 +119,12 @@ def _device_source(ctx: Context, run: Run, sh, device: float | None, where: str)
             "run-device-protects",
             "secondary conductors protected by a device at the transformer (checked as a "
             "feeder)"
-            + ("" if where == "run" else ": the transformer's secondary_device, taken at "
-               "its secondary terminals (declare tap_rule if it sits where they end)"),
+            + (
+                ""
+                if where == "run"
+                else ": the transformer's secondary_device, taken at "
+                "its secondary terminals (declare tap_rule if it sits where they end)"
+            ),
         )
     if where in ("transformer primary", "transformer secondary"):
         sh.step(
@@ -168,8 +172,9 @@ def _termination_c(run: Run, sh, device: float | None, load_a: float) -> float:
     return term
 
 
-def _check_device(ctx: Context, run: Run, device: float, ampacity_a: float, cont: float,
-                  non: float, fix_text) -> None:
+def _check_device(
+    ctx: Context, run: Run, device: float, ampacity_a: float, cont: float, non: float, fix_text
+) -> None:
     """Device against the load (215.3) and the conductors (240.4)."""
     need = float(pk.device_min_for_load_a(cont, non, tables=ctx.rules.protection))
     ok = passes(device, need, "at_least")

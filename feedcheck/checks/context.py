@@ -95,9 +95,7 @@ class Context:
         """:func:`~feedcheck.checks.compare.compare` ``value`` with ``limit`` and keep the
         Finding (arguments in the order of :meth:`add`; the status comes from the test)."""
         rule = {"rule_id": rule_id, "status": fail_status}
-        f = compare(
-            value, limit, direction, rule, subject, check, unit, note, tolerance=tolerance
-        )
+        f = compare(value, limit, direction, rule, subject, check, unit, note, tolerance=tolerance)
         self.findings.append(f)
         return f
 

@@ -73,8 +73,16 @@ def report_minimum_lighting(ctx) -> None:
                 f"no schedule: the lighting on {m.panel_id} is unknown, so the 220.12 "
                 f"minimum {m.minimum_va:,.0f} VA is added to its load (continuous)"
             )
-            ctx.add(m.panel_id, "minimum lighting load", None, m.minimum_va, "VA", "warn",
-                    m.rule_id, note)
+            ctx.add(
+                m.panel_id,
+                "minimum lighting load",
+                None,
+                m.minimum_va,
+                "VA",
+                "warn",
+                m.rule_id,
+                note,
+            )
             continue
         note = (
             f"scheduled general lighting {m.scheduled_va:,.0f} VA; Table 220.12 minimum "
@@ -83,5 +91,15 @@ def report_minimum_lighting(ctx) -> None:
         )
         if m.below:
             note += " (the shortfall is added to the panel load as continuous lighting)"
-        ctx.compare(m.panel_id, "minimum lighting load", m.scheduled_va, m.minimum_va, "VA",
-                    "at_least", m.rule_id, note, fail_status="warn", tolerance=0.0)
+        ctx.compare(
+            m.panel_id,
+            "minimum lighting load",
+            m.scheduled_va,
+            m.minimum_va,
+            "VA",
+            "at_least",
+            m.rule_id,
+            note,
+            fail_status="warn",
+            tolerance=0.0,
+        )

@@ -257,8 +257,9 @@ def report_connections(ctx) -> None:
                 f'pair; set phases_connected = "{pair}" on [[transformer]] {t.id} to fix it)'
             )
             ctx.assume(text)
-            ctx.add(t.id, "lines taken on the feed", None, None, "", "info",
-                    "phase-connection", text)
+            ctx.add(
+                t.id, "lines taken on the feed", None, None, "", "info", "phase-connection", text
+            )
 
 
 def demand_chain_steps(chain, sheet) -> None:
@@ -310,8 +311,11 @@ def _say_unbalanced_primary(ctx, t: Transformer, ph: PhaseLoad) -> None:
     load = ph.cont_a + ph.non_a
     if ph.lines != 3 or load.max() - load.min() <= 1e-9 * max(1.0, load.max()):
         return
-    how = ("line to neutral on the same phase" if t.primary.kind == "wye"
-           else "line to line on the primary pair of its winding (a on A-B, b on B-C, c on C-A)")
+    how = (
+        "line to neutral on the same phase"
+        if t.primary.kind == "wye"
+        else "line to line on the primary pair of its winding (a on A-B, b on B-C, c on C-A)"
+    )
     ctx.assume(
         f"{t.id}: the secondary phases are unequally loaded; the balanced part is carried "
         f"to the primary as a three-phase load and each phase's excess {how} "

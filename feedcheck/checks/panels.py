@@ -91,25 +91,50 @@ def check_panel_protection(ctx: Context, p: Panel) -> None:
     bus" finding; this covers main-lugs panels and panels without a load."""
     if p.main_device_a is not None:
         if ctx.loads[p.id].va <= 0:
-            ctx.compare(p.id, "main device vs bus", p.main_device_a, p.rating_a, "A",
-                        "at_most", "panel-main-bus",
-                        f"main device {p.main_device_a:g} A on a {p.rating_a:g} A bus")
+            ctx.compare(
+                p.id,
+                "main device vs bus",
+                p.main_device_a,
+                p.rating_a,
+                "A",
+                "at_most",
+                "panel-main-bus",
+                f"main device {p.main_device_a:g} A on a {p.rating_a:g} A bus",
+            )
         return
     from .taps import bus_device
 
     ctx.method("Panelboard protected by a device rated at most its bus", "NFPA 70-2023 408.36")
     device, what = bus_device(ctx.job, p.id)
     if device is None:
-        ctx.add(p.id, "bus protection", None, p.rating_a, "A", "fail", "panel-bus-protection",
-                f"main-lugs panel {p.id} with {what}: a panelboard is protected by a "
-                f"device rated at most its {p.rating_a:g} A bus; add a main device or a "
-                "device on the run into it")
+        ctx.add(
+            p.id,
+            "bus protection",
+            None,
+            p.rating_a,
+            "A",
+            "fail",
+            "panel-bus-protection",
+            f"main-lugs panel {p.id} with {what}: a panelboard is protected by a "
+            f"device rated at most its {p.rating_a:g} A bus; add a main device or a "
+            "device on the run into it",
+        )
         return
-    ctx.compare(p.id, "bus protection", device, p.rating_a, "A", "at_most",
-                "panel-bus-protection",
-                f"main-lugs {p.rating_a:g} A bus protected by the {device:g} A {what}"
-                + ("" if device <= p.rating_a + 1e-9 else
-                   f"; add a main device of at most {p.rating_a:g} A or reduce that device"))
+    ctx.compare(
+        p.id,
+        "bus protection",
+        device,
+        p.rating_a,
+        "A",
+        "at_most",
+        "panel-bus-protection",
+        f"main-lugs {p.rating_a:g} A bus protected by the {device:g} A {what}"
+        + (
+            ""
+            if device <= p.rating_a + 1e-9
+            else f"; add a main device of at most {p.rating_a:g} A or reduce that device"
+        ),
+    )
 
 
 def check_standard_ratings(ctx: Context) -> None:

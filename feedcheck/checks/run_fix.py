@@ -44,8 +44,17 @@ def _failures(ctx: Context, run: Run, name: str, duty: RunDuty) -> list[str]:
         term = float(ak.termination_c_for(basis, name))
     try:
         chain = ak.ampacity_chain(
-            name, run.material, run.insulation_c, run.ambient_c, duty.cc, term, run.sets,
-            run.raceway == "free-air", duty.rooftop_c, duty.cont_a, duty.non_a,
+            name,
+            run.material,
+            run.insulation_c,
+            run.ambient_c,
+            duty.cc,
+            term,
+            run.sets,
+            run.raceway == "free-air",
+            duty.rooftop_c,
+            duty.cont_a,
+            duty.non_a,
             tables=ctx.rules.ampacity,
         )
     except ValueError:
@@ -88,9 +97,18 @@ def next_passing(ctx: Context, run: Run, duty: RunDuty) -> str:
     duty = replace(duty, device_a=device)
     try:
         sel = sk.select_conductor(
-            duty.cont_a, duty.non_a, run.material, run.insulation_c, run.ambient_c, duty.cc,
-            termination_c=run.termination_c, sets=run.sets, raceway=run.raceway,
-            device_a=device, rooftop_adder_c=duty.rooftop_c, system=run.size.system,
+            duty.cont_a,
+            duty.non_a,
+            run.material,
+            run.insulation_c,
+            run.ambient_c,
+            duty.cc,
+            termination_c=run.termination_c,
+            sets=run.sets,
+            raceway=run.raceway,
+            device_a=device,
+            rooftop_adder_c=duty.rooftop_c,
+            system=run.size.system,
             data=ctx.rules.sizing,
         )
     except ValueError as exc:

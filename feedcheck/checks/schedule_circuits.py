@@ -154,7 +154,8 @@ def _device_limits(q: dict, book) -> None:
     q["small_max_a"] = book.protection.small_limit_a[
         per_unique(material_index, mat), per_unique(size_index, size)
     ]
-    q["max_device_a"] = np.asarray(per_unique(max_device_a, q["ampacity_a"], size, mat, tables=book.protection), float
+    q["max_device_a"] = np.asarray(
+        per_unique(max_device_a, q["ampacity_a"], size, mat, tables=book.protection), float
     )
     motor_max = np.zeros(len(breaker))
     if motor.any():

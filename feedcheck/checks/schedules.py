@@ -203,9 +203,7 @@ class ScheduleDemand:
         f = self.figures
         conn = {k: float(f.connected_va[j, i]) for i, k in enumerate(KINDS)}
         cont = {
-            k: float(self.continuous_by_kind_va[j, i])
-            for i, k in enumerate(KINDS)
-            if k != "motor"
+            k: float(self.continuous_by_kind_va[j, i]) for i, k in enumerate(KINDS) if k != "motor"
         }
         return demand_chain(
             conn,

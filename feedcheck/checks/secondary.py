@@ -105,8 +105,7 @@ def check_secondary_arrangement(ctx: Context, run: Run, ampacity: float) -> None
     need, how = _need(ctx, run, rid)
     ctx.compare(
         run.id,
-        f"secondary conductors ({_label(rid).removeprefix('transformer secondary ')} "
-        "arrangement)",
+        f"secondary conductors ({_label(rid).removeprefix('transformer secondary ')} arrangement)",
         ampacity,
         need,
         "A",

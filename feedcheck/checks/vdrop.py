@@ -372,10 +372,18 @@ def _motor_starting(ctx: Context) -> None:
         )
         bus = float(vk.motor_starting_voltage_pct(es, i_lr, pf_start, zr, zx, es))
         other = ctx.rules.rule("ms-other-loads")
-        ctx.compare(m.id, "starting dip at the panel", 100.0 - bus,
-                    other.number("max_dip_pct"), "%", "at_most", "ms-other-loads",
-                    f"{m.panel_id} at {bus:.1f} % while {m.id} starts ({lr_text}): other "
-                    "loads on the panel see this dip", fail_status=str(other["status"]))
+        ctx.compare(
+            m.id,
+            "starting dip at the panel",
+            100.0 - bus,
+            other.number("max_dip_pct"),
+            "%",
+            "at_most",
+            "ms-other-loads",
+            f"{m.panel_id} at {bus:.1f} % while {m.id} starts ({lr_text}): other "
+            "loads on the panel see this dip",
+            fail_status=str(other["status"]),
+        )
         br, bx, where = _motor_branch(ctx, m, v.phases)
         vt = float(vk.motor_starting_voltage_pct(es, i_lr, pf_start, zr + br, zx + bx, es))
         dip = 100.0 - vt

@@ -61,86 +61,184 @@ Example:
 
 def _column(value: float, option: str) -> float:
     if value not in (60.0, 75.0, 90.0):
-        raise click.BadParameter(f"got {value:g} °C; expected 60, 75 or 90 degC (a table "
-                                 "column)", param_hint=option)
+        raise click.BadParameter(
+            f"got {value:g} °C; expected 60, 75 or 90 degC (a table column)", param_hint=option
+        )
     return value
 
 
 @click.command("ampacity", help=AMPACITY_HELP, context_settings=CONTEXT, epilog=CAUTION)
 @click.option("--size", "size", type=SIZE, required=True, help="Conductor size, e.g. '3/0 AWG'.")
 @click.option("--material", type=MATERIAL, default="cu", show_default=True)
-@click.option("--insulation", type=TEMPERATURE, default="75degC", show_default=True,
-              help="Insulation temperature column (60, 75 or 90 degC).")
+@click.option(
+    "--insulation",
+    type=TEMPERATURE,
+    default="75degC",
+    show_default=True,
+    help="Insulation temperature column (60, 75 or 90 degC).",
+)
 @click.option("--ambient", type=TEMPERATURE, default="30degC", show_default=True)
-@click.option("--current-carrying", type=click.IntRange(min=1), default=3, show_default=True,
-              help="Current-carrying conductors in the raceway or cable.")
-@click.option("--termination", type=TEMPERATURE, default="75degC", show_default=True,
-              help="Termination temperature column (60, 75 or 90 degC).")
-@click.option("--sets", type=click.IntRange(min=1), default=1, show_default=True,
-              help="Conductors in parallel per phase.")
+@click.option(
+    "--current-carrying",
+    type=click.IntRange(min=1),
+    default=3,
+    show_default=True,
+    help="Current-carrying conductors in the raceway or cable.",
+)
+@click.option(
+    "--termination",
+    type=TEMPERATURE,
+    default="75degC",
+    show_default=True,
+    help="Termination temperature column (60, 75 or 90 degC).",
+)
+@click.option(
+    "--sets",
+    type=click.IntRange(min=1),
+    default=1,
+    show_default=True,
+    help="Conductors in parallel per phase.",
+)
 @click.option("--free-air", is_flag=True, help="Single conductors in free air (Table 310.17).")
-@click.option("--rooftop-adder", type=TEMPERATURE, default="0degC", show_default=True,
-              help="Temperature added to the ambient for a sunlit rooftop raceway.")
+@click.option(
+    "--rooftop-adder",
+    type=TEMPERATURE,
+    default="0degC",
+    show_default=True,
+    help="Temperature added to the ambient for a sunlit rooftop raceway.",
+)
 @click.option("--continuous", type=CURRENT, default=None, help="Continuous load, e.g. 120A.")
 @click.option("--noncontinuous", type=CURRENT, default=None, help="Noncontinuous load.")
-def ampacity_command(size, material, insulation, ambient, current_carrying, termination, sets,
-                     free_air, rooftop_adder, continuous, noncontinuous):
+def ampacity_command(
+    size,
+    material,
+    insulation,
+    ambient,
+    current_carrying,
+    termination,
+    sets,
+    free_air,
+    rooftop_adder,
+    continuous,
+    noncontinuous,
+):
     from ..calc.ampacity import ampacity_chain
     from ..rulebook import current_rulebook
 
     ins = _column(insulation, "--insulation")
     term = _column(termination, "--termination")
     try:
-        c = ampacity_chain(size.name, material.lower(), ins, ambient, current_carrying, term,
-                           sets, free_air, rooftop_adder, continuous or 0.0, noncontinuous or 0.0,
-                           tables=current_rulebook().ampacity)
+        c = ampacity_chain(
+            size.name,
+            material.lower(),
+            ins,
+            ambient,
+            current_carrying,
+            term,
+            sets,
+            free_air,
+            rooftop_adder,
+            continuous or 0.0,
+            noncontinuous or 0.0,
+            tables=current_rulebook().ampacity,
+        )
     except ValueError as exc:
         raise click.UsageError(str(exc)) from None
-    click.echo(f"Ampacity of {c.sets} × {c.size} {c.material}"
-               + (" (interpolated: metric size, not a code table value)"
-                  if c.method == "interpolated" else ""))
+    click.echo(
+        f"Ampacity of {c.sets} × {c.size} {c.material}"
+        + (
+            " (interpolated: metric size, not a code table value)"
+            if c.method == "interpolated"
+            else ""
+        )
+    )
     for label, value, unit, rid in c.steps():
         shown = f"{value:.3f}" if unit == "" else f"{value:.1f} {unit}"
         click.echo(f"  {label:<48} {shown:>12}   [{rid}]")
     click.echo(f"  governed by: {c.governed_by}")
     if continuous is not None or noncontinuous is not None:
-        click.echo("  needed before adjustment (125 % cont. + noncont.): "
-                   f"{c.required_before_a:.1f} A -> "
-                   f"{'ok' if c.ok_before else 'NOT MET'}   [continuous-125]")
-        click.echo(f"  needed after correction (load): {c.required_after_a:.1f} A"
-                   f" -> {'ok' if c.ok_after else 'NOT MET'}   [load-after-derating]")
+        click.echo(
+            "  needed before adjustment (125 % cont. + noncont.): "
+            f"{c.required_before_a:.1f} A -> "
+            f"{'ok' if c.ok_before else 'NOT MET'}   [continuous-125]"
+        )
+        click.echo(
+            f"  needed after correction (load): {c.required_after_a:.1f} A"
+            f" -> {'ok' if c.ok_after else 'NOT MET'}   [load-after-derating]"
+        )
     click.echo(CAUTION, err=True)
 
 
 @click.command("size", help=SIZE_HELP, context_settings=CONTEXT, epilog=CAUTION)
-@click.option("--continuous", type=LOAD, default="0A", show_default=True,
-              help="Continuous load (3 h or more), e.g. 150A.")
-@click.option("--noncontinuous", type=LOAD, default="0A", show_default=True,
-              help="Noncontinuous load.")
+@click.option(
+    "--continuous",
+    type=LOAD,
+    default="0A",
+    show_default=True,
+    help="Continuous load (3 h or more), e.g. 150A.",
+)
+@click.option(
+    "--noncontinuous", type=LOAD, default="0A", show_default=True, help="Noncontinuous load."
+)
 @click.option("--material", type=MATERIAL, default="cu", show_default=True)
 @click.option("--insulation", type=TEMPERATURE, default="75degC", show_default=True)
 @click.option("--ambient", type=TEMPERATURE, default="30degC", show_default=True)
 @click.option("--current-carrying", type=click.IntRange(min=1), default=3, show_default=True)
-@click.option("--termination", type=TEMPERATURE, default=None,
-              help="Termination column; default by circuit rating and size (110.14(C)).")
+@click.option(
+    "--termination",
+    type=TEMPERATURE,
+    default=None,
+    help="Termination column; default by circuit rating and size (110.14(C)).",
+)
 @click.option("--sets", type=click.IntRange(min=1), default=1, show_default=True)
 @click.option("--raceway", type=RACEWAY, default="steel", show_default=True)
 @click.option("--device", type=CURRENT, default=None, help="Overcurrent device rating.")
 @click.option("--length", type=LENGTH, default=None, help="One-way run length, e.g. '120 ft'.")
-@click.option("--voltage", type=click.STRING, default=None,
-              help="Nominal line-to-line (3-phase) or line (1-phase) voltage, e.g. 208V.")
+@click.option(
+    "--voltage",
+    type=click.STRING,
+    default=None,
+    help="Nominal line-to-line (3-phase) or line (1-phase) voltage, e.g. 208V.",
+)
 @click.option("--phases", type=click.Choice(["1", "3"]), default="3", show_default=True)
 @click.option("--pf", type=click.FloatRange(min=0.01, max=1.0), default=0.9, show_default=True)
-@click.option("--limit", type=PERCENT, default="3%", show_default=True,
-              help="Voltage-drop limit in percent of nominal.")
+@click.option(
+    "--limit",
+    type=PERCENT,
+    default="3%",
+    show_default=True,
+    help="Voltage-drop limit in percent of nominal.",
+)
 @click.option("--fault", type=CURRENT, default=None, help="Available fault current.")
 @click.option("--clearing", type=TIME, default=None, help="Device clearing time.")
-@click.option("--withstand-insulation", type=click.Choice(["thermoplastic", "thermoset"]),
-              default="thermoplastic", show_default=True)
+@click.option(
+    "--withstand-insulation",
+    type=click.Choice(["thermoplastic", "thermoset"]),
+    default="thermoplastic",
+    show_default=True,
+)
 @click.option("--metric", is_flag=True, help="Choose among metric sizes (mm2).")
-def size_command(continuous, noncontinuous, material, insulation, ambient, current_carrying,
-                 termination, sets, raceway, device, length, voltage, phases, pf, limit, fault,
-                 clearing, withstand_insulation, metric):
+def size_command(
+    continuous,
+    noncontinuous,
+    material,
+    insulation,
+    ambient,
+    current_carrying,
+    termination,
+    sets,
+    raceway,
+    device,
+    length,
+    voltage,
+    phases,
+    pf,
+    limit,
+    fault,
+    clearing,
+    withstand_insulation,
+    metric,
+):
     from ..calc.selection import select_conductor
     from ..rulebook import current_rulebook
     from ..units import UnitParseError, parse_quantity
@@ -158,29 +256,53 @@ def size_command(continuous, noncontinuous, material, insulation, ambient, curre
         try:
             volts = parse_quantity(voltage, "voltage")
         except UnitParseError as exc:
-            raise click.BadParameter(f"got {exc.value!r}; expected {exc.expected}",
-                                     param_hint="--voltage") from None
+            raise click.BadParameter(
+                f"got {exc.value!r}; expected {exc.expected}", param_hint="--voltage"
+            ) from None
     if (length is None) != (volts is None):
         raise click.UsageError("--length and --voltage go together (voltage-drop check)")
     try:
-        s = select_conductor(continuous, noncontinuous, material.lower(), ins, ambient,
-                             current_carrying, term, sets, raceway.lower(), device,
-                             length or 0.0, volts, int(phases), pf, limit, fault, clearing,
-                             withstand_insulation, system="metric" if metric else "awg",
-                             data=current_rulebook().sizing)
+        s = select_conductor(
+            continuous,
+            noncontinuous,
+            material.lower(),
+            ins,
+            ambient,
+            current_carrying,
+            term,
+            sets,
+            raceway.lower(),
+            device,
+            length or 0.0,
+            volts,
+            int(phases),
+            pf,
+            limit,
+            fault,
+            clearing,
+            withstand_insulation,
+            system="metric" if metric else "awg",
+            data=current_rulebook().sizing,
+        )
     except ValueError as exc:
         raise click.UsageError(str(exc)) from None
-    click.echo(f"Selected: {s.sets} × {s.size} {material.lower()} on a {s.device_a:g} A device"
-               f" (terminations {s.termination_c:g} °C)")
+    click.echo(
+        f"Selected: {s.sets} × {s.size} {material.lower()} on a {s.device_a:g} A device"
+        f" (terminations {s.termination_c:g} °C)"
+    )
     click.echo(f"Governing criterion: {s.governing}")
     for crit, name in s.minimum_by_criterion:
         click.echo(f"  smallest meeting {crit:<13} {name}")
-    click.echo(f"  allowable ampacity {s.chain.final_a:.1f} A; largest device it permits "
-               f"{s.max_device_a:g} A")
+    click.echo(
+        f"  allowable ampacity {s.chain.final_a:.1f} A; largest device it permits "
+        f"{s.max_device_a:g} A"
+    )
     if s.vdrop_pct is not None:
         click.echo(f"  voltage drop {s.vdrop_pct:.2f} % (limit {limit:g} %)")
     if s.withstand_a is not None:
-        click.echo(f"  withstand {s.withstand_a / 1000:.1f} kA for {clearing:g} s "
-                   f"(available {fault / 1000:.1f} kA)")
+        click.echo(
+            f"  withstand {s.withstand_a / 1000:.1f} kA for {clearing:g} s "
+            f"(available {fault / 1000:.1f} kA)"
+        )
     click.echo("  rules: " + ", ".join(dict.fromkeys(s.rule_ids)))
     click.echo(CAUTION, err=True)

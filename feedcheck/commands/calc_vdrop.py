@@ -170,7 +170,10 @@ def voltage_drop_command(
         r_m, x_m = (
             float(v)
             for v in ac_impedance_ohm_per_m(
-                size.name, material, raceway, conductor_c=conductor_c,
+                size.name,
+                material,
+                raceway,
+                conductor_c=conductor_c,
                 data=current_rulebook().conductors,
             )
         )

@@ -136,7 +136,12 @@ def old_spelling(old: str, dest: str, new: str, type_, **kwargs):
     only, and an invalid value names the spelling the user typed.
     """
     return click.option(
-        old, dest, type=type_, default=None, hidden=True, help=f"Former spelling of {new}.",
+        old,
+        dest,
+        type=type_,
+        default=None,
+        hidden=True,
+        help=f"Former spelling of {new}.",
         **kwargs,
     )
 

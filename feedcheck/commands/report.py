@@ -15,6 +15,7 @@ def job_inputs(job) -> list:
     """The files a job was read from: the job file and its panels' schedules."""
     return [job.path, *(p.schedule for p in job.panels if getattr(p, "schedule", None))]
 
+
 CONTEXT = {"help_option_names": ["-h", "--help"], "max_content_width": 100}
 
 

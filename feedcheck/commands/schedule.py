@@ -67,12 +67,14 @@ def _expand(paths: tuple[str, ...], out: str | None = None) -> list[Path]:
     for p in map(Path, paths):
         if p.is_dir():
             for q in sorted(p.iterdir()):
-                if (q.suffix.lower() not in (".csv", ".xlsx") or not q.is_file()
-                        or q.name.startswith((".", "~$"))):
+                if (
+                    q.suffix.lower() not in (".csv", ".xlsx")
+                    or not q.is_file()
+                    or q.name.startswith((".", "~$"))
+                ):
                     continue
                 if q.resolve() in own or is_results_file(q):
-                    click.echo(f"skipped {q}: a results file feedcheck schedule wrote",
-                               err=True)
+                    click.echo(f"skipped {q}: a results file feedcheck schedule wrote", err=True)
                     continue
                 out_files.append(q)
         else:
@@ -80,38 +82,90 @@ def _expand(paths: tuple[str, ...], out: str | None = None) -> list[Path]:
     return out_files
 
 
-@click.command("schedule", help=HELP, context_settings={"help_option_names": ["-h", "--help"],
-                                                        "max_content_width": 100})
+@click.command(
+    "schedule",
+    help=HELP,
+    context_settings={"help_option_names": ["-h", "--help"], "max_content_width": 100},
+)
 @click.argument("inputs", nargs=-1, type=click.Path(exists=True), metavar="FILE_OR_FOLDER...")
-@click.option("--system", type=VOLTAGE_SYSTEM,
-              help='Panel voltage, e.g. "208Y/120 V", "120/240 V", "480Y/277 V".')
-@click.option("--job", "job_file", type=click.Path(exists=True, dir_okay=False),
-              help="Job file: each panel's voltage and feeder drop come from it; files are "
-                   "matched to panels by the job's schedule paths.")
-@click.option("--feeder-drop", "feeder_drop", type=DROP, default="0%", show_default=True,
-              help="Drop from the source to the panel, added for the total (with --system).")
-@click.option("--occupancy", type=click.Choice(list(OCCUPANCIES)), default=None,
-              help="Lighting demand factors (NFPA 70 Table 220.42); default other. With "
-                   "--job each panel's occupancy comes from the job.")
+@click.option(
+    "--system",
+    type=VOLTAGE_SYSTEM,
+    help='Panel voltage, e.g. "208Y/120 V", "120/240 V", "480Y/277 V".',
+)
+@click.option(
+    "--job",
+    "job_file",
+    type=click.Path(exists=True, dir_okay=False),
+    help="Job file: each panel's voltage and feeder drop come from it; files are "
+    "matched to panels by the job's schedule paths.",
+)
+@click.option(
+    "--feeder-drop",
+    "feeder_drop",
+    type=DROP,
+    default="0%",
+    show_default=True,
+    help="Drop from the source to the panel, added for the total (with --system).",
+)
+@click.option(
+    "--occupancy",
+    type=click.Choice(list(OCCUPANCIES)),
+    default=None,
+    help="Lighting demand factors (NFPA 70 Table 220.42); default other. With "
+    "--job each panel's occupancy comes from the job.",
+)
 @click.option("--bus", "bus_a", type=CURRENT, help="Panel bus rating, e.g. 225A (with --system).")
 @click.option("--main", "main_a", type=CURRENT, help="Main device rating (with --system).")
-@click.option("--out", "out", type=click.Path(dir_okay=False),
-              help="Write every circuit with status and reason to .csv, .xlsx or .json "
-                   "(atomically).")
+@click.option(
+    "--out",
+    "out",
+    type=click.Path(dir_okay=False),
+    help="Write every circuit with status and reason to .csv, .xlsx or .json (atomically).",
+)
 @click.option("--all", "show_all", is_flag=True, help="List every failing/warning circuit.")
-@click.option("--columns", "columns", metavar="MAP",
-              help='Name columns the reader does not know: "Cont?=continuous,Ins=insulation" '
-                   "(HEADER=COLUMN, or HEADER=ignore to skip a column knowingly).")
-@click.option("--layout", type=click.Choice(["auto", "one-row", "two-column"]), default="auto",
-              show_default=True,
-              help="auto detects the two-column panel form (odd circuits left, even right).")
-@click.option("--systems", "systems_file", type=click.Path(exists=True, dir_okay=False),
-              help='Per-file voltage systems: lines "LP1.csv = 208Y/120 V" (# comments).')
-@click.option("--keep-going", "keep_going", is_flag=True,
-              help="Check every readable file and write their results; list each unreadable "
-                   "file with its errors; exit 2 at the end if any was unreadable.")
-def schedule_command(inputs, system, job_file, feeder_drop, occupancy, bus_a, main_a, out,
-                     show_all, columns, layout, systems_file, keep_going):
+@click.option(
+    "--columns",
+    "columns",
+    metavar="MAP",
+    help='Name columns the reader does not know: "Cont?=continuous,Ins=insulation" '
+    "(HEADER=COLUMN, or HEADER=ignore to skip a column knowingly).",
+)
+@click.option(
+    "--layout",
+    type=click.Choice(["auto", "one-row", "two-column"]),
+    default="auto",
+    show_default=True,
+    help="auto detects the two-column panel form (odd circuits left, even right).",
+)
+@click.option(
+    "--systems",
+    "systems_file",
+    type=click.Path(exists=True, dir_okay=False),
+    help='Per-file voltage systems: lines "LP1.csv = 208Y/120 V" (# comments).',
+)
+@click.option(
+    "--keep-going",
+    "keep_going",
+    is_flag=True,
+    help="Check every readable file and write their results; list each unreadable "
+    "file with its errors; exit 2 at the end if any was unreadable.",
+)
+def schedule_command(
+    inputs,
+    system,
+    job_file,
+    feeder_drop,
+    occupancy,
+    bus_a,
+    main_a,
+    out,
+    show_all,
+    columns,
+    layout,
+    systems_file,
+    keep_going,
+):
     from ..errors import InputError
 
     if system is not None and job_file:
@@ -123,7 +177,8 @@ def schedule_command(inputs, system, job_file, feeder_drop, occupancy, bus_a, ma
         raise click.UsageError(f"--out: got {out!r}; expected a .csv, .xlsx or .json file")
     if job_file and (bus_a or main_a or feeder_drop or occupancy):
         raise click.UsageError(
-            "--bus, --main, --feeder-drop and --occupancy come from the job with --job")
+            "--bus, --main, --feeder-drop and --occupancy come from the job with --job"
+        )
     occupancy = occupancy or "other"
     files = _expand(inputs, out)
     if not files and not job_file:
@@ -139,10 +194,16 @@ def schedule_command(inputs, system, job_file, feeder_drop, occupancy, bus_a, ma
             results = _from_job(job_file, files)
             done = [str(r.path) for r in results]
         else:
-            opts = {"system": system, "systems": _systems(systems_file), "columns": column_map,
-                    "layout": layout, "keep_going": keep_going}
-            results = _from_files(files, opts, (feeder_drop, occupancy, bus_a, main_a), done,
-                                  unreadable)
+            opts = {
+                "system": system,
+                "systems": _systems(systems_file),
+                "columns": column_map,
+                "layout": layout,
+                "keep_going": keep_going,
+            }
+            results = _from_files(
+                files, opts, (feeder_drop, occupancy, bus_a, main_a), done, unreadable
+            )
         if out and (results or not unreadable):
             from ..io_atomic import check_output
             from ..render.schedules import write_results
@@ -160,8 +221,9 @@ def schedule_command(inputs, system, job_file, feeder_drop, occupancy, bus_a, ma
         for p in exc.problems:
             click.echo(f"error: {p}", err=True)
         n = len(exc.problems)
-        click.echo(f"{n} problem{'s' if n != 1 else ''} in the input; nothing was written.",
-                   err=True)
+        click.echo(
+            f"{n} problem{'s' if n != 1 else ''} in the input; nothing was written.", err=True
+        )
         if done:
             click.echo(f"checked without problems: {', '.join(done)}", err=True)
         sys.exit(2)
@@ -178,8 +240,11 @@ def schedule_command(inputs, system, job_file, feeder_drop, occupancy, bus_a, ma
             for p in exc.problems:
                 click.echo(f"error: {p}", err=True)
         names = list(dict.fromkeys(p.file for exc in unreadable for p in exc.problems))
-        click.echo(f"{len(names)} file(s) could not be read (listed above; not in the results): "
-                   f"{', '.join(names)}", err=True)
+        click.echo(
+            f"{len(names)} file(s) could not be read (listed above; not in the results): "
+            f"{', '.join(names)}",
+            err=True,
+        )
         sys.exit(2)
     sys.exit(1 if any(r.exit_code for r in results) else 0)
 
@@ -220,8 +285,9 @@ def _systems(path: str | None) -> dict[str, str]:
                 raise ValueError
             parse_voltage_system(sys_text.strip())
         except Exception:  # any unreadable line is reported with its number
-            problems.append(Problem(path, f"line {i}", line.strip(),
-                                    'a line such as "LP1.csv = 208Y/120 V"', i))
+            problems.append(
+                Problem(path, f"line {i}", line.strip(), 'a line such as "LP1.csv = 208Y/120 V"', i)
+            )
             continue
         out[Path(name.strip()).name] = sys_text.strip()
     if len(raw) > 1_000_000:
@@ -232,8 +298,11 @@ def _systems(path: str | None) -> dict[str, str]:
 
 
 def _report_partial(done, files, why: str) -> None:
-    click.echo(f"{why}: nothing was written; {len(done)} of {len(files) or len(done)} inputs "
-               f"were checked: {', '.join(done) or 'none'}", err=True)
+    click.echo(
+        f"{why}: nothing was written; {len(done)} of {len(files) or len(done)} inputs "
+        f"were checked: {', '.join(done) or 'none'}",
+        err=True,
+    )
 
 
 def _file_system(path: Path, s, opts):
@@ -245,9 +314,17 @@ def _file_system(path: Path, s, opts):
     mapped = opts["systems"].get(path.name)
     text = mapped or s.system or opts["system"]
     if text is None:
-        raise InputError([Problem(str(path), "", "(no system)",
-                                  'a voltage system: --system "208Y/120 V", a line in '
-                                  "--systems FILE, or a system column in the file")])
+        raise InputError(
+            [
+                Problem(
+                    str(path),
+                    "",
+                    "(no system)",
+                    'a voltage system: --system "208Y/120 V", a line in '
+                    "--systems FILE, or a system column in the file",
+                )
+            ]
+        )
     try:
         own = parse_voltage_system(s.system) if s.system else None
         system = text if not isinstance(text, str) else parse_voltage_system(text)
@@ -255,8 +332,16 @@ def _file_system(path: Path, s, opts):
         where = "column 'system'" if text == s.system else "system"
         raise InputError([Problem(str(path), where, str(text), str(exc))]) from None
     if own is not None and own != system:
-        raise InputError([Problem(str(path), "column 'system'", s.system,
-                                  f"the same system as --systems or --system gives ({text})")])
+        raise InputError(
+            [
+                Problem(
+                    str(path),
+                    "column 'system'",
+                    s.system,
+                    f"the same system as --systems or --system gives ({text})",
+                )
+            ]
+        )
     return system
 
 
@@ -309,8 +394,9 @@ def _size(path: Path) -> int:
 
 def _one_with_stages(path: Path, one) -> None:
     """A large file's stages (reading, checking) as a progress bar on the terminal."""
-    with click.progressbar(length=2, label=f"{path.name}", file=sys.stderr,
-                           item_show_func=lambda w: w) as bar:
+    with click.progressbar(
+        length=2, label=f"{path.name}", file=sys.stderr, item_show_func=lambda w: w
+    ) as bar:
         state = {"n": 0}
 
         def stage(what):
@@ -341,12 +427,11 @@ def _from_job(job_file, files):
         for f in files:
             pid = by_path.get(f.resolve())
             if pid is None:
-                problems.append(Problem(str(f), "", f.name,
-                                        f"a schedule named by a panel of {job_file}"))
+                problems.append(
+                    Problem(str(f), "", f.name, f"a schedule named by a panel of {job_file}")
+                )
             else:
                 wanted.append(pid)
         if problems:
             raise InputError(problems)
     return [res.schedules[pid] for pid in wanted if pid in res.schedules]
-
-

@@ -56,8 +56,12 @@ def phases_connected(r: Reader, t: dict, path: str, prim) -> str:
         return ""
     expected = 'a pair of lines "A-B", "B-C" or "C-A"'
     if prim is not None and prim.phases != 1:
-        r.add(f"{path}.phases_connected", raw, "no value: only a single-phase unit takes "
-              "a pair of lines (this transformer is three-phase)")
+        r.add(
+            f"{path}.phases_connected",
+            raw,
+            "no value: only a single-phase unit takes "
+            "a pair of lines (this transformer is three-phase)",
+        )
         return ""
     text = raw.upper() if isinstance(raw, str) else ""
     key = "".join(ch for ch in text if ch not in " -–/_")
@@ -65,6 +69,7 @@ def phases_connected(r: Reader, t: dict, path: str, prim) -> str:
         return PAIR_WORDS[key]
     r.add(f"{path}.phases_connected", raw, expected)
     return ""
+
 
 _AREA_WORDS = (("sq ft", "ft**2"), ("sq. ft", "ft**2"), ("ft2", "ft**2"), ("m2", "m**2"))
 

@@ -121,9 +121,7 @@ PANEL_KEYS = (
     "device_type",
     "columns",
 )
-MOTOR_KEYS = (
-    "id", "panel", "full_load", "hp", "locked_rotor", "length", "conductors", "raceway"
-)
+MOTOR_KEYS = ("id", "panel", "full_load", "hp", "locked_rotor", "length", "conductors", "raceway")
 OPTION_KEYS = (
     "impedance_tolerance",
     "voltage_factor",
@@ -370,7 +368,6 @@ def _transformer(r: Reader, t: dict, path: str, phases: int) -> Transformer:
     )
 
 
-
 def _run_temperatures(r: Reader, t: dict, path: str) -> tuple[float | None, ...]:
     """Insulation, termination and ambient temperatures of a run [°C]."""
     type_rating = _insulation_type_rating(t.get("insulation"))
@@ -378,7 +375,12 @@ def _run_temperatures(r: Reader, t: dict, path: str) -> tuple[float | None, ...]
         ins = type_rating
     else:
         ins = r.qty(
-            t, path, "insulation", "temperature", required=False, default=75.0,
+            t,
+            path,
+            "insulation",
+            "temperature",
+            required=False,
+            default=75.0,
             must_be_positive=False,
         )
     if ins not in INSULATION_RATINGS_C:
@@ -557,8 +559,9 @@ def _schedule_columns(r: Reader, t: dict, path: str) -> tuple[tuple[str, str], .
         return ()
     try:
         return tuple(
-            parse_column_map(",".join(f"{k}={v}" for k, v in cols.items()), f"{path}.columns")
-            .items()
+            parse_column_map(
+                ",".join(f"{k}={v}" for k, v in cols.items()), f"{path}.columns"
+            ).items()
         )
     except ValueError as exc:
         r.add(f"{path}.columns", cols, str(exc).split("expected ", 1)[-1])
@@ -572,7 +575,8 @@ def _occupancy(r: Reader, t: dict, path: str) -> str:
         r.add(
             f"{path}.occupancy",
             occ,
-            "one of " + ", ".join(OCCUPANCIES)
+            "one of "
+            + ", ".join(OCCUPANCIES)
             + " (lighting demand factors of Table 220.42, unit loads of Table 220.12)",
         )
         return "other"

@@ -144,23 +144,35 @@ def test_bad_option(cmd, last):
 
 # Once known gaps in cli.py / commands/ (found by this catalogue), now exit 2 with a message.
 FORMER_GAPS = [
-    ("init /nonexistent-feedcheck-dir/x.toml",
-     "error: /nonexistent-feedcheck-dir/x.toml: the folder /nonexistent-feedcheck-dir does not "
-     "exist"),
-    (f"check {JOB} --out /nonexistent-feedcheck-dir/r.json",
-     "Error: Invalid value for --out: got '/nonexistent-feedcheck-dir/r.json'; the folder "
-     "'/nonexistent-feedcheck-dir' does not exist"),
-    ("calc regulation --impedance 5.1% --x-r nan",
-     "Error: Invalid value for '--x-r': got 'nan'; expected a number from 0.1 to 100"),
-    ("calc regulation --impedance 900% --x-r 3.5",
-     "Error: Invalid value for '--impedance': got '900%'; expected a transformer impedance in % "
-     "from 0.5 to 25"),
-    ("calc fault --kva 75kW --primary '480 V delta' --secondary '208Y/120 V' --z 5.1%",
-     "Error: Invalid value for '--kva': got '75kW'; expected an apparent power in VA, kVA or "
-     "MVA, e.g. '75 kVA' (not W, hp or var)"),
-    ("calc fault --kva 75kVA --primary '480 V delta' --secondary '208Y/120 V' --z 900%",
-     "Error: Invalid value for '--z': got '900%'; expected a transformer impedance in % from "
-     "0.5 to 25"),
+    (
+        "init /nonexistent-feedcheck-dir/x.toml",
+        "error: /nonexistent-feedcheck-dir/x.toml: the folder /nonexistent-feedcheck-dir does not "
+        "exist",
+    ),
+    (
+        f"check {JOB} --out /nonexistent-feedcheck-dir/r.json",
+        "Error: Invalid value for --out: got '/nonexistent-feedcheck-dir/r.json'; the folder "
+        "'/nonexistent-feedcheck-dir' does not exist",
+    ),
+    (
+        "calc regulation --impedance 5.1% --x-r nan",
+        "Error: Invalid value for '--x-r': got 'nan'; expected a number from 0.1 to 100",
+    ),
+    (
+        "calc regulation --impedance 900% --x-r 3.5",
+        "Error: Invalid value for '--impedance': got '900%'; expected a transformer impedance in % "
+        "from 0.5 to 25",
+    ),
+    (
+        "calc fault --kva 75kW --primary '480 V delta' --secondary '208Y/120 V' --z 5.1%",
+        "Error: Invalid value for '--kva': got '75kW'; expected an apparent power in VA, kVA or "
+        "MVA, e.g. '75 kVA' (not W, hp or var)",
+    ),
+    (
+        "calc fault --kva 75kVA --primary '480 V delta' --secondary '208Y/120 V' --z 900%",
+        "Error: Invalid value for '--z': got '900%'; expected a transformer impedance in % from "
+        "0.5 to 25",
+    ),
 ]
 
 

@@ -185,7 +185,7 @@ def test_deep_key_scan_is_fast_and_finds_the_line():
         "a." * (MAX_KEY_PARTS - 1) + "b = 1\n",  # exactly the limit: parsed as usual
         'notes = "' + "1." * 100 + '"\n',  # dots inside a text are not key parts
         "notes = '" + "a." * 100 + "'\n",
-        '# ' + "a." * 100 + "\n",
+        "# " + "a." * 100 + "\n",
         'x = """\n' + "a." * 100 + '\n"""\n',
     ],
 )
@@ -446,8 +446,9 @@ def test_output_never_replaces_an_input(tmp_path, job_with_schedule, alias, argv
     r = cli(*args)
     assert_no_traceback(r)
     assert r.exit_code == 2, r.output
-    assert any("expected an output path other than the command's inputs" in ln
-               for ln in error_lines(r)), r.stderr
+    assert any(
+        "expected an output path other than the command's inputs" in ln for ln in error_lines(r)
+    ), r.stderr
     assert {p: _sha(p) for p in (job, sched)} == before
     assert not list(tmp_path.glob(".*.part"))
 
@@ -463,8 +464,9 @@ def test_folder_as_output_is_refused(tmp_path, job_with_schedule, cmd, form):
         assert r.exit_code == 2 and "is a directory" in r.stderr
         return
     (line,) = assert_rejected(r, n=1)
-    assert line.endswith("got 'a folder'; expected an output file name "
-                         "(give a file inside the folder)")
+    assert line.endswith(
+        "got 'a folder'; expected an output file name (give a file inside the folder)"
+    )
     assert not (tmp_path / "new").exists()
 
 
@@ -485,8 +487,10 @@ def test_read_only_output_is_never_replaced(tmp_path, job_with_schedule, argv):
     try:
         r = cli(*args)
         (line,) = assert_rejected(r)[-1:]
-        assert line.endswith("got 'a read-only file'; expected a writable output file "
-                             "(read-only files are not replaced)")
+        assert line.endswith(
+            "got 'a read-only file'; expected a writable output file "
+            "(read-only files are not replaced)"
+        )
         assert out.read_text() == "keep me"
         assert stat.S_IMODE(out.stat().st_mode) == 0o444
     finally:
@@ -637,9 +641,11 @@ def test_infinite_source_drops_nothing(tmp_path):
 
 
 def test_circuits_on_a_collapsed_panel_are_never_ok(tmp_path):
-    text = GOOD.replace('load = "20 kVA"\n', 'schedule = "S.csv"\n').replace(
-        'impedance = "4.6 %"', 'impedance = "25 %"'
-    ).replace('load = "60 kVA"', 'load = "475 kVA"')
+    text = (
+        GOOD.replace('load = "20 kVA"\n', 'schedule = "S.csv"\n')
+        .replace('impedance = "4.6 %"', 'impedance = "25 %"')
+        .replace('load = "60 kVA"', 'load = "475 kVA"')
+    )
     sched = (
         "circuit,load [VA],breaker [A],conductor,length [ft]\n"
         "1,100,20,12 AWG Cu,10\n"
@@ -649,8 +655,11 @@ def test_circuits_on_a_collapsed_panel_are_never_ok(tmp_path):
     drops = [f for f in d["findings"] if f["subject"].startswith("PB/") and "drop" in f["check"]]
     assert drops
     assert all(f["status"] != "ok" for f in drops if f["check"] == "total voltage drop")
-    rows = [c for s in d["schedules"].values() for c in s.get("circuits", [])] if isinstance(
-        d["schedules"], dict) else []
+    rows = (
+        [c for s in d["schedules"].values() for c in s.get("circuits", [])]
+        if isinstance(d["schedules"], dict)
+        else []
+    )
     for f in drops:  # printable figures: no drop beyond the whole voltage (plus the feeder's)
         assert f["value"] <= 200.0, f
     assert rows == [] or all(c.get("vdrop_pct", 0) <= 100.0 for c in rows)

@@ -97,8 +97,7 @@ def job_text(n_panels: int, folder: Path, seed: int = 17) -> str:
             sets = 2 if k == 0 else 1
             cond = cond.removeprefix("2 x ")
             (folder / f"{pid}.csv").write_text(
-                "\n".join([HEADER.removeprefix("panel,"), *schedule_rows(pid, rng, False)])
-                + "\n",
+                "\n".join([HEADER.removeprefix("panel,"), *schedule_rows(pid, rng, False)]) + "\n",
                 encoding="utf-8",
             )
             parts.append(
@@ -178,14 +177,52 @@ def line(what: str, a, b, target: float) -> None:
 CALC = {
     "rated-current": ["rated-current", "--rating", "75kVA", "--voltage", "208V"],
     "fault": [
-        "fault", "--rating", "75kVA", "--primary", "480 V delta", "--secondary",
-        "208Y/120 V", "--impedance", "5.1%", "--x-r", "3.5", "--source-fault", "30kA",
-        "--length", "95 ft", "--size", "4/0 AWG", "--ground", "4 AWG", "--device", "225A",
+        "fault",
+        "--rating",
+        "75kVA",
+        "--primary",
+        "480 V delta",
+        "--secondary",
+        "208Y/120 V",
+        "--impedance",
+        "5.1%",
+        "--x-r",
+        "3.5",
+        "--source-fault",
+        "30kA",
+        "--length",
+        "95 ft",
+        "--size",
+        "4/0 AWG",
+        "--ground",
+        "4 AWG",
+        "--device",
+        "225A",
     ],
-    "ampacity": ["ampacity", "--size", "3/0 AWG", "--insulation", "90degC",
-                 "--ambient", "40degC", "--current-carrying", "6"],
-    "voltage-drop": ["voltage-drop", "--current", "150A", "--length", "200 ft",
-                     "--size", "3/0 AWG", "--system", "208Y/120 V", "--pf", "0.9"],
+    "ampacity": [
+        "ampacity",
+        "--size",
+        "3/0 AWG",
+        "--insulation",
+        "90degC",
+        "--ambient",
+        "40degC",
+        "--current-carrying",
+        "6",
+    ],
+    "voltage-drop": [
+        "voltage-drop",
+        "--current",
+        "150A",
+        "--length",
+        "200 ft",
+        "--size",
+        "3/0 AWG",
+        "--system",
+        "208Y/120 V",
+        "--pf",
+        "0.9",
+    ],
 }
 
 

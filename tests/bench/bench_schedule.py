@@ -49,12 +49,23 @@ def generate(folder: Path, circuits: int, panels: int, files: int, seed: int = 7
         cont = rng.choice(np.array(["yes", "no"]), m)
         kind = KINDS[rng.integers(0, len(KINDS), m)]
         length = rng.uniform(5, 150, m).round(1)
-        lines = ["panel,circuit,kind,continuous,load [VA],power factor,breaker [A],conductor,"
-                 "insulation,length [ft],ground"]
+        lines = [
+            "panel,circuit,kind,continuous,load [VA],power factor,breaker [A],conductor,"
+            "insulation,length [ft],ground"
+        ]
         body = np.char.add(pan.astype(str), ",")
-        for col in (circ.astype(str), kind, cont, load.astype(str),
-                    rng.choice(np.array(["0.9", "0.95", "1"]), m), BREAKER[s].astype(str),
-                    SIZES[s], np.full(m, "90"), length.astype(str), SIZES[s]):
+        for col in (
+            circ.astype(str),
+            kind,
+            cont,
+            load.astype(str),
+            rng.choice(np.array(["0.9", "0.95", "1"]), m),
+            BREAKER[s].astype(str),
+            SIZES[s],
+            np.full(m, "90"),
+            length.astype(str),
+            SIZES[s],
+        ):
             body = np.char.add(np.char.add(body, col), ",")
         text = "\n".join([lines[0], *np.char.rstrip(body, ",").tolist()]) + "\n"
         p = folder / f"sched_{f:03d}.csv"
@@ -70,8 +81,9 @@ def per_row_reference(schedule, system, rows: int) -> float:
     for r in c.itertuples(index=False):
         i = r.load_value / system.neutral_v
         term = float(termination_c_for(r.breaker_a, r.size))
-        amp = float(ampacity_a(r.size, r.material, r.insulation_c, r.ambient_c,
-                               r.current_carrying, term))
+        amp = float(
+            ampacity_a(r.size, r.material, r.insulation_c, r.ambient_c, r.current_carrying, term)
+        )
         float(ampacity_a(r.size, r.material, r.insulation_c, 30.0, 3, term))
         float(max_device_a(amp, r.size, r.material))
         rr, xx = ac_impedance_ohm_per_m(r.size, r.material, r.raceway, 75.0)
@@ -114,14 +126,20 @@ def main() -> None:
         t_find = time.perf_counter() - a
     peak_mb = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
     print(f"circuits {n:,} in {n_pan:,} panels, {len(paths)} files (generated in {t_gen:.1f} s)")
-    print(f"read {t_read:.2f} s, check {t_check:.2f} s, write CSV {t_write:.2f} s; "
-          f"end to end {total:.2f} s ({n / total:,.0f} circuits/s); {fails:,} failing circuits")
+    print(
+        f"read {t_read:.2f} s, check {t_check:.2f} s, write CSV {t_write:.2f} s; "
+        f"end to end {total:.2f} s ({n / total:,.0f} circuits/s); {fails:,} failing circuits"
+    )
     print(f"peak resident memory {peak_mb:,.0f} MB")
-    print(f"per-row reference loop over the same kernels: {loop:.2f} s for {sub:,} rows, "
-          f"scaled linearly to {n:,} rows ≈ {loop_scaled:,.0f} s (checks only, no read/write)")
+    print(
+        f"per-row reference loop over the same kernels: {loop:.2f} s for {sub:,} rows, "
+        f"scaled linearly to {n:,} rows ≈ {loop_scaled:,.0f} s (checks only, no read/write)"
+    )
     print(f"ratio per-row loop / vectorised check: {loop_scaled / t_check:,.0f}×")
-    print(f"findings lists (built on first use, not in the figures above): {n_find:,} "
-          f"findings in {t_find:.2f} s")
+    print(
+        f"findings lists (built on first use, not in the figures above): {n_find:,} "
+        f"findings in {t_find:.2f} s"
+    )
 
 
 if __name__ == "__main__":

@@ -92,16 +92,19 @@ def test_rooftop_2011_bands_and_xhhw2():
     assert rooftop_adder_c(0.0, xhhw2=True)[0] == 0.0
 
 
-@pytest.mark.parametrize("kwargs,match", [
-    ({"insulation_c": 80.0}, "insulation_c"),
-    ({"termination_c": 70.0}, "termination_c"),
-    ({"ambient_c": 90.0}, "ambient_c"),
-    ({"current_carrying": 0}, "current_carrying"),
-    ({"sets": 2, "size": "2 AWG"}, "1/0"),
-    ({"sets": 0}, "sets"),
-    ({"size": "1.5 mm2"}, "ampacity table"),
-    ({"material": "brass"}, "material"),
-])
+@pytest.mark.parametrize(
+    "kwargs,match",
+    [
+        ({"insulation_c": 80.0}, "insulation_c"),
+        ({"termination_c": 70.0}, "termination_c"),
+        ({"ambient_c": 90.0}, "ambient_c"),
+        ({"current_carrying": 0}, "current_carrying"),
+        ({"sets": 2, "size": "2 AWG"}, "1/0"),
+        ({"sets": 0}, "sets"),
+        ({"size": "1.5 mm2"}, "ampacity table"),
+        ({"material": "brass"}, "material"),
+    ],
+)
 def test_bad_input_raises(kwargs, match):
     args = {"size": "4/0 AWG", "material": "cu", "insulation_c": 90.0, "ambient_c": 30.0}
     args.update(kwargs)

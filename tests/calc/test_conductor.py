@@ -47,8 +47,12 @@ def test_methods():
 
 
 @settings(max_examples=40, deadline=None)
-@given(st.sampled_from(ALL), st.sampled_from(["cu", "al"]),
-       st.floats(20.0, 250.0), st.floats(20.0, 250.0))
+@given(
+    st.sampled_from(ALL),
+    st.sampled_from(["cu", "al"]),
+    st.floats(20.0, 250.0),
+    st.floats(20.0, 250.0),
+)
 def test_resistance_rises_with_temperature(size, mat, t1, t2):
     lo, hi = sorted((t1, t2))
     r_lo, x_lo = ac_impedance_ohm_per_m(size, mat, "pvc", lo)
@@ -71,9 +75,11 @@ def test_steel_reactance_above_nonmagnetic():
 def test_cable_and_free_air_read_pvc_columns():
     # documented mapping: cable, free-air -> nonmagnetic (PVC) columns
     assert ac_impedance_ohm_per_m("2/0 AWG", "cu", "cable") == ac_impedance_ohm_per_m(
-        "2/0 AWG", "cu", "pvc")
+        "2/0 AWG", "cu", "pvc"
+    )
     assert ac_impedance_ohm_per_m("2/0 AWG", "al", "free-air") == ac_impedance_ohm_per_m(
-        "2/0 AWG", "al", "pvc")
+        "2/0 AWG", "al", "pvc"
+    )
 
 
 def test_parallel_divides():
@@ -92,13 +98,16 @@ def test_skin_effect_small_for_small_conductors():
     assert r_ac / dc_resistance_ohm_per_m(630.0, "cu", 20.0) > 1.01
 
 
-@pytest.mark.parametrize("kwargs,match", [
-    ({"size": "7 AWG"}, "conductor size"),
-    ({"material": "fe"}, "material"),
-    ({"raceway": "duct"}, "raceway"),
-    ({"conductor_c": 900.0}, "conductor_c"),
-    ({"conductor_c": float("nan")}, "conductor_c"),
-])
+@pytest.mark.parametrize(
+    "kwargs,match",
+    [
+        ({"size": "7 AWG"}, "conductor size"),
+        ({"material": "fe"}, "material"),
+        ({"raceway": "duct"}, "raceway"),
+        ({"conductor_c": 900.0}, "conductor_c"),
+        ({"conductor_c": float("nan")}, "conductor_c"),
+    ],
+)
 def test_bad_input_raises(kwargs, match):
     args = {"size": "4/0 AWG", "material": "cu", "raceway": "pvc", "conductor_c": 75.0}
     args.update(kwargs)

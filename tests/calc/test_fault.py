@@ -15,8 +15,13 @@ from feedcheck.calc.transformer import transformer_impedance_ohm
 
 ZT = transformer_impedance_ohm(75e3, 208.0, 5.1, 3.5)
 # NFPA 70-2023 Ch. 9 Table 9, Cu in steel conduit, Ω/kft: size: (R, XL)
-TABLE9_CU_STEEL = {"4": (0.31, 0.060), "1/0": (0.12, 0.055), "4/0": (0.063, 0.051),
-                   "250": (0.054, 0.052), "500": (0.029, 0.048)}
+TABLE9_CU_STEEL = {
+    "4": (0.31, 0.060),
+    "1/0": (0.12, 0.055),
+    "4/0": (0.063, 0.051),
+    "250": (0.054, 0.052),
+    "500": (0.029, 0.048),
+}
 
 
 def _per_m(size):
@@ -41,8 +46,12 @@ settings.register_profile("fault", max_examples=40, deadline=None)
 settings.load_profile("fault")
 
 
-@given(st.floats(1.0, 300.0), st.floats(0.0, 300.0),
-       st.sampled_from(list(TABLE9_CU_STEEL)), st.integers(1, 4))
+@given(
+    st.floats(1.0, 300.0),
+    st.floats(0.0, 300.0),
+    st.sampled_from(list(TABLE9_CU_STEEL)),
+    st.integers(1, 4),
+)
 def test_current_falls_with_length(l1, extra, size, sets):
     r, x = _per_m(size)
     i1 = F.fault_current_3ph_a(208.0, ZT + F.branch_impedance_ohm(l1, r, x, sets))
@@ -53,11 +62,14 @@ def test_current_falls_with_length(l1, extra, size, sets):
 @given(st.floats(1.0, 300.0), st.integers(1, 3))
 def test_current_rises_with_size_and_sets(length, sets):
     order = ["4", "1/0", "4/0", "250", "500"]  # increasing area, Table 9 rows
-    currents = [F.fault_current_3ph_a(208.0, ZT + F.branch_impedance_ohm(length, *_per_m(s),
-                                                                       sets)) for s in order]
+    currents = [
+        F.fault_current_3ph_a(208.0, ZT + F.branch_impedance_ohm(length, *_per_m(s), sets))
+        for s in order
+    ]
     assert np.all(np.diff(currents) > 0)
-    more = F.fault_current_3ph_a(208.0, ZT + F.branch_impedance_ohm(length, *_per_m("4/0"),
-                                                                   sets + 1))
+    more = F.fault_current_3ph_a(
+        208.0, ZT + F.branch_impedance_ohm(length, *_per_m("4/0"), sets + 1)
+    )
     assert more > currents[2]
 
 
@@ -66,8 +78,12 @@ def test_tree_walk_equals_naive_loop(n, seed):
     rng = np.random.default_rng(seed)
     parent, branch = _random_tree(rng, n)
     root = 0.001 + 0.004j
-    np.testing.assert_allclose(F.cumulative_impedance_ohm(parent, branch, root),
-                               _naive_walk(parent, branch, root), rtol=1e-12, atol=0)
+    np.testing.assert_allclose(
+        F.cumulative_impedance_ohm(parent, branch, root),
+        _naive_walk(parent, branch, root),
+        rtol=1e-12,
+        atol=0,
+    )
 
 
 def test_tree_walk_deep_chain_and_forest():
@@ -105,8 +121,9 @@ def test_radial_fault_vector_equals_scalar():
     zmax[0] = ZT * 0.925
     zmin = zmax * 1.2
     zmin[0] = ZT * 1.075
-    res = F.radial_fault_3ph(parent, 208.0, zmax, zmin, 0.001 + 0.006j, 0.001 + 0.006j,
-                             motor_a=[0, 0, 120.0, 0])
+    res = F.radial_fault_3ph(
+        parent, 208.0, zmax, zmin, 0.001 + 0.006j, 0.001 + 0.006j, motor_a=[0, 0, 120.0, 0]
+    )
     for i in range(4):
         z = 0.001 + 0.006j + sum(zmax[j] for j in _path(parent, i))
         i_sym = F.fault_current_3ph_a(208.0, z)
@@ -140,8 +157,7 @@ def test_vector_equals_scalar_kernels():
     for k in range(3):
         assert zs[k] == F.source_impedance_ohm(v[k], i[k], xr[k])
         assert F.fault_current_3ph_a(v, zs + ZT)[k] == F.fault_current_3ph_a(v[k], zs[k] + ZT)
-        assert F.asymmetric_rms_half_cycle_a(i, xr)[k] == F.asymmetric_rms_half_cycle_a(i[k],
-                                                                                      xr[k])
+        assert F.asymmetric_rms_half_cycle_a(i, xr)[k] == F.asymmetric_rms_half_cycle_a(i[k], xr[k])
         assert F.peak_factor_kappa(xr)[k] == F.peak_factor_kappa(xr[k])
     lg = G.fault_current_lg_a(120.0, zs + ZT, np.full(3, ZT))
     assert lg[1] == G.fault_current_lg_a(120.0, zs[1] + ZT, ZT)
@@ -190,20 +206,23 @@ def test_trip_check_and_fix_helpers_are_consistent():
     assert G.max_length_for_trip_m(v, 0.5 + 0.5j, zp, zr, 2700.0) == 0.0
 
 
-@pytest.mark.parametrize(("call", "match"), [
-    (lambda: F.source_impedance_ohm(480.0, -5.0, 6.0), "fault_a"),
-    (lambda: F.source_impedance_ohm(480.0, 30e3, float("nan")), "x_r"),
-    (lambda: F.fault_current_3ph_a(208.0, 0j), "infinite"),
-    (lambda: F.fault_current_3ph_a(0.0, ZT), "voltage_ll_v"),
-    (lambda: F.branch_impedance_ohm(-1.0, 1e-4, 1e-4), "length_m"),
-    (lambda: F.branch_impedance_ohm(10.0, 1e-4, 1e-4, 1.5), "sets"),
-    (lambda: F.cumulative_impedance_ohm([0, -1], [0j, 0j]), "parent_index"),
-    (lambda: F.cumulative_impedance_ohm([-1, 0], [0j]), "one value per node"),
-    (lambda: F.transformer_fault_impedances_ohm(75e3, 208.0, 5.1, 3.5, 120.0), "tolerance"),
-    (lambda: F.ptp_factor(1.0, 1e3, 1e4, 1, 208.0, "2ph"), "kind"),
-    (lambda: G.fault_current_lg_a(120.0, -1 + 0j, ZT), "z1_ohm"),
-    (lambda: G.instantaneous_trip_check(1e3, 0.0, 10.0), "device_a"),
-])
+@pytest.mark.parametrize(
+    ("call", "match"),
+    [
+        (lambda: F.source_impedance_ohm(480.0, -5.0, 6.0), "fault_a"),
+        (lambda: F.source_impedance_ohm(480.0, 30e3, float("nan")), "x_r"),
+        (lambda: F.fault_current_3ph_a(208.0, 0j), "infinite"),
+        (lambda: F.fault_current_3ph_a(0.0, ZT), "voltage_ll_v"),
+        (lambda: F.branch_impedance_ohm(-1.0, 1e-4, 1e-4), "length_m"),
+        (lambda: F.branch_impedance_ohm(10.0, 1e-4, 1e-4, 1.5), "sets"),
+        (lambda: F.cumulative_impedance_ohm([0, -1], [0j, 0j]), "parent_index"),
+        (lambda: F.cumulative_impedance_ohm([-1, 0], [0j]), "one value per node"),
+        (lambda: F.transformer_fault_impedances_ohm(75e3, 208.0, 5.1, 3.5, 120.0), "tolerance"),
+        (lambda: F.ptp_factor(1.0, 1e3, 1e4, 1, 208.0, "2ph"), "kind"),
+        (lambda: G.fault_current_lg_a(120.0, -1 + 0j, ZT), "z1_ohm"),
+        (lambda: G.instantaneous_trip_check(1e3, 0.0, 10.0), "device_a"),
+    ],
+)
 def test_bad_input_raises(call, match):
     with pytest.raises(ValueError, match=match):
         call()

@@ -38,10 +38,19 @@ ZLINE = 1e-3 * (0.2 + 0.05j)  # per metre, invented
 
 def test_split_phase_falls_with_distance_and_min_below_max():
     lengths = np.array([0.0, 5.0, 20.0, 60.0, 200.0])
-    fmax = split_phase_fault(75e3, 240.0, 2.5, 2.0, "max", 7.5, z_line_ohm=lengths * ZLINE,
-                             z_neutral_ohm=lengths * ZLINE)
-    fmin = split_phase_fault(75e3, 240.0, 2.5, 2.0, "min", 7.5, z_line_ohm=lengths * ZLINE * 1.2,
-                             z_neutral_ohm=lengths * ZLINE * 1.2)
+    fmax = split_phase_fault(
+        75e3, 240.0, 2.5, 2.0, "max", 7.5, z_line_ohm=lengths * ZLINE, z_neutral_ohm=lengths * ZLINE
+    )
+    fmin = split_phase_fault(
+        75e3,
+        240.0,
+        2.5,
+        2.0,
+        "min",
+        7.5,
+        z_line_ohm=lengths * ZLINE * 1.2,
+        z_neutral_ohm=lengths * ZLINE * 1.2,
+    )
     assert np.all(np.diff(fmax.fault_ll_a) < 0) and np.all(np.diff(fmax.fault_ln_a) < 0)
     assert np.all(fmin.fault_ll_a < fmax.fault_ll_a)
     assert np.all(fmin.fault_ln_a < fmax.fault_ln_a)
@@ -54,20 +63,28 @@ def test_split_phase_vector_equals_scalar():
     z = np.array([1.8, 2.2, 2.0])
     xr = np.array([1.2, 1.6, 3.0])
     zl = np.array([0j, 3 * ZLINE, 10 * ZLINE])
-    vec = split_phase_fault(kva, 240.0, z, xr, "max", 7.5, z_source_ohm=1e-4 + 4e-4j,
-                            z_line_ohm=zl, z_neutral_ohm=zl)
+    vec = split_phase_fault(
+        kva, 240.0, z, xr, "max", 7.5, z_source_ohm=1e-4 + 4e-4j, z_line_ohm=zl, z_neutral_ohm=zl
+    )
     for i in range(3):
-        one = split_phase_fault(kva[i], 240.0, z[i], xr[i], "max", 7.5,
-                                z_source_ohm=1e-4 + 4e-4j, z_line_ohm=zl[i],
-                                z_neutral_ohm=zl[i])
+        one = split_phase_fault(
+            kva[i],
+            240.0,
+            z[i],
+            xr[i],
+            "max",
+            7.5,
+            z_source_ohm=1e-4 + 4e-4j,
+            z_line_ohm=zl[i],
+            z_neutral_ohm=zl[i],
+        )
         assert one.fault_ll_a == pytest.approx(vec.fault_ll_a[i], rel=1e-12)
         assert one.fault_ln_a == pytest.approx(vec.fault_ln_a[i], rel=1e-12)
 
 
 def test_split_phase_source_lowers_both_and_tolerance_orders():
     inf = split_phase_fault(50e3, 240.0, 2.0, 2.0, tolerance_pct=0.0)
-    weak = split_phase_fault(50e3, 240.0, 2.0, 2.0, tolerance_pct=0.0,
-                             z_source_ohm=0.002 + 0.008j)
+    weak = split_phase_fault(50e3, 240.0, 2.0, 2.0, tolerance_pct=0.0, z_source_ohm=0.002 + 0.008j)
     assert weak.fault_ll_a < inf.fault_ll_a and weak.fault_ln_a < inf.fault_ln_a
     hi = split_phase_fault(50e3, 240.0, 2.0, 2.0, "max", 10.0).fault_ln_a
     lo = split_phase_fault(50e3, 240.0, 2.0, 2.0, "min", 10.0).fault_ln_a
@@ -80,8 +97,9 @@ def test_half_winding_factors_one_give_the_quarter_impedance():
     assert ln_to_ll_ratio_terminals(3.0, 1.0, 1.0) == pytest.approx(2.0)
 
 
-@pytest.mark.parametrize("bad", [dict(case="mid"), dict(tolerance_pct=100.0),
-                                 dict(z_line_ohm=-1e-3 + 0j), dict(c=0.0)])
+@pytest.mark.parametrize(
+    "bad", [dict(case="mid"), dict(tolerance_pct=100.0), dict(z_line_ohm=-1e-3 + 0j), dict(c=0.0)]
+)
 def test_split_phase_rejects_bad_input(bad):
     kw = dict(case="max", tolerance_pct=7.5) | bad
     with pytest.raises(ValueError):
@@ -115,8 +133,10 @@ def test_multiplying_factor_limits_and_monotonic():
         top = asymmetry_multiplying_factor(math.inf, 1e-9, basis)
         assert top == pytest.approx(limit, rel=1e-12)
     vec = asymmetry_multiplying_factor([7.0, 7.0], [4.9, 6.6], ["peak", "rms"])
-    assert vec.tolist() == [asymmetry_multiplying_factor(7.0, 4.9, "peak"),
-                            asymmetry_multiplying_factor(7.0, 6.6, "rms")]
+    assert vec.tolist() == [
+        asymmetry_multiplying_factor(7.0, 4.9, "peak"),
+        asymmetry_multiplying_factor(7.0, 6.6, "rms"),
+    ]
     with pytest.raises(ValueError, match="basis"):
         asymmetry_multiplying_factor(7.0, 4.9, "sym")
     with pytest.raises(ValueError):
@@ -125,16 +145,17 @@ def test_multiplying_factor_limits_and_monotonic():
 
 def test_lg_delta_wye_falls_downstream_and_vector_equals_scalar():
     L = np.array([0.0, 10.0, 50.0, 150.0])
-    got = fault_lg_delta_wye_a(120.0, 2e-4 + 1e-3j, 0.004 + 0.012j, 0.85, L * ZLINE,
-                               L * ZLINE * 2)
+    got = fault_lg_delta_wye_a(120.0, 2e-4 + 1e-3j, 0.004 + 0.012j, 0.85, L * ZLINE, L * ZLINE * 2)
     assert np.all(np.diff(got) < 0)
     for i, length in enumerate(L):
-        one = fault_lg_delta_wye_a(120.0, 2e-4 + 1e-3j, 0.004 + 0.012j, 0.85,
-                                   length * ZLINE, length * ZLINE * 2)
+        one = fault_lg_delta_wye_a(
+            120.0, 2e-4 + 1e-3j, 0.004 + 0.012j, 0.85, length * ZLINE, length * ZLINE * 2
+        )
         assert one == pytest.approx(got[i], rel=1e-12)
     # a bigger return conductor (lower impedance) raises the current
-    assert fault_lg_delta_wye_a(120.0, 0j, 0.004 + 0.012j, 1.0, 50 * ZLINE, 25 * ZLINE) > \
-        fault_lg_delta_wye_a(120.0, 0j, 0.004 + 0.012j, 1.0, 50 * ZLINE, 50 * ZLINE)
+    assert fault_lg_delta_wye_a(
+        120.0, 0j, 0.004 + 0.012j, 1.0, 50 * ZLINE, 25 * ZLINE
+    ) > fault_lg_delta_wye_a(120.0, 0j, 0.004 + 0.012j, 1.0, 50 * ZLINE, 50 * ZLINE)
     with pytest.raises(ValueError, match="z0_ratio"):
         fault_lg_delta_wye_a(120.0, 0j, 0.004 + 0.012j, 0.0)
 
@@ -147,13 +168,15 @@ def test_icea_withstand_properties():
     i = icea_withstand_current_a(a, 0.05, 0.0297, 234.0, 75.0, 150.0)
     assert np.all(np.diff(i) > 0)
     assert icea_withstand_current_a(33.6, 0.2, 0.0297, 234.0, 75.0, 150.0) == pytest.approx(
-        icea_withstand_current_a(33.6, 0.05, 0.0297, 234.0, 75.0, 150.0) / 2.0, rel=1e-12)
+        icea_withstand_current_a(33.6, 0.05, 0.0297, 234.0, 75.0, 150.0) / 2.0, rel=1e-12
+    )
     # hotter start → less withstand; withstand → 0 as the start nears the limit
     ks = icea_k_si(0.0297, 234.0, np.array([30.0, 75.0, 90.0, 149.9]), 150.0)
     assert np.all(np.diff(ks) < 0) and ks[-1] < 5.0
     for j, area in enumerate(a):
-        assert icea_withstand_current_a(area, 0.05, 0.0297, 234.0, 75.0, 150.0) == \
-            pytest.approx(i[j], rel=1e-12)
+        assert icea_withstand_current_a(area, 0.05, 0.0297, 234.0, 75.0, 150.0) == pytest.approx(
+            i[j], rel=1e-12
+        )
     assert icea_final_temperature_c(0.0, 33.6, 0.1, 0.0297, 234.0, 60.0) == pytest.approx(60.0)
     with pytest.raises(ValueError, match="final_c"):
         icea_k_si(0.0297, 234.0, 150.0, 90.0)
@@ -170,8 +193,10 @@ def test_operating_temperature_limits():
 def test_insulation_lookup():
     from feedcheck.calc.withstand_icea import InsulationType
 
-    rows = [InsulationType.from_record(r)
-            for r in load_table("insulation_types").data.to_dict("records")]
+    rows = [
+        InsulationType.from_record(r)
+        for r in load_table("insulation_types").data.to_dict("records")
+    ]
     thhw = insulation_type("thhw", rows)
     assert insulation_rating_c(thhw, wet=True) == 75.0
     assert insulation_rating_c(thhw, wet=False) == 90.0
@@ -186,7 +211,8 @@ def test_insulation_lookup():
 
 def _table():
     return JumperTable.from_records(
-        load_table("supply_side_bonding_jumper").data.to_dict("records"))
+        load_table("supply_side_bonding_jumper").data.to_dict("records")
+    )
 
 
 def test_jumper_grows_with_phase_area_and_vector_equals_scalar():
@@ -204,9 +230,10 @@ def test_jumper_grows_with_phase_area_and_vector_equals_scalar():
     assert jumper_passes(np.array([66.36, 41.74]), 66.36).tolist() == [True, False]
 
 
-@pytest.mark.parametrize(("args", "match"), [((0.0, 1, "cu"), "phase_area"),
-                                             ((211.6, 1.5, "cu"), "sets"),
-                                             ((211.6, 1, "fe"), "material")])
+@pytest.mark.parametrize(
+    ("args", "match"),
+    [((0.0, 1, "cu"), "phase_area"), ((211.6, 1.5, "cu"), "sets"), ((211.6, 1, "fe"), "material")],
+)
 def test_jumper_rejects_bad_input(args, match):
     with pytest.raises(ValueError, match=match):
         supply_side_jumper_size(*args, _table())

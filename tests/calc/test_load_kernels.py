@@ -30,8 +30,11 @@ from feedcheck.calc.phase_loading import (
 from feedcheck.calc.taps import parse_tap_pct, secondary_voltage_v
 
 # invented table for the properties (not an oracle of values)
-T = MotorFlcTable([1, 2, 5, 10], [115, 230, 460], [[8.0, 4.0, np.nan], [12.0, 6.0, 3.0],
-                                                   [np.nan, 15.0, 7.5], [np.nan, 28.0, 14.0]])
+T = MotorFlcTable(
+    [1, 2, 5, 10],
+    [115, 230, 460],
+    [[8.0, 4.0, np.nan], [12.0, 6.0, 3.0], [np.nan, 15.0, 7.5], [np.nan, 28.0, 14.0]],
+)
 loads = st.lists(st.floats(0, 1e6, allow_nan=False), min_size=1, max_size=12)
 
 
@@ -94,9 +97,49 @@ def test_feeder_vectorised_over_feeders():
 
 @given(st.floats(0.5, 2000), st.sampled_from([150, 175, 250, 300, 800, 1100]))
 def test_device_permitted_is_next_standard(flc, pct):
-    r = np.array([15, 20, 25, 30, 35, 40, 45, 50, 60, 70, 80, 90, 100, 110, 125, 150, 175,
-                  200, 225, 250, 300, 350, 400, 450, 500, 600, 700, 800, 1000, 1200, 1600,
-                  2000, 2500, 3000, 4000, 5000, 6000, 30000], float)
+    r = np.array(
+        [
+            15,
+            20,
+            25,
+            30,
+            35,
+            40,
+            45,
+            50,
+            60,
+            70,
+            80,
+            90,
+            100,
+            110,
+            125,
+            150,
+            175,
+            200,
+            225,
+            250,
+            300,
+            350,
+            400,
+            450,
+            500,
+            600,
+            700,
+            800,
+            1000,
+            1200,
+            1600,
+            2000,
+            2500,
+            3000,
+            4000,
+            5000,
+            6000,
+            30000,
+        ],
+        float,
+    )
     out = branch_device_max_a(flc, pct, r)
     assert out.permitted_a >= out.limit_a * (1 - 1e-12)
     i = int(np.searchsorted(r, out.permitted_a))
@@ -137,7 +180,8 @@ def test_element_vector_equals_scalar():
     s = np.array([1e3, 2e3, 3e3])
     c = ["AB", "A", "ABC"]
     assert element_current_a(s, c, 208).tolist() == pytest.approx(
-        [element_current_a(x, y, 208) for x, y in zip(s, c, strict=True)])
+        [element_current_a(x, y, 208) for x, y in zip(s, c, strict=True)]
+    )
 
 
 @given(st.lists(st.floats(1, 1e5), min_size=1, max_size=9))
@@ -199,8 +243,11 @@ def test_second_equal_motor_adds_its_load_once():
 
 
 def test_chain_vectorised_over_panels():
-    r = demand_chain({"lighting": np.array([1e3, 2e3]), "motor": np.array([0.0, 4e3])},
-                     {"lighting": np.array([1e3, 0.0])}, np.array([0.0, 4e3]))
+    r = demand_chain(
+        {"lighting": np.array([1e3, 2e3]), "motor": np.array([0.0, 4e3])},
+        {"lighting": np.array([1e3, 0.0])},
+        np.array([0.0, 4e3]),
+    )
     assert np.asarray(r.design_va).tolist() == pytest.approx([1250.0, 7000.0])
 
 
@@ -241,22 +288,44 @@ def test_lighting_vector_and_errors():
         minimum_lighting_load(1e3, -1.0, 20.0)
 
 
-@pytest.mark.parametrize(("text", "pct"), [
-    ("+2.5 %", 2.5), ("+2.5%", 2.5), ("-5 %", -5.0), ("- 2.5", -2.5), ("+5", 5.0),
-    ("2.5 % above normal", 2.5), ("5% below", -5.0), ("7.5 % BELOW NOMINAL", -7.5),
-    ("0", 0.0), ("0 %", 0.0), ("nominal", 0.0), ("+0", 0.0),
-])
+@pytest.mark.parametrize(
+    ("text", "pct"),
+    [
+        ("+2.5 %", 2.5),
+        ("+2.5%", 2.5),
+        ("-5 %", -5.0),
+        ("- 2.5", -2.5),
+        ("+5", 5.0),
+        ("2.5 % above normal", 2.5),
+        ("5% below", -5.0),
+        ("7.5 % BELOW NOMINAL", -7.5),
+        ("0", 0.0),
+        ("0 %", 0.0),
+        ("nominal", 0.0),
+        ("+0", 0.0),
+    ],
+)
 def test_tap_spellings_accepted(text, pct):
     assert parse_tap_pct(text) == pct
 
 
-@pytest.mark.parametrize(("text", "match"), [
-    ("2.5 %", "expected a signed percent"), ("2.5", "expected a signed percent"),
-    ("boost 2.5 %", "ambiguous"), ("+2.5 % buck", "ambiguous"), ("raise 5%", "ambiguous"),
-    ("lower 2.5", "ambiguous"), ("±2.5 %", "ambiguous"), ("+/-5", "ambiguous"),
-    ("5 % up", "ambiguous"), ("+12.5 %", "at most"), ("FCAN", "expected a signed"),
-    ("", "expected a signed"),
-])
+@pytest.mark.parametrize(
+    ("text", "match"),
+    [
+        ("2.5 %", "expected a signed percent"),
+        ("2.5", "expected a signed percent"),
+        ("boost 2.5 %", "ambiguous"),
+        ("+2.5 % buck", "ambiguous"),
+        ("raise 5%", "ambiguous"),
+        ("lower 2.5", "ambiguous"),
+        ("±2.5 %", "ambiguous"),
+        ("+/-5", "ambiguous"),
+        ("5 % up", "ambiguous"),
+        ("+12.5 %", "at most"),
+        ("FCAN", "expected a signed"),
+        ("", "expected a signed"),
+    ],
+)
 def test_tap_spellings_refused(text, match):
     with pytest.raises(ValueError, match=match):
         parse_tap_pct(text)
@@ -291,8 +360,13 @@ def test_motor_adder_is_per_phase_and_once():
 
 
 def test_chain_factors_from_rule_rows():
-    r = demand_chain({"motor": 10e3, "lighting": 1e3}, {"lighting": 1e3}, 10e3,
-                     largest_motor_factor=1.25, continuous_factor=1.25)
+    r = demand_chain(
+        {"motor": 10e3, "lighting": 1e3},
+        {"lighting": 1e3},
+        10e3,
+        largest_motor_factor=1.25,
+        continuous_factor=1.25,
+    )
     assert r.design_va == pytest.approx(11e3 + 2500 + 250)
     with pytest.raises(ValueError, match="largest_motor_factor"):
         demand_chain({"motor": 1.0}, {}, 1.0, largest_motor_factor=0.8)

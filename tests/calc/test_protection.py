@@ -17,14 +17,27 @@ from tests.kernels import (
 )
 
 # NFPA 70-2023 Table 250.122, device A -> (Cu, Al)
-T250_122 = {15: ("14 AWG", "12 AWG"), 20: ("12 AWG", "10 AWG"), 60: ("10 AWG", "8 AWG"),
-            100: ("8 AWG", "6 AWG"), 200: ("6 AWG", "4 AWG"), 300: ("4 AWG", "2 AWG"),
-            400: ("3 AWG", "1 AWG"), 500: ("2 AWG", "1/0 AWG"), 600: ("1 AWG", "2/0 AWG"),
-            800: ("1/0 AWG", "3/0 AWG"), 1000: ("2/0 AWG", "4/0 AWG"),
-            1200: ("3/0 AWG", "250 kcmil"), 1600: ("4/0 AWG", "350 kcmil"),
-            2000: ("250 kcmil", "400 kcmil"), 2500: ("350 kcmil", "600 kcmil"),
-            3000: ("400 kcmil", "600 kcmil"), 4000: ("500 kcmil", "750 kcmil"),
-            5000: ("700 kcmil", "1250 kcmil"), 6000: ("800 kcmil", "1250 kcmil")}
+T250_122 = {
+    15: ("14 AWG", "12 AWG"),
+    20: ("12 AWG", "10 AWG"),
+    60: ("10 AWG", "8 AWG"),
+    100: ("8 AWG", "6 AWG"),
+    200: ("6 AWG", "4 AWG"),
+    300: ("4 AWG", "2 AWG"),
+    400: ("3 AWG", "1 AWG"),
+    500: ("2 AWG", "1/0 AWG"),
+    600: ("1 AWG", "2/0 AWG"),
+    800: ("1/0 AWG", "3/0 AWG"),
+    1000: ("2/0 AWG", "4/0 AWG"),
+    1200: ("3/0 AWG", "250 kcmil"),
+    1600: ("4/0 AWG", "350 kcmil"),
+    2000: ("250 kcmil", "400 kcmil"),
+    2500: ("350 kcmil", "600 kcmil"),
+    3000: ("400 kcmil", "600 kcmil"),
+    4000: ("500 kcmil", "750 kcmil"),
+    5000: ("700 kcmil", "1250 kcmil"),
+    6000: ("800 kcmil", "1250 kcmil"),
+}
 
 
 @pytest.mark.parametrize("device", list(T250_122))
@@ -83,9 +96,16 @@ def test_next_size_up_and_over_800():
     assert max_device_a(1000.0, "600 kcmil", "cu") == 1000.0
 
 
-@pytest.mark.parametrize("size,mat,limit", [("14 AWG", "cu", 15), ("12 AWG", "cu", 20),
-                                            ("10 AWG", "cu", 30), ("12 AWG", "al", 15),
-                                            ("10 AWG", "al", 25)])
+@pytest.mark.parametrize(
+    "size,mat,limit",
+    [
+        ("14 AWG", "cu", 15),
+        ("12 AWG", "cu", 20),
+        ("10 AWG", "cu", 30),
+        ("12 AWG", "al", 15),
+        ("10 AWG", "al", 25),
+    ],
+)
 def test_small_conductor_limits(size, mat, limit):
     # NFPA 70-2023 240.4(D): even a large corrected ampacity does not raise the limit
     assert max_device_a(60.0, size, mat) == limit

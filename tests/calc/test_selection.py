@@ -26,9 +26,11 @@ def test_protection_governs_after_derating():
 
 def test_voltage_drop_governs_long_run():
     """100 A at 208 V three-phase over 150 m: the drop picks a size far above ampacity."""
-    s = select_conductor(0.0, 100.0, "cu", 75.0, length_m=150.0, voltage_v=208.0,
-                         vdrop_max_pct=3.0, pf=0.9)
+    s = select_conductor(
+        0.0, 100.0, "cu", 75.0, length_m=150.0, voltage_v=208.0, vdrop_max_pct=3.0, pf=0.9
+    )
     assert s.governing == "voltage drop"
+
     # By hand, VD = √3·I·L·(R cos θ + X sin θ) (IEEE Std 141-1993 ch. 3) with NFPA 70-2023
     # Ch. 9 Table 9, Cu in steel conduit, Ω/kft: 4/0 R 0.063 XL 0.051 → 3.24 % (too much);
     # 250 kcmil R 0.054 XL 0.052 → 2.92 %, so 250 kcmil is the smallest that passes 3 %.
@@ -63,12 +65,15 @@ def test_metric_selection():
     assert s.size.endswith("mm2") and s.chain.method == "interpolated"
 
 
-@pytest.mark.parametrize("kwargs,match", [
-    ({"device_a": 100.0}, "device_a"),
-    ({"phases": 2}, "phases"),
-    ({"fault_a": 1e4}, "clearing_s"),
-    ({"pf": 0.0}, "pf"),
-])
+@pytest.mark.parametrize(
+    "kwargs,match",
+    [
+        ({"device_a": 100.0}, "device_a"),
+        ({"phases": 2}, "phases"),
+        ({"fault_a": 1e4}, "clearing_s"),
+        ({"pf": 0.0}, "pf"),
+    ],
+)
 def test_bad_input(kwargs, match):
     with pytest.raises(ValueError, match=match):
         select_conductor(120.0, **kwargs)

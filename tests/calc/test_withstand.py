@@ -38,17 +38,22 @@ def test_withstand_scales_with_area_and_inverse_root_time():
 
 def test_large_thermoplastic_uses_lower_k():
     # IEC 60364-4-43 Table 43A: PVC > 300 mm² has k 103 (Cu) instead of 115
-    assert k_constant("thermoplastic", "cu", area_mm2=400.0).k < k_constant(
-        "thermoplastic", "cu", area_mm2=240.0).k
+    assert (
+        k_constant("thermoplastic", "cu", area_mm2=400.0).k
+        < k_constant("thermoplastic", "cu", area_mm2=240.0).k
+    )
 
 
-@pytest.mark.parametrize("call,match", [
-    (lambda: withstand_current_a(95.0, 6.0, 143.0), "5 s"),
-    (lambda: withstand_current_a(-1.0, 0.1, 143.0), "area_mm2"),
-    (lambda: min_area_mm2(1e4, 0.0, 143.0), "clearing_s"),
-    (lambda: k_constant("paper", "cu"), "insulation"),
-    (lambda: k_adiabatic("cu", 100.0, 90.0), "final_c"),
-])
+@pytest.mark.parametrize(
+    "call,match",
+    [
+        (lambda: withstand_current_a(95.0, 6.0, 143.0), "5 s"),
+        (lambda: withstand_current_a(-1.0, 0.1, 143.0), "area_mm2"),
+        (lambda: min_area_mm2(1e4, 0.0, 143.0), "clearing_s"),
+        (lambda: k_constant("paper", "cu"), "insulation"),
+        (lambda: k_adiabatic("cu", 100.0, 90.0), "final_c"),
+    ],
+)
 def test_bad_input(call, match):
     with pytest.raises(ValueError, match=match):
         call()

@@ -28,9 +28,20 @@ def test_published_point_to_point_starting_figure(check_json):
     """Cooper Bussmann, Electrical Plan Review (2005), Part II point-to-point example,
     Fault #1: 300 kVA, 2 %Z, 208Y/120 V, infinite primary, %Z × 0.9 → 46,273 A
     (published from 833 A × 55.55, so held to 5e-4)."""
-    doc = check_json(job_text(kva=300, z_pct=2.0, tolerance=10, primary_device=900,
-                              secondary_device='secondary_device = "1000 A"', device=800,
-                              conductors="500 kcmil Cu", sets=2, bus=800, ground="1/0 AWG Cu"))
+    doc = check_json(
+        job_text(
+            kva=300,
+            z_pct=2.0,
+            tolerance=10,
+            primary_device=900,
+            secondary_device='secondary_device = "1000 A"',
+            device=800,
+            conductors="500 kcmil Cu",
+            sets=2,
+            bus=800,
+            ground="1/0 AWG Cu",
+        )
+    )
     assert node(doc, "T")["fault_ptp_a"] == pytest.approx(46_273, rel=5e-4)
     assert node(doc, "T")["fault_max_a"] == pytest.approx(46_273, rel=5e-4)
 
@@ -47,10 +58,20 @@ def test_fault_falls_along_the_run(check_json):
 def test_interrupting_rating(check_json, rating, status):
     """NFPA 70-2023 110.9: equipment interrupting at fault levels must be rated at least the
     available current. 300 kVA 2 %Z at 208 V gives over 40 kA at the panel."""
-    doc = check_json(job_text(kva=300, z_pct=2.0, primary_device=900,
-                              secondary_device='secondary_device = "1000 A"', device=800,
-                              conductors="500 kcmil Cu", sets=2, bus=800, ground="1/0 AWG Cu",
-                              interrupting=f'interrupting = "{rating}"'))
+    doc = check_json(
+        job_text(
+            kva=300,
+            z_pct=2.0,
+            primary_device=900,
+            secondary_device='secondary_device = "1000 A"',
+            device=800,
+            conductors="500 kcmil Cu",
+            sets=2,
+            bus=800,
+            ground="1/0 AWG Cu",
+            interrupting=f'interrupting = "{rating}"',
+        )
+    )
     f = finding(doc, "P", "interrupting rating")
     p = node(doc, "P")  # held against the governing duty, never below three-phase (issue 12)
     assert f["value"] == pytest.approx(p["fault_duty_a"], rel=1e-12)

@@ -109,9 +109,19 @@ load = "10 kVA"
 
 
 def wye_job(**kw) -> str:
-    values = dict(kva=75, z_pct=5.0, x_r=3, primary_device=150, z0="", length="1 ft",
-                  conductors="250 kcmil Cu", sets=1, ground="4 AWG Cu", device=250,
-                  panels=PANEL.format(id="P", bus=400, interrupting="65 kA", extra=""))
+    values = dict(
+        kva=75,
+        z_pct=5.0,
+        x_r=3,
+        primary_device=150,
+        z0="",
+        length="1 ft",
+        conductors="250 kcmil Cu",
+        sets=1,
+        ground="4 AWG Cu",
+        device=250,
+        panels=PANEL.format(id="P", bus=400, interrupting="65 kA", extra=""),
+    )
     values.update(kw)
     return WYE_JOB.format(**values)
 
@@ -199,22 +209,37 @@ def _peak_mf(xr, xr_test):
 def _rms_mf(xr, xr_test):
     # IEEE Std C37.13-2008 / IEEE Std 1015-2006: half-cycle total RMS ratio
     return math.sqrt(1 + 2 * math.exp(-2 * math.pi / xr)) / math.sqrt(
-        1 + 2 * math.exp(-2 * math.pi / xr_test))
+        1 + 2 * math.exp(-2 * math.pi / xr_test)
+    )
 
 
-@pytest.mark.parametrize(("extra", "xr_test", "mf"), [
-    ("", 4.9, _peak_mf),  # molded-case, over 20 kA: test pf 0.20 (UL 489), X/R 4.9
-    ('device_type = "fuse"', 4.9, _rms_mf),  # low-voltage fuses: pf 0.20 (from memory)
-    ('device_type = "power-breaker"', 6.6, _rms_mf),  # unfused LVPCB: pf 0.15 (C37.13)
-])
+@pytest.mark.parametrize(
+    ("extra", "xr_test", "mf"),
+    [
+        ("", 4.9, _peak_mf),  # molded-case, over 20 kA: test pf 0.20 (UL 489), X/R 4.9
+        ('device_type = "fuse"', 4.9, _rms_mf),  # low-voltage fuses: pf 0.20 (from memory)
+        ('device_type = "power-breaker"', 6.6, _rms_mf),  # unfused LVPCB: pf 0.15 (C37.13)
+    ],
+)
 def test_x_r_above_test_x_r_multiplies_the_duty(check_json, extra, xr_test, mf):
     """Issue 12 item 5: a 500 kVA transformer with X/R 8 at its terminals (infinite
     source): the X/R at the panel is above the device's test X/R, so the duty is
     MF × I_sym with MF > 1, and the factor is shown in the finding."""
     panels = PANEL.format(id="P", bus=1600, interrupting="100 kA", extra=extra)
-    doc = check_json(wye_job(kva=500, z_pct=5.0, x_r=8, primary_device=800, panels=panels,
-                             length="0.01 ft", conductors="600 kcmil Cu", sets=4,
-                             ground="1/0 AWG Cu", device=1600))
+    doc = check_json(
+        wye_job(
+            kva=500,
+            z_pct=5.0,
+            x_r=8,
+            primary_device=800,
+            panels=panels,
+            length="0.01 ft",
+            conductors="600 kcmil Cu",
+            sets=4,
+            ground="1/0 AWG Cu",
+            device=1600,
+        )
+    )
     p = node(doc, "P")
     assert p["fault_duty_x_r"] > xr_test
     assert p["fault_duty_mf"] == pytest.approx(mf(p["fault_duty_x_r"], xr_test), rel=1e-3)
@@ -226,12 +251,20 @@ def test_x_r_above_test_x_r_multiplies_the_duty(check_json, extra, xr_test, mf):
 
 def test_x_r_factor_can_turn_a_pass_into_a_fail(check_json):
     """A panel rated just above the symmetrical duty fails once MF > 1 is applied."""
-    args = dict(kva=500, z_pct=5.0, x_r=8, primary_device=800, length="0.01 ft",
-                conductors="600 kcmil Cu", sets=4, ground="1/0 AWG Cu", device=1600)
+    args = dict(
+        kva=500,
+        z_pct=5.0,
+        x_r=8,
+        primary_device=800,
+        length="0.01 ft",
+        conductors="600 kcmil Cu",
+        sets=4,
+        ground="1/0 AWG Cu",
+        device=1600,
+    )
     doc = check_json(wye_job(**args))
     sym = node(doc, "P")["fault_duty_sym_a"]
-    panels = PANEL.format(id="P", bus=1600, interrupting=f"{sym * 1.01 / 1e3:.3f} kA",
-                          extra="")
+    panels = PANEL.format(id="P", bus=1600, interrupting=f"{sym * 1.01 / 1e3:.3f} kA", extra="")
     doc = check_json(wye_job(panels=panels, **args))
     assert finding(doc, "P", "interrupting rating")["status"] == "fail"
 
@@ -239,8 +272,9 @@ def test_x_r_factor_can_turn_a_pass_into_a_fail(check_json):
 def test_sibling_feeder_motor_contributes(check_json, write_job):
     """Issue 12 item 6: a motor on panel M adds 4 × FLC (rule fault-motor-multiple,
     common practice) to the fault at its sibling panel P on the same secondary."""
-    panels = (PANEL.format(id="P", bus=400, interrupting="65 kA", extra="")
-              + PANEL.format(id="M", bus=400, interrupting="65 kA", extra=""))
+    panels = PANEL.format(id="P", bus=400, interrupting="65 kA", extra="") + PANEL.format(
+        id="M", bus=400, interrupting="65 kA", extra=""
+    )
     second_run = """
 [[run]]
 id = "RM"
@@ -264,8 +298,11 @@ device = "250 A"
 def test_raceway_return_path_is_flagged(check_json):
     """Issue 12 minor: a run with no grounding conductor in steel conduit relies on the
     raceway as the return path (NFPA 70-2023 250.118): warned, rule named."""
-    text = wye_job().replace('ground = "4 AWG Cu"\n', "").replace('raceway = "pvc"',
-                                                                  'raceway = "steel"')
+    text = (
+        wye_job()
+        .replace('ground = "4 AWG Cu"\n', "")
+        .replace('raceway = "pvc"', 'raceway = "steel"')
+    )
     doc = check_json(text)
     f = finding(doc, "R", "ground-fault return path")
     assert f["status"] == "warn" and f["rule_id"] == "fault-return-raceway"

@@ -22,8 +22,16 @@ def test_design_current_continuous_at_125_percent(check_json):
 
 
 def test_bus_overloaded_fails(check_json):
-    doc = check_json(job_text(load_kva=60, continuous_kva=24, bus=175, device=175,
-                              conductors="3/0 AWG Cu", ground="6 AWG Cu"))
+    doc = check_json(
+        job_text(
+            load_kva=60,
+            continuous_kva=24,
+            bus=175,
+            device=175,
+            conductors="3/0 AWG Cu",
+            ground="6 AWG Cu",
+        )
+    )
     f = finding(doc, "P", "load vs bus rating")
     assert f["value"] > f["limit"] == 175.0  # 183.2 A > 175 A bus, 408.30
     assert f["status"] == "fail"

@@ -213,8 +213,9 @@ def test_heaviest_phase_design_current(check_json, tmp_path):
         ("F", "ampacity vs 125 % continuous + noncontinuous", 118.75, 50.0),  # 215.2(A)(1)
     ],
 )
-def test_heaviest_phase_fails_feeder_bus_and_main(check_json, tmp_path, subject, check,
-                                                  value, limit):
+def test_heaviest_phase_fails_feeder_bus_and_main(
+    check_json, tmp_path, subject, check, value, limit
+):
     """8 AWG Cu at 75 °C: 50 A (NFPA 70-2023 Table 310.16) < 118.75 A; a 50 A main and
     a 60 A bus below 118.75 A: all fail now (all passed on the 39.6 A average)."""
     doc = _heavy(check_json, tmp_path)
@@ -243,7 +244,8 @@ def test_unbalanced_secondary_carried_to_the_primary_is_stated(write_job, tmp_pa
     res = run_job(write_job(HEAVY_A))
     assert any("T: the secondary phases are unequally loaded" in a for a in res.assumptions)
     r = next(
-        x for x in res.findings
+        x
+        for x in res.findings
         if x.subject == "T" and x.check == "winding loading (heaviest phase)"
     )
     assert r.value == pytest.approx(118.75, rel=1e-9)

@@ -74,10 +74,24 @@ load = "{load} kVA"
 """
 
 
-def feed(length="50 ft", conductors="3/0 AWG Cu", ground="6 AWG Cu", run_extra="",
-         bus=200, main="", load=20) -> str:
-    return FEED.format(length=length, conductors=conductors, ground=ground,
-                       run_extra=run_extra, bus=bus, main=main, load=load)
+def feed(
+    length="50 ft",
+    conductors="3/0 AWG Cu",
+    ground="6 AWG Cu",
+    run_extra="",
+    bus=200,
+    main="",
+    load=20,
+) -> str:
+    return FEED.format(
+        length=length,
+        conductors=conductors,
+        ground=ground,
+        run_extra=run_extra,
+        bus=bus,
+        main=main,
+        load=load,
+    )
 
 
 def check(write_job, text: str) -> tuple[int, dict]:
@@ -98,23 +112,32 @@ def test_main_lugs_100a_panel_on_200a_feeder_fails(write_job):
     code, doc = check(write_job, feed(run_extra='device = "200 A"', bus=100))
     f = finding(doc, "LP", "bus protection")
     assert (f["status"], f["rule_id"], f["value"], f["limit"]) == (
-        "fail", "panel-bus-protection", 200.0, 100.0)
+        "fail",
+        "panel-bus-protection",
+        200.0,
+        100.0,
+    )
     assert "main device" in f["note"]
     assert code == 1
 
 
 def test_main_lugs_panel_on_a_device_within_its_rating_passes(write_job):
     # NFPA 70-2023 408.36: 100 A device on a 100 A bus meets "not greater than"
-    _, doc = check(write_job, feed(conductors="3 AWG Cu", ground="8 AWG Cu",
-                                   run_extra='device = "100 A"', bus=100))
+    _, doc = check(
+        write_job,
+        feed(conductors="3 AWG Cu", ground="8 AWG Cu", run_extra='device = "100 A"', bus=100),
+    )
     assert finding(doc, "LP", "bus protection")["status"] == "ok"
 
 
 def test_main_device_above_bus_fails_without_a_load(write_job):
     # NFPA 70-2023 408.36: checked whether or not the panel has a load
-    _, doc = check(write_job, feed(run_extra='device = "200 A"', bus=100,
-                                   main='main_device = "200 A"', load=0).replace(
-                                       'load = "0 kVA"', ""))
+    _, doc = check(
+        write_job,
+        feed(run_extra='device = "200 A"', bus=100, main='main_device = "200 A"', load=0).replace(
+            'load = "0 kVA"', ""
+        ),
+    )
     f = finding(doc, "LP", "main device vs bus")
     assert (f["status"], f["rule_id"]) == ("fail", "panel-main-bus")
 
@@ -122,6 +145,7 @@ def test_main_device_above_bus_fails_without_a_load(write_job):
 # ----------------------------------------------------------------- 240.21
 # terminals marked 75 °C (else 110.14(C)(1)(a) takes the 60 °C column at 100 A and less)
 TAP75 = 'termination = "75 degC"\n'
+
 
 def test_feeder_without_device_fails(write_job):
     """Issue 12 item 3. NFPA 70-2023 240.21: protection where the conductors receive
@@ -138,9 +162,17 @@ def test_ten_foot_tap_meeting_every_condition_passes(write_job):
     """NFPA 70-2023 240.21(B)(1): ≤ 10 ft; ampacity ≥ the device at its termination
     (100 A main) and ≥ 1/10 of the 400 A feeder device (40 A). 3 AWG Cu at 75 °C: 100 A
     (NFPA 70-2023 Table 310.16)."""
-    _, doc = check(write_job, feed(length="8 ft", conductors="3 AWG Cu", ground="8 AWG Cu",
-                                   run_extra=TAP75 + 'tap_rule = "10 ft"', bus=100,
-                                   main='main_device = "100 A"'))
+    _, doc = check(
+        write_job,
+        feed(
+            length="8 ft",
+            conductors="3 AWG Cu",
+            ground="8 AWG Cu",
+            run_extra=TAP75 + 'tap_rule = "10 ft"',
+            bus=100,
+            main='main_device = "100 A"',
+        ),
+    )
     r = checks_of(doc, "R")
     assert r["tap length (10 ft rule)"]["status"] == "ok"
     f = r["tap ampacity vs feeder device (10 ft rule)"]
@@ -153,9 +185,17 @@ def test_ten_foot_tap_meeting_every_condition_passes(write_job):
 
 def test_ten_foot_tap_too_long_fails(write_job):
     # NFPA 70-2023 240.21(B)(1): not over 3 m (10 ft); 12 ft fails
-    _, doc = check(write_job, feed(length="12 ft", conductors="3 AWG Cu", ground="8 AWG Cu",
-                                   run_extra=TAP75 + 'tap_rule = "10 ft"', bus=100,
-                                   main='main_device = "100 A"'))
+    _, doc = check(
+        write_job,
+        feed(
+            length="12 ft",
+            conductors="3 AWG Cu",
+            ground="8 AWG Cu",
+            run_extra=TAP75 + 'tap_rule = "10 ft"',
+            bus=100,
+            main='main_device = "100 A"',
+        ),
+    )
     f = checks_of(doc, "R")["tap length (10 ft rule)"]
     assert (f["status"], f["rule_id"]) == ("fail", "tap-10ft")
     assert f["limit"] == pytest.approx(3.05)
@@ -164,9 +204,17 @@ def test_ten_foot_tap_too_long_fails(write_job):
 def test_twenty_five_foot_tap_below_one_third_fails(write_job):
     """NFPA 70-2023 240.21(B)(2)(1): ampacity ≥ 1/3 of the feeder device: 400/3 =
     133.3 A; 3 AWG Cu carries 100 A at 75 °C (Table 310.16) → fail."""
-    _, doc = check(write_job, feed(length="20 ft", conductors="3 AWG Cu", ground="8 AWG Cu",
-                                   run_extra=TAP75 + 'tap_rule = "25 ft"', bus=100,
-                                   main='main_device = "100 A"'))
+    _, doc = check(
+        write_job,
+        feed(
+            length="20 ft",
+            conductors="3 AWG Cu",
+            ground="8 AWG Cu",
+            run_extra=TAP75 + 'tap_rule = "25 ft"',
+            bus=100,
+            main='main_device = "100 A"',
+        ),
+    )
     f = checks_of(doc, "R")["tap ampacity vs feeder device (25 ft rule)"]
     assert f["limit"] == pytest.approx(400 / 3)
     assert (f["status"], f["rule_id"]) == ("fail", "tap-25ft-ratio")
@@ -176,8 +224,16 @@ def test_twenty_five_foot_tap_to_main_lugs_fails(write_job):
     """NFPA 70-2023 240.21(B)(2)(2): the tap ends in a single device limiting the load to
     its ampacity. 1/0 Cu: 150 A at 75 °C (Table 310.16) ≥ 133.3 A, but main lugs → fail;
     the 150 A bus is then protected only by the 400 A feeder device (408.36)."""
-    _, doc = check(write_job, feed(length="20 ft", conductors="1/0 AWG Cu", ground="6 AWG Cu",
-                                   run_extra=TAP75 + 'tap_rule = "25 ft"', bus=150))
+    _, doc = check(
+        write_job,
+        feed(
+            length="20 ft",
+            conductors="1/0 AWG Cu",
+            ground="6 AWG Cu",
+            run_extra=TAP75 + 'tap_rule = "25 ft"',
+            bus=150,
+        ),
+    )
     r = checks_of(doc, "R")
     assert r["tap ampacity vs feeder device (25 ft rule)"]["status"] == "ok"
     f = r["tap ends in one device"]
@@ -186,15 +242,23 @@ def test_twenty_five_foot_tap_to_main_lugs_fails(write_job):
 
 
 def test_tap_rule_on_a_run_with_a_device_is_an_input_error(write_job):
-    res = CliRunner().invoke(main, ["check", str(write_job(feed(
-        run_extra='device = "200 A"\ntap_rule = "10 ft"'))), "--format", "json"])
+    res = CliRunner().invoke(
+        main,
+        [
+            "check",
+            str(write_job(feed(run_extra='device = "200 A"\ntap_rule = "10 ft"'))),
+            "--format",
+            "json",
+        ],
+    )
     assert res.exit_code == 2
     assert "tap_rule" in res.output
 
 
 def test_unknown_tap_rule_is_an_input_error(write_job):
-    res = CliRunner().invoke(main, ["check", str(write_job(feed(
-        run_extra='tap_rule = "50 ft"'))), "--format", "json"])
+    res = CliRunner().invoke(
+        main, ["check", str(write_job(feed(run_extra='tap_rule = "50 ft"'))), "--format", "json"]
+    )
     assert res.exit_code == 2
     assert "run[2].tap_rule" in res.output
 
@@ -239,10 +303,19 @@ load = "{load} kVA"
 """
 
 
-def secondary(pdev=100, sdev="", length="8 ft", conductors="4/0 AWG Cu", sets=1, extra="",
-              main=200, load=40) -> str:
-    return SECONDARY.format(pdev=pdev, sdev=sdev, length=length, conductors=conductors,
-                            sets=sets, extra=extra, main=main, load=load)
+def secondary(
+    pdev=100, sdev="", length="8 ft", conductors="4/0 AWG Cu", sets=1, extra="", main=200, load=40
+) -> str:
+    return SECONDARY.format(
+        pdev=pdev,
+        sdev=sdev,
+        length=length,
+        conductors=conductors,
+        sets=sets,
+        extra=extra,
+        main=main,
+        load=load,
+    )
 
 
 def test_secondary_without_any_device_or_declared_rule_fails(write_job):
@@ -256,9 +329,13 @@ def test_secondary_without_any_device_or_declared_rule_fails(write_job):
 def test_secondary_declared_ten_foot_rule_is_checked(write_job):
     """NFPA 70-2023 240.21(C)(2): 4/0 Cu 230 A at 75 °C (Table 310.16) ≥ the 200 A main
     it ends in and ≥ 100 A × 480/208 / 10 = 23.1 A."""
-    _, doc = check(write_job, secondary(
-        extra='tap_rule = "transformer secondary 10 ft"\nbonding_jumper = "2 AWG Cu"\n'
-              'neutral = "2 AWG Cu"'))
+    _, doc = check(
+        write_job,
+        secondary(
+            extra='tap_rule = "transformer secondary 10 ft"\nbonding_jumper = "2 AWG Cu"\n'
+            'neutral = "2 AWG Cu"'
+        ),
+    )
     s = checks_of(doc, "S")
     f = s["secondary conductors (10 ft arrangement)"]
     assert f["limit"] == pytest.approx(200.0)
@@ -287,8 +364,10 @@ def test_supply_side_bonding_jumper_of_4_0_secondary(write_job, jumper, status):
     """Issue 12 item 9. NFPA 70-2023 250.30(A)(2), Table 250.102(C)(1): 4/0 AWG Cu
     (211.6 kcmil) is in the row "over 3/0 through 350" → 2 AWG Cu (66.36 kcmil, NFPA 70
     Ch. 9 Table 8); a 4 AWG jumper (41.74 kcmil) fails."""
-    _, doc = check(write_job, secondary(
-        extra=f'tap_rule = "transformer secondary 10 ft"\nbonding_jumper = "{jumper}"'))
+    _, doc = check(
+        write_job,
+        secondary(extra=f'tap_rule = "transformer secondary 10 ft"\nbonding_jumper = "{jumper}"'),
+    )
     f = finding(doc, "S", "supply-side bonding jumper")
     assert f["limit"] == pytest.approx(66.36, rel=1e-3)
     assert (f["status"], f["rule_id"]) == (status, "sds-bonding-jumper")
@@ -306,8 +385,9 @@ def test_absent_jumper_and_neutral_reported_with_the_required_size(write_job):
 
 def test_grounded_conductor_too_small_fails(write_job):
     # NFPA 70-2023 250.30(A)(3)(a): grounded conductor not smaller than Table 250.102(C)(1)
-    _, doc = check(write_job, secondary(
-        extra='tap_rule = "transformer secondary 10 ft"\nneutral = "4 AWG Cu"'))
+    _, doc = check(
+        write_job, secondary(extra='tap_rule = "transformer secondary 10 ft"\nneutral = "4 AWG Cu"')
+    )
     f = finding(doc, "S", "grounded conductor")
     assert (f["status"], f["rule_id"]) == ("fail", "sds-grounded-conductor")
 
@@ -315,9 +395,16 @@ def test_grounded_conductor_too_small_fails(write_job):
 def test_parallel_grounded_conductors_at_least_1_0(write_job):
     """NFPA 70-2023 250.30(A)(3)(b) and 310.10(G): 2 sets of 3/0 Cu in two raceways,
     each raceway's neutral by Table 250.102(C)(1) (3/0 → 4 AWG) but not below 1/0."""
-    _, doc = check(write_job, secondary(
-        pdev=175, conductors="3/0 AWG Cu", sets=2, main=225,
-        extra='tap_rule = "transformer secondary 10 ft"\nneutral = "2 AWG Cu"'))
+    _, doc = check(
+        write_job,
+        secondary(
+            pdev=175,
+            conductors="3/0 AWG Cu",
+            sets=2,
+            main=225,
+            extra='tap_rule = "transformer secondary 10 ft"\nneutral = "2 AWG Cu"',
+        ),
+    )
     f = finding(doc, "S", "grounded conductor")
     assert f["limit"] == pytest.approx(105.6, rel=1e-3)  # 1/0 AWG, NFPA 70 Ch. 9 Table 8
     assert f["status"] == "fail"
@@ -334,17 +421,25 @@ def test_suggested_size_passes_every_check_when_substituted(write_job):
     75 °C, NFPA 70-2023 Table 310.16). The declared 25 ft secondary arrangement needs
     225 A × 480/208 / 3 = 173.1 A (240.21(C)(6)(1)) → 2/0 Cu (175 A). The suggestion must
     be the size with which the run passes; substituting it, every run check passes."""
-    extra = ('tap_rule = "transformer secondary 25 ft"\nbonding_jumper = "2 AWG Cu"\n'
-             'neutral = "2 AWG Cu"')
-    _, doc = check(write_job, secondary(pdev=225, length="20 ft", conductors="4 AWG Cu",
-                                        extra=extra, main=125))
+    extra = (
+        'tap_rule = "transformer secondary 25 ft"\nbonding_jumper = "2 AWG Cu"\n'
+        'neutral = "2 AWG Cu"'
+    )
+    _, doc = check(
+        write_job, secondary(pdev=225, length="20 ft", conductors="4 AWG Cu", extra=extra, main=125)
+    )
     f = finding(doc, "S", "allowable ampacity vs load")
     assert f["status"] == "fail"
     assert "2/0 AWG Cu" in f["note"]
-    _, fixed = check(write_job, secondary(pdev=225, length="20 ft", conductors="2/0 AWG Cu",
-                                          extra=extra, main=125))
-    bad = [(c, x["status"]) for c, x in checks_of(fixed, "S").items()
-           if x["status"] == "fail" and not c.startswith("voltage")]
+    _, fixed = check(
+        write_job,
+        secondary(pdev=225, length="20 ft", conductors="2/0 AWG Cu", extra=extra, main=125),
+    )
+    bad = [
+        (c, x["status"])
+        for c, x in checks_of(fixed, "S").items()
+        if x["status"] == "fail" and not c.startswith("voltage")
+    ]
     assert bad == []
 
 

@@ -3,8 +3,8 @@
 import numpy as np
 import pytest
 
-from feedcheck.inputs.schedule_file import read_schedule
 from feedcheck.checks.schedules import check_schedule, demand_tiers
+from feedcheck.inputs.schedule_file import read_schedule
 from feedcheck.units import parse_voltage_system
 
 HEAD = (
@@ -200,7 +200,6 @@ def test_non_standard_breaker_is_flagged_and_zero_length_refused(tmp_path):
     from feedcheck.checks.schedules import check_schedule
     from feedcheck.errors import InputError
     from feedcheck.inputs.schedule_file import read_schedule
-    from feedcheck.checks.schedules import check_schedule
     from feedcheck.units import parse_voltage_system
 
     head = "circuit,load [VA],breaker [A],conductor,length [ft]\n"
@@ -231,8 +230,8 @@ def test_branch_ground_grows_with_upsized_conductors(tmp_path):
     # NFPA 70-2023 250.122(B): a 20 A circuit upsized from 12 AWG (the minimum it protects,
     # 240.4(D)) to 10 AWG Cu for voltage drop needs its EGC increased by 10,380/6,530 cmil
     # (Ch. 9 Table 8): 12 AWG (6,530 cmil, Table 250.122 for 20 A) × 1.59 = 10,380 → 10 AWG.
-    from feedcheck.inputs.schedule_file import read_schedule
     from feedcheck.checks.schedules import check_schedule
+    from feedcheck.inputs.schedule_file import read_schedule
     from feedcheck.units import parse_voltage_system
 
     p = tmp_path / "P.csv"
@@ -249,8 +248,8 @@ def test_branch_ground_grows_with_upsized_conductors(tmp_path):
 
 def test_demand_load_alone_equals_the_full_check(samples):
     # the feed walk takes demand_load (no circuit checks); it must give the same Load
-    from feedcheck.inputs.schedule_file import read_schedule
     from feedcheck.checks.schedules import check_schedule, demand_load
+    from feedcheck.inputs.schedule_file import read_schedule
     from feedcheck.units import parse_voltage_system
 
     for name, system in (

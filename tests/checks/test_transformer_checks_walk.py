@@ -17,9 +17,11 @@ def test_rated_currents(check_json):
     doc = check_json(job_text())
     # I = S/(√3·V_LL), IEEE Std 141-1993 ch. 4: 75,000/(√3·480) = 90.21 A; /(√3·208) = 208.2 A
     assert finding(doc, "T", "rated primary current")["value"] == pytest.approx(
-        75e3 / (math.sqrt(3) * 480), rel=1e-9)
+        75e3 / (math.sqrt(3) * 480), rel=1e-9
+    )
     assert finding(doc, "T", "rated secondary current")["value"] == pytest.approx(
-        75e3 / (math.sqrt(3) * 208), rel=1e-9)
+        75e3 / (math.sqrt(3) * 208), rel=1e-9
+    )
 
 
 def test_primary_and_secondary_protection_limits(check_json):
@@ -60,19 +62,31 @@ def test_primary_only_protection(check_json, device, status):
     assert prim["status"] == status
 
 
-@pytest.mark.parametrize(("conductors", "sets", "gec_kcmil"), [
-    # NFPA 70-2023 Table 250.66 (from memory): over 3/0 through 350 kcmil Cu → 2 AWG Cu;
-    # 2 AWG area 66,360 cmil (NFPA 70-2023 Ch. 9 Table 8)
-    ("250 kcmil Cu", 1, 66.36),
-    # over 350 through 600 kcmil Cu → 1/0 AWG Cu, 105,600 cmil (Ch. 9 Table 8)
-    ("500 kcmil Cu", 1, 105.6),
-    # 2 × 250 = 500 kcmil of parallel sets, summed per 250.66 → 1/0 AWG Cu
-    ("250 kcmil Cu", 2, 105.6),
-])
+@pytest.mark.parametrize(
+    ("conductors", "sets", "gec_kcmil"),
+    [
+        # NFPA 70-2023 Table 250.66 (from memory): over 3/0 through 350 kcmil Cu → 2 AWG Cu;
+        # 2 AWG area 66,360 cmil (NFPA 70-2023 Ch. 9 Table 8)
+        ("250 kcmil Cu", 1, 66.36),
+        # over 350 through 600 kcmil Cu → 1/0 AWG Cu, 105,600 cmil (Ch. 9 Table 8)
+        ("500 kcmil Cu", 1, 105.6),
+        # 2 × 250 = 500 kcmil of parallel sets, summed per 250.66 → 1/0 AWG Cu
+        ("250 kcmil Cu", 2, 105.6),
+    ],
+)
 def test_grounding_electrode_conductor(check_json, conductors, sets, gec_kcmil):
-    doc = check_json(job_text(conductors=conductors, sets=sets, device=800, bus=800,
-                              secondary_device='secondary_device = "800 A"', kva=300,
-                              primary_device=600, ground="1/0 AWG Cu"))
+    doc = check_json(
+        job_text(
+            conductors=conductors,
+            sets=sets,
+            device=800,
+            bus=800,
+            secondary_device='secondary_device = "800 A"',
+            kva=300,
+            primary_device=600,
+            ground="1/0 AWG Cu",
+        )
+    )
     gec = finding(doc, "T", "grounding electrode conductor")
     assert gec["value"] == pytest.approx(gec_kcmil, rel=2e-3)  # Ch. 9 Table 8 area, rounded
     assert gec["status"] == "info"

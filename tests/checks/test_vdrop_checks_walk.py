@@ -27,7 +27,8 @@ def test_feeder_drop_by_hand(check_json, length_ft, pf):
     doc = check_json(job_text(length=f"{length_ft} ft", pf=pf, load_kva=60))
     # the walk reads the same Table 9 cells, so the hand figure holds to rounding error
     assert run(doc, "R")["vdrop_approx_pct"] == pytest.approx(
-        _hand_pct(60e3, length_ft, pf), rel=1e-6)
+        _hand_pct(60e3, length_ft, pf), rel=1e-6
+    )
 
 
 def test_drop_doubles_with_length(check_json):

@@ -10,11 +10,31 @@ from click.testing import CliRunner
 from feedcheck import CAUTION
 from feedcheck.commands.calc_fault import fault_command
 
-BASE = ["--rating", "75kVA", "--primary", "480 V delta", "--secondary", "208Y/120 V",
-        "--impedance", "5.1%", "--x-r", "3.5"]
+BASE = [
+    "--rating",
+    "75kVA",
+    "--primary",
+    "480 V delta",
+    "--secondary",
+    "208Y/120 V",
+    "--impedance",
+    "5.1%",
+    "--x-r",
+    "3.5",
+]
 # the former spellings --kva and --z keep working (hidden aliases)
-BASE_OLD = ["--kva", "75kVA", "--primary", "480 V delta", "--secondary", "208Y/120 V", "--z",
-            "5.1%", "--x-r", "3.5"]
+BASE_OLD = [
+    "--kva",
+    "75kVA",
+    "--primary",
+    "480 V delta",
+    "--secondary",
+    "208Y/120 V",
+    "--z",
+    "5.1%",
+    "--x-r",
+    "3.5",
+]
 
 
 def _run(args):
@@ -35,19 +55,48 @@ def test_infinite_source_terminals_match_formula():
     assert res.exit_code == 0, res.output
     rated = 75e3 / (math.sqrt(3) * 208.0)
     assert _figure(res.output, "three-phase maximum", "secondary terminals") == pytest.approx(
-        rated * 100 / (5.1 * 0.925), abs=0.6)
+        rated * 100 / (5.1 * 0.925), abs=0.6
+    )
     assert _figure(res.output, "three-phase minimum", "secondary terminals") == pytest.approx(
-        rated * 100 / (5.1 * 1.075), abs=0.6)
+        rated * 100 / (5.1 * 1.075), abs=0.6
+    )
     assert CAUTION in res.output
 
 
 def test_full_run_prints_every_figure():
-    res = _run([*BASE, "--source-fault", "30kA", "--source-x-r", "6", "--length", "95 ft",
-                       "--size", "4/0 AWG", "--material", "cu", "--raceway", "steel",
-                       "--ground", "4 AWG", "--device", "225A", "--motor-flc", "30A"])
+    res = _run(
+        [
+            *BASE,
+            "--source-fault",
+            "30kA",
+            "--source-x-r",
+            "6",
+            "--length",
+            "95 ft",
+            "--size",
+            "4/0 AWG",
+            "--material",
+            "cu",
+            "--raceway",
+            "steel",
+            "--ground",
+            "4 AWG",
+            "--device",
+            "225A",
+            "--motor-flc",
+            "30A",
+        ]
+    )
     assert res.exit_code == 0, res.output
-    for text in ("line-to-ground min", "peak (κ·√2·I)", "asym. RMS", "point-to-point",
-                 "At the end of run:", "with motors", "Device 225 A"):
+    for text in (
+        "line-to-ground min",
+        "peak (κ·√2·I)",
+        "asym. RMS",
+        "point-to-point",
+        "At the end of run:",
+        "with motors",
+        "Device 225 A",
+    ):
         assert text in res.output
     end_max = _figure(res.output, "three-phase maximum", "end of run")
     term_max = _figure(res.output, "three-phase maximum", "secondary terminals")
@@ -56,8 +105,22 @@ def test_full_run_prints_every_figure():
 
 
 def test_split_phase_secondary():
-    res = _run(["--rating", "50kVA", "--primary", "480 V", "--secondary", "120/240 V",
-                "--impedance", "2.0%", "--x-r", "1.6", "--tolerance", "0%"])
+    res = _run(
+        [
+            "--rating",
+            "50kVA",
+            "--primary",
+            "480 V",
+            "--secondary",
+            "120/240 V",
+            "--impedance",
+            "2.0%",
+            "--x-r",
+            "1.6",
+            "--tolerance",
+            "0%",
+        ]
+    )
     assert res.exit_code == 0, res.output
     i_ll = _figure(res.output, "line-to-line maximum", "secondary terminals")
     assert i_ll == pytest.approx(50e3 / 240 * 100 / 2.0, abs=0.6)  # IEEE Std 141-1993 ch. 4
@@ -67,7 +130,8 @@ def test_split_phase_secondary():
     i_ln = 50e3 / (120 * abs(1.5 * r + 1.2j * 1.6 * r) / 100)
     assert 1.33 * i_ll < i_ln < 1.67 * i_ll  # the note's range
     assert _figure(res.output, "line-to-neutral max", "secondary terminals") == pytest.approx(
-        i_ln, abs=1)
+        i_ln, abs=1
+    )
 
 
 def test_help_has_example_and_caution():
@@ -76,13 +140,16 @@ def test_help_has_example_and_caution():
     assert "Example:" in res.output and "licensed" in res.output
 
 
-@pytest.mark.parametrize(("extra", "code", "msg"), [
-    (["--length", "95 ft"], 2, "--length and --size"),
-    (["--impedance", "abc"], 2, "--impedance"),
-    (["--tolerance", "-5%"], 2, "tolerance_pct"),
-    (["--source-fault", "-3kA"], 2, "greater than zero"),
-    (["--ground", "4 AWG"], 2, "--ground needs a run"),
-])
+@pytest.mark.parametrize(
+    ("extra", "code", "msg"),
+    [
+        (["--length", "95 ft"], 2, "--length and --size"),
+        (["--impedance", "abc"], 2, "--impedance"),
+        (["--tolerance", "-5%"], 2, "tolerance_pct"),
+        (["--source-fault", "-3kA"], 2, "greater than zero"),
+        (["--ground", "4 AWG"], 2, "--ground needs a run"),
+    ],
+)
 def test_bad_input_exit_2(extra, code, msg):
     res = _run([*BASE, *extra])
     assert res.exit_code == code
@@ -143,21 +210,71 @@ def test_quick_figures_are_the_feed_walk_figures():
     length_m = 95 * 0.3048
     source = Source(prim, 30e3, 6.0)
     transformers = (Transformer("T1", "source", 75e3, prim, sec, 5.1, 3.5, 110.0, None),)
-    runs = (Run("R1", "T1", "P1", length_m, SIZES["4/0 AWG"], "cu", 1, 75.0, "steel", 30.0, 3,
-                SIZES["4 AWG"], "cu", 225.0, None),)
+    runs = (
+        Run(
+            "R1",
+            "T1",
+            "P1",
+            length_m,
+            SIZES["4/0 AWG"],
+            "cu",
+            1,
+            75.0,
+            "steel",
+            30.0,
+            3,
+            SIZES["4 AWG"],
+            "cu",
+            225.0,
+            None,
+        ),
+    )
     panels = (Panel("P1", 225.0, None, None, None, None, None, 0.0, 1.0),)
-    job = Job(Path("quick.toml"), Project("quick", date="2026-12-02"), source, transformers,
-              runs, panels, build_tree(source, transformers, runs, panels), (),
-              Options(impedance_tolerance_pct=7.5))
+    job = Job(
+        Path("quick.toml"),
+        Project("quick", date="2026-12-02"),
+        source,
+        transformers,
+        runs,
+        panels,
+        build_tree(source, transformers, runs, panels),
+        (),
+        Options(impedance_tolerance_pct=7.5),
+    )
     nodes = {n.id: n.values for n in check_job(job).nodes}
-    quick = compute(75e3, prim, sec, 5.1, 3.5, 30e3, 6.0, 7.5, "none", length_m,
-                    SIZES["4/0 AWG"], "cu", "steel", 1, SIZES["4 AWG"], None, None, 225.0)["rows"]
+    quick = compute(
+        75e3,
+        prim,
+        sec,
+        5.1,
+        3.5,
+        30e3,
+        6.0,
+        7.5,
+        "none",
+        length_m,
+        SIZES["4/0 AWG"],
+        "cu",
+        "steel",
+        1,
+        SIZES["4 AWG"],
+        None,
+        None,
+        225.0,
+    )["rows"]
     for row, node in zip(quick, ("T1", "P1"), strict=True):
         v = nodes[node]
-        for mine, walk in (("max_a", "fault_max_a"), ("min_a", "fault_min_a"), ("x_r", "x_r"),
-                           ("peak_a", "peak_a"), ("asym_a", "asym_rms_a"),
-                           ("ptp_a", "fault_ptp_a"), ("lg_min_a", "fault_lg_min_a"),
-                           ("lg_max_a", "fault_lg_max_a"), ("duty_a", "fault_duty_a")):
+        for mine, walk in (
+            ("max_a", "fault_max_a"),
+            ("min_a", "fault_min_a"),
+            ("x_r", "x_r"),
+            ("peak_a", "peak_a"),
+            ("asym_a", "asym_rms_a"),
+            ("ptp_a", "fault_ptp_a"),
+            ("lg_min_a", "fault_lg_min_a"),
+            ("lg_max_a", "fault_lg_max_a"),
+            ("duty_a", "fault_duty_a"),
+        ):
             assert row[mine] == pytest.approx(v[walk], rel=1e-12), (node, mine)
 
 
@@ -212,18 +329,40 @@ def test_calc_fault_prints_the_figures_of_check(write_job, factors, vf):
 
     from feedcheck.cli import main
 
-    doc = json.loads(CliRunner().invoke(
-        main, ["check", str(write_job(CHECK_JOB.format(vf=vf))), "--format", "json"]).stdout)
+    doc = json.loads(
+        CliRunner()
+        .invoke(main, ["check", str(write_job(CHECK_JOB.format(vf=vf))), "--format", "json"])
+        .stdout
+    )
     nodes = {n["id"]: n for n in doc["nodes"]}
-    res = _run([*BASE, "--source-fault", "30kA", "--source-x-r", "6", "--length", "95 ft",
-                "--size", "4/0 AWG", "--ground", "4 AWG", "--motor-flc", "30A",
-                "--factors", factors])
+    res = _run(
+        [
+            *BASE,
+            "--source-fault",
+            "30kA",
+            "--source-x-r",
+            "6",
+            "--length",
+            "95 ft",
+            "--size",
+            "4/0 AWG",
+            "--ground",
+            "4 AWG",
+            "--motor-flc",
+            "30A",
+            "--factors",
+            factors,
+        ]
+    )
     assert res.exit_code == 0, res.output
     for section, nid in (("secondary terminals", "T1"), ("end of run", "P1")):
         n = nodes[nid]
-        for label, key in (("with motors", "fault_max_a"), ("three-phase minimum", "fault_min_a"),
-                           ("line-to-ground min", "fault_lg_min_a"),
-                           ("line-to-ground max", "fault_lg_max_a"),
-                           ("point-to-point", "fault_ptp_a"),
-                           ("interrupting duty", "fault_duty_a")):
+        for label, key in (
+            ("with motors", "fault_max_a"),
+            ("three-phase minimum", "fault_min_a"),
+            ("line-to-ground min", "fault_lg_min_a"),
+            ("line-to-ground max", "fault_lg_max_a"),
+            ("point-to-point", "fault_ptp_a"),
+            ("interrupting duty", "fault_duty_a"),
+        ):
             assert _figure(res.output, label, section) == pytest.approx(n[key], abs=0.51)

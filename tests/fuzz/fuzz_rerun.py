@@ -42,8 +42,21 @@ sys.path.insert(0, str(HERE.parent))
 from fuzz_inputs import gen_mutate, gen_values  # noqa: E402
 
 ODD_VALUES = [None, True, 0, -1, 1e308, "x", "", [], {}, [1, [2]], {"id": 3}, "inf", "nan"]
-ODD_NAMES = ["../x.toml", "/etc/passwd", "a\\b.toml", "C:x", ".h", "", "a/../../b", "job.toml",
-             "x" * 300, "LP1.csv", 5, None, ["a"]]
+ODD_NAMES = [
+    "../x.toml",
+    "/etc/passwd",
+    "a\\b.toml",
+    "C:x",
+    ".h",
+    "",
+    "a/../../b",
+    "job.toml",
+    "x" * 300,
+    "LP1.csv",
+    5,
+    None,
+    ["a"],
+]
 
 
 def _base(work: Path) -> tuple[bytes, dict]:
@@ -60,8 +73,12 @@ def _base(work: Path) -> tuple[bytes, dict]:
     r = CliRunner().invoke(main, ["report", str(job), "-o", str(pdf)])
     assert r.exit_code in (0, 1), r.output
     emb = read_report(pdf)
-    return pdf.read_bytes(), {"manifest": emb.manifest, "results": emb.results,
-                              "files": emb.files, "job": emb.job}
+    return pdf.read_bytes(), {
+        "manifest": emb.manifest,
+        "results": emb.results,
+        "files": emb.files,
+        "job": emb.job,
+    }
 
 
 def _plain_pdf() -> bytes:
@@ -82,8 +99,9 @@ def _assemble(parts: dict, extra: list[tuple[str, bytes]] | None = None) -> byte
     files = [(MANIFEST_NAME, json.dumps(parts["manifest"]).encode())]
     files += [(INPUT_PREFIX + k, v) for k, v in parts["files"].items()]
     results = parts["results"]
-    files.append((RESULTS_NAME, results if isinstance(results, bytes) else
-                  json.dumps(results).encode()))
+    files.append(
+        (RESULTS_NAME, results if isinstance(results, bytes) else json.dumps(results).encode())
+    )
     return attach(PLAIN, files + (extra or []))
 
 
@@ -166,8 +184,12 @@ def gen_manifest(rng: random.Random, base: bytes, parts: dict) -> bytes:
     return _assemble(p, extra)
 
 
-GENERATORS = {"pdfbytes": gen_pdfbytes, "job": gen_job, "results": gen_results,
-              "manifest": gen_manifest}
+GENERATORS = {
+    "pdfbytes": gen_pdfbytes,
+    "job": gen_job,
+    "results": gen_results,
+    "manifest": gen_manifest,
+}
 
 
 def _rerun_dirs() -> set[str]:

@@ -83,7 +83,11 @@ BAD = [
     ("x_r = 6", 'x_r = "six"', "source.x_r got 'six'"),
     ("[[run]]", "[[run]]\nsets = 2.5", "run[1].sets got '2.5'; expected a whole number"),
     ("[[run]]", '[[run]]\nraceway = "plastic"', "one of steel, aluminum, pvc, cable, free-air"),
-    ("[[run]]", '[[run]]\ninsulation = "105 degC"', "'60 degC', '75 degC', '90 degC' or an insulation type"),
+    (
+        "[[run]]",
+        '[[run]]\ninsulation = "105 degC"',
+        "'60 degC', '75 degC', '90 degC' or an insulation type",
+    ),
     ("[[panel]]", '[[panel]]\nvoltage = "480Y/277 V"', "panel[1].voltage got '480Y/277 V'"),
     ("[[panel]]", '[[panel]]\nschedule = "../../etc/passwd.csv"', "no absolute paths, no '..'"),
     ('length = "50 ft"', 'length = "5 km"', "up to 2000 m"),

@@ -6,11 +6,11 @@ import numpy as np
 import openpyxl
 import pytest
 
+from feedcheck.checks.schedules import check_schedule
 from feedcheck.errors import InputError
 from feedcheck.inputs import schedule_file as S
 from feedcheck.inputs.schedule_file import read_schedule
 from feedcheck.inputs.schedule_header import normalise_header
-from feedcheck.checks.schedules import check_schedule
 from feedcheck.units import parse_voltage_system
 
 GOOD = (
@@ -81,18 +81,26 @@ def test_xlsx_and_csv_give_identical_results(tmp_path):
 
 def test_every_bad_cell_reported_with_file_row_column(tmp_path):
     text = GOOD.replace("1,Lights,1,lighting,yes,1100", "1,Lights,1,lighting,perhaps,lots")
-    text = text.replace("3,Heater,3,heating,yes,9000,1,35,8 AWG Cu,35",
-                        "3,Heater,4,heating,yes,9000,1,35 amps,8 AWG Gold,-5")
+    text = text.replace(
+        "3,Heater,3,heating,yes,9000,1,35,8 AWG Cu,35",
+        "3,Heater,4,heating,yes,9000,1,35 amps,8 AWG Gold,-5",
+    )
     p = _write(tmp_path, text)
     with pytest.raises(InputError) as exc:
         read_schedule(p)
     msgs = _problems(exc)
-    want = [("row 2", "Continuous", "perhaps"), ("row 2", "Load [VA]", "lots"),
-            ("row 4", "Poles", "4"), ("row 4", "Breaker [A]", "35 amps"),
-            ("row 4", "Conductor", "8 AWG Gold"), ("row 4", "Length [ft]", "-5")]
+    want = [
+        ("row 2", "Continuous", "perhaps"),
+        ("row 2", "Load [VA]", "lots"),
+        ("row 4", "Poles", "4"),
+        ("row 4", "Breaker [A]", "35 amps"),
+        ("row 4", "Conductor", "8 AWG Gold"),
+        ("row 4", "Length [ft]", "-5"),
+    ]
     for row, col, val in want:
-        assert any(str(p) in m and f"{row}, column '{col}'" in m and repr(val) in m
-                   for m in msgs), (row, col, msgs)
+        assert any(
+            str(p) in m and f"{row}, column '{col}'" in m and repr(val) in m for m in msgs
+        ), (row, col, msgs)
 
 
 def test_blank_rows_skipped_and_row_numbers_kept(tmp_path):
@@ -115,9 +123,18 @@ def test_missing_column_and_title_row_hint(tmp_path):
 
 def test_repeated_header_duplicate_circuit_and_taken_space(tmp_path):
     lines = GOOD.splitlines()
-    text = "\n".join([*lines, lines[0], "2,Dup,1,other,no,100,1,20,12 AWG Cu,10,",
-                      "5,Takes 5 and 7,2,other,no,100,1,20,12 AWG Cu,10,",
-                      "7,Clash,1,other,no,100,1,20,12 AWG Cu,10,"]) + "\n"
+    text = (
+        "\n".join(
+            [
+                *lines,
+                lines[0],
+                "2,Dup,1,other,no,100,1,20,12 AWG Cu,10,",
+                "5,Takes 5 and 7,2,other,no,100,1,20,12 AWG Cu,10,",
+                "7,Clash,1,other,no,100,1,20,12 AWG Cu,10,",
+            ]
+        )
+        + "\n"
+    )
     with pytest.raises(InputError) as exc:
         read_schedule(_write(tmp_path, text))
     msgs = _problems(exc)

@@ -18,9 +18,14 @@ KFT = 304.8  # m per 1000 ft
 
 # NFPA 70-2023 Ch. 9 Table 8, Ω/kft at 75 °C, stranded uncoated Cu / Al
 TABLE8 = {
-    "14 AWG": (3.14, 5.17), "10 AWG": (1.24, 2.04), "6 AWG": (0.491, 0.808),
-    "2 AWG": (0.194, 0.319), "1/0 AWG": (0.122, 0.201), "4/0 AWG": (0.0608, 0.100),
-    "250 kcmil": (0.0515, 0.0847), "500 kcmil": (0.0258, 0.0424),
+    "14 AWG": (3.14, 5.17),
+    "10 AWG": (1.24, 2.04),
+    "6 AWG": (0.491, 0.808),
+    "2 AWG": (0.194, 0.319),
+    "1/0 AWG": (0.122, 0.201),
+    "4/0 AWG": (0.0608, 0.100),
+    "250 kcmil": (0.0515, 0.0847),
+    "500 kcmil": (0.0258, 0.0424),
     "1000 kcmil": (0.0129, 0.0212),
 }
 
@@ -34,8 +39,15 @@ def test_dc_resistance_within_2pct_of_table8(size):
 
 
 # IEC 60228:2004 class 2 maximum DC resistance at 20 °C, Ω/km
-IEC60228 = {1.5: (12.1, None), 10: (1.83, 3.08), 16: (1.15, 1.91), 50: (0.387, 0.641),
-            95: (0.193, 0.320), 240: (0.0754, 0.125), 300: (0.0601, 0.100)}
+IEC60228 = {
+    1.5: (12.1, None),
+    10: (1.83, 3.08),
+    16: (1.15, 1.91),
+    50: (0.387, 0.641),
+    95: (0.193, 0.320),
+    240: (0.0754, 0.125),
+    300: (0.0601, 0.100),
+}
 
 
 @pytest.mark.parametrize("area", list(IEC60228))
@@ -51,21 +63,22 @@ def test_dc_resistance_not_above_iec60228_class2_maximum(area):
 # NFPA 70-2023 Ch. 9 Table 9, Ω/kft: (XL pvc/al, XL steel, Cu R pvc, Cu R al, Cu R steel,
 # Al R pvc, Al R al, Al R steel)
 TABLE9 = {
-    "12 AWG": (.054, .068, 2.0, 2.0, 2.0, 3.2, 3.2, 3.2),
-    "4 AWG": (.048, .060, .31, .31, .31, .51, .51, .51),
-    "1/0 AWG": (.044, .055, .12, .13, .12, .20, .21, .20),
-    "3/0 AWG": (.042, .052, .077, .082, .079, .13, .13, .13),
-    "250 kcmil": (.041, .052, .052, .057, .054, .085, .090, .086),
-    "500 kcmil": (.039, .048, .027, .032, .029, .043, .048, .045),
-    "1000 kcmil": (.037, .046, .015, .019, .018, .023, .027, .025),
+    "12 AWG": (0.054, 0.068, 2.0, 2.0, 2.0, 3.2, 3.2, 3.2),
+    "4 AWG": (0.048, 0.060, 0.31, 0.31, 0.31, 0.51, 0.51, 0.51),
+    "1/0 AWG": (0.044, 0.055, 0.12, 0.13, 0.12, 0.20, 0.21, 0.20),
+    "3/0 AWG": (0.042, 0.052, 0.077, 0.082, 0.079, 0.13, 0.13, 0.13),
+    "250 kcmil": (0.041, 0.052, 0.052, 0.057, 0.054, 0.085, 0.090, 0.086),
+    "500 kcmil": (0.039, 0.048, 0.027, 0.032, 0.029, 0.043, 0.048, 0.045),
+    "1000 kcmil": (0.037, 0.046, 0.015, 0.019, 0.018, 0.023, 0.027, 0.025),
 }
 
 
 @pytest.mark.parametrize("size", list(TABLE9))
 def test_table_method_reads_table9(size):
     xp, xs, *rs = TABLE9[size]
-    for i, (mat, rw) in enumerate([(m, r) for m in ("cu", "al")
-                                   for r in ("pvc", "aluminum", "steel")]):
+    for i, (mat, rw) in enumerate(
+        [(m, r) for m in ("cu", "al") for r in ("pvc", "aluminum", "steel")]
+    ):
         r, x = ac_impedance_ohm_per_m(size, mat, rw, 75.0)
         assert r * KFT == pytest.approx(rs[i], rel=1e-9)  # NFPA 70-2023 Ch. 9 Table 9
         assert x * KFT == pytest.approx(xs if rw == "steel" else xp, rel=1e-9)
@@ -94,8 +107,9 @@ def test_computed_method_against_table9_rows(size):
     """
     xp, xs, *rs = TABLE9[size]
     area = SIZES[size].area_mm2
-    for i, (mat, rw) in enumerate([(m, r) for m in ("cu", "al")
-                                   for r in ("pvc", "aluminum", "steel")]):
+    for i, (mat, rw) in enumerate(
+        [(m, r) for m in ("cu", "al") for r in ("pvc", "aluminum", "steel")]
+    ):
         r, x = ac_impedance_computed_ohm_per_m(area, mat, rw, 75.0)
         assert r * KFT == pytest.approx(rs[i], rel=0.10)  # NFPA 70-2023 Ch. 9 Table 9
         assert x * KFT == pytest.approx(xs if rw == "steel" else xp, rel=0.15)

@@ -2,8 +2,8 @@
 
 import pytest
 
-from feedcheck.inputs.schedule_file import read_schedule
 from feedcheck.checks.schedules import check_schedule
+from feedcheck.inputs.schedule_file import read_schedule
 from feedcheck.units import parse_voltage_system
 
 HEAD = "circuit,poles,kind,continuous,load [VA],breaker [A],conductor,length [ft]\n"
@@ -20,9 +20,11 @@ def test_annex_d_example_d3_store_building(tmp_path):
     """
     recept = [180 * 8] * 10  # 80 receptacles, eight per 20 A circuit
     rows = [f"{n},1,receptacle,no,{va},20,12 AWG Cu,50" for n, va in enumerate(recept, 1)]
-    rows += ["11,2,lighting,yes,9000,50,6 AWG Cu,40",  # 2-pole: spaces 11, 13
-             "12,2,lighting,yes,6000,40,8 AWG Cu,40",  # show window: spaces 12, 14
-             "15,1,other,yes,1200,20,12 AWG Cu,60"]  # outside sign circuit
+    rows += [
+        "11,2,lighting,yes,9000,50,6 AWG Cu,40",  # 2-pole: spaces 11, 13
+        "12,2,lighting,yes,6000,40,8 AWG Cu,40",  # show window: spaces 12, 14
+        "15,1,other,yes,1200,20,12 AWG Cu,60",
+    ]  # outside sign circuit
     p = tmp_path / "store.csv"
     p.write_text(HEAD + "\n".join(rows) + "\n", encoding="utf-8")
     r = check_schedule(read_schedule(p), parse_voltage_system("120/240 V"))
@@ -52,8 +54,12 @@ def test_table_220_42_dwelling_tiers_annex_d_example_d1a(tmp_path):
     3,000 + 6,000 × 35 % = 5,100 VA. Tiers: Table 220.42 (Modern Commercial Wiring 2018
     reproduction); the example's figures from memory, re-derived here from the tiers.
     """
-    rows = ["1,1,lighting,no,4500,20,12 AWG Cu,30", "2,1,lighting,no,1500,20,12 AWG Cu,30",
-            "3,1,lighting,no,1500,20,12 AWG Cu,30", "4,1,lighting,no,1500,20,12 AWG Cu,30"]
+    rows = [
+        "1,1,lighting,no,4500,20,12 AWG Cu,30",
+        "2,1,lighting,no,1500,20,12 AWG Cu,30",
+        "3,1,lighting,no,1500,20,12 AWG Cu,30",
+        "4,1,lighting,no,1500,20,12 AWG Cu,30",
+    ]
     p = tmp_path / "house.csv"
     p.write_text(HEAD + "\n".join(rows) + "\n", encoding="utf-8")
     sys = parse_voltage_system("120/240 V")
@@ -63,11 +69,14 @@ def test_table_220_42_dwelling_tiers_annex_d_example_d1a(tmp_path):
     assert r.totals["demand_va"] == pytest.approx(9000)
 
 
-@pytest.mark.parametrize(("occupancy", "va", "expected"), [
-    ("hospital", 80_000, 0.40 * 50_000 + 0.20 * 30_000),  # Table 220.42 hospitals
-    ("warehouse", 20_000, 12_500 + 0.50 * 7_500),  # Table 220.42 warehouses (storage)
-    ("dwelling", 150_000, 3_000 + 0.35 * 117_000 + 0.25 * 30_000),  # Table 220.42 dwellings
-])
+@pytest.mark.parametrize(
+    ("occupancy", "va", "expected"),
+    [
+        ("hospital", 80_000, 0.40 * 50_000 + 0.20 * 30_000),  # Table 220.42 hospitals
+        ("warehouse", 20_000, 12_500 + 0.50 * 7_500),  # Table 220.42 warehouses (storage)
+        ("dwelling", 150_000, 3_000 + 0.35 * 117_000 + 0.25 * 30_000),  # Table 220.42 dwellings
+    ],
+)
 def test_table_220_42_tiers(tmp_path, occupancy, va, expected):
     n = va // 10_000
     rows = [f"{2 * k + 1},1,lighting,no,10000,100,1 AWG Cu,10" for k in range(n)]

@@ -35,40 +35,81 @@ def _pandapower_lg(case, vp, vs, kva, z_pct, x_r, z0_ratio, src_a, src_xr, runs)
     b_hv = pp.create_bus(net, vn_kv=vp / 1e3)
     b_lv = pp.create_bus(net, vn_kv=vs / 1e3)
     s_sc = C[case] * math.sqrt(3) * vp * src_a / 1e6
-    pp.create_ext_grid(net, b_hv, s_sc_max_mva=s_sc, s_sc_min_mva=s_sc, rx_max=1 / src_xr,
-                       rx_min=1 / src_xr, x0x_max=1.0, r0x0_max=0.1, x0x_min=1.0,
-                       r0x0_min=0.1)
+    pp.create_ext_grid(
+        net,
+        b_hv,
+        s_sc_max_mva=s_sc,
+        s_sc_min_mva=s_sc,
+        rx_max=1 / src_xr,
+        rx_min=1 / src_xr,
+        x0x_max=1.0,
+        r0x0_max=0.1,
+        x0x_min=1.0,
+        r0x0_min=0.1,
+    )
     vkr = z_pct / math.sqrt(1 + x_r**2)
     pp.create_transformer_from_parameters(
-        net, b_hv, b_lv, sn_mva=kva / 1e6, vn_hv_kv=vp / 1e3, vn_lv_kv=vs / 1e3,
-        vkr_percent=vkr, vk_percent=z_pct, pfe_kw=0.0, i0_percent=0.0, vector_group="Dyn",
-        vk0_percent=z0_ratio * z_pct, vkr0_percent=z0_ratio * vkr, mag0_percent=1e9,
-        mag0_rx=0.0, si0_hv_partial=0.9)
+        net,
+        b_hv,
+        b_lv,
+        sn_mva=kva / 1e6,
+        vn_hv_kv=vp / 1e3,
+        vn_lv_kv=vs / 1e3,
+        vkr_percent=vkr,
+        vk_percent=z_pct,
+        pfe_kw=0.0,
+        i0_percent=0.0,
+        vector_group="Dyn",
+        vk0_percent=z0_ratio * z_pct,
+        vkr0_percent=z0_ratio * vkr,
+        mag0_percent=1e9,
+        mag0_rx=0.0,
+        si0_hv_partial=0.9,
+    )
     net.trafo["power_station_unit"] = True
     prev = b_lv
     for length_m, r, x, rr, xr_, sets in runs:
         b = pp.create_bus(net, vn_kv=vs / 1e3)
         pp.create_line_from_parameters(
-            net, prev, b, length_km=length_m / 1e3, r_ohm_per_km=r * 1e3,
-            x_ohm_per_km=x * 1e3, c_nf_per_km=0.0, r0_ohm_per_km=(r + 3 * rr) * 1e3,
-            x0_ohm_per_km=(x + 3 * xr_) * 1e3, c0_nf_per_km=0.0, max_i_ka=1.0,
-            parallel=sets, endtemp_degree=20.0)
+            net,
+            prev,
+            b,
+            length_km=length_m / 1e3,
+            r_ohm_per_km=r * 1e3,
+            x_ohm_per_km=x * 1e3,
+            c_nf_per_km=0.0,
+            r0_ohm_per_km=(r + 3 * rr) * 1e3,
+            x0_ohm_per_km=(x + 3 * xr_) * 1e3,
+            c0_nf_per_km=0.0,
+            max_i_ka=1.0,
+            parallel=sets,
+            endtemp_degree=20.0,
+        )
         prev = b
     sc.calc_sc(net, fault="1ph", case=case, lv_tol_percent=10)
     return net.res_bus_sc.ikss_ka.to_numpy()[1:] * 1e3 / C[case]
 
 
 @pytest.mark.parametrize("case", ["max", "min"])
-@pytest.mark.parametrize(("kva", "z_pct", "x_r", "src_a", "src_xr", "runs"), [
-    # 75 kVA 480 V delta – 208Y/120 V; 95 ft 4/0 Cu (6 AWG Cu EGC) in steel, then 60 ft
-    # 2 AWG Cu (8 AWG EGC) in PVC
-    (75e3, 5.1, 3.5, 30e3, 6.0, [(28.956, "4/0 AWG", "6 AWG", "steel", 1),
-                                 (18.288, "2 AWG", "8 AWG", "pvc", 1)]),
-    # 300 kVA, two parallel sets of 500 kcmil Cu with a 2 AWG EGC in each raceway, 20 ft
-    (300e3, 4.5, 5.0, 65e3, 10.0, [(6.096, "500 kcmil", "2 AWG", "steel", 2)]),
-    # 45 kVA with an aluminium feeder and aluminium EGC
-    (45e3, 3.8, 1.5, 14e3, 4.0, [(45.0, "1/0 AWG", "4 AWG", "aluminum", 1)]),
-])
+@pytest.mark.parametrize(
+    ("kva", "z_pct", "x_r", "src_a", "src_xr", "runs"),
+    [
+        # 75 kVA 480 V delta – 208Y/120 V; 95 ft 4/0 Cu (6 AWG Cu EGC) in steel, then 60 ft
+        # 2 AWG Cu (8 AWG EGC) in PVC
+        (
+            75e3,
+            5.1,
+            3.5,
+            30e3,
+            6.0,
+            [(28.956, "4/0 AWG", "6 AWG", "steel", 1), (18.288, "2 AWG", "8 AWG", "pvc", 1)],
+        ),
+        # 300 kVA, two parallel sets of 500 kcmil Cu with a 2 AWG EGC in each raceway, 20 ft
+        (300e3, 4.5, 5.0, 65e3, 10.0, [(6.096, "500 kcmil", "2 AWG", "steel", 2)]),
+        # 45 kVA with an aluminium feeder and aluminium EGC
+        (45e3, 3.8, 1.5, 14e3, 4.0, [(45.0, "1/0 AWG", "4 AWG", "aluminum", 1)]),
+    ],
+)
 def test_lg_matches_pandapower(case, kva, z_pct, x_r, src_a, src_xr, runs):
     """IEC 60909-0:2016 7.1.3 (I_k1 = √3·c·U_n/|Z1 + Z2 + Z0|) as implemented by
     pandapower against fault_lg_delta_wye_a at every bus, max and min, within 2 %."""
@@ -162,8 +203,9 @@ def test_job_lg_max_and_min_match_pandapower(write_job, z0, insulation):
     from feedcheck.checks import check_job
     from feedcheck.inputs.job_file import read_job
 
-    text = JOB_LG.format(z0="" if z0 is None else f"zero_sequence_ratio = {z0}",
-                         insulation=insulation)
+    text = JOB_LG.format(
+        z0="" if z0 is None else f"zero_sequence_ratio = {z0}", insulation=insulation
+    )
     res = check_job(read_job(write_job(text)))
     got = {n.id: n.values for n in res.nodes}
     for case in ("max", "min"):
@@ -172,13 +214,13 @@ def test_job_lg_max_and_min_match_pandapower(write_job, z0, insulation):
         z_case = 5.1 * (1 - 0.075 if case == "max" else 1 + 0.075)
         data = []
         for (length_ft, size, ground, raceway), temp in zip(
-            [(95, "4/0 AWG", "6 AWG", "steel"), (60, "2 AWG", "8 AWG", "pvc")], temps,
+            [(95, "4/0 AWG", "6 AWG", "steel"), (60, "2 AWG", "8 AWG", "pvc")],
+            temps,
             strict=True,
         ):
             r, x = ac_impedance_ohm_per_m(size, "cu", raceway, conductor_c=temp)
             rr, xr_ = ac_impedance_ohm_per_m(ground, "cu", raceway, conductor_c=temp)
             data.append((length_ft * 0.3048, float(r), float(x), float(rr), float(xr_), 1))
-        expected = _pandapower_lg(case, 480.0, 208.0, 75e3, z_case, 3.5, ratio, 30e3, 6.0,
-                                  data)
+        expected = _pandapower_lg(case, 480.0, 208.0, 75e3, z_case, 3.5, ratio, 30e3, 6.0, data)
         ours = [got[n][f"fault_lg_{case}_a"] for n in ("T", "P1", "P2")]
         np.testing.assert_allclose(ours, expected, rtol=0.02)

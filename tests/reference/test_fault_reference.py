@@ -15,9 +15,15 @@ from feedcheck.calc import fault_lg as G
 from feedcheck.calc.transformer import rated_current_a, transformer_impedance_ohm
 
 
-@pytest.mark.parametrize(("kva", "v", "z_pct", "x_r"), [
-    (75.0, 208.0, 5.1, 3.5), (300.0, 208.0, 2.0, 4.0), (500.0, 480.0, 5.75, 4.8),
-    (15.0, 208.0, 3.2, 1.0)])
+@pytest.mark.parametrize(
+    ("kva", "v", "z_pct", "x_r"),
+    [
+        (75.0, 208.0, 5.1, 3.5),
+        (300.0, 208.0, 2.0, 4.0),
+        (500.0, 480.0, 5.75, 4.8),
+        (15.0, 208.0, 3.2, 1.0),
+    ],
+)
 def test_infinite_bus_three_phase(kva, v, z_pct, x_r):
     """Infinite-bus fault I·100/%Z (IEEE Std 141-1993 ch. 4):
     the ohmic method with zero source impedance must reproduce it for any X/R."""
@@ -85,12 +91,14 @@ def test_kappa_iec60909_formula_and_limits():
     R/X grows."""
     for r_x in (0.05, 0.1, 0.3, 0.5, 1.0):
         assert F.peak_factor_kappa(1.0 / r_x) == pytest.approx(
-            1.02 + 0.98 * math.exp(-3.0 * r_x), rel=1e-12)
+            1.02 + 0.98 * math.exp(-3.0 * r_x), rel=1e-12
+        )
     assert F.peak_factor_kappa(math.inf) == pytest.approx(2.0)
     assert F.peak_factor_kappa(1e6) == pytest.approx(2.0, abs=1e-5)
     assert F.peak_factor_kappa(1e-3) == pytest.approx(1.02, abs=1e-12)
     assert F.peak_current_a(10e3, 10.0) == pytest.approx(
-        (1.02 + 0.98 * math.exp(-0.3)) * math.sqrt(2) * 10e3)
+        (1.02 + 0.98 * math.exp(-0.3)) * math.sqrt(2) * 10e3
+    )
 
 
 def test_asymmetric_half_cycle():

@@ -12,7 +12,6 @@ import pytest
 
 from feedcheck.calc import fault as F
 from feedcheck.calc.bonding import JumperTable, jumper_passes, supply_side_jumper_size
-from tests.kernels import ac_impedance_ohm_per_m
 from feedcheck.calc.fault_duty import (
     TestConditionRow,
     asymmetry_multiplying_factor,
@@ -30,6 +29,7 @@ from feedcheck.calc.withstand_icea import (
     insulation_type,
 )
 from feedcheck.tables import load_table
+from tests.kernels import ac_impedance_ohm_per_m
 
 # ICEA P-32-382-2007 constants (A in circular mils): copper K, T0; aluminum K, T0
 CU_K, CU_T0, AL_K, AL_T0 = 0.0297, 234.0, 0.0125, 228.0
@@ -73,8 +73,9 @@ def test_issue_example_at_the_panel_ln_governs():
     conductor R and X from NFPA 70-2023 Ch. 9 Table 9 (steel raceway) at 20 °C."""
     r, x = ac_impedance_ohm_per_m("600 kcmil", "cu", "steel", conductor_c=20.0)
     z = F.branch_impedance_ohm(5 * 0.3048, float(r), float(x), 2)
-    f = split_phase_fault(167e3, 240.0, 2.0, 3.0, case="max", tolerance_pct=7.5,
-                          z_line_ohm=z, z_neutral_ohm=z)
+    f = split_phase_fault(
+        167e3, 240.0, 2.0, 3.0, case="max", tolerance_pct=7.5, z_line_ohm=z, z_neutral_ohm=z
+    )
     assert f.fault_ln_a > f.fault_ll_a > 0
     assert f.fault_ln_a > 42_000
     duty = governing_duty_a(fault_ll_a=f.fault_ll_a, fault_ln_a=f.fault_ln_a)
@@ -109,11 +110,21 @@ def test_multiplying_factors_reproduce_ecm_example():
     assert asymmetry_multiplying_factor(7.0, 4.9, "rms") == pytest.approx(1.078, rel=3e-3)
 
 
-@pytest.mark.parametrize(("x_r", "published"), [
-    # Sheldrake, Handbook of Electrical Engineering (Wiley 2003), Table 8.1,
-    # "max 1-phase rms current at 1/2 cycle" / rms symmetrical current
-    (100.0, 1.696), (9.9501, 1.436), (6.5912, 1.330), (4.8990, 1.247), (3.1798, 1.130),
-    (2.2913, 1.062), (1.7321, 1.026), (1.3333, 1.009)])
+@pytest.mark.parametrize(
+    ("x_r", "published"),
+    [
+        # Sheldrake, Handbook of Electrical Engineering (Wiley 2003), Table 8.1,
+        # "max 1-phase rms current at 1/2 cycle" / rms symmetrical current
+        (100.0, 1.696),
+        (9.9501, 1.436),
+        (6.5912, 1.330),
+        (4.8990, 1.247),
+        (3.1798, 1.130),
+        (2.2913, 1.062),
+        (1.7321, 1.026),
+        (1.3333, 1.009),
+    ],
+)
 def test_rms_asymmetry_ratio_matches_handbook_table(x_r, published):
     """The RMS-basis numerator √(1 + 2e^(−2π/(X/R))) against a published table (a test
     X/R → 0 leaves the numerator alone)."""
@@ -125,8 +136,10 @@ def test_rms_asymmetry_ratio_matches_handbook_table(x_r, published):
 
 def test_test_condition_rows_pick_ul489_band():
     """UL 489 bands via TSEWG TP-6 Table 1: 7.5 kA → X/R 1.73; 14 kA → 3.18; 22 kA → 4.9."""
-    rows = [TestConditionRow.from_record(r)
-            for r in load_table("device_test_power_factor").data.to_dict("records")]
+    rows = [
+        TestConditionRow.from_record(r)
+        for r in load_table("device_test_power_factor").data.to_dict("records")
+    ]
     assert test_condition_row("mccb", 7_500, rows).test_x_r == 1.73
     assert test_condition_row("mccb", 10_000, rows).test_x_r == 1.73
     assert test_condition_row("mccb", 14_000, rows).test_x_r == 3.18
@@ -160,11 +173,17 @@ def test_icea_k_thermoplastic_90_to_150_is_about_92():
     assert icea_k_si(CU_K, CU_T0, 90.0, 150.0) == pytest.approx(92.0, abs=0.5)
 
 
-@pytest.mark.parametrize(("k_icea", "t0", "t1", "t2", "iec_k"), [
-    # IEC 60364-4-43:2008 Table 43A: PVC Cu 70→160 °C k = 115; XLPE Cu 90→250 k = 143;
-    # XLPE Al 90→250 k = 94; PVC Al 70→160 k = 76
-    (CU_K, CU_T0, 70.0, 160.0, 115.0), (CU_K, CU_T0, 90.0, 250.0, 143.0),
-    (AL_K, AL_T0, 90.0, 250.0, 94.0), (AL_K, AL_T0, 70.0, 160.0, 76.0)])
+@pytest.mark.parametrize(
+    ("k_icea", "t0", "t1", "t2", "iec_k"),
+    [
+        # IEC 60364-4-43:2008 Table 43A: PVC Cu 70→160 °C k = 115; XLPE Cu 90→250 k = 143;
+        # XLPE Al 90→250 k = 94; PVC Al 70→160 k = 76
+        (CU_K, CU_T0, 70.0, 160.0, 115.0),
+        (CU_K, CU_T0, 90.0, 250.0, 143.0),
+        (AL_K, AL_T0, 90.0, 250.0, 94.0),
+        (AL_K, AL_T0, 70.0, 160.0, 76.0),
+    ],
+)
 def test_icea_k_agrees_with_iec_table_43a(k_icea, t0, t1, t2, iec_k):
     """Cross-method: ICEA P-32-382 and the IEC adiabatic k differ only in their material
     constants (within 2 %; aluminium PVC differs most, 1.7 %)."""
@@ -193,8 +212,10 @@ def test_icea_withstand_matches_existing_kernel_and_round_trips():
 def test_thhn_gets_the_thermoplastic_limit():
     """Issue 12 item 8: THHN is 90 °C thermoplastic (NFPA 70 Table 310.4(A)); its
     withstand ends at 150 °C (ICEA P-32-382, from memory) and is lower than XHHW-2's."""
-    rows = [InsulationType.from_record(r)
-            for r in load_table("insulation_types").data.to_dict("records")]
+    rows = [
+        InsulationType.from_record(r)
+        for r in load_table("insulation_types").data.to_dict("records")
+    ]
     thhn, xhhw2 = insulation_type("THHN", rows), insulation_type("xhhw 2", rows)
     assert (thhn.family, thhn.dry_c, thhn.sc_final_c) == ("thermoplastic", 90.0, 150.0)
     assert (xhhw2.family, xhhw2.dry_c, xhhw2.sc_final_c) == ("thermoset", 90.0, 250.0)
@@ -211,7 +232,8 @@ def test_thhn_gets_the_thermoplastic_limit():
 
 def _jumper_table():
     return JumperTable.from_records(
-        load_table("supply_side_bonding_jumper").data.to_dict("records"))
+        load_table("supply_side_bonding_jumper").data.to_dict("records")
+    )
 
 
 def test_4_0_cu_secondary_needs_2_awg_so_4_awg_fails():
@@ -223,16 +245,26 @@ def test_4_0_cu_secondary_needs_2_awg_so_4_awg_fails():
     assert jumper_passes(parse_size("2 AWG").area_kcmil, j.required_kcmil)
 
 
-@pytest.mark.parametrize(("size", "sets", "material", "expected"), [
-    # worked examples quoting Table 250.102(C)(1) (building-code forum thread, 2019)
-    ("250 kcmil", 1, "cu", "2 AWG"), ("250 kcmil", 3, "cu", "2/0 AWG"),
-    ("3/0 AWG", 2, "cu", "2 AWG"),
-    # table edges: NFPA 70-2023 Table 250.102(C)(1)
-    ("2 AWG", 1, "cu", "8 AWG"), ("1 AWG", 1, "cu", "6 AWG"), ("3/0 AWG", 1, "cu", "4 AWG"),
-    ("350 kcmil", 1, "cu", "2 AWG"), ("600 kcmil", 1, "cu", "1/0 AWG"),
-    ("1/0 AWG", 1, "al", "6 AWG"), ("250 kcmil", 1, "al", "2 AWG"),
-    ("500 kcmil", 1, "al", "1/0 AWG"), ("900 kcmil", 1, "al", "3/0 AWG"),
-    ("1750 kcmil", 1, "al", "4/0 AWG")])
+@pytest.mark.parametrize(
+    ("size", "sets", "material", "expected"),
+    [
+        # worked examples quoting Table 250.102(C)(1) (building-code forum thread, 2019)
+        ("250 kcmil", 1, "cu", "2 AWG"),
+        ("250 kcmil", 3, "cu", "2/0 AWG"),
+        ("3/0 AWG", 2, "cu", "2 AWG"),
+        # table edges: NFPA 70-2023 Table 250.102(C)(1)
+        ("2 AWG", 1, "cu", "8 AWG"),
+        ("1 AWG", 1, "cu", "6 AWG"),
+        ("3/0 AWG", 1, "cu", "4 AWG"),
+        ("350 kcmil", 1, "cu", "2 AWG"),
+        ("600 kcmil", 1, "cu", "1/0 AWG"),
+        ("1/0 AWG", 1, "al", "6 AWG"),
+        ("250 kcmil", 1, "al", "2 AWG"),
+        ("500 kcmil", 1, "al", "1/0 AWG"),
+        ("900 kcmil", 1, "al", "3/0 AWG"),
+        ("1750 kcmil", 1, "al", "4/0 AWG"),
+    ],
+)
 def test_table_rows(size, sets, material, expected):
     j = supply_side_jumper_size(parse_size(size).area_kcmil, sets, material, _jumper_table())
     assert j.size == expected

@@ -70,8 +70,14 @@ def test_device_test_power_factor_matches_tsewg_tp6():
     """UL 489 / IEEE C37.13 test power factors as tabulated in TSEWG TP-6 (2008) Tables 1, 2."""
     pub = _read("device_test_power_factor__tsewg_tp6_2008.csv")
     ours = load_table("device_test_power_factor").data.set_index("rule_id")
-    pairs = {"tpf-mccb-10ka": 0, "tpf-mccb-20ka": 1, "tpf-mccb-over-20ka": 2,
-             "tpf-lvpcb-unfused": 3, "tpf-lvpcb-fused": 4, "tpf-fuse-lv": 5}
+    pairs = {
+        "tpf-mccb-10ka": 0,
+        "tpf-mccb-20ka": 1,
+        "tpf-mccb-over-20ka": 2,
+        "tpf-lvpcb-unfused": 3,
+        "tpf-lvpcb-fused": 4,
+        "tpf-fuse-lv": 5,
+    }
     for rid, i in pairs.items():
         p, o = pub.iloc[i], ours.loc[rid]
         assert o["test_x_r"] == pytest.approx(float(p["equivalent_min_x_r"]), abs=5e-3)
@@ -79,12 +85,16 @@ def test_device_test_power_factor_matches_tsewg_tp6():
             assert o["test_pf_band"] == p["test_pf"]
             # the published equivalent X/R is that of the band's upper power factor
             assert float(x_r_from_power_factor(o["test_pf"])) == pytest.approx(
-                o["test_x_r"], rel=2e-3)
+                o["test_x_r"], rel=2e-3
+            )
     # insulated-case rows repeat the molded-case bands (both tested to UL 489)
     for band in ("10ka", "20ka", "over-20ka"):
         a, b = ours.loc[f"tpf-mccb-{band}"], ours.loc[f"tpf-iccb-{band}"]
-        assert (a["above_a"], a["up_to_a"], a["test_x_r"]) == (b["above_a"], b["up_to_a"],
-                                                              b["test_x_r"])
+        assert (a["above_a"], a["up_to_a"], a["test_x_r"]) == (
+            b["above_a"],
+            b["up_to_a"],
+            b["test_x_r"],
+        )
     assert set(ours[ours["family"].isin(["mccb", "iccb"])]["rating_basis"]) == {"peak"}
     assert set(ours[~ours["family"].isin(["mccb", "iccb"])]["rating_basis"]) == {"rms"}
 

@@ -20,8 +20,10 @@ COPIES = Path(__file__).parent / "tables"
 # (table, copy, hp, voltage) -> (value in the copy, why the shipped value differs)
 KNOWN_DIFFERENCES = {
     ("motor_flc_three_phase", "catalogue-2017", 1.0, 200): (
-        4.9, "catalogue misprint: the 1999 Table 430-150 and the 2008 Table 430.250 both "
-             "print 4.8 A for 1 hp at 200 V"),
+        4.9,
+        "catalogue misprint: the 1999 Table 430-150 and the 2008 Table 430.250 both "
+        "print 4.8 A for 1 hp at 200 V",
+    ),
 }
 
 
@@ -53,12 +55,15 @@ def _copy_cells(df):
     return cells
 
 
-@pytest.mark.parametrize(("table", "copies"), [
-    # NFPA 70 Table 430.250 (1999 Table 430-150; 2008; 2017 catalogue reproduction)
-    ("motor_flc_three_phase", ["paige-1999", "nec2008-scan", "catalogue-2017"]),
-    # NFPA 70 Table 430.248 (1999 Table 430-148; guide sheet derived from it)
-    ("motor_flc_single_phase", ["paige-1999", "guide-sheet"]),
-])
+@pytest.mark.parametrize(
+    ("table", "copies"),
+    [
+        # NFPA 70 Table 430.250 (1999 Table 430-150; 2008; 2017 catalogue reproduction)
+        ("motor_flc_three_phase", ["paige-1999", "nec2008-scan", "catalogue-2017"]),
+        # NFPA 70 Table 430.248 (1999 Table 430-148; guide sheet derived from it)
+        ("motor_flc_single_phase", ["paige-1999", "guide-sheet"]),
+    ],
+)
 def test_motor_flc_tables_match_every_copy(table, copies):
     shipped = _shipped_motor(table)
     seen = dict.fromkeys(shipped, 0)
@@ -75,7 +80,7 @@ def test_motor_flc_tables_match_every_copy(table, copies):
         # every blank of the copy is blank in the shipped table for the columns it covers
         volts = {v for _, v in cells}
         hps = {h for h, _ in cells}
-        for (h, v) in shipped:
+        for h, v in shipped:
             if v in volts and h in hps:
                 assert (h, v) in cells, f"{c} leaves {(h, v)} blank, the shipped table not"
     unconfirmed = [k for k, n in seen.items() if n < 2]
@@ -94,8 +99,9 @@ def test_motor_currents_fall_as_voltage_rises():
     """Physics: for a given horsepower the current falls as the rated voltage rises."""
     for table in ("motor_flc_three_phase", "motor_flc_single_phase"):
         df = load_table(table).data
-        cols = sorted((c for c in df.columns if c.endswith("v_a")),
-                      key=lambda c: int(c.split("flc_")[1][:-3]))
+        cols = sorted(
+            (c for c in df.columns if c.endswith("v_a")), key=lambda c: int(c.split("flc_")[1][:-3])
+        )
         m = df[cols].to_numpy(float)
         d = np.diff(m, axis=1)
         assert np.all(d[~np.isnan(d)] < 0), table

@@ -27,8 +27,9 @@ SQRT3 = math.sqrt(3)
 def _flc_table(name):
     t = load_table(name)
     df = t.data
-    return MotorFlcTable.from_named_columns(df["hp"], {c: df[c] for c in df.columns},
-                                            tuple(df["rule_id"]))
+    return MotorFlcTable.from_named_columns(
+        df["hp"], {c: df[c] for c in df.columns}, tuple(df["rule_id"])
+    )
 
 
 @pytest.fixture(scope="module")
@@ -54,26 +55,32 @@ def _percent(motor_type, column):
 # ---- 430.6(A)(1): the table current by horsepower and voltage
 
 
-@pytest.mark.parametrize(("hp", "volts", "expected"), [
-    (100, 480, 124),  # NFPA 70 Table 430.250, 460 V column serves 440–480 V (table note)
-    (100, 460, 124),  # NFPA 70 Table 430.250
-    (7.5, 240, 22),  # NFPA 70 Table 430.250, 230 V column serves 220–240 V
-    (10, 208, 30.8),  # NFPA 70 Table 430.250, 208 V column
-    (10, 200, 32.2),  # NFPA 70 Table 430.250, 200 V column
-    (40, 600, 41),  # NFPA 70 Table 430.250, 575 V column serves 550–600 V
-    (2, 120, 13.6),  # NFPA 70 Table 430.250, 115 V column serves 110–120 V
-    (300, 2300, 72),  # NFPA 70 Table 430.250, 2300 V column
-])
+@pytest.mark.parametrize(
+    ("hp", "volts", "expected"),
+    [
+        (100, 480, 124),  # NFPA 70 Table 430.250, 460 V column serves 440–480 V (table note)
+        (100, 460, 124),  # NFPA 70 Table 430.250
+        (7.5, 240, 22),  # NFPA 70 Table 430.250, 230 V column serves 220–240 V
+        (10, 208, 30.8),  # NFPA 70 Table 430.250, 208 V column
+        (10, 200, 32.2),  # NFPA 70 Table 430.250, 200 V column
+        (40, 600, 41),  # NFPA 70 Table 430.250, 575 V column serves 550–600 V
+        (2, 120, 13.6),  # NFPA 70 Table 430.250, 115 V column serves 110–120 V
+        (300, 2300, 72),  # NFPA 70 Table 430.250, 2300 V column
+    ],
+)
 def test_three_phase_flc_by_hp_and_voltage(three_phase, hp, volts, expected):
     assert motor_flc_a(hp, volts, three_phase) == pytest.approx(expected)
 
 
-@pytest.mark.parametrize(("hp", "volts", "expected"), [
-    (2, 230, 12),  # NFPA 70 Table 430.248
-    (1, 120, 16),  # NFPA 70 Table 430.248, 115 V column serves 110–120 V
-    (1 / 3, 115, 7.2),  # NFPA 70 Table 430.248
-    (5, 240, 28),  # NFPA 70 Table 430.248, 230 V column serves 220–240 V
-])
+@pytest.mark.parametrize(
+    ("hp", "volts", "expected"),
+    [
+        (2, 230, 12),  # NFPA 70 Table 430.248
+        (1, 120, 16),  # NFPA 70 Table 430.248, 115 V column serves 110–120 V
+        (1 / 3, 115, 7.2),  # NFPA 70 Table 430.248
+        (5, 240, 28),  # NFPA 70 Table 430.248, 230 V column serves 220–240 V
+    ],
+)
 def test_single_phase_flc(single_phase, hp, volts, expected):
     assert motor_flc_a(hp, volts, single_phase) == pytest.approx(expected)
 
@@ -83,13 +90,16 @@ def test_kw_rating_at_746_w_per_hp(three_phase):
     assert motor_flc_a(hp_from_kw(7.5), 480, three_phase) == 14  # NFPA 70 Table 430.250
 
 
-@pytest.mark.parametrize(("hp", "volts", "match"), [
-    (4, 480, "between 3 and 5 hp"),
-    (600, 480, "ends at 500 hp"),
-    (250, 208, "no current"),  # NFPA 70 Table 430.250: dash above 200 hp at 208 V
-    (10, 277, "277 V"),
-    (10, 380, "380 V"),
-])
+@pytest.mark.parametrize(
+    ("hp", "volts", "match"),
+    [
+        (4, 480, "between 3 and 5 hp"),
+        (600, 480, "ends at 500 hp"),
+        (250, 208, "no current"),  # NFPA 70 Table 430.250: dash above 200 hp at 208 V
+        (10, 277, "277 V"),
+        (10, 380, "380 V"),
+    ],
+)
 def test_unlisted_hp_or_voltage_refused(three_phase, hp, volts, match):
     with pytest.raises(ValueError, match=match):
         motor_flc_a(hp, volts, three_phase)
@@ -110,8 +120,7 @@ def test_single_motor_worked_example(three_phase):
     flc = motor_flc_a(7.5, 230, three_phase)
     assert flc == 22  # NFPA 70 Table 430.250
     assert branch_conductor_min_a(flc) == pytest.approx(27.5)  # NFPA 70 430.22
-    r = branch_device_max_a(flc, _percent("squirrel-cage", "inverse_time_breaker_pct"),
-                            _ratings())
+    r = branch_device_max_a(flc, _percent("squirrel-cage", "inverse_time_breaker_pct"), _ratings())
     assert r.limit_a == pytest.approx(55.0)  # Table 430.52: 250 %
     assert r.permitted_a == 60.0  # 430.52(C)(1) Ex. 1, Table 240.6(A)
 
@@ -124,11 +133,11 @@ def test_device_limit_that_is_a_standard_rating_is_not_raised():
 
 def test_time_delay_fuse_and_wound_rotor_percent(three_phase):
     flc = motor_flc_a(30, 460, three_phase)  # 40 A, NFPA 70 Table 430.250
-    r = branch_device_max_a(flc, _percent("wound-rotor", "nontime_delay_fuse_pct"),
-                            _ratings("fuse"))
+    r = branch_device_max_a(
+        flc, _percent("wound-rotor", "nontime_delay_fuse_pct"), _ratings("fuse")
+    )
     assert (r.limit_a, r.permitted_a) == (60.0, 60.0)  # Table 430.52 wound rotor 150 %
-    r = branch_device_max_a(flc, _percent("squirrel-cage", "time_delay_fuse_pct"),
-                            _ratings("fuse"))
+    r = branch_device_max_a(flc, _percent("squirrel-cage", "time_delay_fuse_pct"), _ratings("fuse"))
     assert r.limit_a == pytest.approx(70.0)  # Table 430.52: 175 % of 40 A
 
 
@@ -148,15 +157,17 @@ def test_inverse_time_breaker_of_a_100_hp_motor():
     """100 hp, 480 V: 124 A (NFPA 70 Table 430.250) x 250 % (Table 430.52, inverse-time
     breaker) = 310 A, next standard rating 350 A (430.52(C)(1) Ex. 1, Table 240.6(A));
     the same figures are worked on forums.mikeholt.com thread 53887."""
-    r = branch_device_max_a(124.0, _percent("squirrel-cage", "inverse_time_breaker_pct"),
-                            _ratings())
+    r = branch_device_max_a(
+        124.0, _percent("squirrel-cage", "inverse_time_breaker_pct"), _ratings()
+    )
     assert (r.limit_a, r.permitted_a) == (pytest.approx(310.0), 350.0)
 
 
 def test_feeder_with_other_loads():
     # NFPA 70 430.24 (1)-(4): 125 % largest + others + 100 % noncontinuous + 125 % continuous
-    got = feeder_conductor_min_a([12.0, 11.0, 6.0], other_noncontinuous_a=10.0,
-                                 other_continuous_a=8.0)
+    got = feeder_conductor_min_a(
+        [12.0, 11.0, 6.0], other_noncontinuous_a=10.0, other_continuous_a=8.0
+    )
     assert got == pytest.approx(1.25 * 12 + 11 + 6 + 10 + 1.25 * 8)
 
 
@@ -221,9 +232,12 @@ def test_demand_chain_annex_d_example_d3():
     12,200 VA (220.44); continuous lighting 9,000 + 6,000 VA and sign 1,200 VA =
     16,200 VA; total 28,400 VA; the feeder takes the continuous part at 125 %."""
     receptacle = [(0, 10_000, 1.0), (10_000, math.inf, 0.5)]  # NFPA 70 Table 220.44
-    r = demand_chain({"lighting": 15_000, "receptacle": 14_400, "other": 1_200},
-                     {"lighting": 15_000, "other": 1_200}, 0.0,
-                     tiers={"receptacle": receptacle})
+    r = demand_chain(
+        {"lighting": 15_000, "receptacle": 14_400, "other": 1_200},
+        {"lighting": 15_000, "other": 1_200},
+        0.0,
+        tiers={"receptacle": receptacle},
+    )
     assert r.demand_va["receptacle"] == pytest.approx(12_200)  # Annex D Example D3
     assert r.demand_total_va == pytest.approx(28_400)  # Annex D Example D3
     assert r.continuous_demand_va == pytest.approx(16_200)  # Annex D Example D3
@@ -276,8 +290,13 @@ def test_heaviest_phase_with_motors_430_24_per_phase(three_phase):
     three-phase motors of 124 and 77 A (100 hp and 60 hp, NFPA 70 Table 430.250) and a
     48 kVA continuous single-phase load on AB (100 A, I = S / V_LL)."""
     k = SQRT3 * 480
-    r = phase_loading([124 * k, 77 * k, 48_000], [False, False, True], ["ABC", "ABC", "AB"],
-                      480, motor=[True, True, False])
+    r = phase_loading(
+        [124 * k, 77 * k, 48_000],
+        [False, False, True],
+        ["ABC", "ABC", "AB"],
+        480,
+        motor=[True, True, False],
+    )
     a = 1.25 * 124 + 77 + 1.25 * 100
     c = 1.25 * 124 + 77
     assert r.design_a.tolist() == pytest.approx([a, a, c])

@@ -87,15 +87,19 @@ ONE_COPY = {
     ("egc_size", (4000.0,)): "Al cell: one current copy; pre-2002 copy prints 800 kcmil",
     ("egc_size", (5000.0,)): "Al cell: one current copy; pre-2002 copy prints 1200 kcmil",
     ("egc_size", (6000.0,)): "Al cell: one current copy; pre-2002 copy prints 1200 kcmil",
-    ("transformer_protection", ("primary and secondary", "secondary", 0.0)):
-        "167 % below 9 A: one copy; the second describes only the 125 % secondary cell",
+    (
+        "transformer_protection",
+        ("primary and secondary", "secondary", 0.0),
+    ): "167 % below 9 A: one copy; the second describes only the 125 % secondary cell",
 }
 
 # rows confirmed by a published formula rather than a printed copy
 FORMULA_ONLY = {
-    ("withstand_k", ("k-line-thermoplastic-big-al",)):
-        "IEC 60364-5-54 Annex A formula gives 68.0 (checked in tests/calc/test_withstand.py); "
-        "the one copy printing the cell reads 78, see DISAGREE",
+    (
+        "withstand_k",
+        ("k-line-thermoplastic-big-al",),
+    ): "IEC 60364-5-54 Annex A formula gives 68.0 (checked in tests/calc/test_withstand.py); "
+    "the one copy printing the cell reads 78, see DISAGREE",
 }
 
 
@@ -212,12 +216,17 @@ def test_shipped_cells_match_published_copy(stem, table, head, rows):
             same = _dash_ok(table, key, col, have)
         else:
             a, b = _norm(pub), _norm(have)
-            same = math.isclose(a, b, rel_tol=1e-9) if isinstance(a, float) and isinstance(
-                b, float) else a == b
+            same = (
+                math.isclose(a, b, rel_tol=1e-9)
+                if isinstance(a, float) and isinstance(b, float)
+                else a == b
+            )
         known = (stem, key, col) in DISAGREE
         if not same and not known:
-            wrong.append(f"{table} {key} {col}: published {pub!r} ({head['document'][:70]}, "
-                         f"{head['edition'][:40]}) but shipped {have!r}")
+            wrong.append(
+                f"{table} {key} {col}: published {pub!r} ({head['document'][:70]}, "
+                f"{head['edition'][:40]}) but shipped {have!r}"
+            )
         if same and known:
             stale.append(f"{stem} {key} {col} is listed in DISAGREE but now agrees")
     assert not wrong, "\n".join(wrong)
@@ -255,10 +264,29 @@ def test_published_rows_are_confirmed(table):
             confirmations.setdefault(key, {}).setdefault(col, 0)
             confirmations[key][col] += 1
     need = 2 if table in LOAD_BEARING else 1
-    value_cols = [c for c in df.columns if c not in keys and c not in (
-        "row_confidence", "rule_id", "clause", "note", "insulation", "conductor_role",
-        "material", "initial_c", "final_c", "max_area_mm2", "current_to_a", "height_to_mm",
-        "ambient_to_c", "arrangement", "winding")]
+    value_cols = [
+        c
+        for c in df.columns
+        if c not in keys
+        and c
+        not in (
+            "row_confidence",
+            "rule_id",
+            "clause",
+            "note",
+            "insulation",
+            "conductor_role",
+            "material",
+            "initial_c",
+            "final_c",
+            "max_area_mm2",
+            "current_to_a",
+            "height_to_mm",
+            "ambient_to_c",
+            "arrangement",
+            "winding",
+        )
+    ]
     problems = []
     for rec in df.to_dict("records"):
         key = tuple(_norm(rec[k]) for k in keys)
@@ -272,8 +300,11 @@ def test_published_rows_are_confirmed(table):
         got = confirmations.get(key, {})
         for col in value_cols:
             n = got.get(col, 0)
-            if table == "conductor_impedance_table9" and key == ("14 AWG",) and col.startswith(
-                    "al_"):
+            if (
+                table == "conductor_impedance_table9"
+                and key == ("14 AWG",)
+                and col.startswith("al_")
+            ):
                 continue  # Table 9 prints no 14 AWG aluminum (see _dash_ok)
             floor = 1 if (table, key) in ONE_COPY else need
             if (table, key) in FORMULA_ONLY:
@@ -289,10 +320,14 @@ def test_unconfirmed_rows_are_the_ones_listed():
     left = {}
     for table in ("ampacity_raceway", "ampacity_free_air"):
         df = read_table_file(shipped_tables_dir() / f"{table}.csv", table, "shipped").data
-        left[table] = {(r["size"], r["material"]) for r in df.to_dict("records")
-                       if r["row_confidence"] == memory}
+        left[table] = {
+            (r["size"], r["material"])
+            for r in df.to_dict("records")
+            if r["row_confidence"] == memory
+        }
     big = ("1000 kcmil", "1250 kcmil", "1500 kcmil", "1750 kcmil", "2000 kcmil")
     assert left["ampacity_raceway"] == {(s, m) for s in big for m in ("cu", "al")}
     assert ("3 AWG", "cu") in left["ampacity_free_air"]
-    assert not any(m == "cu" and s.endswith("AWG") and s != "3 AWG"
-                   for s, m in left["ampacity_free_air"])
+    assert not any(
+        m == "cu" and s.endswith("AWG") and s != "3 AWG" for s, m in left["ampacity_free_air"]
+    )

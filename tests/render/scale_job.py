@@ -60,10 +60,19 @@ def write_scale_job(folder: Path, panels: int = 100, per_transformer: int = 10) 
         t, k = divmod(p - 1, per_transformer)
         if k == 0:
             parts.append(TRANSFORMER.format(t=t + 1))
-            frm, size, ground, device, rating, load = f"T{t + 1}", "350 kcmil", "3 AWG", 400, 400, 30
+            frm, size, ground, device, rating, load = (
+                f"T{t + 1}",
+                "350 kcmil",
+                "3 AWG",
+                400,
+                400,
+                30,
+            )
         else:
             frm, size, ground, device, rating, load = f"P{p - k}", "1 AWG", "8 AWG", 100, 100, 8
-        parts.append(RUN.format(p=p, frm=frm, length=20 + 5 * k, size=size, ground=ground, device=device))
+        parts.append(
+            RUN.format(p=p, frm=frm, length=20 + 5 * k, size=size, ground=ground, device=device)
+        )
         parts.append(PANEL.format(p=p, rating=rating, device=device, load=load))
     path = folder / "job.toml"
     path.write_text("".join(parts), encoding="utf-8")

@@ -73,7 +73,7 @@ def test_edited_page_is_named_by_rerun(tmp_path, request):
     node = next(n for n in forged.nodes if n.kind == "panel" and "fault_max_a" in n.values)
     node.values["fault_max_a"] += 3000.0  # as if 6,009 A had been edited to 9,009 A
     data, _, _ = render_pdf(forged)
-    files = input_attachments(job) + [(RESULTS_NAME, render_json(results).encode("utf-8"))]
+    files = [*input_attachments(job), (RESULTS_NAME, render_json(results).encode("utf-8"))]
     pdf = tmp_path / "edited.pdf"
     pdf.write_bytes(attach(data, files))
     r = _run("rerun", pdf)

@@ -33,11 +33,14 @@ def test_drawings_of_a_large_feed_fit_a_page(tmp_path):
     assert len(profiles) > 1
     assert all(d.height < FRAME_H for d in [*charts, *sheets, *profiles])
     # each node with a voltage is labelled in some profile part, each part legibly few
-    labelled = [{s.text.split()[0] for s in d.contents if getattr(s, "fontSize", 0) == 6.5}
-                for d in profiles]
+    labelled = [
+        {s.text.split()[0] for s in d.contents if getattr(s, "fontSize", 0) == 6.5}
+        for d in profiles
+    ]
     assert all(len(ids) <= 16 for ids in labelled)
     assert set().union(*labelled) == {
-        n.id for n in results.nodes if n.values.get("voltage_pct") is not None}
+        n.id for n in results.nodes if n.values.get("voltage_pct") is not None
+    }
     # every node with a figure is in exactly one chart part, on one shared scale
     rows = sum(len([s for s in c.contents if getattr(s, "fontSize", 0) == 7.5]) for c in charts)
     with_figures = [n for n in results.nodes if {"fault_max_a", "fault_min_a"} & set(n.values)]

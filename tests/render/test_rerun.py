@@ -52,8 +52,9 @@ def test_round_trip_matches(maple_pdf, tmp_path, request):
     assert differences == []
     assert compared == len(fresh["findings"]) + sum(
         isinstance(v, (int, float)) and not isinstance(v, bool)
-        for node in fresh["nodes"] for v in node.values()) + sum(
-        "fault_duty_case" in node for node in fresh["nodes"])  # the governing case, as text
+        for node in fresh["nodes"]
+        for v in node.values()
+    ) + sum("fault_duty_case" in node for node in fresh["nodes"])  # the governing case, as text
     assert f"all {compared} figures match" in r.stdout
 
 

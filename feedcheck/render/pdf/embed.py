@@ -162,8 +162,7 @@ def _attachment_entries(reader, pdf_path: Path) -> dict[str, object]:
             entries[name] = entry
             if len(entries) > MAX_ATTACHMENTS:
                 raise NotAReport(
-                    f"{pdf_path}: more than {MAX_ATTACHMENTS} attachments; "
-                    "not a feedcheck report"
+                    f"{pdf_path}: more than {MAX_ATTACHMENTS} attachments; not a feedcheck report"
                 )
     return entries
 
@@ -234,9 +233,7 @@ def read_report(pdf_path: str | Path) -> Embedded:
         budget = _Budget(pdf_path, _attachment_entries(reader, pdf_path))
         raw_manifest, raw_results = budget.read(MANIFEST_NAME), budget.read(RESULTS_NAME)
         if raw_manifest is None or raw_results is None:
-            raise NotAReport(
-                f"{pdf_path}: not a feedcheck report (no embedded inputs and results)"
-            )
+            raise NotAReport(f"{pdf_path}: not a feedcheck report (no embedded inputs and results)")
         manifest = _json(raw_manifest, pdf_path, "manifest")
         job, schedules = _manifest_names(manifest, pdf_path)
         results = _json(raw_results, pdf_path, "results")
@@ -250,8 +247,15 @@ def read_report(pdf_path: str | Path) -> Embedded:
         return Embedded(job, schedules, files, results, manifest)
     except NotAReport:
         raise
-    except (OSError, PyPdfError, ValueError, KeyError, TypeError, AttributeError,
-            RecursionError) as exc:
+    except (
+        OSError,
+        PyPdfError,
+        ValueError,
+        KeyError,
+        TypeError,
+        AttributeError,
+        RecursionError,
+    ) as exc:
         raise NotAReport(f"{pdf_path}: cannot read it as a PDF ({exc})") from exc
     finally:
         log.setLevel(level)
@@ -300,9 +304,18 @@ def _shape_problem(results) -> str | None:
 
 
 def _kind(v) -> str:
-    return "missing" if v is None else {
-        dict: "an object", list: "a list", str: "a text", bool: "true/false",
-        int: "a number", float: "a number"}.get(type(v), type(v).__name__)
+    return (
+        "missing"
+        if v is None
+        else {
+            dict: "an object",
+            list: "a list",
+            str: "a text",
+            bool: "true/false",
+            int: "a number",
+            float: "a number",
+        }.get(type(v), type(v).__name__)
+    )
 
 
 def check_results_shape(results, pdf_path: Path | str = "report") -> None:
