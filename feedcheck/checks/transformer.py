@@ -4,6 +4,7 @@ secondary-conductor arrangement, grounding electrode conductor and bonding jumpe
 from __future__ import annotations
 
 import math
+from dataclasses import replace
 
 from ..calc import transformer as tk
 from ..calc.sizes import SIZES
@@ -81,6 +82,9 @@ def check_transformer(ctx: Context, t: Transformer) -> None:
         if device is None:
             continue
         lim = tk.protection_limit(rated, winding, arrangement, rules, ratings)
+        if not math.isfinite(lim.max_device_a):
+            # no standard rating above the computed figure: the figure itself is the limit
+            lim = replace(lim, max_device_a=lim.computed_a)
         how = (
             "next standard rating up permitted"
             if lim.next_size_up

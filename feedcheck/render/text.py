@@ -66,7 +66,8 @@ def _finding_lines(f) -> str:
         if f.limit is not None:
             fig += f" vs {number(f.limit, TERMINAL)}"
         fig += f" {f.unit}".rstrip()
-    head = f"{status_word(f.status):4}  {f.subject}  {f.check}: {fig}  [{f.rule_id}]\n"
+    what = f"{f.check}: {fig}" if fig else f.check
+    head = f"{status_word(f.status):4}  {f.subject}  {what}  [{f.rule_id}]\n"
     note = textwrap.fill(f.note, width=96, initial_indent="      ", subsequent_indent="      ")
     return head + note + "\n"
 
