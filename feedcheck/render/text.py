@@ -80,6 +80,8 @@ def render_text(results: Results, show_all: bool = False) -> str:
     out.write("\n".join(_node_table(results)) + "\n\n")
     for pid, sr in results.schedules.items():
         out.write(_schedule_line(results, pid, sr.totals) + "\n")
+        for notice in getattr(sr, "notices", None) or ():
+            out.write(f"  notice: {notice}\n")
     if results.schedules:
         out.write("\n")
     for f in results.sorted_findings():

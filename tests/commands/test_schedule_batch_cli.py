@@ -164,3 +164,28 @@ def test_job_panel_columns_key(tmp_path):
     )
     r = _run("check", job)
     assert r.exit_code == 2 and ".columns" in r.stderr and "HEADER=COLUMN" in r.stderr
+
+
+def test_unknown_column_named_by_check_and_in_the_report(tmp_path):
+    """An unknown column is named in the `check` terminal summary and in the PDF report
+    (issue: no column dropped in silence)."""
+    from pypdf import PdfReader
+
+    from tests.badinput import GOOD as JOB
+
+    sched = tmp_path / "pb.csv"
+    sched.write_text(
+        GOOD.replace("Length [ft]\n", "Length [ft],Ins\n")
+        .replace(",60\n", ",60,90\n")
+        .replace(",40\n", ",40,90\n")
+    )
+    job = tmp_path / "job.toml"
+    job.write_text(JOB.replace('load = "20 kVA"', 'load = "20 kVA"\nschedule = "pb.csv"'))
+    r = _run("check", job)
+    assert r.exit_code in (0, 1), r.output
+    assert "notice:" in r.output and "'Ins'" in r.output
+    pdf = tmp_path / "r.pdf"
+    r = _run("report", job, "-o", pdf)
+    assert r.exit_code in (0, 1), r.output
+    text = " ".join(page.extract_text() for page in PdfReader(str(pdf)).pages)
+    assert "Reading notices" in text and "Ins" in text

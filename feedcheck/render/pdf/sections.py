@@ -422,6 +422,10 @@ def schedule_section(panel_id, schedule, heading, display: Display = DEFAULT_DIS
         t = grid_table(rows, [200, 110, 60], False)
         t.hAlign = "LEFT"
         out.append(t)
+    notices = list(getattr(schedule, "notices", None) or ())
+    if notices:  # what the reader skipped or did not understand: never dropped in silence
+        out.append(p("Reading notices", "h2"))
+        out.extend(p(f"• {n}", "body") for n in notices)
     return out
 
 
