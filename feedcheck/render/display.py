@@ -312,6 +312,7 @@ FIGURES: dict[str, Figure] = {
 TERMINAL_FIGURES = (
     "load_va",
     "fault_max_a",
+    "fault_duty_a",
     "fault_min_a",
     "fault_lg_min_a",
     "x_r",
