@@ -1,6 +1,6 @@
-"""The issue-12 tables against transcriptions of the published copies that were read.
+"""The issue-12 tables against copies of the published copies that were read.
 
-Each transcription in ``tests/reference/tables/<table>__<source>.csv`` names its document
+Each copy in ``tests/reference/tables/<table>__<source>.csv`` names its document
 at the top; the shipped table is compared with it cell by cell.
 """
 
@@ -39,7 +39,7 @@ def _area(text: str) -> float:
 
 
 def test_supply_side_bonding_jumper_matches_table_250_102_c_1():
-    """NFPA 70-2023 Table 250.102(C)(1), cell by cell (transcription names the copies)."""
+    """NFPA 70-2023 Table 250.102(C)(1), cell by cell (copy names the copies)."""
     pub = _read("supply_side_bonding_jumper__nfpa70_2023.csv")
     ours = load_table("supply_side_bonding_jumper").data
     assert len(pub) == len(ours)

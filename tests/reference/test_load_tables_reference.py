@@ -1,6 +1,6 @@
-"""The motor, device and lighting tables against transcribed published copies, cell by cell.
+"""The motor, device and lighting tables against copied published copies, cell by cell.
 
-Each file in tests/reference/tables/ is a transcription of one published copy, with the
+Each file in tests/reference/tables/ is a copy of one published copy, with the
 document named in its first line. A shipped cell must equal every copy that prints it,
 except the differences listed here with their reason; every shipped motor current must
 be confirmed by at least two copies; a lighting row no copy confirms must say "from
@@ -111,7 +111,7 @@ def test_motor_currents_fall_as_voltage_rises():
 
 def test_device_max_table_matches_copy():
     shipped = load_table("motor_branch_device_max").data.set_index("motor_type")
-    # NFPA 70-2011 Table 430.52, as transcribed
+    # NFPA 70-2011 Table 430.52, as copied
     copy = _copy("motor_branch_device_max__nec2011-copy").set_index("motor_type")
     assert sorted(shipped.index) == sorted(copy.index)
     for col in copy.columns:

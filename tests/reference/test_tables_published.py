@@ -1,16 +1,16 @@
-"""The shipped tables against the published copies transcribed in ``tests/reference/tables``.
+"""The shipped tables against the published copies copied in ``tests/reference/tables``.
 
 Each file ``tests/reference/tables/<table>__<source>.csv`` is one published copy of a code
-table (code-book scan, code reprint, handbook or maker's engineering data), transcribed
+table (code-book scan, code reprint, handbook or maker's engineering data), copied
 cell by cell; its ``#`` header names the document, edition, table/page and the address it
 was read at. A blank cell is one the copy does not show; "—" is a dash printed in the copy.
 
 The tests hold three things:
 
-1. every cell of every copy equals the shipped cell, or is a recorded disagreement
+1. every cell of every copy equals the shipped cell, or is a listed disagreement
    (``DISAGREE``, with the reason and how it was settled) — so an accidental edit of a
    shipped table fails naming the published cell it departs from;
-2. two copies of the same table agree with each other, except in recorded disagreements;
+2. two copies of the same table agree with each other, except in listed disagreements;
 3. a row the shipped table marks ``published`` is confirmed, cell by cell, by the copies —
    by two of them for the load-bearing tables (Chapter 9 Table 9, Tables 310.16, 250.122,
    250.66, 450.3(B)), except rows listed in ``ONE_COPY`` — and every ``row_confidence`` is
@@ -30,7 +30,7 @@ from feedcheck.tables import CONFIDENCE_LEVELS, read_table_file, shipped_tables_
 
 REF = Path(__file__).parent / "tables"
 
-# table -> key columns shared by the shipped table and its transcriptions
+# table -> key columns shared by the shipped table and its copies
 KEYS = {
     "conductor_impedance_table9": ("size",),
     "ampacity_raceway": ("size", "material"),
@@ -202,7 +202,7 @@ def test_every_table_has_a_published_copy():
 def test_copy_names_its_source(stem, table, head, rows):
     for field in ("document", "edition", "table", "address"):
         assert head.get(field), f"{stem}: header '# {field}:' missing"
-    assert rows, f"{stem}: no transcribed rows"
+    assert rows, f"{stem}: no copied rows"
 
 
 @pytest.mark.parametrize("stem,table,head,rows", COPIES, ids=[c[0] for c in COPIES])
