@@ -40,7 +40,6 @@ OVER_BUDGET = {
     "checks/vdrop.py:check_voltage_drop",
     "checks/vdrop.py:_run_drop",
     "commands/calc_conductor.py:size_command",
-    "commands/calc_fault.py:compute",
     "commands/calc_fault.py:fault_command",
     "commands/calc_vdrop.py:voltage_drop_command",
     "commands/schedule.py:schedule_command",

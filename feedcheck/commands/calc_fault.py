@@ -176,54 +176,22 @@ def one_transformer_job(
     )
 
 
-def compute(
-    kva,
-    primary,
-    secondary,
-    z,
-    x_r,
-    source_fault,
-    source_x_r,
-    tolerance_pct,
-    factors,
-    length_m,
-    size,
-    material,
-    raceway,
-    sets,
-    ground,
-    motor_flc,
-    instantaneous_a=None,
-    device_a=None,
-):
+def compute(*args, **kwargs):
     """Every figure the command prints, as a dict (no printing), read from the results of
-    the same checks as `feedcheck check` on :func:`one_transformer_job`."""
+    the same checks as `feedcheck check` on :func:`one_transformer_job` (same arguments)."""
+    import inspect
+
     from ..calc import fault as F
     from ..calc.transformer import rated_current_a
     from ..checks import check_job
     from ..rulebook import current_rulebook
 
+    given = inspect.signature(one_transformer_job).bind(*args, **kwargs).arguments
+    kva, secondary, factors = given["kva"], given["secondary"], given["factors"]
+    length_m, motor_flc = given["length_m"], given["motor_flc"]
+    size, material, raceway = given["size"], given["material"], given["raceway"]
     book = current_rulebook()
-    job = one_transformer_job(
-        kva,
-        primary,
-        secondary,
-        z,
-        x_r,
-        source_fault,
-        source_x_r,
-        tolerance_pct,
-        factors,
-        length_m,
-        size,
-        material,
-        raceway,
-        sets,
-        ground,
-        motor_flc,
-        instantaneous_a,
-        device_a,
-    )
+    job = one_transformer_job(*args, **kwargs)
     res = check_job(job, rules=book)
     nodes = {n.id: n.values for n in res.nodes}
     split = secondary.kind in ("split", "single")
