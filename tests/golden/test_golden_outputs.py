@@ -8,11 +8,17 @@ intended change of output is recorded again with
     FEEDCHECK_UPDATE_GOLDEN=1 python -m pytest tests/golden
 
 and the commit that does so says which figures changed and why.
+
+Numbers are held to 1 part in 10^9, everything else exactly: the last binary digit of a
+float may differ between machines (numpy picks its vectorised routines by processor), and
+such a difference is no change of output a person could read.
 """
 
 from __future__ import annotations
 
 import gzip
+import json
+import math
 import os
 from pathlib import Path
 
@@ -49,4 +55,42 @@ def test_check_json_is_unchanged(case: Path, monkeypatch):
     expected = _expected_path(case)
     if os.environ.get("FEEDCHECK_UPDATE_GOLDEN"):
         _write(expected, result.stdout)
-    assert result.stdout == _read(expected)
+    assert _differences(json.loads(result.stdout), json.loads(_read(expected))) == []
+
+
+def _differences(got, want, where: str = "$") -> list[str]:
+    """Paths where ``got`` differs from ``want`` (floats to 1 part in 10^9)."""
+    if isinstance(want, dict) and isinstance(got, dict):
+        if list(got) != list(want):
+            return [f"{where}: keys {list(got)} != {list(want)}"]
+        return [d for k in want for d in _differences(got[k], want[k], f"{where}.{k}")]
+    if isinstance(want, list) and isinstance(got, list):
+        if len(got) != len(want):
+            return [f"{where}: {len(got)} items != {len(want)}"]
+        return [
+            d
+            for i, (item, wanted) in enumerate(zip(got, want, strict=True))
+            for d in _differences(item, wanted, f"{where}[{i}]")
+        ]
+    both_float = isinstance(got, float) and isinstance(want, float)
+    if both_float and math.isclose(got, want, rel_tol=1e-9, abs_tol=1e-12):
+        return []
+    return [] if type(got) is type(want) and got == want else [f"{where}: {got!r} != {want!r}"]
+
+
+def test_differences_tells_a_changed_figure_from_a_last_digit():
+    want = {"node": [{"fault_a": 6009.123456789, "status": "ok", "circuits": 20}]}
+    assert (
+        _differences(
+            {"node": [{"fault_a": 6009.123456789001, "status": "ok", "circuits": 20}]}, want
+        )
+        == []
+    )
+    assert _differences({"node": [{"fault_a": 9009.1, "status": "ok", "circuits": 20}]}, want)
+    assert _differences(
+        {"node": [{"fault_a": 6009.123456789, "status": "fail", "circuits": 20}]}, want
+    )
+    assert _differences(
+        {"node": [{"fault_a": 6009.123456789, "status": "ok", "circuits": 20.0}]}, want
+    )
+    assert _differences({"node": []}, want)
