@@ -41,9 +41,36 @@ from .calc.selection import SizingData
 from .calc.sizes import SIZES, parse_size
 from .calc.withstand import KSpec, WithstandData
 from .errors import ProblemList
-from .tables import Table, confidence_level
+from .tables import Table, confidence_level, is_confirmed
 
 Row = Mapping[str, Any]
+
+
+@dataclass(frozen=True)
+class RowUse:
+    """One table row a figure is computed from, with the row's confidence.
+
+    ``row`` names the row as a reader finds it (its key values or rule id); ``cite`` is
+    the published table it reproduces (the table's optional ``# cite:`` header)."""
+
+    table: str
+    row: str
+    confidence: str
+    cite: str = ""
+
+    @property
+    def confirmed(self) -> bool:
+        return is_confirmed(self.confidence)
+
+    def note(self) -> str:
+        """The note a finding computed from this row carries when it is unconfirmed.
+
+        >>> RowUse("ampacity_raceway", "1250 kcmil cu", "from memory — verify",
+        ...        "NFPA 70 Table 310.16").note()
+        'uses an unconfirmed value from NFPA 70 Table 310.16 (ampacity_raceway) row 1250 kcmil cu'
+        """
+        where = f"{self.cite} ({self.table})" if self.cite else self.table
+        return f"uses an unconfirmed value from {where} row {self.row}"
 
 
 @dataclass(frozen=True)
@@ -163,6 +190,7 @@ class RuleBook:
     tables_dir: Path | None
     _rules: Mapping[str, RuleRow]
     _rows: dict = field(default_factory=dict, compare=False, repr=False)
+    _index: dict = field(default_factory=dict, compare=False, repr=False)
 
     @property
     def sizing(self) -> SizingData:
@@ -190,6 +218,74 @@ class RuleBook:
     def table(self, name: str) -> Table:
         return self.tables[name]
 
+    def row_use(self, table: str, **match: str) -> RowUse:
+        """The row of ``table`` whose columns hold ``match`` (compared as text, a
+        ``size`` in its canonical spelling), as a :class:`RowUse` with its confidence.
+
+        >>> book.row_use("ampacity_raceway", size="4/0", material="cu").row
+        '4/0 AWG cu'
+        """
+        t, cols = self.tables[table], tuple(match)
+        index = self._index.get((table, cols))
+        if index is None:
+            columns = [[_canon(c, v) for v in t.data[c]] for c in cols]
+            index = {}
+            for i, key in enumerate(zip(*columns, strict=True)):
+                index.setdefault(key, i)
+            self._index[(table, cols)] = index
+        key = tuple(_canon(c, v) for c, v in match.items())
+        if key not in index:
+            raise KeyError(f"{table}: no row with {dict(zip(cols, key, strict=True))}")
+        return RowUse(table, " ".join(key), t.row_confidence[index[key]], t.meta.get("cite", ""))
+
+    def rule_use(self, rule_id: str) -> RowUse | None:
+        """The rule row ``rule_id`` as a :class:`RowUse` (None: no table has this id)."""
+        r = self._rules.get(rule_id)
+        if r is None:
+            return None
+        return RowUse(r.table, r.rule_id, r.confidence, self.tables[r.table].meta.get("cite", ""))
+
+    def impedance_uses(self, size: str) -> tuple[RowUse, ...]:
+        """The row a conductor impedance of ``size`` reads: its row of Chapter 9 Table 9,
+        or, for a size the table does not list (computed method), the row of the
+        insulation thickness table that sets its spacing."""
+        want = parse_size(size)
+        t9 = self.tables["conductor_impedance_table9"]
+        if any(_canon("size", v) == want.name for v in t9.data["size"]):
+            return (self.row_use(t9.name, size=want.name),)
+        ins = self.tables["insulation_thickness"]
+        up_to = ins.data["up_to_mm2"].to_numpy(float)
+        i = min(int(np.searchsorted(up_to, want.area_mm2 * (1 - 1e-9))), len(up_to) - 1)
+        label = f"up to {up_to[i]:g} mm2 (for {want.name})"
+        return (RowUse(ins.name, label, ins.row_confidence[i], ins.meta.get("cite", "")),)
+
+    def ampacity_uses(self, size: str, material: str, free_air: bool) -> tuple[RowUse, ...]:
+        """The rows an ampacity figure of ``size`` reads: Table 310.16 (raceway; also its
+        termination column) and, in free air, Table 310.17; a size a table does not list
+        (metric, interpolated) reads the two rows around it."""
+        names = ("ampacity_raceway", "ampacity_free_air") if free_air else ("ampacity_raceway",)
+        out = []
+        for name in names:
+            sizes = self._index.get((name, "sizes", material))
+            if sizes is None:
+                df = self.tables[name].data
+                sizes = [
+                    parse_size(str(s))
+                    for s, m in zip(df["size"], df["material"], strict=True)
+                    if m == material
+                ]
+                self._index[(name, "sizes", material)] = sizes
+            want = parse_size(size)
+            if any(s.name == want.name for s in sizes):
+                near = [want]
+            else:
+                below = [s for s in sizes if s.area_mm2 < want.area_mm2]
+                above = [s for s in sizes if s.area_mm2 > want.area_mm2]
+                near = [max(below, key=lambda s: s.area_mm2)] if below else []
+                near += [min(above, key=lambda s: s.area_mm2)] if above else []
+            out += [self.row_use(name, size=s.name, material=material) for s in near]
+        return tuple(out)
+
     def provenance(self) -> list[dict[str, Any]]:
         """One entry per table for results and reports: name, title, source, edition,
         confidence (header), counts by row confidence, origin and SHA-256."""
@@ -213,6 +309,17 @@ class RuleBook:
             for level, n in t.confidence_counts().items():
                 out[level] = out.get(level, 0) + n
         return out
+
+
+def _canon(column: str, value: Any) -> str:
+    """A cell as text for matching rows; a ``size`` cell in its canonical spelling."""
+    text = str(value).strip()
+    if column == "size":
+        try:
+            return parse_size(text).name
+        except ValueError:
+            return text
+    return text
 
 
 def _records(t: Table) -> tuple[Row, ...]:
@@ -472,6 +579,7 @@ def default_rulebook() -> RuleBook:
 
 __all__ = [
     "FaultAssumptions",
+    "RowUse",
     "RuleBook",
     "RuleRow",
     "TransformerXR",
