@@ -17,7 +17,7 @@ user's table is honoured (no value of a table is repeated in the code).
 from __future__ import annotations
 
 from collections.abc import Mapping
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 from types import MappingProxyType
 from typing import Any
@@ -41,36 +41,11 @@ from .calc.selection import SizingData
 from .calc.sizes import SIZES, parse_size
 from .calc.withstand import KSpec, WithstandData
 from .errors import ProblemList
-from .tables import Table, confidence_level, is_confirmed
+from .findings import Finding
+from .rowuse import RowUse, canon_cell
+from .tables import Table, confidence_level
 
 Row = Mapping[str, Any]
-
-
-@dataclass(frozen=True)
-class RowUse:
-    """One table row a figure is computed from, with the row's confidence.
-
-    ``row`` names the row as a reader finds it (its key values or rule id); ``cite`` is
-    the published table it reproduces (the table's optional ``# cite:`` header)."""
-
-    table: str
-    row: str
-    confidence: str
-    cite: str = ""
-
-    @property
-    def confirmed(self) -> bool:
-        return is_confirmed(self.confidence)
-
-    def note(self) -> str:
-        """The note a finding computed from this row carries when it is unconfirmed.
-
-        >>> RowUse("ampacity_raceway", "1250 kcmil cu", "from memory — verify",
-        ...        "NFPA 70 Table 310.16").note()
-        'uses an unconfirmed value from NFPA 70 Table 310.16 (ampacity_raceway) row 1250 kcmil cu'
-        """
-        where = f"{self.cite} ({self.table})" if self.cite else self.table
-        return f"uses an unconfirmed value from {where} row {self.row}"
 
 
 @dataclass(frozen=True)
@@ -228,12 +203,12 @@ class RuleBook:
         t, cols = self.tables[table], tuple(match)
         index = self._index.get((table, cols))
         if index is None:
-            columns = [[_canon(c, v) for v in t.data[c]] for c in cols]
+            columns = [[canon_cell(c, v) for v in t.data[c]] for c in cols]
             index = {}
             for i, key in enumerate(zip(*columns, strict=True)):
                 index.setdefault(key, i)
             self._index[(table, cols)] = index
-        key = tuple(_canon(c, v) for c, v in match.items())
+        key = tuple(canon_cell(c, v) for c, v in match.items())
         if key not in index:
             raise KeyError(f"{table}: no row with {dict(zip(cols, key, strict=True))}")
         return RowUse(table, " ".join(key), t.row_confidence[index[key]], t.meta.get("cite", ""))
@@ -251,13 +226,33 @@ class RuleBook:
         insulation thickness table that sets its spacing."""
         want = parse_size(size)
         t9 = self.tables["conductor_impedance_table9"]
-        if any(_canon("size", v) == want.name for v in t9.data["size"]):
+        if any(canon_cell("size", v) == want.name for v in t9.data["size"]):
             return (self.row_use(t9.name, size=want.name),)
         ins = self.tables["insulation_thickness"]
         up_to = ins.data["up_to_mm2"].to_numpy(float)
         i = min(int(np.searchsorted(up_to, want.area_mm2 * (1 - 1e-9))), len(up_to) - 1)
         label = f"up to {up_to[i]:g} mm2 (for {want.name})"
         return (RowUse(ins.name, label, ins.row_confidence[i], ins.meta.get("cite", "")),)
+
+    def with_cited_notes(self, findings: list[Finding]) -> list[Finding]:
+        """``findings`` with the note of each unconfirmed rule row they cite, for findings
+        made outside a check run's context (per-circuit schedule findings); the list
+        itself when no rule row is unconfirmed."""
+        flagged = self._index.get("unconfirmed rules")
+        if flagged is None:
+            flagged = self._index["unconfirmed rules"] = {
+                rid: use.note()
+                for rid in self._rules
+                if not (use := self.rule_use(rid)).confirmed  # type: ignore[union-attr]
+            }
+        if not flagged:
+            return findings
+        return [
+            replace(f, unconfirmed=tuple(dict.fromkeys((*f.unconfirmed, flagged[f.rule_id]))))
+            if f.rule_id in flagged
+            else f
+            for f in findings
+        ]
 
     def ampacity_uses(self, size: str, material: str, free_air: bool) -> tuple[RowUse, ...]:
         """The rows an ampacity figure of ``size`` reads: Table 310.16 (raceway; also its
@@ -309,17 +304,6 @@ class RuleBook:
             for level, n in t.confidence_counts().items():
                 out[level] = out.get(level, 0) + n
         return out
-
-
-def _canon(column: str, value: Any) -> str:
-    """A cell as text for matching rows; a ``size`` cell in its canonical spelling."""
-    text = str(value).strip()
-    if column == "size":
-        try:
-            return parse_size(text).name
-        except ValueError:
-            return text
-    return text
 
 
 def _records(t: Table) -> tuple[Row, ...]:

@@ -104,6 +104,25 @@ def test_rule_row_cited_by_a_finding_is_flagged_without_naming_it(write_job, sam
     assert any("row panel-interrupting" in u for u in f["unconfirmed"])
 
 
+def test_schedule_circuit_findings_name_their_unconfirmed_rule_rows(samples, tmp_path):
+    # per-circuit findings are made outside the check context: the runner adds the notes
+    # of the rule rows they cite (schedule_rules.csv made unconfirmed in a user's copy)
+    shipped = _json([str(samples / "cedar_annex_review.toml")])
+    g = next(f for f in shipped["findings"] if f["rule_id"] == "sched-breaker-load")
+    assert "unconfirmed" not in g
+    folder = tmp_path / "tables"
+    folder.mkdir()
+    src = (shipped_tables_dir() / "schedule_rules.csv").read_text(encoding="utf-8")
+    (folder / "schedule_rules.csv").write_text(
+        re.sub(r"(?m)^# confidence:.*$", f"# confidence: {UNCONFIRMED}", src), encoding="utf-8"
+    )
+    data = _json(["--tables", str(folder), str(samples / "cedar_annex_review.toml")])
+    f = next(f for f in data["findings"] if f["rule_id"] == "sched-breaker-load")
+    assert f["unconfirmed"] == [
+        "uses an unconfirmed value from schedule_rules row sched-breaker-load"
+    ]
+
+
 def test_computed_impedance_rows_flag_the_fault_and_drop_figures_downstream(write_job, samples):
     # 1250 kcmil is beyond Chapter 9 Table 9: its impedance is computed with the insulation
     # thickness table, whose rows are unconfirmed; every fault and drop figure at and below
