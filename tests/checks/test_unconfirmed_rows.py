@@ -44,6 +44,17 @@ def _user_table(tmp_path, name: str, mark) -> str:
     return str(folder)
 
 
+def _header_unconfirmed(tmp_path, name: str) -> str:
+    """A user's copy of a shipped table (no row_confidence column) whose header says
+    'from memory — verify'; returns the folder."""
+    folder = tmp_path / "tables"
+    folder.mkdir(exist_ok=True)
+    src = (shipped_tables_dir() / f"{name}.csv").read_text(encoding="utf-8")
+    text = re.sub(r"(?m)^# confidence:.*$", f"# confidence: {UNCONFIRMED}", src)
+    (folder / f"{name}.csv").write_text(text, encoding="utf-8")
+    return str(folder)
+
+
 def _check(args, fmt: str = "text"):
     """``feedcheck [--tables DIR] check --format FMT JOB`` (``args``: options then job)."""
     pre = args[:2] if args[0] == "--tables" else []
@@ -93,13 +104,8 @@ def test_user_table_making_a_row_unconfirmed_flags_the_run_that_reads_it(samples
 def test_rule_row_cited_by_a_finding_is_flagged_without_naming_it(write_job, samples, tmp_path):
     # a finding citing an unconfirmed rule row (here the panel-interrupting check rule of
     # check_rules.csv in a user's copy) carries the note: the cited row is always read
-    folder = tmp_path / "tables"
-    folder.mkdir()
-    src = (shipped_tables_dir() / "check_rules.csv").read_text(encoding="utf-8")
-    (folder / "check_rules.csv").write_text(
-        re.sub(r"(?m)^# confidence:.*$", f"# confidence: {UNCONFIRMED}", src), encoding="utf-8"
-    )
-    data = _json(["--tables", str(folder), str(samples / "cedar_annex_review.toml")])
+    folder = _header_unconfirmed(tmp_path, "check_rules")
+    data = _json(["--tables", folder, str(samples / "cedar_annex_review.toml")])
     f = next(f for f in data["findings"] if f["rule_id"] == "panel-interrupting")
     assert any("row panel-interrupting" in u for u in f["unconfirmed"])
 
@@ -110,13 +116,8 @@ def test_schedule_circuit_findings_name_their_unconfirmed_rule_rows(samples, tmp
     shipped = _json([str(samples / "cedar_annex_review.toml")])
     g = next(f for f in shipped["findings"] if f["rule_id"] == "sched-breaker-load")
     assert "unconfirmed" not in g
-    folder = tmp_path / "tables"
-    folder.mkdir()
-    src = (shipped_tables_dir() / "schedule_rules.csv").read_text(encoding="utf-8")
-    (folder / "schedule_rules.csv").write_text(
-        re.sub(r"(?m)^# confidence:.*$", f"# confidence: {UNCONFIRMED}", src), encoding="utf-8"
-    )
-    data = _json(["--tables", str(folder), str(samples / "cedar_annex_review.toml")])
+    folder = _header_unconfirmed(tmp_path, "schedule_rules")
+    data = _json(["--tables", folder, str(samples / "cedar_annex_review.toml")])
     f = next(f for f in data["findings"] if f["rule_id"] == "sched-breaker-load")
     assert f["unconfirmed"] == [
         "uses an unconfirmed value from schedule_rules row sched-breaker-load"
