@@ -38,6 +38,9 @@ class Finding:
         Id of the rule row (from ``tables/``) or method that set the limit.
     note : str
         One sentence a reader can act on (what was compared; what would fix it).
+    unconfirmed : tuple of str
+        One note per table row the figure is computed from whose value is not confirmed
+        in a published copy ("uses an unconfirmed value from … row …"); empty for most.
     """
 
     subject: str
@@ -48,9 +51,15 @@ class Finding:
     status: Status
     rule_id: str
     note: str = ""
+    unconfirmed: tuple[str, ...] = ()
 
     def as_dict(self) -> dict:
+        """The finding as plain values; ``unconfirmed`` only when it has notes."""
         d = asdict(self)
+        if self.unconfirmed:
+            d["unconfirmed"] = list(self.unconfirmed)
+        else:
+            del d["unconfirmed"]
         for k in ("value", "limit"):
             v = d[k]
             if isinstance(v, float) and not math.isfinite(v):

@@ -174,6 +174,11 @@ class Results:
     def counts(self) -> dict[str, int]:
         return count_by_status(self.findings)
 
+    def unconfirmed(self) -> list[Finding]:
+        """Findings whose figure is computed from a table row not confirmed in a
+        published copy (each carries its notes), failures first."""
+        return [f for f in self.sorted_findings() if f.unconfirmed]
+
     def sorted_findings(self) -> list[Finding]:
         return sort_findings(self.findings)
 

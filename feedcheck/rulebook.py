@@ -17,7 +17,7 @@ user's table is honoured (no value of a table is repeated in the code).
 from __future__ import annotations
 
 from collections.abc import Mapping
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 from types import MappingProxyType
 from typing import Any
@@ -41,6 +41,8 @@ from .calc.selection import SizingData
 from .calc.sizes import SIZES, parse_size
 from .calc.withstand import KSpec, WithstandData
 from .errors import ProblemList
+from .findings import Finding
+from .rowuse import RowUse, canon_cell
 from .tables import Table, confidence_level
 
 Row = Mapping[str, Any]
@@ -163,6 +165,7 @@ class RuleBook:
     tables_dir: Path | None
     _rules: Mapping[str, RuleRow]
     _rows: dict = field(default_factory=dict, compare=False, repr=False)
+    _index: dict = field(default_factory=dict, compare=False, repr=False)
 
     @property
     def sizing(self) -> SizingData:
@@ -189,6 +192,94 @@ class RuleBook:
 
     def table(self, name: str) -> Table:
         return self.tables[name]
+
+    def row_use(self, table: str, **match: str) -> RowUse:
+        """The row of ``table`` whose columns hold ``match`` (compared as text, a
+        ``size`` in its canonical spelling), as a :class:`RowUse` with its confidence.
+
+        >>> book.row_use("ampacity_raceway", size="4/0", material="cu").row
+        '4/0 AWG cu'
+        """
+        t, cols = self.tables[table], tuple(match)
+        index = self._index.get((table, cols))
+        if index is None:
+            columns = [[canon_cell(c, v) for v in t.data[c]] for c in cols]
+            index = {}
+            for i, key in enumerate(zip(*columns, strict=True)):
+                index.setdefault(key, i)
+            self._index[(table, cols)] = index
+        key = tuple(canon_cell(c, v) for c, v in match.items())
+        if key not in index:
+            raise KeyError(f"{table}: no row with {dict(zip(cols, key, strict=True))}")
+        return RowUse(table, " ".join(key), t.row_confidence[index[key]], t.meta.get("cite", ""))
+
+    def rule_use(self, rule_id: str) -> RowUse | None:
+        """The rule row ``rule_id`` as a :class:`RowUse` (None: no table has this id)."""
+        r = self._rules.get(rule_id)
+        if r is None:
+            return None
+        return RowUse(r.table, r.rule_id, r.confidence, self.tables[r.table].meta.get("cite", ""))
+
+    def impedance_uses(self, size: str) -> tuple[RowUse, ...]:
+        """The row a conductor impedance of ``size`` reads: its row of Chapter 9 Table 9,
+        or, for a size the table does not list (computed method), the row of the
+        insulation thickness table that sets its spacing."""
+        want = parse_size(size)
+        t9 = self.tables["conductor_impedance_table9"]
+        if any(canon_cell("size", v) == want.name for v in t9.data["size"]):
+            return (self.row_use(t9.name, size=want.name),)
+        ins = self.tables["insulation_thickness"]
+        up_to = ins.data["up_to_mm2"].to_numpy(float)
+        i = min(int(np.searchsorted(up_to, want.area_mm2 * (1 - 1e-9))), len(up_to) - 1)
+        label = f"up to {up_to[i]:g} mm2 (for {want.name})"
+        return (RowUse(ins.name, label, ins.row_confidence[i], ins.meta.get("cite", "")),)
+
+    def with_cited_notes(self, findings: list[Finding]) -> list[Finding]:
+        """``findings`` with the note of each unconfirmed rule row they cite, for findings
+        made outside a check run's context (per-circuit schedule findings); the list
+        itself when no rule row is unconfirmed."""
+        flagged = self._index.get("unconfirmed rules")
+        if flagged is None:
+            flagged = self._index["unconfirmed rules"] = {
+                rid: use.note()
+                for rid in self._rules
+                if not (use := self.rule_use(rid)).confirmed  # type: ignore[union-attr]
+            }
+        if not flagged:
+            return findings
+        return [
+            replace(f, unconfirmed=tuple(dict.fromkeys((*f.unconfirmed, flagged[f.rule_id]))))
+            if f.rule_id in flagged
+            else f
+            for f in findings
+        ]
+
+    def ampacity_uses(self, size: str, material: str, free_air: bool) -> tuple[RowUse, ...]:
+        """The rows an ampacity figure of ``size`` reads: Table 310.16 (raceway; also its
+        termination column) and, in free air, Table 310.17; a size a table does not list
+        (metric, interpolated) reads the two rows around it."""
+        names = ("ampacity_raceway", "ampacity_free_air") if free_air else ("ampacity_raceway",)
+        out = []
+        for name in names:
+            sizes = self._index.get((name, "sizes", material))
+            if sizes is None:
+                df = self.tables[name].data
+                sizes = [
+                    parse_size(str(s))
+                    for s, m in zip(df["size"], df["material"], strict=True)
+                    if m == material
+                ]
+                self._index[(name, "sizes", material)] = sizes
+            want = parse_size(size)
+            if any(s.name == want.name for s in sizes):
+                near = [want]
+            else:
+                below = [s for s in sizes if s.area_mm2 < want.area_mm2]
+                above = [s for s in sizes if s.area_mm2 > want.area_mm2]
+                near = [max(below, key=lambda s: s.area_mm2)] if below else []
+                near += [min(above, key=lambda s: s.area_mm2)] if above else []
+            out += [self.row_use(name, size=s.name, material=material) for s in near]
+        return tuple(out)
 
     def provenance(self) -> list[dict[str, Any]]:
         """One entry per table for results and reports: name, title, source, edition,
@@ -472,6 +563,7 @@ def default_rulebook() -> RuleBook:
 
 __all__ = [
     "FaultAssumptions",
+    "RowUse",
     "RuleBook",
     "RuleRow",
     "TransformerXR",

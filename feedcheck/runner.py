@@ -56,6 +56,7 @@ def check_job_with_schedules(job: Job, schedules: dict, calc_date: str | None = 
     # basis as the panel's own total-drop check), under the job's drop limits
     drops = {n.id: float(n.values.get("conductor_vdrop_pct", 0.0) or 0.0) for n in results.nodes}
     for pid, res in batch.check(drops, job_drop_limits(job, book)).items():
+        res.findings = book.with_cited_notes(res.findings)  # rule rows not confirmed
         results.schedules[pid] = res
         results.findings.extend(res.findings)
     return results

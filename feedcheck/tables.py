@@ -40,6 +40,18 @@ REQUIRED_META = ("title", "basis", "source", "edition", "conditions", "confidenc
 CONFIDENCE_LEVELS = ("published", "common practice", "from memory — verify")
 MAX_TABLE_BYTES = 5_000_000
 ROW_CONFIDENCE = "row_confidence"
+# levels a figure may rest on without a note: confirmed in a published copy, or a trade
+# practice stated as such; any other level (remembered, or a user's own word) is unconfirmed
+CONFIRMED_LEVELS = CONFIDENCE_LEVELS[:2]
+
+
+def is_confirmed(level: str) -> bool:
+    """Whether a row of this confidence level (see :func:`confidence_level`) is confirmed.
+
+    >>> is_confirmed("published"), is_confirmed("from memory — verify"), is_confirmed("guess")
+    (True, False, False)
+    """
+    return level in CONFIRMED_LEVELS
 
 
 def shipped_tables_dir() -> Path:
@@ -354,6 +366,7 @@ __all__ = [
     "InputError",
     "Table",
     "confidence_level",
+    "is_confirmed",
     "load_table",
     "rule",
     "set_user_tables_dir",

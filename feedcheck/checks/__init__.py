@@ -13,7 +13,7 @@ from ..rulebook import RuleBook
 from .conductors import check_run
 from .context import Context, Load, build_context
 from .fault import check_faults
-from .impedance import fault_assumptions
+from .impedance import fault_assumptions, impedance_rows
 from .lighting import report_minimum_lighting
 from .loads import check_transformer_phases, report_connections
 from .panels import check_panel, check_standard_ratings
@@ -57,8 +57,10 @@ def check_job(
         check_panel(ctx, p)
     report_minimum_lighting(ctx)
     check_standard_ratings(ctx)
-    check_faults(ctx)
-    check_voltage_drop(ctx)
+    ctx.impedance_rows = impedance_rows(ctx)
+    with ctx.reading(by_subject=ctx.impedance_rows):
+        check_faults(ctx)
+        check_voltage_drop(ctx)
     for run in job.runs:
         check_run(ctx, run)
     return describe_results(ctx, _results(ctx))

@@ -193,16 +193,17 @@ def _check_device(
     prot = pk.conductor_protection(
         device, ampacity_a, run.size.name, run.material, tables=ctx.rules.protection
     )
-    ctx.add(
-        run.id,
-        "device protects conductors",
-        device,
-        prot.max_device_a,
-        "A",
-        "ok" if prot.ok else "fail",
-        prot.rule_id,
-        prot.note + ("" if prot.ok else "; " + fix_text()),
-    )
+    with ctx.reading(*ctx.ampacity_rows(run)):
+        ctx.add(
+            run.id,
+            "device protects conductors",
+            device,
+            prot.max_device_a,
+            "A",
+            "ok" if prot.ok else "fail",
+            prot.rule_id,
+            prot.note + ("" if prot.ok else "; " + fix_text()),
+        )
 
 
 def _check_ampacity(
@@ -297,12 +298,14 @@ def check_run(ctx: Context, run: Run) -> None:
             fix = _next_passing(ctx, run, cont, non, device, run.termination_c, cc, rooftop_c)
         return fix
 
-    _check_ampacity(ctx, run, chain, cont + non, fix_text, tnote)
+    with ctx.reading(*ctx.ampacity_rows(run)):
+        _check_ampacity(ctx, run, chain, cont + non, fix_text, tnote)
     if device is not None:
         _check_device(ctx, run, device, chain.final_a, cont, non, fix_text)
         _check_egc(ctx, run, device, cont, non, term, cc, rooftop_c)
     else:
-        check_unprotected_run(ctx, run, chain.final_a)
+        with ctx.reading(*ctx.ampacity_rows(run)):
+            check_unprotected_run(ctx, run, chain.final_a)
         if tree.kind[run.from_id] == "transformer":
             check_sds_conductors(ctx, run)
     check_withstand(ctx, run, cont + non, chain.corrected_a)
@@ -337,17 +340,18 @@ def _check_egc(ctx, run, device, cont, non, term, cc, rooftop_c) -> None:
         tables=ctx.rules.protection,
     )
     ok = run.ground.area_mm2 >= SIZES[need.size].area_mm2 * (1 - 1e-9)
-    ctx.add(
-        run.id,
-        "grounding conductor",
-        run.ground.area_kcmil,
-        SIZES[need.size].area_kcmil,
-        "kcmil",
-        "ok" if ok else "fail",
-        "run-egc-size",
-        f"{run.ground.name} given; at least {need.size} {need.material.capitalize()} "
-        f"needed: {need.reasoning}",
-    )
+    with ctx.reading(*ctx.ampacity_rows(run, minimum)):  # the minimum phase size
+        ctx.add(
+            run.id,
+            "grounding conductor",
+            run.ground.area_kcmil,
+            SIZES[need.size].area_kcmil,
+            "kcmil",
+            "ok" if ok else "fail",
+            "run-egc-size",
+            f"{run.ground.name} given; at least {need.size} {need.material.capitalize()} "
+            f"needed: {need.reasoning}",
+        )
     ctx.sheet(run.id, "run", "").step(
         "Equipment grounding conductor",
         "Table 250.122 by device; × (installed / minimum phase area) when upsized",

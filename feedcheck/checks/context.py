@@ -2,13 +2,15 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from collections.abc import Iterator, Mapping, Sequence
+from contextlib import contextmanager
+from dataclasses import dataclass, field, replace
 
 from ..calc.power import current_from_apparent_power_a
 from ..findings import Finding, Status
 from ..model import Job, Tree
 from ..results import NodeResult, Sheet
-from ..rulebook import RuleBook, current_rulebook
+from ..rulebook import RowUse, RuleBook, current_rulebook
 from .compare import TOLERANCE, Direction, compare
 from .loads import PhaseLoad, roll_up_phases
 
@@ -51,6 +53,10 @@ class Context:
     phases: dict[str, PhaseLoad] = field(default_factory=dict)  # line currents per node
     lighting_minimum: list = field(default_factory=list)  # 220.12 figures (checks/lighting)
     chains: dict = field(default_factory=dict)  # panel id -> DemandChain of its schedule
+    reading_rows: list[RowUse] = field(default_factory=list)  # see reading()
+    reading_by_subject: list[Mapping[str, Sequence[RowUse]]] = field(default_factory=list)
+    # node or run id -> unconfirmed rows its impedance path reads (checks/impedance.py)
+    impedance_rows: dict[str, tuple[RowUse, ...]] = field(default_factory=dict)
 
     def design_factor(self) -> float:
         """The continuous-load factor (rule device-continuous-125)."""
@@ -63,6 +69,42 @@ class Context:
         k = ph.feed_heaviest(self.design_factor())
         return float(ph.feed_cont_a[k]), float(ph.feed_non_a[k])
 
+    @contextmanager
+    def reading(
+        self, *uses: RowUse, by_subject: Mapping[str, Sequence[RowUse]] | None = None
+    ) -> Iterator[None]:
+        """Findings added inside this block are computed from the rows ``uses`` (from
+        :meth:`RuleBook.row_use` and friends), and those about a subject of
+        ``by_subject`` from that subject's rows too: each unconfirmed row puts its note
+        on them. The rule row a finding cites (its ``rule_id``) is always read; it need
+        not be named here."""
+        n, m = len(self.reading_rows), len(self.reading_by_subject)
+        self.reading_rows.extend(uses)
+        if by_subject:
+            self.reading_by_subject.append(by_subject)
+        try:
+            yield
+        finally:
+            del self.reading_rows[n:]
+            del self.reading_by_subject[m:]
+
+    def unconfirmed_notes(self, rule_id: str, subject: str = "") -> tuple[str, ...]:
+        """Notes of the unconfirmed rows a finding about ``subject`` citing ``rule_id``
+        rests on: the rows being read (:meth:`reading`) and the rule row itself."""
+        uses = list(self.reading_rows)
+        for rows in self.reading_by_subject:
+            uses += rows.get(subject, ())
+        cited = self.rules.rule_use(rule_id)
+        if cited is not None:
+            uses.append(cited)
+        return tuple(dict.fromkeys(u.note() for u in uses if not u.confirmed))
+
+    def ampacity_rows(self, run, size: str | None = None) -> tuple[RowUse, ...]:
+        """The ampacity table rows a figure of ``run`` (or of ``size`` in its place)
+        reads (:meth:`RuleBook.ampacity_uses`)."""
+        name = size or run.size.name
+        return self.rules.ampacity_uses(name, run.material, run.raceway == "free-air")
+
     def add(
         self,
         subject: str,
@@ -74,7 +116,17 @@ class Context:
         rule_id: str,
         note: str = "",
     ) -> Finding:
-        f = Finding(subject, check, _f(value), _f(limit), unit, status, rule_id, note)
+        f = Finding(
+            subject,
+            check,
+            _f(value),
+            _f(limit),
+            unit,
+            status,
+            rule_id,
+            note,
+            self.unconfirmed_notes(rule_id, subject),
+        )
         self.findings.append(f)
         return f
 
@@ -96,6 +148,9 @@ class Context:
         Finding (arguments in the order of :meth:`add`; the status comes from the test)."""
         rule = {"rule_id": rule_id, "status": fail_status}
         f = compare(value, limit, direction, rule, subject, check, unit, note, tolerance=tolerance)
+        notes = self.unconfirmed_notes(rule_id, subject)
+        if notes:
+            f = replace(f, unconfirmed=notes)
         self.findings.append(f)
         return f
 

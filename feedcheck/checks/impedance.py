@@ -14,6 +14,7 @@ from ..calc import conductor as ck
 from ..calc import fault as fk
 from ..calc.constants import SQRT3
 from ..model import Job, Run
+from ..rulebook import RowUse
 from .context import Context
 
 
@@ -130,3 +131,21 @@ def source_impedance(job: Job) -> complex:
     """Source impedance, per phase (or per-phase equivalent), at the source voltage."""
     s = job.source
     return complex(fk.source_impedance_ohm(s.voltage.line_v, s.fault_a, s.x_r))
+
+
+def impedance_rows(ctx: Context) -> dict[str, tuple[RowUse, ...]]:
+    """The unconfirmed table rows each node's and run's impedance path reads (every run
+    from the source to it: phase conductors and grounding conductor), for the fault and
+    voltage-drop findings about it (:meth:`Context.reading`)."""
+    tree, book = ctx.tree, ctx.rules
+    out: dict[str, tuple[RowUse, ...]] = {}
+    for n in tree.order:
+        parent = tree.parent_node[n]
+        rows = list(out.get(parent, ())) if parent is not None else []
+        run = tree.parent_run.get(n)
+        if run is not None:
+            for size in (run.size, run.ground) if run.ground is not None else (run.size,):
+                rows += [u for u in book.impedance_uses(size.name) if not u.confirmed]
+            out[run.id] = tuple(dict.fromkeys(rows))
+        out[n] = tuple(dict.fromkeys(rows))
+    return out

@@ -126,7 +126,9 @@ def check_withstand(ctx: Context, run: Run, load_a: float, ampacity_a: float) ->
             "(e.g. XHHW-2) to use a thermoset limit."
         )
     i_w, t1 = phase_withstand_a(ctx, run, run.size, load_a, ampacity_a, t)
-    _emit(ctx, run, "phase conductors", duty, key, i_w, t, t1, ins)
+    rows = (*ctx.impedance_rows.get(run.from_id, ()), *_insulation_rows(ctx, ins))
+    with ctx.reading(*rows, *ctx.ampacity_rows(run)):  # operating temperature: ampacity
+        _emit(ctx, run, "phase conductors", duty, key, i_w, t, t1, ins)
     if run.ground is not None:
         lg = ctx.nodes[run.from_id].values.get("fault_lg_max_a")
         key, note = DUTY_KEYS["fault_lg_max_a"], ""
@@ -141,12 +143,20 @@ def check_withstand(ctx: Context, run: Run, load_a: float, ampacity_a: float) ->
                 run.ground.area_mm2 * run.sets, t, k_icea, t0, t1g, ins.limit_c
             )
         )
-        _emit(ctx, run, "grounding conductor", lg, key, i_g, t, t1g, ins, note)
+        with ctx.reading(*rows):
+            _emit(ctx, run, "grounding conductor", lg, key, i_g, t, t1g, ins, note)
     ctx.method(
         "Short-circuit withstand of insulated conductors, (I/A)²·t = K·log10((T2+T0)/(T1+T0)) "
         "from the operating temperature to the insulation's short-circuit limit",
         "ICEA P-32-382-2007; insulation types and ratings NFPA 70-2023 Table 310.4(A)",
     )
+
+
+def _insulation_rows(ctx: Context, ins: Insulation) -> tuple:
+    """The insulation type's row (none when the limit is the rule for a temperature)."""
+    if ins.rule_id == "run-withstand-insulation":
+        return ()
+    return (ctx.rules.row_use("insulation_types", rule_id=ins.rule_id),)
 
 
 def _emit(ctx, run, what, duty, key, i_w, t, t1, ins, extra="") -> None:

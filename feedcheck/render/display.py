@@ -36,6 +36,17 @@ STATUS_MEANING = {
 }
 
 
+def unconfirmed_line(count: int) -> str:
+    """How many figures rest on table rows not confirmed in a published copy.
+
+    >>> unconfirmed_line(0), unconfirmed_line(1)
+    ('0 figures depend on unconfirmed values', '1 figure depends on unconfirmed values')
+    """
+    if count == 1:
+        return "1 figure depends on unconfirmed values"
+    return f"{count} figures depend on unconfirmed values"
+
+
 def status_word(status: str, loud: bool = False) -> str:
     """The word shown for a finding's status (``loud``: capitals, for headline counts).
 

@@ -28,5 +28,6 @@ def render_csv(results: Results) -> str:
     w.writerow(FINDING_FIELDS)
     for f in results.sorted_findings():
         d = f.as_dict()
+        d["note"] = "; ".join([d["note"], *f.unconfirmed]) if f.unconfirmed else d["note"]
         w.writerow([neutralise_cell(d[k]) if d[k] is not None else "" for k in FINDING_FIELDS])
     return buf.getvalue()

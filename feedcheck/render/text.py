@@ -17,6 +17,7 @@ from .display import (
     fixed,
     number,
     status_word,
+    unconfirmed_line,
 )
 
 PHASE_KEYS = ("phase_a_va", "phase_b_va", "phase_c_va")
@@ -69,6 +70,10 @@ def _finding_lines(f) -> str:
     what = f"{f.check}: {fig}" if fig else f.check
     head = f"{status_word(f.status):4}  {f.subject}  {what}  [{f.rule_id}]\n"
     note = textwrap.fill(f.note, width=96, initial_indent="      ", subsequent_indent="      ")
+    for u in f.unconfirmed:
+        note += "\n" + textwrap.fill(
+            "unconfirmed: " + u, width=96, initial_indent="      ", subsequent_indent="        "
+        )
     return head + note + "\n"
 
 
@@ -85,7 +90,7 @@ def render_text(results: Results, show_all: bool = False) -> str:
     if results.schedules:
         out.write("\n")
     for f in results.sorted_findings():
-        if show_all or f.status in ("fail", "warn"):
+        if show_all or f.status in ("fail", "warn") or f.unconfirmed:
             out.write(_finding_lines(f))
     c = results.counts()
     out.write(
@@ -93,6 +98,8 @@ def render_text(results: Results, show_all: bool = False) -> str:
         + ("" if show_all else "   (--all lists every finding)")
         + "\n"
     )
+    if results.unconfirmed():
+        out.write(unconfirmed_line(len(results.unconfirmed())) + " (listed above)\n")
     for a in results.assumptions:
         out.write(f"assumed: {a}\n")
     out.write(f"\n{CAUTION}\n")

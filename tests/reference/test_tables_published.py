@@ -41,6 +41,7 @@ KEYS = {
     "grounding_electrode_conductor": ("row",),
     "transformer_protection": ("arrangement", "winding", "current_from_a"),
     "withstand_k": ("rule_id",),
+    "insulation_thickness": ("up_to_mm2",),
 }
 LOAD_BEARING = {
     "conductor_impedance_table9",
@@ -63,9 +64,10 @@ DISAGREE = {
     ("ampacity_raceway__pre2011_systemsengr", ("700 kcmil", "al"), "c60_a"): "as above",
     ("ampacity_raceway__pre2011_systemsengr", ("700 kcmil", "al"), "c90_a"): "as above",
     ("ampacity_raceway__pre2011_systemsengr", ("800 kcmil", "al"), "c90_a"): "as above",
-    # not settled: no 2011-or-later copy of these rows was found; rows stay 'from memory — verify'
-    ("ampacity_raceway__pre2011_scribd", ("1500 kcmil", "cu"), "c60_a"): "pre-2011 520; ours 525",
-    ("ampacity_raceway__pre2011_scribd", ("2000 kcmil", "cu"), "c60_a"): "pre-2011 560; ours 555",
+    # settled for the 2011-and-later copy (NFPA 70-2023 reproduction: 525 and 555), as for the
+    # 700/800 kcmil Al cells the same revision changed
+    ("ampacity_raceway__pre2011_scribd", ("1500 kcmil", "cu"), "c60_a"): "pre-2011 520; 2023: 525",
+    ("ampacity_raceway__pre2011_scribd", ("2000 kcmil", "cu"), "c60_a"): "pre-2011 560; 2023: 555",
     ("ampacity_raceway__pre2011_systemsengr", ("1500 kcmil", "cu"), "c60_a"): "as above",
     ("ampacity_raceway__pre2011_systemsengr", ("2000 kcmil", "cu"), "c60_a"): "as above",
     # Table 250.122: the pre-2002 Table 250-95 printed 800/1200/1200 kcmil Al; the current
@@ -82,8 +84,8 @@ DISAGREE = {
 
 # rows of load-bearing tables marked 'published' on one current copy only, with the reason
 ONE_COPY = {
-    ("ampacity_raceway", ("700 kcmil", "al")): "2011-and-later cells: 2018 IRC reprint only",
-    ("ampacity_raceway", ("800 kcmil", "al")): "2011-and-later 90 degC cell: 2018 IRC reprint only",
+    ("ampacity_raceway", ("1500 kcmil", "cu")): "60 degC cell: one 2011-and-later copy (2023 web)",
+    ("ampacity_raceway", ("2000 kcmil", "cu")): "60 degC cell: one 2011-and-later copy (2023 web)",
     ("egc_size", (4000.0,)): "Al cell: one current copy; pre-2002 copy prints 800 kcmil",
     ("egc_size", (5000.0,)): "Al cell: one current copy; pre-2002 copy prints 1200 kcmil",
     ("egc_size", (6000.0,)): "Al cell: one current copy; pre-2002 copy prints 1200 kcmil",
@@ -325,8 +327,11 @@ def test_unconfirmed_rows_are_the_ones_listed():
             for r in df.to_dict("records")
             if r["row_confidence"] == memory
         }
-    big = ("1000 kcmil", "1250 kcmil", "1500 kcmil", "1750 kcmil", "2000 kcmil")
-    assert left["ampacity_raceway"] == {(s, m) for s in big for m in ("cu", "al")}
+    assert left["ampacity_raceway"] == set()  # 1000-2000 kcmil confirmed 2026-12-02
+    ins = read_table_file(
+        shipped_tables_dir() / "insulation_thickness.csv", "insulation_thickness", "shipped"
+    ).data
+    assert set(ins.loc[ins["row_confidence"] == memory, "up_to_mm2"]) == {500, 630, 1100}
     assert ("3 AWG", "cu") in left["ampacity_free_air"]
     assert not any(
         m == "cu" and s.endswith("AWG") and s != "3 AWG" for s, m in left["ampacity_free_air"]

@@ -28,6 +28,7 @@ from ..display import (
     node_figure,
     number,
     status_word,
+    unconfirmed_line,
     whole_or_number,
 )
 from .drawing import fonts, txt
@@ -236,12 +237,15 @@ def cover(results, heading) -> list:
 def findings_summary(results, page_of, heading) -> list:
     out = [heading("Summary of findings", "findings", 0, "h1")]
     c = results.counts()
-    shown = [f for f in results.sorted_findings() if f.status in ("fail", "warn")]
+    shown = [f for f in results.sorted_findings() if f.status in ("fail", "warn") or f.unconfirmed]
     out.append(
         p(
             f"{c['fail']} failing and {c['warn']} warning checks are listed here, failures "
             f"first; {c['ok']} passing checks and {c['info']} information figures appear on "
-            "each element's calculation sheet (page in the last column).",
+            "each element's calculation sheet (page in the last column). "
+            + unconfirmed_line(len(results.unconfirmed()))
+            + " (rows of the tables not confirmed in a published copy; such checks are "
+            "listed here too, each naming its rows).",
             "body",
         )
     )
@@ -257,6 +261,7 @@ def _check_cell(f) -> list:
     cell = [p(f.check, "cellb")]
     if f.note:
         cell.append(p(f.note, "note"))
+    cell += [p(f"Unconfirmed: {u}", "note") for u in f.unconfirmed]
     return cell
 
 

@@ -1,0 +1,47 @@
+"""Rows confirmed on 2026-12-02 that the cell-by-cell table tests do not reach, and the
+confidence spelling every table's rows must keep (issue 18 items 1, 2 and 4).
+
+Sources are named in each copy's header under ``tests/reference/tables/``.
+"""
+
+from __future__ import annotations
+
+import csv
+from pathlib import Path
+
+import pytest
+
+from feedcheck.tables import CONFIDENCE_LEVELS, confidence_level, load_table, table_names
+
+REF = Path(__file__).parent / "tables"
+
+
+def _copy(stem: str) -> list[dict[str, str]]:
+    lines = (REF / f"{stem}.csv").read_text(encoding="utf-8").splitlines()
+    return list(csv.DictReader(ln for ln in lines if ln.strip() and not ln.startswith("#")))
+
+
+def test_xlpe_short_circuit_limit_matches_two_makers():
+    copy = _copy("insulation_types__xlpe_sc_makers")
+    assert len({r["maker"] for r in copy}) == 2
+    limits = {float(r["sc_final_c"]) for r in copy if r["insulation"] == "XLPE"}
+    assert limits == {250.0}  # two makers' data sheets to IEC 60502-1: XLPE 250 °C
+    t = load_table("insulation_types").data.set_index("type")
+    for typ in ("XHHW", "XHHW-2", "XHH"):  # X: cross-linked polyethylene
+        assert float(t.loc[typ, "sc_final_c"]) == 250.0, typ
+        assert t.loc[typ, "row_confidence"].startswith("published"), typ
+    # the limits no copy confirms stay flagged
+    for typ in ("THHN", "THWN-2", "RHW-2", "USE-2", "XHHN", "MTW"):
+        assert t.loc[typ, "row_confidence"].startswith("from memory — verify"), typ
+
+
+@pytest.mark.parametrize("name", table_names())
+def test_every_row_confidence_starts_with_a_level(name):
+    """A row's confidence is read by its first words: a cell that starts otherwise would
+    be a level of its own, neither confirmed nor flagged as remembered."""
+    t = load_table(name)
+    assert all(level in CONFIDENCE_LEVELS for level in t.row_confidence), (
+        name,
+        sorted(set(t.row_confidence) - set(CONFIDENCE_LEVELS)),
+    )
+    assert confidence_level(t.confidence) in CONFIDENCE_LEVELS
