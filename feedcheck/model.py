@@ -207,6 +207,9 @@ class Panel:
     area_m2: float | None = None  # floor area served, for the 220.12 minimum lighting [m²]
     device_type: str | None = None  # one of DEVICE_FAMILIES; None: molded-case assumed
     schedule_columns: tuple[tuple[str, str], ...] = ()  # the schedule's column map
+    # a single-phase panel on a three-phase feed: the lines it takes ("AB", "BC", "CA");
+    # "" = assigned to balance by the checks
+    phases_connected: str = ""
 
 
 @dataclass(frozen=True)

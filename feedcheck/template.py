@@ -64,7 +64,9 @@ id = "LP1"
 rating = "225 A"               # bus rating
 main_device = "225 A"          # optional (omit for main lugs only)
 interrupting = "22 kA"         # equipment short-circuit / interrupting rating
-# voltage = "208Y/120 V"       # optional: checked against the feed
+# voltage = "208Y/120 V"       # optional: checked against the feed; a single-phase
+#                              # panel on a three-phase feed: "208 V 1ph" (two wires)
+# phases_connected = "A-B"     # single-phase panel: its pair of lines (else balanced)
 load = "40 kVA"                # demand load (a schedule replaces it when given)
 continuous = "10 kVA"          # the continuous part of the load
 power_factor = 0.9

@@ -61,14 +61,14 @@ def check_faults(ctx: Context) -> None:
         return arr
 
     zb_max, zb_min = referred(b_max), referred(b_min)
-    # a single-phase transformer on a three-phase node draws through two source lines:
-    # loop = 2·Z_parent, per-phase equivalent 2·Z_parent/√3 (instead of Z_parent)
-    for t in job.transformers:
-        p = tree.parent_node[t.id]
-        if t.secondary.phases == 1 and tree.voltage_of[p].phases == 3:
+    # a single-phase transformer or panel on a three-phase node draws through two source
+    # lines: loop = 2·Z_parent, per-phase equivalent 2·Z_parent/√3 (instead of Z_parent)
+    for n in order[1:]:
+        p = tree.parent_node[n]
+        if tree.voltage_of[n].phases == 1 and tree.voltage_of[p].phases == 3:
             for zb in (zb_max, zb_min):
                 zp = fk.cumulative_impedance_ohm(parent, zb, zs)[pos[p]]
-                zb[pos[t.id]] += (2 / SQRT3 - 1) * zp
+                zb[pos[n]] += (2 / SQRT3 - 1) * zp
     rf = _walk_3ph(job, parent, v_node, zb_max, zb_min, zs, fa, vb)
     ohmic_max_no_motor = rf.fault_max_a
     motor_node = motor_contribution(ctx, fa, vb)  # every motor on the same system

@@ -155,12 +155,23 @@ def check_voltages(
     for i, pn in enumerate(panels, start=1):
         if pn.voltage is None:
             continue
-        have = tree.voltage_of[pn.id]
-        if abs(have.line_v - pn.voltage.line_v) > 0.5 or have.phases != pn.voltage.phases:
+        have = tree.voltage_of[tree.parent_node[pn.id]]
+        if abs(have.line_v - pn.voltage.line_v) > 0.5 or have.phases < pn.voltage.phases:
             r.add(
                 f"panel[{i}].voltage",
                 pn.voltage.text,
                 f"the voltage of the feed that reaches it ({have.text})",
+            )
+        elif pn.voltage.neutral_v is not None and (
+            have.neutral_v is None or abs(have.neutral_v - pn.voltage.neutral_v) > 0.5
+        ):
+            r.add(
+                f"panel[{i}].voltage",
+                pn.voltage.text,
+                f"a voltage without a neutral, or a feed with a {pn.voltage.neutral_v:g} V "
+                f"neutral ({have.text} has "
+                + ("none" if have.neutral_v is None else f"{have.neutral_v:g} V")
+                + ")",
             )
     for i, t in enumerate(transformers, start=1):
         have = tree.voltage_of[tree.parent_node[t.id]]
