@@ -283,50 +283,6 @@ def report_connections(ctx) -> None:
             )
 
 
-def demand_chain_steps(chain, sheet) -> None:
-    """The schedule's demand arithmetic on the panel sheet, each step once: connected →
-    demand factors → largest motor 25 % (430.24) → continuous 125 % (215.2(A)(1))."""
-    if chain is None:
-        return
-    kinds = [k for k, v in chain.connected_va.items() if v > 0]
-    sheet.step(
-        "1. Connected load",
-        "Σ circuit loads by kind",
-        " + ".join(f"{k} {chain.connected_va[k]:,.0f}" for k in kinds) or "0",
-        round(float(chain.connected_total_va)),
-        "VA",
-    )
-    sheet.step(
-        "2. After demand factors",
-        "each kind through its tiers (Table 220.42, 220.44; others 100 %)",
-        " + ".join(f"{k} {chain.demand_va[k]:,.0f}" for k in kinds) or "0",
-        round(float(chain.demand_total_va)),
-        "VA",
-    )
-    sheet.step(
-        "3. Largest motor",
-        "+ 25 % of the largest motor (430.24), once",
-        f"0.25 × {float(chain.largest_motor_va):,.0f}",
-        round(float(chain.largest_motor_adder_va)),
-        "VA",
-    )
-    sheet.step(
-        "4. Continuous loads",
-        "+ 25 % of the continuous non-motor demand (215.2(A)(1))",
-        f"0.25 × {float(chain.continuous_demand_va):,.0f}",
-        round(float(chain.continuous_adder_va)),
-        "VA",
-    )
-    sheet.step(
-        "Design load",
-        "step 2 + step 3 + step 4",
-        f"{float(chain.demand_total_va):,.0f} + {float(chain.largest_motor_adder_va):,.0f}"
-        f" + {float(chain.continuous_adder_va):,.0f}",
-        round(float(chain.design_va)),
-        "VA",
-    )
-
-
 def _say_unbalanced_primary(ctx, t: Transformer, ph: PhaseLoad) -> None:
     """State how an unbalanced three-phase secondary is carried to the primary."""
     load = ph.cont_a + ph.non_a
