@@ -27,6 +27,7 @@ from .fault_duty import (
     worst_case_figures,
     z0_ratio,
 )
+from .high_leg import min_root_ohm
 from .impedance import (
     branch_impedances,
     fault_assumptions,
@@ -365,6 +366,8 @@ def _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb) -> dict[str, fl
                 root_z1[i] = z1
                 ratio = z0_ratio(t, fa, "min")
                 root_z0[i] = complex(lg.transformer_zero_sequence_ohm(zt_min, ratio))
+            elif v.kind == "highleg":  # four-wire delta: both legs bounded (high_leg.py)
+                root_z1[i] = min_root_ohm(z1)
             else:  # 120/240 V: half-winding model at 120 V
                 zt_loop = transformer_loop_ohm(t, fa.tolerance_pct, "min")
                 root_z1[i] = split_ln_source_ohm(z1, zt_loop)

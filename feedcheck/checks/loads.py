@@ -161,6 +161,8 @@ def _elements_of_child(tree, t: Transformer | None, c: str, load: PhaseLoad, pai
     if t is None and v.phases == 1:  # a single-phase panel on a pair of lines
         load.single_phase_feed = True
         given = pairs.get(c, "") or "LL"
+        if tree.voltage_of[tree.parent_node[c]].kind == "highleg" and v.kind == "split":
+            given = "CA"  # 120 V legs beside the neutral tap (B is the high leg, 408.3(E)(1))
         return [(c, float(cont_va.sum()), float(non_va.sum()), given)]
     if t is None:  # a panel at the node's own voltage: its lines pass up unchanged
         return [(c, float(cont_va[j]), float(non_va[j]), LETTERS[j]) for j in range(3)]

@@ -285,6 +285,12 @@ def circuit_quantities(
         "system": system.text,
         "two": 2.0,
         "neutral_ok": ~((poles == 1) & (system.neutral_v is None)),
+        # a one-pole circuit in a B space of a high-leg delta: 208 V to neutral
+        "high_leg_ok": ~(
+            (poles == 1)
+            & (system.kind == "highleg")
+            & ((c["circuit"].to_numpy().astype(np.int64) - 1) // 2 % 3 == 1)
+        ),
         "branch_limit_pct": limits["branch"].max_pct,
         "total_limit_pct": limits["total"].max_pct,
     }

@@ -162,6 +162,21 @@ def check_voltages(
                 pn.voltage.text,
                 f"the voltage of the feed that reaches it ({have.text})",
             )
+        elif (
+            have.kind == "highleg"
+            and pn.voltage.kind == "split"
+            and pn.phases_connected
+            not in (
+                "",
+                "CA",
+            )
+        ):
+            r.add(
+                f"panel[{i}].phases_connected",
+                pn.phases_connected[0] + "-" + pn.phases_connected[1],
+                '"C-A" or none: a 120/240 V panel on a high-leg delta takes the legs beside '
+                "the neutral tap (B is the high leg, 208 V to neutral; 408.3(E)(1))",
+            )
         elif pn.voltage.neutral_v is not None and (
             have.neutral_v is None or abs(have.neutral_v - pn.voltage.neutral_v) > 0.5
         ):

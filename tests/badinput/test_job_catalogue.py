@@ -46,7 +46,7 @@ APPARENT = "an apparent power in VA, kVA or MVA, e.g. '75 kVA' (not W, hp or var
 SIZES = "a standard size: 14 AWG … 4/0 AWG, 250 … 2000 kcmil, or 1.5 … 630 mm2"
 VSYS = (
     "a system voltage such as '480 V delta', '208Y/120 V', '480Y/277 V', "
-    "'120/240 V' (single-phase three-wire), '240 V' or '480 V'"
+    "'120/240 V' (single-phase three-wire), '240/120 V high-leg delta', '240 V' or '480 V'"
 )
 NODE = "the id of the source, a transformer or a panel"
 INSIDE = "a path inside the job file's folder (no absolute paths, no '..')"
