@@ -139,3 +139,19 @@ def test_split_panel_needs_a_neutral_on_its_feed(write_job):
     text = JOB.replace("{pair}", "").replace('"208 V 1ph"', '"208/104 V"')
     res = CliRunner().invoke(main, ["check", str(write_job(text))])
     assert res.exit_code == 2 and "panel[2].voltage" in res.output
+
+
+def test_two_wire_schedule_counts_a_two_pole_circuit_once(check_json, tmp_path):
+    """A "208 V 1ph" panel with a schedule: one two-pole 2,080 VA circuit draws
+    2,080 / 208 = 10 A on the pair (IEEE Std 141-1993 ch. 3, I = S / V single-phase),
+    not 20 A (each pole counted on the one line of a two-wire panel, as before)."""
+    (tmp_path / "SP.csv").write_text(
+        "circuit,poles,load [VA],breaker [A],conductor,length [ft]\n1,2,2080,20,12 AWG Cu,50\n",
+        encoding="utf-8",
+    )
+    text = JOB.replace("{pair}", 'phases_connected = "A-B"').replace(
+        'load = "10 kVA"', 'schedule = "SP.csv"'
+    )
+    doc = check_json(text)
+    assert run(doc, "R1")["current_a"] == pytest.approx(10.0, rel=1e-9)
+    assert node(doc, "DP")["design_current_a"] == pytest.approx(10.0, rel=1e-9)
