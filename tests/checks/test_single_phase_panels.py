@@ -155,3 +155,21 @@ def test_two_wire_schedule_counts_a_two_pole_circuit_once(check_json, tmp_path):
     doc = check_json(text)
     assert run(doc, "R1")["current_a"] == pytest.approx(10.0, rel=1e-9)
     assert node(doc, "DP")["design_current_a"] == pytest.approx(10.0, rel=1e-9)
+
+
+def test_pair_key_needs_a_three_phase_feed(write_job):
+    """A single-phase panel under a single-phase feed takes that feed's lines: a pair
+    there is an input error naming the key (exit 2)."""
+    from click.testing import CliRunner
+
+    from feedcheck.cli import main
+
+    text = (
+        JOB.replace("{pair}", 'phases_connected = "A-B"')
+        .replace('secondary = "208Y/120 V"', 'secondary = "208 V 1ph"')
+        .replace('primary = "480 V delta"\nsecondary', 'primary = "480 V 1ph"\nsecondary')
+        .replace('rating = "225 A"\n', 'rating = "225 A"\nvoltage = "208 V 1ph"\n', 1)
+    )
+    res = CliRunner().invoke(main, ["check", str(write_job(text))])
+    assert res.exit_code == 2, res.output
+    assert "panel[2].phases_connected" in res.output and "not three-phase" in res.output
