@@ -182,7 +182,7 @@ def worst_case_figures(
 def describe_methods(ctx: Context, fa: FaultAssumptions, figures: dict[str, DutyFigures]):
     """Methods and assumptions of the worst-case duty, stated once."""
     kinds = {k for f in figures.values() for k in f.faults_a}
-    if "ln" in kinds:
+    if "ln" in kinds and any(t.secondary.kind == "split" for t in ctx.job.transformers):
         ctx.method(
             "Line-to-neutral fault of a 120/240 V centre-tapped secondary, half-winding "
             "model: Z_LN = Z_source/4 + (1.5·R_T + j1.2·X_T)/4 + Z_line + Z_neutral at 120 V, "
