@@ -49,8 +49,10 @@ OCCUPANCIES = (
 )
 LOAD_KINDS = ("lighting", "receptacle", "motor", "heating", "other")  # schedule circuits
 # system shapes (VoltageSystem.kind): 208Y/120 wye, 480 V delta, 120/240 split-phase
-# three-wire, single-phase two-wire, and three-phase with the winding not stated
-SYSTEM_KINDS = ("wye", "delta", "split", "single", "line")
+# three-wire, single-phase two-wire, three-phase with the winding not stated, and the
+# 240/120 V four-wire delta with a high leg (B, 208 V to neutral; 408.3(E)(1))
+SYSTEM_KINDS = ("wye", "delta", "split", "single", "line", "highleg")
+HIGH_LEG = "B"  # the high leg's position in panelboards (NFPA 70-2023 408.3(E)(1))
 VOLTAGE_DROP_MODES = ("recommended", "mandatory")
 VOLTAGE_FACTORS = ("none", "iec60909", "iec60909-10pct")  # c_max 1.05 / 1.10
 # device families of a panel (its ``device_type``) -> the row family of
@@ -82,7 +84,9 @@ class VoltageSystem:
     kind : str
         One of :data:`SYSTEM_KINDS`: ``wye`` (``208Y/120``), ``delta``
         (``480 V delta``), ``split`` (``120/240``, single-phase three-wire), ``single``
-        (single-phase two-wire) or ``line`` (three-phase, winding not stated).
+        (single-phase two-wire), ``line`` (three-phase, winding not stated) or
+        ``highleg`` (``240/120 V high-leg delta``: four-wire delta, the neutral at the
+        midpoint of the A–C winding, B at √3/2 · 240 = 208 V to neutral).
     text : str
         The text as written.
     """
@@ -96,6 +100,10 @@ class VoltageSystem:
     @property
     def grounded_wye(self) -> bool:
         return self.kind == "wye"
+
+    @property
+    def high_leg(self) -> bool:
+        return self.kind == "highleg"
 
 
 @dataclass(frozen=True)
@@ -207,6 +215,9 @@ class Panel:
     area_m2: float | None = None  # floor area served, for the 220.12 minimum lighting [m²]
     device_type: str | None = None  # one of DEVICE_FAMILIES; None: molded-case assumed
     schedule_columns: tuple[tuple[str, str], ...] = ()  # the schedule's column map
+    # a single-phase panel on a three-phase feed: the lines it takes ("AB", "BC", "CA");
+    # "" = assigned to balance by the checks
+    phases_connected: str = ""
 
 
 @dataclass(frozen=True)

@@ -282,9 +282,16 @@ def _convert(value: float, unit: str, dimension: str, text: str, expected: str) 
 
 _VS_EXPECTED = (
     "a system voltage such as '480 V delta', '208Y/120 V', '480Y/277 V', "
-    "'120/240 V' (single-phase three-wire), '240 V' or '480 V'"
+    "'120/240 V' (single-phase three-wire), '240/120 V high-leg delta', '240 V' or '480 V'"
 )
 _WYE_RE = re.compile(r"^\s*(\d+(?:\.\d+)?)\s*Y\s*/\s*(\d+(?:\.\d+)?)\s*V?\s*$", re.IGNORECASE)
+# 240/120 V four-wire delta with the high leg (208 V to neutral): "240/120 V high-leg
+# delta" (also "delta high-leg", "high leg", "highleg")
+_HIGH_LEG_RE = re.compile(
+    r"^\s*(\d+(?:\.\d+)?)\s*/\s*(\d+(?:\.\d+)?)\s*V?\s+"
+    r"(?:high[- ]?leg\s+delta|delta\s+high[- ]?leg)\s*$",
+    re.IGNORECASE,
+)
 _SPLIT_RE = re.compile(r"^\s*(\d+(?:\.\d+)?)\s*/\s*(\d+(?:\.\d+)?)\s*V?\s*$", re.IGNORECASE)
 _PLAIN_RE = re.compile(
     r"^\s*(\d+(?:\.\d+)?)\s*V\s*(delta|d|wye|single|1ph|3ph)?\s*$", re.IGNORECASE
@@ -306,6 +313,8 @@ def parse_voltage_system(text: object, phases: int | None = None) -> VoltageSyst
     'split'
     >>> parse_voltage_system("480 V delta").phases
     3
+    >>> parse_voltage_system("240/120 V high-leg delta").kind
+    'highleg'
     """
     s = str(text)
     if m := _WYE_RE.match(s):
@@ -313,6 +322,14 @@ def parse_voltage_system(text: object, phases: int | None = None) -> VoltageSyst
         if not (0 < ln < ll) or abs(ll / ln - math.sqrt(3)) > 0.05:
             raise UnitParseError(s, _VS_EXPECTED + " (line voltage ≈ √3 × neutral voltage)")
         return VoltageSystem(ll, ln, 3, "wye", s)
+    if m := _HIGH_LEG_RE.match(s):
+        a, b = float(m.group(1)), float(m.group(2))
+        ll, ln = max(a, b), min(a, b)
+        if ln <= 0 or abs(ll / ln - 2) > 0.05:
+            raise UnitParseError(
+                s, _VS_EXPECTED + " (high-leg delta: line voltage = 2 × neutral, e.g. 240/120 V)"
+            )
+        return VoltageSystem(ll, ln, 3, "highleg", s)
     if m := _SPLIT_RE.match(s):
         a, b = float(m.group(1)), float(m.group(2))
         ll, ln = max(a, b), min(a, b)

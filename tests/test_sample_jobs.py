@@ -73,7 +73,7 @@ def test_motor_contribution_referred_through_the_transformer(samples):
     assert src["fault_max_a"] == pytest.approx(42_000 + 4 * 46.2 * 208 / 480, rel=1e-9)
 
 
-@pytest.mark.parametrize("name", ["harbor_kitchen", "maple_farmhouse"])
+@pytest.mark.parametrize("name", ["harbor_kitchen", "maple_farmhouse", "juniper_garage"])
 def test_demo_jobs_pass(samples, name):
     r = CliRunner().invoke(main, ["check", str(samples / f"{name}.toml")])
     assert r.exit_code == 0, r.stdout
@@ -92,3 +92,16 @@ def test_no_load_tap_shifts_the_secondary_voltage(samples, write_job):
     v0 = next(n for n in base.nodes if n.id == "T1").values["voltage_pct"]
     v1 = next(n for n in tapped.nodes if n.id == "T1").values["voltage_pct"]
     assert v1 - v0 == pytest.approx(100 / 1.025 - 100, abs=0.05)
+
+
+def test_high_leg_sample_keeps_120_v_loads_off_the_high_leg(samples):
+    """juniper_garage: the 120/240 V office panel takes C-A of the high-leg delta and no
+    one-pole garage circuit sits in a B space (NFPA 70-2023 408.3(E)(1)); the per-leg
+    fault figures are below the three-phase one at the garage panel (A or C to neutral
+    0.69 and B to neutral 0.67 of it at the transformer, IEEE Std 141-1993 ch. 4)."""
+    res = run_job(samples / "juniper_garage.toml")
+    assert not [f for f in res.findings if f.rule_id == "sched-high-leg"]
+    office = res.sheets["OFFICE"]
+    assert ("Lines taken on the feed", "C-A") in office.inputs
+    g = next(n for n in res.nodes if n.id == "GARAGE").values
+    assert g["fault_ln_max_a"] < g["fault_max_a"] and g["fault_high_leg_max_a"] < g["fault_max_a"]

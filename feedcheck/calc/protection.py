@@ -242,6 +242,82 @@ class EgcResult:
     reasoning: str
 
 
+def egc_area_mm2(
+    device_a,
+    material="cu",
+    phase_area_mm2=None,
+    phase_min_area_mm2=None,
+    phase_material=None,
+    *,
+    tables: ProtectionTables,
+):
+    """Least equipment grounding conductor area [mm²] by 250.122(A) and (B): the one rule
+    for runs (:func:`egc_size`) and schedule circuits.
+
+    Method: the Table 250.122 size for the device ahead of the circuit; where the
+    ungrounded conductors are larger than the minimum size that has sufficient ampacity
+    for the intended installation (corrections and adjustments included), that area ×
+    (installed / minimum circular mils) (250.122(B), 2023 wording); never more than
+    the ungrounded conductors (250.122(A)), by area of equal conductance across
+    materials (ρ20 of the EGC material over that of the phase material).
+
+    Parameters
+    ----------
+    device_a : float or array
+        Rating of the overcurrent device ahead of the circuit [A] (≤ 6000).
+    material : str or array
+        EGC material, ``"cu"`` or ``"al"``.
+    phase_area_mm2, phase_min_area_mm2 : float or array, optional
+        Installed ungrounded conductor area and the minimum area with sufficient
+        ampacity for the installation [mm²] (per set). Both or neither.
+    phase_material : str or array, optional
+        Material of the ungrounded conductors (default: the EGC's).
+
+    Returns
+    -------
+    need_mm2, table_mm2, ratio, cap_mm2 : float or ndarray
+        The required area (uncapped), the Table 250.122 area, the circular-mil ratio
+        (≥ 1) and the 250.122(A) cap (inf without ``phase_area_mm2``).
+
+    Examples
+    --------
+    200 A device, 250 kcmil installed where 3/0 AWG suffices: 6 AWG Cu (13.30 mm²,
+    Table 250.122) × 126.7 / 85.03 = 19.82 mm² (250.122(B)).
+
+    >>> need, table, ratio, cap = egc_area_mm2(200.0, "cu", 126.7, 85.03,
+    ...                                        tables=book.protection)
+    >>> round(float(table), 2), round(float(ratio), 3), round(float(need), 2)
+    (13.3, 1.49, 19.82)
+
+    References
+    ----------
+    NFPA 70-2023 250.122(A), (B); Table 250.122.
+    """
+    t = tables
+    d = np.asarray(device_a, float)
+    if not np.all(np.isfinite(d) & (d > 0) & (d <= t.egc_up_to_a[-1])):
+        raise ValueError(
+            f"device_a: got {device_a}; expected a device rating from 1 to "
+            f"{t.egc_up_to_a[-1]:g} A (Table 250.122)"
+        )
+    row = np.searchsorted(t.egc_up_to_a, d * (1 - 1e-12), side="left")
+    gm = material_index(material)
+    cu = AREA_MM2[size_index(np.array(t.egc_cu))]
+    al = AREA_MM2[size_index(np.array(t.egc_al))]
+    table = np.where(gm == 0, cu[row], al[row])
+    if phase_area_mm2 is None or phase_min_area_mm2 is None:
+        shape = np.shape(table)
+        return table, table, np.ones(shape), np.full(shape, np.inf)
+    ps = np.asarray(phase_area_mm2, float)
+    pm = np.asarray(phase_min_area_mm2, float)
+    if not (np.all(ps > 0) and np.all(pm > 0)):
+        raise ValueError("phase_area_mm2, phase_min_area_mm2: expected areas > 0 mm²")
+    ratio = np.where(ps > pm * (1 + 1e-9), ps / pm, 1.0)
+    pmat = material_index(material if phase_material is None else phase_material)
+    cap = ps * t.rho20[gm] / t.rho20[pmat]
+    return table * ratio, table, ratio, cap
+
+
 def egc_size(
     device_a: float,
     material: str = "cu",
@@ -291,40 +367,29 @@ def egc_size(
     NFPA 70-2023 250.122(A), (B), (F); Table 250.122.
     """
     t = tables
-    if not (np.isfinite(device_a) and 0 < device_a <= t.egc_up_to_a[-1]):
-        raise ValueError(
-            f"device_a: got {device_a}; expected a device rating from 1 to "
-            f"{t.egc_up_to_a[-1]:g} A (Table 250.122)"
-        )
     if not (isinstance(sets, int | np.integer) and sets >= 1):
         raise ValueError(f"sets: got {sets}; expected a whole number ≥ 1")
     m = int(material_index(material))
     row = int(np.searchsorted(t.egc_up_to_a, device_a * (1 - 1e-12), side="left"))
-    table_name = (t.egc_cu if m == 0 else t.egc_al)[row]
-    table = SIZES[table_name]
+    table_name = (t.egc_cu if m == 0 else t.egc_al)[min(row, len(t.egc_up_to_a) - 1)]
+    ps = None if phase_size is None else SIZES[phase_size].area_mm2
+    pm = ps if phase_min_size is None or ps is None else SIZES[phase_min_size].area_mm2
+    need, _table, ratio, cap = egc_area_mm2(device_a, material, ps, pm, phase_material, tables=t)
     rules = ["egc-table"]
-    ratio = 1.0
-    area = table.area_mm2
+    ratio, area = float(ratio), float(need)
     why = [f"Table 250.122 gives {table_name} {material} for a {device_a:g} A device"]
-    if phase_size is not None and phase_min_size is not None:
-        ps, pm = AREA_MM2[size_index(phase_size)], AREA_MM2[size_index(phase_min_size)]
-        if ps > pm * (1 + 1e-9):
-            ratio = float(ps / pm)
-            area = table.area_mm2 * ratio
-            rules.append("egc-proportional")
-            why.append(
-                f"phase conductors upsized {SIZE_NAMES[size_index(phase_min_size)]} → "
-                f"{SIZE_NAMES[size_index(phase_size)]} (×{ratio:.3f} circular mils)"
-            )
+    if ratio > 1.0:
+        rules.append("egc-proportional")
+        why.append(
+            f"phase conductors upsized {SIZE_NAMES[size_index(phase_min_size)]} → "
+            f"{SIZE_NAMES[size_index(phase_size)]} (×{ratio:.3f} circular mils)"
+        )
     chosen = smallest_at_least(area, "awg")
     if chosen is None:
         raise ValueError(f"device_a: EGC area {area:.0f} mm² exceeds the largest size")
     capped = False
     if phase_size is not None:
-        pmat = int(material_index(phase_material or material))
-        cap_area = float(AREA_MM2[size_index(phase_size)])
-        if pmat != m:  # equal-conductance area of the EGC material
-            cap_area *= t.rho20[m] / t.rho20[pmat]
+        cap_area = float(cap)  # 250.122(A), equal conductance across materials
         if chosen.area_mm2 > cap_area * (1 + 1e-9):
             capped_size = smallest_at_least(cap_area, "awg") or chosen
             if capped_size.area_mm2 < chosen.area_mm2:

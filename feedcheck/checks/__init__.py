@@ -13,6 +13,7 @@ from ..rulebook import RuleBook
 from .conductors import check_run
 from .context import Context, Load, build_context
 from .fault import check_faults
+from .high_leg import note_high_legs
 from .impedance import fault_assumptions, impedance_rows
 from .lighting import report_minimum_lighting
 from .loads import check_transformer_phases, report_connections
@@ -53,6 +54,7 @@ def check_job(
         check_transformer(ctx, t)
         check_transformer_phases(ctx, t)
     report_connections(ctx)
+    note_high_legs(ctx)
     for p in job.panels:
         check_panel(ctx, p)
     report_minimum_lighting(ctx)

@@ -27,6 +27,7 @@ from .fault_duty import (
     worst_case_figures,
     z0_ratio,
 )
+from .high_leg import min_root_ohm
 from .impedance import (
     branch_impedances,
     fault_assumptions,
@@ -61,14 +62,14 @@ def check_faults(ctx: Context) -> None:
         return arr
 
     zb_max, zb_min = referred(b_max), referred(b_min)
-    # a single-phase transformer on a three-phase node draws through two source lines:
-    # loop = 2·Z_parent, per-phase equivalent 2·Z_parent/√3 (instead of Z_parent)
-    for t in job.transformers:
-        p = tree.parent_node[t.id]
-        if t.secondary.phases == 1 and tree.voltage_of[p].phases == 3:
+    # a single-phase transformer or panel on a three-phase node draws through two source
+    # lines: loop = 2·Z_parent, per-phase equivalent 2·Z_parent/√3 (instead of Z_parent)
+    for n in order[1:]:
+        p = tree.parent_node[n]
+        if tree.voltage_of[n].phases == 1 and tree.voltage_of[p].phases == 3:
             for zb in (zb_max, zb_min):
                 zp = fk.cumulative_impedance_ohm(parent, zb, zs)[pos[p]]
-                zb[pos[t.id]] += (2 / SQRT3 - 1) * zp
+                zb[pos[n]] += (2 / SQRT3 - 1) * zp
     rf = _walk_3ph(job, parent, v_node, zb_max, zb_min, zs, fa, vb)
     ohmic_max_no_motor = rf.fault_max_a
     motor_node = motor_contribution(ctx, fa, vb)  # every motor on the same system
@@ -365,6 +366,8 @@ def _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb) -> dict[str, fl
                 root_z1[i] = z1
                 ratio = z0_ratio(t, fa, "min")
                 root_z0[i] = complex(lg.transformer_zero_sequence_ohm(zt_min, ratio))
+            elif v.kind == "highleg":  # four-wire delta: both legs bounded (high_leg.py)
+                root_z1[i] = min_root_ohm(z1)
             else:  # 120/240 V: half-winding model at 120 V
                 zt_loop = transformer_loop_ohm(t, fa.tolerance_pct, "min")
                 root_z1[i] = split_ln_source_ohm(z1, zt_loop)

@@ -18,11 +18,13 @@ import numpy as np
 
 from ..calc import fault as fk
 from ..calc import fault_duty as dk
+from ..calc import fault_high_leg as hl
 from ..calc import fault_split_phase as sp
 from ..calc.constants import SQRT3
 from ..model import DEVICE_FAMILIES, Transformer
 from .compare import passes
 from .context import Context
+from .high_leg import max_per_leg
 from .impedance import FaultAssumptions, run_impedance_ohm, run_return_impedance_ohm
 
 CASE_WORDS = {
@@ -151,7 +153,12 @@ def worst_case_figures(
         t, v = tx[tid], tree.voltage_of[n]
         zt = transformer_loop_ohm(t, fa.tolerance_pct, "max")
         fig = DutyFigures()
-        if v.kind == "split":
+        if t.secondary.kind == "highleg" and v.kind in ("highleg", "split"):
+            # four-wire delta (and 120/240 V panels on its A-C legs): checks/high_leg.py
+            i_ln, _i_high = max_per_leg(ctx, n, v, z_total_max[tid], z_line[n], fa.c_max)
+            fig.faults_a["ln"] = i_ln + motor_a.get(n, 0.0)
+            fig.x_r["ln"] = float(fk.x_r_ratio(3 * hl.K_AN * z_total_max[tid] + 2 * z_line[n]))
+        elif v.kind == "split":
             z_src = upstream_part(SQRT3 * z_total_max[tid], zt)
             f = sp.split_phase_fault(
                 t.rating_va, v.line_v, t.z_pct, t.x_r, "max", fa.tolerance_pct,
@@ -175,7 +182,7 @@ def worst_case_figures(
 def describe_methods(ctx: Context, fa: FaultAssumptions, figures: dict[str, DutyFigures]):
     """Methods and assumptions of the worst-case duty, stated once."""
     kinds = {k for f in figures.values() for k in f.faults_a}
-    if "ln" in kinds:
+    if "ln" in kinds and any(t.secondary.kind == "split" for t in ctx.job.transformers):
         ctx.method(
             "Line-to-neutral fault of a 120/240 V centre-tapped secondary, half-winding "
             "model: Z_LN = Z_source/4 + (1.5·R_T + j1.2·X_T)/4 + Z_line + Z_neutral at 120 V, "

@@ -58,16 +58,7 @@ def minimum_lighting(job: Job, rules, lighting_va: dict[str, float]) -> list[Lig
 def report_minimum_lighting(ctx) -> None:
     """Findings and sheet steps of the 220.12 minimum (figures from the context)."""
     for m in ctx.lighting_minimum:
-        sh = ctx.sheet(m.panel_id, "panel", f"Panel {m.panel_id}")
-        area_ft2 = m.area_m2 / M2_PER_FT2
-        sh.step(
-            "Minimum general lighting load (220.12)",
-            "unit load × floor area",
-            f"{m.unit_va_per_ft2:g} VA/ft² × {area_ft2:,.0f} ft²",
-            round(m.minimum_va),
-            "VA",
-            m.rule_id,
-        )
+        area_ft2 = m.area_m2 / M2_PER_FT2  # the step is on the demand chain (demand_sheet)
         if m.scheduled_va is None:
             note = (
                 f"no schedule: the lighting on {m.panel_id} is unknown, so the 220.12 "

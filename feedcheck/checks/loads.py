@@ -86,6 +86,7 @@ def roll_up_phases(job: Job, tree: Tree, own: dict) -> dict[str, PhaseLoad]:
     (``phase_cont_a``/``phase_non_a`` when known per line, else spread evenly).
     """
     tx = {t.id: t for t in job.transformers}
+    pairs = {p.id: p.phases_connected for p in job.panels}  # single-phase panels' pairs
     out: dict[str, PhaseLoad] = {}
     for n in tree.order:
         v = tree.voltage_of[n]
@@ -102,11 +103,11 @@ def roll_up_phases(job: Job, tree: Tree, own: dict) -> dict[str, PhaseLoad]:
     for p in reversed(tree.order):
         kids = tree.children(p)
         if kids:
-            _feed_children(tree, tx, p, kids, out)
+            _feed_children(tree, tx, p, kids, out, pairs)
     return out
 
 
-def _feed_children(tree: Tree, tx: dict, p: str, kids: list[str], out: dict) -> None:
+def _feed_children(tree: Tree, tx: dict, p: str, kids: list[str], out: dict, pairs) -> None:
     """Currents each child draws on the lines of ``p``; added to ``p``'s lines."""
     pv = tree.voltage_of[p]
     parent = out[p]
@@ -118,7 +119,7 @@ def _feed_children(tree: Tree, tx: dict, p: str, kids: list[str], out: dict) -> 
     # three-phase node: every child as elements (VA, connection, continuous)
     elements: list[tuple[str, float, float, str]] = []  # (child, cont VA, non VA, conn)
     for c in kids:
-        elements += _elements_of_child(tree, tx.get(c), c, out[c])
+        elements += _elements_of_child(tree, tx.get(c), c, out[c], pairs)
     va = [ce + ne for _, ce, ne, _ in elements]
     conn = pl.assign_connections(va, [e[3] for e in elements], pv.line_v) if elements else []
     for c in kids:
@@ -127,11 +128,23 @@ def _feed_children(tree: Tree, tx: dict, p: str, kids: list[str], out: dict) -> 
             if child != c:
                 continue
             ph = list(pl.CONNECTIONS[used])
+            if given in pl.UNSPECIFIED or out[c].single_phase_feed:
+                out[c].connection, out[c].assigned = used, given in pl.UNSPECIFIED
+            if tx.get(c) is None and out[c].single_phase_feed:
+                _pass_lines(out[c], ph, fc, fn)  # a single-phase panel: its own lines
+                continue
             fc[ph] += pl.element_current_a(ce, used, pv.line_v)
             fn[ph] += pl.element_current_a(ne, used, pv.line_v)
-            if given in pl.UNSPECIFIED:
-                out[c].connection, out[c].assigned = used, True
         _store(out[c], parent, fc, fn)
+
+
+def _pass_lines(load: PhaseLoad, ph: list[int], fc, fn) -> None:
+    """A single-phase panel's line currents onto the pair it takes: a two-wire panel's
+    one current on both lines (S / V_LL), a three-wire panel's lines one to one."""
+    for j, line in enumerate(ph):
+        k = min(j, load.lines - 1)
+        fc[line] += load.cont_a[k]
+        fn[line] += load.non_a[k]
 
 
 def _store(child: PhaseLoad, parent: PhaseLoad, fc, fn) -> None:
@@ -140,11 +153,17 @@ def _store(child: PhaseLoad, parent: PhaseLoad, fc, fn) -> None:
     parent.non_a += fn
 
 
-def _elements_of_child(tree, t: Transformer | None, c: str, load: PhaseLoad):
+def _elements_of_child(tree, t: Transformer | None, c: str, load: PhaseLoad, pairs: dict):
     """A child of a three-phase node as (child, cont VA, non VA, connection) elements."""
     v = tree.voltage_of[c]
     lv = line_v(v)
     cont_va, non_va = load.cont_a * lv, load.non_a * lv
+    if t is None and v.phases == 1:  # a single-phase panel on a pair of lines
+        load.single_phase_feed = True
+        given = pairs.get(c, "") or "LL"
+        if tree.voltage_of[tree.parent_node[c]].kind == "highleg" and v.kind == "split":
+            given = "CA"  # 120 V legs beside the neutral tap (B is the high leg, 408.3(E)(1))
+        return [(c, float(cont_va.sum()), float(non_va.sum()), given)]
     if t is None:  # a panel at the node's own voltage: its lines pass up unchanged
         return [(c, float(cont_va[j]), float(non_va[j]), LETTERS[j]) for j in range(3)]
     if t.primary.phases == 1:
@@ -238,72 +257,32 @@ def check_transformer_phases(ctx, t: Transformer) -> None:
 
 
 def report_connections(ctx) -> None:
-    """Say how single-phase units sit on three-phase feeds; an assigned pair is an
-    assumption of the report and an info finding naming the key that fixes it."""
-    for t in ctx.job.transformers:
-        ph = ctx.phases.get(t.id)
+    """Say how single-phase units and panels sit on three-phase feeds; an assigned pair
+    is an assumption of the report and an info finding naming the key that fixes it."""
+    elements = [(t, "transformer", "Transformer") for t in ctx.job.transformers]
+    elements += [(p, "panel", "Panel") for p in ctx.job.panels]
+    for e, kind, title in elements:
+        ph = ctx.phases.get(e.id)
         if ph is None:
             continue
         if not ph.single_phase_feed:
-            _say_unbalanced_primary(ctx, t, ph)
+            if kind == "transformer":
+                _say_unbalanced_primary(ctx, e, ph)
             continue
         pair = "-".join(ph.connection)
-        sh = ctx.sheet(t.id, "transformer", f"Transformer {t.id}")
+        sh = ctx.sheet(e.id, kind, f"{title} {e.id}")
         sh.inputs.append(("Lines taken on the feed", pair + (" (assigned)" if ph.assigned else "")))
         if ph.assigned:
+            what = "unit" if kind == "transformer" else "panel"
             text = (
-                f"{t.id}: single-phase unit placed on lines {pair} of "
-                f"{ctx.tree.parent_node[t.id]} to balance the phases (the job gives no "
-                f'pair; set phases_connected = "{pair}" on [[transformer]] {t.id} to fix it)'
+                f"{e.id}: single-phase {what} placed on lines {pair} of "
+                f"{ctx.tree.parent_node[e.id]} to balance the phases (the job gives no "
+                f'pair; set phases_connected = "{pair}" on [[{kind}]] {e.id} to fix it)'
             )
             ctx.assume(text)
             ctx.add(
-                t.id, "lines taken on the feed", None, None, "", "info", "phase-connection", text
+                e.id, "lines taken on the feed", None, None, "", "info", "phase-connection", text
             )
-
-
-def demand_chain_steps(chain, sheet) -> None:
-    """The schedule's demand arithmetic on the panel sheet, each step once: connected →
-    demand factors → largest motor 25 % (430.24) → continuous 125 % (215.2(A)(1))."""
-    if chain is None:
-        return
-    kinds = [k for k, v in chain.connected_va.items() if v > 0]
-    sheet.step(
-        "1. Connected load",
-        "Σ circuit loads by kind",
-        " + ".join(f"{k} {chain.connected_va[k]:,.0f}" for k in kinds) or "0",
-        round(float(chain.connected_total_va)),
-        "VA",
-    )
-    sheet.step(
-        "2. After demand factors",
-        "each kind through its tiers (Table 220.42, 220.44; others 100 %)",
-        " + ".join(f"{k} {chain.demand_va[k]:,.0f}" for k in kinds) or "0",
-        round(float(chain.demand_total_va)),
-        "VA",
-    )
-    sheet.step(
-        "3. Largest motor",
-        "+ 25 % of the largest motor (430.24), once",
-        f"0.25 × {float(chain.largest_motor_va):,.0f}",
-        round(float(chain.largest_motor_adder_va)),
-        "VA",
-    )
-    sheet.step(
-        "4. Continuous loads",
-        "+ 25 % of the continuous non-motor demand (215.2(A)(1))",
-        f"0.25 × {float(chain.continuous_demand_va):,.0f}",
-        round(float(chain.continuous_adder_va)),
-        "VA",
-    )
-    sheet.step(
-        "Design load",
-        "step 2 + step 3 + step 4",
-        f"{float(chain.demand_total_va):,.0f} + {float(chain.largest_motor_adder_va):,.0f}"
-        f" + {float(chain.continuous_adder_va):,.0f}",
-        round(float(chain.design_va)),
-        "VA",
-    )
 
 
 def _say_unbalanced_primary(ctx, t: Transformer, ph: PhaseLoad) -> None:

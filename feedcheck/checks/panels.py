@@ -5,7 +5,8 @@ from __future__ import annotations
 from ..calc.power import current_from_apparent_power_a
 from ..model import Panel
 from .context import Context
-from .loads import demand_chain_steps, phase_design_steps
+from .demand_sheet import demand_chain_steps
+from .loads import phase_design_steps
 
 
 def check_panel(ctx: Context, p: Panel) -> None:
@@ -49,7 +50,7 @@ def check_panel(ctx: Context, p: Panel) -> None:
         round(i_load, 1),
         "A",
     )
-    demand_chain_steps(ctx.chains.get(p.id), sh)
+    demand_chain_steps(ctx, p, sh)
     i_design, phase = phase_design_steps(ctx, p.id, sh, "panel-bus-load")
     ctx.nodes[p.id].values.update(
         {"load_va": load.va, "load_a": i_load, "design_current_a": i_design}

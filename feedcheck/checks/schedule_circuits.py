@@ -88,52 +88,62 @@ def ampacities(c: pd.DataFrame, problems: ProblemList, book):
     return np.asarray(derated, float), np.asarray(unadjusted, float), term
 
 
-def min_phase_area(breaker, mat, ins, term, size, *, book):
-    """Area [mm²] of the smallest conductor of the same material and size system that the
-    breaker protects (240.4, at the circuit's insulation and termination columns): the
-    "minimum size that has sufficient ampacity" of 250.122(B). One call per distinct row."""
+def min_phase_area(breaker, need_a, mat, ins, term, ambient, cc, size, *, book):
+    """Area [mm²] of the smallest conductor (same material and size system) with
+    sufficient ampacity for the intended installation: corrected for the circuit's
+    ambient and current-carrying count at its insulation and termination columns
+    (310.15), carrying the circuit's need (125 % continuous, 430.22 motors) and protected
+    by its breaker (240.4): the "minimum size" of 250.122(B), as a run's is
+    (checks/conductors.py). Whole columns; the ampacity kernel once per distinct
+    installation and size."""
     from ..calc.ampacity import ampacity_a
     from ..calc.protection import max_device_a
     from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
+    from .schedule_rules import unique_rows
 
-    out = np.empty(len(breaker))
-    for k, (b, m, i, t, sz) in enumerate(zip(breaker, mat, ins, term, size, strict=True)):
-        order = AWG_KCMIL_ORDER if SIZES[sz].system == "awg" else METRIC_ORDER
-        out[k] = SIZES[sz].area_mm2
-        for name in order:
-            if SIZES[name].area_mm2 >= SIZES[sz].area_mm2:
-                break
+    area = np.array([SIZES[s].area_mm2 for s in size], float)
+    out = area.copy()
+    system = np.array([SIZES[s].system == "awg" for s in size])
+    codes, first = unique_rows(mat, ins, term, ambient, cc, system)
+    for g, f in enumerate(first):
+        idx = np.flatnonzero(codes == g)
+        order = AWG_KCMIL_ORDER if system[f] else METRIC_ORDER
+        amp = np.full(len(order), -np.inf)
+        dev = np.full(len(order), -np.inf)
+        for j, name in enumerate(order):
             try:
-                amp = float(ampacity_a(name, m, i, 30.0, 3, t, tables=book.ampacity))
+                amp[j] = float(
+                    ampacity_a(
+                        name, mat[f], ins[f], ambient[f], cc[f], term[f], tables=book.ampacity
+                    )
+                )
+                dev[j] = float(max_device_a(amp[j], name, mat[f], tables=book.protection))
             except ValueError:
                 continue
-            if float(max_device_a(amp, name, m, tables=book.protection)) >= b - 1e-9:
-                out[k] = SIZES[name].area_mm2
-                break
+        areas = np.array([SIZES[n].area_mm2 for n in order])
+        ok = (
+            (dev[None, :] >= breaker[idx, None] - 1e-9)
+            & (amp[None, :] >= need_a[idx, None] * (1 - 1e-9))
+            & (areas[None, :] < area[idx, None])
+        )
+        has = ok.any(axis=1)
+        out[idx[has]] = areas[np.argmax(ok, axis=1)[has]]
     return out
 
 
 def egc_required_area(breaker, gmat, size, mat, min_area, *, book):
-    """Least EGC area [mm²] by Table 250.122, increased in proportion to the circuit
-    conductors' area over the minimum size (250.122(B)), capped at the circuit
-    conductors (250.122(A))."""
-    from ..calc.conductor import AREA_MM2, material_index, size_index
+    """Least EGC area [mm²]: :func:`feedcheck.calc.protection.egc_area_mm2`, the one
+    250.122(A)/(B) rule runs use too, capped at the circuit conductors (250.122(A))."""
+    from ..calc.protection import egc_area_mm2
+    from ..calc.sizes import SIZES
 
-    t = book.protection
-    row = np.searchsorted(t.egc_up_to_a, breaker * (1 - 1e-12), side="left")
-    row = np.minimum(row, len(t.egc_up_to_a) - 1)
-    cu = AREA_MM2[size_index(np.array(t.egc_cu))]
-    al = AREA_MM2[size_index(np.array(t.egc_al))]
-    gm = material_index(gmat)
-    table_area = np.where(gm == 0, cu[row], al[row])
-    phase_area = AREA_MM2[size_index(size)]
+    phase_area = np.array([SIZES[s].area_mm2 for s in size], float)
     # the installed ground is a standard size, so comparing its area with the grown area
     # is the same as rounding the grown area up to the next standard size
-    need = table_area * np.maximum(phase_area / min_area, 1.0)
-    rho = book.conductors.rho20
-    pm = material_index(mat)
-    cap = phase_area * rho[gm] / rho[pm]
-    return np.minimum(need, cap), table_area
+    need, table, _ratio, cap = egc_area_mm2(
+        breaker, gmat, phase_area, min_area, mat, tables=book.protection
+    )
+    return np.minimum(need, cap), table
 
 
 def _device_limits(q: dict, book) -> None:
@@ -181,12 +191,15 @@ def _grounding(q: dict, c: pd.DataFrame, book) -> None:
         breaker, mat, size, term = q["breaker_a"], q["material"], q["size"], q["termination_c"]
         gm = c["ground_material"].to_numpy(object)
         ins_c = c["insulation_c"].to_numpy(float)
-        min_area = per_unique(
-            min_phase_area,
+        need_a = np.where(q["motor"], q["motor_conductor_a"], q["need_conductor_a"])
+        min_area = min_phase_area(
             breaker[has_g],
+            need_a[has_g],
             mat[has_g],
             ins_c[has_g],
             term[has_g],
+            c["ambient_c"].to_numpy(float)[has_g],
+            c["current_carrying"].to_numpy()[has_g],
             size[has_g],
             book=book,
         )
@@ -272,6 +285,12 @@ def circuit_quantities(
         "system": system.text,
         "two": 2.0,
         "neutral_ok": ~((poles == 1) & (system.neutral_v is None)),
+        # a one-pole circuit in a B space of a high-leg delta: 208 V to neutral
+        "high_leg_ok": ~(
+            (poles == 1)
+            & (system.kind == "highleg")
+            & ((c["circuit"].to_numpy().astype(np.int64) - 1) // 2 % 3 == 1)
+        ),
         "branch_limit_pct": limits["branch"].max_pct,
         "total_limit_pct": limits["total"].max_pct,
     }

@@ -182,6 +182,17 @@ CIRCUIT_RULES: tuple[CircuitRule, ...] = (
         ok_column="neutral_ok",
     ),
     R(
+        "one pole on the high leg",
+        "sched-high-leg",
+        "poles_f",
+        "two",
+        "ok",
+        "poles",
+        "one-pole circuit {circuit} in a B space of {system}: the high leg is 208 V to "
+        "neutral; put 120 V loads on A or C (408.3(E)(1), 110.15)",
+        ok_column="high_leg_ok",
+    ),
+    R(
         "branch voltage drop",
         "",
         "vdrop_pct",

@@ -295,8 +295,10 @@ def _line_currents(current_a, poles, circuit, codes, n_pan: int, system) -> np.n
     owner = np.repeat(np.arange(len(counts)), counts)
     step = np.arange(len(owner)) - np.repeat(np.cumsum(counts) - counts, counts)
     ph = _phase_of_space(np.asarray(circuit)[owner].astype(np.int64) + 2 * step, system)
+    # two-wire: the one line stands for the pair, so a two-pole circuit counts once
+    once = counts[owner] if system.phases != 3 and system.kind != "split" else 1
     return np.bincount(
-        codes[owner] * 3 + ph, weights=current_a[owner], minlength=3 * n_pan
+        codes[owner] * 3 + ph, weights=current_a[owner] / once, minlength=3 * n_pan
     ).reshape(n_pan, 3)
 
 

@@ -17,6 +17,7 @@ from .compare import passes
 from .context import Context
 from .deliverable import COLLAPSED_PCT, source_voltage_pct, transformer_collapsed
 from .drop_rules import DropLimit, job_drop_limits
+from .high_leg import leg_drops
 from .impedance import branch_impedances, fault_assumptions, source_impedance
 from .loads import lines_of
 
@@ -247,6 +248,8 @@ def _run_drop(
             "length_m": run.length_m,
         }
     )
+    if pv.kind == "highleg":
+        leg_drops(ctx, run, ph, r, x, pf)
     figures = (pct, approx_pct, current, pf, kind)
     _feeder_finding(ctx, run, pv, limits["feeder"], upstream_pct, figures)
     return pct

@@ -48,19 +48,29 @@ def tap_pct(r: Reader, t: dict, path: str) -> float:
 PAIR_WORDS = {"AB": "AB", "BA": "AB", "BC": "BC", "CB": "BC", "CA": "CA", "AC": "CA"}
 
 
-def phases_connected(r: Reader, t: dict, path: str, prim) -> str:
-    """``phases_connected = "A-B"``: the pair of lines a single-phase transformer takes
-    on a three-phase feed; "" when not given (assigned to balance by the checks)."""
+def phases_connected(r: Reader, t: dict, path: str, prim, what: str = "transformer") -> str:
+    """``phases_connected = "A-B"``: the pair of lines a single-phase transformer (or a
+    single-phase panel, ``what="panel"``) takes on a three-phase feed; "" when not given
+    (assigned to balance by the checks)."""
     raw = t.get("phases_connected")
     if raw is None:
         return ""
     expected = 'a pair of lines "A-B", "B-C" or "C-A"'
+    key_of = {"transformer": "primary", "panel": "voltage"}[what]
+    if prim is None and what == "panel":
+        r.add(
+            f"{path}.phases_connected",
+            raw,
+            'no value without a single-phase voltage (add voltage = "208 V 1ph" or '
+            '"240/120 V"; a panel without one takes its feed\'s three phases)',
+        )
+        return ""
     if prim is not None and prim.phases != 1:
         r.add(
             f"{path}.phases_connected",
             raw,
-            "no value: only a single-phase unit takes "
-            "a pair of lines (this transformer is three-phase)",
+            f"no value: only a single-phase {what} takes a pair of lines (this {what}'s "
+            f"{key_of} {prim.text!r} is three-phase)",
         )
         return ""
     text = raw.upper() if isinstance(raw, str) else ""

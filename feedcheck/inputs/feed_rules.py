@@ -153,15 +153,8 @@ def check_voltages(
 ) -> None:
     """Each element's stated voltage must match the voltage of the node that feeds it."""
     for i, pn in enumerate(panels, start=1):
-        if pn.voltage is None:
-            continue
-        have = tree.voltage_of[pn.id]
-        if abs(have.line_v - pn.voltage.line_v) > 0.5 or have.phases != pn.voltage.phases:
-            r.add(
-                f"panel[{i}].voltage",
-                pn.voltage.text,
-                f"the voltage of the feed that reaches it ({have.text})",
-            )
+        if pn.voltage is not None:
+            _check_panel_voltage(r, i, pn, tree.voltage_of[tree.parent_node[pn.id]])
     for i, t in enumerate(transformers, start=1):
         have = tree.voltage_of[tree.parent_node[t.id]]
         if t.primary and (
@@ -172,3 +165,39 @@ def check_voltages(
                 t.primary.text,
                 f"the voltage of what feeds it ({have.text})",
             )
+
+
+def _check_panel_voltage(r: Reader, i: int, pn: Panel, have) -> None:
+    """A panel's stated voltage against its feed; a single-phase panel on a three-phase
+    feed (line voltage equal, a neutral only where the feed has one at that voltage) and
+    its pair (120/240 V on a high-leg delta: C-A, beside the neutral tap)."""
+    pair = pn.phases_connected
+    if abs(have.line_v - pn.voltage.line_v) > 0.5 or have.phases < pn.voltage.phases:
+        r.add(
+            f"panel[{i}].voltage",
+            pn.voltage.text,
+            f"the voltage of the feed that reaches it ({have.text})",
+        )
+    elif pair and have.phases != 3:
+        r.add(
+            f"panel[{i}].phases_connected",
+            f"{pair[0]}-{pair[1]}",
+            f"no value: the feed ({have.text}) is not three-phase, the panel takes its lines",
+        )
+    elif have.kind == "highleg" and pn.voltage.kind == "split" and pair not in ("", "CA"):
+        r.add(
+            f"panel[{i}].phases_connected",
+            f"{pair[0]}-{pair[1]}",
+            '"C-A" or none: a 120/240 V panel on a high-leg delta takes the legs beside '
+            "the neutral tap (B is the high leg, 208 V to neutral; 408.3(E)(1))",
+        )
+    elif pn.voltage.neutral_v is not None and (
+        have.neutral_v is None or abs(have.neutral_v - pn.voltage.neutral_v) > 0.5
+    ):
+        have_n = "none" if have.neutral_v is None else f"{have.neutral_v:g} V"
+        r.add(
+            f"panel[{i}].voltage",
+            pn.voltage.text,
+            f"a voltage without a neutral, or a feed with a {pn.voltage.neutral_v:g} V "
+            f"neutral ({have.text} has {have_n})",
+        )

@@ -120,6 +120,7 @@ PANEL_KEYS = (
     "area",
     "device_type",
     "columns",
+    "phases_connected",
 )
 MOTOR_KEYS = ("id", "panel", "full_load", "hp", "locked_rotor", "length", "conductors", "raceway")
 OPTION_KEYS = (
@@ -531,7 +532,7 @@ def _panel(r: Reader, t: dict, path: str, folder: Path) -> Panel:
         interrupting_a=r.qty(
             t, path, "interrupting", "current", required=False, within=_INTERRUPTING
         ),
-        voltage=r.voltage(t, path, "voltage", required=False),
+        voltage=(pv := r.voltage(t, path, "voltage", required=False)),
         schedule=sched,
         load_va=load,
         continuous_va=cont or 0.0,
@@ -541,6 +542,7 @@ def _panel(r: Reader, t: dict, path: str, folder: Path) -> Panel:
         area_m2=_area(r, t, path),
         device_type=_device_type(r, t, path),
         schedule_columns=_schedule_columns(r, t, path),
+        phases_connected=_phases_connected(r, t, path, pv, "panel"),
     )
 
 

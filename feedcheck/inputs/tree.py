@@ -41,6 +41,8 @@ def build_tree(
         order.append(n)
         stack.extend(reversed(children.get(n, [])))
     tx = {t.id: t for t in transformers}
+    # a single-phase panel (e.g. "208 V 1ph") on two lines of a three-phase feed
+    own_v = {p.id: p.voltage for p in panels if p.voltage is not None and p.voltage.phases == 1}
     voltage_of: dict[str, VoltageSystem] = {}
     upstream: dict[str, str | None] = {}
     distance: dict[str, float] = {}
@@ -56,5 +58,7 @@ def build_tree(
             upstream[n] = n
         else:
             voltage_of[n] = voltage_of[p]
+            if n in own_v and voltage_of[p].phases == 3:
+                voltage_of[n] = own_v[n]
             upstream[n] = upstream[p]
     return Tree(tuple(order), kind, parent_node, parent_run, voltage_of, upstream, distance)

@@ -46,7 +46,7 @@ APPARENT = "an apparent power in VA, kVA or MVA, e.g. '75 kVA' (not W, hp or var
 SIZES = "a standard size: 14 AWG … 4/0 AWG, 250 … 2000 kcmil, or 1.5 … 630 mm2"
 VSYS = (
     "a system voltage such as '480 V delta', '208Y/120 V', '480Y/277 V', "
-    "'120/240 V' (single-phase three-wire), '240 V' or '480 V'"
+    "'120/240 V' (single-phase three-wire), '240/120 V high-leg delta', '240 V' or '480 V'"
 )
 NODE = "the id of the source, a transformer or a panel"
 INSIDE = "a path inside the job file's folder (no absolute paths, no '..')"
@@ -188,7 +188,7 @@ CASES = [
     ('phases-mismatch', 'secondary = "208Y/120 V"', 'secondary = "120/240 V"',
      [("transformer[1].secondary got '120/240 V'; expected a 3-phase secondary like the 3-phase primary (480 V delta)", '120/240 V')]),
     ('misspelt-key', 'rating = "100 A"', 'ratting = "100 A"',
-     [("panel[2].ratting got 'ratting'; expected one of the keys id, rating, main_device, interrupting, voltage, schedule, load, continuous, power_factor, instantaneous_trip, occupancy, area, device_type, columns — did you mean 'rating'?", 'ratting'), ("panel[2].rating got (missing); expected a value for 'rating' (required)", ('[[panel]]', 2))]),
+     [("panel[2].ratting got 'ratting'; expected one of the keys id, rating, main_device, interrupting, voltage, schedule, load, continuous, power_factor, instantaneous_trip, occupancy, area, device_type, columns, phases_connected — did you mean 'rating'?", 'ratting'), ("panel[2].rating got (missing); expected a value for 'rating' (required)", ('[[panel]]', 2))]),
     ('missing-required', 'primary_device = "175 A"\n', '',
      [("transformer[1].primary_device got (missing); expected a value for 'primary_device' (required)", '[[transformer]]')]),
     ('single-bracket-transformer', '[[transformer]]', '[transformer]',

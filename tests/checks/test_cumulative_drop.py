@@ -80,3 +80,21 @@ def test_feeder_limit_counts_every_run_to_the_panel(check_json):
     assert fb["value"] == pytest.approx(a["vdrop_pct"] + b["vdrop_pct"], rel=1e-9)
     assert fb["value"] == pytest.approx(2 * hand, rel=0.03) and fb["limit"] == 3.0
     assert fb["status"] == "warn"  # the recommended (informational) limits warn
+
+
+def test_total_limit_counts_feeder_and_branch(check_json, tmp_path):
+    """The 5 % of 215.2(A)(1) Informational Note No. 2 (NFPA 70-2023) is feeder plus
+    branch: a 1,200 VA 120 V circuit over 100 ft of 12 AWG Cu (R = 2.0 Ω/kft, NFPA
+    70-2023 Ch. 9 Table 9; pf 1) drops 2 × 10 A × 0.1 kft × 2.0 Ω/kft = 4.0 V = 3.33 %
+    (IEEE Std 141-1993 ch. 3), held together with the drop of both feeder runs before it."""
+    (tmp_path / "P2.csv").write_text(
+        "circuit,poles,load [VA],pf,breaker [A],conductor,length [ft]\n"
+        "1,1,1200,1,20,12 AWG Cu,100\n",
+        encoding="utf-8",
+    )
+    doc = check_json(TWO_RUNS.replace('load = "36 kVA"', 'schedule = "P2.csv"'))
+    feeder = run(doc, "A")["vdrop_pct"] + run(doc, "B")["vdrop_pct"]
+    assert run(doc, "B")["feeder_vdrop_pct"] == pytest.approx(feeder)
+    c = doc["schedules"]["P2"]["circuits"][0]
+    assert c["vdrop_pct"] == pytest.approx(4.0 / 120 * 100, rel=0.03)
+    assert c["total_vdrop_pct"] == pytest.approx(feeder + c["vdrop_pct"], rel=1e-9)
