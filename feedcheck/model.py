@@ -220,6 +220,7 @@ class Motor:
     device_type: str = "inverse-time-breaker"  # one of MOTOR_DEVICES
     motor_type: str | None = None  # one of MOTOR_TYPES; None: by phases
     disconnect_a: float | None = None  # disconnecting means ampere rating
+    termination_c: float | None = None  # branch terminations [°C]; None: by 110.14(C)(1)
 
 
 @dataclass(frozen=True)

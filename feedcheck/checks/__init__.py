@@ -16,6 +16,7 @@ from .fault import check_faults
 from .impedance import fault_assumptions
 from .lighting import report_minimum_lighting
 from .loads import check_transformer_phases, report_connections
+from .motors import check_motors
 from .panels import check_panel, check_standard_ratings
 from .summary import describe_results
 from .transformer import check_transformer
@@ -55,6 +56,7 @@ def check_job(
     report_connections(ctx)
     for p in job.panels:
         check_panel(ctx, p)
+    check_motors(ctx)
     report_minimum_lighting(ctx)
     check_standard_ratings(ctx)
     check_faults(ctx)

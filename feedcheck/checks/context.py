@@ -51,6 +51,7 @@ class Context:
     phases: dict[str, PhaseLoad] = field(default_factory=dict)  # line currents per node
     lighting_minimum: list = field(default_factory=list)  # 220.12 figures (checks/lighting)
     chains: dict = field(default_factory=dict)  # panel id -> DemandChain of its schedule
+    motor_loads: dict = field(default_factory=dict)  # panel id -> motors' 430.24 shares
 
     def design_factor(self) -> float:
         """The continuous-load factor (rule device-continuous-125)."""
@@ -145,6 +146,9 @@ def build_context(
         elif p.load_va is not None:
             own[p.id] = Load(p.load_va, p.continuous_va, p.load_va * p.pf)
     minima = _add_minimum_lighting(job, book, own)
+    from .motors import add_motor_loads
+
+    motor_loads = add_motor_loads(job, book, own)
     loads = {n: Load(o.va, o.continuous_va, o.w) for n, o in own.items()}
     for n in reversed(tree.order):
         parent = tree.parent_node[n]
@@ -155,6 +159,7 @@ def build_context(
     ctx = Context(job, tree, loads, book, calc_date=calc_date)
     ctx.phases = roll_up_phases(job, tree, own)
     ctx.lighting_minimum = minima
+    ctx.motor_loads = motor_loads
     ctx.chains = {n: o.chain for n, o in own.items() if o.chain is not None}
     return ctx
 

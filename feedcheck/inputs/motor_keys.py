@@ -34,6 +34,7 @@ MOTOR_KEYS = (
     "length",
     "conductors",
     "raceway",
+    "termination",
 )
 VOLTAGE_MATCH = 0.10  # a rated motor voltage within 10 % of the system voltage it is on
 
@@ -72,8 +73,18 @@ def read_motor(r: Reader, t: dict, path: str) -> Motor:
         device_type=_word(r, t, path, "device_type", tuple(MOTOR_DEVICES), "inverse-time-breaker"),
         motor_type=_word(r, t, path, "motor_type", MOTOR_TYPES, None),
         disconnect_a=r.qty(t, path, "disconnect", "current", required=False),
+        termination_c=_termination(r, t, path),
         **motor_branch(r, t, path),
     )
+
+
+def _termination(r: Reader, t: dict, path: str) -> float | None:
+    """Termination temperature of the motor's branch conductors [°C] (None: 110.14(C)(1))."""
+    term = r.qty(t, path, "termination", "temperature", required=False, must_be_positive=False)
+    if term is not None and term not in (60.0, 75.0, 90.0):
+        r.add(f"{path}.termination", t.get("termination"), "'60 degC', '75 degC' or '90 degC'")
+        return None
+    return term
 
 
 def _word(r: Reader, t: dict, path: str, key: str, words: tuple, default):
