@@ -47,9 +47,13 @@ def check_motor_starting(ctx: Context) -> None:
         row = next(r for r in lr if r["hp_to"] >= hp) if m.hp is not None else lr[-1]
         i_lr = m.locked_rotor_a if m.locked_rotor_a else float(row["lr_multiple"]) * m.full_load_a
         pf_start = float(row["starting_pf"])
-        if v.phases == 3:
+        phases = m.phases or v.phases
+        if phases == 3:
             es = v.line_v / SQRT3
             zr, zx = z_node.real, z_node.imag
+        elif v.phases == 3:  # a single-phase motor on two lines: the loop of both lines
+            es = v.line_v
+            zr, zx = 2 * z_node.real, 2 * z_node.imag
         else:
             es = v.line_v
             zr, zx = (z_node * SQRT3).real, (z_node * SQRT3).imag
@@ -70,7 +74,7 @@ def check_motor_starting(ctx: Context) -> None:
             "loads on the panel see this dip",
             fail_status=str(other["status"]),
         )
-        br, bx, where = _motor_branch(ctx, m, v.phases)
+        br, bx, where = _motor_branch(ctx, m, phases)
         vt = float(ms.motor_starting_voltage_pct(es, i_lr, pf_start, zr + br, zx + bx, es))
         dip = 100.0 - vt
         ctx.compare(

@@ -117,3 +117,19 @@ def test_kw_rating_takes_the_table_row(check_json):
     f = finding(check_json(text), "M", "disconnect rating")
     assert f["limit"] == pytest.approx(1.15 * FLC_10HP_208)
     assert f["status"] == "fail"
+
+
+def test_single_phase_motor_on_three_phase_panel(check_json):
+    """A 5 hp single-phase motor at 208 V: 30.8 A (NFPA 70 Table 430.248, 208 V column,
+    read in the 1999 table, believed unchanged in 2023, from memory) on two lines of
+    the 208Y/120 V panel; its starting dip is computed over the loop of both lines."""
+    text = job_text(load_kva=0.001) + (
+        '\n[[motor]]\nid = "P1"\npanel = "P"\nhp = 5\nphases = 1\nlocked_rotor = "180 A"\n'
+    )
+    doc = check_json(text)
+    f = finding(doc, "P1", "disconnect rating")
+    assert f["limit"] == pytest.approx(1.15 * 30.8)
+    # two lines carry 30.8 A + its 25 % (largest motor), the third none of it
+    assert node(doc, "P")["design_current_a"] == pytest.approx(1.25 * 30.8, rel=1e-3)
+    dip = finding(doc, "P1", "starting dip at the panel")
+    assert 0 < dip["value"] < 100
