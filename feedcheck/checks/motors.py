@@ -194,7 +194,7 @@ def _branch_conductor(ctx: Context, m: Motor, sheet) -> None:
         "Branch conductor ampacity needed (430.22)",
         f"{rule.number('limit'):g} % × FLC",
         f"{rule.number('limit') / 100:g} × {m.full_load_a:g} A",
-        round(need, 1),
+        need,
         "A",
         "motor-branch-conductor",
     )
@@ -268,7 +268,7 @@ def _disconnect(ctx: Context, m: Motor, sheet) -> None:
         "Disconnecting means rating needed (430.110(A))",
         f"{rule.number('limit'):g} % × FLC",
         f"{rule.number('limit') / 100:g} × {m.full_load_a:g} A",
-        round(need, 1),
+        need,
         "A",
         "motor-disconnect",
     )
