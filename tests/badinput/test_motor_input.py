@@ -132,3 +132,26 @@ def test_voltage_no_table_column(tmp_path):
     assert line.startswith(
         f"error: {job}:{at}: motor[1].voltage got '277 V'; expected a voltage Table 430.248 (NFPA 70, 430.6(A)(1)) has a column for: "
     )
+
+
+def test_template_motor_block_uncommented_checks(tmp_path):
+    """`feedcheck init`'s commented [[motor]] block, uncommented, is a valid motor:
+    10 hp at 200 V is 32.2 A (NFPA 70 Table 430.250, 2008 copy; 2023 from memory), so the
+    disconnect needs 1.15 × 32.2 = 37.03 A (430.110(A))."""
+    import json
+
+    from feedcheck.template import TEMPLATE
+
+    lines, on = [], False
+    for line in TEMPLATE.splitlines():
+        on = (on or line.startswith("# [[motor]]")) and not line.startswith("# [options]")
+        lines.append(line[2:] if on and line.startswith("# ") else line)
+    job = tmp_path / "job.toml"
+    job.write_text("\n".join(lines), encoding="utf-8")
+    r = cli("check", job, "--format", "json")
+    assert r.exit_code in (0, 1), r.output
+    doc = json.loads(r.stdout)
+    f = next(
+        x for x in doc["findings"] if x["subject"] == "EF-1" and x["check"] == "disconnect rating"
+    )
+    assert f["limit"] == pytest.approx(1.15 * 32.2)
