@@ -146,7 +146,7 @@ def build_context(
         elif p.load_va is not None:
             own[p.id] = Load(p.load_va, p.continuous_va, p.load_va * p.pf)
     minima = _add_minimum_lighting(job, book, own)
-    from .motors import add_motor_loads
+    from .motor_loads import add_motor_loads
 
     motor_loads = add_motor_loads(job, book, own)
     loads = {n: Load(o.va, o.continuous_va, o.w) for n, o in own.items()}
