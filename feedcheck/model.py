@@ -67,6 +67,22 @@ DEVICE_FAMILIES = {
 # tap rules a run without an overcurrent device may be built under (run key tap_rule):
 # NFPA 70 240.21(B)(1), (B)(2), (C)(2), (C)(6)
 TAP_RULES = ("10 ft", "25 ft", "transformer secondary 10 ft", "transformer secondary 25 ft")
+# a motor's branch short-circuit and ground-fault device (motor key device_type) -> its
+# column of tables/motor_branch_device_max.csv (Table 430.52)
+MOTOR_DEVICES = {
+    "inverse-time-breaker": "inverse_time_breaker_pct",
+    "instantaneous-breaker": "instantaneous_breaker_pct",
+    "time-delay-fuse": "time_delay_fuse_pct",
+    "nontime-delay-fuse": "nontime_delay_fuse_pct",
+}
+# motor kinds of Table 430.52 (motor key motor_type; the table's motor_type column)
+MOTOR_TYPES = (
+    "single-phase",
+    "squirrel-cage",
+    "design-b-energy-efficient",
+    "synchronous",
+    "wound-rotor",
+)
 
 
 @dataclass(frozen=True)
@@ -187,6 +203,10 @@ class Run:
 
 @dataclass(frozen=True)
 class Motor:
+    """A motor on a panel. ``full_load_a`` is the current conductors and devices are
+    sized from: the table current of 430.6(A)(1) when the motor gives ``hp`` (or kW),
+    else the nameplate current typed in (``flc_basis`` says which)."""
+
     id: str
     panel_id: str
     full_load_a: float
@@ -197,6 +217,18 @@ class Motor:
     size: Size | None = None
     material: str = "cu"
     raceway: str = "steel"
+    nameplate_a: float | None = None  # nameplate full-load current, as typed
+    kw: float | None = None  # rating as typed in kW (hp = kW × 1000 / 746)
+    phases: int | None = None  # 1 or 3; None: the panel's
+    voltage_v: float | None = None  # rated motor voltage as typed; None: the panel's
+    flc_basis: str = ""  # "table" (430.6(A)(1)) or "nameplate"
+    flc_rule_id: str = ""  # row of the full-load current table used
+    flc_column_v: float | None = None  # voltage column of that table used [V]
+    device_a: float | None = None  # branch short-circuit and ground-fault device
+    device_type: str = "inverse-time-breaker"  # one of MOTOR_DEVICES
+    motor_type: str | None = None  # one of MOTOR_TYPES; None: by phases
+    disconnect_a: float | None = None  # disconnecting means ampere rating
+    termination_c: float | None = None  # branch terminations [°C]; None: by 110.14(C)(1)
 
 
 @dataclass(frozen=True)

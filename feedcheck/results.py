@@ -114,6 +114,8 @@ class DiagramMotor:
     full_load_a: float
     locked_rotor_a: float | None
     hp: float | None
+    flc_source: str = ""  # "Table 430.250", or "nameplate" when typed in without hp
+    phases: int | None = None
 
 
 @dataclass(frozen=True)

@@ -36,6 +36,7 @@ from .calc.conductor import (
     material_index,
     size_index,
 )
+from .calc.motors import MotorFlcTable, MotorFlcTables
 from .calc.protection import ProtectionTables
 from .calc.selection import SizingData
 from .calc.sizes import SIZES, parse_size
@@ -151,6 +152,8 @@ class RuleBook:
         Every standard device rating of Table 240.6(A) [A], ascending.
     tables_dir : Path or None
         The user's folder the book was built with (``--tables DIR``), if any.
+    motor_flc : MotorFlcTables
+        Motor full-load currents, Tables 430.248 and 430.250 (430.6(A)(1)).
     """
 
     tables: Mapping[str, Table]
@@ -166,6 +169,7 @@ class RuleBook:
     _rules: Mapping[str, RuleRow]
     _rows: dict = field(default_factory=dict, compare=False, repr=False)
     _index: dict = field(default_factory=dict, compare=False, repr=False)
+    motor_flc: MotorFlcTables | None = None
 
     @property
     def sizing(self) -> SizingData:
@@ -466,6 +470,24 @@ def _withstand(tabs: Mapping[str, Table]) -> WithstandData:
     )
 
 
+def _motor_flc(tabs: Mapping[str, Table]) -> MotorFlcTables:
+    """Tables 430.248 and 430.250 as arrays (columns ``flc_<V>v_a``, blank = no current)."""
+
+    def one(name: str, title: str) -> MotorFlcTable:
+        df = tabs[name].data
+        return MotorFlcTable.from_named_columns(
+            df["hp"].to_numpy(float),
+            {c: df[c].to_numpy(float) for c in df.columns if "flc_" in str(c)},
+            tuple(df["rule_id"].astype(str)),
+            title,
+        )
+
+    return MotorFlcTables(
+        one("motor_flc_single_phase", "Table 430.248"),
+        one("motor_flc_three_phase", "Table 430.250"),
+    )
+
+
 def _rules(tabs: Mapping[str, Table]) -> dict[str, RuleRow]:
     """Index of every row of every table keyed by ``rule_id``; an id in two tables is
     an error naming both."""
@@ -534,6 +556,7 @@ def build_rulebook(user_dir: str | Path | None = None) -> RuleBook:
         tabs["device_ratings"].data["rating_a"].to_numpy(float),
         udir,
         MappingProxyType(rules),
+        motor_flc=_motor_flc(tabs),
     )
 
 

@@ -76,13 +76,21 @@ power_factor = 0.9
 #                              # with area also office, store, school, industrial, ... (220.12)
 # area = "12000 ft2"           # floor area served: minimum lighting load of Table 220.12
 
-# [[motor]]                    # optional: motors, for fault contribution and starting dip
+# [[motor]]                    # optional: motors (not counted in the panel's load above)
 # id = "EF-1"
 # panel = "LP1"
-# full_load = "30.8 A"
+# hp = 10                      # or kw = 7.5 (746 W/hp): full-load current from Table
+#                              # 430.248/430.250 at the panel's voltage (430.6(A)(1))
+# phases = 3                   # optional; default the panel's
+# voltage = "200 V"            # optional rated motor voltage; default the panel's
+# full_load = "28 A"           # optional nameplate current (overload); not used for sizing
 # locked_rotor = "185 A"       # optional; at least the full-load current
+# device = "80 A"              # optional branch device, Table 430.52 (430.52(C)(1))
+# device_type = "inverse-time-breaker"   # or time-delay-fuse, nontime-delay-fuse, ...
+# disconnect = "60 A"          # optional disconnect rating, at least 115 % FLC (430.110(A))
 # length = "120 ft"            # optional branch run to the motor (with conductors):
-# conductors = "8 AWG Cu"      # the starting dip is then computed at its terminals
+# conductors = "8 AWG Cu"      # 125 % FLC (430.22) and the starting dip at its terminals
+# termination = "75 degC"      # optional; default by 110.14(C)(1)
 
 # [options]
 # impedance_tolerance = "7.5 %"   # transformer %Z tolerance (IEEE C57.12.00)

@@ -179,7 +179,9 @@ def test_override_of_each_fault_assumption_is_honoured(tmp_path, write_job, rule
     elif rule_id == "fault-z0-ratio-min":
         assert wye["nodes"]["P1"]["fault_lg_min_a"] != base_wye["nodes"]["P1"]["fault_lg_min_a"]
     elif rule_id == "fault-motor-multiple":
-        assert wye["nodes"]["P1"]["fault_motor_a"] == pytest.approx(5 * 28.0)
+        # the table full-load current, not the 28 A nameplate: 10 hp at 208 V is 30.8 A
+        # (NFPA 70-2023 Table 430.250; 430.6(A)(1))
+        assert wye["nodes"]["P1"]["fault_motor_a"] == pytest.approx(5 * 30.8)
     elif rule_id == "fault-ptp-disagree":
         lim = [f[3] for f in wye["findings"] if f[1] == "point-to-point vs ohmic"]
         assert lim and all(x == 50.0 for x in lim)

@@ -30,7 +30,9 @@ def test_review_job_long_run_names_the_smallest_passing_conductor(samples, write
     text = (samples / "cedar_annex_review.toml").read_text()
     fixed = run_job(write_job(text.replace('conductors = "1 AWG Cu"', 'conductors = "1/0 AWG Cu"')))
     g = next(x for x in fixed.findings if x.subject == "F-RTU" and x.check == "feeder voltage drop")
-    i = 24e3 / (math.sqrt(3) * 208)
+    # 3 kVA of other load + the 15 hp motor at 430.24: 46.2 A (Table 430.250, 208 V)
+    # plus its 25 % as the largest motor; both at pf 0.85
+    i = 3e3 / (math.sqrt(3) * 208) + 1.25 * 46.2
     ze = 0.12 * 0.85 + 0.044 * math.sqrt(1 - 0.85**2)
     hand_pct = math.sqrt(3) * i * 0.420 * ze / 208 * 100
     runs = {r["id"]: r for r in fixed.runs}
@@ -61,8 +63,8 @@ def test_motor_starting_dip_is_reported(samples):
     f = next(x for x in res.findings if x.subject == "RTU-1" and x.check == "motor starting dip")
     assert f.rule_id == "ms-motor-terminals"
     assert 0 < f.value < 100
-    g = next(x for x in res.findings if x.subject == "RTU-1" and x.check != f.check)
-    assert g.rule_id == "ms-other-loads" and g.value == f.value  # no branch run in the job
+    g = next(x for x in res.findings if x.subject == "RTU-1" and x.rule_id == "ms-other-loads")
+    assert 0 < g.value < f.value  # the branch run adds to the dip at the terminals
 
 
 def test_motor_contribution_referred_through_the_transformer(samples):

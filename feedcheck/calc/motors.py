@@ -55,12 +55,15 @@ class MotorFlcTable:
         Full-load current [A]; NaN where the table lists none (a dash).
     rule_id : tuple of str
         Row ids of the table (for the finding and the calculation sheet).
+    title : str
+        The table as cited on the calculation sheet (``"Table 430.250"``).
     """
 
     hp: np.ndarray
     voltage_v: np.ndarray
     flc_a: np.ndarray
     rule_id: tuple[str, ...] = ()
+    title: str = ""  # the table's name as cited ("Table 430.250")
 
     def __post_init__(self):
         hp = np.asarray(self.hp, dtype=float)
@@ -79,7 +82,7 @@ class MotorFlcTable:
         object.__setattr__(self, "flc_a", f)
 
     @classmethod
-    def from_named_columns(cls, hp, columns, rule_id=()) -> MotorFlcTable:
+    def from_named_columns(cls, hp, columns, rule_id=(), title="") -> MotorFlcTable:
         """Build from columns named ``flc_<V>v_a`` (``opt_`` prefix allowed).
 
         ``columns`` maps a column name to its values (NaN where not listed); other names
@@ -107,7 +110,24 @@ class MotorFlcTable:
             np.array([v for v, _ in found]),
             np.column_stack([c for _, c in found]),
             tuple(rule_id),
+            title,
         )
+
+
+@dataclass(frozen=True)
+class MotorFlcTables:
+    """The two full-load current tables of 430.6(A)(1), built by the rule book
+    (``book.motor_flc``): single-phase (Table 430.248) and three-phase (Table 430.250).
+    """
+
+    single: MotorFlcTable
+    three: MotorFlcTable
+
+    def for_phases(self, phases: int) -> MotorFlcTable:
+        """The table of a motor with ``phases`` (1 or 3)."""
+        if phases not in (1, 3):
+            raise ValueError(f"phases: got {phases!r}; expected 1 or 3")
+        return self.single if phases == 1 else self.three
 
 
 def hp_from_kw(power_kw):

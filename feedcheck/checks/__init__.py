@@ -17,6 +17,7 @@ from .high_leg import note_high_legs
 from .impedance import fault_assumptions, impedance_rows
 from .lighting import report_minimum_lighting
 from .loads import check_transformer_phases, report_connections
+from .motors import check_motors
 from .panels import check_panel, check_standard_ratings
 from .summary import describe_results
 from .transformer import check_transformer
@@ -57,6 +58,7 @@ def check_job(
     note_high_legs(ctx)
     for p in job.panels:
         check_panel(ctx, p)
+    check_motors(ctx)
     report_minimum_lighting(ctx)
     check_standard_ratings(ctx)
     ctx.impedance_rows = impedance_rows(ctx)

@@ -57,6 +57,7 @@ class Context:
     reading_by_subject: list[Mapping[str, Sequence[RowUse]]] = field(default_factory=list)
     # node or run id -> unconfirmed rows its impedance path reads (checks/impedance.py)
     impedance_rows: dict[str, tuple[RowUse, ...]] = field(default_factory=dict)
+    motor_loads: dict = field(default_factory=dict)  # panel id -> motors' 430.24 shares
 
     def design_factor(self) -> float:
         """The continuous-load factor (rule device-continuous-125)."""
@@ -200,6 +201,9 @@ def build_context(
         elif p.load_va is not None:
             own[p.id] = Load(p.load_va, p.continuous_va, p.load_va * p.pf)
     minima = _add_minimum_lighting(job, book, own)
+    from .motor_loads import add_motor_loads
+
+    motor_loads = add_motor_loads(job, book, own)
     loads = {n: Load(o.va, o.continuous_va, o.w) for n, o in own.items()}
     for n in reversed(tree.order):
         parent = tree.parent_node[n]
@@ -210,6 +214,7 @@ def build_context(
     ctx = Context(job, tree, loads, book, calc_date=calc_date)
     ctx.phases = roll_up_phases(job, tree, own)
     ctx.lighting_minimum = minima
+    ctx.motor_loads = motor_loads
     ctx.chains = {n: o.chain for n, o in own.items() if o.chain is not None}
     return ctx
 

@@ -51,6 +51,10 @@ def check_panel(ctx: Context, p: Panel) -> None:
         "A",
     )
     demand_chain_steps(ctx, p, sh)
+    if p.id in ctx.motor_loads:
+        from .motors import panel_motor_steps
+
+        panel_motor_steps(sh, *ctx.motor_loads[p.id])
     i_design, phase = phase_design_steps(ctx, p.id, sh, "panel-bus-load")
     ctx.nodes[p.id].values.update(
         {"load_va": load.va, "load_a": i_load, "design_current_a": i_design}

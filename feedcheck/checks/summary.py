@@ -110,7 +110,16 @@ def feed_diagram(ctx: Context) -> Diagram:
         for r in job.runs
     )
     motors = tuple(
-        DiagramMotor(m.id, m.panel_id, m.full_load_a, m.locked_rotor_a, m.hp) for m in job.motors
+        DiagramMotor(
+            m.id,
+            m.panel_id,
+            m.full_load_a,
+            m.locked_rotor_a,
+            m.hp,
+            _flc_source(m, job.tree.voltage_of[m.panel_id].phases),
+            m.phases,
+        )
+        for m in job.motors
     )
     return Diagram(tuple(nodes), runs, motors)
 
@@ -144,3 +153,10 @@ def table_provenance(table: Table) -> TableProvenance:
         sha256=table.sha256,
         row_confidence=rows,
     )
+
+
+def _flc_source(m, panel_phases: int) -> str:
+    """Where a motor's full-load current comes from, as the diagram names it."""
+    if m.flc_basis != "table":
+        return "nameplate"
+    return "Table 430.248" if (m.phases or panel_phases) == 1 else "Table 430.250"

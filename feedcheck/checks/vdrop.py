@@ -1,6 +1,7 @@
 """Voltage drop from the source to every panel: transformer regulation (with its
 tap) and each run's drop by the exact phasor form, the approximate form beside it;
-limits as rules; the smallest conductor that would pass; motor starting dip."""
+limits as rules; the smallest conductor that would pass. The motor starting dip follows
+(checks/motor_start.py)."""
 
 from __future__ import annotations
 
@@ -11,15 +12,15 @@ import numpy as np
 from ..calc import conductor as ck
 from ..calc import transformer as tk
 from ..calc import vdrop as vk
-from ..calc.constants import M_PER_FT, SQRT3
+from ..calc.constants import M_PER_FT
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
 from .compare import passes
 from .context import Context
 from .deliverable import COLLAPSED_PCT, source_voltage_pct, transformer_collapsed
 from .drop_rules import DropLimit, job_drop_limits
 from .high_leg import leg_drops
-from .impedance import branch_impedances, fault_assumptions, source_impedance
 from .loads import lines_of
+from .motor_start import check_motor_starting
 
 OPERATING_C = 75.0  # conductor temperature for steady-state drop (75 °C terminations)
 
@@ -68,24 +69,7 @@ def check_voltage_drop(ctx: Context) -> None:
         sheet = ctx.sheet(n, tree.kind[n], "")
         if pct <= 0.0:  # the voltage collapsed upstream: nothing below can be computed
             v_pct[n], cond_drop[n] = 0.0, COLLAPSED_PCT
-            ctx.nodes[n].values.update(
-                {
-                    "voltage_pct": 0.0,
-                    "vdrop_pct": 100.0,
-                    "voltage_v": 0.0,
-                    "conductor_vdrop_pct": COLLAPSED_PCT,
-                }
-            )
-            ctx.add(
-                n,
-                "voltage drop",
-                None,
-                None,
-                "%",
-                "info",
-                limits["feeder"].rule_id,
-                f"not computed: the voltage collapsed upstream of {n}",
-            )
+            _collapsed_upstream(ctx, n, limits)
             continue
         if run is not None:
             pv = tree.voltage_of[p]
@@ -95,55 +79,88 @@ def check_voltage_drop(ctx: Context) -> None:
         else:
             cond_drop_here = cond_drop[p]
         if tree.kind[n] == "transformer":
-            t = tx[n]
-            x_r = t.x_r
-            r_pct, x_pct = tk.impedance_parts_pct(t.z_pct, x_r)
-            frac = load.va / t.rating_va
-            # nameplate convention: a "+" tap (above normal) has more primary turns, so
-            # the secondary sits lower: E_s = E_applied / (1 + tap) (calc/taps.py)
-            sending = pct / 100.0 / (1 + t.tap_pct / 100.0)
-            try:
-                reg = tk.secondary_drop_pct_exact(r_pct, x_pct, frac, load.pf, sending)
-            except ValueError:
-                reg = 100.0 * sending  # no real secondary voltage: the load cannot be served
-            if not 100 * sending - reg > 0.0:
-                reg = 100.0 * sending
-                transformer_collapsed(ctx, n, t, load, "xfmr-loading")
-            sheet.step(
-                "Secondary voltage under load (primary at its actual voltage, tap "
-                f"{t.tap_pct:+g} %: + lowers the secondary, nameplate convention)",
-                "E_r = √(E_s² − b²) − a; a = n(r cos φ + x sin φ), b = n(x cos φ − r sin φ)",
-                f"E_s = {sending:.4f} pu, n = {frac:.3f}, cos φ = {load.pf:.3f}",
-                round(100 * sending - reg, 3),
-                "% of nominal",
-            )
-            pct = 100 * sending - reg
+            pct = _transformer_regulation(ctx, tx[n], load, pct, sheet)
             cond_drop_here = 0.0 if pct > 0.0 else COLLAPSED_PCT
-            ctx.nodes[n].values["transformer_drop_pct"] = reg
         v_pct[n] = pct
         cond_drop[n] = cond_drop_here
-        node = ctx.nodes[n]
-        node.values["voltage_pct"] = pct
-        node.values["vdrop_pct"] = 100.0 - pct
-        node.values["conductor_vdrop_pct"] = cond_drop_here
-        node.values["voltage_v"] = v.line_v * pct / 100.0
+        ctx.nodes[n].values.update(
+            {
+                "voltage_pct": pct,
+                "vdrop_pct": 100.0 - pct,
+                "conductor_vdrop_pct": cond_drop_here,
+                "voltage_v": v.line_v * pct / 100.0,
+            }
+        )
         if tree.kind[n] == "panel":
-            lim = limits["total"]
-            ctx.compare(
-                n,
-                "conductor voltage drop since the transformer",
-                cond_drop_here,
-                lim.max_pct,
-                "%",
-                "at_most",
-                lim.rule_id,
-                f"feeder conductors from the transformer to {n}: {cond_drop_here:.2f} % "
-                f"(the panel stands at {pct:.2f} % of nominal including transformer "
-                f"regulation); branch circuits must fit in the rest of the "
-                f"{lim.max_pct:g} % total",
-                fail_status=lim.status,
-            )
-    _motor_starting(ctx)
+            _panel_total_finding(ctx, n, cond_drop_here, pct, limits["total"])
+    check_motor_starting(ctx)
+
+
+def _collapsed_upstream(ctx: Context, n: str, limits) -> None:
+    """Figures and finding of a node below a collapsed voltage: nothing is computed."""
+    ctx.nodes[n].values.update(
+        {
+            "voltage_pct": 0.0,
+            "vdrop_pct": 100.0,
+            "voltage_v": 0.0,
+            "conductor_vdrop_pct": COLLAPSED_PCT,
+        }
+    )
+    ctx.add(
+        n,
+        "voltage drop",
+        None,
+        None,
+        "%",
+        "info",
+        limits["feeder"].rule_id,
+        f"not computed: the voltage collapsed upstream of {n}",
+    )
+
+
+def _transformer_regulation(ctx: Context, t, load, pct: float, sheet) -> float:
+    """Secondary voltage of a transformer under load [% of nominal] (0: collapsed), with
+    its calculation step; ``pct`` the voltage applied to the primary [% of nominal]."""
+    r_pct, x_pct = tk.impedance_parts_pct(t.z_pct, t.x_r)
+    frac = load.va / t.rating_va
+    # nameplate convention: a "+" tap (above normal) has more primary turns, so
+    # the secondary sits lower: E_s = E_applied / (1 + tap) (calc/taps.py)
+    sending = pct / 100.0 / (1 + t.tap_pct / 100.0)
+    try:
+        reg = tk.secondary_drop_pct_exact(r_pct, x_pct, frac, load.pf, sending)
+    except ValueError:
+        reg = 100.0 * sending  # no real secondary voltage: the load cannot be served
+    if not 100 * sending - reg > 0.0:
+        reg = 100.0 * sending
+        transformer_collapsed(ctx, t.id, t, load, "xfmr-loading")
+    sheet.step(
+        "Secondary voltage under load (primary at its actual voltage, tap "
+        f"{t.tap_pct:+g} %: + lowers the secondary, nameplate convention)",
+        "E_r = √(E_s² − b²) − a; a = n(r cos φ + x sin φ), b = n(x cos φ − r sin φ)",
+        f"E_s = {sending:.4f} pu, n = {frac:.3f}, cos φ = {load.pf:.3f}",
+        round(100 * sending - reg, 3),
+        "% of nominal",
+    )
+    ctx.nodes[t.id].values["transformer_drop_pct"] = reg
+    return 100 * sending - reg
+
+
+def _panel_total_finding(ctx: Context, n: str, cond_drop: float, pct: float, lim) -> None:
+    """The feeder conductors' drop since the transformer, held against the total limit."""
+    ctx.compare(
+        n,
+        "conductor voltage drop since the transformer",
+        cond_drop,
+        lim.max_pct,
+        "%",
+        "at_most",
+        lim.rule_id,
+        f"feeder conductors from the transformer to {n}: {cond_drop:.2f} % "
+        f"(the panel stands at {pct:.2f} % of nominal including transformer "
+        f"regulation); branch circuits must fit in the rest of the "
+        f"{lim.max_pct:g} % total",
+        fail_status=lim.status,
+    )
 
 
 def _run_drop(
@@ -179,25 +196,55 @@ def _run_drop(
             else 0.0
         )
     except ValueError:  # the run cannot carry this load at all: its voltage collapses
-        lim = limits["feeder"]
-        ctx.add(
-            run.id,
-            "feeder voltage drop",
-            100.0,
-            lim.max_pct,
-            "%",
-            "fail",
-            lim.rule_id,
-            f"{current:.0f} A over {run.length_m / M_PER_FT:,.0f} ft of {run.size.name}: the "
-            "load cannot be delivered (the voltage collapses); "
-            + _smallest_passing(ctx, run, current, pf, kind, lim.max_pct, pv.line_v),
-        )
-        ctx.run_values.setdefault(run.id, {}).update(
-            {"current_a": current, "vdrop_pct": 100.0, "length_m": run.length_m}
-        )
+        _run_collapsed(ctx, run, pv, limits["feeder"], (current, pf, kind))
         return sending_pct
     pct = 100.0 * exact_v / pv.line_v
     approx_pct = 100.0 * approx_v / pv.line_v
+    rid = limits["feeder"].rule_id
+    _run_steps(ctx, run, pv, load, (r, x, current, pf, kind), (approx_v, exact_v, sending_v), rid)
+    ctx.run_values.setdefault(run.id, {}).update(
+        {
+            "current_a": current,
+            "vdrop_v": exact_v,
+            "vdrop_pct": pct,
+            "vdrop_approx_pct": approx_pct,
+            "length_m": run.length_m,
+        }
+    )
+    if pv.kind == "highleg":
+        leg_drops(ctx, run, ph, r, x, pf)
+    figures = (pct, approx_pct, current, pf, kind)
+    _feeder_finding(ctx, run, pv, limits["feeder"], upstream_pct, figures)
+    return pct
+
+
+def _run_collapsed(ctx: Context, run, pv, lim, figures) -> None:
+    """Finding and figures of a run that cannot deliver its load (the voltage collapses)."""
+    current, pf, kind = figures
+    ctx.add(
+        run.id,
+        "feeder voltage drop",
+        100.0,
+        lim.max_pct,
+        "%",
+        "fail",
+        lim.rule_id,
+        f"{current:.0f} A over {run.length_m / M_PER_FT:,.0f} ft of {run.size.name}: the "
+        "load cannot be delivered (the voltage collapses); "
+        + _smallest_passing(ctx, run, current, pf, kind, lim.max_pct, pv.line_v),
+    )
+    ctx.run_values.setdefault(run.id, {}).update(
+        {"current_a": current, "vdrop_pct": 100.0, "length_m": run.length_m}
+    )
+
+
+def _run_steps(ctx: Context, run, pv, load, run_figures, drops, rule_id: str) -> None:
+    """The calculation steps of one run's drop on its sheet."""
+    r, x, current, pf, kind = run_figures
+    approx_v, exact_v, sending_v = drops
+    ph = ctx.phases[run.to_id]
+    feed = ph.feed_cont_a + ph.feed_non_a
+    pct = 100.0 * exact_v / pv.line_v
     sh = ctx.sheet(run.id, "run", f"Run {run.id} ({run.from_id} → {run.to_id})")
     kk = {"3ph": "√3", "1ph2w": "2", "1ph3w": "2", "ln4w": "2"}[kind]
     three = pv.phases == 3 and not ph.single_phase_feed
@@ -237,22 +284,8 @@ def _run_drop(
         f"{exact_v:.2f} / {pv.line_v:g} × 100",
         round(pct, 2),
         "%",
-        limits["feeder"].rule_id,
+        rule_id,
     )
-    ctx.run_values.setdefault(run.id, {}).update(
-        {
-            "current_a": current,
-            "vdrop_v": exact_v,
-            "vdrop_pct": pct,
-            "vdrop_approx_pct": approx_pct,
-            "length_m": run.length_m,
-        }
-    )
-    if pv.kind == "highleg":
-        leg_drops(ctx, run, ph, r, x, pf)
-    figures = (pct, approx_pct, current, pf, kind)
-    _feeder_finding(ctx, run, pv, limits["feeder"], upstream_pct, figures)
-    return pct
 
 
 def _feeder_finding(ctx: Context, run, pv, lim, upstream_pct: float, figures) -> None:
@@ -331,94 +364,3 @@ def _smallest_passing(ctx, run, current, pf, kind, limit_pct, nominal_v) -> str:
         else f"no {run.material.capitalize()} size up to {names[-1]} passes with {run.sets} set(s)"
     )
     return f"{size_text}; with {run.size.name} the run may be at most {max_len / M_PER_FT:,.0f} ft"
-
-
-def _motor_starting(ctx: Context) -> None:
-    job, tree = ctx.job, ctx.tree
-    if not job.motors:
-        return
-    fa = fault_assumptions(ctx)
-    branches = branch_impedances(ctx, fa, OPERATING_C, "nominal")
-    zs = source_impedance(job)
-    vb = job.source.voltage.line_v
-    lr = ctx.rules.rows("motor_locked_rotor")
-    lim = ctx.rules.rule("ms-motor-terminals")
-    ctx.method(
-        "Motor starting dip, impedance divider: V_t = E_s·|Z_m|/|Z_path + Z_m| with "
-        "Z_m = V_rated/I_LR at the starting power factor",
-        "IEEE Std 399-1997 ch. 9; IEEE Std 141-1993 ch. 3",
-    )
-    for m in job.motors:
-        # path impedance from the source to the motor's panel, referred to the panel voltage
-        n = m.panel_id
-        chain = []
-        while n is not None and n != "source":
-            chain.append(n)
-            n = tree.parent_node[n]
-        z = zs
-        for node in reversed(chain):
-            z += branches[node] * (vb / tree.voltage_of[node].line_v) ** 2
-        v = tree.voltage_of[m.panel_id]
-        z_node = z * (v.line_v / vb) ** 2
-        hp = m.hp if m.hp is not None else math.inf
-        row = next(r for r in lr if r["hp_to"] >= hp) if m.hp is not None else lr[-1]
-        i_lr = m.locked_rotor_a if m.locked_rotor_a else float(row["lr_multiple"]) * m.full_load_a
-        pf_start = float(row["starting_pf"])
-        if v.phases == 3:
-            es = v.line_v / SQRT3
-            zr, zx = z_node.real, z_node.imag
-        else:
-            es = v.line_v
-            zr, zx = (z_node * SQRT3).real, (z_node * SQRT3).imag
-        lr_text = f"locked rotor {i_lr:.0f} A" + (
-            "" if m.locked_rotor_a else f", {row['lr_multiple']:g} × FLC typical"
-        )
-        bus = float(vk.motor_starting_voltage_pct(es, i_lr, pf_start, zr, zx, es))
-        other = ctx.rules.rule("ms-other-loads")
-        ctx.compare(
-            m.id,
-            "starting dip at the panel",
-            100.0 - bus,
-            other.number("max_dip_pct"),
-            "%",
-            "at_most",
-            "ms-other-loads",
-            f"{m.panel_id} at {bus:.1f} % while {m.id} starts ({lr_text}): other "
-            "loads on the panel see this dip",
-            fail_status=str(other["status"]),
-        )
-        br, bx, where = _motor_branch(ctx, m, v.phases)
-        vt = float(vk.motor_starting_voltage_pct(es, i_lr, pf_start, zr + br, zx + bx, es))
-        dip = 100.0 - vt
-        ctx.compare(
-            m.id,
-            "motor starting dip",
-            dip,
-            lim.number("max_dip_pct"),
-            "%",
-            "at_most",
-            "ms-motor-terminals",
-            f"{vt:.1f} % of rated voltage {where} while starting ({lr_text})",
-            fail_status=str(lim["status"]),
-        )
-
-
-def _motor_branch(ctx: Context, m, phases: int) -> tuple[float, float, str]:
-    """R and X [Ω] of the motor's branch run as the dip divider sees it (per phase for
-    three-phase, out and back for single-phase), and where the dip is computed."""
-    if m.length_m is None or m.size is None:
-        ctx.assume(
-            f"{m.id}: starting dip computed at panel {m.panel_id}, its branch run not "
-            "included (give length and conductors on [[motor]] for the terminals)"
-        )
-        return 0.0, 0.0, f"at {m.panel_id} (branch run not given: at the terminals it is lower)"
-    r, x = ck.ac_impedance_ohm_per_m(
-        m.size.name, m.material, m.raceway, OPERATING_C, data=ctx.rules.conductors
-    )
-    k = 1.0 if phases == 3 else 2.0
-    return (
-        k * float(r) * m.length_m,
-        k * float(x) * m.length_m,
-        f"at the motor terminals ({m.length_m / M_PER_FT:,.0f} ft of {m.size.name} "
-        f"{m.material.capitalize()} from {m.panel_id})",
-    )

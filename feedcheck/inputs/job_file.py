@@ -28,7 +28,6 @@ from ..model import (
     VOLTAGE_DROP_MODES,
     VOLTAGE_FACTORS,
     Job,
-    Motor,
     Options,
     Panel,
     Project,
@@ -38,11 +37,11 @@ from ..model import (
 )
 from .defaults import typical_x_r
 from .element_keys import area_m2 as _area
-from .element_keys import locked_rotor_check, motor_branch
 from .element_keys import phases_connected as _phases_connected
 from .element_keys import tap_pct as _tap
 from .feed_rules import check_feed, check_voltages
 from .files import FileKind, FileRefused, decode_utf8, read_bytes
+from .motor_keys import read_motor, table_currents
 from .paths import relative_file_inside
 from .toml_reader import (
     DEEP_KEY_VALUE,
@@ -122,7 +121,6 @@ PANEL_KEYS = (
     "columns",
     "phases_connected",
 )
-MOTOR_KEYS = ("id", "panel", "full_load", "hp", "locked_rotor", "length", "conductors", "raceway")
 OPTION_KEYS = (
     "impedance_tolerance",
     "voltage_factor",
@@ -207,10 +205,9 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
         _panel(r, t, f"panel[{i}]", job_path.parent)
         for i, t in enumerate(array_of_tables(r, data, "panel"), start=1)
     ]
-    motors = [
-        _motor(r, t, f"motor[{i}]")
-        for i, t in enumerate(array_of_tables(r, data, "motor"), start=1)
-    ]
+    motor_tables = array_of_tables(r, data, "motor")
+    motor_paths = [f"motor[{i}]" for i in range(1, len(motor_tables) + 1)]
+    motors = [read_motor(r, t, p) for p, t in zip(motor_paths, motor_tables, strict=True)]
     options = _options(r, _table(r, data, "options", "an [options] table"))
     check_feed(r, transformers, runs, panels, motors)
     # schedule paths resolve relative to the job file's folder
@@ -223,6 +220,7 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
     r.problems.raise_if_any()
     tree = build_tree(source, transformers, runs, panels)
     check_voltages(r, tree, transformers, panels)
+    motors = table_currents(r, motors, tree, motor_paths)
     r.problems.raise_if_any()
     return Job(
         path=job_path,
@@ -594,24 +592,6 @@ def _device_type(r: Reader, t: dict, path: str) -> str | None:
         r.add(f"{path}.device_type", kind, "one of " + ", ".join(DEVICE_FAMILIES))
         return None
     return kind
-
-
-def _motor(r: Reader, t: dict, path: str) -> Motor:
-    r.check_keys(t, path, MOTOR_KEYS)
-    fla = r.qty(t, path, "full_load", "current", required=False)
-    hp = r.number(t, path, "hp", 0.1, 1000)
-    if fla is None and "full_load" not in t:
-        r.add(f"{path}.full_load", None, "the motor's full-load current, e.g. '30.8 A'")
-    lra = r.qty(t, path, "locked_rotor", "current", required=False)
-    locked_rotor_check(r, t, path, lra, fla)
-    return Motor(
-        id=r.text(t, path, "id"),
-        panel_id=r.text(t, path, "panel"),
-        full_load_a=fla or 1.0,
-        locked_rotor_a=lra,
-        hp=hp,
-        **motor_branch(r, t, path),
-    )
 
 
 def _options(r: Reader, opts: dict) -> Options:

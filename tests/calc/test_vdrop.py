@@ -9,13 +9,12 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
+from feedcheck.calc.motor_starting import motor_starting_current_a, motor_starting_voltage_pct
 from feedcheck.calc.vdrop import (
     SQRT3,
     circuit_factor,
     max_length_m,
     min_conductor_index,
-    motor_starting_current_a,
-    motor_starting_voltage_pct,
     receiving_voltage_exact_v,
     voltage_drop_approximate_v,
     voltage_drop_exact_circuit_v,

@@ -120,12 +120,52 @@ def _symbol(d: Drawing, kind: str, x: float, y: float) -> float:
         for dy in (4.5, -4.5):
             d.add(Circle(x, y + dy, 7, strokeColor=colors.black, fillColor=None, strokeWidth=1))
         return 11.5
+    if kind == "motor":
+        d.add(Circle(x, y, 7, strokeColor=colors.black, fillColor=colors.white, strokeWidth=1))
+        d.add(String(x, y - 3, "M", fontName=fonts().bold, fontSize=8, textAnchor="middle"))
+        return 7.0
     d.add(Rect(x - 9, y - 7, 18, 14, strokeColor=colors.black, fillColor=LIGHT, strokeWidth=1))
     d.add(Line(x - 5, y + 3, x + 5, y + 3, strokeColor=colors.black, strokeWidth=1.4))
     return 7.0
 
 
+@dataclass(frozen=True)
+class _MotorRow:
+    """A motor drawn as a row under its panel (a diagram motor in node form)."""
+
+    id: str
+    parent: str
+    motor: object
+    kind: str = "motor"
+    via_run: str | None = None
+    voltage: str = ""
+
+
+def _rows(results) -> list:
+    """The nodes in feed order, each panel's motors right after it."""
+    motors: dict[str, list] = {}
+    for m in getattr(results.diagram, "motors", ()):
+        motors.setdefault(m.panel_id, []).append(m)
+    rows = []
+    for n in results.nodes:
+        rows.append(n)
+        rows += [_MotorRow(m.id, n.id, m) for m in motors.get(n.id, ())]
+    return rows
+
+
+def _motor_lines(row: _MotorRow) -> tuple[str, str, str]:
+    m = row.motor
+    rating = f"{plain(m.hp)} hp" if m.hp is not None else "hp not given"
+    phases = f"{m.phases}-phase, " if m.phases else ""
+    figs = f"{phases}{rating} · FLC {amps(m.full_load_a)} ({m.flc_source or 'nameplate'})"
+    if m.locked_rotor_a is not None:
+        figs += f" · locked rotor {amps(m.locked_rotor_a, 0)}"
+    return f"{m.id} — motor", figs, f"on panel {m.panel_id}"
+
+
 def _node_lines(node, run, display: Display) -> tuple[str, str, str]:
+    if isinstance(node, _MotorRow):
+        return _motor_lines(node)
     head = node_title(node.id, node.kind, node.voltage)
     v = node.values
     parts = []
@@ -167,7 +207,7 @@ def one_line_diagrams(results, width: float = 500.0) -> list[Drawing]:
     """
     f = fonts()
     display = display_for(results)
-    nodes = list(results.nodes)
+    nodes = _rows(results)
     depth = _depths(nodes)
     runs = {r.id: r for r in results.diagram.runs}
     max_depth = max(depth.values(), default=0)
