@@ -14,6 +14,12 @@ from ..calc import fault as fk
 from ..calc import fault_lg as lg
 from ..calc import transformer as tk
 from ..calc.constants import M_PER_FT, SQRT3
+from ..calc.point_to_point import (
+    conductor_constant_a_ft_per_v,
+    percent_difference,
+    ptp_chain_a,
+    ptp_secondary_current_a,
+)
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
 from .context import Context
 from .fault_duty import (
@@ -175,7 +181,7 @@ def _record_node(ctx: Context, fa, g: _Figures, i: int, n: str, when: str) -> No
 def _ptp_finding(ctx: Context, fa, n: str, ptp_a: float, ohmic_a: float) -> None:
     values = ctx.nodes[n].values
     values["fault_ptp_a"] = ptp_a
-    diff = float(fk.percent_difference(ptp_a, ohmic_a))
+    diff = float(percent_difference(ptp_a, ohmic_a))
     values["fault_ptp_diff_pct"] = diff
     ok = abs(diff) <= fa.ptp_disagree_pct
     ctx.add(
@@ -540,7 +546,7 @@ def _point_to_point(ctx, fa, order, rf) -> dict[str, float]:
             if t.secondary.phases == 1 and job.source.voltage.phases == 3:
                 src = src * SQRT3 / 2  # line-to-line fault on a three-phase source
             out[n] = fa.c_max * float(  # the ohmic maximum's voltage factor
-                fk.ptp_secondary_current_a(
+                ptp_secondary_current_a(
                     rated,
                     t.z_pct,
                     fa.tolerance_pct,
@@ -557,11 +563,9 @@ def _point_to_point(ctx, fa, order, rf) -> dict[str, float]:
         r, x = ck.ac_impedance_ohm_per_m(
             run.size.name, run.material, run.raceway, fa.cond_c_max, data=ctx.rules.conductors
         )
-        c = float(fk.conductor_constant_a_ft_per_v(float(r), float(x)))
+        c = float(conductor_constant_a_ft_per_v(float(r), float(x)))
         kind_ptp = "3ph" if v.phases == 3 else "1ph-ll"
-        out[n] = float(
-            fk.ptp_chain_a(out[p], [run.length_m], [c], [run.sets], v.line_v, kind_ptp)[0]
-        )
+        out[n] = float(ptp_chain_a(out[p], [run.length_m], [c], [run.sets], v.line_v, kind_ptp)[0])
     if out:
         ctx.method(
             "Point-to-point method (second figure): f = √3·L·I/(C·n·V_LL) three-phase, "

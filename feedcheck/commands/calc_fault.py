@@ -209,11 +209,12 @@ def compute(*args, **kwargs):
     if length_m is not None:
         cd = book.conductors
         from ..calc.conductor import ac_impedance_ohm_per_m
+        from ..calc.point_to_point import conductor_constant_a_ft_per_v
 
         t_max = book.fault.cond_temp_max_c
         r20, x20 = ac_impedance_ohm_per_m(size.name, material, raceway, conductor_c=t_max, data=cd)
         out["run"] = dict(
-            c_const=F.conductor_constant_a_ft_per_v(r20, x20),
+            c_const=conductor_constant_a_ft_per_v(r20, x20),
             t_max=t_max,
             t_min=max(book.fault.cond_temp_min_c, 75.0),
         )
