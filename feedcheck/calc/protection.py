@@ -242,6 +242,33 @@ class EgcResult:
     reasoning: str
 
 
+def _check_egc_inputs(device_a, sets, tables: ProtectionTables) -> None:
+    largest = tables.egc_up_to_a[-1]
+    if not (np.isfinite(device_a) and 0 < device_a <= largest):
+        raise ValueError(
+            f"device_a: got {device_a}; expected a device rating from 1 to "
+            f"{largest:g} A (Table 250.122)"
+        )
+    if not (isinstance(sets, int | np.integer) and sets >= 1):
+        raise ValueError(f"sets: got {sets}; expected a whole number ≥ 1")
+
+
+def _capped_at_phase(chosen, egc_material: int, phase_size, phase_material, tables):
+    """The smaller size that 250.122(A) ("never larger than the circuit conductors")
+    allows, or None when the chosen EGC is not larger. Areas compare directly for the
+    same material, and by equal conductance (Al area × ρCu/ρAl) otherwise."""
+    if phase_size is None:
+        return None
+    pmat = int(material_index(phase_material))
+    cap_area = float(AREA_MM2[size_index(phase_size)])
+    if pmat != egc_material:  # equal-conductance area of the EGC material
+        cap_area *= tables.rho20[egc_material] / tables.rho20[pmat]
+    if chosen.area_mm2 <= cap_area * (1 + 1e-9):
+        return None
+    capped_size = smallest_at_least(cap_area, "awg") or chosen
+    return capped_size if capped_size.area_mm2 < chosen.area_mm2 else None
+
+
 def egc_size(
     device_a: float,
     material: str = "cu",
@@ -291,25 +318,31 @@ def egc_size(
     NFPA 70-2023 250.122(A), (B), (F); Table 250.122.
     """
     t = tables
-    if not (np.isfinite(device_a) and 0 < device_a <= t.egc_up_to_a[-1]):
-        raise ValueError(
-            f"device_a: got {device_a}; expected a device rating from 1 to "
-            f"{t.egc_up_to_a[-1]:g} A (Table 250.122)"
-        )
-    if not (isinstance(sets, int | np.integer) and sets >= 1):
-        raise ValueError(f"sets: got {sets}; expected a whole number ≥ 1")
+    _check_egc_inputs(device_a, sets, t)
     m = int(material_index(material))
     row = int(np.searchsorted(t.egc_up_to_a, device_a * (1 - 1e-12), side="left"))
     table_name = (t.egc_cu if m == 0 else t.egc_al)[row]
+    phases = (phase_size, phase_min_size, phase_material or material)
+    return _adjusted_egc(table_name, m, material, device_a, phases, sets, t)
+
+
+def _adjusted_egc(table_name, m, material, device_a, phases, sets, tables) -> EgcResult:
+    """The Table 250.122 size ``table_name`` grown for upsized phase conductors (B),
+    capped at the phase conductors (A), one in each raceway (F), with its reasoning.
+
+    ``phases`` is (installed phase size, least phase size, phase material).
+    """
+    phase_size, phase_min_size, phase_material = phases
     table = SIZES[table_name]
     rules = ["egc-table"]
     ratio = 1.0
     area = table.area_mm2
     why = [f"Table 250.122 gives {table_name} {material} for a {device_a:g} A device"]
     if phase_size is not None and phase_min_size is not None:
-        ps, pm = AREA_MM2[size_index(phase_size)], AREA_MM2[size_index(phase_min_size)]
-        if ps > pm * (1 + 1e-9):
-            ratio = float(ps / pm)
+        installed = AREA_MM2[size_index(phase_size)]
+        least = AREA_MM2[size_index(phase_min_size)]
+        if installed > least * (1 + 1e-9):
+            ratio = float(installed / least)
             area = table.area_mm2 * ratio
             rules.append("egc-proportional")
             why.append(
@@ -319,18 +352,11 @@ def egc_size(
     chosen = smallest_at_least(area, "awg")
     if chosen is None:
         raise ValueError(f"device_a: EGC area {area:.0f} mm² exceeds the largest size")
-    capped = False
-    if phase_size is not None:
-        pmat = int(material_index(phase_material or material))
-        cap_area = float(AREA_MM2[size_index(phase_size)])
-        if pmat != m:  # equal-conductance area of the EGC material
-            cap_area *= t.rho20[m] / t.rho20[pmat]
-        if chosen.area_mm2 > cap_area * (1 + 1e-9):
-            capped_size = smallest_at_least(cap_area, "awg") or chosen
-            if capped_size.area_mm2 < chosen.area_mm2:
-                chosen, capped = capped_size, True
-                rules.append("egc-not-larger")
-                why.append("not larger than the ungrounded conductors")
+    capped_size = _capped_at_phase(chosen, m, phase_size, phase_material, tables)
+    if capped_size is not None:
+        chosen = capped_size
+        rules.append("egc-not-larger")
+        why.append("not larger than the ungrounded conductors")
     if sets > 1:
         rules.append("egc-parallel")
         why.append(f"one {chosen.name} in each of {sets} raceways")
@@ -340,7 +366,7 @@ def egc_size(
         table_name,
         float(device_a),
         ratio,
-        capped,
+        capped_size is not None,
         int(sets),
         tuple(rules),
         "; ".join(why) + f" → {chosen.name} {material}",
