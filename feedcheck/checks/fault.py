@@ -4,7 +4,6 @@ equipment ratings, the instantaneous-trip check and the marking figures."""
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
 
 import numpy as np
@@ -12,19 +11,13 @@ import numpy as np
 from ..calc import conductor as ck
 from ..calc import fault as fk
 from ..calc import fault_lg as lg
-from ..calc import transformer as tk
 from ..calc.constants import M_PER_FT, SQRT3
-from ..calc.point_to_point import (
-    conductor_constant_a_ft_per_v,
-    percent_difference,
-    ptp_chain_a,
-    ptp_secondary_current_a,
-)
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
 from .context import Context
 from .fault_duty import (
     describe_methods,
     flag_return_paths,
+    kiloamps,
     motor_contribution,
     node_duty,
     record_duty,
@@ -40,11 +33,8 @@ from .impedance import (
     run_return_impedance_ohm,
     source_impedance,
 )
+from .point_to_point import point_to_point_a, ptp_finding
 from .taps import run_device
-
-
-def _kA(a: float) -> str:
-    return f"{a / 1000:,.2f} kA"
 
 
 def check_faults(ctx: Context) -> None:
@@ -87,7 +77,7 @@ def check_faults(ctx: Context) -> None:
 
     _describe_3ph(ctx, fa)
     lg_min = _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb)
-    ptp = _point_to_point(ctx, fa, order, rf)
+    ptp = point_to_point_a(ctx, fa, order)
     _primary_terminals(ctx, fa, pos, rf, vb)
     z_node_max = {n: complex(rf.z_max_ohm[i] * (v_node[i] / vb) ** 2) for i, n in enumerate(order)}
     worst = worst_case_figures(ctx, fa, z_node_max, dict(zip(order, motor_node, strict=True)))
@@ -162,7 +152,7 @@ def _record_node(ctx: Context, fa, g: _Figures, i: int, n: str, when: str) -> No
     if n in g.lg_min:
         node.values["fault_lg_min_a"] = g.lg_min[n]
     if n in g.ptp:
-        _ptp_finding(ctx, fa, n, g.ptp[n], float(g.ohmic_no_motor[i]))
+        ptp_finding(ctx, fa, n, g.ptp[n], float(g.ohmic_no_motor[i]))
     if n == "source":
         return
     _sheet_steps(ctx, fa, g, i, n)
@@ -176,31 +166,6 @@ def _record_node(ctx: Context, fa, g: _Figures, i: int, n: str, when: str) -> No
             if case in g.worst[n].faults_a:
                 node.values[key] = g.worst[n].faults_a[case]
     record_duty(ctx, n, node_duty(ctx, n, faults, x_rs), when)
-
-
-def _ptp_finding(ctx: Context, fa, n: str, ptp_a: float, ohmic_a: float) -> None:
-    values = ctx.nodes[n].values
-    values["fault_ptp_a"] = ptp_a
-    diff = float(percent_difference(ptp_a, ohmic_a))
-    values["fault_ptp_diff_pct"] = diff
-    ok = abs(diff) <= fa.ptp_disagree_pct
-    ctx.add(
-        n,
-        "point-to-point vs ohmic",
-        diff,
-        fa.ptp_disagree_pct,
-        "%",
-        "ok" if ok else "warn",
-        "fault-ptp-disagree",
-        f"point-to-point {_kA(ptp_a)} vs ohmic {_kA(ohmic_a)}"
-        + (
-            ""
-            if ok
-            else "; the point-to-point method adds impedance magnitudes (no X/R) and "
-            "reads low where conductor resistance dominates — the ohmic figure is the "
-            "one used for ratings; review the impedance data if the gap surprises you"
-        ),
-    )
 
 
 def _sheet_steps(ctx: Context, fa, g: _Figures, i: int, n: str) -> None:
@@ -330,7 +295,7 @@ def _primary_terminals(ctx: Context, fa, pos, rf, vb) -> None:
             "info",
             "fault-marking",
             f"{t.id} primary terminals: maximum "
-            f"{_kA(out['max'])}, minimum {_kA(out['min'])} (complex ohmic method)",
+            f"{kiloamps(out['max'])}, minimum {kiloamps(out['min'])} (complex ohmic method)",
         )
 
 
@@ -342,89 +307,114 @@ def _calc_date(ctx: Context) -> str:
     return ctx.calc_date or "on a date not given"
 
 
+@dataclass
+class _SequenceNetwork:
+    """Positive- and zero-sequence branches of the feed below grounded secondaries, one
+    entry per node in walk order (each grounded transformer a root)."""
+
+    parent: np.ndarray
+    root_z1: np.ndarray
+    root_z0: np.ndarray
+    branch_z1: np.ndarray
+    branch_z0: np.ndarray
+    in_scope: np.ndarray
+
+
+def _sequence_network(ctx, fa, order, pos, parent, z_total_min, vb) -> _SequenceNetwork:
+    """Sequence impedances of every node below a grounded secondary (wye: Z1 and Z0;
+    120/240 V: the line-to-neutral loop in Z1), for the minimum case."""
+    tree = ctx.tree
+    n_nodes = len(order)
+    net = _SequenceNetwork(
+        parent.copy(),
+        *(np.zeros(n_nodes, dtype=complex) for _ in range(4)),
+        np.zeros(n_nodes, dtype=bool),
+    )
+    transformers = {tx.id: tx for tx in ctx.job.transformers}
+    for node in order:
+        at = pos[node]
+        system = tree.voltage_of[node]
+        if system.neutral_v is None or tree.upstream_transformer[node] is None:
+            net.parent[at] = -1
+            continue
+        net.in_scope[at] = True
+        if tree.kind[node] == "transformer":
+            tx = transformers[node]
+            net.parent[at] = -1
+            z1 = complex(z_total_min[at] * (system.line_v / vb) ** 2)  # per-phase (equivalent)
+            zt_min = transformer_loop_ohm(tx, fa.tolerance_pct, "min")
+            if system.kind == "wye":
+                net.root_z1[at] = z1
+                ratio = z0_ratio(tx, fa, "min")
+                net.root_z0[at] = complex(lg.transformer_zero_sequence_ohm(zt_min, ratio))
+            else:  # 120/240 V: half-winding model at 120 V
+                net.root_z1[at] = split_ln_source_ohm(z1, zt_min)
+            continue
+        run = tree.parent_run[node]
+        z_phase = run_impedance_ohm(run, fa.min_c(run), ctx.rules.conductors)
+        z_return = run_return_impedance_ohm(run, fa.min_c(run), ctx.rules.conductors)
+        if system.kind == "wye":
+            net.branch_z1[at] = z_phase
+            net.branch_z0[at] = complex(lg.run_zero_sequence_ohm(z_phase, z_return))
+        else:
+            net.branch_z1[at] = z_phase + z_return
+    return net
+
+
 def _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb) -> dict[str, float]:
     """Minimum line-to-ground current at every node below a grounded secondary
     (wye: symmetrical components; 120/240 V: line-to-neutral loop)."""
-    job, tree = ctx.job, ctx.tree
+    tree = ctx.tree
     z_total_min = fk.cumulative_impedance_ohm(parent, zb_min, zs)
-    n_nodes = len(order)
-    lg_parent = parent.copy()
-    root_z1 = np.zeros(n_nodes, dtype=complex)
-    root_z0 = np.zeros(n_nodes, dtype=complex)
-    b1 = np.zeros(n_nodes, dtype=complex)
-    b0 = np.zeros(n_nodes, dtype=complex)
-    in_scope = np.zeros(n_nodes, dtype=bool)
-    tx = {t.id: t for t in job.transformers}
-    for n in order:
-        i = pos[n]
-        v = tree.voltage_of[n]
-        if v.neutral_v is None or tree.upstream_transformer[n] is None:
-            lg_parent[i] = -1
-            continue
-        in_scope[i] = True
-        if tree.kind[n] == "transformer":
-            t = tx[n]
-            lg_parent[i] = -1
-            z1 = complex(z_total_min[i] * (v.line_v / vb) ** 2)  # per-phase (equivalent)
-            if v.kind == "wye":
-                zt_min = transformer_loop_ohm(t, fa.tolerance_pct, "min")
-                root_z1[i] = z1
-                ratio = z0_ratio(t, fa, "min")
-                root_z0[i] = complex(lg.transformer_zero_sequence_ohm(zt_min, ratio))
-            else:  # 120/240 V: half-winding model at 120 V
-                zt_loop = transformer_loop_ohm(t, fa.tolerance_pct, "min")
-                root_z1[i] = split_ln_source_ohm(z1, zt_loop)
-        else:
-            run = tree.parent_run[n]
-            zp = run_impedance_ohm(run, fa.min_c(run), ctx.rules.conductors)
-            zr = run_return_impedance_ohm(run, fa.min_c(run), ctx.rules.conductors)
-            if v.kind == "wye":
-                b1[i] = zp
-                b0[i] = complex(lg.run_zero_sequence_ohm(zp, zr))
-            else:
-                b1[i] = zp + zr
+    net = _sequence_network(ctx, fa, order, pos, parent, z_total_min, vb)
     out: dict[str, float] = {}
-    if not in_scope.any():
+    if not net.in_scope.any():
         return out
     # wye: V_LL/√3 (208Y/120 V → 120.09 V, consistent with the three-phase figure);
     # 120/240 V: half the line voltage
-    vln = np.array([_v_ln(tree.voltage_of[n]) for n in order])
-    wye = np.array([tree.voltage_of[n].kind == "wye" for n in order])
-    # walk only the nodes below grounded secondaries (each transformer is a root there)
-    keep = np.flatnonzero(in_scope)
-    new_index = np.full(n_nodes, -1)
-    new_index[keep] = np.arange(keep.size)
-    sub_parent = np.where(lg_parent[keep] >= 0, new_index[np.maximum(lg_parent[keep], 0)], -1)
-    i_wye = np.zeros(n_nodes)
-    i_split = np.zeros(n_nodes)
-    sel_w = keep[wye[keep]]
-    if sel_w.size:
-        i_wye[keep] = lg.radial_fault_lg_a(
-            sub_parent,
-            vln[keep],
-            np.where(wye[keep], b1[keep], 1e-9),
-            np.where(wye[keep], b0[keep], 1e-9),
-            np.where(wye[keep], root_z1[keep], 1e-9),
-            np.where(wye[keep], root_z0[keep], 1e-9),
-            fa.c_min,
-        )
-    if (~wye[keep]).any():
-        z_split = fk.cumulative_impedance_ohm(sub_parent, b1[keep], root_z1[keep])
-        i_split[keep] = fa.c_min * vln[keep] / np.abs(z_split)
+    vln = np.array([_v_ln(tree.voltage_of[node]) for node in order])
+    wye = np.array([tree.voltage_of[node].kind == "wye" for node in order])
+    current_a = _line_to_ground_a(net, vln, wye, fa.c_min)
     ctx.method(
         "Line-to-ground fault by symmetrical components, I = 3·V_LN/|Z1 + Z2 + Z0|; "
         "delta–wye transformer Z0 = k·Z1_T; run Z0 = Z_phase + 3·Z_return",
         "IEEE Std 141-1993 ch. 4; IEC 60909-0 §7.1.3",
     )
-    for n in order:
-        i = pos[n]
-        if in_scope[i]:
-            out[n] = float(i_wye[i] if wye[i] else i_split[i])
+    for node in order:
+        if net.in_scope[pos[node]]:
+            out[node] = float(current_a[pos[node]])
     # sequence impedances from the grounded secondary to every node, once for all panels
-    z1_total = fk.cumulative_impedance_ohm(lg_parent, b1, root_z1)
-    z0_total = fk.cumulative_impedance_ohm(lg_parent, b0, root_z0)
+    z1_total = fk.cumulative_impedance_ohm(net.parent, net.branch_z1, net.root_z1)
+    z0_total = fk.cumulative_impedance_ohm(net.parent, net.branch_z0, net.root_z0)
     _instantaneous_checks(ctx, fa, out, pos, z1_total, z0_total)
     return out
+
+
+def _line_to_ground_a(net: _SequenceNetwork, vln, wye, c_min) -> np.ndarray:
+    """Line-to-ground current of every node in scope: symmetrical components on wye
+    systems, the line-to-neutral loop on 120/240 V (0 outside the scope)."""
+    n_nodes = net.in_scope.size
+    # walk only the nodes below grounded secondaries (each transformer is a root there)
+    keep = np.flatnonzero(net.in_scope)
+    new_index = np.full(n_nodes, -1)
+    new_index[keep] = np.arange(keep.size)
+    sub_parent = np.where(net.parent[keep] >= 0, new_index[np.maximum(net.parent[keep], 0)], -1)
+    i_wye = np.zeros(n_nodes)
+    i_split = np.zeros(n_nodes)
+    if keep[wye[keep]].size:
+        i_wye[keep] = lg.radial_fault_lg_a(
+            sub_parent,
+            vln[keep],
+            np.where(wye[keep], net.branch_z1[keep], 1e-9),
+            np.where(wye[keep], net.branch_z0[keep], 1e-9),
+            np.where(wye[keep], net.root_z1[keep], 1e-9),
+            np.where(wye[keep], net.root_z0[keep], 1e-9),
+            c_min,
+        )
+    if (~wye[keep]).any():
+        z_split = fk.cumulative_impedance_ohm(sub_parent, net.branch_z1[keep], net.root_z1[keep])
+        i_split[keep] = c_min * vln[keep] / np.abs(z_split)
+    return np.where(wye, i_wye, i_split)
 
 
 def _v_ln(v) -> float:
@@ -468,8 +458,8 @@ def _instantaneous_checks(ctx, fa, lg_min, pos, z1_total, z0_total) -> None:
         mult, tol, rid = _pickup(ctx, device, p.instantaneous_a)
         chk = lg.instantaneous_trip_check(lg_min[p.id], device, mult, tol)
         note = (
-            f"minimum line-to-ground {_kA(lg_min[p.id])} vs instantaneous pick-up "
-            f"{_kA(chk.required_a)} ({mult:g} × {device:g} A"
+            f"minimum line-to-ground {kiloamps(lg_min[p.id])} vs instantaneous pick-up "
+            f"{kiloamps(chk.required_a)} ({mult:g} × {device:g} A"
             + (f" + {tol:g} % tolerance" if tol else "")
             + ")"
         )
@@ -525,53 +515,3 @@ def _trip_fixes(ctx, fa, panel_id, run, required_a, z_up1, z_up0) -> str:
         parts.append(f"or with a {names[idx]} {material.capitalize()} grounding conductor")
     parts.append("or with a lower instantaneous setting")
     return ", ".join(parts)
-
-
-def _point_to_point(ctx, fa, order, rf) -> dict[str, float]:
-    """Point-to-point figure at every node below a transformer (second method)."""
-    job, tree = ctx.job, ctx.tree
-    tx = {t.id: t for t in job.transformers}
-    out: dict[str, float] = {}
-    for n in order:
-        kind = tree.kind[n]
-        if kind == "source":
-            continue
-        v = tree.voltage_of[n]
-        if kind == "transformer":
-            t = tx[n]
-            if tree.parent_node[n] != "source" or tree.parent_run[n] is not None:
-                continue  # chained transformers: the method's transformer step is not applied
-            rated = tk.rated_current_a(t.rating_va, t.secondary.line_v, t.secondary.phases)
-            src = job.source.fault_a
-            if t.secondary.phases == 1 and job.source.voltage.phases == 3:
-                src = src * SQRT3 / 2  # line-to-line fault on a three-phase source
-            out[n] = fa.c_max * float(  # the ohmic maximum's voltage factor
-                ptp_secondary_current_a(
-                    rated,
-                    t.z_pct,
-                    fa.tolerance_pct,
-                    None if math.isinf(src) else src,
-                    t.primary.line_v,
-                    t.secondary.line_v,
-                )
-            )
-            continue
-        p = tree.parent_node[n]
-        if p not in out:
-            continue
-        run = tree.parent_run[n]
-        r, x = ck.ac_impedance_ohm_per_m(
-            run.size.name, run.material, run.raceway, fa.cond_c_max, data=ctx.rules.conductors
-        )
-        c = float(conductor_constant_a_ft_per_v(float(r), float(x)))
-        kind_ptp = "3ph" if v.phases == 3 else "1ph-ll"
-        out[n] = float(ptp_chain_a(out[p], [run.length_m], [c], [run.sets], v.line_v, kind_ptp)[0])
-    if out:
-        ctx.method(
-            "Point-to-point method (second figure): f = √3·L·I/(C·n·V_LL) three-phase, "
-            "2·L·I/(C·n·V_LL) single-phase; M = 1/(1 + f); C = 1000/|Z per 1000 ft| "
-            "from the same conductor impedance data",
-            "published point-to-point method of fuse manufacturers' application "
-            "literature; conductor data NFPA 70 Ch. 9 Table 9",
-        )
-    return out

@@ -34,8 +34,9 @@ CASE_WORDS = {
 DEFAULT_FAMILY = "molded-case"
 
 
-def _kA(a: float) -> str:
-    return f"{a / 1000:,.2f} kA"
+def kiloamps(current_a: float) -> str:
+    """A fault current in a finding's note: kA, two decimals."""
+    return f"{current_a / 1000:,.2f} kA"
 
 
 @dataclass
@@ -284,7 +285,7 @@ def record_duty(ctx: Context, n: str, d: Duty, when: str) -> None:
         "A",
         "info",
         "fault-marking",
-        f"maximum available fault current {_kA(d.sym_a)} ({CASE_WORDS[d.case]} governs), "
+        f"maximum available fault current {kiloamps(d.sym_a)} ({CASE_WORDS[d.case]} governs), "
         f"complex ohmic method (IEEE Std 141), calculated {when}",
     )
     if ctx.tree.kind[n] == "panel":
@@ -326,12 +327,12 @@ def _check_interrupting(ctx: Context, n: str, d: Duty) -> None:
             "A",
             "warn",
             "panel-interrupting",
-            f"no interrupting rating given; it must be at least {_kA(d.duty_a)} ({what})",
+            f"no interrupting rating given; it must be at least {kiloamps(d.duty_a)} ({what})",
         )
         return
     factor = (
         f"; X/R {d.x_r:.2f} above the {d.family} test X/R {d.row.test_x_r:g} "
-        f"({d.row.rule_id}): MF {d.mf:.3f} × {_kA(d.sym_a)}"
+        f"({d.row.rule_id}): MF {d.mf:.3f} × {kiloamps(d.sym_a)}"
         if d.row is not None and d.mf > 1.0
         else f"; X/R {d.x_r:.2f} within the {d.family} test X/R, MF 1"
         if d.row is not None
@@ -346,11 +347,11 @@ def _check_interrupting(ctx: Context, n: str, d: Duty) -> None:
         "A",
         "at_most",
         "panel-interrupting",
-        f"rating {_kA(panel.interrupting_a)} vs duty {_kA(d.duty_a)} ({what}{factor})"
+        f"rating {kiloamps(panel.interrupting_a)} vs duty {kiloamps(d.duty_a)} ({what}{factor})"
         + (
             ""
             if ok
-            else f" — equipment rated at least {_kA(d.duty_a)} (or a series-rated "
+            else f" — equipment rated at least {kiloamps(d.duty_a)} (or a series-rated "
             "combination tested for it) is needed (NFPA 70 110.9, 110.10)"
         ),
         tolerance=0.0,
