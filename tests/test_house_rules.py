@@ -30,9 +30,7 @@ OVER_BUDGET = {
     "checks/schedules.py:check_schedule",
     "checks/vdrop.py:check_voltage_drop",
     "checks/vdrop.py:_run_drop",
-    "commands/schedule.py:schedule_command",
     "inputs/schedule_file.py:read_schedule",
-    "inputs/schedule_header.py:match_header",
     "tables.py:read_table_file",
 }
 

@@ -167,18 +167,11 @@ def schedule_command(
     keep_going,
 ):
     from ..errors import InputError
+    from .errors import echo_problems
 
-    if system is not None and job_file:
-        raise click.UsageError("give either --system or --job, not both")
-    if job_file and (systems_file or columns or layout != "auto"):
-        raise click.UsageError("--systems, --columns and --layout are for files without --job")
+    _check_options(system, job_file, systems_file, columns, layout)
     column_map = _column_map(columns)
-    if out and Path(out).suffix.lower() not in (".csv", ".xlsx", ".json"):
-        raise click.UsageError(f"--out: got {out!r}; expected a .csv, .xlsx or .json file")
-    if job_file and (bus_a or main_a or feeder_drop or occupancy):
-        raise click.UsageError(
-            "--bus, --main, --feeder-drop and --occupancy come from the job with --job"
-        )
+    _check_out_and_panel_options(out, job_file, (bus_a, main_a, feeder_drop, occupancy))
     occupancy = occupancy or "other"
     files = _expand(inputs, out)
     if not files and not job_file:
@@ -192,7 +185,7 @@ def schedule_command(
     try:
         if job_file:
             results = _from_job(job_file, files)
-            done = [str(r.path) for r in results]
+            done = [str(result.path) for result in results]
         else:
             opts = {
                 "system": system,
@@ -205,25 +198,12 @@ def schedule_command(
                 files, opts, (feeder_drop, occupancy, bus_a, main_a), done, unreadable
             )
         if out and (results or not unreadable):
-            from ..io_atomic import check_output
-            from ..render.schedules import write_results
-
-            check_output(out, [*files, *done, *([job_file] if job_file else [])])
-            try:
-                write_results(results, out, CAUTION)
-            except ValueError as exc:  # more circuits than an XLSX sheet holds
-                _report_partial(done, files, str(exc))
-                sys.exit(2)
+            _write_results(out, results, files, done, job_file)
     except KeyboardInterrupt:
         _report_partial(done, files, "interrupted")
         sys.exit(130)
     except InputError as exc:
-        for p in exc.problems:
-            click.echo(f"error: {p}", err=True)
-        n = len(exc.problems)
-        click.echo(
-            f"{n} problem{'s' if n != 1 else ''} in the input; nothing was written.", err=True
-        )
+        echo_problems(exc.problems)
         if done:
             click.echo(f"checked without problems: {', '.join(done)}", err=True)
         sys.exit(2)
@@ -236,17 +216,55 @@ def schedule_command(
     if out and (results or not unreadable):
         click.echo(f"wrote {out}", err=True)
     if unreadable:
-        for exc in unreadable:
-            for p in exc.problems:
-                click.echo(f"error: {p}", err=True)
-        names = list(dict.fromkeys(p.file for exc in unreadable for p in exc.problems))
-        click.echo(
-            f"{len(names)} file(s) could not be read (listed above; not in the results): "
-            f"{', '.join(names)}",
-            err=True,
-        )
+        _report_unreadable(unreadable)
         sys.exit(2)
-    sys.exit(1 if any(r.exit_code for r in results) else 0)
+    sys.exit(1 if any(result.exit_code for result in results) else 0)
+
+
+def _check_options(system, job_file, systems_file, columns, layout) -> None:
+    """Options for files that the job gives instead (UsageError)."""
+    if system is not None and job_file:
+        raise click.UsageError("give either --system or --job, not both")
+    if job_file and (systems_file or columns or layout != "auto"):
+        raise click.UsageError("--systems, --columns and --layout are for files without --job")
+
+
+def _check_out_and_panel_options(out, job_file, panel_options) -> None:
+    """The --out file kind, and panel options that the job gives instead (UsageError)."""
+    if out and Path(out).suffix.lower() not in (".csv", ".xlsx", ".json"):
+        raise click.UsageError(f"--out: got {out!r}; expected a .csv, .xlsx or .json file")
+    if job_file and any(panel_options):
+        raise click.UsageError(
+            "--bus, --main, --feeder-drop and --occupancy come from the job with --job"
+        )
+
+
+def _write_results(out, results, files, done, job_file) -> None:
+    """The --out file, checked again against every input read (exit 2 when the results
+    do not fit the format)."""
+    from ..io_atomic import check_output
+    from ..render.schedules import write_results
+
+    check_output(out, [*files, *done, *([job_file] if job_file else [])])
+    try:
+        write_results(results, out, CAUTION)
+    except ValueError as exc:  # more circuits than an XLSX sheet holds
+        _report_partial(done, files, str(exc))
+        sys.exit(2)
+
+
+def _report_unreadable(unreadable) -> None:
+    """With --keep-going: every problem of the files that could not be read, and their
+    names."""
+    for exc in unreadable:
+        for problem in exc.problems:
+            click.echo(f"error: {problem}", err=True)
+    names = list(dict.fromkeys(problem.file for exc in unreadable for problem in exc.problems))
+    click.echo(
+        f"{len(names)} file(s) could not be read (listed above; not in the results): "
+        f"{', '.join(names)}",
+        err=True,
+    )
 
 
 def _column_map(columns: str | None) -> dict[str, str]:
