@@ -6,14 +6,13 @@ from __future__ import annotations
 
 from ..calc import ampacity as ak
 from ..calc import protection as pk
-from ..calc import selection as sk
 from ..calc.constants import M_PER_FT
 from ..calc.sizes import SIZES
 from ..model import Run
 from .bonding import check_sds_conductors
 from .compare import passes
 from .context import Context
-from .run_fix import RunDuty, next_passing
+from .run_fix import RunDuty, next_passing, select_for_duty
 from .taps import check_unprotected_run, run_device
 from .termination import termination_note
 from .withstand import check_withstand
@@ -24,49 +23,6 @@ def _loads(ctx: Context, run: Run) -> tuple[float, float, float]:
     phase elements at S / V_LL: checks/loads.py), and its power factor."""
     cont, non = ctx.feed_currents_a(run.to_id)
     return cont, non, ctx.loads[run.to_id].pf
-
-
-def _select(
-    ctx: Context,
-    run: Run,
-    cont: float,
-    non: float,
-    device: float | None,
-    term: float | None,
-    cc: int,
-    rooftop_c: float,
-) -> sk.Selection:
-    """Smallest conductor of the run's material and system for its load and device."""
-    return sk.select_conductor(
-        cont,
-        non,
-        run.material,
-        run.insulation_c,
-        run.ambient_c,
-        cc,
-        termination_c=term,
-        sets=run.sets,
-        raceway=run.raceway,
-        device_a=device,
-        rooftop_adder_c=rooftop_c,
-        system=run.size.system,
-        data=ctx.rules.sizing,
-    )
-
-
-def _next_passing(
-    ctx: Context,
-    run: Run,
-    cont: float,
-    non: float,
-    device: float | None,
-    term: float | None,
-    cc: int,
-    rooftop_c: float,
-) -> str:
-    """The size (and device) with which every conductor check of the run passes,
-    verified by re-running them (:mod:`feedcheck.checks.run_fix`)."""
-    return next_passing(ctx, run, RunDuty(cont, non, device, cc, rooftop_c))
 
 
 def _run_sheet(ctx: Context, run: Run):
@@ -289,18 +245,21 @@ def check_run(ctx: Context, run: Run) -> None:
         }
     )
     tnote = termination_note(ctx, run, term, chain.termination_cap_a)  # issue 13 item 7
+    duty = RunDuty(cont, non, device, cc, rooftop_c)
     fix = None
 
     def fix_text():
+        """The size (and device) with which every conductor check of the run passes,
+        verified by re-running them (:mod:`feedcheck.checks.run_fix`); found once."""
         nonlocal fix
         if fix is None:
-            fix = _next_passing(ctx, run, cont, non, device, run.termination_c, cc, rooftop_c)
+            fix = next_passing(ctx, run, duty)
         return fix
 
     _check_ampacity(ctx, run, chain, cont + non, fix_text, tnote)
     if device is not None:
         _check_device(ctx, run, device, chain.final_a, cont, non, fix_text)
-        _check_egc(ctx, run, device, cont, non, term, cc, rooftop_c)
+        _check_egc(ctx, run, duty, term)
     else:
         check_unprotected_run(ctx, run, chain.final_a)
         if tree.kind[run.from_id] == "transformer":
@@ -308,7 +267,7 @@ def check_run(ctx: Context, run: Run) -> None:
     check_withstand(ctx, run, cont + non, chain.corrected_a)
 
 
-def _check_egc(ctx, run, device, cont, non, term, cc, rooftop_c) -> None:
+def _check_egc(ctx: Context, run: Run, duty: RunDuty, term: float | None) -> None:
     if run.ground is None:
         ctx.add(
             run.id,
@@ -322,13 +281,13 @@ def _check_egc(ctx, run, device, cont, non, term, cc, rooftop_c) -> None:
         )
         return
     try:
-        minimum = _select(ctx, run, cont, non, device, term, cc, rooftop_c).size
+        minimum = select_for_duty(ctx, run, duty, term).size
     except ValueError:
         minimum = run.size.name
     if SIZES[minimum].area_mm2 > run.size.area_mm2:
         minimum = run.size.name
     need = pk.egc_size(
-        device,
+        duty.device_a,
         run.ground_material,
         run.size.name,
         minimum,

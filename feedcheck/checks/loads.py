@@ -267,43 +267,44 @@ def demand_chain_steps(chain, sheet) -> None:
     demand factors → largest motor 25 % (430.24) → continuous 125 % (215.2(A)(1))."""
     if chain is None:
         return
-    kinds = [k for k, v in chain.connected_va.items() if v > 0]
-    sheet.step(
-        "1. Connected load",
-        "Σ circuit loads by kind",
-        " + ".join(f"{k} {chain.connected_va[k]:,.0f}" for k in kinds) or "0",
-        round(float(chain.connected_total_va)),
-        "VA",
+    kinds = [kind for kind, va in chain.connected_va.items() if va > 0]
+
+    def by_kind(values) -> str:
+        return " + ".join(f"{kind} {values[kind]:,.0f}" for kind in kinds) or "0"
+
+    steps = (
+        ("1. Connected load", "Σ circuit loads by kind", by_kind(chain.connected_va)),
+        (
+            "2. After demand factors",
+            "each kind through its tiers (Table 220.42, 220.44; others 100 %)",
+            by_kind(chain.demand_va),
+        ),
+        (
+            "3. Largest motor",
+            "+ 25 % of the largest motor (430.24), once",
+            f"0.25 × {float(chain.largest_motor_va):,.0f}",
+        ),
+        (
+            "4. Continuous loads",
+            "+ 25 % of the continuous non-motor demand (215.2(A)(1))",
+            f"0.25 × {float(chain.continuous_demand_va):,.0f}",
+        ),
+        (
+            "Design load",
+            "step 2 + step 3 + step 4",
+            f"{float(chain.demand_total_va):,.0f} + {float(chain.largest_motor_adder_va):,.0f}"
+            f" + {float(chain.continuous_adder_va):,.0f}",
+        ),
     )
-    sheet.step(
-        "2. After demand factors",
-        "each kind through its tiers (Table 220.42, 220.44; others 100 %)",
-        " + ".join(f"{k} {chain.demand_va[k]:,.0f}" for k in kinds) or "0",
-        round(float(chain.demand_total_va)),
-        "VA",
+    values = (
+        chain.connected_total_va,
+        chain.demand_total_va,
+        chain.largest_motor_adder_va,
+        chain.continuous_adder_va,
+        chain.design_va,
     )
-    sheet.step(
-        "3. Largest motor",
-        "+ 25 % of the largest motor (430.24), once",
-        f"0.25 × {float(chain.largest_motor_va):,.0f}",
-        round(float(chain.largest_motor_adder_va)),
-        "VA",
-    )
-    sheet.step(
-        "4. Continuous loads",
-        "+ 25 % of the continuous non-motor demand (215.2(A)(1))",
-        f"0.25 × {float(chain.continuous_demand_va):,.0f}",
-        round(float(chain.continuous_adder_va)),
-        "VA",
-    )
-    sheet.step(
-        "Design load",
-        "step 2 + step 3 + step 4",
-        f"{float(chain.demand_total_va):,.0f} + {float(chain.largest_motor_adder_va):,.0f}"
-        f" + {float(chain.continuous_adder_va):,.0f}",
-        round(float(chain.design_va)),
-        "VA",
-    )
+    for (label, method, working), value in zip(steps, values, strict=True):
+        sheet.step(label, method, working, round(float(value)), "VA")
 
 
 def _say_unbalanced_primary(ctx, t: Transformer, ph: PhaseLoad) -> None:

@@ -72,16 +72,21 @@ def check_panel(ctx: Context, p: Panel) -> None:
             f"(continuous at 125 %) vs {what} {rating:g} A",
         )
     if p.main_device_a:
-        ctx.compare(
-            p.id,
-            "main device vs bus",
-            p.main_device_a,
-            p.rating_a,
-            "A",
-            "at_most",
-            "panel-main-bus",
-            f"main device {p.main_device_a:g} A on a {p.rating_a:g} A bus",
-        )
+        _main_device_vs_bus(ctx, p)
+
+
+def _main_device_vs_bus(ctx: Context, panel: Panel) -> None:
+    """The panel's main device rated at most its bus (rule panel-main-bus)."""
+    ctx.compare(
+        panel.id,
+        "main device vs bus",
+        panel.main_device_a,
+        panel.rating_a,
+        "A",
+        "at_most",
+        "panel-main-bus",
+        f"main device {panel.main_device_a:g} A on a {panel.rating_a:g} A bus",
+    )
 
 
 def check_panel_protection(ctx: Context, p: Panel) -> None:
@@ -91,16 +96,7 @@ def check_panel_protection(ctx: Context, p: Panel) -> None:
     bus" finding; this covers main-lugs panels and panels without a load."""
     if p.main_device_a is not None:
         if ctx.loads[p.id].va <= 0:
-            ctx.compare(
-                p.id,
-                "main device vs bus",
-                p.main_device_a,
-                p.rating_a,
-                "A",
-                "at_most",
-                "panel-main-bus",
-                f"main device {p.main_device_a:g} A on a {p.rating_a:g} A bus",
-            )
+            _main_device_vs_bus(ctx, p)
         return
     from .taps import bus_device
 

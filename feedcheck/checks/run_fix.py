@@ -78,6 +78,25 @@ def _failures(ctx: Context, run: Run, name: str, duty: RunDuty) -> list[str]:
     return out
 
 
+def select_for_duty(ctx: Context, run: Run, duty: RunDuty, term: float | None) -> sk.Selection:
+    """Smallest conductor of the run's material and system for its load and device."""
+    return sk.select_conductor(
+        duty.cont_a,
+        duty.non_a,
+        run.material,
+        run.insulation_c,
+        run.ambient_c,
+        duty.cc,
+        termination_c=term,
+        sets=run.sets,
+        raceway=run.raceway,
+        device_a=duty.device_a,
+        rooftop_adder_c=duty.rooftop_c,
+        system=run.size.system,
+        data=ctx.rules.sizing,
+    )
+
+
 def next_passing(ctx: Context, run: Run, duty: RunDuty) -> str:
     """Text naming the smallest size (and device) with which every conductor check of the
     run passes, starting from the smallest size meeting load and device."""
@@ -96,21 +115,7 @@ def next_passing(ctx: Context, run: Run, duty: RunDuty) -> str:
             device_text = f" with a {device:g} A device"
     duty = replace(duty, device_a=device)
     try:
-        sel = sk.select_conductor(
-            duty.cont_a,
-            duty.non_a,
-            run.material,
-            run.insulation_c,
-            run.ambient_c,
-            duty.cc,
-            termination_c=run.termination_c,
-            sets=run.sets,
-            raceway=run.raceway,
-            device_a=device,
-            rooftop_adder_c=duty.rooftop_c,
-            system=run.size.system,
-            data=ctx.rules.sizing,
-        )
+        sel = select_for_duty(ctx, run, duty, run.termination_c)
     except ValueError as exc:
         return f"no size found with {run.sets} set(s): {exc}"
     order = AWG_KCMIL_ORDER if run.size.system == "awg" else METRIC_ORDER

@@ -91,14 +91,9 @@ def check_unprotected_run(ctx: Context, run: Run, ampacity_a: float) -> None:
     )
     from_transformer = ctx.tree.kind.get(run.from_id) == "transformer"
     if run.tap_rule in FEEDER_TAPS and from_transformer:
-        ctx.add(
-            run.id,
-            "overcurrent protection",
-            None,
-            None,
-            "A",
-            "fail",
-            "feeder-unprotected",
+        _unprotected(
+            ctx,
+            run,
             f"tap_rule = '{run.tap_rule}' is a feeder tap rule (240.21(B)); conductors from "
             f"the transformer secondary are under 240.21(C): declare 'transformer secondary "
             f"{run.tap_rule}' or give the run's device",
@@ -110,14 +105,9 @@ def check_unprotected_run(ctx: Context, run: Run, ampacity_a: float) -> None:
         check_secondary_arrangement(ctx, run, ampacity_a)
         return
     if not run.tap_rule:
-        ctx.add(
-            run.id,
-            "overcurrent protection",
-            None,
-            None,
-            "A",
-            "fail",
-            "feeder-unprotected",
+        _unprotected(
+            ctx,
+            run,
             f"no device protects {run.id} ({run.from_id} → {run.to_id}): give the run's "
             "device, or declare the tap rule it is built under (tap_rule = '10 ft' or "
             "'25 ft') so its conditions are checked",
@@ -229,3 +219,8 @@ def tap_needs_a(ctx: Context, run: Run) -> float:
 
         return secondary_need_a(ctx, run) or 0.0
     return 0.0
+
+
+def _unprotected(ctx: Context, run: Run, note: str) -> None:
+    """A failing "overcurrent protection" finding: nothing protects the run under 240.21."""
+    ctx.add(run.id, "overcurrent protection", None, None, "A", "fail", "feeder-unprotected", note)

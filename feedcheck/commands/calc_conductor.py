@@ -11,6 +11,7 @@ import click
 
 from .. import CAUTION
 from .params import (
+    CONTEXT,
     CURRENT,
     LENGTH,
     MATERIAL,
@@ -26,7 +27,6 @@ from .params import (
 
 LOAD = QuantityType("current", must_be_positive=False)  # a load may be 0 A; checked below
 
-CONTEXT = {"help_option_names": ["-h", "--help"], "max_content_width": 100}
 
 AMPACITY_HELP = f"""Allowable ampacity of one conductor run, shown as a chain of factors.
 

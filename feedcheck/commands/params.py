@@ -7,6 +7,9 @@ import click
 from ..model import MATERIALS, RACEWAYS
 from ..units import UnitParseError, parse_quantity, parse_voltage_system
 
+# the help options and width of every command
+CONTEXT = {"help_option_names": ["-h", "--help"], "max_content_width": 100}
+
 
 class QuantityType(click.ParamType):
     """A value with a unit, converted to the SI float the kernels take.

@@ -15,7 +15,7 @@ import click
 
 from .. import CAUTION
 from ..model import OCCUPANCIES
-from .params import CURRENT, VOLTAGE_SYSTEM, QuantityType
+from .params import CONTEXT, CURRENT, VOLTAGE_SYSTEM, QuantityType
 
 DROP = QuantityType("percent", must_be_positive=False)
 
@@ -85,7 +85,7 @@ def _expand(paths: tuple[str, ...], out: str | None = None) -> list[Path]:
 @click.command(
     "schedule",
     help=HELP,
-    context_settings={"help_option_names": ["-h", "--help"], "max_content_width": 100},
+    context_settings=CONTEXT,
 )
 @click.argument("inputs", nargs=-1, type=click.Path(exists=True), metavar="FILE_OR_FOLDER...")
 @click.option(
