@@ -43,8 +43,8 @@ def check_faults(ctx: Context) -> None:
     order = list(tree.order)
     pos = {n: i for i, n in enumerate(order)}
     parent = np.array(tree.parent_index())
-    v_node = np.array([tree.voltage_of[n].line_v for n in order])
-    vb = job.source.voltage.line_v
+    v_node = np.array([tree.voltage_of[n].voltage_ll_v for n in order])
+    vb = job.source.voltage.voltage_ll_v
 
     zs = source_impedance(job)
     b_max = branch_impedances(ctx, fa, fa.cond_c_max, "max")
@@ -53,7 +53,7 @@ def check_faults(ctx: Context) -> None:
     def referred(branches):
         arr = np.zeros(len(order), dtype=complex)
         for n, z in branches.items():
-            arr[pos[n]] = z * (vb / tree.voltage_of[n].line_v) ** 2
+            arr[pos[n]] = z * (vb / tree.voltage_of[n].voltage_ll_v) ** 2
         return arr
 
     zb_max, zb_min = referred(b_max), referred(b_min)
@@ -187,7 +187,7 @@ def _sheet_steps(ctx: Context, fa, g: _Figures, i: int, n: str) -> None:
     sh.step(
         "Maximum three-phase fault current",
         form,
-        f"{fa.c_max:g} × {v.line_v:g} / (√3 × {abs(z_max_node) * 1e3:.3f} mΩ)"
+        f"{fa.c_max:g} × {v.voltage_ll_v:g} / (√3 × {abs(z_max_node) * 1e3:.3f} mΩ)"
         + (f" + motors {motor_node[i]:.0f} A" if motor_node[i] > 0 else ""),
         round(float(fault_max[i])),
         "A",
@@ -196,7 +196,7 @@ def _sheet_steps(ctx: Context, fa, g: _Figures, i: int, n: str) -> None:
     sh.step(
         "Minimum three-phase fault current",
         form,
-        f"{fa.c_min:g} × {v.line_v:g} / (√3 × {abs(z_min_node) * 1e3:.3f} mΩ)",
+        f"{fa.c_min:g} × {v.voltage_ll_v:g} / (√3 × {abs(z_min_node) * 1e3:.3f} mΩ)",
         round(float(rf.fault_min_a[i])),
         "A",
         "fault-cond-temp-min",
@@ -215,7 +215,7 @@ def _sheet_steps(ctx: Context, fa, g: _Figures, i: int, n: str) -> None:
             "I = 3·V_LN / |Z1 + Z2 + Z0|"
             if v.kind == "wye"
             else "I = V_LN / |Z_LN,source + Σ(Z_phase + Z_return)|",
-            f"V_LN = {v.neutral_v:g} V",
+            f"V_LN = {v.voltage_ln_v:g} V",
             round(lg_min[n]),
             "A",
             "fault-z0-ratio-min",
@@ -281,9 +281,11 @@ def _primary_terminals(ctx: Context, fa, pos, rf, vb) -> None:
             ("max", fa.cond_c_max, rf.z_max_ohm, fa.c_max),
             ("min", fa.min_c(run), rf.z_min_ohm, fa.c_min),
         ):
-            z_run_b = k * run_impedance_ohm(run, temp, ctx.rules.conductors) * (vb / pv.line_v) ** 2
+            z_run_b = (
+                k * run_impedance_ohm(run, temp, ctx.rules.conductors) * (vb / pv.voltage_ll_v) ** 2
+            )
             z_b = z_parent[pos[p]] + z_run_b
-            out[case] = float(fk.fault_current_3ph_a(vb, z_b, c)) * vb / pv.line_v
+            out[case] = float(fk.fault_current_3ph_a(vb, z_b, c)) * vb / pv.voltage_ll_v
         values = ctx.nodes[t.id].values
         values["fault_primary_max_a"], values["fault_primary_min_a"] = out["max"], out["min"]
         ctx.add(
@@ -334,14 +336,15 @@ def _sequence_network(ctx, fa, order, pos, parent, z_total_min, vb) -> _Sequence
     for node in order:
         at = pos[node]
         system = tree.voltage_of[node]
-        if system.neutral_v is None or tree.upstream_transformer[node] is None:
+        if system.voltage_ln_v is None or tree.upstream_transformer[node] is None:
             net.parent[at] = -1
             continue
         net.in_scope[at] = True
         if tree.kind[node] == "transformer":
             tx = transformers[node]
             net.parent[at] = -1
-            z1 = complex(z_total_min[at] * (system.line_v / vb) ** 2)  # per-phase (equivalent)
+            # per-phase (equivalent)
+            z1 = complex(z_total_min[at] * (system.voltage_ll_v / vb) ** 2)
             zt_min = transformer_loop_ohm(tx, fa.tolerance_pct, "min")
             if system.kind == "wye":
                 net.root_z1[at] = z1
@@ -419,8 +422,8 @@ def _line_to_ground_a(net: _SequenceNetwork, vln, wye, c_min) -> np.ndarray:
 
 def _v_ln(v) -> float:
     if v.kind == "wye":
-        return v.line_v / SQRT3
-    return v.neutral_v or 1.0
+        return v.voltage_ll_v / SQRT3
+    return v.voltage_ln_v or 1.0
 
 
 def _pickup(ctx, device_a: float, given: float | None) -> tuple[float, float, str]:

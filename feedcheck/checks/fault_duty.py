@@ -58,7 +58,7 @@ def transformer_loop_ohm(t: Transformer, tolerance_pct: float, case: str) -> com
     """Transformer impedance at its secondary voltage for the case [Ω]: per phase for a
     three-phase unit, the whole-winding loop for a single-phase one."""
     zmax, zmin = fk.transformer_fault_impedances_ohm(
-        t.rating_va, t.secondary.line_v, t.z_pct, t.x_r, tolerance_pct, t.secondary.phases
+        t.rating_va, t.secondary.voltage_ll_v, t.z_pct, t.x_r, tolerance_pct, t.secondary.phases
     )
     return complex(zmax if case == "max" else zmin)
 
@@ -114,13 +114,13 @@ def motor_contribution(ctx: Context, fa: FaultAssumptions, base_v: float) -> np.
     at_base = np.zeros(len(order))
     for m in ctx.job.motors:
         i_m = float(fk.motor_contribution_a(m.full_load_a, fa.motor_multiple))
-        i_b = i_m * tree.voltage_of[m.panel_id].line_v / base_v
+        i_b = i_m * tree.voltage_of[m.panel_id].voltage_ll_v / base_v
         system = tree.upstream_transformer[m.panel_id]
         for n in order:
             same = tree.upstream_transformer[n] == system
             if same or n in ancestors[m.panel_id]:
                 at_base[pos[n]] += i_b
-    v_node = np.array([tree.voltage_of[n].line_v for n in order])
+    v_node = np.array([tree.voltage_of[n].voltage_ll_v for n in order])
     return at_base * base_v / v_node
 
 
@@ -155,7 +155,7 @@ def worst_case_figures(
         if v.kind == "split":
             z_src = upstream_part(SQRT3 * z_total_max[tid], zt)
             f = sp.split_phase_fault(
-                t.rating_va, v.line_v, t.z_pct, t.x_r, "max", fa.tolerance_pct,
+                t.rating_va, v.voltage_ll_v, t.z_pct, t.x_r, "max", fa.tolerance_pct,
                 z_src, z_line[n], z_line[n], c=fa.c_max,
             )  # fmt: skip
             fig.faults_a["ln"] = float(f.fault_ln_a) + motor_a.get(n, 0.0)
@@ -164,7 +164,7 @@ def worst_case_figures(
             z_src = upstream_part(z_total_max[tid], zt)
             k = z0_ratio(t, fa, "max")
             i = dk.fault_lg_delta_wye_a(
-                v.line_v / SQRT3, z_src, zt, k, z_line[n], z_ret[n], c=fa.c_max
+                v.voltage_ll_v / SQRT3, z_src, zt, k, z_line[n], z_ret[n], c=fa.c_max
             )
             z_sum = 2 * (z_src + zt + z_line[n]) + k * zt + z_line[n] + 3 * z_ret[n]
             fig.faults_a["lg"] = float(i) + motor_a.get(n, 0.0)
@@ -367,7 +367,7 @@ def flag_return_paths(ctx: Context) -> None:
         for r in ctx.job.runs
         if r.ground is None
         and tree.upstream_transformer.get(r.to_id) is not None
-        and tree.voltage_of[r.to_id].neutral_v is not None
+        and tree.voltage_of[r.to_id].voltage_ln_v is not None
     ]
     if not bare:
         return

@@ -34,7 +34,7 @@ def check_panel(ctx: Context, p: Panel) -> None:
             'no load given (add load = "… kVA" or a schedule) — load checks skipped',
         )
         return
-    i_load = current_from_apparent_power_a(load.va, v.line_v, v.phases)
+    i_load = current_from_apparent_power_a(load.va, v.voltage_ll_v, v.phases)
     sh.inputs.append(
         (
             "Demand load",
@@ -45,7 +45,7 @@ def check_panel(ctx: Context, p: Panel) -> None:
     sh.step(
         "Demand current, balanced average",
         "I = S / (√3 · V_LL)" if v.phases == 3 else "I = S / V",
-        f"{load.va:,.0f} / ({'√3 · ' if v.phases == 3 else ''}{v.line_v:g})",
+        f"{load.va:,.0f} / ({'√3 · ' if v.phases == 3 else ''}{v.voltage_ll_v:g})",
         round(i_load, 1),
         "A",
     )

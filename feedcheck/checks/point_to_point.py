@@ -54,7 +54,7 @@ def point_to_point_a(ctx: Context, fa: FaultAssumptions, order) -> dict[str, flo
 def _secondary_start_a(job, tx, fa: FaultAssumptions) -> float:
     """The method's starting figure at a transformer fed from the source (before the
     voltage factor)."""
-    rated = tk.rated_current_a(tx.rating_va, tx.secondary.line_v, tx.secondary.phases)
+    rated = tk.rated_current_a(tx.rating_va, tx.secondary.voltage_ll_v, tx.secondary.phases)
     source_a = job.source.fault_a
     if tx.secondary.phases == 1 and job.source.voltage.phases == 3:
         source_a = source_a * SQRT3 / 2  # line-to-line fault on a three-phase source
@@ -64,8 +64,8 @@ def _secondary_start_a(job, tx, fa: FaultAssumptions) -> float:
             tx.z_pct,
             fa.tolerance_pct,
             None if math.isinf(source_a) else source_a,
-            tx.primary.line_v,
-            tx.secondary.line_v,
+            tx.primary.voltage_ll_v,
+            tx.secondary.voltage_ll_v,
         )
     )
 
@@ -78,7 +78,7 @@ def _end_of_run_a(ctx: Context, fa: FaultAssumptions, run, system, start_a: floa
     c_value = float(conductor_constant_a_ft_per_v(float(r), float(x)))
     kind = "3ph" if system.phases == 3 else "1ph-ll"
     return float(
-        ptp_chain_a(start_a, [run.length_m], [c_value], [run.sets], system.line_v, kind)[0]
+        ptp_chain_a(start_a, [run.length_m], [c_value], [run.sets], system.voltage_ll_v, kind)[0]
     )
 
 

@@ -43,8 +43,8 @@ def _rated_currents(ctx: Context, tx: Transformer, sheet) -> tuple[float, float]
     factor = "√3 · " if phases == 3 else ""
     rated = []
     for winding, symbol, voltage_ll_v in (
-        ("primary", "I_p", tx.primary.line_v),
-        ("secondary", "I_s", tx.secondary.line_v),
+        ("primary", "I_p", tx.primary.voltage_ll_v),
+        ("secondary", "I_s", tx.secondary.voltage_ll_v),
     ):
         current_a = tk.rated_current_a(tx.rating_va, voltage_ll_v, phases)
         sheet.step(
@@ -59,8 +59,8 @@ def _rated_currents(ctx: Context, tx: Transformer, sheet) -> tuple[float, float]
         "Rated current I = S/(√3·V) three-phase, S/V single-phase", "IEEE Std 141-1993 ch. 4"
     )
     for winding, current_a, voltage_ll_v in (
-        ("primary", rated[0], tx.primary.line_v),
-        ("secondary", rated[1], tx.secondary.line_v),
+        ("primary", rated[0], tx.primary.voltage_ll_v),
+        ("secondary", rated[1], tx.secondary.voltage_ll_v),
     ):
         ctx.add(
             tx.id,

@@ -201,7 +201,7 @@ def compute(*args, **kwargs):
         c_min=c_min,
         split=split,
         phases=1 if split else 3,
-        rated_a=rated_current_a(kva, secondary.line_v, 1 if split else 3),
+        rated_a=rated_current_a(kva, secondary.voltage_ll_v, 1 if split else 3),
         ptp_warn_pct=book.fault.ptp_disagree_pct,
         findings=res.findings,
     )

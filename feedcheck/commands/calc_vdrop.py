@@ -65,22 +65,22 @@ def _nominal_v(system, circuit: str) -> float:
             raise click.UsageError(
                 f"--circuit 3ph needs a three-phase --system; got {system.text!r}"
             )
-        return system.line_v
+        return system.voltage_ll_v
     if circuit == "1ph3w":
         if system.kind != "split":
             raise click.UsageError(
                 "--circuit 1ph3w needs a single-phase three-wire --system "
                 f"such as '120/240 V'; got {system.text!r}"
             )
-        return system.line_v
+        return system.voltage_ll_v
     if circuit == "ln4w":
-        if system.neutral_v is None:
+        if system.voltage_ln_v is None:
             raise click.UsageError(
                 "--circuit ln4w needs a system with a neutral such as "
                 f"'208Y/120 V' or '120/240 V'; got {system.text!r}"
             )
-        return system.neutral_v
-    return system.line_v
+        return system.voltage_ln_v
+    return system.voltage_ll_v
 
 
 def _fail(msg: str) -> None:

@@ -156,7 +156,10 @@ def check_voltages(
         if pn.voltage is None:
             continue
         have = tree.voltage_of[pn.id]
-        if abs(have.line_v - pn.voltage.line_v) > 0.5 or have.phases != pn.voltage.phases:
+        if (
+            abs(have.voltage_ll_v - pn.voltage.voltage_ll_v) > 0.5
+            or have.phases != pn.voltage.phases
+        ):
             r.add(
                 f"panel[{i}].voltage",
                 pn.voltage.text,
@@ -165,7 +168,7 @@ def check_voltages(
     for i, t in enumerate(transformers, start=1):
         have = tree.voltage_of[tree.parent_node[t.id]]
         if t.primary and (
-            abs(have.line_v - t.primary.line_v) > 0.5 or have.phases < t.primary.phases
+            abs(have.voltage_ll_v - t.primary.voltage_ll_v) > 0.5 or have.phases < t.primary.phases
         ):
             r.add(
                 f"transformer[{i}].primary",
