@@ -4,8 +4,8 @@ secondary-conductor arrangements."""
 
 from __future__ import annotations
 
-from ..calc import ampacity as ak
 from ..calc import protection as pk
+from ..calc.ampacity import ampacity_chain, rooftop_adder_c, termination_c_for
 from ..calc.constants import M_PER_FT
 from ..calc.sizes import SIZES
 from ..model import Run
@@ -97,7 +97,7 @@ def _rooftop_c(ctx: Context, run: Run, sh) -> float:
     """Rooftop raceway temperature adder [°C] (0 when the run is not on a roof)."""
     rooftop_c, rooftop_rule = 0.0, ""
     if run.rooftop_mm is not None:
-        rooftop_c, rooftop_rule = ak.rooftop_adder_c(
+        rooftop_c, rooftop_rule = rooftop_adder_c(
             run.rooftop_mm / 1000.0, tables=ctx.rules.ampacity
         )
         sh.step(
@@ -116,7 +116,7 @@ def _termination_c(run: Run, sh, device: float | None, load_a: float) -> float:
     term = run.termination_c
     if term is None:
         basis = device if device is not None else load_a
-        term = float(ak.termination_c_for(basis, run.size.name))
+        term = float(termination_c_for(basis, run.size.name))
         sh.step(
             "Termination temperature column",
             "110.14(C)(1): ≤ 100 A or 14–1 AWG → 60 °C, else 75 °C",
@@ -217,7 +217,7 @@ def check_run(ctx: Context, run: Run) -> None:
         return
     term = _termination_c(run, sh, device, cont + non)
     try:
-        chain = ak.ampacity_chain(
+        chain = ampacity_chain(
             run.size.name,
             run.material,
             run.insulation_c,

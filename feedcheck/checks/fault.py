@@ -8,10 +8,23 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..calc import conductor as ck
-from ..calc import fault as fk
-from ..calc import fault_lg as lg
+from ..calc.conductor import ac_impedance_ohm_per_m
 from ..calc.constants import M_PER_FT, SQRT3
+from ..calc.fault import (
+    asymmetric_rms_half_cycle_a,
+    cumulative_impedance_ohm,
+    fault_current_3ph_a,
+    peak_current_a,
+    radial_fault_3ph,
+)
+from ..calc.fault_lg import (
+    instantaneous_trip_check,
+    max_length_for_trip_m,
+    radial_fault_lg_a,
+    run_zero_sequence_ohm,
+    smallest_return_for_trip,
+    transformer_zero_sequence_ohm,
+)
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
 from .context import Context
 from .fault_duty import (
@@ -41,9 +54,9 @@ def check_faults(ctx: Context) -> None:
     job, tree = ctx.job, ctx.tree
     fa = fault_assumptions(ctx)
     order = list(tree.order)
-    pos = {n: i for i, n in enumerate(order)}
+    pos = {node: at for at, node in enumerate(order)}
     parent = np.array(tree.parent_index())
-    v_node = np.array([tree.voltage_of[n].voltage_ll_v for n in order])
+    v_node = np.array([tree.voltage_of[node].voltage_ll_v for node in order])
     vb = job.source.voltage.voltage_ll_v
 
     zs = source_impedance(job)
@@ -52,19 +65,19 @@ def check_faults(ctx: Context) -> None:
 
     def referred(branches):
         arr = np.zeros(len(order), dtype=complex)
-        for n, z in branches.items():
-            arr[pos[n]] = z * (vb / tree.voltage_of[n].voltage_ll_v) ** 2
+        for node, z_branch in branches.items():
+            arr[pos[node]] = z_branch * (vb / tree.voltage_of[node].voltage_ll_v) ** 2
         return arr
 
     zb_max, zb_min = referred(b_max), referred(b_min)
     # a single-phase transformer on a three-phase node draws through two source lines:
     # loop = 2·Z_parent, per-phase equivalent 2·Z_parent/√3 (instead of Z_parent)
-    for t in job.transformers:
-        p = tree.parent_node[t.id]
-        if t.secondary.phases == 1 and tree.voltage_of[p].phases == 3:
+    for tx in job.transformers:
+        upstream = tree.parent_node[tx.id]
+        if tx.secondary.phases == 1 and tree.voltage_of[upstream].phases == 3:
             for zb in (zb_max, zb_min):
-                zp = fk.cumulative_impedance_ohm(parent, zb, zs)[pos[p]]
-                zb[pos[t.id]] += (2 / SQRT3 - 1) * zp
+                zp = cumulative_impedance_ohm(parent, zb, zs)[pos[upstream]]
+                zb[pos[tx.id]] += (2 / SQRT3 - 1) * zp
     rf = _walk_3ph(job, parent, v_node, zb_max, zb_min, zs, fa, vb)
     ohmic_max_no_motor = rf.fault_max_a
     motor_node = motor_contribution(ctx, fa, vb)  # every motor on the same system
@@ -72,14 +85,16 @@ def check_faults(ctx: Context) -> None:
     finite = np.isfinite(fault_max)
     peak = np.full(len(order), np.inf)
     asym = np.full(len(order), np.inf)
-    peak[finite] = fk.peak_current_a(fault_max[finite], rf.x_r[finite])
-    asym[finite] = fk.asymmetric_rms_half_cycle_a(fault_max[finite], rf.x_r[finite])
+    peak[finite] = peak_current_a(fault_max[finite], rf.x_r[finite])
+    asym[finite] = asymmetric_rms_half_cycle_a(fault_max[finite], rf.x_r[finite])
 
     _describe_3ph(ctx, fa)
     lg_min = _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb)
     ptp = point_to_point_a(ctx, fa, order)
     _primary_terminals(ctx, fa, pos, rf, vb)
-    z_node_max = {n: complex(rf.z_max_ohm[i] * (v_node[i] / vb) ** 2) for i, n in enumerate(order)}
+    z_node_max = {
+        node: complex(rf.z_max_ohm[at] * (v_node[at] / vb) ** 2) for at, node in enumerate(order)
+    }
     worst = worst_case_figures(ctx, fa, z_node_max, dict(zip(order, motor_node, strict=True)))
     describe_methods(ctx, fa, worst)
     flag_return_paths(ctx)
@@ -88,8 +103,8 @@ def check_faults(ctx: Context) -> None:
         rf, fault_max, motor_node, ohmic_max_no_motor, peak, asym, lg_min, ptp, worst, v_node, vb
     )
     when = _calc_date(ctx)
-    for i, n in enumerate(order):
-        _record_node(ctx, fa, figs, i, n, when)
+    for at, node in enumerate(order):
+        _record_node(ctx, fa, figs, at, node, when)
 
 
 def _describe_3ph(ctx: Context, fa) -> None:
@@ -134,49 +149,55 @@ class _Figures:
     vb: float
 
 
-def _record_node(ctx: Context, fa, g: _Figures, i: int, n: str, when: str) -> None:
+def _record_node(ctx: Context, fa, figs: _Figures, at: int, node_id: str, when: str) -> None:
     """Node values, the point-to-point finding, the sheet and the duty of one node."""
-    rf, tree = g.rf, ctx.tree
-    node = ctx.nodes[n]
+    rf, tree = figs.rf, ctx.tree
+    node = ctx.nodes[node_id]
     node.values.update(
         {
-            "fault_max_a": float(g.fault_max[i]),
-            "fault_min_a": float(rf.fault_min_a[i]),
-            "x_r": float(rf.x_r[i]),
-            "peak_a": float(g.peak[i]),
-            "asym_rms_a": float(g.asym[i]),
+            "fault_max_a": float(figs.fault_max[at]),
+            "fault_min_a": float(rf.fault_min_a[at]),
+            "x_r": float(rf.x_r[at]),
+            "peak_a": float(figs.peak[at]),
+            "asym_rms_a": float(figs.asym[at]),
         }
     )
-    if g.motor_node[i] > 0:
-        node.values["fault_motor_a"] = float(g.motor_node[i])
-    if n in g.lg_min:
-        node.values["fault_lg_min_a"] = g.lg_min[n]
-    if n in g.ptp:
-        ptp_finding(ctx, fa, n, g.ptp[n], float(g.ohmic_no_motor[i]))
-    if n == "source":
+    if figs.motor_node[at] > 0:
+        node.values["fault_motor_a"] = float(figs.motor_node[at])
+    if node_id in figs.lg_min:
+        node.values["fault_lg_min_a"] = figs.lg_min[node_id]
+    if node_id in figs.ptp:
+        ptp_finding(ctx, fa, node_id, figs.ptp[node_id], float(figs.ohmic_no_motor[at]))
+    if node_id == "source":
         return
-    _sheet_steps(ctx, fa, g, i, n)
-    first = "3ph" if tree.voltage_of[n].phases == 3 else "ll"
-    faults = {first: float(g.fault_max[i])}
-    x_rs = {first: float(rf.x_r[i])}
-    if n in g.worst:
-        faults.update(g.worst[n].faults_a)
-        x_rs.update(g.worst[n].x_r)
+    _sheet_steps(ctx, fa, figs, at, node_id)
+    first = "3ph" if tree.voltage_of[node_id].phases == 3 else "ll"
+    faults = {first: float(figs.fault_max[at])}
+    x_rs = {first: float(rf.x_r[at])}
+    if node_id in figs.worst:
+        faults.update(figs.worst[node_id].faults_a)
+        x_rs.update(figs.worst[node_id].x_r)
         for case, key in (("ln", "fault_ln_max_a"), ("lg", "fault_lg_max_a")):
-            if case in g.worst[n].faults_a:
-                node.values[key] = g.worst[n].faults_a[case]
-    record_duty(ctx, n, node_duty(ctx, n, faults, x_rs), when)
+            if case in figs.worst[node_id].faults_a:
+                node.values[key] = figs.worst[node_id].faults_a[case]
+    record_duty(ctx, node_id, node_duty(ctx, node_id, faults, x_rs), when)
 
 
-def _sheet_steps(ctx: Context, fa, g: _Figures, i: int, n: str) -> None:
-    rf, tree, vb, v_node = g.rf, ctx.tree, g.vb, g.v_node
-    motor_node, fault_max, peak, lg_min, ptp = g.motor_node, g.fault_max, g.peak, g.lg_min, g.ptp
-    sh = ctx.sheet(n, tree.kind[n], "")
-    z_max_node = rf.z_max_ohm[i] * (v_node[i] / vb) ** 2
-    z_min_node = rf.z_min_ohm[i] * (v_node[i] / vb) ** 2
-    v = tree.voltage_of[n]
-    form = "I = c·V_LL / (√3·|Z|)" if v.phases == 3 else "I = c·V / |Z_loop| (Z_loop = √3·Z)"
-    sh.step(
+def _sheet_steps(ctx: Context, fa, figs: _Figures, at: int, node_id: str) -> None:
+    rf, tree, vb, v_node = figs.rf, ctx.tree, figs.vb, figs.v_node
+    motor_node, fault_max, peak, lg_min, ptp = (
+        figs.motor_node,
+        figs.fault_max,
+        figs.peak,
+        figs.lg_min,
+        figs.ptp,
+    )
+    sheet = ctx.sheet(node_id, tree.kind[node_id], "")
+    z_max_node = rf.z_max_ohm[at] * (v_node[at] / vb) ** 2
+    z_min_node = rf.z_min_ohm[at] * (v_node[at] / vb) ** 2
+    system = tree.voltage_of[node_id]
+    form = "I = c·V_LL / (√3·|Z|)" if system.phases == 3 else "I = c·V / |Z_loop| (Z_loop = √3·Z)"
+    sheet.step(
         "Total impedance to this node, maximum case",
         "Z = Z_source + Z_transformer + Σ Z_runs (referred to this voltage)",
         f"{z_max_node.real * 1e3:.3f} + j{z_max_node.imag * 1e3:.3f} mΩ",
@@ -184,48 +205,48 @@ def _sheet_steps(ctx: Context, fa, g: _Figures, i: int, n: str) -> None:
         "mΩ",
         "fault-z-tolerance",
     )
-    sh.step(
+    sheet.step(
         "Maximum three-phase fault current",
         form,
-        f"{fa.c_max:g} × {v.voltage_ll_v:g} / (√3 × {abs(z_max_node) * 1e3:.3f} mΩ)"
-        + (f" + motors {motor_node[i]:.0f} A" if motor_node[i] > 0 else ""),
-        round(float(fault_max[i])),
+        f"{fa.c_max:g} × {system.voltage_ll_v:g} / (√3 × {abs(z_max_node) * 1e3:.3f} mΩ)"
+        + (f" + motors {motor_node[at]:.0f} A" if motor_node[at] > 0 else ""),
+        round(float(fault_max[at])),
         "A",
         "fault-cond-temp-max",
     )
-    sh.step(
+    sheet.step(
         "Minimum three-phase fault current",
         form,
-        f"{fa.c_min:g} × {v.voltage_ll_v:g} / (√3 × {abs(z_min_node) * 1e3:.3f} mΩ)",
-        round(float(rf.fault_min_a[i])),
+        f"{fa.c_min:g} × {system.voltage_ll_v:g} / (√3 × {abs(z_min_node) * 1e3:.3f} mΩ)",
+        round(float(rf.fault_min_a[at])),
         "A",
         "fault-cond-temp-min",
     )
-    sh.step(
+    sheet.step(
         "X/R and peak",
         "κ = 1.02 + 0.98·e^(−3/(X/R)); i_p = κ·√2·I_max",
-        f"X/R = {rf.x_r[i]:.2f}",
-        round(float(peak[i])),
+        f"X/R = {rf.x_r[at]:.2f}",
+        round(float(peak[at])),
         "A",
         "iec60909-kappa",
     )
-    if n in lg_min:
-        sh.step(
+    if node_id in lg_min:
+        sheet.step(
             "Minimum line-to-ground fault current",
             "I = 3·V_LN / |Z1 + Z2 + Z0|"
-            if v.kind == "wye"
+            if system.kind == "wye"
             else "I = V_LN / |Z_LN,source + Σ(Z_phase + Z_return)|",
-            f"V_LN = {v.voltage_ln_v:g} V",
-            round(lg_min[n]),
+            f"V_LN = {system.voltage_ln_v:g} V",
+            round(lg_min[node_id]),
             "A",
             "fault-z0-ratio-min",
         )
-    if n in ptp:
-        sh.step(
+    if node_id in ptp:
+        sheet.step(
             "Point-to-point figure (second method)",
             "I = I_start · Π 1/(1 + f)",
             "f = √3·L·I/(C·n·V) per run",
-            round(ptp[n]),
+            round(ptp[node_id]),
             "A",
             "fault-ptp-disagree",
         )
@@ -244,7 +265,7 @@ def _walk_3ph(job, parent, v_node, zb_max, zb_min, zs, fa, vb) -> _Walk:
     """The vectorised radial walk below the source; the source node itself carries the
     job's stated fault current (infinite for an infinite bus)."""
     sub_parent = np.where(parent[1:] > 0, parent[1:] - 1, -1)
-    rf = fk.radial_fault_3ph(
+    rf = radial_fault_3ph(
         sub_parent,
         v_node[1:],
         zb_max[1:],
@@ -269,24 +290,28 @@ def _primary_terminals(ctx: Context, fa, pos, rf, vb) -> None:
     """Fault current at the far end of a run that feeds a transformer (its primary
     terminals): the parent's total impedance plus the run, referred to the base."""
     tree = ctx.tree
-    for t in ctx.job.transformers:
-        run = tree.parent_run.get(t.id)
+    for tx in ctx.job.transformers:
+        run = tree.parent_run.get(tx.id)
         if run is None:
             continue
-        p = tree.parent_node[t.id]
-        pv = tree.voltage_of[p]
-        k = 2 / SQRT3 if t.primary.phases == 1 else 1.0  # loop on two lines, per-phase eq.
+        upstream = tree.parent_node[tx.id]
+        pv = tree.voltage_of[upstream]
+        loop_factor = (
+            2 / SQRT3 if tx.primary.phases == 1 else 1.0
+        )  # loop on two lines, per-phase eq.
         out = {}
-        for case, temp, z_parent, c in (
+        for case, temp, z_parent, c_factor in (
             ("max", fa.cond_c_max, rf.z_max_ohm, fa.c_max),
             ("min", fa.min_c(run), rf.z_min_ohm, fa.c_min),
         ):
             z_run_b = (
-                k * run_impedance_ohm(run, temp, ctx.rules.conductors) * (vb / pv.voltage_ll_v) ** 2
+                loop_factor
+                * run_impedance_ohm(run, temp, ctx.rules.conductors)
+                * (vb / pv.voltage_ll_v) ** 2
             )
-            z_b = z_parent[pos[p]] + z_run_b
-            out[case] = float(fk.fault_current_3ph_a(vb, z_b, c)) * vb / pv.voltage_ll_v
-        values = ctx.nodes[t.id].values
+            z_b = z_parent[pos[upstream]] + z_run_b
+            out[case] = float(fault_current_3ph_a(vb, z_b, c_factor)) * vb / pv.voltage_ll_v
+        values = ctx.nodes[tx.id].values
         values["fault_primary_max_a"], values["fault_primary_min_a"] = out["max"], out["min"]
         ctx.add(
             run.id,
@@ -296,7 +321,7 @@ def _primary_terminals(ctx: Context, fa, pos, rf, vb) -> None:
             "A",
             "info",
             "fault-marking",
-            f"{t.id} primary terminals: maximum "
+            f"{tx.id} primary terminals: maximum "
             f"{kiloamps(out['max'])}, minimum {kiloamps(out['min'])} (complex ohmic method)",
         )
 
@@ -349,7 +374,7 @@ def _sequence_network(ctx, fa, order, pos, parent, z_total_min, vb) -> _Sequence
             if system.kind == "wye":
                 net.root_z1[at] = z1
                 ratio = z0_ratio(tx, fa, "min")
-                net.root_z0[at] = complex(lg.transformer_zero_sequence_ohm(zt_min, ratio))
+                net.root_z0[at] = complex(transformer_zero_sequence_ohm(zt_min, ratio))
             else:  # 120/240 V: half-winding model at 120 V
                 net.root_z1[at] = split_ln_source_ohm(z1, zt_min)
             continue
@@ -358,7 +383,7 @@ def _sequence_network(ctx, fa, order, pos, parent, z_total_min, vb) -> _Sequence
         z_return = run_return_impedance_ohm(run, fa.min_c(run), ctx.rules.conductors)
         if system.kind == "wye":
             net.branch_z1[at] = z_phase
-            net.branch_z0[at] = complex(lg.run_zero_sequence_ohm(z_phase, z_return))
+            net.branch_z0[at] = complex(run_zero_sequence_ohm(z_phase, z_return))
         else:
             net.branch_z1[at] = z_phase + z_return
     return net
@@ -368,7 +393,7 @@ def _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb) -> dict[str, fl
     """Minimum line-to-ground current at every node below a grounded secondary
     (wye: symmetrical components; 120/240 V: line-to-neutral loop)."""
     tree = ctx.tree
-    z_total_min = fk.cumulative_impedance_ohm(parent, zb_min, zs)
+    z_total_min = cumulative_impedance_ohm(parent, zb_min, zs)
     net = _sequence_network(ctx, fa, order, pos, parent, z_total_min, vb)
     out: dict[str, float] = {}
     if not net.in_scope.any():
@@ -387,8 +412,8 @@ def _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb) -> dict[str, fl
         if net.in_scope[pos[node]]:
             out[node] = float(current_a[pos[node]])
     # sequence impedances from the grounded secondary to every node, once for all panels
-    z1_total = fk.cumulative_impedance_ohm(net.parent, net.branch_z1, net.root_z1)
-    z0_total = fk.cumulative_impedance_ohm(net.parent, net.branch_z0, net.root_z0)
+    z1_total = cumulative_impedance_ohm(net.parent, net.branch_z1, net.root_z1)
+    z0_total = cumulative_impedance_ohm(net.parent, net.branch_z0, net.root_z0)
     _instantaneous_checks(ctx, fa, out, pos, z1_total, z0_total)
     return out
 
@@ -405,7 +430,7 @@ def _line_to_ground_a(net: _SequenceNetwork, vln, wye, c_min) -> np.ndarray:
     i_wye = np.zeros(n_nodes)
     i_split = np.zeros(n_nodes)
     if keep[wye[keep]].size:
-        i_wye[keep] = lg.radial_fault_lg_a(
+        i_wye[keep] = radial_fault_lg_a(
             sub_parent,
             vln[keep],
             np.where(wye[keep], net.branch_z1[keep], 1e-9),
@@ -415,15 +440,15 @@ def _line_to_ground_a(net: _SequenceNetwork, vln, wye, c_min) -> np.ndarray:
             c_min,
         )
     if (~wye[keep]).any():
-        z_split = fk.cumulative_impedance_ohm(sub_parent, net.branch_z1[keep], net.root_z1[keep])
+        z_split = cumulative_impedance_ohm(sub_parent, net.branch_z1[keep], net.root_z1[keep])
         i_split[keep] = c_min * vln[keep] / np.abs(z_split)
     return np.where(wye, i_wye, i_split)
 
 
-def _v_ln(v) -> float:
-    if v.kind == "wye":
-        return v.voltage_ll_v / SQRT3
-    return v.voltage_ln_v or 1.0
+def _v_ln(system) -> float:
+    if system.kind == "wye":
+        return system.voltage_ll_v / SQRT3
+    return system.voltage_ln_v or 1.0
 
 
 def _pickup(ctx, device_a: float, given: float | None) -> tuple[float, float, str]:
@@ -432,10 +457,10 @@ def _pickup(ctx, device_a: float, given: float | None) -> tuple[float, float, st
     table = ctx.rules.rows("instantaneous_pickup")
     row = next(
         (
-            r
-            for r in table
-            if str(r["device_type"]).startswith("breaker-tm")
-            and r["rating_from_a"] < device_a <= r["rating_to_a"]
+            candidate
+            for candidate in table
+            if str(candidate["device_type"]).startswith("breaker-tm")
+            and candidate["rating_from_a"] < device_a <= candidate["rating_to_a"]
         ),
         table[0],
     )
@@ -450,18 +475,18 @@ def _pickup(ctx, device_a: float, given: float | None) -> tuple[float, float, st
 def _instantaneous_checks(ctx, fa, lg_min, pos, z1_total, z0_total) -> None:
     """Does the device feeding each panel trip instantaneously for a far-end ground fault?"""
     job, tree = ctx.job, ctx.tree
-    for p in job.panels:
-        if p.id not in lg_min:
+    for panel in job.panels:
+        if panel.id not in lg_min:
             continue
-        run = tree.parent_run[p.id]
-        up = tree.parent_node[p.id]
+        run = tree.parent_run[panel.id]
+        up = tree.parent_node[panel.id]
         device, _where = run_device(job, run)  # the one rule of checks/taps.py
         if device is None:
             continue
-        mult, tol, rid = _pickup(ctx, device, p.instantaneous_a)
-        chk = lg.instantaneous_trip_check(lg_min[p.id], device, mult, tol)
+        mult, tol, rid = _pickup(ctx, device, panel.instantaneous_a)
+        chk = instantaneous_trip_check(lg_min[panel.id], device, mult, tol)
         note = (
-            f"minimum line-to-ground {kiloamps(lg_min[p.id])} vs instantaneous pick-up "
+            f"minimum line-to-ground {kiloamps(lg_min[panel.id])} vs instantaneous pick-up "
             f"{kiloamps(chk.required_a)} ({mult:g} × {device:g} A"
             + (f" + {tol:g} % tolerance" if tol else "")
             + ")"
@@ -469,12 +494,12 @@ def _instantaneous_checks(ctx, fa, lg_min, pos, z1_total, z0_total) -> None:
         if not chk.trips:
             up_i = pos[up]
             note += "; " + _trip_fixes(
-                ctx, fa, p.id, run, chk.required_a, z1_total[up_i], z0_total[up_i]
+                ctx, fa, panel.id, run, chk.required_a, z1_total[up_i], z0_total[up_i]
             )
         ctx.add(
-            p.id,
+            panel.id,
             "ground fault trips instantaneously",
-            lg_min[p.id],
+            lg_min[panel.id],
             chk.required_a,
             "A",
             "ok" if chk.trips else "warn",
@@ -486,13 +511,15 @@ def _instantaneous_checks(ctx, fa, lg_min, pos, z1_total, z0_total) -> None:
 def _trip_fixes(ctx, fa, panel_id, run, required_a, z_up1, z_up0) -> str:
     """What would make the device trip: a shorter run or a larger grounding conductor.
     ``z_up1``, ``z_up0``: positive- and zero-sequence impedance up to the run's start."""
-    v = ctx.tree.voltage_of[panel_id]
+    system = ctx.tree.voltage_of[panel_id]
     data = ctx.rules.conductors
     zp = run_impedance_ohm(run, fa.min_c(run), data) / run.length_m
     zr = run_return_impedance_ohm(run, fa.min_c(run), data) / run.length_m
     # wye: Z1 + Z2 + Z0 upstream; 120/240 V loop written in the same 3·V/|A + 3L·(zp + zr)|
-    a = 2 * z_up1 + z_up0 if v.kind == "wye" else 3 * z_up1
-    max_len = float(lg.max_length_for_trip_m(_v_ln(v), a, zp, zr, required_a, fa.c_min))
+    z_upstream_loop = 2 * z_up1 + z_up0 if system.kind == "wye" else 3 * z_up1
+    max_len = float(
+        max_length_for_trip_m(_v_ln(system), z_upstream_loop, zp, zr, required_a, fa.c_min)
+    )
     parts = [
         f"it would trip with the run at most {max_len / M_PER_FT:,.0f} ft ({max_len:,.1f} m)"
         if max_len > 0
@@ -500,17 +527,17 @@ def _trip_fixes(ctx, fa, panel_id, run, required_a, z_up1, z_up0) -> str:
     ]
     material = run.ground_material if run.ground is not None else run.material
     order = AWG_KCMIL_ORDER if run.size.system == "awg" else METRIC_ORDER
-    names = [s for s in order if SIZES[s].area_mm2 <= run.size.area_mm2 * (1 + 1e-9)]
-    r, x = ck.ac_impedance_ohm_per_m(
+    names = [name for name in order if SIZES[name].area_mm2 <= run.size.area_mm2 * (1 + 1e-9)]
+    r_ohm_per_m, x_ohm_per_m = ac_impedance_ohm_per_m(
         np.array(names), material, run.raceway, fa.min_c(run), data=data
     )
-    idx = lg.smallest_return_for_trip(
-        _v_ln(v),
-        a,
+    idx = smallest_return_for_trip(
+        _v_ln(system),
+        z_upstream_loop,
         run.length_m,
         zp,
-        np.asarray(r) / run.sets,
-        np.asarray(x) / run.sets,
+        np.asarray(r_ohm_per_m) / run.sets,
+        np.asarray(x_ohm_per_m) / run.sets,
         required_a,
         fa.c_min,
     )

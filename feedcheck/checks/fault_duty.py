@@ -16,10 +16,16 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from ..calc import fault as fk
-from ..calc import fault_duty as dk
-from ..calc import fault_split_phase as sp
 from ..calc.constants import SQRT3
+from ..calc.fault import motor_contribution_a, transformer_fault_impedances_ohm, x_r_ratio
+from ..calc.fault_duty import (
+    TestConditionRow,
+    asymmetry_multiplying_factor,
+    fault_lg_delta_wye_a,
+    governing_duty_a,
+    test_condition_row,
+)
+from ..calc.fault_split_phase import half_winding_impedance_ohm, split_phase_fault
 from ..model import DEVICE_FAMILIES, Transformer
 from .compare import passes
 from .context import Context
@@ -57,7 +63,7 @@ def z0_ratio(t: Transformer, fa: FaultAssumptions, case: str) -> float:
 def transformer_loop_ohm(t: Transformer, tolerance_pct: float, case: str) -> complex:
     """Transformer impedance at its secondary voltage for the case [Ω]: per phase for a
     three-phase unit, the whole-winding loop for a single-phase one."""
-    zmax, zmin = fk.transformer_fault_impedances_ohm(
+    zmax, zmin = transformer_fault_impedances_ohm(
         t.rating_va, t.secondary.voltage_ll_v, t.z_pct, t.x_r, tolerance_pct, t.secondary.phases
     )
     return complex(zmax if case == "max" else zmin)
@@ -71,7 +77,7 @@ def split_ln_source_ohm(z_total_eq_ohm: complex, zt_loop_ohm: complex) -> comple
     The source loop Z_src = √3·Z_total − Z_T refers to the half winding by 1/4; the
     winding takes the half-winding model (1.5·R_T + j1.2·X_T)/4."""
     z_src = upstream_part(SQRT3 * z_total_eq_ohm, zt_loop_ohm)
-    return complex(z_src / 4.0 + sp.half_winding_impedance_ohm(zt_loop_ohm))
+    return complex(z_src / 4.0 + half_winding_impedance_ohm(zt_loop_ohm))
 
 
 def upstream_part(z_total_ohm: complex, z_transformer_ohm: complex) -> complex:
@@ -113,7 +119,7 @@ def motor_contribution(ctx: Context, fa: FaultAssumptions, base_v: float) -> np.
     ancestors = {n: _ancestors(tree, n) for n in order}
     at_base = np.zeros(len(order))
     for m in ctx.job.motors:
-        i_m = float(fk.motor_contribution_a(m.full_load_a, fa.motor_multiple))
+        i_m = float(motor_contribution_a(m.full_load_a, fa.motor_multiple))
         i_b = i_m * tree.voltage_of[m.panel_id].voltage_ll_v / base_v
         system = tree.upstream_transformer[m.panel_id]
         for n in order:
@@ -154,7 +160,7 @@ def worst_case_figures(
         fig = DutyFigures()
         if v.kind == "split":
             z_src = upstream_part(SQRT3 * z_total_max[tid], zt)
-            f = sp.split_phase_fault(
+            f = split_phase_fault(
                 t.rating_va, v.voltage_ll_v, t.z_pct, t.x_r, "max", fa.tolerance_pct,
                 z_src, z_line[n], z_line[n], c=fa.c_max,
             )  # fmt: skip
@@ -163,12 +169,12 @@ def worst_case_figures(
         elif v.kind == "wye":
             z_src = upstream_part(z_total_max[tid], zt)
             k = z0_ratio(t, fa, "max")
-            i = dk.fault_lg_delta_wye_a(
+            i = fault_lg_delta_wye_a(
                 v.voltage_ll_v / SQRT3, z_src, zt, k, z_line[n], z_ret[n], c=fa.c_max
             )
             z_sum = 2 * (z_src + zt + z_line[n]) + k * zt + z_line[n] + 3 * z_ret[n]
             fig.faults_a["lg"] = float(i) + motor_a.get(n, 0.0)
-            fig.x_r["lg"] = float(fk.x_r_ratio(z_sum))
+            fig.x_r["lg"] = float(x_r_ratio(z_sum))
         out[n] = fig
     return out
 
@@ -223,7 +229,7 @@ class Duty:
     case: str
     x_r: float
     mf: float
-    row: dk.TestConditionRow | None
+    row: TestConditionRow | None
     family: str
 
     @property
@@ -237,7 +243,7 @@ def governing(faults_a: dict[str, float], x_r: dict[str, float]) -> tuple[float,
     if len(finite) < len(faults_a):  # an infinite figure (infinite bus at the source)
         case = next(k for k, v in faults_a.items() if not math.isfinite(v))
         return math.inf, case, x_r.get(case, math.inf)
-    g = dk.governing_duty_a(**{f"fault_{k}_a": v for k, v in finite.items()})
+    g = governing_duty_a(**{f"fault_{k}_a": v for k, v in finite.items()})
     return float(g.duty_a), str(g.case), x_r.get(str(g.case), math.inf)
 
 
@@ -252,9 +258,9 @@ def panel_duty(ctx: Context, panel, faults_a: dict, x_r: dict) -> Duty:
         )
     if panel.interrupting_a is None or not math.isfinite(sym):
         return Duty(sym, case, xr, 1.0, None, family)
-    rows = [dk.TestConditionRow.from_record(r) for r in ctx.rules.rows("device_test_power_factor")]
-    row = dk.test_condition_row(DEVICE_FAMILIES[family], panel.interrupting_a, rows)
-    mf = float(dk.asymmetry_multiplying_factor(xr, row.test_x_r, row.basis))
+    rows = [TestConditionRow.from_record(r) for r in ctx.rules.rows("device_test_power_factor")]
+    row = test_condition_row(DEVICE_FAMILIES[family], panel.interrupting_a, rows)
+    mf = float(asymmetry_multiplying_factor(xr, row.test_x_r, row.basis))
     return Duty(sym, case, xr, mf, row, family)
 
 

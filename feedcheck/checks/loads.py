@@ -32,7 +32,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from ..calc import phase_loading as pl
+from ..calc.phase_loading import CONNECTIONS, UNSPECIFIED, assign_connections, element_current_a
 from ..model import Job, Transformer, Tree, VoltageSystem
 
 PAIR_OF_PHASE = ("AB", "BC", "CA")  # delta primary winding of secondary phase a, b, c
@@ -121,16 +121,16 @@ def _feed_children(tree: Tree, tx: dict, p: str, kids: list[str], out: dict) -> 
     for c in kids:
         elements += _elements_of_child(tree, tx.get(c), c, out[c])
     va = [ce + ne for _, ce, ne, _ in elements]
-    conn = pl.assign_connections(va, [e[3] for e in elements], pv.voltage_ll_v) if elements else []
+    conn = assign_connections(va, [e[3] for e in elements], pv.voltage_ll_v) if elements else []
     for c in kids:
         fc, fn = np.zeros(3), np.zeros(3)
         for (child, ce, ne, given), used in zip(elements, conn, strict=True):
             if child != c:
                 continue
-            ph = list(pl.CONNECTIONS[used])
-            fc[ph] += pl.element_current_a(ce, used, pv.voltage_ll_v)
-            fn[ph] += pl.element_current_a(ne, used, pv.voltage_ll_v)
-            if given in pl.UNSPECIFIED:
+            ph = list(CONNECTIONS[used])
+            fc[ph] += element_current_a(ce, used, pv.voltage_ll_v)
+            fn[ph] += element_current_a(ne, used, pv.voltage_ll_v)
+            if given in UNSPECIFIED:
                 out[c].connection, out[c].assigned = used, True
         _store(out[c], parent, fc, fn)
 

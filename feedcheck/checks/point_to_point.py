@@ -6,8 +6,7 @@ from __future__ import annotations
 
 import math
 
-from ..calc import conductor as ck
-from ..calc import transformer as tk
+from ..calc.conductor import ac_impedance_ohm_per_m
 from ..calc.constants import SQRT3
 from ..calc.point_to_point import (
     conductor_constant_a_ft_per_v,
@@ -15,6 +14,7 @@ from ..calc.point_to_point import (
     ptp_chain_a,
     ptp_secondary_current_a,
 )
+from ..calc.transformer import rated_current_a
 from .context import Context
 from .fault_duty import kiloamps
 from .impedance import FaultAssumptions
@@ -54,7 +54,7 @@ def point_to_point_a(ctx: Context, fa: FaultAssumptions, order) -> dict[str, flo
 def _secondary_start_a(job, tx, fa: FaultAssumptions) -> float:
     """The method's starting figure at a transformer fed from the source (before the
     voltage factor)."""
-    rated = tk.rated_current_a(tx.rating_va, tx.secondary.voltage_ll_v, tx.secondary.phases)
+    rated = rated_current_a(tx.rating_va, tx.secondary.voltage_ll_v, tx.secondary.phases)
     source_a = job.source.fault_a
     if tx.secondary.phases == 1 and job.source.voltage.phases == 3:
         source_a = source_a * SQRT3 / 2  # line-to-line fault on a three-phase source
@@ -72,10 +72,10 @@ def _secondary_start_a(job, tx, fa: FaultAssumptions) -> float:
 
 def _end_of_run_a(ctx: Context, fa: FaultAssumptions, run, system, start_a: float) -> float:
     """The figure at the end of one run, from the figure at its head."""
-    r, x = ck.ac_impedance_ohm_per_m(
+    r_ohm_per_m, x_ohm_per_m = ac_impedance_ohm_per_m(
         run.size.name, run.material, run.raceway, fa.cond_c_max, data=ctx.rules.conductors
     )
-    c_value = float(conductor_constant_a_ft_per_v(float(r), float(x)))
+    c_value = float(conductor_constant_a_ft_per_v(float(r_ohm_per_m), float(x_ohm_per_m)))
     kind = "3ph" if system.phases == 3 else "1ph-ll"
     return float(
         ptp_chain_a(start_a, [run.length_m], [c_value], [run.sets], system.voltage_ll_v, kind)[0]

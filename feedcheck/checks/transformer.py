@@ -6,8 +6,15 @@ from __future__ import annotations
 import math
 from dataclasses import replace
 
-from ..calc import transformer as tk
 from ..calc.sizes import SIZES
+from ..calc.transformer import (
+    gec_row,
+    impedance_parts_pct,
+    protection_limit,
+    rated_current_a,
+    regulation_pct_approximate,
+    regulation_pct_exact,
+)
 from ..model import Transformer
 from .compare import passes
 from .context import Context
@@ -46,7 +53,7 @@ def _rated_currents(ctx: Context, tx: Transformer, sheet) -> tuple[float, float]
         ("primary", "I_p", tx.primary.voltage_ll_v),
         ("secondary", "I_s", tx.secondary.voltage_ll_v),
     ):
-        current_a = tk.rated_current_a(tx.rating_va, voltage_ll_v, phases)
+        current_a = rated_current_a(tx.rating_va, voltage_ll_v, phases)
         sheet.step(
             f"Rated {winding} current",
             f"{symbol} = {form}",
@@ -88,7 +95,7 @@ def _protection(ctx: Context, tx: Transformer, sheet, rated: tuple[float, float]
     ):
         if device_a is None:
             continue
-        limit = tk.protection_limit(rated_a, winding, arrangement, rules, ratings)
+        limit = protection_limit(rated_a, winding, arrangement, rules, ratings)
         if not math.isfinite(limit.max_device_a):
             # no standard rating above the computed figure: the figure itself is the limit
             limit = replace(limit, max_device_a=limit.computed_a)
@@ -145,7 +152,7 @@ def _loading_and_regulation(ctx: Context, tx: Transformer, sheet, rated) -> None
         sheet.inputs.append(("X/R", f"{x_r:g} (typical, tables/transformer_xr.csv)"))
     else:
         sheet.inputs.append(("X/R", f"{x_r:g}"))
-    r_pct, x_pct = tk.impedance_parts_pct(tx.z_pct, x_r)
+    r_pct, x_pct = impedance_parts_pct(tx.z_pct, x_r)
     sheet.step(
         "Resistance and reactance",
         "%R = %Z / √(1 + (X/R)²), %X = %R · X/R",
@@ -200,8 +207,8 @@ def _loading(ctx: Context, tx: Transformer, sheet, load_va: float, per_unit: flo
 
 def _regulation(ctx: Context, sheet, r_pct, x_pct, per_unit, pf) -> tuple[float, float]:
     """Regulation at the demand load, approximate and exact [%]."""
-    reg_approx = tk.regulation_pct_approximate(r_pct, x_pct, per_unit, pf)
-    reg_exact = tk.regulation_pct_exact(r_pct, x_pct, per_unit, pf)
+    reg_approx = regulation_pct_approximate(r_pct, x_pct, per_unit, pf)
+    reg_exact = regulation_pct_exact(r_pct, x_pct, per_unit, pf)
     sheet.step(
         "Regulation (approximate)",
         "n(%R cos φ + %X sin φ) + n²(%X cos φ − %R sin φ)²/200",
@@ -236,7 +243,7 @@ def _check_grounding(ctx: Context, tx: Transformer, sheet) -> None:
     material = runs[0].material
     rows = ctx.rules.rows("grounding_electrode_conductor")
     sheet.uses("grounding_electrode_conductor")
-    row = tk.gec_row(total, material, rows)
+    row = gec_row(total, material, rows)
     gec_cu, gec_al = row["gec_cu"], row["gec_al"]
     sheet.step(
         "Largest ungrounded secondary conductor (sum of parallel sets and runs)",

@@ -108,7 +108,7 @@ def ampacity_command(
     ins = _column(insulation, "--insulation")
     term = _column(termination, "--termination")
     try:
-        c = ampacity_chain(
+        chain = ampacity_chain(
             size.name,
             material.lower(),
             ins,
@@ -125,26 +125,26 @@ def ampacity_command(
     except ValueError as exc:
         raise click.UsageError(str(exc)) from None
     click.echo(
-        f"Ampacity of {c.sets} × {c.size} {c.material}"
+        f"Ampacity of {chain.sets} × {chain.size} {chain.material}"
         + (
             " (interpolated: metric size, not a code table value)"
-            if c.method == "interpolated"
+            if chain.method == "interpolated"
             else ""
         )
     )
-    for label, value, unit, rid in c.steps():
+    for label, value, unit, rid in chain.steps():
         shown = f"{value:.3f}" if unit == "" else f"{value:.1f} {unit}"
         click.echo(f"  {label:<48} {shown:>12}   [{rid}]")
-    click.echo(f"  governed by: {c.governed_by}")
+    click.echo(f"  governed by: {chain.governed_by}")
     if continuous is not None or noncontinuous is not None:
         click.echo(
             "  needed before adjustment (125 % cont. + noncont.): "
-            f"{c.required_before_a:.1f} A -> "
-            f"{'ok' if c.ok_before else 'NOT MET'}   [continuous-125]"
+            f"{chain.required_before_a:.1f} A -> "
+            f"{'ok' if chain.ok_before else 'NOT MET'}   [continuous-125]"
         )
         click.echo(
-            f"  needed after correction (load): {c.required_after_a:.1f} A"
-            f" -> {'ok' if c.ok_after else 'NOT MET'}   [load-after-derating]"
+            f"  needed after correction (load): {chain.required_after_a:.1f} A"
+            f" -> {'ok' if chain.ok_after else 'NOT MET'}   [load-after-derating]"
         )
     click.echo(CAUTION, err=True)
 

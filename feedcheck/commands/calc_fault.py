@@ -192,7 +192,7 @@ def compute(*args, **kwargs):
     book = current_rulebook()
     job = one_transformer_job(*args, **kwargs)
     res = check_job(job, rules=book)
-    nodes = {n.id: n.values for n in res.nodes}
+    nodes = {node.id: node.values for node in res.nodes}
     split = secondary.kind in ("split", "single")
     c_max = 1.0 if factors == "none" else book.rule(FACTOR_ROWS[factors]).number()
     c_min = 1.0 if factors == "none" else book.fault.c_min
@@ -221,29 +221,29 @@ def compute(*args, **kwargs):
     for name, nid in (("secondary terminals", "T"), ("end of run", "P")):
         if nid not in nodes:
             continue
-        v = nodes[nid]
-        motor = v.get("fault_motor_a", 0.0)
+        values = nodes[nid]
+        motor = values.get("fault_motor_a", 0.0)
         row = dict(
             name=name,
-            max_a=v["fault_max_a"] - motor,
-            min_a=v["fault_min_a"],
-            x_r=v["x_r"],
-            peak_a=v["peak_a"],
-            asym_a=v["asym_rms_a"],
-            ptp_a=v["fault_ptp_a"],
-            ptp_diff_pct=v["fault_ptp_diff_pct"],
-            with_motor_a=v["fault_max_a"],
+            max_a=values["fault_max_a"] - motor,
+            min_a=values["fault_min_a"],
+            x_r=values["x_r"],
+            peak_a=values["peak_a"],
+            asym_a=values["asym_rms_a"],
+            ptp_a=values["fault_ptp_a"],
+            ptp_diff_pct=values["fault_ptp_diff_pct"],
+            with_motor_a=values["fault_max_a"],
             motor_a=motor,
-            duty_a=v["fault_duty_a"],
-            duty_case=v["fault_duty_case"],
+            duty_a=values["fault_duty_a"],
+            duty_case=values["fault_duty_case"],
         )
         for key, mine in (
             ("fault_ln_max_a", "ln_max_a"),
             ("fault_lg_min_a", "lg_min_a"),
             ("fault_lg_max_a", "lg_max_a"),
         ):
-            if key in v:
-                row[mine] = v[key]
+            if key in values:
+                row[mine] = values[key]
         rows.append(row)
     if motor_flc:
         out["motor_multiple"] = book.fault.motor_multiple
@@ -480,9 +480,9 @@ def _print_trip(res, device_a, pickup) -> None:
     """The instantaneous-trip line from the check's own finding at the end of the run."""
     mult, tol, rid = pickup
     hit = [
-        f
-        for f in res["findings"]
-        if f.subject == "P" and f.check == "ground fault trips instantaneously"
+        finding
+        for finding in res["findings"]
+        if finding.subject == "P" and finding.check == "ground fault trips instantaneously"
     ]
     if not hit:
         click.echo(
@@ -490,12 +490,14 @@ def _print_trip(res, device_a, pickup) -> None:
             "a run (ungrounded or delta secondary, or no run given)"
         )
         return
-    f = hit[0]
-    verdict = "trips instantaneously" if f.status == "ok" else "does NOT reach instantaneous pickup"
-    click.echo(
-        f"\nDevice {device_a:g} A, pickup {mult:g} × (+{tol:g} %) = {f.limit:,.0f} A "
-        f"({rid}): minimum line-to-ground {f.value:,.0f} A → {verdict} "
-        f"(ratio {f.value / f.limit:.2f})"
+    finding = hit[0]
+    verdict = (
+        "trips instantaneously" if finding.status == "ok" else "does NOT reach instantaneous pickup"
     )
-    if f.status != "ok" and "; " in f.note:
-        click.echo("  " + f.note.split("; ", 1)[1])
+    click.echo(
+        f"\nDevice {device_a:g} A, pickup {mult:g} × (+{tol:g} %) = {finding.limit:,.0f} A "
+        f"({rid}): minimum line-to-ground {finding.value:,.0f} A → {verdict} "
+        f"(ratio {finding.value / finding.limit:.2f})"
+    )
+    if finding.status != "ok" and "; " in finding.note:
+        click.echo("  " + finding.note.split("; ", 1)[1])

@@ -14,7 +14,7 @@ from .params import CONTEXT
 
 def job_inputs(job) -> list:
     """The files a job was read from: the job file and its panels' schedules."""
-    return [job.path, *(p.schedule for p in job.panels if getattr(p, "schedule", None))]
+    return [job.path, *(panel.schedule for panel in job.panels if getattr(panel, "schedule", None))]
 
 
 @click.command("report", context_settings=CONTEXT, epilog=CAUTION)
@@ -61,10 +61,10 @@ def report_command(job_file, out):
         sys.exit(2)
     check_output(target, job_inputs(job))
     info = write_report(job, results, target)
-    c = results.counts()
+    counts = results.counts()
     click.echo(
-        f"wrote {target} ({info.pages} pages; {c['fail']} fail, {c['warn']} warn, "
-        f"{c['ok']} ok, {c['info']} info)",
+        f"wrote {target} ({info.pages} pages; {counts['fail']} fail, {counts['warn']} warn, "
+        f"{counts['ok']} ok, {counts['info']} info)",
         err=True,
     )
     sys.exit(results.exit_code)
