@@ -90,6 +90,9 @@ class DemandChain:
         Step 4: 25 % of ``continuous_demand_va`` (215.2(A)(1)).
     design_va : VA
         ``demand_total_va + largest_motor_adder_va + continuous_adder_va``.
+    largest_motor_factor, continuous_factor : -
+        The factors the chain used (1.25 unless a rule book says otherwise), for the
+        printed steps.
     """
 
     connected_va: dict
@@ -101,6 +104,8 @@ class DemandChain:
     continuous_demand_va: float | np.ndarray
     continuous_adder_va: float | np.ndarray
     design_va: float | np.ndarray
+    largest_motor_factor: float = 1.25
+    continuous_factor: float = 1.25
 
 
 def demand_chain(
@@ -178,6 +183,8 @@ def demand_chain(
         _scalar(cont_dem),
         _scalar(cont_add),
         _scalar(dem_total + motor_add + cont_add),
+        float(largest_motor_factor),
+        float(continuous_factor),
     )
 
 

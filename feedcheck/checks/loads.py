@@ -270,6 +270,10 @@ def demand_chain_steps(chain, sheet) -> None:
         return
     kinds = [kind for kind, va in chain.connected_va.items() if va > 0]
 
+    # the adders as the rule book gives them (rows df-motor-largest, df-continuous)
+    motor_adder = round(chain.largest_motor_factor - 1.0, 6)
+    continuous_adder = round(chain.continuous_factor - 1.0, 6)
+
     def by_kind(values) -> str:
         return " + ".join(f"{kind} {values[kind]:,.0f}" for kind in kinds) or "0"
 
@@ -282,13 +286,13 @@ def demand_chain_steps(chain, sheet) -> None:
         ),
         (
             "3. Largest motor",
-            "+ 25 % of the largest motor (430.24), once",
-            f"0.25 × {float(chain.largest_motor_va):,.0f}",
+            f"+ {motor_adder * 100:g} % of the largest motor (430.24), once",
+            f"{motor_adder:g} × {float(chain.largest_motor_va):,.0f}",
         ),
         (
             "4. Continuous loads",
-            "+ 25 % of the continuous non-motor demand (215.2(A)(1))",
-            f"0.25 × {float(chain.continuous_demand_va):,.0f}",
+            f"+ {continuous_adder * 100:g} % of the continuous non-motor demand (215.2(A)(1))",
+            f"{continuous_adder:g} × {float(chain.continuous_demand_va):,.0f}",
         ),
         (
             "Design load",
