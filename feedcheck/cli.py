@@ -18,9 +18,7 @@ import click
 
 from . import CAUTION, __version__
 from .commands.errors import guard_all, handle_input_errors
-from .commands.params import VOLTAGE_SYSTEM
-
-CONTEXT = {"help_option_names": ["-h", "--help"], "max_content_width": 100}
+from .commands.params import CONTEXT, VOLTAGE_SYSTEM
 
 
 @click.group(context_settings=CONTEXT, epilog=CAUTION)

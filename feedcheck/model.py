@@ -91,9 +91,9 @@ class VoltageSystem:
 
     Attributes
     ----------
-    line_v : float
+    voltage_ll_v : float
         Line-to-line voltage [V] (for a 120/240 V single-phase three-wire system, 240).
-    neutral_v : float | None
+    voltage_ln_v : float | None
         Line-to-neutral voltage [V] where a neutral exists (120 for 120/240 V).
     phases : int
         1 or 3.
@@ -107,8 +107,8 @@ class VoltageSystem:
         The text as written.
     """
 
-    line_v: float
-    neutral_v: float | None
+    voltage_ll_v: float
+    voltage_ln_v: float | None
     phases: int
     kind: str
     text: str
@@ -120,6 +120,17 @@ class VoltageSystem:
     @property
     def high_leg(self) -> bool:
         return self.kind == "highleg"
+
+    # former spellings, kept while checks/vdrop.py, checks/schedules.py,
+    # checks/schedule_circuits.py and inputs/job_file.py still read them; new code
+    # uses voltage_ll_v / voltage_ln_v (DEVELOPERS.md glossary)
+    @property
+    def line_v(self) -> float:
+        return self.voltage_ll_v
+
+    @property
+    def neutral_v(self) -> float | None:
+        return self.voltage_ln_v
 
 
 @dataclass(frozen=True)

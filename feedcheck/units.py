@@ -307,7 +307,7 @@ def parse_voltage_system(text: object, phases: int | None = None) -> VoltageSyst
 
     Examples
     --------
-    >>> parse_voltage_system("208Y/120 V").neutral_v
+    >>> parse_voltage_system("208Y/120 V").voltage_ln_v
     120.0
     >>> parse_voltage_system("120/240 V").kind
     'split'

@@ -61,7 +61,7 @@ def test_infinite_bus_allowed_only_when_asked():
 )
 def test_voltage_systems(text, line, neutral, phases, kind):
     v = parse_voltage_system(text)
-    assert (v.line_v, v.neutral_v, v.phases, v.kind) == (line, neutral, phases, kind)
+    assert (v.voltage_ll_v, v.voltage_ln_v, v.phases, v.kind) == (line, neutral, phases, kind)
 
 
 def test_single_phase_plain_voltage_needs_phase_count():

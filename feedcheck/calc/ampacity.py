@@ -235,6 +235,19 @@ def _base(tables, free_air, m, col, idx):
     return table
 
 
+def _check_sets(sets, idx) -> np.ndarray:
+    """Parallel sets as an array: whole numbers ≥ 1, and 1/0 AWG or larger when > 1."""
+    n_sets = np.asarray(sets)
+    if not np.all((n_sets >= 1) & (n_sets == np.floor(n_sets))):
+        raise ValueError(f"sets: got {sets}; expected a whole number ≥ 1")
+    if np.any((n_sets > 1) & (AREA_MM2[idx] < PARALLEL_MIN_AREA_MM2 * (1 - 1e-9))):
+        raise ValueError(
+            "sets: conductors in parallel must be 1/0 AWG or larger "
+            "(NFPA 70 310.10(G)(1)); got a smaller size with sets > 1"
+        )
+    return n_sets
+
+
 def ampacity_a(
     size,
     material,
@@ -301,14 +314,7 @@ def ampacity_a(
     m = material_index(material)
     ci = _column(insulation_c, "insulation_c")
     ct = _column(termination_c, "termination_c")
-    n_sets = np.asarray(sets)
-    if not np.all((n_sets >= 1) & (n_sets == np.floor(n_sets))):
-        raise ValueError(f"sets: got {sets}; expected a whole number ≥ 1")
-    if np.any((n_sets > 1) & (AREA_MM2[idx] < PARALLEL_MIN_AREA_MM2 * (1 - 1e-9))):
-        raise ValueError(
-            "sets: conductors in parallel must be 1/0 AWG or larger "
-            "(NFPA 70 310.10(G)(1)); got a smaller size with sets > 1"
-        )
+    n_sets = _check_sets(sets, idx)
     base = _base(t, free_air, m, ci, idx)
     fa = ambient_factor(
         np.asarray(COLUMNS_C)[ci],
@@ -424,27 +430,10 @@ def ampacity_chain(
     NFPA 70-2023 110.14(C), 210.19(A)(1), 215.2(A)(1), 310.15, Tables 310.16/17.
     """
     t = tables
-    for name, v in (("continuous_a", continuous_a), ("noncontinuous_a", noncontinuous_a)):
-        if not (np.isfinite(v) and v >= 0):
-            raise ValueError(f"{name}: got {v}; expected a load current ≥ 0 A")
-    final = float(
-        ampacity_a(
-            size,
-            material,
-            insulation_c,
-            ambient_c,
-            current_carrying,
-            termination_c,
-            sets,
-            free_air,
-            rooftop_adder_c,
-            tables=t,
-        )
-    )
-    idx = int(size_index(size))
-    m = int(material_index(material))
-    ci = int(_column(insulation_c, "insulation_c"))
-    ct = int(_column(termination_c, "termination_c"))
+    _check_load_currents(continuous_a, noncontinuous_a)
+    run = (size, material, insulation_c, ambient_c, current_carrying, termination_c, sets)
+    final = float(ampacity_a(*run, free_air, rooftop_adder_c, tables=t))
+    idx, m, ci, ct = _table_indices(size, material, insulation_c, termination_c)
     tab = t.free_air_a if free_air else t.raceway_a
     base = float(tab[m, ci, idx])
     fa = float(ambient_factor(COLUMNS_C[ci], ambient_c + rooftop_adder_c))
@@ -456,16 +445,6 @@ def ampacity_chain(
     req_after = continuous_a + noncontinuous_a
     table_rule = "nec-310.17" if free_air else "nec-310.16"
     adj_rule = _adjustment_rule(current_carrying, t)
-    rules = [
-        table_rule,
-        "ambient-formula",
-        adj_rule,
-        "term-60c-100a" if termination_c == 60 else "term-75c-over-100a",
-        "continuous-125",
-        "load-after-derating",
-    ]
-    if sets > 1:
-        rules.append("parallel-min-1/0")
     return AmpacityChain(
         SIZE_NAMES[idx],
         ("cu", "al")[m],
@@ -491,5 +470,37 @@ def ampacity_chain(
         before >= req_before - 1e-9,
         req_after,
         final >= req_after - 1e-9,
-        tuple(rules),
+        _chain_rule_ids(table_rule, adj_rule, termination_c, sets),
     )
+
+
+def _check_load_currents(continuous_a, noncontinuous_a) -> None:
+    for name, value in (("continuous_a", continuous_a), ("noncontinuous_a", noncontinuous_a)):
+        if not (np.isfinite(value) and value >= 0):
+            raise ValueError(f"{name}: got {value}; expected a load current ≥ 0 A")
+
+
+def _table_indices(size, material, insulation_c, termination_c) -> tuple[int, int, int, int]:
+    """Indices of one run into the ampacity tables: size, material, insulation column,
+    termination column."""
+    return (
+        int(size_index(size)),
+        int(material_index(material)),
+        int(_column(insulation_c, "insulation_c")),
+        int(_column(termination_c, "termination_c")),
+    )
+
+
+def _chain_rule_ids(table_rule: str, adj_rule: str, termination_c, sets) -> tuple[str, ...]:
+    """The rule ids an ampacity chain cites, in the order of its steps."""
+    rules = [
+        table_rule,
+        "ambient-formula",
+        adj_rule,
+        "term-60c-100a" if termination_c == 60 else "term-75c-over-100a",
+        "continuous-125",
+        "load-after-derating",
+    ]
+    if sets > 1:
+        rules.append("parallel-min-1/0")
+    return tuple(rules)

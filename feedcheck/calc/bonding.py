@@ -76,6 +76,25 @@ def _material(material):
     return material
 
 
+def _equivalent_area_kcmil(phase_area_kcmil, sets) -> np.ndarray:
+    """sets × area of one ungrounded conductor (250.102(C)(1)), inputs checked."""
+    area = np.asarray(phase_area_kcmil, dtype=float)
+    count = np.asarray(sets, dtype=float)
+    if np.any(~np.isfinite(area) | (area <= 0)):
+        raise ValueError(
+            f"phase_area_kcmil must be finite and above zero, got {phase_area_kcmil!r}"
+        )
+    if np.any(~np.isfinite(count) | (count < 1) | (count != np.round(count))):
+        raise ValueError(f"sets must be a whole number ≥ 1, got {sets!r}")
+    return area * count
+
+
+def _row_names(table_names: np.ndarray, pct: np.ndarray) -> np.ndarray:
+    """The table's size name of each row, or "12.5 % of area" on a percentage row."""
+    percent_names = np.asarray([f"{p:g} % of area" for p in np.atleast_1d(pct)], dtype=object)
+    return np.where(pct > 0, percent_names.reshape(pct.shape), table_names)
+
+
 def supply_side_jumper_size(
     phase_area_kcmil, sets, material, table: JumperTable, jumper_material=None
 ):
@@ -133,29 +152,14 @@ def supply_side_jumper_size(
             "ungrounded conductor of the jumper's material with the same "
             "ampacity (Table 250.102(C)(1) note)"
         )
-    a = np.asarray(phase_area_kcmil, dtype=float)
-    n = np.asarray(sets, dtype=float)
-    if np.any(~np.isfinite(a) | (a <= 0)):
-        raise ValueError(
-            f"phase_area_kcmil must be finite and above zero, got {phase_area_kcmil!r}"
-        )
-    if np.any(~np.isfinite(n) | (n < 1) | (n != np.round(n))):
-        raise ValueError(f"sets must be a whole number ≥ 1, got {sets!r}")
-    eq = a * n
+    eq = _equivalent_area_kcmil(phase_area_kcmil, sets)
     bounds = np.asarray(table.up_to_kcmil[m], dtype=float)
     row = np.searchsorted(bounds * (1.0 + AREA_RTOL), eq, side="left")
     row = np.minimum(row, bounds.size - 1)
     pct = np.asarray(table.percent_of_area, dtype=float)[row]
     tab = np.asarray(table.jumper_kcmil[jm], dtype=float)[row]
     req = np.where(pct > 0, np.minimum(pct / 100.0 * eq, eq), tab)
-    names = np.asarray(table.jumper_name[jm], dtype=object)[row]
-    names = np.where(
-        pct > 0,
-        np.asarray([f"{p:g} % of area" for p in np.atleast_1d(pct)], dtype=object).reshape(
-            pct.shape
-        ),
-        names,
-    )
+    names = _row_names(np.asarray(table.jumper_name[jm], dtype=object)[row], pct)
     ids = np.asarray(table.rule_id, dtype=object)[row]
     rule = np.where(pct > 0, "percent", "table").astype(object)
     if eq.ndim == 0:

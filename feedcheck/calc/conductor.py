@@ -187,6 +187,33 @@ def _skin_proximity(xs2):
     return x4 / (192.0 + 0.8 * x4)
 
 
+def _check_frequency(frequency_hz) -> float:
+    f = float(frequency_hz)
+    if not (f > 0 and np.isfinite(f)):
+        raise ValueError(f"frequency_hz: got {frequency_hz}; expected a positive frequency")
+    return f
+
+
+def _skin_effect(xs2, fx):
+    """Skin effect factor ys of IEC 60287-1-1 §2.1.2: ``fx`` (the x⁴ form) up to
+    xs = 2.8, then the two published branches for 2.8 < xs ≤ 3.8 and xs > 3.8."""
+    xs = np.sqrt(xs2)
+    return np.where(
+        xs <= 2.8, fx, np.where(xs <= 3.8, -0.136 - 0.0177 * xs + 0.0563 * xs2, 0.354 * xs - 0.733)
+    )
+
+
+def _diameter_and_spacing_mm(area_mm2, data: ConductorData):
+    """Conductor diameter dc = 1.15·√(4A/π) and effective centre spacing s = 2·D, with
+    D = dc + 2t and the insulation thickness t of the area's step (see Notes of
+    :func:`ac_impedance_computed_ohm_per_m`) [mm]."""
+    dc = STRAND_DIAMETER_FACTOR * np.sqrt(4.0 * area_mm2 / np.pi)
+    steps = data.ins_up_to_mm2
+    step = np.minimum(np.searchsorted(steps, area_mm2 * (1 - 1e-9)), len(steps) - 1)
+    overall = dc + 2.0 * data.ins_thickness_mm[step]
+    return dc, SPACING_FACTOR * overall
+
+
 def ac_impedance_computed_ohm_per_m(
     area_mm2,
     material,
@@ -255,19 +282,11 @@ def ac_impedance_computed_ohm_per_m(
     a = np.asarray(area_mm2, dtype=float)
     r_dc = dc_resistance_ohm_per_m(a, material, conductor_c, data=d)
     rw = _choice_index(raceway, RACEWAYS, "raceway")
-    f = float(frequency_hz)
-    if not (f > 0 and np.isfinite(f)):
-        raise ValueError(f"frequency_hz: got {frequency_hz}; expected a positive frequency")
+    f = _check_frequency(frequency_hz)
     xs2 = 8.0 * np.pi * f / r_dc * 1e-7
     fx = _skin_proximity(xs2)
-    xs = np.sqrt(xs2)  # IEC 60287-1-1 §2.1.2 branches for xs > 2.8
-    ys = np.where(
-        xs <= 2.8, fx, np.where(xs <= 3.8, -0.136 - 0.0177 * xs + 0.0563 * xs2, 0.354 * xs - 0.733)
-    )
-    dc = STRAND_DIAMETER_FACTOR * np.sqrt(4.0 * a / np.pi)
-    k = np.minimum(np.searchsorted(d.ins_up_to_mm2, a * (1 - 1e-9)), len(d.ins_up_to_mm2) - 1)
-    big_d = dc + 2.0 * d.ins_thickness_mm[k]
-    s = SPACING_FACTOR * big_d
+    ys = _skin_effect(xs2, fx)
+    dc, s = _diameter_and_spacing_mm(a, d)
     ratio2 = (dc / s) ** 2
     yp = fx * ratio2 * (0.312 * ratio2 + 1.18 / (fx + 0.27))
     r = r_dc * (1.0 + ys + yp) + d.r_added_ohm_per_m[rw]

@@ -90,6 +90,9 @@ class DemandChain:
         Step 4: 25 % of ``continuous_demand_va`` (215.2(A)(1)).
     design_va : VA
         ``demand_total_va + largest_motor_adder_va + continuous_adder_va``.
+    largest_motor_factor, continuous_factor : -
+        The factors the chain used (1.25 unless a rule book says otherwise), for the
+        printed steps.
     """
 
     connected_va: dict
@@ -101,6 +104,8 @@ class DemandChain:
     continuous_demand_va: float | np.ndarray
     continuous_adder_va: float | np.ndarray
     design_va: float | np.ndarray
+    largest_motor_factor: float = 1.25
+    continuous_factor: float = 1.25
 
 
 def demand_chain(
@@ -164,28 +169,38 @@ def demand_chain(
         k: (np.asarray(tiered_demand_va(conn[k], tiers[k])) if k in tiers else conn[k])
         for k in KINDS
     }
-    cont_dem = np.zeros(shape)
-    for k, v in continuous_va.items():
-        c = _nonneg(f"continuous_va[{k}]", v)
-        if np.any(c > conn[k] * (1 + 1e-9)):
-            raise ValueError(f"continuous_va[{k}]: above the connected {k} load")
-        ratio = np.divide(dem[k], conn[k], out=np.zeros(shape), where=conn[k] > 0)
-        cont_dem = cont_dem + c * ratio  # its share after the kind's demand factors
+    cont_dem = _continuous_demand_va(continuous_va, conn, dem, shape)
     dem_total = sum(dem.values())
     motor_add = (float(largest_motor_factor) - 1.0) * big
     cont_add = (float(continuous_factor) - 1.0) * cont_dem
-    f = _scalar
     return DemandChain(
-        {k: f(v) for k, v in conn.items()},
-        f(sum(conn.values())),
-        {k: f(v) for k, v in dem.items()},
-        f(dem_total),
-        f(big),
-        f(motor_add),
-        f(cont_dem),
-        f(cont_add),
-        f(dem_total + motor_add + cont_add),
+        {k: _scalar(v) for k, v in conn.items()},
+        _scalar(sum(conn.values())),
+        {k: _scalar(v) for k, v in dem.items()},
+        _scalar(dem_total),
+        _scalar(big),
+        _scalar(motor_add),
+        _scalar(cont_dem),
+        _scalar(cont_add),
+        _scalar(dem_total + motor_add + cont_add),
+        float(largest_motor_factor),
+        float(continuous_factor),
     )
+
+
+def _continuous_demand_va(continuous_va, connected, demand, shape) -> np.ndarray:
+    """The continuous loads after their kinds' demand factors: each kind's continuous
+    part takes the same share of its connected load as the kind's demand does."""
+    total = np.zeros(shape)
+    for kind, value in continuous_va.items():
+        part = _nonneg(f"continuous_va[{kind}]", value)
+        if np.any(part > connected[kind] * (1 + 1e-9)):
+            raise ValueError(f"continuous_va[{kind}]: above the connected {kind} load")
+        ratio = np.divide(
+            demand[kind], connected[kind], out=np.zeros(shape), where=connected[kind] > 0
+        )
+        total = total + part * ratio  # its share after the kind's demand factors
+    return total
 
 
 def _check_kinds(connected_va, continuous_va, tiers, largest_motor_factor, continuous_factor):

@@ -34,7 +34,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-SQRT3 = math.sqrt(3.0)
+from .constants import SQRT3
+
 CONTINUOUS_FACTOR = 1.25  # 215.2(A)(1), 210.19(A)(1)
 PHASES = ("A", "B", "C")
 # connection code -> phases loaded (indices); "" = unspecified

@@ -10,11 +10,9 @@ References
 
 from __future__ import annotations
 
-import math
-
 import numpy as np
 
-SQRT3 = math.sqrt(3.0)
+from .constants import SQRT3
 
 
 def current_from_apparent_power_a(va, voltage_ll_v, phases=3):

@@ -318,6 +318,32 @@ def egc_area_mm2(
     return table * ratio, table, ratio, cap
 
 
+def _table_250_122(device_a, material: str, sets, t: ProtectionTables) -> tuple[int, str]:
+    """The material index and the Table 250.122 size name for ``device_a``."""
+    if not (isinstance(sets, int | np.integer) and sets >= 1):
+        raise ValueError(f"sets: got {sets}; expected a whole number ≥ 1")
+    m = int(material_index(material))
+    row = int(np.searchsorted(t.egc_up_to_a, device_a * (1 - 1e-12), side="left"))
+    return m, (t.egc_cu if m == 0 else t.egc_al)[min(row, len(t.egc_up_to_a) - 1)]
+
+
+def _upsized(phase_min_size: str, phase_size: str, ratio: float) -> str:
+    return (
+        f"phase conductors upsized {SIZE_NAMES[size_index(phase_min_size)]} → "
+        f"{SIZE_NAMES[size_index(phase_size)]} (×{ratio:.3f} circular mils)"
+    )
+
+
+def _capped_at_phase(chosen, cap_area: float):
+    """The smaller size that 250.122(A) ("never larger than the circuit conductors")
+    allows, ``cap_area`` the phase area by equal conductance in the EGC material; None
+    when the chosen EGC is not larger."""
+    if chosen.area_mm2 <= cap_area * (1 + 1e-9):
+        return None
+    capped_size = smallest_at_least(cap_area, "awg") or chosen
+    return capped_size if capped_size.area_mm2 < chosen.area_mm2 else None
+
+
 def egc_size(
     device_a: float,
     material: str = "cu",
@@ -342,16 +368,15 @@ def egc_size(
         Smallest ungrounded size that would have had enough ampacity (per set). When
         ``phase_size`` is larger, the EGC grows by the circular-mil ratio (250.122(B)).
     phase_material : str, optional
-        Material of the ungrounded conductors (default: same as the EGC). The "never
-        larger than the circuit conductors" cap (250.122(A)) is applied by area when the
-        materials match, and by area of equal conductance (Al area × ρCu/ρAl) otherwise.
+        Material of the ungrounded conductors (default: the EGC's); the 250.122(A) cap
+        compares areas of equal conductance (:func:`egc_area_mm2`).
     sets : int
         Parallel sets; a full-size EGC runs in each raceway (250.122(F)).
 
     Returns
     -------
     EgcResult
-        ``size`` per raceway, ``per_raceway`` count, ``reasoning`` sentence, rule ids.
+        ``size`` per raceway, ``per_raceway`` count, ``reasoning``, rule ids.
 
     Examples
     --------
@@ -366,36 +391,23 @@ def egc_size(
     ----------
     NFPA 70-2023 250.122(A), (B), (F); Table 250.122.
     """
-    t = tables
-    if not (isinstance(sets, int | np.integer) and sets >= 1):
-        raise ValueError(f"sets: got {sets}; expected a whole number ≥ 1")
-    m = int(material_index(material))
-    row = int(np.searchsorted(t.egc_up_to_a, device_a * (1 - 1e-12), side="left"))
-    table_name = (t.egc_cu if m == 0 else t.egc_al)[min(row, len(t.egc_up_to_a) - 1)]
+    m, table_name = _table_250_122(device_a, material, sets, tables)
     ps = None if phase_size is None else SIZES[phase_size].area_mm2
     pm = ps if phase_min_size is None or ps is None else SIZES[phase_min_size].area_mm2
-    need, _table, ratio, cap = egc_area_mm2(device_a, material, ps, pm, phase_material, tables=t)
-    rules = ["egc-table"]
-    ratio, area = float(ratio), float(need)
+    need, _, ratio, cap = egc_area_mm2(device_a, material, ps, pm, phase_material, tables=tables)
+    rules, ratio, area = ["egc-table"], float(ratio), float(need)
     why = [f"Table 250.122 gives {table_name} {material} for a {device_a:g} A device"]
     if ratio > 1.0:
         rules.append("egc-proportional")
-        why.append(
-            f"phase conductors upsized {SIZE_NAMES[size_index(phase_min_size)]} → "
-            f"{SIZE_NAMES[size_index(phase_size)]} (×{ratio:.3f} circular mils)"
-        )
+        why.append(_upsized(phase_min_size, phase_size, ratio))
     chosen = smallest_at_least(area, "awg")
     if chosen is None:
         raise ValueError(f"device_a: EGC area {area:.0f} mm² exceeds the largest size")
-    capped = False
-    if phase_size is not None:
-        cap_area = float(cap)  # 250.122(A), equal conductance across materials
-        if chosen.area_mm2 > cap_area * (1 + 1e-9):
-            capped_size = smallest_at_least(cap_area, "awg") or chosen
-            if capped_size.area_mm2 < chosen.area_mm2:
-                chosen, capped = capped_size, True
-                rules.append("egc-not-larger")
-                why.append("not larger than the ungrounded conductors")
+    capped = _capped_at_phase(chosen, float(cap)) if phase_size is not None else None
+    if capped is not None:
+        chosen = capped
+        rules.append("egc-not-larger")
+        why.append("not larger than the ungrounded conductors")
     if sets > 1:
         rules.append("egc-parallel")
         why.append(f"one {chosen.name} in each of {sets} raceways")
@@ -405,7 +417,7 @@ def egc_size(
         table_name,
         float(device_a),
         ratio,
-        capped,
+        capped is not None,
         int(sets),
         tuple(rules),
         "; ".join(why) + f" → {chosen.name} {material}",

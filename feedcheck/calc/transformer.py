@@ -20,6 +20,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from .constants import SQRT3
+from .power import current_from_apparent_power_a
 
 
 def _phase_factor(phases):
@@ -69,10 +70,7 @@ def rated_current_a(rating_va, voltage_ll_v, phases=3):
     ----------
     IEEE Std 141-1993, ch. 4 (per-unit bases).
     """
-    s = _positive("rating_va", rating_va)
-    v = _positive("voltage_ll_v", voltage_ll_v)
-    out = s / (_phase_factor(phases) * v)
-    return out if out.ndim else float(out)
+    return current_from_apparent_power_a(_positive("rating_va", rating_va), voltage_ll_v, phases)
 
 
 def base_impedance_ohm(rating_va, voltage_ll_v, phases=3):

@@ -171,14 +171,20 @@ def withstand_current_a(area_mm2, clearing_s, k):
     IEC 60364-4-43:2008 434.5.2 equation (t = (k·S/I)²).
     """
     s = _check("area_mm2", area_mm2)
+    t, kk = _time_and_constant(clearing_s, k)
+    out = kk * s / np.sqrt(t)
+    return out[()] if out.ndim == 0 else out
+
+
+def _time_and_constant(clearing_s, k) -> tuple[np.ndarray, np.ndarray]:
+    """Clearing time and constant, checked: the adiabatic method holds up to 5 s."""
     t = _check("clearing_s", clearing_s)
     kk = _check("k", k)
     if np.any(t > MAX_ADIABATIC_S):
         raise ValueError(
             f"clearing_s: got {t.max():g} s; the adiabatic method holds up to {MAX_ADIABATIC_S:g} s"
         )
-    out = kk * s / np.sqrt(t)
-    return out[()] if out.ndim == 0 else out
+    return t, kk
 
 
 def min_area_mm2(fault_a, clearing_s, k):
@@ -194,12 +200,7 @@ def min_area_mm2(fault_a, clearing_s, k):
     IEC 60364-5-54:2011 543.1.2 (S = √(I²t)/k).
     """
     i = _check("fault_a", fault_a)
-    t = _check("clearing_s", clearing_s)
-    kk = _check("k", k)
-    if np.any(t > MAX_ADIABATIC_S):
-        raise ValueError(
-            f"clearing_s: got {t.max():g} s; the adiabatic method holds up to {MAX_ADIABATIC_S:g} s"
-        )
+    t, kk = _time_and_constant(clearing_s, k)
     out = i * np.sqrt(t) / kk
     return out[()] if out.ndim == 0 else out
 

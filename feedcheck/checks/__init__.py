@@ -46,7 +46,7 @@ def check_job(
             n,
             tree.kind[n],
             v.text,
-            v.line_v,
+            v.voltage_ll_v,
             tree.distance_m[n],
             tree.parent_node[n],
             run.id if run else None,

@@ -11,14 +11,14 @@ conductor, each sized from the conductors in that raceway (250.102(C)(2), 250.30
 
 from __future__ import annotations
 
-from ..calc import bonding as bk
+from ..calc.bonding import JumperTable, jumper_passes, supply_side_jumper_size
 from ..calc.sizes import SIZES, Size
 from ..model import Run
 from .context import Context
 
 
-def _table(ctx: Context) -> bk.JumperTable:
-    return bk.JumperTable.from_records(ctx.rules.rows("supply_side_bonding_jumper"))
+def _table(ctx: Context) -> JumperTable:
+    return JumperTable.from_records(ctx.rules.rows("supply_side_bonding_jumper"))
 
 
 def check_sds_conductors(ctx: Context, run: Run) -> None:
@@ -30,7 +30,7 @@ def check_sds_conductors(ctx: Context, run: Run) -> None:
         "NFPA 70-2023 250.30(A)(2), (A)(3), 250.102(C), Table 250.102(C)(1)",
     )
     try:
-        need = bk.supply_side_jumper_size(run.size.area_kcmil, 1, run.material, _table(ctx))
+        need = supply_side_jumper_size(run.size.area_kcmil, 1, run.material, _table(ctx))
     except ValueError as exc:
         ctx.add(
             run.id,
@@ -89,43 +89,34 @@ def check_sds_conductors(ctx: Context, run: Run) -> None:
 
 
 def _held(ctx, run, what, size: Size | None, material, required, name, rid, key, basis):
+    """The stated conductor ``size`` against the ``required`` area [kcmil] (info when it
+    is not stated, a warning when its material differs from the phases')."""
+
+    def finding(value, status, note):
+        ctx.add(run.id, what, value, required, "kcmil", status, rid, note)
+
     if size is None:
-        ctx.add(
-            run.id,
-            what,
+        finding(
             None,
-            required,
-            "kcmil",
             "info",
-            rid,
             f"not stated: at least {name} {run.material.capitalize()}"
             f"{' in each raceway' if run.sets > 1 else ''} ({basis}); state it as "
             f'{key} = "…" to have it checked',
         )
         return
     if material != run.material:
-        ctx.add(
-            run.id,
-            what,
+        finding(
             size.area_kcmil,
-            required,
-            "kcmil",
             "warn",
-            rid,
             f"{size.name} {material.capitalize()} with {run.material.capitalize()} phase "
             "conductors: not evaluated (Table 250.102(C)(1) note: size from an "
             "ungrounded conductor of the jumper's material with the same ampacity)",
         )
         return
-    ok = bk.jumper_passes(size.area_kcmil, required)
-    ctx.add(
-        run.id,
-        what,
+    ok = jumper_passes(size.area_kcmil, required)
+    finding(
         size.area_kcmil,
-        required,
-        "kcmil",
         "ok" if ok else "fail",
-        rid,
         f"{size.name} {material.capitalize()} given; at least {name} needed: {basis}"
         + ("" if ok else f"; use {name} or larger"),
     )

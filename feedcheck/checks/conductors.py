@@ -4,16 +4,15 @@ secondary-conductor arrangements."""
 
 from __future__ import annotations
 
-from ..calc import ampacity as ak
 from ..calc import protection as pk
-from ..calc import selection as sk
+from ..calc.ampacity import ampacity_chain, rooftop_adder_c, termination_c_for
 from ..calc.constants import M_PER_FT
 from ..calc.sizes import SIZES
 from ..model import Run
 from .bonding import check_sds_conductors
 from .compare import passes
 from .context import Context
-from .run_fix import RunDuty, next_passing
+from .run_fix import RunDuty, next_passing, select_for_duty
 from .taps import check_unprotected_run, run_device
 from .termination import termination_note
 from .withstand import check_withstand
@@ -24,49 +23,6 @@ def _loads(ctx: Context, run: Run) -> tuple[float, float, float]:
     phase elements at S / V_LL: checks/loads.py), and its power factor."""
     cont, non = ctx.feed_currents_a(run.to_id)
     return cont, non, ctx.loads[run.to_id].pf
-
-
-def _select(
-    ctx: Context,
-    run: Run,
-    cont: float,
-    non: float,
-    device: float | None,
-    term: float | None,
-    cc: int,
-    rooftop_c: float,
-) -> sk.Selection:
-    """Smallest conductor of the run's material and system for its load and device."""
-    return sk.select_conductor(
-        cont,
-        non,
-        run.material,
-        run.insulation_c,
-        run.ambient_c,
-        cc,
-        termination_c=term,
-        sets=run.sets,
-        raceway=run.raceway,
-        device_a=device,
-        rooftop_adder_c=rooftop_c,
-        system=run.size.system,
-        data=ctx.rules.sizing,
-    )
-
-
-def _next_passing(
-    ctx: Context,
-    run: Run,
-    cont: float,
-    non: float,
-    device: float | None,
-    term: float | None,
-    cc: int,
-    rooftop_c: float,
-) -> str:
-    """The size (and device) with which every conductor check of the run passes,
-    verified by re-running them (:mod:`feedcheck.checks.run_fix`)."""
-    return next_passing(ctx, run, RunDuty(cont, non, device, cc, rooftop_c))
 
 
 def _run_sheet(ctx: Context, run: Run):
@@ -141,7 +97,7 @@ def _rooftop_c(ctx: Context, run: Run, sh) -> float:
     """Rooftop raceway temperature adder [°C] (0 when the run is not on a roof)."""
     rooftop_c, rooftop_rule = 0.0, ""
     if run.rooftop_mm is not None:
-        rooftop_c, rooftop_rule = ak.rooftop_adder_c(
+        rooftop_c, rooftop_rule = rooftop_adder_c(
             run.rooftop_mm / 1000.0, tables=ctx.rules.ampacity
         )
         sh.step(
@@ -160,7 +116,7 @@ def _termination_c(run: Run, sh, device: float | None, load_a: float) -> float:
     term = run.termination_c
     if term is None:
         basis = device if device is not None else load_a
-        term = float(ak.termination_c_for(basis, run.size.name))
+        term = float(termination_c_for(basis, run.size.name))
         sh.step(
             "Termination temperature column",
             "110.14(C)(1): ≤ 100 A or 14–1 AWG → 60 °C, else 75 °C",
@@ -262,7 +218,7 @@ def check_run(ctx: Context, run: Run) -> None:
         return
     term = _termination_c(run, sh, device, cont + non)
     try:
-        chain = ak.ampacity_chain(
+        chain = ampacity_chain(
             run.size.name,
             run.material,
             run.insulation_c,
@@ -290,19 +246,22 @@ def check_run(ctx: Context, run: Run) -> None:
         }
     )
     tnote = termination_note(ctx, run, term, chain.termination_cap_a)  # issue 13 item 7
+    duty = RunDuty(cont, non, device, cc, rooftop_c)
     fix = None
 
     def fix_text():
+        """The size (and device) with which every conductor check of the run passes,
+        verified by re-running them (:mod:`feedcheck.checks.run_fix`); found once."""
         nonlocal fix
         if fix is None:
-            fix = _next_passing(ctx, run, cont, non, device, run.termination_c, cc, rooftop_c)
+            fix = next_passing(ctx, run, duty)
         return fix
 
     with ctx.reading(*ctx.ampacity_rows(run)):
         _check_ampacity(ctx, run, chain, cont + non, fix_text, tnote)
     if device is not None:
         _check_device(ctx, run, device, chain.final_a, cont, non, fix_text)
-        _check_egc(ctx, run, device, cont, non, term, cc, rooftop_c)
+        _check_egc(ctx, run, duty, term)
     else:
         with ctx.reading(*ctx.ampacity_rows(run)):
             check_unprotected_run(ctx, run, chain.final_a)
@@ -311,7 +270,7 @@ def check_run(ctx: Context, run: Run) -> None:
     check_withstand(ctx, run, cont + non, chain.corrected_a)
 
 
-def _check_egc(ctx, run, device, cont, non, term, cc, rooftop_c) -> None:
+def _check_egc(ctx: Context, run: Run, duty: RunDuty, term: float | None) -> None:
     if run.ground is None:
         ctx.add(
             run.id,
@@ -325,13 +284,13 @@ def _check_egc(ctx, run, device, cont, non, term, cc, rooftop_c) -> None:
         )
         return
     try:
-        minimum = _select(ctx, run, cont, non, device, term, cc, rooftop_c).size
+        minimum = select_for_duty(ctx, run, duty, term).size
     except ValueError:
         minimum = run.size.name
     if SIZES[minimum].area_mm2 > run.size.area_mm2:
         minimum = run.size.name
     need = pk.egc_size(
-        device,
+        duty.device_a,
         run.ground_material,
         run.size.name,
         minimum,

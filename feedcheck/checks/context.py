@@ -170,7 +170,7 @@ class Context:
 
     def load_current_a(self, node: str) -> float:
         v = self.tree.voltage_of[node]
-        return current_from_apparent_power_a(self.loads[node].va, v.line_v, v.phases)
+        return current_from_apparent_power_a(self.loads[node].va, v.voltage_ll_v, v.phases)
 
 
 def _f(v):
@@ -225,7 +225,7 @@ def _add_minimum_lighting(job: Job, book: RuleBook, own: dict[str, Load]) -> lis
     from dataclasses import replace
 
     from .lighting import minimum_lighting
-    from .loads import line_v, lines_of
+    from .loads import line_share_v, lines_of
 
     lighting = {n: o.lighting_va for n, o in own.items() if o.lighting_va is not None}
     minima = minimum_lighting(job, book, lighting)
@@ -236,7 +236,7 @@ def _add_minimum_lighting(job: Job, book: RuleBook, own: dict[str, Load]) -> lis
         o = own[m.panel_id]
         v = job.tree.voltage_of[m.panel_id]
         k = lines_of(v)
-        extra = [short / k / line_v(v) if j < k else 0.0 for j in range(3)]
+        extra = [short / k / line_share_v(v) if j < k else 0.0 for j in range(3)]
         cont = o.phase_cont_a
         own[m.panel_id] = replace(
             o,

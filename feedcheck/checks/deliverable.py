@@ -37,7 +37,7 @@ def source_voltage_pct(ctx: Context, rule_id: str) -> float:
     z = source_impedance(job)
     if load.va <= 0 or z == 0 or not math.isfinite(abs(z)):
         return 100.0
-    v_ll, phases = src.voltage.line_v, src.voltage.phases
+    v_ll, phases = src.voltage.voltage_ll_v, src.voltage.phases
     current = current_from_apparent_power_a(load.va, v_ll, phases)
     if phases == 3:
         kind, r, x = "3ph", z.real, z.imag

@@ -44,7 +44,13 @@ def demand_chain_steps(ctx, p, sheet) -> None:
     short = 0.0 if minimum is None else max(0.0, minimum.used_va - (minimum.scheduled_va or 0))
     if chain is None and minimum is None:
         return
-    f_cont = ctx.rules.rule("df-continuous").number("factor")
+    # the factors as the rule book gives them (rows df-motor-largest, df-continuous)
+    f_motor, f_cont = (
+        (chain.largest_motor_factor, chain.continuous_factor)
+        if chain is not None
+        else (ctx.rules.rule(r).number("factor") for r in ("df-motor-largest", "df-continuous"))
+    )
+    motor_adder, cont_adder_f = round(f_motor - 1.0, 6), round(f_cont - 1.0, 6)
     if chain is not None:
         kinds = [k for k, v in chain.connected_va.items() if v > 0]
         sheet.step(
@@ -71,16 +77,16 @@ def demand_chain_steps(ctx, p, sheet) -> None:
     )
     sheet.step(
         "3. Largest motor",
-        "+ 25 % of the largest motor (430.24), once",
-        f"0.25 × {float(chain.largest_motor_va) if chain is not None else 0.0:,.0f}",
+        f"+ {motor_adder * 100:g} % of the largest motor (430.24), once",
+        f"{motor_adder:g} × {float(chain.largest_motor_va) if chain is not None else 0.0:,.0f}",
         round(motor_add),
         "VA",
     )
     cont_add = (f_cont - 1.0) * (cont_dem + short)
     sheet.step(
         "4. Continuous loads",
-        "+ 25 % of the continuous non-motor demand (215.2(A)(1))",
-        f"{f_cont - 1.0:g} × {cont_dem + short:,.0f}",
+        f"+ {cont_adder_f * 100:g} % of the continuous non-motor demand (215.2(A)(1))",
+        f"{cont_adder_f:g} × {cont_dem + short:,.0f}",
         round(cont_add),
         "VA",
     )

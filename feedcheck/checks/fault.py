@@ -4,21 +4,33 @@ equipment ratings, the instantaneous-trip check and the marking figures."""
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
 
 import numpy as np
 
-from ..calc import conductor as ck
-from ..calc import fault as fk
-from ..calc import fault_lg as lg
-from ..calc import transformer as tk
+from ..calc.conductor import ac_impedance_ohm_per_m
 from ..calc.constants import M_PER_FT, SQRT3
+from ..calc.fault import (
+    asymmetric_rms_half_cycle_a,
+    cumulative_impedance_ohm,
+    fault_current_3ph_a,
+    peak_current_a,
+    radial_fault_3ph,
+)
+from ..calc.fault_lg import (
+    instantaneous_trip_check,
+    max_length_for_trip_m,
+    radial_fault_lg_a,
+    run_zero_sequence_ohm,
+    smallest_return_for_trip,
+    transformer_zero_sequence_ohm,
+)
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
 from .context import Context
 from .fault_duty import (
     describe_methods,
     flag_return_paths,
+    kiloamps,
     motor_contribution,
     node_duty,
     record_duty,
@@ -35,21 +47,18 @@ from .impedance import (
     run_return_impedance_ohm,
     source_impedance,
 )
+from .point_to_point import point_to_point_a, ptp_finding
 from .taps import run_device
-
-
-def _kA(a: float) -> str:
-    return f"{a / 1000:,.2f} kA"
 
 
 def check_faults(ctx: Context) -> None:
     job, tree = ctx.job, ctx.tree
     fa = fault_assumptions(ctx)
     order = list(tree.order)
-    pos = {n: i for i, n in enumerate(order)}
+    pos = {node: at for at, node in enumerate(order)}
     parent = np.array(tree.parent_index())
-    v_node = np.array([tree.voltage_of[n].line_v for n in order])
-    vb = job.source.voltage.line_v
+    v_node = np.array([tree.voltage_of[node].voltage_ll_v for node in order])
+    vb = job.source.voltage.voltage_ll_v
 
     zs = source_impedance(job)
     b_max = branch_impedances(ctx, fa, fa.cond_c_max, "max")
@@ -57,19 +66,19 @@ def check_faults(ctx: Context) -> None:
 
     def referred(branches):
         arr = np.zeros(len(order), dtype=complex)
-        for n, z in branches.items():
-            arr[pos[n]] = z * (vb / tree.voltage_of[n].line_v) ** 2
+        for node, z_branch in branches.items():
+            arr[pos[node]] = z_branch * (vb / tree.voltage_of[node].voltage_ll_v) ** 2
         return arr
 
     zb_max, zb_min = referred(b_max), referred(b_min)
     # a single-phase transformer or panel on a three-phase node draws through two source
     # lines: loop = 2·Z_parent, per-phase equivalent 2·Z_parent/√3 (instead of Z_parent)
-    for n in order[1:]:
-        p = tree.parent_node[n]
-        if tree.voltage_of[n].phases == 1 and tree.voltage_of[p].phases == 3:
+    for node in order[1:]:
+        upstream = tree.parent_node[node]
+        if tree.voltage_of[node].phases == 1 and tree.voltage_of[upstream].phases == 3:
             for zb in (zb_max, zb_min):
-                zp = fk.cumulative_impedance_ohm(parent, zb, zs)[pos[p]]
-                zb[pos[n]] += (2 / SQRT3 - 1) * zp
+                zp = cumulative_impedance_ohm(parent, zb, zs)[pos[upstream]]
+                zb[pos[node]] += (2 / SQRT3 - 1) * zp
     rf = _walk_3ph(job, parent, v_node, zb_max, zb_min, zs, fa, vb)
     ohmic_max_no_motor = rf.fault_max_a
     motor_node = motor_contribution(ctx, fa, vb)  # every motor on the same system
@@ -77,14 +86,16 @@ def check_faults(ctx: Context) -> None:
     finite = np.isfinite(fault_max)
     peak = np.full(len(order), np.inf)
     asym = np.full(len(order), np.inf)
-    peak[finite] = fk.peak_current_a(fault_max[finite], rf.x_r[finite])
-    asym[finite] = fk.asymmetric_rms_half_cycle_a(fault_max[finite], rf.x_r[finite])
+    peak[finite] = peak_current_a(fault_max[finite], rf.x_r[finite])
+    asym[finite] = asymmetric_rms_half_cycle_a(fault_max[finite], rf.x_r[finite])
 
     _describe_3ph(ctx, fa)
     lg_min = _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb)
-    ptp = _point_to_point(ctx, fa, order, rf)
+    ptp = point_to_point_a(ctx, fa, order)
     _primary_terminals(ctx, fa, pos, rf, vb)
-    z_node_max = {n: complex(rf.z_max_ohm[i] * (v_node[i] / vb) ** 2) for i, n in enumerate(order)}
+    z_node_max = {
+        node: complex(rf.z_max_ohm[at] * (v_node[at] / vb) ** 2) for at, node in enumerate(order)
+    }
     worst = worst_case_figures(ctx, fa, z_node_max, dict(zip(order, motor_node, strict=True)))
     describe_methods(ctx, fa, worst)
     flag_return_paths(ctx)
@@ -93,8 +104,8 @@ def check_faults(ctx: Context) -> None:
         rf, fault_max, motor_node, ohmic_max_no_motor, peak, asym, lg_min, ptp, worst, v_node, vb
     )
     when = _calc_date(ctx)
-    for i, n in enumerate(order):
-        _record_node(ctx, fa, figs, i, n, when)
+    for at, node in enumerate(order):
+        _record_node(ctx, fa, figs, at, node, when)
 
 
 def _describe_3ph(ctx: Context, fa) -> None:
@@ -139,74 +150,55 @@ class _Figures:
     vb: float
 
 
-def _record_node(ctx: Context, fa, g: _Figures, i: int, n: str, when: str) -> None:
+def _record_node(ctx: Context, fa, figs: _Figures, at: int, node_id: str, when: str) -> None:
     """Node values, the point-to-point finding, the sheet and the duty of one node."""
-    rf, tree = g.rf, ctx.tree
-    node = ctx.nodes[n]
+    rf, tree = figs.rf, ctx.tree
+    node = ctx.nodes[node_id]
     node.values.update(
         {
-            "fault_max_a": float(g.fault_max[i]),
-            "fault_min_a": float(rf.fault_min_a[i]),
-            "x_r": float(rf.x_r[i]),
-            "peak_a": float(g.peak[i]),
-            "asym_rms_a": float(g.asym[i]),
+            "fault_max_a": float(figs.fault_max[at]),
+            "fault_min_a": float(rf.fault_min_a[at]),
+            "x_r": float(rf.x_r[at]),
+            "peak_a": float(figs.peak[at]),
+            "asym_rms_a": float(figs.asym[at]),
         }
     )
-    if g.motor_node[i] > 0:
-        node.values["fault_motor_a"] = float(g.motor_node[i])
-    if n in g.lg_min:
-        node.values["fault_lg_min_a"] = g.lg_min[n]
-    if n in g.ptp:
-        _ptp_finding(ctx, fa, n, g.ptp[n], float(g.ohmic_no_motor[i]))
-    if n == "source":
+    if figs.motor_node[at] > 0:
+        node.values["fault_motor_a"] = float(figs.motor_node[at])
+    if node_id in figs.lg_min:
+        node.values["fault_lg_min_a"] = figs.lg_min[node_id]
+    if node_id in figs.ptp:
+        ptp_finding(ctx, fa, node_id, figs.ptp[node_id], float(figs.ohmic_no_motor[at]))
+    if node_id == "source":
         return
-    _sheet_steps(ctx, fa, g, i, n)
-    first = "3ph" if tree.voltage_of[n].phases == 3 else "ll"
-    faults = {first: float(g.fault_max[i])}
-    x_rs = {first: float(rf.x_r[i])}
-    if n in g.worst:
-        faults.update(g.worst[n].faults_a)
-        x_rs.update(g.worst[n].x_r)
+    _sheet_steps(ctx, fa, figs, at, node_id)
+    first = "3ph" if tree.voltage_of[node_id].phases == 3 else "ll"
+    faults = {first: float(figs.fault_max[at])}
+    x_rs = {first: float(rf.x_r[at])}
+    if node_id in figs.worst:
+        faults.update(figs.worst[node_id].faults_a)
+        x_rs.update(figs.worst[node_id].x_r)
         for case, key in (("ln", "fault_ln_max_a"), ("lg", "fault_lg_max_a")):
-            if case in g.worst[n].faults_a:
-                node.values[key] = g.worst[n].faults_a[case]
-    record_duty(ctx, n, node_duty(ctx, n, faults, x_rs), when)
+            if case in figs.worst[node_id].faults_a:
+                node.values[key] = figs.worst[node_id].faults_a[case]
+    record_duty(ctx, node_id, node_duty(ctx, node_id, faults, x_rs), when)
 
 
-def _ptp_finding(ctx: Context, fa, n: str, ptp_a: float, ohmic_a: float) -> None:
-    values = ctx.nodes[n].values
-    values["fault_ptp_a"] = ptp_a
-    diff = float(fk.percent_difference(ptp_a, ohmic_a))
-    values["fault_ptp_diff_pct"] = diff
-    ok = abs(diff) <= fa.ptp_disagree_pct
-    ctx.add(
-        n,
-        "point-to-point vs ohmic",
-        diff,
-        fa.ptp_disagree_pct,
-        "%",
-        "ok" if ok else "warn",
-        "fault-ptp-disagree",
-        f"point-to-point {_kA(ptp_a)} vs ohmic {_kA(ohmic_a)}"
-        + (
-            ""
-            if ok
-            else "; the point-to-point method adds impedance magnitudes (no X/R) and "
-            "reads low where conductor resistance dominates — the ohmic figure is the "
-            "one used for ratings; review the impedance data if the gap surprises you"
-        ),
+def _sheet_steps(ctx: Context, fa, figs: _Figures, at: int, node_id: str) -> None:
+    rf, tree, vb, v_node = figs.rf, ctx.tree, figs.vb, figs.v_node
+    motor_node, fault_max, peak, lg_min, ptp = (
+        figs.motor_node,
+        figs.fault_max,
+        figs.peak,
+        figs.lg_min,
+        figs.ptp,
     )
-
-
-def _sheet_steps(ctx: Context, fa, g: _Figures, i: int, n: str) -> None:
-    rf, tree, vb, v_node = g.rf, ctx.tree, g.vb, g.v_node
-    motor_node, fault_max, peak, lg_min, ptp = g.motor_node, g.fault_max, g.peak, g.lg_min, g.ptp
-    sh = ctx.sheet(n, tree.kind[n], "")
-    z_max_node = rf.z_max_ohm[i] * (v_node[i] / vb) ** 2
-    z_min_node = rf.z_min_ohm[i] * (v_node[i] / vb) ** 2
-    v = tree.voltage_of[n]
-    form = "I = c·V_LL / (√3·|Z|)" if v.phases == 3 else "I = c·V / |Z_loop| (Z_loop = √3·Z)"
-    sh.step(
+    sheet = ctx.sheet(node_id, tree.kind[node_id], "")
+    z_max_node = rf.z_max_ohm[at] * (v_node[at] / vb) ** 2
+    z_min_node = rf.z_min_ohm[at] * (v_node[at] / vb) ** 2
+    system = tree.voltage_of[node_id]
+    form = "I = c·V_LL / (√3·|Z|)" if system.phases == 3 else "I = c·V / |Z_loop| (Z_loop = √3·Z)"
+    sheet.step(
         "Total impedance to this node, maximum case",
         "Z = Z_source + Z_transformer + Σ Z_runs (referred to this voltage)",
         f"{z_max_node.real * 1e3:.3f} + j{z_max_node.imag * 1e3:.3f} mΩ",
@@ -214,48 +206,48 @@ def _sheet_steps(ctx: Context, fa, g: _Figures, i: int, n: str) -> None:
         "mΩ",
         "fault-z-tolerance",
     )
-    sh.step(
+    sheet.step(
         "Maximum three-phase fault current",
         form,
-        f"{fa.c_max:g} × {v.line_v:g} / (√3 × {abs(z_max_node) * 1e3:.3f} mΩ)"
-        + (f" + motors {motor_node[i]:.0f} A" if motor_node[i] > 0 else ""),
-        round(float(fault_max[i])),
+        f"{fa.c_max:g} × {system.voltage_ll_v:g} / (√3 × {abs(z_max_node) * 1e3:.3f} mΩ)"
+        + (f" + motors {motor_node[at]:.0f} A" if motor_node[at] > 0 else ""),
+        round(float(fault_max[at])),
         "A",
         "fault-cond-temp-max",
     )
-    sh.step(
+    sheet.step(
         "Minimum three-phase fault current",
         form,
-        f"{fa.c_min:g} × {v.line_v:g} / (√3 × {abs(z_min_node) * 1e3:.3f} mΩ)",
-        round(float(rf.fault_min_a[i])),
+        f"{fa.c_min:g} × {system.voltage_ll_v:g} / (√3 × {abs(z_min_node) * 1e3:.3f} mΩ)",
+        round(float(rf.fault_min_a[at])),
         "A",
         "fault-cond-temp-min",
     )
-    sh.step(
+    sheet.step(
         "X/R and peak",
         "κ = 1.02 + 0.98·e^(−3/(X/R)); i_p = κ·√2·I_max",
-        f"X/R = {rf.x_r[i]:.2f}",
-        round(float(peak[i])),
+        f"X/R = {rf.x_r[at]:.2f}",
+        round(float(peak[at])),
         "A",
         "iec60909-kappa",
     )
-    if n in lg_min:
-        sh.step(
+    if node_id in lg_min:
+        sheet.step(
             "Minimum line-to-ground fault current",
             "I = 3·V_LN / |Z1 + Z2 + Z0|"
-            if v.kind == "wye"
+            if system.kind == "wye"
             else "I = V_LN / |Z_LN,source + Σ(Z_phase + Z_return)|",
-            f"V_LN = {v.neutral_v:g} V",
-            round(lg_min[n]),
+            f"V_LN = {system.voltage_ln_v:g} V",
+            round(lg_min[node_id]),
             "A",
             "fault-z0-ratio-min",
         )
-    if n in ptp:
-        sh.step(
+    if node_id in ptp:
+        sheet.step(
             "Point-to-point figure (second method)",
             "I = I_start · Π 1/(1 + f)",
             "f = √3·L·I/(C·n·V) per run",
-            round(ptp[n]),
+            round(ptp[node_id]),
             "A",
             "fault-ptp-disagree",
         )
@@ -274,7 +266,7 @@ def _walk_3ph(job, parent, v_node, zb_max, zb_min, zs, fa, vb) -> _Walk:
     """The vectorised radial walk below the source; the source node itself carries the
     job's stated fault current (infinite for an infinite bus)."""
     sub_parent = np.where(parent[1:] > 0, parent[1:] - 1, -1)
-    rf = fk.radial_fault_3ph(
+    rf = radial_fault_3ph(
         sub_parent,
         v_node[1:],
         zb_max[1:],
@@ -299,22 +291,28 @@ def _primary_terminals(ctx: Context, fa, pos, rf, vb) -> None:
     """Fault current at the far end of a run that feeds a transformer (its primary
     terminals): the parent's total impedance plus the run, referred to the base."""
     tree = ctx.tree
-    for t in ctx.job.transformers:
-        run = tree.parent_run.get(t.id)
+    for tx in ctx.job.transformers:
+        run = tree.parent_run.get(tx.id)
         if run is None:
             continue
-        p = tree.parent_node[t.id]
-        pv = tree.voltage_of[p]
-        k = 2 / SQRT3 if t.primary.phases == 1 else 1.0  # loop on two lines, per-phase eq.
+        upstream = tree.parent_node[tx.id]
+        pv = tree.voltage_of[upstream]
+        loop_factor = (
+            2 / SQRT3 if tx.primary.phases == 1 else 1.0
+        )  # loop on two lines, per-phase eq.
         out = {}
-        for case, temp, z_parent, c in (
+        for case, temp, z_parent, c_factor in (
             ("max", fa.cond_c_max, rf.z_max_ohm, fa.c_max),
             ("min", fa.min_c(run), rf.z_min_ohm, fa.c_min),
         ):
-            z_run_b = k * run_impedance_ohm(run, temp, ctx.rules.conductors) * (vb / pv.line_v) ** 2
-            z_b = z_parent[pos[p]] + z_run_b
-            out[case] = float(fk.fault_current_3ph_a(vb, z_b, c)) * vb / pv.line_v
-        values = ctx.nodes[t.id].values
+            z_run_b = (
+                loop_factor
+                * run_impedance_ohm(run, temp, ctx.rules.conductors)
+                * (vb / pv.voltage_ll_v) ** 2
+            )
+            z_b = z_parent[pos[upstream]] + z_run_b
+            out[case] = float(fault_current_3ph_a(vb, z_b, c_factor)) * vb / pv.voltage_ll_v
+        values = ctx.nodes[tx.id].values
         values["fault_primary_max_a"], values["fault_primary_min_a"] = out["max"], out["min"]
         ctx.add(
             run.id,
@@ -324,8 +322,8 @@ def _primary_terminals(ctx: Context, fa, pos, rf, vb) -> None:
             "A",
             "info",
             "fault-marking",
-            f"{t.id} primary terminals: maximum "
-            f"{_kA(out['max'])}, minimum {_kA(out['min'])} (complex ohmic method)",
+            f"{tx.id} primary terminals: maximum "
+            f"{kiloamps(out['max'])}, minimum {kiloamps(out['min'])} (complex ohmic method)",
         )
 
 
@@ -337,97 +335,123 @@ def _calc_date(ctx: Context) -> str:
     return ctx.calc_date or "on a date not given"
 
 
+@dataclass
+class _SequenceNetwork:
+    """Positive- and zero-sequence branches of the feed below grounded secondaries, one
+    entry per node in walk order (each grounded transformer a root)."""
+
+    parent: np.ndarray
+    root_z1: np.ndarray
+    root_z0: np.ndarray
+    branch_z1: np.ndarray
+    branch_z0: np.ndarray
+    in_scope: np.ndarray
+
+
+def _sequence_network(ctx, fa, order, pos, parent, z_total_min, vb) -> _SequenceNetwork:
+    """Sequence impedances of every node below a grounded secondary (wye: Z1 and Z0;
+    120/240 V: the line-to-neutral loop in Z1), for the minimum case."""
+    tree = ctx.tree
+    n_nodes = len(order)
+    net = _SequenceNetwork(
+        parent.copy(),
+        *(np.zeros(n_nodes, dtype=complex) for _ in range(4)),
+        np.zeros(n_nodes, dtype=bool),
+    )
+    transformers = {tx.id: tx for tx in ctx.job.transformers}
+    for node in order:
+        at = pos[node]
+        system = tree.voltage_of[node]
+        if system.voltage_ln_v is None or tree.upstream_transformer[node] is None:
+            net.parent[at] = -1
+            continue
+        net.in_scope[at] = True
+        if tree.kind[node] == "transformer":
+            tx = transformers[node]
+            net.parent[at] = -1
+            # per-phase (equivalent)
+            z1 = complex(z_total_min[at] * (system.voltage_ll_v / vb) ** 2)
+            zt_min = transformer_loop_ohm(tx, fa.tolerance_pct, "min")
+            if system.kind == "wye":
+                net.root_z1[at] = z1
+                ratio = z0_ratio(tx, fa, "min")
+                net.root_z0[at] = complex(transformer_zero_sequence_ohm(zt_min, ratio))
+            elif system.kind == "highleg":  # four-wire delta: both legs bounded (high_leg.py)
+                net.root_z1[at] = min_root_ohm(z1)
+            else:  # 120/240 V: half-winding model at 120 V
+                net.root_z1[at] = split_ln_source_ohm(z1, zt_min)
+            continue
+        run = tree.parent_run[node]
+        z_phase = run_impedance_ohm(run, fa.min_c(run), ctx.rules.conductors)
+        z_return = run_return_impedance_ohm(run, fa.min_c(run), ctx.rules.conductors)
+        if system.kind == "wye":
+            net.branch_z1[at] = z_phase
+            net.branch_z0[at] = complex(run_zero_sequence_ohm(z_phase, z_return))
+        else:
+            net.branch_z1[at] = z_phase + z_return
+    return net
+
+
 def _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb) -> dict[str, float]:
     """Minimum line-to-ground current at every node below a grounded secondary
     (wye: symmetrical components; 120/240 V: line-to-neutral loop)."""
-    job, tree = ctx.job, ctx.tree
-    z_total_min = fk.cumulative_impedance_ohm(parent, zb_min, zs)
-    n_nodes = len(order)
-    lg_parent = parent.copy()
-    root_z1 = np.zeros(n_nodes, dtype=complex)
-    root_z0 = np.zeros(n_nodes, dtype=complex)
-    b1 = np.zeros(n_nodes, dtype=complex)
-    b0 = np.zeros(n_nodes, dtype=complex)
-    in_scope = np.zeros(n_nodes, dtype=bool)
-    tx = {t.id: t for t in job.transformers}
-    for n in order:
-        i = pos[n]
-        v = tree.voltage_of[n]
-        if v.neutral_v is None or tree.upstream_transformer[n] is None:
-            lg_parent[i] = -1
-            continue
-        in_scope[i] = True
-        if tree.kind[n] == "transformer":
-            t = tx[n]
-            lg_parent[i] = -1
-            z1 = complex(z_total_min[i] * (v.line_v / vb) ** 2)  # per-phase (equivalent)
-            if v.kind == "wye":
-                zt_min = transformer_loop_ohm(t, fa.tolerance_pct, "min")
-                root_z1[i] = z1
-                ratio = z0_ratio(t, fa, "min")
-                root_z0[i] = complex(lg.transformer_zero_sequence_ohm(zt_min, ratio))
-            elif v.kind == "highleg":  # four-wire delta: both legs bounded (high_leg.py)
-                root_z1[i] = min_root_ohm(z1)
-            else:  # 120/240 V: half-winding model at 120 V
-                zt_loop = transformer_loop_ohm(t, fa.tolerance_pct, "min")
-                root_z1[i] = split_ln_source_ohm(z1, zt_loop)
-        else:
-            run = tree.parent_run[n]
-            zp = run_impedance_ohm(run, fa.min_c(run), ctx.rules.conductors)
-            zr = run_return_impedance_ohm(run, fa.min_c(run), ctx.rules.conductors)
-            if v.kind == "wye":
-                b1[i] = zp
-                b0[i] = complex(lg.run_zero_sequence_ohm(zp, zr))
-            else:
-                b1[i] = zp + zr
+    tree = ctx.tree
+    z_total_min = cumulative_impedance_ohm(parent, zb_min, zs)
+    net = _sequence_network(ctx, fa, order, pos, parent, z_total_min, vb)
     out: dict[str, float] = {}
-    if not in_scope.any():
+    if not net.in_scope.any():
         return out
     # wye: V_LL/√3 (208Y/120 V → 120.09 V, consistent with the three-phase figure);
     # 120/240 V: half the line voltage
-    vln = np.array([_v_ln(tree.voltage_of[n]) for n in order])
-    wye = np.array([tree.voltage_of[n].kind == "wye" for n in order])
-    # walk only the nodes below grounded secondaries (each transformer is a root there)
-    keep = np.flatnonzero(in_scope)
-    new_index = np.full(n_nodes, -1)
-    new_index[keep] = np.arange(keep.size)
-    sub_parent = np.where(lg_parent[keep] >= 0, new_index[np.maximum(lg_parent[keep], 0)], -1)
-    i_wye = np.zeros(n_nodes)
-    i_split = np.zeros(n_nodes)
-    sel_w = keep[wye[keep]]
-    if sel_w.size:
-        i_wye[keep] = lg.radial_fault_lg_a(
-            sub_parent,
-            vln[keep],
-            np.where(wye[keep], b1[keep], 1e-9),
-            np.where(wye[keep], b0[keep], 1e-9),
-            np.where(wye[keep], root_z1[keep], 1e-9),
-            np.where(wye[keep], root_z0[keep], 1e-9),
-            fa.c_min,
-        )
-    if (~wye[keep]).any():
-        z_split = fk.cumulative_impedance_ohm(sub_parent, b1[keep], root_z1[keep])
-        i_split[keep] = fa.c_min * vln[keep] / np.abs(z_split)
+    vln = np.array([_v_ln(tree.voltage_of[node]) for node in order])
+    wye = np.array([tree.voltage_of[node].kind == "wye" for node in order])
+    current_a = _line_to_ground_a(net, vln, wye, fa.c_min)
     ctx.method(
         "Line-to-ground fault by symmetrical components, I = 3·V_LN/|Z1 + Z2 + Z0|; "
         "delta–wye transformer Z0 = k·Z1_T; run Z0 = Z_phase + 3·Z_return",
         "IEEE Std 141-1993 ch. 4; IEC 60909-0 §7.1.3",
     )
-    for n in order:
-        i = pos[n]
-        if in_scope[i]:
-            out[n] = float(i_wye[i] if wye[i] else i_split[i])
+    for node in order:
+        if net.in_scope[pos[node]]:
+            out[node] = float(current_a[pos[node]])
     # sequence impedances from the grounded secondary to every node, once for all panels
-    z1_total = fk.cumulative_impedance_ohm(lg_parent, b1, root_z1)
-    z0_total = fk.cumulative_impedance_ohm(lg_parent, b0, root_z0)
+    z1_total = cumulative_impedance_ohm(net.parent, net.branch_z1, net.root_z1)
+    z0_total = cumulative_impedance_ohm(net.parent, net.branch_z0, net.root_z0)
     _instantaneous_checks(ctx, fa, out, pos, z1_total, z0_total)
     return out
 
 
-def _v_ln(v) -> float:
-    if v.kind == "wye":
-        return v.line_v / SQRT3
-    return v.neutral_v or 1.0
+def _line_to_ground_a(net: _SequenceNetwork, vln, wye, c_min) -> np.ndarray:
+    """Line-to-ground current of every node in scope: symmetrical components on wye
+    systems, the line-to-neutral loop on 120/240 V (0 outside the scope)."""
+    n_nodes = net.in_scope.size
+    # walk only the nodes below grounded secondaries (each transformer is a root there)
+    keep = np.flatnonzero(net.in_scope)
+    new_index = np.full(n_nodes, -1)
+    new_index[keep] = np.arange(keep.size)
+    sub_parent = np.where(net.parent[keep] >= 0, new_index[np.maximum(net.parent[keep], 0)], -1)
+    i_wye = np.zeros(n_nodes)
+    i_split = np.zeros(n_nodes)
+    if keep[wye[keep]].size:
+        i_wye[keep] = radial_fault_lg_a(
+            sub_parent,
+            vln[keep],
+            np.where(wye[keep], net.branch_z1[keep], 1e-9),
+            np.where(wye[keep], net.branch_z0[keep], 1e-9),
+            np.where(wye[keep], net.root_z1[keep], 1e-9),
+            np.where(wye[keep], net.root_z0[keep], 1e-9),
+            c_min,
+        )
+    if (~wye[keep]).any():
+        z_split = cumulative_impedance_ohm(sub_parent, net.branch_z1[keep], net.root_z1[keep])
+        i_split[keep] = c_min * vln[keep] / np.abs(z_split)
+    return np.where(wye, i_wye, i_split)
+
+
+def _v_ln(system) -> float:
+    if system.kind == "wye":
+        return system.voltage_ll_v / SQRT3
+    return system.voltage_ln_v or 1.0
 
 
 def _pickup(ctx, device_a: float, given: float | None) -> tuple[float, float, str]:
@@ -436,10 +460,10 @@ def _pickup(ctx, device_a: float, given: float | None) -> tuple[float, float, st
     table = ctx.rules.rows("instantaneous_pickup")
     row = next(
         (
-            r
-            for r in table
-            if str(r["device_type"]).startswith("breaker-tm")
-            and r["rating_from_a"] < device_a <= r["rating_to_a"]
+            candidate
+            for candidate in table
+            if str(candidate["device_type"]).startswith("breaker-tm")
+            and candidate["rating_from_a"] < device_a <= candidate["rating_to_a"]
         ),
         table[0],
     )
@@ -454,31 +478,31 @@ def _pickup(ctx, device_a: float, given: float | None) -> tuple[float, float, st
 def _instantaneous_checks(ctx, fa, lg_min, pos, z1_total, z0_total) -> None:
     """Does the device feeding each panel trip instantaneously for a far-end ground fault?"""
     job, tree = ctx.job, ctx.tree
-    for p in job.panels:
-        if p.id not in lg_min:
+    for panel in job.panels:
+        if panel.id not in lg_min:
             continue
-        run = tree.parent_run[p.id]
-        up = tree.parent_node[p.id]
+        run = tree.parent_run[panel.id]
+        up = tree.parent_node[panel.id]
         device, _where = run_device(job, run)  # the one rule of checks/taps.py
         if device is None:
             continue
-        mult, tol, rid = _pickup(ctx, device, p.instantaneous_a)
-        chk = lg.instantaneous_trip_check(lg_min[p.id], device, mult, tol)
+        mult, tol, rid = _pickup(ctx, device, panel.instantaneous_a)
+        chk = instantaneous_trip_check(lg_min[panel.id], device, mult, tol)
         note = (
-            f"minimum line-to-ground {_kA(lg_min[p.id])} vs instantaneous pick-up "
-            f"{_kA(chk.required_a)} ({mult:g} × {device:g} A"
+            f"minimum line-to-ground {kiloamps(lg_min[panel.id])} vs instantaneous pick-up "
+            f"{kiloamps(chk.required_a)} ({mult:g} × {device:g} A"
             + (f" + {tol:g} % tolerance" if tol else "")
             + ")"
         )
         if not chk.trips:
             up_i = pos[up]
             note += "; " + _trip_fixes(
-                ctx, fa, p.id, run, chk.required_a, z1_total[up_i], z0_total[up_i]
+                ctx, fa, panel.id, run, chk.required_a, z1_total[up_i], z0_total[up_i]
             )
         ctx.add(
-            p.id,
+            panel.id,
             "ground fault trips instantaneously",
-            lg_min[p.id],
+            lg_min[panel.id],
             chk.required_a,
             "A",
             "ok" if chk.trips else "warn",
@@ -490,13 +514,15 @@ def _instantaneous_checks(ctx, fa, lg_min, pos, z1_total, z0_total) -> None:
 def _trip_fixes(ctx, fa, panel_id, run, required_a, z_up1, z_up0) -> str:
     """What would make the device trip: a shorter run or a larger grounding conductor.
     ``z_up1``, ``z_up0``: positive- and zero-sequence impedance up to the run's start."""
-    v = ctx.tree.voltage_of[panel_id]
+    system = ctx.tree.voltage_of[panel_id]
     data = ctx.rules.conductors
     zp = run_impedance_ohm(run, fa.min_c(run), data) / run.length_m
     zr = run_return_impedance_ohm(run, fa.min_c(run), data) / run.length_m
     # wye: Z1 + Z2 + Z0 upstream; 120/240 V loop written in the same 3·V/|A + 3L·(zp + zr)|
-    a = 2 * z_up1 + z_up0 if v.kind == "wye" else 3 * z_up1
-    max_len = float(lg.max_length_for_trip_m(_v_ln(v), a, zp, zr, required_a, fa.c_min))
+    z_upstream_loop = 2 * z_up1 + z_up0 if system.kind == "wye" else 3 * z_up1
+    max_len = float(
+        max_length_for_trip_m(_v_ln(system), z_upstream_loop, zp, zr, required_a, fa.c_min)
+    )
     parts = [
         f"it would trip with the run at most {max_len / M_PER_FT:,.0f} ft ({max_len:,.1f} m)"
         if max_len > 0
@@ -504,17 +530,17 @@ def _trip_fixes(ctx, fa, panel_id, run, required_a, z_up1, z_up0) -> str:
     ]
     material = run.ground_material if run.ground is not None else run.material
     order = AWG_KCMIL_ORDER if run.size.system == "awg" else METRIC_ORDER
-    names = [s for s in order if SIZES[s].area_mm2 <= run.size.area_mm2 * (1 + 1e-9)]
-    r, x = ck.ac_impedance_ohm_per_m(
+    names = [name for name in order if SIZES[name].area_mm2 <= run.size.area_mm2 * (1 + 1e-9)]
+    r_ohm_per_m, x_ohm_per_m = ac_impedance_ohm_per_m(
         np.array(names), material, run.raceway, fa.min_c(run), data=data
     )
-    idx = lg.smallest_return_for_trip(
-        _v_ln(v),
-        a,
+    idx = smallest_return_for_trip(
+        _v_ln(system),
+        z_upstream_loop,
         run.length_m,
         zp,
-        np.asarray(r) / run.sets,
-        np.asarray(x) / run.sets,
+        np.asarray(r_ohm_per_m) / run.sets,
+        np.asarray(x_ohm_per_m) / run.sets,
         required_a,
         fa.c_min,
     )
@@ -522,55 +548,3 @@ def _trip_fixes(ctx, fa, panel_id, run, required_a, z_up1, z_up0) -> str:
         parts.append(f"or with a {names[idx]} {material.capitalize()} grounding conductor")
     parts.append("or with a lower instantaneous setting")
     return ", ".join(parts)
-
-
-def _point_to_point(ctx, fa, order, rf) -> dict[str, float]:
-    """Point-to-point figure at every node below a transformer (second method)."""
-    job, tree = ctx.job, ctx.tree
-    tx = {t.id: t for t in job.transformers}
-    out: dict[str, float] = {}
-    for n in order:
-        kind = tree.kind[n]
-        if kind == "source":
-            continue
-        v = tree.voltage_of[n]
-        if kind == "transformer":
-            t = tx[n]
-            if tree.parent_node[n] != "source" or tree.parent_run[n] is not None:
-                continue  # chained transformers: the method's transformer step is not applied
-            rated = tk.rated_current_a(t.rating_va, t.secondary.line_v, t.secondary.phases)
-            src = job.source.fault_a
-            if t.secondary.phases == 1 and job.source.voltage.phases == 3:
-                src = src * SQRT3 / 2  # line-to-line fault on a three-phase source
-            out[n] = fa.c_max * float(  # the ohmic maximum's voltage factor
-                fk.ptp_secondary_current_a(
-                    rated,
-                    t.z_pct,
-                    fa.tolerance_pct,
-                    None if math.isinf(src) else src,
-                    t.primary.line_v,
-                    t.secondary.line_v,
-                )
-            )
-            continue
-        p = tree.parent_node[n]
-        if p not in out:
-            continue
-        run = tree.parent_run[n]
-        r, x = ck.ac_impedance_ohm_per_m(
-            run.size.name, run.material, run.raceway, fa.cond_c_max, data=ctx.rules.conductors
-        )
-        c = float(fk.conductor_constant_a_ft_per_v(float(r), float(x)))
-        kind_ptp = "3ph" if v.phases == 3 else "1ph-ll"
-        out[n] = float(
-            fk.ptp_chain_a(out[p], [run.length_m], [c], [run.sets], v.line_v, kind_ptp)[0]
-        )
-    if out:
-        ctx.method(
-            "Point-to-point method (second figure): f = √3·L·I/(C·n·V_LL) three-phase, "
-            "2·L·I/(C·n·V_LL) single-phase; M = 1/(1 + f); C = 1000/|Z per 1000 ft| "
-            "from the same conductor impedance data",
-            "published point-to-point method of fuse manufacturers' application "
-            "literature; conductor data NFPA 70 Ch. 9 Table 9",
-        )
-    return out

@@ -16,11 +16,17 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from ..calc import fault as fk
-from ..calc import fault_duty as dk
-from ..calc import fault_high_leg as hl
-from ..calc import fault_split_phase as sp
 from ..calc.constants import SQRT3
+from ..calc.fault import motor_contribution_a, transformer_fault_impedances_ohm, x_r_ratio
+from ..calc.fault_duty import (
+    TestConditionRow,
+    asymmetry_multiplying_factor,
+    fault_lg_delta_wye_a,
+    governing_duty_a,
+    test_condition_row,
+)
+from ..calc.fault_high_leg import K_AN
+from ..calc.fault_split_phase import half_winding_impedance_ohm, split_phase_fault
 from ..model import DEVICE_FAMILIES, Transformer
 from .compare import passes
 from .context import Context
@@ -36,8 +42,9 @@ CASE_WORDS = {
 DEFAULT_FAMILY = "molded-case"
 
 
-def _kA(a: float) -> str:
-    return f"{a / 1000:,.2f} kA"
+def kiloamps(current_a: float) -> str:
+    """A fault current in a finding's note: kA, two decimals."""
+    return f"{current_a / 1000:,.2f} kA"
 
 
 @dataclass
@@ -58,8 +65,8 @@ def z0_ratio(t: Transformer, fa: FaultAssumptions, case: str) -> float:
 def transformer_loop_ohm(t: Transformer, tolerance_pct: float, case: str) -> complex:
     """Transformer impedance at its secondary voltage for the case [Ω]: per phase for a
     three-phase unit, the whole-winding loop for a single-phase one."""
-    zmax, zmin = fk.transformer_fault_impedances_ohm(
-        t.rating_va, t.secondary.line_v, t.z_pct, t.x_r, tolerance_pct, t.secondary.phases
+    zmax, zmin = transformer_fault_impedances_ohm(
+        t.rating_va, t.secondary.voltage_ll_v, t.z_pct, t.x_r, tolerance_pct, t.secondary.phases
     )
     return complex(zmax if case == "max" else zmin)
 
@@ -72,7 +79,7 @@ def split_ln_source_ohm(z_total_eq_ohm: complex, zt_loop_ohm: complex) -> comple
     The source loop Z_src = √3·Z_total − Z_T refers to the half winding by 1/4; the
     winding takes the half-winding model (1.5·R_T + j1.2·X_T)/4."""
     z_src = upstream_part(SQRT3 * z_total_eq_ohm, zt_loop_ohm)
-    return complex(z_src / 4.0 + sp.half_winding_impedance_ohm(zt_loop_ohm))
+    return complex(z_src / 4.0 + half_winding_impedance_ohm(zt_loop_ohm))
 
 
 def upstream_part(z_total_ohm: complex, z_transformer_ohm: complex) -> complex:
@@ -114,14 +121,14 @@ def motor_contribution(ctx: Context, fa: FaultAssumptions, base_v: float) -> np.
     ancestors = {n: _ancestors(tree, n) for n in order}
     at_base = np.zeros(len(order))
     for m in ctx.job.motors:
-        i_m = float(fk.motor_contribution_a(m.full_load_a, fa.motor_multiple))
-        i_b = i_m * tree.voltage_of[m.panel_id].line_v / base_v
+        i_m = float(motor_contribution_a(m.full_load_a, fa.motor_multiple))
+        i_b = i_m * tree.voltage_of[m.panel_id].voltage_ll_v / base_v
         system = tree.upstream_transformer[m.panel_id]
         for n in order:
             same = tree.upstream_transformer[n] == system
             if same or n in ancestors[m.panel_id]:
                 at_base[pos[n]] += i_b
-    v_node = np.array([tree.voltage_of[n].line_v for n in order])
+    v_node = np.array([tree.voltage_of[n].voltage_ll_v for n in order])
     return at_base * base_v / v_node
 
 
@@ -157,11 +164,11 @@ def worst_case_figures(
             # four-wire delta (and 120/240 V panels on its A-C legs): checks/high_leg.py
             i_ln, _i_high = max_per_leg(ctx, n, v, z_total_max[tid], z_line[n], fa.c_max)
             fig.faults_a["ln"] = i_ln + motor_a.get(n, 0.0)
-            fig.x_r["ln"] = float(fk.x_r_ratio(3 * hl.K_AN * z_total_max[tid] + 2 * z_line[n]))
+            fig.x_r["ln"] = float(x_r_ratio(3 * K_AN * z_total_max[tid] + 2 * z_line[n]))
         elif v.kind == "split":
             z_src = upstream_part(SQRT3 * z_total_max[tid], zt)
-            f = sp.split_phase_fault(
-                t.rating_va, v.line_v, t.z_pct, t.x_r, "max", fa.tolerance_pct,
+            f = split_phase_fault(
+                t.rating_va, v.voltage_ll_v, t.z_pct, t.x_r, "max", fa.tolerance_pct,
                 z_src, z_line[n], z_line[n], c=fa.c_max,
             )  # fmt: skip
             fig.faults_a["ln"] = float(f.fault_ln_a) + motor_a.get(n, 0.0)
@@ -169,12 +176,12 @@ def worst_case_figures(
         elif v.kind == "wye":
             z_src = upstream_part(z_total_max[tid], zt)
             k = z0_ratio(t, fa, "max")
-            i = dk.fault_lg_delta_wye_a(
-                v.line_v / SQRT3, z_src, zt, k, z_line[n], z_ret[n], c=fa.c_max
+            i = fault_lg_delta_wye_a(
+                v.voltage_ll_v / SQRT3, z_src, zt, k, z_line[n], z_ret[n], c=fa.c_max
             )
             z_sum = 2 * (z_src + zt + z_line[n]) + k * zt + z_line[n] + 3 * z_ret[n]
             fig.faults_a["lg"] = float(i) + motor_a.get(n, 0.0)
-            fig.x_r["lg"] = float(fk.x_r_ratio(z_sum))
+            fig.x_r["lg"] = float(x_r_ratio(z_sum))
         out[n] = fig
     return out
 
@@ -229,7 +236,7 @@ class Duty:
     case: str
     x_r: float
     mf: float
-    row: dk.TestConditionRow | None
+    row: TestConditionRow | None
     family: str
 
     @property
@@ -243,7 +250,7 @@ def governing(faults_a: dict[str, float], x_r: dict[str, float]) -> tuple[float,
     if len(finite) < len(faults_a):  # an infinite figure (infinite bus at the source)
         case = next(k for k, v in faults_a.items() if not math.isfinite(v))
         return math.inf, case, x_r.get(case, math.inf)
-    g = dk.governing_duty_a(**{f"fault_{k}_a": v for k, v in finite.items()})
+    g = governing_duty_a(**{f"fault_{k}_a": v for k, v in finite.items()})
     return float(g.duty_a), str(g.case), x_r.get(str(g.case), math.inf)
 
 
@@ -258,9 +265,9 @@ def panel_duty(ctx: Context, panel, faults_a: dict, x_r: dict) -> Duty:
         )
     if panel.interrupting_a is None or not math.isfinite(sym):
         return Duty(sym, case, xr, 1.0, None, family)
-    rows = [dk.TestConditionRow.from_record(r) for r in ctx.rules.rows("device_test_power_factor")]
-    row = dk.test_condition_row(DEVICE_FAMILIES[family], panel.interrupting_a, rows)
-    mf = float(dk.asymmetry_multiplying_factor(xr, row.test_x_r, row.basis))
+    rows = [TestConditionRow.from_record(r) for r in ctx.rules.rows("device_test_power_factor")]
+    row = test_condition_row(DEVICE_FAMILIES[family], panel.interrupting_a, rows)
+    mf = float(asymmetry_multiplying_factor(xr, row.test_x_r, row.basis))
     return Duty(sym, case, xr, mf, row, family)
 
 
@@ -291,7 +298,7 @@ def record_duty(ctx: Context, n: str, d: Duty, when: str) -> None:
         "A",
         "info",
         "fault-marking",
-        f"maximum available fault current {_kA(d.sym_a)} ({CASE_WORDS[d.case]} governs), "
+        f"maximum available fault current {kiloamps(d.sym_a)} ({CASE_WORDS[d.case]} governs), "
         f"complex ohmic method (IEEE Std 141), calculated {when}",
     )
     if ctx.tree.kind[n] == "panel":
@@ -333,12 +340,12 @@ def _check_interrupting(ctx: Context, n: str, d: Duty) -> None:
             "A",
             "warn",
             "panel-interrupting",
-            f"no interrupting rating given; it must be at least {_kA(d.duty_a)} ({what})",
+            f"no interrupting rating given; it must be at least {kiloamps(d.duty_a)} ({what})",
         )
         return
     factor = (
         f"; X/R {d.x_r:.2f} above the {d.family} test X/R {d.row.test_x_r:g} "
-        f"({d.row.rule_id}): MF {d.mf:.3f} × {_kA(d.sym_a)}"
+        f"({d.row.rule_id}): MF {d.mf:.3f} × {kiloamps(d.sym_a)}"
         if d.row is not None and d.mf > 1.0
         else f"; X/R {d.x_r:.2f} within the {d.family} test X/R, MF 1"
         if d.row is not None
@@ -353,11 +360,11 @@ def _check_interrupting(ctx: Context, n: str, d: Duty) -> None:
         "A",
         "at_most",
         "panel-interrupting",
-        f"rating {_kA(panel.interrupting_a)} vs duty {_kA(d.duty_a)} ({what}{factor})"
+        f"rating {kiloamps(panel.interrupting_a)} vs duty {kiloamps(d.duty_a)} ({what}{factor})"
         + (
             ""
             if ok
-            else f" — equipment rated at least {_kA(d.duty_a)} (or a series-rated "
+            else f" — equipment rated at least {kiloamps(d.duty_a)} (or a series-rated "
             "combination tested for it) is needed (NFPA 70 110.9, 110.10)"
         ),
         tolerance=0.0,
@@ -373,7 +380,7 @@ def flag_return_paths(ctx: Context) -> None:
         for r in ctx.job.runs
         if r.ground is None
         and tree.upstream_transformer.get(r.to_id) is not None
-        and tree.voltage_of[r.to_id].neutral_v is not None
+        and tree.voltage_of[r.to_id].voltage_ln_v is not None
     ]
     if not bare:
         return

@@ -104,7 +104,7 @@ def branch_impedances(
             tol = {"max": fa.tolerance_pct, "min": fa.tolerance_pct, "nominal": 0.0}[tx_case]
             zmax, zmin = fk.transformer_fault_impedances_ohm(
                 t.rating_va,
-                t.secondary.line_v,
+                t.secondary.voltage_ll_v,
                 t.z_pct,
                 t.x_r,
                 tol,
@@ -118,7 +118,7 @@ def branch_impedances(
                 zr = run_impedance_ohm(run, temp_c, data)
                 if t.primary.phases == 1:  # loop out and back on two lines
                     zr = 2 * zr / SQRT3
-                z += complex(fk.refer_impedance_ohm(zr, parent_v.line_v, v.line_v))
+                z += complex(fk.refer_impedance_ohm(zr, parent_v.voltage_ll_v, v.voltage_ll_v))
             z += zt
         elif run is not None:
             zr = run_impedance_ohm(run, temp_c, data)
@@ -130,7 +130,7 @@ def branch_impedances(
 def source_impedance(job: Job) -> complex:
     """Source impedance, per phase (or per-phase equivalent), at the source voltage."""
     s = job.source
-    return complex(fk.source_impedance_ohm(s.voltage.line_v, s.fault_a, s.x_r))
+    return complex(fk.source_impedance_ohm(s.voltage.voltage_ll_v, s.fault_a, s.x_r))
 
 
 def impedance_rows(ctx: Context) -> dict[str, tuple[RowUse, ...]]:

@@ -32,7 +32,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from ..calc import phase_loading as pl
+from ..calc.phase_loading import CONNECTIONS, UNSPECIFIED, assign_connections, element_current_a
 from ..model import Job, Transformer, Tree, VoltageSystem
 
 PAIR_OF_PHASE = ("AB", "BC", "CA")  # delta primary winding of secondary phase a, b, c
@@ -44,9 +44,10 @@ def lines_of(v: VoltageSystem) -> int:
     return 3 if v.phases == 3 else (2 if v.kind == "split" else 1)
 
 
-def line_v(v: VoltageSystem) -> float:
+def line_share_v(v: VoltageSystem) -> float:
     """Volts per ampere of one line's share of a balanced load [V]: S = I · Σ V_line."""
-    return {3: v.line_v / math.sqrt(3.0), 2: v.line_v / 2.0, 1: v.line_v}[lines_of(v)]
+    voltage_ll_v = v.voltage_ll_v
+    return {3: voltage_ll_v / math.sqrt(3.0), 2: voltage_ll_v / 2.0, 1: voltage_ll_v}[lines_of(v)]
 
 
 @dataclass
@@ -97,8 +98,8 @@ def roll_up_phases(job: Job, tree: Tree, own: dict) -> dict[str, PhaseLoad]:
             pload.cont_a += np.asarray(o.phase_cont_a, float)
             pload.non_a += np.asarray(o.phase_non_a, float)
         else:
-            pload.cont_a[:k] += o.continuous_va / k / line_v(v)
-            pload.non_a[:k] += (o.va - o.continuous_va) / k / line_v(v)
+            pload.cont_a[:k] += o.continuous_va / k / line_share_v(v)
+            pload.non_a[:k] += (o.va - o.continuous_va) / k / line_share_v(v)
         out[n] = pload
     for p in reversed(tree.order):
         kids = tree.children(p)
@@ -121,20 +122,20 @@ def _feed_children(tree: Tree, tx: dict, p: str, kids: list[str], out: dict, pai
     for c in kids:
         elements += _elements_of_child(tree, tx.get(c), c, out[c], pairs)
     va = [ce + ne for _, ce, ne, _ in elements]
-    conn = pl.assign_connections(va, [e[3] for e in elements], pv.line_v) if elements else []
+    conn = assign_connections(va, [e[3] for e in elements], pv.voltage_ll_v) if elements else []
     for c in kids:
         fc, fn = np.zeros(3), np.zeros(3)
         for (child, ce, ne, given), used in zip(elements, conn, strict=True):
             if child != c:
                 continue
-            ph = list(pl.CONNECTIONS[used])
-            if given in pl.UNSPECIFIED or out[c].single_phase_feed:
-                out[c].connection, out[c].assigned = used, given in pl.UNSPECIFIED
+            ph = list(CONNECTIONS[used])
+            if given in UNSPECIFIED or out[c].single_phase_feed:
+                out[c].connection, out[c].assigned = used, given in UNSPECIFIED
             if tx.get(c) is None and out[c].single_phase_feed:
                 _pass_lines(out[c], ph, fc, fn)  # a single-phase panel: its own lines
                 continue
-            fc[ph] += pl.element_current_a(ce, used, pv.line_v)
-            fn[ph] += pl.element_current_a(ne, used, pv.line_v)
+            fc[ph] += element_current_a(ce, used, pv.voltage_ll_v)
+            fn[ph] += element_current_a(ne, used, pv.voltage_ll_v)
         _store(out[c], parent, fc, fn)
 
 
@@ -156,7 +157,7 @@ def _store(child: PhaseLoad, parent: PhaseLoad, fc, fn) -> None:
 def _elements_of_child(tree, t: Transformer | None, c: str, load: PhaseLoad, pairs: dict):
     """A child of a three-phase node as (child, cont VA, non VA, connection) elements."""
     v = tree.voltage_of[c]
-    lv = line_v(v)
+    lv = line_share_v(v)
     cont_va, non_va = load.cont_a * lv, load.non_a * lv
     if t is None and v.phases == 1:  # a single-phase panel on a pair of lines
         load.single_phase_feed = True
@@ -185,14 +186,14 @@ def _single_phase_parent_feed(tree, t, c: str, pv: VoltageSystem, load: PhaseLoa
     """Line currents a child draws from a single-phase (two- or three-wire) node."""
     if t is None:  # a panel at the node's voltage
         return load.cont_a.copy(), load.non_a.copy()
-    lv = line_v(tree.voltage_of[c])
+    lv = line_share_v(tree.voltage_of[c])
     cont_va, non_va = float((load.cont_a * lv).sum()), float((load.non_a * lv).sum())
     fc, fn = np.zeros(3), np.zeros(3)
-    if lines_of(pv) == 2 and abs(t.primary.line_v - pv.line_v) <= 0.5:
-        lines, volts, load.connection = [0, 1], pv.line_v, "AB"
+    if lines_of(pv) == 2 and abs(t.primary.voltage_ll_v - pv.voltage_ll_v) <= 0.5:
+        lines, volts, load.connection = [0, 1], pv.voltage_ll_v, "AB"
     else:  # a two-wire node, or a line-to-neutral primary on 120/240 V
         lines = [1] if getattr(t, "phases_connected", "") == "B" else [0]
-        volts = t.primary.line_v
+        volts = t.primary.voltage_ll_v
         load.connection = LETTERS[lines[0]]
     fc[lines] = cont_va / volts
     fn[lines] = non_va / volts
@@ -236,7 +237,7 @@ def check_transformer_phases(ctx, t: Transformer) -> None:
     ph = ctx.phases[t.id]
     if float((ph.cont_a + ph.non_a).sum()) <= 0:
         return
-    rated = float(current_from_apparent_power_a(t.rating_va, v.line_v, v.phases))
+    rated = float(current_from_apparent_power_a(t.rating_va, v.voltage_ll_v, v.phases))
     sh = ctx.sheet(t.id, "transformer", f"Transformer {t.id}")
     value, letter = phase_design_steps(ctx, t.id, sh, "xfmr-loading")
     rule = ctx.rules.rule("xfmr-loading")

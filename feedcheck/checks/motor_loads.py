@@ -48,7 +48,7 @@ def add_motor_loads(job: Job, book, own: dict) -> dict[str, tuple[list[MotorLoad
     added once per panel: where the panel's schedule already counts a larger motor's
     25 %, the schedule's stands and none is added here.
     """
-    from .loads import line_v, lines_of
+    from .loads import line_share_v, lines_of
 
     pf = book.rule("motor-running-pf").number("limit")
     factor = book.rule("motor-feeder-largest").number("limit") / 100.0
@@ -58,7 +58,7 @@ def add_motor_loads(job: Job, book, own: dict) -> dict[str, tuple[list[MotorLoad
             continue
         v = job.tree.voltage_of[pid]
         o, k = own[pid], lines_of(v)
-        even = [1.0 / k / line_v(v) if j < k else 0.0 for j in range(3)]
+        even = [1.0 / k / line_share_v(v) if j < k else 0.0 for j in range(3)]
         cont = np.array(o.phase_cont_a or [o.continuous_va * e for e in even], float)
         non = np.array(o.phase_non_a or [(o.va - o.continuous_va) * e for e in even], float)
         shares = []

@@ -13,9 +13,14 @@ from __future__ import annotations
 
 from dataclasses import dataclass, replace
 
-from ..calc import ampacity as ak
-from ..calc import protection as pk
-from ..calc import selection as sk
+from ..calc.ampacity import ampacity_chain, termination_c_for
+from ..calc.protection import (
+    conductor_protection,
+    device_min_for_load_a,
+    next_standard_rating_a,
+    standard_ratings_a,
+)
+from ..calc.selection import Selection, select_conductor
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
 from ..model import Run
 from .context import Context
@@ -41,9 +46,9 @@ def _failures(ctx: Context, run: Run, name: str, duty: RunDuty) -> list[str]:
     term = run.termination_c
     if term is None:
         basis = duty.device_a if duty.device_a is not None else duty.cont_a + duty.non_a
-        term = float(ak.termination_c_for(basis, name))
+        term = float(termination_c_for(basis, name))
     try:
-        chain = ak.ampacity_chain(
+        chain = ampacity_chain(
             name,
             run.material,
             run.insulation_c,
@@ -65,7 +70,7 @@ def _failures(ctx: Context, run: Run, name: str, duty: RunDuty) -> list[str]:
     if not chain.ok_after:
         out.append("ampacity after corrections")
     if duty.device_a is not None:
-        prot = pk.conductor_protection(
+        prot = conductor_protection(
             duty.device_a, chain.final_a, name, run.material, tables=ctx.rules.protection
         )
         if not prot.ok:
@@ -78,39 +83,44 @@ def _failures(ctx: Context, run: Run, name: str, duty: RunDuty) -> list[str]:
     return out
 
 
+def select_for_duty(ctx: Context, run: Run, duty: RunDuty, term: float | None) -> Selection:
+    """Smallest conductor of the run's material and system for its load and device."""
+    return select_conductor(
+        duty.cont_a,
+        duty.non_a,
+        run.material,
+        run.insulation_c,
+        run.ambient_c,
+        duty.cc,
+        termination_c=term,
+        sets=run.sets,
+        raceway=run.raceway,
+        device_a=duty.device_a,
+        rooftop_adder_c=duty.rooftop_c,
+        system=run.size.system,
+        data=ctx.rules.sizing,
+    )
+
+
 def next_passing(ctx: Context, run: Run, duty: RunDuty) -> str:
     """Text naming the smallest size (and device) with which every conductor check of the
     run passes, starting from the smallest size meeting load and device."""
     device = duty.device_a
     device_text = ""
     if device is not None:
-        need = float(pk.device_min_for_load_a(duty.cont_a, duty.non_a, tables=ctx.rules.protection))
+        need = float(device_min_for_load_a(duty.cont_a, duty.non_a, tables=ctx.rules.protection))
         if device < need - 1e-9:
-            largest = float(pk.standard_ratings_a(tables=ctx.rules.protection)[-1])
+            largest = float(standard_ratings_a(tables=ctx.rules.protection)[-1])
             if need > largest + 1e-9:
                 return (
                     f"no standard device carries {need:,.0f} A (largest {largest:g} A): "
                     "split the load over more feeders"
                 )
-            device = float(pk.next_standard_rating_a(need, tables=ctx.rules.protection))
+            device = float(next_standard_rating_a(need, tables=ctx.rules.protection))
             device_text = f" with a {device:g} A device"
     duty = replace(duty, device_a=device)
     try:
-        sel = sk.select_conductor(
-            duty.cont_a,
-            duty.non_a,
-            run.material,
-            run.insulation_c,
-            run.ambient_c,
-            duty.cc,
-            termination_c=run.termination_c,
-            sets=run.sets,
-            raceway=run.raceway,
-            device_a=device,
-            rooftop_adder_c=duty.rooftop_c,
-            system=run.size.system,
-            data=ctx.rules.sizing,
-        )
+        sel = select_for_duty(ctx, run, duty, run.termination_c)
     except ValueError as exc:
         return f"no size found with {run.sets} set(s): {exc}"
     order = AWG_KCMIL_ORDER if run.size.system == "awg" else METRIC_ORDER

@@ -44,7 +44,7 @@ def _need(ctx: Context, run: Run, rid: str) -> tuple[float, str]:
     device times the primary-to-secondary voltage ratio, the shares read from their rule
     rows; (C)(2)(1)(a): for 10 ft also at least the device the conductors end in."""
     t = next(x for x in ctx.job.transformers if x.id == run.from_id)
-    ratio = t.primary.line_v / t.secondary.line_v
+    ratio = t.primary.voltage_ll_v / t.secondary.voltage_ll_v
     share_pct = ctx.rules.rule(f"{rid}-ratio").number("limit")
     divisor = 100.0 / share_pct
     by_ratio = t.primary_device_a * ratio / divisor

@@ -88,7 +88,7 @@ def feed_diagram(ctx: Context) -> Diagram:
                 id=n,
                 kind=tree.kind[n],
                 voltage=v.text,
-                voltage_v=v.line_v,
+                voltage_v=v.voltage_ll_v,
                 phases=v.phases,
                 parent=tree.parent_node[n],
                 via_run=run.id if run else None,

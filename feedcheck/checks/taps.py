@@ -40,7 +40,7 @@ def run_device(job: Job, run: Run) -> tuple[float | None, str]:
         return run.device_a, "run"
     if run.tap_rule:
         return None, "tap"
-    tx = {t.id: t for t in job.transformers}
+    tx = {transformer.id: transformer for transformer in job.transformers}
     if run.to_id in tx:
         return tx[run.to_id].primary_device_a, "transformer primary"
     if run.from_id in tx and tx[run.from_id].secondary_device_a is not None:
@@ -53,7 +53,7 @@ def bus_device(job: Job, node: str) -> tuple[float | None, str]:
     device protecting the run into it (:func:`run_device`); a tap ending at a main-lugs
     panel has no device of its own, so the feeder device it is tapped from is returned.
     Returns (rating, description)."""
-    panel = next((p for p in job.panels if p.id == node), None)
+    panel = next((candidate for candidate in job.panels if candidate.id == node), None)
     if panel is not None and panel.main_device_a is not None:
         return panel.main_device_a, f"main device of {node}"
     run = job.tree.parent_run.get(node)
@@ -75,7 +75,7 @@ def feeder_device(job: Job, run: Run) -> tuple[float | None, str]:
     if job.tree.kind.get(run.from_id) != "panel":
         return None, f"{run.from_id} is not a panel"
     up_run = job.tree.parent_run.get(run.from_id)
-    panel = next(p for p in job.panels if p.id == run.from_id)
+    panel = next(candidate for candidate in job.panels if candidate.id == run.from_id)
     if panel.main_device_a is None and up_run is not None and up_run.tap_rule:
         return None, f"{run.from_id} is itself fed by a tap ({up_run.id})"
     return bus_device(job, run.from_id)
@@ -91,14 +91,9 @@ def check_unprotected_run(ctx: Context, run: Run, ampacity_a: float) -> None:
     )
     from_transformer = ctx.tree.kind.get(run.from_id) == "transformer"
     if run.tap_rule in FEEDER_TAPS and from_transformer:
-        ctx.add(
-            run.id,
-            "overcurrent protection",
-            None,
-            None,
-            "A",
-            "fail",
-            "feeder-unprotected",
+        _unprotected(
+            ctx,
+            run,
             f"tap_rule = '{run.tap_rule}' is a feeder tap rule (240.21(B)); conductors from "
             f"the transformer secondary are under 240.21(C): declare 'transformer secondary "
             f"{run.tap_rule}' or give the run's device",
@@ -110,14 +105,9 @@ def check_unprotected_run(ctx: Context, run: Run, ampacity_a: float) -> None:
         check_secondary_arrangement(ctx, run, ampacity_a)
         return
     if not run.tap_rule:
-        ctx.add(
-            run.id,
-            "overcurrent protection",
-            None,
-            None,
-            "A",
-            "fail",
-            "feeder-unprotected",
+        _unprotected(
+            ctx,
+            run,
             f"no device protects {run.id} ({run.from_id} → {run.to_id}): give the run's "
             "device, or declare the tap rule it is built under (tap_rule = '10 ft' or "
             "'25 ft') so its conditions are checked",
@@ -178,7 +168,7 @@ def _check_tap_end_device(ctx: Context, run: Run, ampacity_a: float, rid: str) -
     """The tap ends in one device rated at most the tap's ampacity (240.21(B)(1)(1)b:
     ampacity not less than the device at the termination; (B)(2)(2): a single device
     limiting the load to the tap's ampacity)."""
-    panel = next((p for p in ctx.job.panels if p.id == run.to_id), None)
+    panel = next((candidate for candidate in ctx.job.panels if candidate.id == run.to_id), None)
     end = panel.main_device_a if panel is not None else None
     check = "tap ends in one device"
     if end is None:
@@ -216,7 +206,7 @@ def tap_needs_a(ctx: Context, run: Run) -> float:
         rid = FEEDER_TAPS[run.tap_rule]
         feeder_a, _ = feeder_device(ctx.job, run)
         share = ctx.rules.rule(f"{rid}-ratio").number("limit") / 100.0
-        panel = next((p for p in ctx.job.panels if p.id == run.to_id), None)
+        panel = next((candidate for candidate in ctx.job.panels if candidate.id == run.to_id), None)
         end = panel.main_device_a if panel is not None and panel.main_device_a else 0.0
         return max((feeder_a or 0.0) * share, end)
     if run.tap_rule in SECONDARY_TAPS or (
@@ -229,3 +219,8 @@ def tap_needs_a(ctx: Context, run: Run) -> float:
 
         return secondary_need_a(ctx, run) or 0.0
     return 0.0
+
+
+def _unprotected(ctx: Context, run: Run, note: str) -> None:
+    """A failing "overcurrent protection" finding: nothing protects the run under 240.21."""
+    ctx.add(run.id, "overcurrent protection", None, None, "A", "fail", "feeder-unprotected", note)

@@ -11,20 +11,22 @@ import click
 
 from .. import CAUTION
 from .params import (
+    CONTEXT,
     CURRENT,
     LENGTH,
     MATERIAL,
     PERCENT,
     RACEWAY,
     SIZE,
-    TEMPERATURE,
     TIME,
     QuantityType,
+    current_carrying_option,
+    sets_option,
+    temperature_option,
 )
 
 LOAD = QuantityType("current", must_be_positive=False)  # a load may be 0 A; checked below
 
-CONTEXT = {"help_option_names": ["-h", "--help"], "max_content_width": 100}
 
 AMPACITY_HELP = f"""Allowable ampacity of one conductor run, shown as a chain of factors.
 
@@ -59,6 +61,10 @@ Example:
 """
 
 
+INSULATION_HELP = "Insulation temperature column (60, 75 or 90 degC)."
+TERMINATION_HELP = "Termination temperature column (60, 75 or 90 degC)."
+
+
 def _column(value: float, option: str) -> float:
     if value not in (60.0, 75.0, 90.0):
         raise click.BadParameter(
@@ -70,42 +76,16 @@ def _column(value: float, option: str) -> float:
 @click.command("ampacity", help=AMPACITY_HELP, context_settings=CONTEXT, epilog=CAUTION)
 @click.option("--size", "size", type=SIZE, required=True, help="Conductor size, e.g. '3/0 AWG'.")
 @click.option("--material", type=MATERIAL, default="cu", show_default=True)
-@click.option(
-    "--insulation",
-    type=TEMPERATURE,
-    default="75degC",
-    show_default=True,
-    help="Insulation temperature column (60, 75 or 90 degC).",
+@temperature_option("--insulation", "75degC", INSULATION_HELP)
+@temperature_option("--ambient", "30degC")
+@current_carrying_option("Current-carrying conductors in the raceway or cable.")
+@temperature_option(
+    "--termination", "75degC", "Termination temperature column (60, 75 or 90 degC)."
 )
-@click.option("--ambient", type=TEMPERATURE, default="30degC", show_default=True)
-@click.option(
-    "--current-carrying",
-    type=click.IntRange(min=1),
-    default=3,
-    show_default=True,
-    help="Current-carrying conductors in the raceway or cable.",
-)
-@click.option(
-    "--termination",
-    type=TEMPERATURE,
-    default="75degC",
-    show_default=True,
-    help="Termination temperature column (60, 75 or 90 degC).",
-)
-@click.option(
-    "--sets",
-    type=click.IntRange(min=1),
-    default=1,
-    show_default=True,
-    help="Conductors in parallel per phase.",
-)
+@sets_option()
 @click.option("--free-air", is_flag=True, help="Single conductors in free air (Table 310.17).")
-@click.option(
-    "--rooftop-adder",
-    type=TEMPERATURE,
-    default="0degC",
-    show_default=True,
-    help="Temperature added to the ambient for a sunlit rooftop raceway.",
+@temperature_option(
+    "--rooftop-adder", "0degC", "Temperature added to the ambient for a sunlit rooftop raceway."
 )
 @click.option("--continuous", type=CURRENT, default=None, help="Continuous load, e.g. 120A.")
 @click.option("--noncontinuous", type=CURRENT, default=None, help="Noncontinuous load.")
@@ -128,7 +108,7 @@ def ampacity_command(
     ins = _column(insulation, "--insulation")
     term = _column(termination, "--termination")
     try:
-        c = ampacity_chain(
+        chain = ampacity_chain(
             size.name,
             material.lower(),
             ins,
@@ -145,26 +125,26 @@ def ampacity_command(
     except ValueError as exc:
         raise click.UsageError(str(exc)) from None
     click.echo(
-        f"Ampacity of {c.sets} × {c.size} {c.material}"
+        f"Ampacity of {chain.sets} × {chain.size} {chain.material}"
         + (
             " (interpolated: metric size, not a code table value)"
-            if c.method == "interpolated"
+            if chain.method == "interpolated"
             else ""
         )
     )
-    for label, value, unit, rid in c.steps():
+    for label, value, unit, rid in chain.steps():
         shown = f"{value:.3f}" if unit == "" else f"{value:.1f} {unit}"
         click.echo(f"  {label:<48} {shown:>12}   [{rid}]")
-    click.echo(f"  governed by: {c.governed_by}")
+    click.echo(f"  governed by: {chain.governed_by}")
     if continuous is not None or noncontinuous is not None:
         click.echo(
             "  needed before adjustment (125 % cont. + noncont.): "
-            f"{c.required_before_a:.1f} A -> "
-            f"{'ok' if c.ok_before else 'NOT MET'}   [continuous-125]"
+            f"{chain.required_before_a:.1f} A -> "
+            f"{'ok' if chain.ok_before else 'NOT MET'}   [continuous-125]"
         )
         click.echo(
-            f"  needed after correction (load): {c.required_after_a:.1f} A"
-            f" -> {'ok' if c.ok_after else 'NOT MET'}   [load-after-derating]"
+            f"  needed after correction (load): {chain.required_after_a:.1f} A"
+            f" -> {'ok' if chain.ok_after else 'NOT MET'}   [load-after-derating]"
         )
     click.echo(CAUTION, err=True)
 
@@ -181,16 +161,13 @@ def ampacity_command(
     "--noncontinuous", type=LOAD, default="0A", show_default=True, help="Noncontinuous load."
 )
 @click.option("--material", type=MATERIAL, default="cu", show_default=True)
-@click.option("--insulation", type=TEMPERATURE, default="75degC", show_default=True)
-@click.option("--ambient", type=TEMPERATURE, default="30degC", show_default=True)
-@click.option("--current-carrying", type=click.IntRange(min=1), default=3, show_default=True)
-@click.option(
-    "--termination",
-    type=TEMPERATURE,
-    default=None,
-    help="Termination column; default by circuit rating and size (110.14(C)).",
+@temperature_option("--insulation", "75degC", INSULATION_HELP)
+@temperature_option("--ambient", "30degC")
+@current_carrying_option()
+@temperature_option(
+    "--termination", None, "Termination column; default by circuit rating and size (110.14(C))."
 )
-@click.option("--sets", type=click.IntRange(min=1), default=1, show_default=True)
+@sets_option()
 @click.option("--raceway", type=RACEWAY, default="steel", show_default=True)
 @click.option("--device", type=CURRENT, default=None, help="Overcurrent device rating.")
 @click.option("--length", type=LENGTH, default=None, help="One-way run length, e.g. '120 ft'.")
@@ -241,28 +218,12 @@ def size_command(
 ):
     from ..calc.selection import select_conductor
     from ..rulebook import current_rulebook
-    from ..units import UnitParseError, parse_quantity
 
-    ins = _column(insulation, "--insulation")
-    term = None if termination is None else _column(termination, "--termination")
-    if continuous < 0 or noncontinuous < 0:
-        raise click.UsageError("--continuous and --noncontinuous must be 0 A or more")
-    if continuous + noncontinuous <= 0:
-        raise click.UsageError("give a load: --continuous and/or --noncontinuous above 0 A")
-    if (fault is None) != (clearing is None):
-        raise click.UsageError("--fault and --clearing go together")
-    volts = None
-    if voltage is not None:
-        try:
-            volts = parse_quantity(voltage, "voltage")
-        except UnitParseError as exc:
-            raise click.BadParameter(
-                f"got {exc.value!r}; expected {exc.expected}", param_hint="--voltage"
-            ) from None
-    if (length is None) != (volts is None):
-        raise click.UsageError("--length and --voltage go together (voltage-drop check)")
+    ins, term, volts = _checked_size_inputs(
+        insulation, termination, continuous, noncontinuous, fault, clearing, voltage, length
+    )
     try:
-        s = select_conductor(
+        selection = select_conductor(
             continuous,
             noncontinuous,
             material.lower(),
@@ -286,23 +247,55 @@ def size_command(
         )
     except ValueError as exc:
         raise click.UsageError(str(exc)) from None
+    _echo_selection(selection, material.lower(), limit, fault, clearing)
+    click.echo(CAUTION, err=True)
+
+
+def _checked_size_inputs(
+    insulation, termination, continuous, noncontinuous, fault, clearing, voltage, length
+):
+    """The insulation and termination columns and the voltage in volts, once the options
+    that go together have been checked (UsageError / BadParameter otherwise)."""
+    from ..units import UnitParseError, parse_quantity
+
+    ins = _column(insulation, "--insulation")
+    term = None if termination is None else _column(termination, "--termination")
+    if continuous < 0 or noncontinuous < 0:
+        raise click.UsageError("--continuous and --noncontinuous must be 0 A or more")
+    if continuous + noncontinuous <= 0:
+        raise click.UsageError("give a load: --continuous and/or --noncontinuous above 0 A")
+    if (fault is None) != (clearing is None):
+        raise click.UsageError("--fault and --clearing go together")
+    volts = None
+    if voltage is not None:
+        try:
+            volts = parse_quantity(voltage, "voltage")
+        except UnitParseError as exc:
+            raise click.BadParameter(
+                f"got {exc.value!r}; expected {exc.expected}", param_hint="--voltage"
+            ) from None
+    if (length is None) != (volts is None):
+        raise click.UsageError("--length and --voltage go together (voltage-drop check)")
+    return ins, term, volts
+
+
+def _echo_selection(selection, material: str, limit, fault, clearing) -> None:
     click.echo(
-        f"Selected: {s.sets} × {s.size} {material.lower()} on a {s.device_a:g} A device"
-        f" (terminations {s.termination_c:g} °C)"
+        f"Selected: {selection.sets} × {selection.size} {material} on a "
+        f"{selection.device_a:g} A device (terminations {selection.termination_c:g} °C)"
     )
-    click.echo(f"Governing criterion: {s.governing}")
-    for crit, name in s.minimum_by_criterion:
-        click.echo(f"  smallest meeting {crit:<13} {name}")
+    click.echo(f"Governing criterion: {selection.governing}")
+    for criterion, name in selection.minimum_by_criterion:
+        click.echo(f"  smallest meeting {criterion:<13} {name}")
     click.echo(
-        f"  allowable ampacity {s.chain.final_a:.1f} A; largest device it permits "
-        f"{s.max_device_a:g} A"
+        f"  allowable ampacity {selection.chain.final_a:.1f} A; largest device it permits "
+        f"{selection.max_device_a:g} A"
     )
-    if s.vdrop_pct is not None:
-        click.echo(f"  voltage drop {s.vdrop_pct:.2f} % (limit {limit:g} %)")
-    if s.withstand_a is not None:
+    if selection.vdrop_pct is not None:
+        click.echo(f"  voltage drop {selection.vdrop_pct:.2f} % (limit {limit:g} %)")
+    if selection.withstand_a is not None:
         click.echo(
-            f"  withstand {s.withstand_a / 1000:.1f} kA for {clearing:g} s "
+            f"  withstand {selection.withstand_a / 1000:.1f} kA for {clearing:g} s "
             f"(available {fault / 1000:.1f} kA)"
         )
-    click.echo("  rules: " + ", ".join(dict.fromkeys(s.rule_ids)))
-    click.echo(CAUTION, err=True)
+    click.echo("  rules: " + ", ".join(dict.fromkeys(selection.rule_ids)))

@@ -10,11 +10,13 @@ the command.
 
 from __future__ import annotations
 
+import inspect
 import math
 
 import click
 
 from .. import CAUTION
+from ..calc.constants import M_PER_FT
 from .params import (
     APPARENT_POWER,
     CURRENT,
@@ -26,10 +28,10 @@ from .params import (
     VOLTAGE_SYSTEM,
     QuantityType,
     merge_spellings,
-    old_spelling,
+    renamed_option,
+    sets_option,
 )
 
-FT = 0.3048  # m per international foot (exact)
 SOURCE_CURRENT = QuantityType("current", allow_inf=True)
 TOLERANCE = QuantityType("percent", must_be_positive=False)
 DEVICE_TYPES = (
@@ -73,27 +75,23 @@ def _fail(msg: str) -> None:
     click.get_current_context().exit(2)
 
 
-def _rule(rule_id: str) -> float:
-    from ..tables import rule
-
-    return float(rule("fault_assumptions", rule_id)["value"])
-
-
-def _pickup(device_type: str, device_a: float) -> tuple[float, float, str]:
-    from ..tables import load_table
-
-    t = load_table("instantaneous_pickup").data
-    rows = t[
-        (t["device_type"] == device_type)
-        & (t["rating_from_a"] <= device_a)
-        & (device_a <= t["rating_to_a"])
-    ]
-    if rows.empty:
+def _pickup(book, device_type: str, device_a: float) -> tuple[float, float, str]:
+    """Typical instantaneous pick-up of the device type at its rating: (multiple,
+    tolerance %, rule id) from tables/instantaneous_pickup.csv."""
+    row = next(
+        (
+            row
+            for row in book.rows("instantaneous_pickup")
+            if row["device_type"] == device_type
+            and row["rating_from_a"] <= device_a <= row["rating_to_a"]
+        ),
+        None,
+    )
+    if row is None:
         _fail(
             f"no row of tables/instantaneous_pickup.csv for --device-type {device_type} "
             f"at {device_a:g} A; give --pickup-multiple"
         )
-    row = rows.iloc[0]
     return float(row["multiple"]), float(row["tolerance_pct"]), str(row["rule_id"])
 
 
@@ -176,12 +174,13 @@ def one_transformer_job(
     )
 
 
+ONE_TRANSFORMER_JOB = tuple(inspect.signature(one_transformer_job).parameters)
+
+
 def compute(*args, **kwargs):
     """Every figure the command prints, as a dict (no printing), read from the results of
     the same checks as `feedcheck check` on :func:`one_transformer_job` (same arguments)."""
-    import inspect
-
-    from ..calc import fault as F
+    from ..calc.fault import motor_contribution_a
     from ..calc.transformer import rated_current_a
     from ..checks import check_job
     from ..rulebook import current_rulebook
@@ -193,7 +192,7 @@ def compute(*args, **kwargs):
     book = current_rulebook()
     job = one_transformer_job(*args, **kwargs)
     res = check_job(job, rules=book)
-    nodes = {n.id: n.values for n in res.nodes}
+    nodes = {node.id: node.values for node in res.nodes}
     split = secondary.kind in ("split", "single")
     c_max = 1.0 if factors == "none" else book.rule(FACTOR_ROWS[factors]).number()
     c_min = 1.0 if factors == "none" else book.fault.c_min
@@ -202,18 +201,19 @@ def compute(*args, **kwargs):
         c_min=c_min,
         split=split,
         phases=1 if split else 3,
-        rated_a=rated_current_a(kva, secondary.line_v, 1 if split else 3),
+        rated_a=rated_current_a(kva, secondary.voltage_ll_v, 1 if split else 3),
         ptp_warn_pct=book.fault.ptp_disagree_pct,
         findings=res.findings,
     )
     if length_m is not None:
         cd = book.conductors
         from ..calc.conductor import ac_impedance_ohm_per_m
+        from ..calc.point_to_point import conductor_constant_a_ft_per_v
 
         t_max = book.fault.cond_temp_max_c
         r20, x20 = ac_impedance_ohm_per_m(size.name, material, raceway, conductor_c=t_max, data=cd)
         out["run"] = dict(
-            c_const=F.conductor_constant_a_ft_per_v(r20, x20),
+            c_const=conductor_constant_a_ft_per_v(r20, x20),
             t_max=t_max,
             t_min=max(book.fault.cond_temp_min_c, 75.0),
         )
@@ -221,60 +221,50 @@ def compute(*args, **kwargs):
     for name, nid in (("secondary terminals", "T"), ("end of run", "P")):
         if nid not in nodes:
             continue
-        v = nodes[nid]
-        motor = v.get("fault_motor_a", 0.0)
+        values = nodes[nid]
+        motor = values.get("fault_motor_a", 0.0)
         row = dict(
             name=name,
-            max_a=v["fault_max_a"] - motor,
-            min_a=v["fault_min_a"],
-            x_r=v["x_r"],
-            peak_a=v["peak_a"],
-            asym_a=v["asym_rms_a"],
-            ptp_a=v["fault_ptp_a"],
-            ptp_diff_pct=v["fault_ptp_diff_pct"],
-            with_motor_a=v["fault_max_a"],
+            max_a=values["fault_max_a"] - motor,
+            min_a=values["fault_min_a"],
+            x_r=values["x_r"],
+            peak_a=values["peak_a"],
+            asym_a=values["asym_rms_a"],
+            ptp_a=values["fault_ptp_a"],
+            ptp_diff_pct=values["fault_ptp_diff_pct"],
+            with_motor_a=values["fault_max_a"],
             motor_a=motor,
-            duty_a=v["fault_duty_a"],
-            duty_case=v["fault_duty_case"],
+            duty_a=values["fault_duty_a"],
+            duty_case=values["fault_duty_case"],
         )
         for key, mine in (
             ("fault_ln_max_a", "ln_max_a"),
             ("fault_lg_min_a", "lg_min_a"),
             ("fault_lg_max_a", "lg_max_a"),
         ):
-            if key in v:
-                row[mine] = v[key]
+            if key in values:
+                row[mine] = values[key]
         rows.append(row)
     if motor_flc:
         out["motor_multiple"] = book.fault.motor_multiple
         if length_m is None:  # no panel to hang the motors on: added at full magnitude
-            rows[0]["motor_a"] = float(F.motor_contribution_a(motor_flc, book.fault.motor_multiple))
+            rows[0]["motor_a"] = float(motor_contribution_a(motor_flc, book.fault.motor_multiple))
             rows[0]["with_motor_a"] = rows[0]["max_a"] + rows[0]["motor_a"]
     out["rows"] = rows
     return out
 
 
 @click.command("fault", help=HELP, context_settings={"help_option_names": ["-h", "--help"]})
-@click.option(
-    "--rating",
-    "rating_va",
-    type=APPARENT_POWER,
-    default=None,
-    help="Transformer rating, e.g. 75kVA.  [required]",
+@renamed_option(
+    "--rating", "rating_va", "--kva", "kva_old", APPARENT_POWER, "Transformer rating, e.g. 75kVA."
 )
-@old_spelling("--kva", "kva_old", "--rating", APPARENT_POWER)
 @click.option("--primary", type=VOLTAGE_SYSTEM, required=True, help='e.g. "480 V delta".')
 @click.option(
     "--secondary", type=VOLTAGE_SYSTEM, required=True, help='e.g. "208Y/120 V" or "120/240 V".'
 )
-@click.option(
-    "--impedance",
-    "z_pct",
-    type=IMPEDANCE_PCT,
-    default=None,
-    help="Nameplate impedance, e.g. 5.1%.  [required]",
+@renamed_option(
+    "--impedance", "z_pct", "--z", "z_old", IMPEDANCE_PCT, "Nameplate impedance, e.g. 5.1%."
 )
-@old_spelling("--z", "z_old", "--impedance", IMPEDANCE_PCT)
 @click.option(
     "--x-r",
     "x_r",
@@ -315,13 +305,7 @@ def compute(*args, **kwargs):
 @click.option("--size", type=SIZE, default=None, help='Phase conductor size, e.g. "4/0 AWG".')
 @click.option("--material", type=MATERIAL, default="cu", show_default=True)
 @click.option("--raceway", type=RACEWAY, default="steel", show_default=True)
-@click.option(
-    "--sets",
-    type=click.IntRange(min=1),
-    default=1,
-    show_default=True,
-    help="Parallel sets (one grounding conductor in each raceway).",
-)
+@sets_option("Parallel sets (one grounding conductor in each raceway).")
 @click.option(
     "--ground",
     type=SIZE,
@@ -355,112 +339,106 @@ def compute(*args, **kwargs):
     default=None,
     help="Actual instantaneous setting as a multiple of --device (overrides the table).",
 )
-def fault_command(
-    rating_va,
-    kva_old,
-    primary,
-    secondary,
-    z_pct,
-    z_old,
-    x_r,
-    source_fault,
-    source_x_r,
-    tolerance_pct,
-    factors,
-    length_m,
-    size,
-    material,
-    raceway,
-    sets,
-    ground,
-    motor_flc,
-    device_a,
-    device_type,
-    pickup_multiple,
-):
-    kva = merge_spellings("--rating", rating_va, "--kva", kva_old, required=True)
-    z_pct = merge_spellings("--impedance", z_pct, "--z", z_old, required=True)
-    run_opts = [length_m is not None, size is not None]
-    if any(run_opts) and not all(run_opts):
-        raise click.UsageError("give both --length and --size for a run, or neither")
-    if ground is not None and length_m is None:
-        raise click.UsageError("--ground needs a run (--length and --size)")
-    if primary.phases == 1 and secondary.phases == 3:
-        raise click.UsageError("a single-phase --primary cannot feed a three-phase --secondary")
+def fault_command(**options):
+    """(click passes every option by its name; see the decorators above)"""
+    options["kva"] = merge_spellings(
+        "--rating", options.pop("rating_va"), "--kva", options.pop("kva_old"), required=True
+    )
+    options["z"] = merge_spellings(
+        "--impedance", options.pop("z_pct"), "--z", options.pop("z_old"), required=True
+    )
+    _check_combinations(options)
     from ..errors import InputError
-    from ..rulebook import current_rulebook
 
     try:
-        x_src = "given" if x_r is not None else "typical, tables/transformer_xr.csv"
-        x_r = x_r if x_r is not None else current_rulebook().transformer_xr.typical(kva)[0]
-        tol_src = "given" if tolerance_pct is not None else "rule fault-z-tolerance"
-        tolerance_pct = tolerance_pct if tolerance_pct is not None else _rule("fault-z-tolerance")
-        inst_a = None
-        if device_a is not None:
-            if pickup_multiple is not None:
-                pickup = (pickup_multiple, 0.0, "given setting")
-            else:
-                pickup = _pickup(device_type, device_a)
-            inst_a = device_a * pickup[0] * (1 + pickup[1] / 100.0)
-        res = compute(
-            kva,
-            primary,
-            secondary,
-            z_pct,
-            x_r,
-            source_fault,
-            source_x_r,
-            tolerance_pct,
-            factors,
-            length_m,
-            size,
-            material.lower(),
-            raceway.lower(),
-            sets,
-            ground,
-            motor_flc,
-            inst_a,
-            device_a,
-        )
+        job, given, pickup = _job_arguments(options)
+        res = compute(**job)
     except (ValueError, InputError) as exc:
         _fail(str(exc))
-    out = click.echo
-    src = (
-        "infinite" if math.isinf(source_fault) else f"{source_fault / 1e3:g} kA, X/R {source_x_r:g}"
-    )
-    out(
-        f"Transformer {kva / 1e3:g} kVA {primary.text} → {secondary.text}, %Z {z_pct:g} "
-        f"(tolerance ±{tolerance_pct:g} %, {tol_src}), X/R {x_r:g} ({x_src}); source {src}"
-    )
-    out(
-        f"Rated secondary current {res['rated_a']:.1f} A; c_max = {res['c_max']:g}, "
-        f"c_min = {res['c_min']:g}"
-    )
-    if "run" in res:
-        run = res["run"]
-        out(
-            f"Run: {length_m:.2f} m ({length_m / FT:.0f} ft) of {size.name} {material} in "
-            f"{raceway}, {sets} set(s)"
-            + (f", grounding conductor {ground.name}" if ground else "")
-            + f"; R at {run['t_max']:g} °C (max) and "
-            f"{run['t_min']:g} °C (min); C = {run['c_const']:.0f} A·ft/V"
-        )
-    out("")
-    _print_rows(res, motor_flc)
-    if device_a is not None:
-        _print_trip(res, device_a, pickup)
-        if ground is None and length_m is not None:
+    _print_inputs(job, given, res)
+    click.echo("")
+    _print_rows(res, job["motor_flc"])
+    if job["device_a"] is not None:
+        _print_trip(res, job["device_a"], pickup)
+        if job["ground"] is None and job["length_m"] is not None:
             click.echo(
                 "  (no --ground: the return is taken as a conductor of the phase size; "
                 "a smaller grounding conductor or a raceway return gives less current)"
             )
-    out("")
-    out(
+    click.echo("")
+    click.echo(
         "Ohmic: I = c·V/|Z| with complex Z (source + transformer + run); line-to-ground by "
         "symmetrical components, delta–wye Z0 = transformer Z0 only."
     )
-    out("Point-to-point: magnitudes add (no X/R), so it reads at or below the ohmic figure.")
-    out(CAUTION)
+    click.echo("Point-to-point: magnitudes add (no X/R), so it reads at or below the ohmic figure.")
+    click.echo(CAUTION)
+
+
+def _check_combinations(options) -> None:
+    """Options that only make sense together (UsageError otherwise)."""
+    has_length, has_size = options["length_m"] is not None, options["size"] is not None
+    if has_length != has_size:
+        raise click.UsageError("give both --length and --size for a run, or neither")
+    if options["ground"] is not None and not has_length:
+        raise click.UsageError("--ground needs a run (--length and --size)")
+    if options["primary"].phases == 1 and options["secondary"].phases == 3:
+        raise click.UsageError("a single-phase --primary cannot feed a three-phase --secondary")
+
+
+def _job_arguments(options) -> tuple[dict, dict, tuple | None]:
+    """The arguments of :func:`one_transformer_job` with the defaults filled from the rule
+    book, where X/R and the tolerance came from, and the pick-up used (None without
+    --device)."""
+    from ..rulebook import current_rulebook
+
+    book = current_rulebook()
+    job = {name: options.get(name) for name in ONE_TRANSFORMER_JOB}
+    given = {
+        "x_r": "given" if job["x_r"] is not None else "typical, tables/transformer_xr.csv",
+        "tolerance": "given" if job["tolerance_pct"] is not None else "rule fault-z-tolerance",
+    }
+    if job["x_r"] is None:
+        job["x_r"] = book.transformer_xr.typical(job["kva"])[0]
+    if job["tolerance_pct"] is None:
+        job["tolerance_pct"] = book.rule("fault-z-tolerance").number()
+    pickup = None
+    device_a = job["device_a"]
+    if device_a is not None:
+        if options["pickup_multiple"] is not None:
+            pickup = (options["pickup_multiple"], 0.0, "given setting")
+        else:
+            pickup = _pickup(book, options["device_type"], device_a)
+        job["instantaneous_a"] = device_a * pickup[0] * (1 + pickup[1] / 100.0)
+    job["material"], job["raceway"] = job["material"].lower(), job["raceway"].lower()
+    return job, given, pickup
+
+
+def _print_inputs(job, given, res) -> None:
+    """The transformer, the source and the run as the figures were computed."""
+    source_fault = job["source_fault"]
+    source = (
+        "infinite"
+        if math.isinf(source_fault)
+        else f"{source_fault / 1e3:g} kA, X/R {job['source_x_r']:g}"
+    )
+    click.echo(
+        f"Transformer {job['kva'] / 1e3:g} kVA {job['primary'].text} → "
+        f"{job['secondary'].text}, %Z {job['z']:g} (tolerance ±{job['tolerance_pct']:g} %, "
+        f"{given['tolerance']}), X/R {job['x_r']:g} ({given['x_r']}); source {source}"
+    )
+    click.echo(
+        f"Rated secondary current {res['rated_a']:.1f} A; c_max = {res['c_max']:g}, "
+        f"c_min = {res['c_min']:g}"
+    )
+    if "run" in res:
+        run, length_m, ground = res["run"], job["length_m"], job["ground"]
+        click.echo(
+            f"Run: {length_m:.2f} m ({length_m / M_PER_FT:.0f} ft) of {job['size'].name} "
+            f"{job['material']} in {job['raceway']}, {job['sets']} set(s)"
+            + (f", grounding conductor {ground.name}" if ground else "")
+            + f"; R at {run['t_max']:g} °C (max) and "
+            f"{run['t_min']:g} °C (min); C = {run['c_const']:.0f} A·ft/V"
+        )
 
 
 def _print_rows(res, motor_flc) -> None:
@@ -502,9 +480,9 @@ def _print_trip(res, device_a, pickup) -> None:
     """The instantaneous-trip line from the check's own finding at the end of the run."""
     mult, tol, rid = pickup
     hit = [
-        f
-        for f in res["findings"]
-        if f.subject == "P" and f.check == "ground fault trips instantaneously"
+        finding
+        for finding in res["findings"]
+        if finding.subject == "P" and finding.check == "ground fault trips instantaneously"
     ]
     if not hit:
         click.echo(
@@ -512,12 +490,14 @@ def _print_trip(res, device_a, pickup) -> None:
             "a run (ungrounded or delta secondary, or no run given)"
         )
         return
-    f = hit[0]
-    verdict = "trips instantaneously" if f.status == "ok" else "does NOT reach instantaneous pickup"
-    click.echo(
-        f"\nDevice {device_a:g} A, pickup {mult:g} × (+{tol:g} %) = {f.limit:,.0f} A "
-        f"({rid}): minimum line-to-ground {f.value:,.0f} A → {verdict} "
-        f"(ratio {f.value / f.limit:.2f})"
+    finding = hit[0]
+    verdict = (
+        "trips instantaneously" if finding.status == "ok" else "does NOT reach instantaneous pickup"
     )
-    if f.status != "ok" and "; " in f.note:
-        click.echo("  " + f.note.split("; ", 1)[1])
+    click.echo(
+        f"\nDevice {device_a:g} A, pickup {mult:g} × (+{tol:g} %) = {finding.limit:,.0f} A "
+        f"({rid}): minimum line-to-ground {finding.value:,.0f} A → {verdict} "
+        f"(ratio {finding.value / finding.limit:.2f})"
+    )
+    if finding.status != "ok" and "; " in finding.note:
+        click.echo("  " + finding.note.split("; ", 1)[1])

@@ -10,9 +10,7 @@ from __future__ import annotations
 import click
 
 from .. import CAUTION
-from .params import APPARENT_POWER, IMPEDANCE_PCT, X_R, QuantityType
-
-CONTEXT = {"help_option_names": ["-h", "--help"], "max_content_width": 100}
+from .params import APPARENT_POWER, CONTEXT, IMPEDANCE_PCT, X_R, QuantityType
 
 
 @click.command("rated-current", context_settings=CONTEXT, epilog=CAUTION)

@@ -9,9 +9,18 @@ from __future__ import annotations
 import click
 
 from .. import CAUTION
-from .params import CURRENT, LENGTH, MATERIAL, PERCENT, RACEWAY, SIZE, TEMPERATURE, VOLTAGE_SYSTEM
-
-FT = 0.3048  # m per international foot (exact)
+from ..calc.constants import M_PER_FT
+from .params import (
+    CURRENT,
+    LENGTH,
+    MATERIAL,
+    PERCENT,
+    RACEWAY,
+    SIZE,
+    TEMPERATURE,
+    VOLTAGE_SYSTEM,
+    sets_option,
+)
 
 CIRCUIT_TEXT = {
     "3ph": "three-phase, line-to-line drop",
@@ -56,22 +65,22 @@ def _nominal_v(system, circuit: str) -> float:
             raise click.UsageError(
                 f"--circuit 3ph needs a three-phase --system; got {system.text!r}"
             )
-        return system.line_v
+        return system.voltage_ll_v
     if circuit == "1ph3w":
         if system.kind != "split":
             raise click.UsageError(
                 "--circuit 1ph3w needs a single-phase three-wire --system "
                 f"such as '120/240 V'; got {system.text!r}"
             )
-        return system.line_v
+        return system.voltage_ll_v
     if circuit == "ln4w":
-        if system.neutral_v is None:
+        if system.voltage_ln_v is None:
             raise click.UsageError(
                 "--circuit ln4w needs a system with a neutral such as "
                 f"'208Y/120 V' or '120/240 V'; got {system.text!r}"
             )
-        return system.neutral_v
-    return system.line_v
+        return system.voltage_ln_v
+    return system.voltage_ll_v
 
 
 def _fail(msg: str) -> None:
@@ -106,13 +115,7 @@ def _fail(msg: str) -> None:
     show_default=True,
     help="Load power factor; positive lagging, negative leading.",
 )
-@click.option(
-    "--sets",
-    type=click.IntRange(min=1),
-    default=1,
-    show_default=True,
-    help="Conductors in parallel per phase.",
-)
+@sets_option()
 @click.option(
     "--circuit",
     type=click.Choice(list(CIRCUIT_TEXT)),
@@ -141,20 +144,14 @@ def _fail(msg: str) -> None:
     show_default=True,
     help="Conductor temperature for R.",
 )
-def voltage_drop_command(
-    current_a,
-    length_m,
-    size,
-    material,
-    raceway,
-    system,
-    pf,
-    sets,
-    circuit,
-    limit_pct,
-    want_max_length,
-    conductor_c,
-):
+def voltage_drop_command(**options):
+    """(click passes every option by its name; see the decorators above)"""
+    drop = _drop_figures(options)
+    _echo_drop(options, drop)
+
+
+def _drop_figures(options) -> dict:
+    """The conductor's R and X, both drops and the longest run, for the options given."""
     from ..calc import vdrop
 
     try:
@@ -162,18 +159,18 @@ def voltage_drop_command(
         from ..rulebook import current_rulebook
     except ImportError as exc:  # pragma: no cover - only while the tree is incomplete
         _fail(f"conductor impedance data are not available ({exc})")
-    circuit = circuit or vdrop.circuit_of_system(system.kind, system.phases)
+    system, pf, sets = options["system"], options["pf"], options["sets"]
+    current_a, length_m = options["current_a"], options["length_m"]
+    circuit = options["circuit"] or vdrop.circuit_of_system(system.kind, system.phases)
     nominal_v = _nominal_v(system, circuit)
-    material = material.lower()
-    raceway = raceway.lower()
     try:
         r_m, x_m = (
-            float(v)
-            for v in ac_impedance_ohm_per_m(
-                size.name,
-                material,
-                raceway,
-                conductor_c=conductor_c,
+            float(value)
+            for value in ac_impedance_ohm_per_m(
+                options["size"].name,
+                options["material"].lower(),
+                options["raceway"].lower(),
+                conductor_c=options["conductor_c"],
                 data=current_rulebook().conductors,
             )
         )
@@ -183,49 +180,67 @@ def voltage_drop_command(
         exact_v = vdrop.voltage_drop_exact_circuit_v(
             nominal_v, current_a, r_m, x_m, length_m, pf, circuit, sets
         )
-        limit_v = limit_pct / 100.0 * nominal_v
+        limit_v = options["limit_pct"] / 100.0 * nominal_v
         longest_m = (
             vdrop.max_length_m(current_a, r_m, x_m, pf, limit_v, circuit, sets)
-            if want_max_length
+            if options["want_max_length"]
             else None
         )
     except ValueError as exc:
         _fail(str(exc))
-    approx_pct = vdrop.voltage_drop_pct(approx_v, nominal_v)
-    exact_pct = vdrop.voltage_drop_pct(exact_v, nominal_v)
-    k = vdrop.circuit_factor(circuit)
+    return dict(
+        circuit=circuit,
+        nominal_v=nominal_v,
+        r_m=r_m,
+        x_m=x_m,
+        approx_v=approx_v,
+        exact_v=exact_v,
+        approx_pct=vdrop.voltage_drop_pct(approx_v, nominal_v),
+        exact_pct=vdrop.voltage_drop_pct(exact_v, nominal_v),
+        factor=vdrop.circuit_factor(circuit),
+        limit_v=limit_v,
+        longest_m=longest_m,
+    )
+
+
+def _echo_drop(options, drop) -> None:
+    current_a, length_m, pf = options["current_a"], options["length_m"], options["pf"]
+    limit_pct, sets = options["limit_pct"], options["sets"]
+    nominal_v, r_m, x_m = drop["nominal_v"], drop["r_m"], drop["x_m"]
+    approx_pct, exact_pct = drop["approx_pct"], drop["exact_pct"]
     cos = abs(pf)
     sin = (1.0 - pf * pf) ** 0.5 * (-1.0 if pf < 0 else 1.0)
     lead = "leading" if pf < 0 else "lagging"
-
     out = click.echo
     out(
-        f"Run: {size.name} {material} in {raceway}, {sets} set(s), {length_m:.2f} m "
-        f"({length_m / FT:.1f} ft) one way"
+        f"Run: {options['size'].name} {options['material'].lower()} in "
+        f"{options['raceway'].lower()}, {sets} set(s), {length_m:.2f} m "
+        f"({length_m / M_PER_FT:.1f} ft) one way"
     )
     out(
-        f"Load: {current_a:g} A at pf {cos:.3f} {lead}; system {system.text}, circuit {circuit} "
-        f"({CIRCUIT_TEXT[circuit]}); nominal {nominal_v:g} V"
+        f"Load: {current_a:g} A at pf {cos:.3f} {lead}; system {options['system'].text}, "
+        f"circuit {drop['circuit']} ({CIRCUIT_TEXT[drop['circuit']]}); nominal {nominal_v:g} V"
     )
     out(
-        f"Conductor at {conductor_c:g} °C: R = {r_m * 1e3:.4f} Ω/km, X = {x_m * 1e3:.4f} Ω/km "
-        f"({r_m * 304.8:.4f} / {x_m * 304.8:.4f} Ω per 1000 ft)"
+        f"Conductor at {options['conductor_c']:g} °C: R = {r_m * 1e3:.4f} Ω/km, "
+        f"X = {x_m * 1e3:.4f} Ω/km ({r_m * 304.8:.4f} / {x_m * 304.8:.4f} Ω per 1000 ft)"
     )
     out("")
     out("Approximate:  VD = k × I × (R cos θ + X sin θ) × L / sets")
     out(
-        f"                 = {k:.4f} × {current_a:g} A × ({r_m * 1e3:.4f} × {cos:.4f} + "
-        f"{x_m * 1e3:.4f} × {sin:.4f}) Ω/km × {length_m / 1e3:.5f} km / {sets}"
+        f"                 = {drop['factor']:.4f} × {current_a:g} A × ({r_m * 1e3:.4f} × "
+        f"{cos:.4f} + {x_m * 1e3:.4f} × {sin:.4f}) Ω/km × {length_m / 1e3:.5f} km / {sets}"
     )
-    out(f"                 = {approx_v:.3f} V  ({approx_pct:.2f} % of {nominal_v:g} V)")
-    out(f"Exact phasor: VD = {exact_v:.3f} V  ({exact_pct:.2f} % of {nominal_v:g} V)")
+    out(f"                 = {drop['approx_v']:.3f} V  ({approx_pct:.2f} % of {nominal_v:g} V)")
+    out(f"Exact phasor: VD = {drop['exact_v']:.3f} V  ({exact_pct:.2f} % of {nominal_v:g} V)")
     verdict = "within" if exact_pct <= limit_pct and approx_pct <= limit_pct else "exceeds"
-    out(f"Limit {limit_pct:g} % ({limit_v:.2f} V): {verdict}")
+    out(f"Limit {limit_pct:g} % ({drop['limit_v']:.2f} V): {verdict}")
+    longest_m = drop["longest_m"]
     if longest_m is not None:
         shown = (
             "no limit (drop does not grow with length)"
             if longest_m == float("inf")
-            else f"{longest_m:.1f} m ({longest_m / FT:.0f} ft)"
+            else f"{longest_m:.1f} m ({longest_m / M_PER_FT:.0f} ft)"
         )
         out(f"Longest run within {limit_pct:g} % (approximate form): {shown}")
     out("")

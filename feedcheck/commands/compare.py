@@ -8,8 +8,7 @@ import click
 
 from .. import CAUTION
 from .errors import handle_input_errors
-
-CONTEXT = {"help_option_names": ["-h", "--help"], "max_content_width": 100}
+from .params import CONTEXT
 
 
 def _revision(path: str, label: str):

@@ -19,6 +19,18 @@ from ..errors import InputError
 INTERRUPTED = 130  # 128 + SIGINT, as shells report an interrupted program
 
 
+def echo_problems(problems) -> None:
+    """Each input problem on its own line of stderr, then how many and that nothing was
+    written."""
+    for problem in problems:
+        click.echo(f"error: {problem}", err=True)
+    count = len(problems)
+    click.echo(
+        f"{count} problem{'s' if count != 1 else ''} in the input; nothing was written.",
+        err=True,
+    )
+
+
 def handle_input_errors(fn):
     """Map InputError to exit 2, an interrupt to exit 130 and unexpected exceptions to
     exit 3, without tracebacks."""
@@ -28,12 +40,7 @@ def handle_input_errors(fn):
         try:
             return fn(*args, **kwargs)
         except InputError as exc:
-            for p in exc.problems:
-                click.echo(f"error: {p}", err=True)
-            n = len(exc.problems)
-            click.echo(
-                f"{n} problem{'s' if n != 1 else ''} in the input; nothing was written.", err=True
-            )
+            echo_problems(exc.problems)
             sys.exit(2)
         except KeyboardInterrupt:
             click.echo("interrupted; nothing was written.", err=True)

@@ -7,6 +7,9 @@ import click
 from ..model import MATERIALS, RACEWAYS
 from ..units import UnitParseError, parse_quantity, parse_voltage_system
 
+# the help options and width of every command
+CONTEXT = {"help_option_names": ["-h", "--help"], "max_content_width": 100}
+
 
 class QuantityType(click.ParamType):
     """A value with a unit, converted to the SI float the kernels take.
@@ -127,6 +130,47 @@ SIZE = SizeType()
 VOLTAGE_SYSTEM = VoltageSystemType()
 MATERIAL = click.Choice(list(MATERIALS), case_sensitive=False)
 RACEWAY = click.Choice(list(RACEWAYS), case_sensitive=False)
+
+
+SETS_HELP = "Conductors in parallel per phase."
+
+
+def sets_option(help_text: str | None = SETS_HELP):
+    """``--sets``: conductors in parallel per phase, a whole number from 1 (default 1)."""
+    return click.option(
+        "--sets", type=click.IntRange(min=1), default=1, show_default=True, help=help_text
+    )
+
+
+def current_carrying_option(help_text: str | None = None):
+    """``--current-carrying``: current-carrying conductors together (default 3)."""
+    return click.option(
+        "--current-carrying",
+        type=click.IntRange(min=1),
+        default=3,
+        show_default=True,
+        help=help_text,
+    )
+
+
+def temperature_option(name: str, default: str | None, help_text: str | None = None):
+    """A temperature option (``--insulation``, ``--ambient`` …) shown with its default."""
+    return click.option(
+        name, type=TEMPERATURE, default=default, show_default=default is not None, help=help_text
+    )
+
+
+def renamed_option(new: str, dest: str, old: str, old_dest: str, type_, help_text: str):
+    """A required option ``new`` with its hidden former spelling ``old`` (both optional
+    to click; the command merges them with :func:`merge_spellings`, required=True)."""
+
+    def decorate(command):
+        command = old_spelling(old, old_dest, new, type_)(command)
+        return click.option(new, dest, type=type_, default=None, help=f"{help_text}  [required]")(
+            command
+        )
+
+    return decorate
 
 
 def old_spelling(old: str, dest: str, new: str, type_, **kwargs):

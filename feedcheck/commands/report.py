@@ -9,14 +9,12 @@ import click
 
 from .. import CAUTION
 from .errors import handle_input_errors
+from .params import CONTEXT
 
 
 def job_inputs(job) -> list:
     """The files a job was read from: the job file and its panels' schedules."""
-    return [job.path, *(p.schedule for p in job.panels if getattr(p, "schedule", None))]
-
-
-CONTEXT = {"help_option_names": ["-h", "--help"], "max_content_width": 100}
+    return [job.path, *(panel.schedule for panel in job.panels if getattr(panel, "schedule", None))]
 
 
 @click.command("report", context_settings=CONTEXT, epilog=CAUTION)
@@ -63,10 +61,10 @@ def report_command(job_file, out):
         sys.exit(2)
     check_output(target, job_inputs(job))
     info = write_report(job, results, target)
-    c = results.counts()
+    counts = results.counts()
     click.echo(
-        f"wrote {target} ({info.pages} pages; {c['fail']} fail, {c['warn']} warn, "
-        f"{c['ok']} ok, {c['info']} info)",
+        f"wrote {target} ({info.pages} pages; {counts['fail']} fail, {counts['warn']} warn, "
+        f"{counts['ok']} ok, {counts['info']} info)",
         err=True,
     )
     sys.exit(results.exit_code)
@@ -140,19 +138,27 @@ def rerun_command(report_pdf):
     for line in table_changes(ex.results, rerun):
         click.echo(line)
     n, diffs = compare_results(ex.results, rerun)
-    if not diffs:
-        click.echo(f"all {n} figures match")
-    else:
-        click.echo(f"{len(diffs)} of {n} figures differ (element: figure: report, rerun):")
-        for d in diffs:
-            click.echo(f"  {d}")
-    if not page_diffs:
-        click.echo(f"all {n_pages} pages read as the re-run prints them")
-    else:
-        click.echo(f"{len(page_diffs)} of {n_pages} pages differ from the re-rendered report:")
-        for d in page_diffs:
-            click.echo(f"  {d}")
+    _echo_differences(
+        diffs,
+        f"all {n} figures match",
+        f"{len(diffs)} of {n} figures differ (element: figure: report, rerun):",
+    )
+    _echo_differences(
+        page_diffs,
+        f"all {n_pages} pages read as the re-run prints them",
+        f"{len(page_diffs)} of {n_pages} pages differ from the re-rendered report:",
+    )
     sys.exit(1 if diffs or page_diffs else 0)
+
+
+def _echo_differences(differences: list, none_text: str, heading: str) -> None:
+    """``none_text`` when nothing differs, else ``heading`` and one indented line each."""
+    if not differences:
+        click.echo(none_text)
+        return
+    click.echo(heading)
+    for difference in differences:
+        click.echo(f"  {difference}")
 
 
 def _named_in_report(exc, tmp: str, report_pdf: str):

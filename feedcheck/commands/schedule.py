@@ -15,7 +15,7 @@ import click
 
 from .. import CAUTION
 from ..model import OCCUPANCIES
-from .params import CURRENT, VOLTAGE_SYSTEM, QuantityType
+from .params import CONTEXT, CURRENT, VOLTAGE_SYSTEM, QuantityType
 
 DROP = QuantityType("percent", must_be_positive=False)
 
@@ -64,28 +64,30 @@ def _expand(paths: tuple[str, ...], out: str | None = None) -> list[Path]:
     if out:
         own = {Path(out).resolve(), panels_csv_path(out).resolve()}
     out_files: list[Path] = []
-    for p in map(Path, paths):
-        if p.is_dir():
-            for q in sorted(p.iterdir()):
+    for given in map(Path, paths):
+        if given.is_dir():
+            for entry in sorted(given.iterdir()):
                 if (
-                    q.suffix.lower() not in (".csv", ".xlsx")
-                    or not q.is_file()
-                    or q.name.startswith((".", "~$"))
+                    entry.suffix.lower() not in (".csv", ".xlsx")
+                    or not entry.is_file()
+                    or entry.name.startswith((".", "~$"))
                 ):
                     continue
-                if q.resolve() in own or is_results_file(q):
-                    click.echo(f"skipped {q}: a results file feedcheck schedule wrote", err=True)
+                if entry.resolve() in own or is_results_file(entry):
+                    click.echo(
+                        f"skipped {entry}: a results file feedcheck schedule wrote", err=True
+                    )
                     continue
-                out_files.append(q)
+                out_files.append(entry)
         else:
-            out_files.append(p)
+            out_files.append(given)
     return out_files
 
 
 @click.command(
     "schedule",
     help=HELP,
-    context_settings={"help_option_names": ["-h", "--help"], "max_content_width": 100},
+    context_settings=CONTEXT,
 )
 @click.argument("inputs", nargs=-1, type=click.Path(exists=True), metavar="FILE_OR_FOLDER...")
 @click.option(
@@ -167,18 +169,11 @@ def schedule_command(
     keep_going,
 ):
     from ..errors import InputError
+    from .errors import echo_problems
 
-    if system is not None and job_file:
-        raise click.UsageError("give either --system or --job, not both")
-    if job_file and (systems_file or columns or layout != "auto"):
-        raise click.UsageError("--systems, --columns and --layout are for files without --job")
+    _check_options(system, job_file, systems_file, columns, layout)
     column_map = _column_map(columns)
-    if out and Path(out).suffix.lower() not in (".csv", ".xlsx", ".json"):
-        raise click.UsageError(f"--out: got {out!r}; expected a .csv, .xlsx or .json file")
-    if job_file and (bus_a or main_a or feeder_drop or occupancy):
-        raise click.UsageError(
-            "--bus, --main, --feeder-drop and --occupancy come from the job with --job"
-        )
+    _check_out_and_panel_options(out, job_file, (bus_a, main_a, feeder_drop, occupancy))
     occupancy = occupancy or "other"
     files = _expand(inputs, out)
     if not files and not job_file:
@@ -192,7 +187,7 @@ def schedule_command(
     try:
         if job_file:
             results = _from_job(job_file, files)
-            done = [str(r.path) for r in results]
+            done = [str(result.path) for result in results]
         else:
             opts = {
                 "system": system,
@@ -205,25 +200,12 @@ def schedule_command(
                 files, opts, (feeder_drop, occupancy, bus_a, main_a), done, unreadable
             )
         if out and (results or not unreadable):
-            from ..io_atomic import check_output
-            from ..render.schedules import write_results
-
-            check_output(out, [*files, *done, *([job_file] if job_file else [])])
-            try:
-                write_results(results, out, CAUTION)
-            except ValueError as exc:  # more circuits than an XLSX sheet holds
-                _report_partial(done, files, str(exc))
-                sys.exit(2)
+            _write_results(out, results, files, done, job_file)
     except KeyboardInterrupt:
         _report_partial(done, files, "interrupted")
         sys.exit(130)
     except InputError as exc:
-        for p in exc.problems:
-            click.echo(f"error: {p}", err=True)
-        n = len(exc.problems)
-        click.echo(
-            f"{n} problem{'s' if n != 1 else ''} in the input; nothing was written.", err=True
-        )
+        echo_problems(exc.problems)
         if done:
             click.echo(f"checked without problems: {', '.join(done)}", err=True)
         sys.exit(2)
@@ -236,17 +218,55 @@ def schedule_command(
     if out and (results or not unreadable):
         click.echo(f"wrote {out}", err=True)
     if unreadable:
-        for exc in unreadable:
-            for p in exc.problems:
-                click.echo(f"error: {p}", err=True)
-        names = list(dict.fromkeys(p.file for exc in unreadable for p in exc.problems))
-        click.echo(
-            f"{len(names)} file(s) could not be read (listed above; not in the results): "
-            f"{', '.join(names)}",
-            err=True,
-        )
+        _report_unreadable(unreadable)
         sys.exit(2)
-    sys.exit(1 if any(r.exit_code for r in results) else 0)
+    sys.exit(1 if any(result.exit_code for result in results) else 0)
+
+
+def _check_options(system, job_file, systems_file, columns, layout) -> None:
+    """Options for files that the job gives instead (UsageError)."""
+    if system is not None and job_file:
+        raise click.UsageError("give either --system or --job, not both")
+    if job_file and (systems_file or columns or layout != "auto"):
+        raise click.UsageError("--systems, --columns and --layout are for files without --job")
+
+
+def _check_out_and_panel_options(out, job_file, panel_options) -> None:
+    """The --out file kind, and panel options that the job gives instead (UsageError)."""
+    if out and Path(out).suffix.lower() not in (".csv", ".xlsx", ".json"):
+        raise click.UsageError(f"--out: got {out!r}; expected a .csv, .xlsx or .json file")
+    if job_file and any(panel_options):
+        raise click.UsageError(
+            "--bus, --main, --feeder-drop and --occupancy come from the job with --job"
+        )
+
+
+def _write_results(out, results, files, done, job_file) -> None:
+    """The --out file, checked again against every input read (exit 2 when the results
+    do not fit the format)."""
+    from ..io_atomic import check_output
+    from ..render.schedules import write_results
+
+    check_output(out, [*files, *done, *([job_file] if job_file else [])])
+    try:
+        write_results(results, out, CAUTION)
+    except ValueError as exc:  # more circuits than an XLSX sheet holds
+        _report_partial(done, files, str(exc))
+        sys.exit(2)
+
+
+def _report_unreadable(unreadable) -> None:
+    """With --keep-going: every problem of the files that could not be read, and their
+    names."""
+    for exc in unreadable:
+        for problem in exc.problems:
+            click.echo(f"error: {problem}", err=True)
+    names = list(dict.fromkeys(problem.file for exc in unreadable for problem in exc.problems))
+    click.echo(
+        f"{len(names)} file(s) could not be read (listed above; not in the results): "
+        f"{', '.join(names)}",
+        err=True,
+    )
 
 
 def _column_map(columns: str | None) -> dict[str, str]:
@@ -275,7 +295,7 @@ def _systems(path: str | None) -> dict[str, str]:
             [Problem(path, "", str(exc), "a UTF-8 text file of NAME = SYSTEM lines")]
         ) from None
     out, problems = {}, []
-    for i, line in enumerate(text.splitlines(), 1):
+    for line_no, line in enumerate(text.splitlines(), 1):
         body = line.split("#", 1)[0].strip()
         if not body:
             continue
@@ -286,7 +306,13 @@ def _systems(path: str | None) -> dict[str, str]:
             parse_voltage_system(sys_text.strip())
         except Exception:  # any unreadable line is reported with its number
             problems.append(
-                Problem(path, f"line {i}", line.strip(), 'a line such as "LP1.csv = 208Y/120 V"', i)
+                Problem(
+                    path,
+                    f"line {line_no}",
+                    line.strip(),
+                    'a line such as "LP1.csv = 208Y/120 V"',
+                    line_no,
+                )
             )
             continue
         out[Path(name.strip()).name] = sys_text.strip()
@@ -305,14 +331,14 @@ def _report_partial(done, files, why: str) -> None:
     )
 
 
-def _file_system(path: Path, s, opts):
+def _file_system(path: Path, schedule, opts):
     """The system of one file: --systems line, else its own ``system`` column, else
     --system; the two in-file sources must agree when both are given."""
     from ..errors import InputError, Problem
     from ..units import parse_voltage_system
 
     mapped = opts["systems"].get(path.name)
-    text = mapped or s.system or opts["system"]
+    text = mapped or schedule.system or opts["system"]
     if text is None:
         raise InputError(
             [
@@ -326,10 +352,10 @@ def _file_system(path: Path, s, opts):
             ]
         )
     try:
-        own = parse_voltage_system(s.system) if s.system else None
+        own = parse_voltage_system(schedule.system) if schedule.system else None
         system = text if not isinstance(text, str) else parse_voltage_system(text)
     except Exception as exc:  # the units parser's error names the text
-        where = "column 'system'" if text == s.system else "system"
+        where = "column 'system'" if text == schedule.system else "system"
         raise InputError([Problem(str(path), where, str(text), str(exc))]) from None
     if own is not None and own != system:
         raise InputError(
@@ -337,7 +363,7 @@ def _file_system(path: Path, s, opts):
                 Problem(
                     str(path),
                     "column 'system'",
-                    s.system,
+                    schedule.system,
                     f"the same system as --systems or --system gives ({text})",
                 )
             ]
@@ -356,27 +382,27 @@ def _from_files(files, opts, panel_opts, done, unreadable):
     def one(path, stage=lambda _w: None):
         try:
             stage("reading")
-            s = read_schedule(path, columns=opts["columns"], layout=opts["layout"])
-            system = _file_system(path, s, opts)
+            schedule = read_schedule(path, columns=opts["columns"], layout=opts["layout"])
+            system = _file_system(path, schedule, opts)
             stage("checking")
-            results.append(check_schedule(s, system, feeder_drop, occupancy, bus_a, main_a))
+            results.append(check_schedule(schedule, system, feeder_drop, occupancy, bus_a, main_a))
             done.append(str(path))
         except InputError as exc:
             bad.append(exc)
 
-    big = [f for f in files if _size(f) >= LARGE_FILE_BYTES]
+    big = [file_path for file_path in files if _size(file_path) >= LARGE_FILE_BYTES]
     if len(files) >= PROGRESS_FROM:
         with click.progressbar(files, label="checking schedules", file=sys.stderr) as bar:
-            for f in bar:
-                one(f)
+            for file_path in bar:
+                one(file_path)
     elif big and _on_terminal():
-        for f in files:
-            _one_with_stages(f, one)
+        for file_path in files:
+            _one_with_stages(file_path, one)
     else:
-        for f in files:
-            one(f)
+        for file_path in files:
+            one(file_path)
     if bad and not opts["keep_going"]:
-        raise InputError([p for exc in bad for p in exc.problems])
+        raise InputError([problem for exc in bad for problem in exc.problems])
     unreadable.extend(bad)
     return results
 
@@ -395,7 +421,10 @@ def _size(path: Path) -> int:
 def _one_with_stages(path: Path, one) -> None:
     """A large file's stages (reading, checking) as a progress bar on the terminal."""
     with click.progressbar(
-        length=2, label=f"{path.name}", file=sys.stderr, item_show_func=lambda w: w
+        length=2,
+        label=f"{path.name}",
+        file=sys.stderr,
+        item_show_func=lambda stage_name: stage_name,
     ) as bar:
         state = {"n": 0}
 
@@ -419,16 +448,23 @@ def _from_job(job_file, files):
     from .clock import calc_date
 
     job, res = load_and_check(job_file, calc_date())
-    by_path = {p.schedule.resolve(): p.id for p in job.panels if p.schedule is not None}
+    by_path = {
+        panel.schedule.resolve(): panel.id for panel in job.panels if panel.schedule is not None
+    }
     if not files:
         wanted = list(by_path.values())
     else:
         wanted, problems = [], []
-        for f in files:
-            pid = by_path.get(f.resolve())
+        for file_path in files:
+            pid = by_path.get(file_path.resolve())
             if pid is None:
                 problems.append(
-                    Problem(str(f), "", f.name, f"a schedule named by a panel of {job_file}")
+                    Problem(
+                        str(file_path),
+                        "",
+                        file_path.name,
+                        f"a schedule named by a panel of {job_file}",
+                    )
                 )
             else:
                 wanted.append(pid)

@@ -158,7 +158,7 @@ def check_voltages(
     for i, t in enumerate(transformers, start=1):
         have = tree.voltage_of[tree.parent_node[t.id]]
         if t.primary and (
-            abs(have.line_v - t.primary.line_v) > 0.5 or have.phases < t.primary.phases
+            abs(have.voltage_ll_v - t.primary.voltage_ll_v) > 0.5 or have.phases < t.primary.phases
         ):
             r.add(
                 f"transformer[{i}].primary",

@@ -104,9 +104,9 @@ def normalise_header(text: object) -> tuple[str, str]:
     >>> normalise_header("  CURRENT_carrying  ")
     ('current carrying', '')
     """
-    s = "" if text is None else str(text)
-    m = _UNIT_RE.match(s.strip())
-    name, unit = (m.group("name"), m.group("unit")) if m else (s, "")
+    raw = "" if text is None else str(text)
+    match = _UNIT_RE.match(raw.strip())
+    name, unit = (match.group("name"), match.group("unit")) if match else (raw, "")
     name = " ".join(re.sub(r"[_\-.#:?]+", " ", name).lower().split())
     return name, unit.strip().lower().replace("°", "")
 
@@ -132,7 +132,7 @@ def parse_column_map(text: str, where: str) -> dict[str, str]:
     {'cont': 'continuous', 'ins': 'insulation', 'notes': 'ignore'}
     """
     out: dict[str, str] = {}
-    for part in filter(None, (p.strip() for p in re.split(r"[,;]", text))):
+    for part in filter(None, (piece.strip() for piece in re.split(r"[,;]", text))):
         head, eq, col = part.partition("=")
         key = _LOOKUP.get(normalise_header(col)[0]) if col.strip().lower() != IGNORE else IGNORE
         if not eq or not head.strip() or key is None:
@@ -147,7 +147,7 @@ def parse_column_map(text: str, where: str) -> dict[str, str]:
 
 def accepted_spellings(key: str) -> str:
     """Every header spelling of a column, for an error message (never cut)."""
-    return f"{key!r} (" + ", ".join(f"'{a}'" for a in ALIASES[key]) + ")"
+    return f"{key!r} (" + ", ".join(f"'{spelling}'" for spelling in ALIASES[key]) + ")"
 
 
 def match_header(
@@ -165,8 +165,32 @@ def match_header(
     → column or ``ignore``, :func:`parse_column_map`) comes first; every other header not
     understood is named in ``notices`` (never dropped in silence).
     """
-    header = [str(x) for x in df.iloc[0].tolist()]
-    user_map = user_map or {}
+    header = [str(cell) for cell in df.iloc[0].tolist()]
+    found, blank = _match_columns(header, has_values, problems, notices, user_map or {})
+    missing = [key for key in REQUIRED if key not in found]
+    if missing:
+        problems.add(
+            "row 1",
+            ", ".join(header),
+            "header columns "
+            + "; ".join(accepted_spellings(key) for key in missing)
+            + " (case, spaces and a unit in brackets do not matter)"
+            + _header_too_low_hint(df, missing),
+        )
+    else:
+        for pos in blank:
+            problems.add(
+                f"row 1, column {pos + 1}",
+                "",
+                "a name for every column with values (blank or merged header cell)",
+            )
+    _check_header_units(found, problems)
+    return found
+
+
+def _match_columns(header, has_values, problems, notices, user_map):
+    """canonical name -> (position, text, unit) of the header cells understood, and the
+    positions of blank header cells above values."""
     found: dict[str, tuple[int, str, str]] = {}
     blank: list[int] = []
     for pos, text in enumerate(header):
@@ -199,32 +223,23 @@ def match_header(
             )
             continue
         found[key] = (pos, text, unit)
-    missing = [k for k in REQUIRED if k not in found]
-    if missing:
-        hint = ""
-        for r in range(1, min(len(df), 6)):
-            names = {_LOOKUP.get(normalise_header(x)[0]) for x in df.iloc[r].tolist()}
-            if all(k in names for k in missing):
-                hint = (
-                    f" (they are in row {r + 1}: the header must be row 1 — remove the "
-                    "title rows above it, or unmerge them)"
-                )
-                break
-        problems.add(
-            "row 1",
-            ", ".join(header),
-            "header columns "
-            + "; ".join(accepted_spellings(k) for k in missing)
-            + " (case, spaces and a unit in brackets do not matter)"
-            + hint,
-        )
-    else:
-        for pos in blank:
-            problems.add(
-                f"row 1, column {pos + 1}",
-                "",
-                "a name for every column with values (blank or merged header cell)",
+    return found, blank
+
+
+def _header_too_low_hint(df, missing) -> str:
+    """Where the missing columns are, when the header row sits below title rows."""
+    for row in range(1, min(len(df), 6)):
+        names = {_LOOKUP.get(normalise_header(cell)[0]) for cell in df.iloc[row].tolist()}
+        if all(key in names for key in missing):
+            return (
+                f" (they are in row {row + 1}: the header must be row 1 — remove the "
+                "title rows above it, or unmerge them)"
             )
+    return ""
+
+
+def _check_header_units(found, problems: ProblemList) -> None:
+    """The unit each quantity column's header gives must be one the reader knows."""
     for key in ("load", "length", "breaker", "insulation", "ambient", "termination"):
         if key not in found:
             continue
@@ -244,4 +259,3 @@ def match_header(
                 text,
                 "the load's unit in the header: 'load [VA]', '[kVA]', '[W]', '[kW]' or '[A]'",
             )
-    return found

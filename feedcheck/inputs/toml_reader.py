@@ -185,7 +185,7 @@ class Reader:
             self.add(f"{path}.{key}", table[key], exc.expected)
             return None
         lo, hi = VOLTAGE_RANGE_V
-        if not lo <= vs.line_v <= hi:
+        if not lo <= vs.voltage_ll_v <= hi:
             self.add(
                 f"{path}.{key}",
                 table[key],

@@ -218,7 +218,6 @@ def test_trip_check_and_fix_helpers_are_consistent():
         (lambda: F.cumulative_impedance_ohm([0, -1], [0j, 0j]), "parent_index"),
         (lambda: F.cumulative_impedance_ohm([-1, 0], [0j]), "one value per node"),
         (lambda: F.transformer_fault_impedances_ohm(75e3, 208.0, 5.1, 3.5, 120.0), "tolerance"),
-        (lambda: F.ptp_factor(1.0, 1e3, 1e4, 1, 208.0, "2ph"), "kind"),
         (lambda: G.fault_current_lg_a(120.0, -1 + 0j, ZT), "z1_ohm"),
         (lambda: G.instantaneous_trip_check(1e3, 0.0, 10.0), "device_a"),
     ],

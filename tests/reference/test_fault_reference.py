@@ -12,6 +12,7 @@ import pytest
 
 from feedcheck.calc import fault as F
 from feedcheck.calc import fault_lg as G
+from feedcheck.calc import point_to_point as PTP
 from feedcheck.calc.transformer import rated_current_a, transformer_impedance_ohm
 
 
@@ -47,12 +48,12 @@ def test_point_to_point_published_example():
     f = 0.174, M = 0.852, 39,425 A. C is passed directly (the publisher's own data)."""
     rated = rated_current_a(300e3, 208.0)
     assert rated == pytest.approx(833.0, abs=0.5)  # published, rounded to 1 A
-    start = F.ptp_secondary_current_a(rated, 2.0, tolerance_pct=10.0)
+    start = PTP.ptp_secondary_current_a(rated, 2.0, tolerance_pct=10.0)
     assert start == pytest.approx(46_273.0, rel=5e-4)  # published used 833 A × 55.55
-    f = F.ptp_factor(20 * 0.3048, 46_273.0, 22_185.0, 2, 208.0, "3ph")
+    f = PTP.ptp_factor(20 * 0.3048, 46_273.0, 22_185.0, 2, 208.0, "3ph")
     assert f == pytest.approx(0.174, abs=5e-4)  # published to 3 decimals
     assert 1.0 / (1.0 + f) == pytest.approx(0.852, abs=5e-4)
-    end = F.ptp_chain_a(46_273.0, [20 * 0.3048], [22_185.0], [2], 208.0)
+    end = PTP.ptp_chain_a(46_273.0, [20 * 0.3048], [22_185.0], [2], 208.0)
     assert end[0] == pytest.approx(39_425.0, rel=1e-3)  # published from rounded M
 
 
@@ -60,7 +61,7 @@ def test_conductor_constant_from_table9():
     """C = 1000/|Z per 1000 ft| (conductor constant of the point-to-point method, Cooper
     Bussmann, Electrical Plan Review, 2005, Part II) with NFPA 70-2023 Ch. 9 Table 9,
     250 kcmil Cu in steel: R 0.054, XL 0.052 Ω/kft."""
-    c = F.conductor_constant_a_ft_per_v(0.054 / 304.8, 0.052 / 304.8)
+    c = PTP.conductor_constant_a_ft_per_v(0.054 / 304.8, 0.052 / 304.8)
     assert c == pytest.approx(1000.0 / math.hypot(0.054, 0.052), rel=1e-12)
     assert c == pytest.approx(13_339, abs=1)
 
@@ -160,8 +161,8 @@ def test_ptp_line_to_neutral_matches_ohmic_for_resistive_parts():
     z_per_m = 0.6e-3 * (1 + 1j)
     length = 20.0
     i0 = 120.0 / abs(zln)
-    c = F.conductor_constant_a_ft_per_v(z_per_m.real, z_per_m.imag)
-    ptp = F.ptp_chain_a(i0, [length], [c], [1], 120.0, kind="1ph-ln")[0]
+    c = PTP.conductor_constant_a_ft_per_v(z_per_m.real, z_per_m.imag)
+    ptp = PTP.ptp_chain_a(i0, [length], [c], [1], 120.0, kind="1ph-ln")[0]
     ohmic = F.fault_current_1ph_a(120.0, zln + 2 * length * z_per_m)
     assert ptp == pytest.approx(ohmic, rel=1e-12)
     assert np.isfinite(ptp)

@@ -180,23 +180,33 @@ def _drawings_story(results, display, heading) -> list:
         story += [d, Spacer(1, 4)]
     story += [CondPageBreak(330), heading("Voltage profile and fault current", "charts", 0, "h1")]
     profiles = voltage_profile_charts(results, display, width=sx.WIDTH)
-    story.append(sx.p("Voltage along each path from the source to a panel", "h2"))
-    if not profiles:
-        story.append(sx.p("No voltage figures in these results.", "body"))
-    for i, chart in enumerate(profiles):
-        if i:
-            title = f"Voltage along each path (continued, part {i + 1} of {len(profiles)})"
-            story += [CondPageBreak(chart.height + 30), sx.p(title, "h2")]
-        story.append(chart)
+    story += _charts_story(
+        profiles,
+        "Voltage along each path from the source to a panel",
+        "Voltage along each path",
+        "No voltage figures in these results.",
+    )
     charts = fault_current_charts(results, width=sx.WIDTH)
     story.append(CondPageBreak(200))
-    story.append(sx.p("Fault current at each node", "h2"))
+    story += _charts_story(
+        charts,
+        "Fault current at each node",
+        "Fault current at each node",
+        "No fault-current figures in these results.",
+    )
+    return story
+
+
+def _charts_story(charts: list, title: str, continued: str, none_text: str) -> list:
+    """A chart section: its title, then each chart (a part title from the second on),
+    or ``none_text`` when there is no chart."""
+    story = [sx.p(title, "h2")]
     if not charts:
-        story.append(sx.p("No fault-current figures in these results.", "body"))
+        story.append(sx.p(none_text, "body"))
     for i, chart in enumerate(charts):
         if i:
-            title = f"Fault current at each node (continued, part {i + 1} of {len(charts)})"
-            story += [CondPageBreak(chart.height + 30), sx.p(title, "h2")]
+            part = f"{continued} (continued, part {i + 1} of {len(charts)})"
+            story += [CondPageBreak(chart.height + 30), sx.p(part, "h2")]
         story.append(chart)
     return story
 
