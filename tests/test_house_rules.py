@@ -26,7 +26,6 @@ OVER_BUDGET = {
     "calc/fault.py",
     "calc/vdrop.py",
     "checks/schedules.py",
-    "inputs/job_file.py",
     "calc/ampacity.py:ampacity_a",
     "calc/ampacity.py:ampacity_chain",
     "calc/bonding.py:supply_side_jumper_size",

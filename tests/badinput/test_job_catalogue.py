@@ -11,7 +11,7 @@ Limits chosen (rule for absurd magnitudes)
 A value is an **input error** (exit 2) when it cannot describe a low-voltage
 distribution feed at all, or lies outside the range where the tool's methods hold;
 anything physically possible but unwise is left to the checks (a ``warn`` or
-``fail`` finding, exit 0 or 1). The ranges in ``feedcheck/inputs/job_file.py``:
+``fail`` finding, exit 0 or 1). The ranges in ``feedcheck/inputs/ranges.py``:
 
 * run length: > 0 and at most 2000 m (6560 ft); beyond that the short-line
   impedance model and the feeder-scale drop limits stop being a sensible study
