@@ -17,6 +17,7 @@ from .impedance import fault_assumptions
 from .lighting import report_minimum_lighting
 from .loads import check_transformer_phases, report_connections
 from .panels import check_panel, check_standard_ratings
+from .service import check_service
 from .summary import describe_results
 from .transformer import check_transformer
 from .vdrop import check_voltage_drop
@@ -61,6 +62,7 @@ def check_job(
     check_voltage_drop(ctx)
     for run in job.runs:
         check_run(ctx, run)
+    check_service(ctx)
     return describe_results(ctx, _results(ctx))
 
 

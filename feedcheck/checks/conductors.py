@@ -9,7 +9,7 @@ from ..calc import protection as pk
 from ..calc import selection as sk
 from ..calc.constants import M_PER_FT
 from ..calc.sizes import SIZES
-from ..model import Run
+from ..model import SOURCE_ID, Run
 from .bonding import check_sds_conductors
 from .compare import passes
 from .context import Context
@@ -300,7 +300,9 @@ def check_run(ctx: Context, run: Run) -> None:
     _check_ampacity(ctx, run, chain, cont + non, fix_text, tnote)
     if device is not None:
         _check_device(ctx, run, device, chain.final_a, cont, non, fix_text)
-        _check_egc(ctx, run, device, cont, non, term, cc, rooftop_c)
+        if not (run.from_id == SOURCE_ID and tree.kind[run.to_id] == "panel"):
+            # service conductors carry no EGC (checks/service.py)
+            _check_egc(ctx, run, device, cont, non, term, cc, rooftop_c)
     else:
         check_unprotected_run(ctx, run, chain.final_a)
         if tree.kind[run.from_id] == "transformer":

@@ -32,6 +32,7 @@ from .impedance import (
     fault_assumptions,
     run_impedance_ohm,
     run_return_impedance_ohm,
+    service_transformer_ohm,
     source_impedance,
 )
 from .taps import run_device
@@ -349,25 +350,27 @@ def _line_to_ground(ctx, fa, order, pos, parent, zb_min, zs, vb) -> dict[str, fl
     b0 = np.zeros(n_nodes, dtype=complex)
     in_scope = np.zeros(n_nodes, dtype=bool)
     tx = {t.id: t for t in job.transformers}
+    svc = service_transformer_ohm(job)  # a low-voltage service is a root of its own
     for n in order:
         i = pos[n]
         v = tree.voltage_of[n]
-        if v.neutral_v is None or tree.upstream_transformer[n] is None:
+        if v.neutral_v is None or (tree.upstream_transformer[n] is None and svc is None):
             lg_parent[i] = -1
             continue
         in_scope[i] = True
-        if tree.kind[n] == "transformer":
-            t = tx[n]
+        if tree.kind[n] in ("transformer", "source"):
             lg_parent[i] = -1
             z1 = complex(z_total_min[i] * (v.line_v / vb) ** 2)  # per-phase (equivalent)
+            if n in tx:
+                zt_min = transformer_loop_ohm(tx[n], fa.tolerance_pct, "min")
+                ratio = z0_ratio(tx[n], fa, "min")
+            else:
+                zt_min, ratio = svc, fa.z0_ratio_min
             if v.kind == "wye":
-                zt_min = transformer_loop_ohm(t, fa.tolerance_pct, "min")
                 root_z1[i] = z1
-                ratio = z0_ratio(t, fa, "min")
                 root_z0[i] = complex(lg.transformer_zero_sequence_ohm(zt_min, ratio))
             else:  # 120/240 V: half-winding model at 120 V
-                zt_loop = transformer_loop_ohm(t, fa.tolerance_pct, "min")
-                root_z1[i] = split_ln_source_ohm(z1, zt_loop)
+                root_z1[i] = split_ln_source_ohm(z1, zt_min)
         else:
             run = tree.parent_run[n]
             zp = run_impedance_ohm(run, fa.min_c(run), ctx.rules.conductors)

@@ -20,10 +20,15 @@ from ..calc import fault as fk
 from ..calc import fault_duty as dk
 from ..calc import fault_split_phase as sp
 from ..calc.constants import SQRT3
-from ..model import DEVICE_FAMILIES, Transformer
+from ..model import DEVICE_FAMILIES, SOURCE_ID, Transformer
 from .compare import passes
 from .context import Context
-from .impedance import FaultAssumptions, run_impedance_ohm, run_return_impedance_ohm
+from .impedance import (
+    FaultAssumptions,
+    run_impedance_ohm,
+    run_return_impedance_ohm,
+    service_transformer_ohm,
+)
 
 CASE_WORDS = {
     "3ph": "three-phase",
@@ -84,9 +89,10 @@ def path_impedances(ctx: Context, conductor_c: float | None, ground: bool) -> di
     """Cumulative impedance of one conductor (phase, or the return path when ``ground``)
     from each node's upstream transformer to the node [Ω, at the node's voltage]."""
     tree, data = ctx.tree, ctx.rules.conductors
+    service = service_transformer_ohm(ctx.job) is not None
     out: dict[str, complex] = {}
     for n in tree.order:
-        if tree.kind[n] != "panel" or tree.upstream_transformer[n] is None:
+        if tree.kind[n] != "panel" or (tree.upstream_transformer[n] is None and not service):
             out[n] = 0j
             continue
         run = tree.parent_run[n]
@@ -143,10 +149,13 @@ def worst_case_figures(
     tx = {t.id: t for t in ctx.job.transformers}
     z_line = path_impedances(ctx, fa.cond_c_max, ground=False)
     z_ret = path_impedances(ctx, fa.cond_c_max, ground=True)
+    svc = service_transformer_ohm(ctx.job)
     out: dict[str, DutyFigures] = {}
     for n in tree.order:
         tid = tree.upstream_transformer[n]
         if tid is None:
+            if svc is not None and tree.voltage_of[n].kind == "wye":
+                out[n] = _service_lg(ctx, fa, n, svc, z_total_max, z_line, z_ret, motor_a)
             continue
         t, v = tx[tid], tree.voltage_of[n]
         zt = transformer_loop_ohm(t, fa.tolerance_pct, "max")
@@ -170,6 +179,22 @@ def worst_case_figures(
             fig.x_r["lg"] = float(fk.x_r_ratio(z_sum))
         out[n] = fig
     return out
+
+
+def _service_lg(ctx, fa, n, zt, z_total_max, z_line, z_ret, motor_a) -> DutyFigures:
+    """Line-to-ground maximum at a node of a 480Y/277 V or 208Y/120 V service: the
+    utility's transformer (delta–wye) as the zero-sequence source, k = rule
+    fault-z0-ratio-max (the 120/240 V line-to-neutral case needs the transformer's
+    half-winding and is not taken at a service)."""
+    v = ctx.tree.voltage_of[n]
+    z_src = upstream_part(z_total_max[SOURCE_ID], zt)
+    k = fa.z0_ratio_max
+    i = dk.fault_lg_delta_wye_a(v.line_v / SQRT3, z_src, zt, k, z_line[n], z_ret[n], c=fa.c_max)
+    z_sum = 2 * (z_src + zt + z_line[n]) + k * zt + z_line[n] + 3 * z_ret[n]
+    fig = DutyFigures()
+    fig.faults_a["lg"] = float(i) + motor_a.get(n, 0.0)
+    fig.x_r["lg"] = float(fk.x_r_ratio(z_sum))
+    return fig
 
 
 def describe_methods(ctx: Context, fa: FaultAssumptions, figures: dict[str, DutyFigures]):
@@ -361,11 +386,13 @@ def flag_return_paths(ctx: Context) -> None:
     """State the phase-size return assumed where a run gives no grounding conductor, and
     flag a run that relies on its metal raceway as the ground-fault return path."""
     tree = ctx.tree
+    service = service_transformer_ohm(ctx.job) is not None
     bare = [
         r
         for r in ctx.job.runs
         if r.ground is None
-        and tree.upstream_transformer.get(r.to_id) is not None
+        and not (r.from_id == SOURCE_ID and service)  # service: returns on its neutral
+        and (tree.upstream_transformer.get(r.to_id) is not None or service)
         and tree.voltage_of[r.to_id].neutral_v is not None
     ]
     if not bare:

@@ -128,17 +128,20 @@ def check_voltage_drop(ctx: Context) -> None:
         node.values["voltage_v"] = v.line_v * pct / 100.0
         if tree.kind[n] == "panel":
             lim = limits["total"]
+            start = "transformer" if tree.upstream_transformer[n] else "service point"
             ctx.compare(
                 n,
-                "conductor voltage drop since the transformer",
+                f"conductor voltage drop since the {start}",
                 cond_drop_here,
                 lim.max_pct,
                 "%",
                 "at_most",
                 lim.rule_id,
-                f"feeder conductors from the transformer to {n}: {cond_drop_here:.2f} % "
-                f"(the panel stands at {pct:.2f} % of nominal including transformer "
-                f"regulation); branch circuits must fit in the rest of the "
+                f"{'feeder' if start == 'transformer' else 'service and feeder'} conductors "
+                f"from the {start} to {n}: {cond_drop_here:.2f} % "
+                f"(the panel stands at {pct:.2f} % of nominal including "
+                f"{'transformer regulation' if start == 'transformer' else 'the source'}"
+                f"); branch circuits must fit in the rest of the "
                 f"{lim.max_pct:g} % total",
                 fail_status=lim.status,
             )

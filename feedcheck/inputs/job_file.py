@@ -18,6 +18,7 @@ from pathlib import Path
 from ..errors import ProblemList
 from ..model import (
     INSULATION_RATINGS_C,
+    PRIMARY_DEVICE_KINDS,
     RACEWAYS,
     SOURCE_ID,
     TAP_RULES,
@@ -67,6 +68,7 @@ TRANSFORMER_KEYS = (
     "tap",
     "zero_sequence_ratio",
     "phases_connected",
+    "primary_device_type",
 )
 RUN_KEYS = (
     "id",
@@ -168,7 +170,10 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
         _transformer(r, t, f"transformer[{i}]", phases)
         for i, t in enumerate(array_of_tables(r, data, "transformer"), start=1)
     ]
-    runs = [_run(r, t, f"run[{i}]") for i, t in enumerate(array_of_tables(r, data, "run"), start=1)]
+    run_tables = array_of_tables(r, data, "run")
+    runs = [_run(r, t, f"run[{i}]") for i, t in enumerate(run_tables, start=1)]
+    raw_panels = data.get("panel")
+    _service_ground(r, source, runs, run_tables, raw_panels if isinstance(raw_panels, list) else [])
     panels = [
         read_panel(r, t, f"panel[{i}]", job_path.parent)
         for i, t in enumerate(array_of_tables(r, data, "panel"), start=1)
@@ -178,14 +183,14 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
         for i, t in enumerate(array_of_tables(r, data, "motor"), start=1)
     ]
     options = _options(r, _table(r, data, "options", "an [options] table"))
-    check_feed(r, transformers, runs, panels, motors)
+    check_feed(r, transformers, runs, panels, motors, source)
     # schedule paths resolve relative to the job file's folder
     panels = [
         replace(pn, schedule=(job_path.parent / pn.schedule) if pn.schedule else None)
         for pn in panels
     ]
-    if not transformers and "transformer" not in data:
-        r.add("transformer", None, "at least one [[transformer]] block")
+    if not transformers and not panels and "transformer" not in data and "panel" not in data:
+        r.add("transformer", None, "at least one [[transformer]] or [[panel]] block")
     r.problems.raise_if_any()
     tree = build_tree(source, transformers, runs, panels)
     check_voltages(r, tree, transformers, panels)
@@ -202,6 +207,24 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
         options=options,
         text=text,
     )
+
+
+def _service_ground(r: Reader, source, runs, run_tables, panel_tables) -> None:
+    """Service conductors carry no equipment grounding conductor: their grounded
+    conductor is the fault return (NFPA 70-2023 250.24(C)); refuse a ``ground`` on a run
+    from a low-voltage source to a panel (a run to a transformer is a primary feeder)."""
+    if source is None or source.medium_voltage:
+        return
+    panel_ids = {p.get("id") for p in panel_tables if isinstance(p, dict)}
+    for i, (run, raw) in enumerate(zip(runs, run_tables, strict=True), start=1):
+        if run.from_id == SOURCE_ID and run.to_id in panel_ids and "ground" in raw:
+            r.add(
+                f"run[{i}].ground",
+                raw["ground"],
+                "no ground on service conductors (from = 'source'): state their grounded "
+                "conductor as neutral (250.24(C)); the electrode conductor and main "
+                "bonding jumper go under [source]",
+            )
 
 
 def _table(r: Reader, data: dict, name: str, expected: str) -> dict:
@@ -245,7 +268,11 @@ def _transformer(r: Reader, t: dict, path: str, phases: int) -> Transformer:
     sec = r.voltage(t, path, "secondary", phases=phases)
     # a single-phase transformer may sit on two lines of a three-phase system
     prim = r.voltage(
-        t, path, "primary", phases=1 if sec is not None and sec.phases == 1 else phases
+        t,
+        path,
+        "primary",
+        phases=1 if sec is not None and sec.phases == 1 else phases,
+        medium=True,
     )
     z = r.qty(t, path, "impedance", "percent")
     if z is not None and not (0.5 <= z <= 25):
@@ -279,7 +306,17 @@ def _transformer(r: Reader, t: dict, path: str, phases: int) -> Transformer:
         tap_pct=tap or 0.0,
         z0_ratio=r.number(t, path, "zero_sequence_ratio", 0.1, 3),
         phases_connected=_phases_connected(r, t, path, prim),
+        primary_device_type=_primary_device_type(r, t, path),
     )
+
+
+def _primary_device_type(r: Reader, t: dict, path: str) -> str:
+    """``fuse`` or ``breaker``: the column of Table 450.3(A) over 1000 V ("" not stated)."""
+    kind = r.text(t, path, "primary_device_type", required=False)
+    if kind and kind not in PRIMARY_DEVICE_KINDS:
+        r.add(f"{path}.primary_device_type", kind, "'fuse' or 'breaker'")
+        return ""
+    return kind
 
 
 def _run_temperatures(r: Reader, t: dict, path: str) -> tuple[float | None, ...]:
