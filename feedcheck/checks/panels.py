@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from ..calc.power import current_from_apparent_power_a
-from ..model import Panel
+from ..model import LOW_VOLTAGE_MAX_V, Panel
 from .context import Context
 from .loads import demand_chain_steps, phase_design_steps
 
@@ -142,7 +142,12 @@ def check_standard_ratings(ctx: Context) -> None:
     of an adjustable-trip breaker may not be, so this is a warning."""
     std = {float(r) for r in ctx.rules.device_ratings_a}
     job = ctx.job
-    devices = [(t.id, "primary device", t.primary_device_a) for t in job.transformers]
+    # Table 240.6(A) lists low-voltage ratings: a primary device over 1000 V is not held
+    devices = [
+        (t.id, "primary device", t.primary_device_a)
+        for t in job.transformers
+        if t.primary.line_v <= LOW_VOLTAGE_MAX_V
+    ]
     devices += [(t.id, "secondary device", t.secondary_device_a) for t in job.transformers]
     devices += [(r.id, "device", r.device_a) for r in job.runs]
     devices += [(p.id, "main device", p.main_device_a) for p in job.panels]

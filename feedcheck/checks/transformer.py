@@ -8,7 +8,7 @@ from dataclasses import replace
 
 from ..calc import transformer as tk
 from ..calc.sizes import SIZES
-from ..model import Transformer
+from ..model import LOW_VOLTAGE_MAX_V, Transformer
 from .compare import passes
 from .context import Context
 
@@ -73,8 +73,9 @@ def check_transformer(ctx: Context, t: Transformer) -> None:
     rules = list(ctx.rules.transformer_protection)
     ratings = ctx.rules.device_ratings_a
     sh.uses("transformer_protection", "device_ratings")
-    arrangement = "primary and secondary" if t.secondary_device_a else "primary only"
-    ctx.method("Transformer overcurrent protection limits", "NFPA 70-2023 450.3(B), Table 450.3(B)")
+    arrangement = _arrangement(ctx, t, is_)
+    if arrangement is None:
+        return _check_loading(ctx, t, sh, ip, is_)
     for winding, rated, device in (
         ("primary", ip, t.primary_device_a),
         ("secondary", is_, t.secondary_device_a),
@@ -120,7 +121,54 @@ def check_transformer(ctx: Context, t: Transformer) -> None:
             note,
         )
 
-    # --- loading and regulation at the demand load
+    _check_loading(ctx, t, sh, ip, is_)
+
+
+def _arrangement(ctx: Context, t: Transformer, rated_secondary_a: float) -> str | None:
+    """The protection table's arrangement for ``t``: Table 450.3(B) (1000 V and less) by
+    whether a secondary device is given; Table 450.3(A) 'any location' over 1000 V by
+    the impedance band and the primary device type (a fuse when the job does not say:
+    the lower limit). None when the table has no row (over 10 %): a warning says so."""
+    if t.primary.line_v <= LOW_VOLTAGE_MAX_V:
+        ctx.method(
+            "Transformer overcurrent protection limits", "NFPA 70-2023 450.3(B), Table 450.3(B)"
+        )
+        return "primary and secondary" if t.secondary_device_a else "primary only"
+    ctx.method(
+        "Transformer overcurrent protection over 1000 V, any location: primary by the "
+        "rated impedance and the device (breaker or fuse), secondary of 1000 V or less at "
+        "125 %",
+        "NFPA 70-2023 450.3(A), Table 450.3(A)",
+    )
+    if t.z_pct > 10.0:
+        ctx.add(
+            t.id, "primary device", t.primary_device_a, None, "A", "warn",
+            "xfmr-prot-mv-z10-fuse-primary",
+            f"not evaluated: Table 450.3(A) has rows up to 10 % impedance ({t.z_pct:g} % "
+            "given); size the protection by the engineer's study",
+        )  # fmt: skip
+        return None
+    band = "Z up to 6 %" if t.z_pct <= 6.0 else "Z over 6 % up to 10 %"
+    kind = t.primary_device_type or "fuse"
+    if not t.primary_device_type:
+        ctx.assume(
+            f"{t.id}: primary device taken as a fuse (the lower limit of Table 450.3(A)); "
+            "state primary_device_type = 'breaker' for a circuit breaker."
+        )
+    if t.secondary_device_a is None:
+        ctx.add(
+            t.id, "secondary device", None, 1.25 * rated_secondary_a, "A", "warn",
+            f"xfmr-prot-mv-{'z6' if t.z_pct <= 6.0 else 'z10'}-{kind}-secondary",
+            "Table 450.3(A) (any location) requires secondary protection at most 125 % of "
+            f"{rated_secondary_a:.1f} A (next standard rating up); the job gives no "
+            "secondary_device: state it (a main of the equipment the secondary conductors "
+            "end at may serve, up to six devices, note 2)",
+        )  # fmt: skip
+    return f"over 1000 V any location {band} {kind}"
+
+
+def _check_loading(ctx: Context, t: Transformer, sh, ip: float, is_: float) -> None:
+    """Loading and regulation at the demand load, then grounding."""
     load = ctx.loads[t.id]
     x_r = t.x_r
     if t.x_r_typical:
