@@ -90,7 +90,8 @@ CASES = [
     ("service-impedance-absurd", SERVICE, '"5.75 %"', '"75 %"',
      "source.service_impedance got '75 %'; expected a percent impedance from 0.5 % to 25 %",
      "75 %"),
-    ("primary-sc-without-x-r", SERVICE, "service_x_r = 6", 'service_x_r = 6\nprimary_short_circuit = "500 MVA"',
+    ("primary-sc-without-x-r", SERVICE, "service_x_r = 6",
+     'service_x_r = 6\nprimary_short_circuit = "500 MVA"',
      "source.primary_x_r got (missing); expected the primary system's X/R (e.g. 10) when "
      "finite", "[source]"),
     ("service-key-alone", SERVICE.replace(
@@ -101,10 +102,12 @@ CASES = [
      "run[1].ground got '1/0 AWG Cu'; expected no ground on service conductors (from = "
      "'source'): state their grounded conductor as neutral (250.24(C)); the electrode "
      "conductor and main bonding jumper go under [source]", "1/0 AWG"),
-    ("electrode-conductor-unparseable", SERVICE, "service_x_r = 6", 'service_x_r = 6\nelectrode_conductor = 4',
+    ("electrode-conductor-unparseable", SERVICE, "service_x_r = 6",
+     'service_x_r = 6\nelectrode_conductor = 4',
      "source.electrode_conductor got '4'; expected a size and material in quotes, e.g. "
      "'4/0 AWG Cu'", "electrode_conductor"),
-    ("sc-both-spellings", MEDIUM, 'short_circuit = "250 MVA"', 'short_circuit = "250 MVA"\nshort_circuit_mva = "250 MVA"',
+    ("sc-both-spellings", MEDIUM, 'short_circuit = "250 MVA"',
+     'short_circuit = "250 MVA"\nshort_circuit_mva = "250 MVA"',
      "source.short_circuit_mva got '250 MVA'; expected short_circuit alone", "short_circuit_mva"),
     ("medium-voltage-run", MEDIUM, 'secondary_device = "1200 A"\n',
      'secondary_device = "1200 A"\n\n[[run]]\nid = "MV1"\nfrom = "source"\nto = "TS"\n'
