@@ -17,7 +17,7 @@ from .impedance import fault_assumptions
 from .lighting import report_minimum_lighting
 from .loads import check_transformer_phases, report_connections
 from .panels import check_panel, check_standard_ratings
-from .service import check_service
+from .service import check_service, describe_source
 from .summary import describe_results
 from .transformer import check_transformer
 from .vdrop import check_voltage_drop
@@ -50,6 +50,7 @@ def check_job(
             tree.parent_node[n],
             run.id if run else None,
         )
+    describe_source(ctx)
     for t in job.transformers:
         check_transformer(ctx, t)
         check_transformer_phases(ctx, t)

@@ -16,6 +16,7 @@ from __future__ import annotations
 
 from ..calc import bonding as bk
 from ..calc import transformer as tk
+from ..calc.service import service_through_fault
 from ..calc.sizes import SIZES, Size
 from ..model import SOURCE_ID, Run
 from .context import Context
@@ -28,6 +29,84 @@ def service_runs(ctx: Context) -> list[Run]:
     if ctx.job.source.medium_voltage:
         return []
     return [r for r in ctx.job.runs if r.from_id == SOURCE_ID and ctx.tree.kind[r.to_id] == "panel"]
+
+
+def describe_source(ctx: Context) -> None:
+    """How the source's strength was found: the utility transformer's through-fault
+    (infinite-bus method, with the primary's impedance where stated) on the source's
+    sheet and node; a medium-voltage source's short-circuit power; the service case's
+    methods (drop from the service point, service conductors)."""
+    src = ctx.job.source
+    if src.medium_voltage:
+        ctx.method(
+            f"Medium-voltage source ({src.voltage.text}): fault current from its stated "
+            "short-circuit power or current, I = S_sc/(√3·V); the transformer is fed "
+            "directly (medium-voltage conductors and switchgear are not checked); primary "
+            "protection by Table 450.3(A)",
+            "IEEE Std 141-1993 ch. 4; NFPA 70-2023 450.3(A)",
+        )
+    if service_runs(ctx):
+        ctx.method(
+            "Service: the source is the service point; service conductors are the runs "
+            "from it to the service equipment, protected by its main (the service "
+            "disconnect); voltage drop is counted from the service point; the "
+            "line-to-ground walk starts at the grounded service (the utility's "
+            "transformer as the zero-sequence source)",
+            "NFPA 70-2023 Art. 100 (service point), 230.90(A), 230.91, 215.2(A)(1) IN 2",
+        )
+    if src.service is None:
+        return
+    t, v = src.service, src.voltage
+    sh = ctx.sheet(SOURCE_ID, "source", "Service")
+    primary = "infinite" if t.primary_sc_va == float("inf") else f"{t.primary_sc_va / 1e6:g} MVA"
+    sh.inputs += [
+        ("Utility transformer", f"{t.rating_va / 1000:g} kVA, {t.z_pct:g} %, X/R {t.x_r:g}"),
+        ("Primary short circuit", primary),
+    ]
+    if t.x_r_typical_row:
+        sh.uses("transformer_xr")
+        ctx.assume(
+            f"Service transformer X/R {t.x_r:g} taken from the typical-value table "
+            f"({t.x_r_typical_row}); state service_x_r where the utility gives it."
+        )
+    infinite, _ = service_through_fault(t.rating_va, v.line_v, t.z_pct, t.x_r, v.phases)
+    k = "√3 · " if v.phases == 3 else ""
+    sh.step(
+        "Through-fault of the utility transformer, infinite bus",
+        f"I = S / ({k}V · Z%/100)",
+        f"{t.rating_va:,.0f} / ({k}{v.line_v:g} × {t.z_pct / 100:g})",
+        round(infinite, 0),
+        "A",
+        "service-through-fault",
+    )
+    if t.primary_sc_va != float("inf"):
+        sh.step(
+            "With the primary's impedance (V²/S_sc at X/R, referred; complex sum)",
+            "I = V / (√3 · |Z_T + Z_P|)",
+            f"S_sc {primary}, X/R {t.primary_x_r:g}",
+            round(src.fault_a, 0),
+            "A",
+            "service-through-fault",
+        )
+    ctx.method(
+        "Service transformer through-fault, infinite-bus method I = S/(√3·V·Z_pu) "
+        "(single-phase S/(V·Z_pu)), the primary's impedance V²/S_sc added as a complex "
+        "series impedance where stated; nameplate %Z as given (no tolerance)",
+        "IEEE Std 141-1993 §4.5; IEEE Std 242-2001 ch. 2",
+    )
+    ctx.nodes[SOURCE_ID].values.update(
+        {
+            "service_transformer_va": t.rating_va,
+            "service_z_pct": t.z_pct,
+            "service_x_r": t.x_r,
+            "service_primary_sc_va": t.primary_sc_va,
+        }
+    )
+    ctx.add(
+        SOURCE_ID, "service transformer through-fault", src.fault_a, None, "A", "info",
+        "service-through-fault",
+        f"{t.rating_va / 1000:g} kVA at {t.z_pct:g} %, primary {primary}",
+    )  # fmt: skip
 
 
 def check_service(ctx: Context) -> None:

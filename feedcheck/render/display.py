@@ -389,6 +389,24 @@ def node_title(node_id: str, kind: str, voltage: str) -> str:
     return f"{node_id} — {kind}, {voltage}"
 
 
+def service_caption(values: dict) -> str:
+    """The source's utility transformer as the one-line states it ("" when the job
+    states the source by its fault current or short-circuit power).
+
+    >>> service_caption({"service_transformer_va": 750e3, "service_z_pct": 5.75,
+    ...                  "service_primary_sc_va": float("inf")})
+    'service: utility transformer 750 kVA, 5.75 % (infinite primary)'
+    """
+    if "service_transformer_va" not in values:
+        return ""
+    sc = values.get("service_primary_sc_va", float("inf"))
+    primary = "infinite primary" if sc == float("inf") else f"primary {sc / 1e6:g} MVA"
+    return (
+        f"service: utility transformer {values['service_transformer_va'] / 1000:g} kVA, "
+        f"{values['service_z_pct']:g} % ({primary})"
+    )
+
+
 def node_caption(node_id: str, kind: str) -> str:
     """A node named in running text ("LP1 (panel)")."""
     return f"{node_id} ({kind})"
