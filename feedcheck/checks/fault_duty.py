@@ -154,8 +154,11 @@ def worst_case_figures(
     for n in tree.order:
         tid = tree.upstream_transformer[n]
         if tid is None:
-            if svc is not None and tree.voltage_of[n].kind == "wye":
+            kind = tree.voltage_of[n].kind
+            if svc is not None and kind == "wye":
                 out[n] = _service_lg(ctx, fa, n, svc, z_total_max, z_line, z_ret, motor_a)
+            elif svc is not None and kind == "split":
+                out[n] = _service_ln(ctx, fa, n, svc, z_total_max, z_line, motor_a)
             continue
         t, v = tx[tid], tree.voltage_of[n]
         zt = transformer_loop_ohm(t, fa.tolerance_pct, "max")
@@ -194,6 +197,29 @@ def _service_lg(ctx, fa, n, zt, z_total_max, z_line, z_ret, motor_a) -> DutyFigu
     fig = DutyFigures()
     fig.faults_a["lg"] = float(i) + motor_a.get(n, 0.0)
     fig.x_r["lg"] = float(fk.x_r_ratio(z_sum))
+    return fig
+
+
+def _service_ln(ctx, fa, n, zt_loop, z_total_max, z_line, motor_a) -> DutyFigures:
+    """Line-to-neutral maximum at a node of a 120/240 V service: the utility's
+    centre-tapped transformer by the half-winding model, nominal %Z (as the source's
+    through-fault); with only the available fault current, the whole source loop is
+    taken as that transformer's."""
+    v = ctx.tree.voltage_of[n]
+    svc = ctx.job.source.service
+    if svc is not None:
+        rating, z_pct, x_r = svc.rating_va, svc.z_pct, svc.x_r
+    else:  # an equivalent transformer of the source loop (any rating gives the same ohms)
+        rating = 100e3
+        z_pct = abs(zt_loop) * rating / v.line_v**2 * 100.0
+        x_r = zt_loop.imag / zt_loop.real if zt_loop.real > 0 else 100.0
+    z_src = upstream_part(SQRT3 * z_total_max[SOURCE_ID], zt_loop)
+    f = sp.split_phase_fault(
+        rating, v.line_v, z_pct, x_r, "max", 0.0, z_src, z_line[n], z_line[n], c=fa.c_max
+    )
+    fig = DutyFigures()
+    fig.faults_a["ln"] = float(f.fault_ln_a) + motor_a.get(n, 0.0)
+    fig.x_r["ln"] = float(f.x_r_ln)
     return fig
 
 
