@@ -239,6 +239,12 @@ class Panel:
     area_m2: float | None = None  # floor area served, for the 220.12 minimum lighting [m²]
     device_type: str | None = None  # one of DEVICE_FAMILIES; None: molded-case assumed
     schedule_columns: tuple[tuple[str, str], ...] = ()  # the schedule's column map
+    # a series-rated combination (NFPA 70-2023 240.86(B)): its tested rating, the run whose
+    # device is the line-side device of the combination, and that device's rating as
+    # marked on the combination (None / "" when the panel declares none)
+    series_rating_a: float | None = None
+    series_upstream_run: str = ""
+    series_upstream_device_a: float | None = None
 
 
 @dataclass(frozen=True)

@@ -84,6 +84,9 @@ power_factor = 0.9
 # occupancy = "other"          # lighting demand: other, dwelling, hospital, hotel, warehouse;
 #                              # with area also office, store, school, industrial, ... (220.12)
 # area = "12000 ft2"           # floor area served: minimum lighting load of Table 220.12
+# series_rating = "65 kA"      # a series-rated combination (240.86(B)) with the device of
+# series_upstream = "F-LP1"    # this run on the panel's feed, named on the combination
+# series_upstream_device = "250 A"  # as this rating (optional)
 
 # [[motor]]                    # optional: motors, for fault contribution and starting dip
 # id = "EF-1"

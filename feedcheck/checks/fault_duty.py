@@ -29,6 +29,7 @@ from .impedance import (
     run_return_impedance_ohm,
     service_transformer_ohm,
 )
+from .series import series_rating_a
 
 CASE_WORDS = {
     "3ph": "three-phase",
@@ -367,8 +368,9 @@ def _sheet_steps(ctx: Context, n: str, d: Duty) -> None:
 
 def _check_interrupting(ctx: Context, n: str, d: Duty) -> None:
     panel = next(p for p in ctx.job.panels if p.id == n)
-    what = f"{CASE_WORDS[d.case]} maximum governs"
-    if panel.interrupting_a is None:
+    rating, series = series_rating_a(ctx, panel)  # 240.86: a combination's rating
+    what = f"{CASE_WORDS[d.case]} maximum governs" + (f"; {series}" if series else "")
+    if rating is None:
         ctx.add(
             n,
             "interrupting rating",
@@ -388,16 +390,16 @@ def _check_interrupting(ctx: Context, n: str, d: Duty) -> None:
         if d.row is not None
         else ""
     )
-    ok = passes(panel.interrupting_a, d.duty_a, "at_least", 0.0)
+    ok = passes(rating, d.duty_a, "at_least", 0.0)
     ctx.compare(
         n,
         "interrupting rating",
         d.duty_a,
-        panel.interrupting_a,
+        rating,
         "A",
         "at_most",
-        "panel-interrupting",
-        f"rating {_kA(panel.interrupting_a)} vs duty {_kA(d.duty_a)} ({what}{factor})"
+        "series-rated" if series else "panel-interrupting",
+        f"rating {_kA(rating)} vs duty {_kA(d.duty_a)} ({what}{factor})"
         + (
             ""
             if ok

@@ -177,3 +177,30 @@ def check_voltages(
                 t.primary.text,
                 f"the voltage of what feeds it ({have.text})",
             )
+
+
+def check_series(r: Reader, tree: Tree, runs: Sequence[Run], panels: Sequence[Panel]) -> None:
+    """A series-rated panel names a run on its own feed (from the source down to it)."""
+    by_id = {x.id: x for x in runs}
+    for i, pn in enumerate(panels, start=1):
+        if not pn.series_upstream_run:
+            continue
+        path, n = set(), pn.id
+        while n is not None:
+            run = tree.parent_run.get(n)
+            if run is not None:
+                path.add(run.id)
+            n = tree.parent_node[n]
+        if pn.series_upstream_run not in path:
+            r.add(
+                f"panel[{i}].series_upstream",
+                pn.series_upstream_run,
+                "the id of a run on the feed to this panel whose device is the line-side "
+                "device of the series combination" + _hint(pn.series_upstream_run, sorted(path)),
+            )
+        elif by_id[pn.series_upstream_run].device_a is None:
+            r.add(
+                f"panel[{i}].series_upstream",
+                pn.series_upstream_run,
+                "a run with a device (the line-side device of the series combination)",
+            )

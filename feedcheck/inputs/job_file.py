@@ -33,7 +33,7 @@ from ..model import (
 from .defaults import typical_x_r
 from .element_keys import phases_connected as _phases_connected
 from .element_keys import tap_pct as _tap
-from .feed_rules import check_feed, check_voltages
+from .feed_rules import check_feed, check_series, check_voltages
 from .files import FileKind, FileRefused, decode_utf8, read_bytes
 from .panel_reader import read_motor, read_panel
 from .ranges import CLEARING, DEVICE
@@ -194,6 +194,7 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
     r.problems.raise_if_any()
     tree = build_tree(source, transformers, runs, panels)
     check_voltages(r, tree, transformers, panels)
+    check_series(r, tree, runs, panels)
     r.problems.raise_if_any()
     return Job(
         path=job_path,

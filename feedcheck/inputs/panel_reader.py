@@ -27,6 +27,9 @@ PANEL_KEYS = (
     "area",
     "device_type",
     "columns",
+    "series_rating",
+    "series_upstream",
+    "series_upstream_device",
 )
 MOTOR_KEYS = ("id", "panel", "full_load", "hp", "locked_rotor", "length", "conductors", "raceway")
 
@@ -74,7 +77,29 @@ def read_panel(r: Reader, t: dict, path: str, folder: Path) -> Panel:
         area_m2=_area(r, t, path),
         device_type=_device_type(r, t, path),
         schedule_columns=_schedule_columns(r, t, path),
+        **_series(r, t, path),
     )
+
+
+def _series(r: Reader, t: dict, path: str) -> dict:
+    """A series-rated combination (240.86(B)): ``series_rating`` with ``series_upstream``
+    (the run whose device is the line-side device) and, optionally, that device's rating
+    as marked (``series_upstream_device``)."""
+    keys = ("series_rating", "series_upstream", "series_upstream_device")
+    if not any(k in t for k in keys):
+        return {}
+    for k in keys[:2]:
+        if k not in t:
+            r.add(f"{path}.{k}", None, "a value with the other series_* keys (240.86(B))")
+    return {
+        "series_rating_a": r.qty(
+            t, path, "series_rating", "current", required=False, within=INTERRUPTING
+        ),
+        "series_upstream_run": r.text(t, path, "series_upstream", required=False),
+        "series_upstream_device_a": r.qty(
+            t, path, "series_upstream_device", "current", required=False, within=DEVICE
+        ),
+    }
 
 
 def _schedule_columns(r: Reader, t: dict, path: str) -> tuple[tuple[str, str], ...]:

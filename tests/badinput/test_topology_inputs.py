@@ -115,6 +115,9 @@ CASES = [
      "run[1].from got 'source'; expected a transformer or panel: the source is at 13.8 kV, "
      "and medium-voltage runs are not checked (give the transformer from = 'source' and no "
      "run into it)", 'from = "source"\nto = "TS"'),
+    ("series-rating-alone", MEDIUM, 'load = "500 kVA"', 'load = "500 kVA"\nseries_rating = "65 kA"',
+     "panel[1].series_upstream got (missing); expected a value with the other series_* keys "
+     "(240.86(B))", '[[panel]]'),
     ("primary-device-type", MEDIUM, 'primary_device_type = "fuse"', 'primary_device_type = "relay"',
      "transformer[1].primary_device_type got 'relay'; expected 'fuse' or 'breaker'", "relay"),
     ("mv-electrode-conductor", MEDIUM, "x_r = 15", 'x_r = 15\nelectrode_conductor = "2/0 AWG Cu"',
