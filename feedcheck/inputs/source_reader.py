@@ -36,16 +36,7 @@ def read_source(r: Reader, src: dict, given: bool) -> tuple[Source | None, int]:
     r.check_keys(src, "source", SOURCE_KEYS)
     if "service_transformer" in src:
         return _service_source(r, src)
-    phases = int(r.number(src, "source", "phases", 1, 3, default=3, integer=True) or 3)
-    if phases not in (1, 3):
-        r.add("source.phases", phases, "1 or 3")
-    sv = r.voltage(src, "source", "voltage", phases=phases, medium=True) if src or given else None
-    if sv is not None and "phases" in src and sv.phases != phases and phases in (1, 3):
-        r.add(
-            "source.phases",
-            phases,
-            f"{sv.phases} to match the {sv.phases}-phase voltage {sv.text!r}",
-        )
+    phases, sv = _voltage(r, src, medium=True) if src or given else (3, None)
     fault_a = _source_fault_a(r, src, sv)
     xr_src = r.number(src, "source", "x_r", 0.1, 100, default=None)
     if fault_a is not None and math.isfinite(fault_a) and xr_src is None and "x_r" not in src:
@@ -70,6 +61,21 @@ def read_source(r: Reader, src: dict, given: bool) -> tuple[Source | None, int]:
     return _service_grounding(r, src, source), phases
 
 
+def _voltage(r: Reader, src: dict, medium: bool):
+    """The stated phases (default 3) and the voltage, which must agree."""
+    phases = int(r.number(src, "source", "phases", 1, 3, default=3, integer=True) or 3)
+    if phases not in (1, 3):
+        r.add("source.phases", phases, "1 or 3")
+    sv = r.voltage(src, "source", "voltage", phases=phases, medium=medium)
+    if sv is not None and "phases" in src and sv.phases != phases and phases in (1, 3):
+        r.add(
+            "source.phases",
+            phases,
+            f"{sv.phases} to match the {sv.phases}-phase voltage {sv.text!r}",
+        )
+    return phases, sv
+
+
 def _sc_key(src: dict) -> str:
     """The key the job states the short-circuit power under ("" when none)."""
     return next((k for k in ("short_circuit", "short_circuit_mva") if k in src), "")
@@ -86,8 +92,7 @@ def _service_source(r: Reader, src: dict) -> tuple[Source | None, int]:
                 "no " + key + " with service_transformer (the through-fault is computed "
                 "from the service transformer; its X/R is service_x_r)",
             )
-    phases = int(r.number(src, "source", "phases", 1, 3, default=3, integer=True) or 3)
-    sv = r.voltage(src, "source", "voltage", phases=phases)
+    phases, sv = _voltage(r, src, medium=False)
     rating = r.qty(src, "source", "service_transformer", "power", apparent_only=True)
     if rating is not None and not (1e3 <= rating <= 10e6):
         r.add("source.service_transformer", src.get("service_transformer"), _RATING)
