@@ -191,7 +191,7 @@ CASES = [
     ('phases-mismatch', 'secondary = "208Y/120 V"', 'secondary = "120/240 V"',
      [("transformer[1].secondary got '120/240 V'; expected a 3-phase secondary like the 3-phase primary (480 V delta)", '120/240 V')]),
     ('misspelt-key', 'rating = "100 A"', 'ratting = "100 A"',
-     [("panel[2].ratting got 'ratting'; expected one of the keys id, rating, main_device, interrupting, voltage, schedule, load, continuous, power_factor, instantaneous_trip, occupancy, area, device_type, columns — did you mean 'rating'?", 'ratting'), ("panel[2].rating got (missing); expected a value for 'rating' (required)", ('[[panel]]', 2))]),
+     [("panel[2].ratting got 'ratting'; expected one of the keys id, rating, main_device, interrupting, voltage, schedule, load, continuous, power_factor, instantaneous_trip, occupancy, area, device_type, columns, series_rating, series_upstream, series_upstream_device — did you mean 'rating'?", 'ratting'), ("panel[2].rating got (missing); expected a value for 'rating' (required)", ('[[panel]]', 2))]),
     ('missing-required', 'primary_device = "175 A"\n', '',
      [("transformer[1].primary_device got (missing); expected a value for 'primary_device' (required)", '[[transformer]]')]),
     ('single-bracket-transformer', '[[transformer]]', '[transformer]',
