@@ -171,16 +171,7 @@ def _check_loading(ctx: Context, t: Transformer, sh, ip: float, is_: float) -> N
     """Loading and regulation at the demand load, then grounding."""
     load = ctx.loads[t.id]
     x_r = t.x_r
-    if t.x_r_typical:
-        row = t.x_r_typical_row
-        sh.uses("transformer_xr")
-        ctx.assume(
-            f"{t.id}: X/R {x_r:g} taken from the typical-value table ({row}); "
-            "use the nameplate or test report value where known."
-        )
-        sh.inputs.append(("X/R", f"{x_r:g} (typical, tables/transformer_xr.csv)"))
-    else:
-        sh.inputs.append(("X/R", f"{x_r:g}"))
+    _x_r_input(ctx, t, sh)
     r_pct, x_pct = tk.impedance_parts_pct(t.z_pct, x_r)
     sh.step(
         "Resistance and reactance",
@@ -250,6 +241,19 @@ def _check_loading(ctx: Context, t: Transformer, sh, ip: float, is_: float) -> N
     )
 
     _check_grounding(ctx, t, sh)
+
+
+def _x_r_input(ctx: Context, t: Transformer, sh) -> None:
+    """The X/R on the sheet; a typical value is an assumption naming its row."""
+    if t.x_r_typical:
+        sh.uses("transformer_xr")
+        ctx.assume(
+            f"{t.id}: X/R {t.x_r:g} taken from the typical-value table ({t.x_r_typical_row}); "
+            "use the nameplate or test report value where known."
+        )
+        sh.inputs.append(("X/R", f"{t.x_r:g} (typical, tables/transformer_xr.csv)"))
+    else:
+        sh.inputs.append(("X/R", f"{t.x_r:g}"))
 
 
 def _secondary_runs(ctx: Context, t: Transformer):
