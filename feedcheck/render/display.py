@@ -307,6 +307,12 @@ FIGURES: dict[str, Figure] = {
     "vdrop_pct": Figure("Voltage drop from the source", "drop %", "%", 1, 2),
     "voltage_pct": Figure("Voltage", "V %", "% of nominal", 1, 2),
     "segment_vdrop_pct": Figure("Voltage drop in the feeding run", "run drop %", "%", 1, 2),
+    "service_transformer_va": Figure("Utility transformer rating", "svc kVA", "kVA", 1e-3, 1),
+    "service_z_pct": Figure("Utility transformer impedance", "svc Z %", "%", 1, 2),
+    "service_x_r": Figure("Utility transformer X/R", "svc X/R", "", 1, 2),
+    "service_primary_sc_va": Figure(
+        "Short-circuit power at its primary", "svc prim MVA", "MVA", 1e-6, 1
+    ),
 }
 # the node figures of the terminal summary, in column order
 TERMINAL_FIGURES = (
