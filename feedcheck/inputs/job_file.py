@@ -172,12 +172,11 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
     ]
     run_tables = array_of_tables(r, data, "run")
     runs = [_run(r, t, f"run[{i}]") for i, t in enumerate(run_tables, start=1)]
-    raw_panels = data.get("panel")
-    _service_ground(r, source, runs, run_tables, raw_panels if isinstance(raw_panels, list) else [])
     panels = [
         read_panel(r, t, f"panel[{i}]", job_path.parent)
         for i, t in enumerate(array_of_tables(r, data, "panel"), start=1)
     ]
+    _service_ground(r, source, runs, run_tables, {pn.id for pn in panels})
     motors = [
         read_motor(r, t, f"motor[{i}]")
         for i, t in enumerate(array_of_tables(r, data, "motor"), start=1)
@@ -210,13 +209,12 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
     )
 
 
-def _service_ground(r: Reader, source, runs, run_tables, panel_tables) -> None:
+def _service_ground(r: Reader, source, runs, run_tables, panel_ids: set[str]) -> None:
     """Service conductors carry no equipment grounding conductor: their grounded
     conductor is the fault return (NFPA 70-2023 250.24(C)); refuse a ``ground`` on a run
     from a low-voltage source to a panel (a run to a transformer is a primary feeder)."""
     if source is None or source.medium_voltage:
         return
-    panel_ids = {p.get("id") for p in panel_tables if isinstance(p, dict)}
     for i, (run, raw) in enumerate(zip(runs, run_tables, strict=True), start=1):
         if run.from_id == SOURCE_ID and run.to_id in panel_ids and "ground" in raw:
             r.add(

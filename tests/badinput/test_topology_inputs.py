@@ -147,3 +147,13 @@ def test_the_valid_jobs_check(tmp_path, base):
     job.write_text(base, encoding="utf-8")
     r = cli("check", job, "--format", "json")
     assert r.exit_code in (0, 1), r.output
+
+
+def test_a_table_as_panel_id_beside_a_service_run(tmp_path):
+    # found by tests/fuzz/fuzz_inputs.py: a panel id that is a table, with a run from the
+    # source, once raised a TypeError while the service-run rule looked for panels
+    text = SERVICE.replace('id = "MDP"', "id = {}", 1)
+    job = tmp_path / "job.toml"
+    job.write_text(text, encoding="utf-8")
+    lines = assert_rejected(cli("check", job))
+    assert any("panel[1].id" in ln for ln in lines), lines
