@@ -19,6 +19,8 @@ if TYPE_CHECKING:
 
 # ------------------------------------------------------------------- vocabularies
 SOURCE_ID = "source"  # the reserved id of the supply node
+LOW_VOLTAGE_MAX_V = 1000.0  # "1000 volts, nominal, or less" (NFPA 70-2023 Art. 100)
+PRIMARY_DEVICE_KINDS = ("fuse", "breaker")  # Table 450.3(A) columns (over 1000 V)
 NODE_KINDS = ("source", "transformer", "panel")  # nodes of the feed tree; runs are its edges
 RACEWAYS = ("steel", "aluminum", "pvc", "cable", "free-air")
 MATERIALS = ("cu", "al")
@@ -145,12 +147,41 @@ class Project:
 
 
 @dataclass(frozen=True)
+class ServiceTransformer:
+    """The utility's transformer behind a service (the source's strength given by its
+    nameplate): its through-fault sets the source's ``fault_a`` and ``x_r``."""
+
+    rating_va: float
+    z_pct: float
+    x_r: float
+    primary_sc_va: float  # short-circuit power at its primary [VA]; inf: infinite bus
+    primary_x_r: float
+    x_r_typical_row: str = ""  # "" when the job gives X/R; else the typical-table row used
+
+
+@dataclass(frozen=True)
 class Source:
-    """The supply at the transformer primary."""
+    """The supply: a service point (low voltage, feeding panels or transformers) or a
+    medium-voltage primary (up to 35 kV, feeding transformers directly)."""
 
     voltage: VoltageSystem
     fault_a: float  # available three-phase fault current [A]; inf for an infinite bus
     x_r: float
+    # how the job stated its strength: "fault" (available_fault), "short-circuit"
+    # (short_circuit power) or "service-transformer" (kVA, %Z and X/R of the utility's)
+    given_as: str = "fault"
+    short_circuit_va: float | None = None  # as stated (short_circuit), [VA]
+    service: ServiceTransformer | None = None
+    # the service's grounding electrode conductor and main bonding jumper, where stated
+    electrode_conductor: Size | None = None
+    electrode_conductor_material: str = "cu"
+    main_bonding_jumper: Size | None = None
+    main_bonding_jumper_material: str = "cu"
+
+    @property
+    def medium_voltage(self) -> bool:
+        """True above 1000 V (NFPA 70: over 1000 V nominal)."""
+        return self.voltage.line_v > LOW_VOLTAGE_MAX_V
 
 
 @dataclass(frozen=True)
@@ -173,6 +204,7 @@ class Transformer:
     # lines a single-phase unit takes on a three-phase feed: "AB", "BC" or "CA";
     # "" = assigned to balance by the checks
     phases_connected: str = ""
+    primary_device_type: str = ""  # one of PRIMARY_DEVICE_KINDS; "" not stated
 
     @property
     def x_r_typical(self) -> bool:
@@ -261,6 +293,12 @@ class Panel:
     # a single-phase panel on a three-phase feed: the lines it takes ("AB", "BC", "CA");
     # "" = assigned to balance by the checks
     phases_connected: str = ""
+    # a series-rated combination (NFPA 70-2023 240.86(B)): its tested rating, the run whose
+    # device is the line-side device of the combination, and that device's rating as
+    # marked on the combination (None / "" when the panel declares none)
+    series_rating_a: float | None = None
+    series_upstream_run: str = ""
+    series_upstream_device_a: float | None = None
 
 
 @dataclass(frozen=True)

@@ -14,12 +14,22 @@ date = ""                      # optional, e.g. "2026-12-01"
 revision = "A"                 # optional
 rules = "na"                   # rule/table set under tables/ ("na" is the one shipped)
 
-[source]                       # the supply at the transformer primary
-voltage = "480 V delta"        # e.g. "480 V delta", "480Y/277 V", "480 V" (with phases = 1)
+[source]                       # the supply: a transformer primary or a service point
+voltage = "480 V delta"        # e.g. "480 V delta", "480Y/277 V", "480 V" (with phases = 1);
+#                              # up to 35 kV ("13.8 kV", "13800 V delta") when it feeds
+#                              # transformers directly (no run from a medium-voltage source)
 phases = 3                     # 1 or 3
-available_fault = "30 kA"      # three-phase fault current at the primary, or "infinite"
-# short_circuit_mva = "50 MVA" # alternative to available_fault
+available_fault = "30 kA"      # three-phase fault current at the source, or "infinite"
+# short_circuit = "250 MVA"    # alternative to available_fault: short-circuit power
 x_r = 6                        # source X/R (needed unless the fault is "infinite")
+# A service stated by the utility's transformer instead (no available_fault, short_circuit
+# or x_r then); runs from "source" to a panel are the service conductors:
+# service_transformer = "750 kVA"      # its through-fault is computed (infinite bus)
+# service_impedance = "5.75 %"         # its nameplate %Z
+# service_x_r = 5.5                    # optional: typical by rating when absent
+# primary_short_circuit = "infinite"   # or e.g. "500 MVA" (then primary_x_r = 10)
+# electrode_conductor = "2/0 AWG Cu"   # service grounding electrode conductor (Table 250.66)
+# main_bonding_jumper = "2/0 AWG Cu"   # main bonding jumper (250.28(D))
 
 [[transformer]]
 id = "T1"
@@ -31,6 +41,7 @@ secondary = "208Y/120 V"       # or "120/240 V" (single-phase three-wire), or
 impedance = "5.0 %"            # nameplate %Z
 # x_r = 3.5                    # optional; a typical value by rating is used if absent
 primary_device = "110 A"       # fuse or breaker rating on the primary
+# primary_device_type = "fuse" # primary over 1000 V: "fuse" or "breaker" (Table 450.3(A))
 secondary_device = "250 A"     # optional: device on the secondary (450.3(B) arrangement)
 # tap = "+2.5 %"               # optional no-load tap, signed as on the nameplate: "+" is
 #                              # above normal and LOWERS the secondary; "-" raises it
@@ -40,7 +51,8 @@ secondary_device = "250 A"     # optional: device on the secondary (450.3(B) arr
 
 [[run]]                        # one conductor run between two elements
 id = "F-LP1"
-from = "T1"                    # source of the run: a transformer or a panel
+from = "T1"                    # a transformer, a panel, or "source" (service conductors:
+#                              # no ground; their grounded conductor as neutral = "...")
 to = "LP1"                     # what it feeds: a panel (or a transformer primary)
 length = "95 ft"
 conductors = "4/0 AWG Cu"      # size and material: "250 kcmil Al", "95 mm2 Cu"
@@ -75,6 +87,9 @@ power_factor = 0.9
 # occupancy = "other"          # lighting demand: other, dwelling, hospital, hotel, warehouse;
 #                              # with area also office, store, school, industrial, ... (220.12)
 # area = "12000 ft2"           # floor area served: minimum lighting load of Table 220.12
+# series_rating = "65 kA"      # a series-rated combination (240.86(B)) with the device of
+# series_upstream = "F-LP1"    # this run on the panel's feed, named on the combination
+# series_upstream_device = "250 A"  # as this rating (optional)
 
 # [[motor]]                    # optional: motors (not counted in the panel's load above)
 # id = "EF-1"

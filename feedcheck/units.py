@@ -284,7 +284,7 @@ _VS_EXPECTED = (
     "a system voltage such as '480 V delta', '208Y/120 V', '480Y/277 V', "
     "'120/240 V' (single-phase three-wire), '240/120 V high-leg delta', '240 V' or '480 V'"
 )
-_WYE_RE = re.compile(r"^\s*(\d+(?:\.\d+)?)\s*Y\s*/\s*(\d+(?:\.\d+)?)\s*V?\s*$", re.IGNORECASE)
+_WYE_RE = re.compile(r"^\s*(\d+(?:\.\d+)?)\s*Y\s*/\s*(\d+(?:\.\d+)?)\s*(k?V)?\s*$", re.IGNORECASE)
 # 240/120 V four-wire delta with the high leg (208 V to neutral): "240/120 V high-leg
 # delta" (also "delta high-leg", "high leg", "highleg")
 _HIGH_LEG_RE = re.compile(
@@ -294,7 +294,7 @@ _HIGH_LEG_RE = re.compile(
 )
 _SPLIT_RE = re.compile(r"^\s*(\d+(?:\.\d+)?)\s*/\s*(\d+(?:\.\d+)?)\s*V?\s*$", re.IGNORECASE)
 _PLAIN_RE = re.compile(
-    r"^\s*(\d+(?:\.\d+)?)\s*V\s*(delta|d|wye|single|1ph|3ph)?\s*$", re.IGNORECASE
+    r"^\s*(\d+(?:\.\d+)?)\s*(k?V)\s*(delta|d|wye|single|1ph|3ph)?\s*$", re.IGNORECASE
 )
 
 
@@ -315,10 +315,13 @@ def parse_voltage_system(text: object, phases: int | None = None) -> VoltageSyst
     3
     >>> parse_voltage_system("240/120 V high-leg delta").kind
     'highleg'
+    >>> parse_voltage_system("13.8 kV").line_v  # medium voltage: kV spelled out
+    13800.0
     """
     s = str(text)
     if m := _WYE_RE.match(s):
-        ll, ln = float(m.group(1)), float(m.group(2))
+        k = 1000.0 if (m.group(3) or "").lower() == "kv" else 1.0
+        ll, ln = k * float(m.group(1)), k * float(m.group(2))
         if not (0 < ln < ll) or abs(ll / ln - math.sqrt(3)) > 0.05:
             raise UnitParseError(s, _VS_EXPECTED + " (line voltage ≈ √3 × neutral voltage)")
         return VoltageSystem(ll, ln, 3, "wye", s)
@@ -337,8 +340,8 @@ def parse_voltage_system(text: object, phases: int | None = None) -> VoltageSyst
             raise UnitParseError(s, _VS_EXPECTED + " (split-phase: line voltage = 2 × neutral)")
         return VoltageSystem(ll, ln, 1, "split", s)
     if m := _PLAIN_RE.match(s):
-        v = float(m.group(1))
-        tag = (m.group(2) or "").lower()
+        v = float(m.group(1)) * (1000.0 if m.group(2).lower() == "kv" else 1.0)
+        tag = (m.group(3) or "").lower()
         if v <= 0:
             raise UnitParseError(s, _VS_EXPECTED)
         if tag in ("delta", "d", "3ph"):

@@ -74,10 +74,28 @@ def test_transformer_protection_rows_match_450_3_b():
     assert t.loc["xfmr-prot-both-primary", "max_pct"] == 250
     assert t.loc["xfmr-prot-both-secondary-9a", "max_pct"] == 125
     assert t.loc["xfmr-prot-both-secondary-0a", "max_pct"] == 167
-    assert set(t[t["next_size_up"] == "yes"].index) == {
+    low = t[~t.index.str.startswith("xfmr-prot-mv-")]
+    assert set(low[low["next_size_up"] == "yes"].index) == {
         "xfmr-prot-primary-only-9a",
         "xfmr-prot-both-secondary-9a",
     }
+
+
+def test_transformer_protection_rows_over_1000_v():
+    # NFPA 70-2023 Table 450.3(A), any location (from memory — the rows carry
+    # row_confidence "from memory — verify"): primary breaker 600 % / fuse 300 % up to
+    # 6 % impedance, 400 % / 300 % over 6 % up to 10 %; secondary of 1000 V or less 125 %;
+    # note 1 (next higher standard rating) throughout
+    t = load_table("transformer_protection").data.set_index("rule_id")
+    assert t.loc["xfmr-prot-mv-z6-breaker-primary", "max_pct"] == 600
+    assert t.loc["xfmr-prot-mv-z6-fuse-primary", "max_pct"] == 300
+    assert t.loc["xfmr-prot-mv-z10-breaker-primary", "max_pct"] == 400
+    assert t.loc["xfmr-prot-mv-z10-fuse-primary", "max_pct"] == 300
+    mv = t[t.index.str.startswith("xfmr-prot-mv-")]
+    assert len(mv) == 8
+    assert (mv[mv["winding"] == "secondary"]["max_pct"] == 125).all()
+    assert (mv["next_size_up"] == "yes").all()
+    assert (mv["row_confidence"] == "from memory — verify").all()
 
 
 def _copy(tmp_path, name):

@@ -69,10 +69,24 @@ def test_single_phase_plain_voltage_needs_phase_count():
     assert parse_voltage_system("240 V", phases=3).phases == 3
 
 
-@pytest.mark.parametrize("text", ["208Y/100 V", "120/208 V", "480 kV", "delta", ""])
+@pytest.mark.parametrize("text", ["208Y/100 V", "120/208 V", "480 kA", "delta", ""])
 def test_bad_voltage_systems(text):
     with pytest.raises(UnitParseError):
         parse_voltage_system(text)
+
+
+@pytest.mark.parametrize(
+    ("text", "line", "neutral", "kind"),
+    [
+        ("13.8 kV", 13800.0, None, "line"),
+        ("13800 V delta", 13800.0, None, "delta"),
+        ("13.8Y/7.97 kV", 13800.0, 7970.0, "wye"),
+        ("480 kV", 480e3, None, "line"),  # spelled right; the job reader refuses > 35 kV
+    ],
+)
+def test_kilovolt_spellings(text, line, neutral, kind):
+    v = parse_voltage_system(text)
+    assert (v.line_v, v.neutral_v, v.kind) == (line, neutral, kind)
 
 
 # ---- the conversion table used without the pint registry (feedcheck.units_fast)

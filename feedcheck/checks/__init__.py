@@ -19,6 +19,7 @@ from .lighting import report_minimum_lighting
 from .loads import check_transformer_phases, report_connections
 from .motors import check_motors
 from .panels import check_panel, check_standard_ratings
+from .service import check_service, describe_source
 from .summary import describe_results
 from .transformer import check_transformer
 from .vdrop import check_voltage_drop
@@ -51,6 +52,7 @@ def check_job(
             tree.parent_node[n],
             run.id if run else None,
         )
+    describe_source(ctx)
     for t in job.transformers:
         check_transformer(ctx, t)
         check_transformer_phases(ctx, t)
@@ -67,6 +69,7 @@ def check_job(
         check_voltage_drop(ctx)
     for run in job.runs:
         check_run(ctx, run)
+    check_service(ctx)
     return describe_results(ctx, _results(ctx))
 
 

@@ -8,7 +8,7 @@ from ..calc import protection as pk
 from ..calc.ampacity import ampacity_chain, rooftop_adder_c, termination_c_for
 from ..calc.constants import M_PER_FT
 from ..calc.sizes import SIZES
-from ..model import Run
+from ..model import SOURCE_ID, Run
 from .bonding import check_sds_conductors
 from .compare import passes
 from .context import Context
@@ -261,7 +261,9 @@ def check_run(ctx: Context, run: Run) -> None:
         _check_ampacity(ctx, run, chain, cont + non, fix_text, tnote)
     if device is not None:
         _check_device(ctx, run, device, chain.final_a, cont, non, fix_text)
-        _check_egc(ctx, run, duty, term)
+        if not (run.from_id == SOURCE_ID and tree.kind[run.to_id] == "panel"):
+            # service conductors carry no EGC (checks/service.py)
+            _check_egc(ctx, run, duty, term)
     else:
         with ctx.reading(*ctx.ampacity_rows(run)):
             check_unprotected_run(ctx, run, chain.final_a)

@@ -45,6 +45,7 @@ from .impedance import (
     fault_assumptions,
     run_impedance_ohm,
     run_return_impedance_ohm,
+    service_transformer_ohm,
     source_impedance,
 )
 from .point_to_point import point_to_point_a, ptp_finding
@@ -359,22 +360,26 @@ def _sequence_network(ctx, fa, order, pos, parent, z_total_min, vb) -> _Sequence
         np.zeros(n_nodes, dtype=bool),
     )
     transformers = {tx.id: tx for tx in ctx.job.transformers}
+    service = service_transformer_ohm(ctx.job)  # a low-voltage service is a root of its own
     for node in order:
         at = pos[node]
         system = tree.voltage_of[node]
-        if system.voltage_ln_v is None or tree.upstream_transformer[node] is None:
+        below_root = tree.upstream_transformer[node] is not None or service is not None
+        if system.voltage_ln_v is None or not below_root:
             net.parent[at] = -1
             continue
         net.in_scope[at] = True
-        if tree.kind[node] == "transformer":
-            tx = transformers[node]
+        if tree.kind[node] in ("transformer", "source"):
             net.parent[at] = -1
             # per-phase (equivalent)
             z1 = complex(z_total_min[at] * (system.voltage_ll_v / vb) ** 2)
-            zt_min = transformer_loop_ohm(tx, fa.tolerance_pct, "min")
+            if node in transformers:
+                zt_min = transformer_loop_ohm(transformers[node], fa.tolerance_pct, "min")
+                ratio = z0_ratio(transformers[node], fa, "min")
+            else:
+                zt_min, ratio = service, fa.z0_ratio_min
             if system.kind == "wye":
                 net.root_z1[at] = z1
-                ratio = z0_ratio(tx, fa, "min")
                 net.root_z0[at] = complex(transformer_zero_sequence_ohm(zt_min, ratio))
             elif system.kind == "highleg":  # four-wire delta: both legs bounded (high_leg.py)
                 net.root_z1[at] = min_root_ohm(z1)

@@ -27,11 +27,17 @@ from ..calc.fault_duty import (
 )
 from ..calc.fault_high_leg import K_AN
 from ..calc.fault_split_phase import half_winding_impedance_ohm, split_phase_fault
-from ..model import DEVICE_FAMILIES, Transformer
+from ..model import DEVICE_FAMILIES, SOURCE_ID, Transformer
 from .compare import passes
 from .context import Context
 from .high_leg import max_per_leg
-from .impedance import FaultAssumptions, run_impedance_ohm, run_return_impedance_ohm
+from .impedance import (
+    FaultAssumptions,
+    run_impedance_ohm,
+    run_return_impedance_ohm,
+    service_transformer_ohm,
+)
+from .series import series_rating_a
 
 CASE_WORDS = {
     "3ph": "three-phase",
@@ -93,9 +99,10 @@ def path_impedances(ctx: Context, conductor_c: float | None, ground: bool) -> di
     """Cumulative impedance of one conductor (phase, or the return path when ``ground``)
     from each node's upstream transformer to the node [Ω, at the node's voltage]."""
     tree, data = ctx.tree, ctx.rules.conductors
+    service = service_transformer_ohm(ctx.job) is not None
     out: dict[str, complex] = {}
     for n in tree.order:
-        if tree.kind[n] != "panel" or tree.upstream_transformer[n] is None:
+        if tree.kind[n] != "panel" or (tree.upstream_transformer[n] is None and not service):
             out[n] = 0j
             continue
         run = tree.parent_run[n]
@@ -152,10 +159,16 @@ def worst_case_figures(
     tx = {t.id: t for t in ctx.job.transformers}
     z_line = path_impedances(ctx, fa.cond_c_max, ground=False)
     z_ret = path_impedances(ctx, fa.cond_c_max, ground=True)
+    svc = service_transformer_ohm(ctx.job)
     out: dict[str, DutyFigures] = {}
     for n in tree.order:
         tid = tree.upstream_transformer[n]
         if tid is None:
+            kind = tree.voltage_of[n].kind
+            if svc is not None and kind == "wye":
+                out[n] = _service_lg(ctx, fa, n, svc, z_total_max, z_line, z_ret, motor_a)
+            elif svc is not None and kind == "split":
+                out[n] = _service_ln(ctx, fa, n, svc, z_total_max, z_line, motor_a)
             continue
         t, v = tx[tid], tree.voltage_of[n]
         zt = transformer_loop_ohm(t, fa.tolerance_pct, "max")
@@ -184,6 +197,45 @@ def worst_case_figures(
             fig.x_r["lg"] = float(x_r_ratio(z_sum))
         out[n] = fig
     return out
+
+
+def _service_lg(ctx, fa, n, zt, z_total_max, z_line, z_ret, motor_a) -> DutyFigures:
+    """Line-to-ground maximum at a node of a 480Y/277 V or 208Y/120 V service: the
+    utility's transformer (delta–wye) as the zero-sequence source, k = rule
+    fault-z0-ratio-max (the 120/240 V line-to-neutral case needs the transformer's
+    half-winding and is not taken at a service)."""
+    v = ctx.tree.voltage_of[n]
+    z_src = upstream_part(z_total_max[SOURCE_ID], zt)
+    k = fa.z0_ratio_max
+    i = fault_lg_delta_wye_a(v.voltage_ll_v / SQRT3, z_src, zt, k, z_line[n], z_ret[n], c=fa.c_max)
+    z_sum = 2 * (z_src + zt + z_line[n]) + k * zt + z_line[n] + 3 * z_ret[n]
+    fig = DutyFigures()
+    fig.faults_a["lg"] = float(i) + motor_a.get(n, 0.0)
+    fig.x_r["lg"] = float(x_r_ratio(z_sum))
+    return fig
+
+
+def _service_ln(ctx, fa, n, zt_loop, z_total_max, z_line, motor_a) -> DutyFigures:
+    """Line-to-neutral maximum at a node of a 120/240 V service: the utility's
+    centre-tapped transformer by the half-winding model, nominal %Z (as the source's
+    through-fault); with only the available fault current, the whole source loop is
+    taken as that transformer's."""
+    v = ctx.tree.voltage_of[n]
+    svc = ctx.job.source.service
+    if svc is not None:
+        rating, z_pct, x_r = svc.rating_va, svc.z_pct, svc.x_r
+    else:  # an equivalent transformer of the source loop (any rating gives the same ohms)
+        rating = 100e3
+        z_pct = abs(zt_loop) * rating / v.line_v**2 * 100.0
+        x_r = zt_loop.imag / zt_loop.real if zt_loop.real > 0 else 100.0
+    z_src = upstream_part(SQRT3 * z_total_max[SOURCE_ID], zt_loop)
+    f = split_phase_fault(
+        rating, v.line_v, z_pct, x_r, "max", 0.0, z_src, z_line[n], z_line[n], c=fa.c_max
+    )
+    fig = DutyFigures()
+    fig.faults_a["ln"] = float(f.fault_ln_a) + motor_a.get(n, 0.0)
+    fig.x_r["ln"] = float(f.x_r_ln)
+    return fig
 
 
 def describe_methods(ctx: Context, fa: FaultAssumptions, figures: dict[str, DutyFigures]):
@@ -330,8 +382,9 @@ def _sheet_steps(ctx: Context, n: str, d: Duty) -> None:
 
 def _check_interrupting(ctx: Context, n: str, d: Duty) -> None:
     panel = next(p for p in ctx.job.panels if p.id == n)
-    what = f"{CASE_WORDS[d.case]} maximum governs"
-    if panel.interrupting_a is None:
+    rating, series = series_rating_a(ctx, panel)  # 240.86: a combination's rating
+    what = f"{CASE_WORDS[d.case]} maximum governs" + (f"; {series}" if series else "")
+    if rating is None:
         ctx.add(
             n,
             "interrupting rating",
@@ -351,16 +404,16 @@ def _check_interrupting(ctx: Context, n: str, d: Duty) -> None:
         if d.row is not None
         else ""
     )
-    ok = passes(panel.interrupting_a, d.duty_a, "at_least", 0.0)
+    ok = passes(rating, d.duty_a, "at_least", 0.0)
     ctx.compare(
         n,
         "interrupting rating",
         d.duty_a,
-        panel.interrupting_a,
+        rating,
         "A",
         "at_most",
-        "panel-interrupting",
-        f"rating {kiloamps(panel.interrupting_a)} vs duty {kiloamps(d.duty_a)} ({what}{factor})"
+        "series-rated" if series else "panel-interrupting",
+        f"rating {kiloamps(rating)} vs duty {kiloamps(d.duty_a)} ({what}{factor})"
         + (
             ""
             if ok
@@ -375,11 +428,13 @@ def flag_return_paths(ctx: Context) -> None:
     """State the phase-size return assumed where a run gives no grounding conductor, and
     flag a run that relies on its metal raceway as the ground-fault return path."""
     tree = ctx.tree
+    service = service_transformer_ohm(ctx.job) is not None
     bare = [
         r
         for r in ctx.job.runs
         if r.ground is None
-        and tree.upstream_transformer.get(r.to_id) is not None
+        and not (r.from_id == SOURCE_ID and service)  # service: returns on its neutral
+        and (tree.upstream_transformer.get(r.to_id) is not None or service)
         and tree.voltage_of[r.to_id].voltage_ln_v is not None
     ]
     if not bare:

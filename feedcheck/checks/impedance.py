@@ -13,7 +13,7 @@ from dataclasses import dataclass
 from ..calc import conductor as ck
 from ..calc import fault as fk
 from ..calc.constants import SQRT3
-from ..model import Job, Run
+from ..model import SOURCE_ID, Job, Run
 from ..rulebook import RowUse
 from .context import Context
 
@@ -70,10 +70,13 @@ def run_impedance_ohm(run: Run, conductor_c: float, data: ck.ConductorData) -> c
 def run_return_impedance_ohm(run: Run, conductor_c: float, data: ck.ConductorData) -> complex:
     """Impedance of the run's return path for a ground fault: its equipment grounding
     conductor (one per raceway, so ``sets`` in parallel); the phase size when none is
-    given (neutral return). The raceway as a parallel path is neglected (conservative
+    given (neutral return); service conductors return on their grounded conductor
+    (``neutral``; 250.24(C)). The raceway as a parallel path is neglected (conservative
     for the minimum current)."""
     size = run.ground if run.ground is not None else run.size
     material = run.ground_material if run.ground is not None else run.material
+    if run.from_id == SOURCE_ID and run.ground is None and run.neutral is not None:
+        size, material = run.neutral, run.neutral_material
     r, x = ck.ac_impedance_ohm_per_m(size.name, material, run.raceway, conductor_c, data=data)
     return complex(fk.branch_impedance_ohm(run.length_m, float(r), float(x), run.sets))
 
@@ -125,6 +128,36 @@ def branch_impedances(
             z = 2 * zr / SQRT3 if v.phases == 1 else zr
         out[n] = z
     return out
+
+
+def is_service(job: Job) -> bool:
+    """True when the source is a service point: low voltage, with a run from it to a
+    panel (the service equipment). A run from the source to a transformer is a primary
+    feeder, as before; a medium-voltage source feeds transformers only."""
+    if job.source.medium_voltage:
+        return False
+    panels = {p.id for p in job.panels}
+    return any(r.from_id == SOURCE_ID and r.to_id in panels for r in job.runs)
+
+
+def service_transformer_ohm(job: Job) -> complex | None:
+    """The transformer part of a low-voltage service source with a neutral, at the source
+    voltage [Ω]: per phase (three-phase) or the whole-winding loop (single-phase); None
+    when the source is not a service (:func:`is_service`) or has no neutral.
+
+    With the utility's transformer stated, its nameplate impedance (nominal); with only
+    the available fault current, the whole source impedance is taken as the transformer's
+    (the source's zero-sequence impedance is then k × Z1 by rule fault-z0-ratio-*)."""
+    s = job.source
+    v = s.voltage
+    if not is_service(job) or v.neutral_v is None:
+        return None
+    if s.service is not None:
+        t = s.service
+        mag = t.z_pct / 100.0 * v.line_v**2 / t.rating_va
+        return complex(mag / (1 + t.x_r**2) ** 0.5 * (1 + 1j * t.x_r))
+    zs = source_impedance(job)
+    return zs if v.phases == 3 else SQRT3 * zs
 
 
 def source_impedance(job: Job) -> complex:

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from ..calc.power import current_from_apparent_power_a
-from ..model import Panel
+from ..model import LOW_VOLTAGE_MAX_V, Panel
 from .context import Context
 from .demand_sheet import demand_chain_steps
 from .loads import phase_design_steps
@@ -146,7 +146,12 @@ def check_standard_ratings(ctx: Context) -> None:
     of an adjustable-trip breaker may not be, so this is a warning."""
     std = {float(run) for run in ctx.rules.device_ratings_a}
     job = ctx.job
-    devices = [(tx.id, "primary device", tx.primary_device_a) for tx in job.transformers]
+    # Table 240.6(A) lists low-voltage ratings: a primary device over 1000 V is not held
+    devices = [
+        (tx.id, "primary device", tx.primary_device_a)
+        for tx in job.transformers
+        if tx.primary.voltage_ll_v <= LOW_VOLTAGE_MAX_V
+    ]
     devices += [(tx.id, "secondary device", tx.secondary_device_a) for tx in job.transformers]
     devices += [(run.id, "device", run.device_a) for run in job.runs]
     devices += [(panel.id, "main device", panel.main_device_a) for panel in job.panels]

@@ -20,7 +20,7 @@ The one rule, stated (the same for every check that needs "the device of a run")
 from __future__ import annotations
 
 from ..calc.constants import M_PER_FT
-from ..model import Job, Run
+from ..model import SOURCE_ID, Job, Run
 from .context import Context
 
 FEEDER_TAPS = {"10 ft": "tap-10ft", "25 ft": "tap-25ft"}
@@ -32,7 +32,9 @@ SECONDARY_TAPS = {
 
 def run_device(job: Job, run: Run) -> tuple[float | None, str]:
     """The device protecting ``run`` and where it is: ``"run"``, ``"transformer primary"``,
-    ``"transformer secondary"``, ``"tap"`` (a declared tap rule: none) or ``""`` (none).
+    ``"transformer secondary"``, ``"service disconnect"`` (service conductors without a
+    device at the source: the main device of the service equipment they end at, NFPA
+    70-2023 230.90(A), 230.91), ``"tap"`` (a declared tap rule: none) or ``""`` (none).
 
     This is the module docstring's rule, the one every check uses.
     """
@@ -45,6 +47,10 @@ def run_device(job: Job, run: Run) -> tuple[float | None, str]:
         return tx[run.to_id].primary_device_a, "transformer primary"
     if run.from_id in tx and tx[run.from_id].secondary_device_a is not None:
         return tx[run.from_id].secondary_device_a, "transformer secondary"
+    if run.from_id == SOURCE_ID:  # service conductors: protected at their load end
+        panel = next((p for p in job.panels if p.id == run.to_id), None)
+        if panel is not None and panel.main_device_a is not None:
+            return panel.main_device_a, "service disconnect"
     return None, ""
 
 

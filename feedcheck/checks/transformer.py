@@ -6,220 +6,219 @@ from __future__ import annotations
 import math
 from dataclasses import replace
 
+from ..calc import transformer as tk
 from ..calc.sizes import SIZES
-from ..calc.transformer import (
-    gec_row,
-    impedance_parts_pct,
-    protection_limit,
-    rated_current_a,
-    regulation_pct_approximate,
-    regulation_pct_exact,
-)
-from ..model import Transformer
+from ..model import LOW_VOLTAGE_MAX_V, Transformer
 from .compare import passes
 from .context import Context
 
 
-def check_transformer(ctx: Context, tx: Transformer) -> None:
-    sheet = ctx.sheet(tx.id, "transformer", f"Transformer {tx.id}")
-    sheet.inputs += _nameplate_inputs(tx)
-    rated = _rated_currents(ctx, tx, sheet)
-    _protection(ctx, tx, sheet, rated)
-    _loading_and_regulation(ctx, tx, sheet, rated)
-    _check_grounding(ctx, tx, sheet)
-
-
-def _nameplate_inputs(tx: Transformer) -> list[tuple[str, str]]:
-    return [
-        ("Rating", f"{tx.rating_va / 1000:g} kVA"),
-        ("Primary", tx.primary.text),
-        ("Secondary", tx.secondary.text),
-        ("Impedance", f"{tx.z_pct:g} %"),
-        ("Primary device", f"{tx.primary_device_a:g} A"),
+def check_transformer(ctx: Context, t: Transformer) -> None:
+    sh = ctx.sheet(t.id, "transformer", f"Transformer {t.id}")
+    ph = t.primary.phases
+    sh.inputs += [
+        ("Rating", f"{t.rating_va / 1000:g} kVA"),
+        ("Primary", t.primary.text),
+        ("Secondary", t.secondary.text),
+        ("Impedance", f"{t.z_pct:g} %"),
+        ("Primary device", f"{t.primary_device_a:g} A"),
         (
             "Secondary device",
-            f"{tx.secondary_device_a:g} A" if tx.secondary_device_a else "none at the transformer",
+            f"{t.secondary_device_a:g} A" if t.secondary_device_a else "none at the transformer",
         ),
     ]
-
-
-def _rated_currents(ctx: Context, tx: Transformer, sheet) -> tuple[float, float]:
-    """Rated primary and secondary currents [A]: calculation steps and info findings."""
-    phases = tx.primary.phases
-    form = "S / (√3 · V_LL)" if phases == 3 else "S / V"
-    factor = "√3 · " if phases == 3 else ""
-    rated = []
-    for winding, symbol, voltage_ll_v in (
-        ("primary", "I_p", tx.primary.voltage_ll_v),
-        ("secondary", "I_s", tx.secondary.voltage_ll_v),
-    ):
-        current_a = rated_current_a(tx.rating_va, voltage_ll_v, phases)
-        sheet.step(
-            f"Rated {winding} current",
-            f"{symbol} = {form}",
-            f"{tx.rating_va:,.0f} / ({factor}{voltage_ll_v:g})",
-            round(current_a, 1),
-            "A",
-        )
-        rated.append(current_a)
+    ip = tk.rated_current_a(t.rating_va, t.primary.line_v, ph)
+    is_ = tk.rated_current_a(t.rating_va, t.secondary.line_v, ph)
+    form = "S / (√3 · V_LL)" if ph == 3 else "S / V"
+    k = "√3 · " if ph == 3 else ""
+    sh.step(
+        "Rated primary current",
+        f"I_p = {form}",
+        f"{t.rating_va:,.0f} / ({k}{t.primary.line_v:g})",
+        round(ip, 1),
+        "A",
+    )
+    sh.step(
+        "Rated secondary current",
+        f"I_s = {form}",
+        f"{t.rating_va:,.0f} / ({k}{t.secondary.line_v:g})",
+        round(is_, 1),
+        "A",
+    )
     ctx.method(
         "Rated current I = S/(√3·V) three-phase, S/V single-phase", "IEEE Std 141-1993 ch. 4"
     )
-    for winding, current_a, voltage_ll_v in (
-        ("primary", rated[0], tx.primary.voltage_ll_v),
-        ("secondary", rated[1], tx.secondary.voltage_ll_v),
-    ):
-        ctx.add(
-            tx.id,
-            f"rated {winding} current",
-            current_a,
-            None,
-            "A",
-            "info",
-            "rated-current",
-            f"{tx.rating_va / 1000:g} kVA at {voltage_ll_v:g} V",
-        )
-    return rated[0], rated[1]
+    ctx.add(
+        t.id,
+        "rated primary current",
+        ip,
+        None,
+        "A",
+        "info",
+        "rated-current",
+        f"{t.rating_va / 1000:g} kVA at {t.primary.line_v:g} V",
+    )
+    ctx.add(
+        t.id,
+        "rated secondary current",
+        is_,
+        None,
+        "A",
+        "info",
+        "rated-current",
+        f"{t.rating_va / 1000:g} kVA at {t.secondary.line_v:g} V",
+    )
 
-
-def _protection(ctx: Context, tx: Transformer, sheet, rated: tuple[float, float]) -> None:
-    """Primary and secondary devices against the limits of 450.3(B)."""
+    # --- overcurrent protection, 450.3(B)
     rules = list(ctx.rules.transformer_protection)
     ratings = ctx.rules.device_ratings_a
-    sheet.uses("transformer_protection", "device_ratings")
-    arrangement = "primary and secondary" if tx.secondary_device_a else "primary only"
-    ctx.method("Transformer overcurrent protection limits", "NFPA 70-2023 450.3(B), Table 450.3(B)")
-    for winding, rated_a, device_a in (
-        ("primary", rated[0], tx.primary_device_a),
-        ("secondary", rated[1], tx.secondary_device_a),
+    sh.uses("transformer_protection", "device_ratings")
+    arrangement = _arrangement(ctx, t, is_)
+    if arrangement is None:
+        return _check_loading(ctx, t, sh, ip, is_)
+    for winding, rated, device in (
+        ("primary", ip, t.primary_device_a),
+        ("secondary", is_, t.secondary_device_a),
     ):
-        if device_a is None:
+        if device is None:
             continue
-        limit = protection_limit(rated_a, winding, arrangement, rules, ratings)
-        if not math.isfinite(limit.max_device_a):
+        lim = tk.protection_limit(rated, winding, arrangement, rules, ratings)
+        if not math.isfinite(lim.max_device_a):
             # no standard rating above the computed figure: the figure itself is the limit
-            limit = replace(limit, max_device_a=limit.computed_a)
-        _device_within_limit(ctx, tx, sheet, winding, rated_a, device_a, limit, arrangement)
-
-
-def _device_within_limit(ctx, tx, sheet, winding, rated_a, device_a, limit, arrangement):
-    how = (
-        "next standard rating up permitted"
-        if limit.next_size_up
-        else "largest standard rating not above it"
-    )
-    sheet.step(
-        f"Largest {winding} device ({arrangement})",
-        f"{limit.max_pct:g} % × I_{winding[0]} → {how}",
-        f"{limit.max_pct:g} % × {rated_a:.1f} = {limit.computed_a:.1f} A",
-        limit.max_device_a,
-        "A",
-        limit.rule_id,
-    )
-    ok = passes(device_a, limit.max_device_a, "at_most")
-    note = (
-        f"{device_a:g} A device within the {limit.max_device_a:g} A limit "
-        f"({limit.max_pct:g} % of {rated_a:.1f} A, {arrangement})"
-    )
-    if not ok:
+            lim = replace(lim, max_device_a=lim.computed_a)
+        how = (
+            "next standard rating up permitted"
+            if lim.next_size_up
+            else "largest standard rating not above it"
+        )
+        sh.step(
+            f"Largest {winding} device ({arrangement})",
+            f"{lim.max_pct:g} % × I_{winding[0]} → {how}",
+            f"{lim.max_pct:g} % × {rated:.1f} = {lim.computed_a:.1f} A",
+            lim.max_device_a,
+            "A",
+            lim.rule_id,
+        )
+        ok = passes(device, lim.max_device_a, "at_most")
         note = (
-            f"{device_a:g} A exceeds the largest permitted {limit.max_device_a:g} A "
-            f"({limit.max_pct:g} % of {rated_a:.1f} A, {arrangement}); use a device of "
-            f"{limit.max_device_a:g} A or less"
+            f"{device:g} A device within the {lim.max_device_a:g} A limit "
+            f"({lim.max_pct:g} % of {rated:.1f} A, {arrangement})"
         )
-    ctx.compare(
-        tx.id,
-        f"{winding} device",
-        device_a,
-        limit.max_device_a,
-        "A",
-        "at_most",
-        limit.rule_id,
-        note,
+        if not ok:
+            note = (
+                f"{device:g} A exceeds the largest permitted {lim.max_device_a:g} A "
+                f"({lim.max_pct:g} % of {rated:.1f} A, {arrangement}); use a device of "
+                f"{lim.max_device_a:g} A or less"
+            )
+        ctx.compare(
+            t.id,
+            f"{winding} device",
+            device,
+            lim.max_device_a,
+            "A",
+            "at_most",
+            lim.rule_id,
+            note,
+        )
+
+    _check_loading(ctx, t, sh, ip, is_)
+
+
+def _arrangement(ctx: Context, t: Transformer, rated_secondary_a: float) -> str | None:
+    """The protection table's arrangement for ``t``: Table 450.3(B) (1000 V and less) by
+    whether a secondary device is given; Table 450.3(A) 'any location' over 1000 V by
+    the impedance band and the primary device type (a fuse when the job does not say:
+    the lower limit). None when the table has no row (over 10 %): a warning says so."""
+    if t.primary.line_v <= LOW_VOLTAGE_MAX_V:
+        ctx.method(
+            "Transformer overcurrent protection limits", "NFPA 70-2023 450.3(B), Table 450.3(B)"
+        )
+        return "primary and secondary" if t.secondary_device_a else "primary only"
+    ctx.method(
+        "Transformer overcurrent protection over 1000 V, any location: primary by the "
+        "rated impedance and the device (breaker or fuse), secondary of 1000 V or less at "
+        "125 %",
+        "NFPA 70-2023 450.3(A), Table 450.3(A)",
     )
-
-
-def _loading_and_regulation(ctx: Context, tx: Transformer, sheet, rated) -> None:
-    """Loading and regulation at the demand load; the node's transformer figures."""
-    load = ctx.loads[tx.id]
-    x_r = tx.x_r
-    if tx.x_r_typical:
-        sheet.uses("transformer_xr")
+    if t.z_pct > 10.0:
+        ctx.add(
+            t.id, "primary device", t.primary_device_a, None, "A", "warn",
+            "xfmr-prot-mv-z10-fuse-primary",
+            f"not evaluated: Table 450.3(A) has rows up to 10 % impedance ({t.z_pct:g} % "
+            "given); size the protection by the engineer's study",
+        )  # fmt: skip
+        return None
+    band = "Z up to 6 %" if t.z_pct <= 6.0 else "Z over 6 % up to 10 %"
+    kind = t.primary_device_type or "fuse"
+    if not t.primary_device_type:
         ctx.assume(
-            f"{tx.id}: X/R {x_r:g} taken from the typical-value table ({tx.x_r_typical_row}); "
-            "use the nameplate or test report value where known."
+            f"{t.id}: primary device taken as a fuse (the lower limit of Table 450.3(A)); "
+            "state primary_device_type = 'breaker' for a circuit breaker."
         )
-        sheet.inputs.append(("X/R", f"{x_r:g} (typical, tables/transformer_xr.csv)"))
-    else:
-        sheet.inputs.append(("X/R", f"{x_r:g}"))
-    r_pct, x_pct = impedance_parts_pct(tx.z_pct, x_r)
-    sheet.step(
+    if t.secondary_device_a is None:
+        ctx.add(
+            t.id, "secondary device", None, 1.25 * rated_secondary_a, "A", "warn",
+            f"xfmr-prot-mv-{'z6' if t.z_pct <= 6.0 else 'z10'}-{kind}-secondary",
+            "Table 450.3(A) (any location) requires secondary protection at most 125 % of "
+            f"{rated_secondary_a:.1f} A (next standard rating up); the job gives no "
+            "secondary_device: state it (a main of the equipment the secondary conductors "
+            "end at may serve, up to six devices, note 2)",
+        )  # fmt: skip
+    return f"over 1000 V any location {band} {kind}"
+
+
+def _check_loading(ctx: Context, t: Transformer, sh, ip: float, is_: float) -> None:
+    """Loading and regulation at the demand load, then grounding."""
+    load = ctx.loads[t.id]
+    x_r = t.x_r
+    _x_r_input(ctx, t, sh)
+    r_pct, x_pct = tk.impedance_parts_pct(t.z_pct, x_r)
+    sh.step(
         "Resistance and reactance",
         "%R = %Z / √(1 + (X/R)²), %X = %R · X/R",
-        f"{tx.z_pct:g} / √(1 + {x_r:g}²) = {r_pct:.3f} %; {r_pct:.3f} × {x_r:g}",
+        f"{t.z_pct:g} / √(1 + {x_r:g}²) = {r_pct:.3f} %; {r_pct:.3f} × {x_r:g}",
         round(x_pct, 3),
         "% (%X)",
     )
-    per_unit = load.va / tx.rating_va
-    loading_pct = _loading(ctx, tx, sheet, load.va, per_unit)
-    reg_approx, reg_exact = _regulation(ctx, sheet, r_pct, x_pct, per_unit, load.pf)
-    ctx.nodes[tx.id].values.update(
-        {
-            "rated_primary_a": rated[0],
-            "rated_secondary_a": rated[1],
-            "x_r_transformer": x_r,
-            "loading_pct": loading_pct,
-            "regulation_pct": reg_exact,
-            "regulation_approx_pct": reg_approx,
-            "load_va": load.va,
-        }
-    )
-
-
-def _loading(ctx: Context, tx: Transformer, sheet, load_va: float, per_unit: float) -> float:
-    """Demand kVA against the rating (rule xfmr-loading); returns the loading [%]."""
+    n = load.va / t.rating_va
     rule = ctx.rules.rule("xfmr-loading")
-    loading_pct = 100.0 * per_unit
-    sheet.step(
+    pct = 100.0 * n
+    sh.step(
         "Loading",
         "demand kVA / rated kVA",
-        f"{load_va / 1000:.1f} / {tx.rating_va / 1000:g}",
-        round(loading_pct, 1),
+        f"{load.va / 1000:.1f} / {t.rating_va / 1000:g}",
+        round(pct, 1),
         "%",
         "xfmr-loading",
     )
-    if load_va > 0:
-        ok = passes(loading_pct, rule.number("limit"), "at_most")
+    if load.va > 0:
+        ok = passes(pct, rule.number("limit"), "at_most")
         ctx.compare(
-            tx.id,
+            t.id,
             "loading",
-            loading_pct,
+            pct,
             rule.number("limit"),
             "%",
             "at_most",
             "xfmr-loading",
-            f"demand {load_va / 1000:.1f} kVA on {tx.rating_va / 1000:g} kVA"
+            f"demand {load.va / 1000:.1f} kVA on {t.rating_va / 1000:g} kVA"
             + ("" if ok else "; a larger transformer or less load is needed"),
             fail_status=rule["status"],
         )
-    return loading_pct
-
-
-def _regulation(ctx: Context, sheet, r_pct, x_pct, per_unit, pf) -> tuple[float, float]:
-    """Regulation at the demand load, approximate and exact [%]."""
-    reg_approx = regulation_pct_approximate(r_pct, x_pct, per_unit, pf)
-    reg_exact = regulation_pct_exact(r_pct, x_pct, per_unit, pf)
-    sheet.step(
+    pf = load.pf
+    reg_approx = tk.regulation_pct_approximate(r_pct, x_pct, n, pf)
+    reg_exact = tk.regulation_pct_exact(r_pct, x_pct, n, pf)
+    sh.step(
         "Regulation (approximate)",
         "n(%R cos φ + %X sin φ) + n²(%X cos φ − %R sin φ)²/200",
-        f"n = {per_unit:.3f}, cos φ = {pf:.3f}",
+        f"n = {n:.3f}, cos φ = {pf:.3f}",
         round(reg_approx, 3),
         "%",
     )
-    sheet.step(
+    sh.step(
         "Regulation (exact phasor)",
         "(|1 + n(r cos φ + x sin φ) + j n(x cos φ − r sin φ)| − 1) · 100",
-        f"n = {per_unit:.3f}, cos φ = {pf:.3f}",
+        f"n = {n:.3f}, cos φ = {pf:.3f}",
         round(reg_exact, 3),
         "%",
     )
@@ -228,32 +227,59 @@ def _regulation(ctx: Context, sheet, r_pct, x_pct, per_unit, pf) -> tuple[float,
         "at rated voltage)",
         "IEEE Std C57.12.80 definition; standard series expansion",
     )
-    return reg_approx, reg_exact
+    node = ctx.nodes[t.id]
+    node.values.update(
+        {
+            "rated_primary_a": ip,
+            "rated_secondary_a": is_,
+            "x_r_transformer": x_r,
+            "loading_pct": pct,
+            "regulation_pct": reg_exact,
+            "regulation_approx_pct": reg_approx,
+            "load_va": load.va,
+        }
+    )
+
+    _check_grounding(ctx, t, sh)
 
 
-def _secondary_runs(ctx: Context, tx: Transformer):
-    return [run for run in ctx.job.runs if run.from_id == tx.id]
+def _x_r_input(ctx: Context, t: Transformer, sh) -> None:
+    """The X/R on the sheet; a typical value is an assumption naming its row."""
+    if t.x_r_typical:
+        sh.uses("transformer_xr")
+        ctx.assume(
+            f"{t.id}: X/R {t.x_r:g} taken from the typical-value table ({t.x_r_typical_row}); "
+            "use the nameplate or test report value where known."
+        )
+        sh.inputs.append(("X/R", f"{t.x_r:g} (typical, tables/transformer_xr.csv)"))
+    else:
+        sh.inputs.append(("X/R", f"{t.x_r:g}"))
 
 
-def _check_grounding(ctx: Context, tx: Transformer, sheet) -> None:
-    runs = _secondary_runs(ctx, tx)
+def _secondary_runs(ctx: Context, t: Transformer):
+    return [r for r in ctx.job.runs if r.from_id == t.id]
+
+
+def _check_grounding(ctx: Context, t: Transformer, sh) -> None:
+    runs = _secondary_runs(ctx, t)
     if not runs:
         return
-    total = sum(run.size.area_kcmil * run.sets for run in runs)
+    areas = [(r.size.area_kcmil * r.sets, r.material) for r in runs]
+    total = sum(a for a, _ in areas)
     material = runs[0].material
     rows = ctx.rules.rows("grounding_electrode_conductor")
-    sheet.uses("grounding_electrode_conductor")
-    row = gec_row(total, material, rows)
+    sh.uses("grounding_electrode_conductor")
+    row = tk.gec_row(total, material, rows)
     gec_cu, gec_al = row["gec_cu"], row["gec_al"]
-    sheet.step(
+    sh.step(
         "Largest ungrounded secondary conductor (sum of parallel sets and runs)",
         "Σ sets × area",
-        " + ".join(f"{run.sets} × {run.size.name}" for run in runs),
+        " + ".join(f"{r.sets} × {r.size.name}" for r in runs),
         round(total, 1),
         "kcmil",
         "gec-sds",
     )
-    sheet.step(
+    sh.step(
         "Grounding electrode conductor",
         "Table 250.66 row for that area",
         f"{total:.1f} kcmil {material.upper()} → row {row['row']}",
@@ -262,7 +288,7 @@ def _check_grounding(ctx: Context, tx: Transformer, sheet) -> None:
         "gec-sds",
     )
     ctx.add(
-        tx.id,
+        t.id,
         "grounding electrode conductor",
         SIZES[gec_cu].area_kcmil,
         None,
@@ -281,7 +307,7 @@ def _check_grounding(ctx: Context, tx: Transformer, sheet) -> None:
         )
     else:
         sbj_text = f"at least {gec_cu} Cu or {gec_al} Al"
-    sheet.step(
+    sh.step(
         "System bonding jumper",
         f"Table 250.102(C)(1) ({sbj_pct:g} % of area above its rows)",
         f"{total:.1f} kcmil",
@@ -289,4 +315,4 @@ def _check_grounding(ctx: Context, tx: Transformer, sheet) -> None:
         "",
         "sbj-sds",
     )
-    ctx.add(tx.id, "system bonding jumper", None, None, "", "info", "sbj-sds", sbj_text)
+    ctx.add(t.id, "system bonding jumper", None, None, "", "info", "sbj-sds", sbj_text)

@@ -146,18 +146,22 @@ def _transformer_regulation(ctx: Context, t, load, pct: float, sheet) -> float:
 
 
 def _panel_total_finding(ctx: Context, n: str, cond_drop: float, pct: float, lim) -> None:
-    """The feeder conductors' drop since the transformer, held against the total limit."""
+    """The feeder conductors' drop since the transformer (or the service point),
+    held against the total limit."""
+    start = "transformer" if ctx.tree.upstream_transformer[n] else "service point"
     ctx.compare(
         n,
-        "conductor voltage drop since the transformer",
+        f"conductor voltage drop since the {start}",
         cond_drop,
         lim.max_pct,
         "%",
         "at_most",
         lim.rule_id,
-        f"feeder conductors from the transformer to {n}: {cond_drop:.2f} % "
-        f"(the panel stands at {pct:.2f} % of nominal including transformer "
-        f"regulation); branch circuits must fit in the rest of the "
+        f"{'feeder' if start == 'transformer' else 'service and feeder'} conductors "
+        f"from the {start} to {n}: {cond_drop:.2f} % "
+        f"(the panel stands at {pct:.2f} % of nominal including "
+        f"{'transformer regulation' if start == 'transformer' else 'the source'}"
+        f"); branch circuits must fit in the rest of the "
         f"{lim.max_pct:g} % total",
         fail_status=lim.status,
     )

@@ -7,7 +7,7 @@ import difflib
 import re
 from collections.abc import Sequence
 
-from ..model import SOURCE_ID, Motor, Panel, Run, Transformer, Tree
+from ..model import SOURCE_ID, Motor, Panel, Run, Source, Transformer, Tree
 from .toml_reader import Reader
 
 ID_RE = re.compile(r"^[A-Za-z0-9][A-Za-z0-9_.\-]{0,39}$")
@@ -19,14 +19,17 @@ def check_feed(
     runs: Sequence[Run],
     panels: Sequence[Panel],
     motors: Sequence[Motor],
+    source: Source | None = None,
 ) -> None:
-    """Collect every problem with ids and the shape of the feed into ``r``."""
+    """Collect every problem with ids and the shape of the feed into ``r``. A run may
+    leave a low-voltage source (service conductors); a medium-voltage source feeds
+    transformers only, with no run (medium-voltage conductors are not checked)."""
     malformed = _check_ids(r, transformers, runs, panels, motors)
     nodes = {SOURCE_ID: "source"}
     # an element wrongly named 'source' is reported above; it must not hide the source
     nodes.update({t.id: "transformer" for t in transformers if t.id != SOURCE_ID})
     nodes.update({p.id: "panel" for p in panels if p.id != SOURCE_ID})
-    incoming = _check_runs(r, runs, nodes)
+    incoming = _check_runs(r, runs, nodes, source)
     _check_feeders(r, transformers, panels, motors, nodes, incoming, malformed)
     if not r.problems:
         _check_reachable(r, transformers, runs, panels, nodes, incoming)
@@ -68,7 +71,7 @@ def _hint(target: str, ids: list[str]) -> str:
     return f" — did you mean {close[0]!r}?" if close else ""
 
 
-def _check_runs(r: Reader, runs, nodes: dict[str, str]) -> dict[str, list[str]]:
+def _check_runs(r: Reader, runs, nodes: dict[str, str], source) -> dict[str, list[str]]:
     """Each run's ends name known nodes; returns node id -> the runs into it."""
     all_ids = list(nodes)
     incoming: dict[str, list[str]] = {}
@@ -84,11 +87,13 @@ def _check_runs(r: Reader, runs, nodes: dict[str, str]) -> dict[str, list[str]]:
             r.add(f"run[{i}].to", run.to_id, "a transformer or panel (nothing feeds the source)")
         if run.from_id and run.from_id == run.to_id:
             r.add(f"run[{i}].to", run.to_id, "a different element than its 'from'")
-        if nodes.get(run.from_id) == "source" and nodes.get(run.to_id) == "panel":
+        if run.from_id == SOURCE_ID and source is not None and source.medium_voltage:
             r.add(
                 f"run[{i}].from",
                 run.from_id,
-                "a transformer (panels are fed from a transformer secondary or another panel)",
+                f"a transformer or panel: the source is at {source.voltage.text}, and "
+                "medium-voltage runs are not checked (give the transformer from = "
+                "'source' and no run into it)",
             )
         if run.to_id in nodes:
             incoming.setdefault(run.to_id, []).append(f"run[{i}]")
@@ -201,3 +206,30 @@ def _check_panel_voltage(r: Reader, i: int, pn: Panel, have) -> None:
             f"a voltage without a neutral, or a feed with a {pn.voltage.neutral_v:g} V "
             f"neutral ({have.text} has {have_n})",
         )
+
+
+def check_series(r: Reader, tree: Tree, runs: Sequence[Run], panels: Sequence[Panel]) -> None:
+    """A series-rated panel names a run on its own feed (from the source down to it)."""
+    by_id = {x.id: x for x in runs}
+    for i, pn in enumerate(panels, start=1):
+        if not pn.series_upstream_run:
+            continue
+        path, n = set(), pn.id
+        while n is not None:
+            run = tree.parent_run.get(n)
+            if run is not None:
+                path.add(run.id)
+            n = tree.parent_node[n]
+        if pn.series_upstream_run not in path:
+            r.add(
+                f"panel[{i}].series_upstream",
+                pn.series_upstream_run,
+                "the id of a run on the feed to this panel whose device is the line-side "
+                "device of the series combination" + _hint(pn.series_upstream_run, sorted(path)),
+            )
+        elif by_id[pn.series_upstream_run].device_a is None:
+            r.add(
+                f"panel[{i}].series_upstream",
+                pn.series_upstream_run,
+                "a run with a device (the line-side device of the series combination)",
+            )

@@ -10,18 +10,15 @@ tree, built once (``job.tree``).
 from __future__ import annotations
 
 import hashlib
-import math
 import re
 import tomllib
 from dataclasses import replace
 from pathlib import Path
 
-from ..calc.withstand import MAX_ADIABATIC_S
 from ..errors import ProblemList
 from ..model import (
-    DEVICE_FAMILIES,
     INSULATION_RATINGS_C,
-    OCCUPANCIES,
+    PRIMARY_DEVICE_KINDS,
     RACEWAYS,
     SOURCE_ID,
     TAP_RULES,
@@ -29,20 +26,19 @@ from ..model import (
     VOLTAGE_FACTORS,
     Job,
     Options,
-    Panel,
     Project,
     Run,
-    Source,
     Transformer,
 )
 from .defaults import typical_x_r
-from .element_keys import area_m2 as _area
 from .element_keys import phases_connected as _phases_connected
 from .element_keys import tap_pct as _tap
-from .feed_rules import check_feed, check_voltages
+from .feed_rules import check_feed, check_series, check_voltages
 from .files import FileKind, FileRefused, decode_utf8, read_bytes
 from .motor_keys import read_motor, table_currents
-from .paths import relative_file_inside
+from .panel_reader import read_panel
+from .ranges import CLEARING, DEVICE
+from .source_reader import read_source
 from .toml_reader import (
     DEEP_KEY_VALUE,
     KEY_PARTS_EXPECTED,
@@ -56,19 +52,10 @@ MAX_JOB_BYTES = 2_000_000
 JOB_FILE = FileKind(
     "job file", "(.toml)", MAX_JOB_BYTES, f"a job file under {MAX_JOB_BYTES // 1_000_000} MB"
 )
-# Values outside these ranges are not low-voltage distribution feeds: input errors.
-FAULT_RANGE_A = (100.0, 1.0e6)  # available fault current at the transformer primary
-DEVICE_RANGE_A = (1.0, 6000.0)  # ratings: 6000 A is the largest standard (NFPA 70 240.6(A))
-INTERRUPTING_RANGE_A = (1.0e3, 300.0e3)  # equipment interrupting ratings
-_DEVICE = (*DEVICE_RANGE_A, "an ampere rating from 1 A to 6000 A")
-_INTERRUPTING = (*INTERRUPTING_RANGE_A, "an interrupting rating from 1 kA to 300 kA")
-# the adiabatic withstand method holds up to MAX_ADIABATIC_S (IEC 60364-4-43:2008 434.5.2)
-_CLEARING = (0.001, MAX_ADIABATIC_S, f"a clearing time from 0.001 s to {MAX_ADIABATIC_S:g} s")
 _TEMPERATURE_RATING = "'60 degC', '75 degC' or '90 degC'"
 _INSULATION = "'60 degC', '75 degC', '90 degC' or an insulation type such as 'THHN' or 'XHHW-2'"
 
 PROJECT_KEYS = ("name", "site", "prepared_by", "date", "revision", "rules", "notes")
-SOURCE_KEYS = ("voltage", "phases", "available_fault", "short_circuit_mva", "x_r")
 TRANSFORMER_KEYS = (
     "id",
     "from",
@@ -82,6 +69,7 @@ TRANSFORMER_KEYS = (
     "tap",
     "zero_sequence_ratio",
     "phases_connected",
+    "primary_device_type",
 )
 RUN_KEYS = (
     "id",
@@ -103,23 +91,6 @@ RUN_KEYS = (
     "tap_rule",
     "bonding_jumper",
     "neutral",
-)
-PANEL_KEYS = (
-    "id",
-    "rating",
-    "main_device",
-    "interrupting",
-    "voltage",
-    "schedule",
-    "load",
-    "continuous",
-    "power_factor",
-    "instantaneous_trip",
-    "occupancy",
-    "area",
-    "device_type",
-    "columns",
-    "phases_connected",
 )
 OPTION_KEYS = (
     "impedance_tolerance",
@@ -195,32 +166,35 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
     if not isinstance(src, dict):
         r.add("source", None if src is None else src, "a [source] table (required)")
         src = {}
-    source, phases = _source(r, src, "source" in data)
+    source, phases = read_source(r, src, "source" in data)
     transformers = [
         _transformer(r, t, f"transformer[{i}]", phases)
         for i, t in enumerate(array_of_tables(r, data, "transformer"), start=1)
     ]
-    runs = [_run(r, t, f"run[{i}]") for i, t in enumerate(array_of_tables(r, data, "run"), start=1)]
+    run_tables = array_of_tables(r, data, "run")
+    runs = [_run(r, t, f"run[{i}]") for i, t in enumerate(run_tables, start=1)]
     panels = [
-        _panel(r, t, f"panel[{i}]", job_path.parent)
+        read_panel(r, t, f"panel[{i}]", job_path.parent)
         for i, t in enumerate(array_of_tables(r, data, "panel"), start=1)
     ]
+    _service_ground(r, source, runs, run_tables, {pn.id for pn in panels})
     motor_tables = array_of_tables(r, data, "motor")
     motor_paths = [f"motor[{i}]" for i in range(1, len(motor_tables) + 1)]
     motors = [read_motor(r, t, p) for p, t in zip(motor_paths, motor_tables, strict=True)]
     options = _options(r, _table(r, data, "options", "an [options] table"))
-    check_feed(r, transformers, runs, panels, motors)
+    check_feed(r, transformers, runs, panels, motors, source)
     # schedule paths resolve relative to the job file's folder
     panels = [
         replace(pn, schedule=(job_path.parent / pn.schedule) if pn.schedule else None)
         for pn in panels
     ]
-    if not transformers and "transformer" not in data:
-        r.add("transformer", None, "at least one [[transformer]] block")
+    if not transformers and not panels and "transformer" not in data and "panel" not in data:
+        r.add("transformer", None, "at least one [[transformer]] or [[panel]] block")
     r.problems.raise_if_any()
     tree = build_tree(source, transformers, runs, panels)
     check_voltages(r, tree, transformers, panels)
     motors = table_currents(r, motors, tree, motor_paths)
+    check_series(r, tree, runs, panels)
     r.problems.raise_if_any()
     return Job(
         path=job_path,
@@ -234,6 +208,23 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
         options=options,
         text=text,
     )
+
+
+def _service_ground(r: Reader, source, runs, run_tables, panel_ids: set[str]) -> None:
+    """Service conductors carry no equipment grounding conductor: their grounded
+    conductor is the fault return (NFPA 70-2023 250.24(C)); refuse a ``ground`` on a run
+    from a low-voltage source to a panel (a run to a transformer is a primary feeder)."""
+    if source is None or source.medium_voltage:
+        return
+    for i, (run, raw) in enumerate(zip(runs, run_tables, strict=True), start=1):
+        if run.from_id == SOURCE_ID and run.to_id in panel_ids and "ground" in raw:
+            r.add(
+                f"run[{i}].ground",
+                raw["ground"],
+                "no ground on service conductors (from = 'source'): state their grounded "
+                "conductor as neutral (250.24(C)); the electrode conductor and main "
+                "bonding jumper go under [source]",
+            )
 
 
 def _table(r: Reader, data: dict, name: str, expected: str) -> dict:
@@ -272,65 +263,16 @@ def _project(r: Reader, proj: dict) -> Project:
     return project
 
 
-def _source(r: Reader, src: dict, given: bool) -> tuple[Source | None, int]:
-    """The [source] table and the phases it states (default 3)."""
-    r.check_keys(src, "source", SOURCE_KEYS)
-    phases = int(r.number(src, "source", "phases", 1, 3, default=3, integer=True) or 3)
-    if phases not in (1, 3):
-        r.add("source.phases", phases, "1 or 3")
-    sv = r.voltage(src, "source", "voltage", phases=phases) if src or given else None
-    if sv is not None and "phases" in src and sv.phases != phases and phases in (1, 3):
-        r.add(
-            "source.phases",
-            phases,
-            f"{sv.phases} to match the {sv.phases}-phase voltage {sv.text!r}",
-        )
-    fault_a = _source_fault_a(r, src, sv)
-    xr_src = r.number(src, "source", "x_r", 0.1, 100, default=None)
-    if fault_a is not None and math.isfinite(fault_a) and xr_src is None and "x_r" not in src:
-        r.add(
-            "source.x_r", None, "the source X/R (a number, e.g. 6) when the fault current is finite"
-        )
-    if not sv:
-        return None, phases
-    return Source(sv, fault_a if fault_a is not None else math.inf, xr_src or 6.0), phases
-
-
-def _source_fault_a(r: Reader, src: dict, sv) -> float | None:
-    """Available fault current [A] from ``available_fault`` or ``short_circuit_mva``."""
-    if "available_fault" in src and "short_circuit_mva" in src:
-        r.add(
-            "source.short_circuit_mva",
-            src["short_circuit_mva"],
-            "either available_fault or short_circuit_mva, not both",
-        )
-    fault_a: float | None = None
-    if "short_circuit_mva" in src:
-        mva = r.qty(src, "source", "short_circuit_mva", "power", apparent_only=True)
-        if mva is not None and sv is not None:
-            fault_a = mva / (math.sqrt(3) * sv.line_v if sv.phases == 3 else sv.line_v)
-    elif src:
-        fault_a = r.qty(src, "source", "available_fault", "current", allow_inf=True)
-    if (
-        fault_a is not None
-        and math.isfinite(fault_a)
-        and not (FAULT_RANGE_A[0] <= fault_a <= FAULT_RANGE_A[1])
-    ):
-        key = "short_circuit_mva" if "short_circuit_mva" in src else "available_fault"
-        r.add(
-            f"source.{key}",
-            src.get(key),
-            "an available fault current from 100 A to 1000 kA, or 'infinite'",
-        )
-    return fault_a
-
-
 def _transformer(r: Reader, t: dict, path: str, phases: int) -> Transformer:
     r.check_keys(t, path, TRANSFORMER_KEYS)
     sec = r.voltage(t, path, "secondary", phases=phases)
     # a single-phase transformer may sit on two lines of a three-phase system
     prim = r.voltage(
-        t, path, "primary", phases=1 if sec is not None and sec.phases == 1 else phases
+        t,
+        path,
+        "primary",
+        phases=1 if sec is not None and sec.phases == 1 else phases,
+        medium=True,
     )
     z = r.qty(t, path, "impedance", "percent")
     if z is not None and not (0.5 <= z <= 25):
@@ -357,14 +299,24 @@ def _transformer(r: Reader, t: dict, path: str, phases: int) -> Transformer:
         secondary=sec,
         z_pct=z or 1.0,
         x_r=r.number(t, path, "x_r", 0.1, 50),  # None here: filled once the job is valid
-        primary_device_a=r.qty(t, path, "primary_device", "current", within=_DEVICE) or 0.0,
+        primary_device_a=r.qty(t, path, "primary_device", "current", within=DEVICE) or 0.0,
         secondary_device_a=r.qty(
-            t, path, "secondary_device", "current", required=False, within=_DEVICE
+            t, path, "secondary_device", "current", required=False, within=DEVICE
         ),
         tap_pct=tap or 0.0,
         z0_ratio=r.number(t, path, "zero_sequence_ratio", 0.1, 3),
         phases_connected=_phases_connected(r, t, path, prim),
+        primary_device_type=_primary_device_type(r, t, path),
     )
+
+
+def _primary_device_type(r: Reader, t: dict, path: str) -> str:
+    """``fuse`` or ``breaker``: the column of Table 450.3(A) over 1000 V ("" not stated)."""
+    kind = r.text(t, path, "primary_device_type", required=False)
+    if kind and kind not in PRIMARY_DEVICE_KINDS:
+        r.add(f"{path}.primary_device_type", kind, "'fuse' or 'breaker'")
+        return ""
+    return kind
 
 
 def _run_temperatures(r: Reader, t: dict, path: str) -> tuple[float | None, ...]:
@@ -430,7 +382,7 @@ def _run(r: Reader, t: dict, path: str) -> Run:
         ),
         ground=gsize,
         ground_material=gmat,
-        device_a=r.qty(t, path, "device", "current", required=False, within=_DEVICE),
+        device_a=r.qty(t, path, "device", "current", required=False, within=DEVICE),
         termination_c=term,
         rooftop_mm=r.qty(
             t, path, "rooftop_height", "length", required=False, must_be_positive=False
@@ -438,7 +390,7 @@ def _run(r: Reader, t: dict, path: str) -> Run:
         if "rooftop_height" in t
         else None,
         harmonic_neutral=r.flag(t, path, "harmonic_neutral"),
-        clearing_s=r.qty(t, path, "clearing_time", "time", required=False, within=_CLEARING),
+        clearing_s=r.qty(t, path, "clearing_time", "time", required=False, within=CLEARING),
     )
     run = _run_protection_keys(r, t, path, run)
     if run.rooftop_mm is None:
@@ -495,103 +447,6 @@ def _run_protection_keys(r: Reader, t: dict, path: str, run: Run) -> Run:
         neutral=neutral,
         neutral_material=neutral_mat,
     )
-
-
-def _panel(r: Reader, t: dict, path: str, folder: Path) -> Panel:
-    r.check_keys(t, path, PANEL_KEYS)
-    sched = None
-    if "schedule" in t:
-        stext = r.text(t, path, "schedule")
-        if stext:
-            try:
-                sched = relative_file_inside(stext, folder)
-            except FileRefused as exc:
-                r.add(f"{path}.schedule", exc.value, exc.expected)
-    pf = r.number(t, path, "power_factor", 0.05, 1.0, default=0.9)
-    load = r.qty(t, path, "load", "power", required=False, apparent_only=True)
-    cont = r.qty(
-        t,
-        path,
-        "continuous",
-        "power",
-        required=False,
-        default=0.0,
-        must_be_positive=False,
-        apparent_only=True,
-    )
-    if cont is not None and cont < 0:
-        r.add(f"{path}.continuous", t.get("continuous"), "a continuous load of zero or more")
-    if load is not None and cont is not None and cont > load * (1 + 1e-9):
-        r.add(f"{path}.continuous", t.get("continuous"), "at most the panel's load")
-    return Panel(
-        id=r.text(t, path, "id"),
-        rating_a=r.qty(t, path, "rating", "current", within=_DEVICE) or 0.0,
-        main_device_a=r.qty(t, path, "main_device", "current", required=False, within=_DEVICE),
-        interrupting_a=r.qty(
-            t, path, "interrupting", "current", required=False, within=_INTERRUPTING
-        ),
-        voltage=(pv := r.voltage(t, path, "voltage", required=False)),
-        schedule=sched,
-        load_va=load,
-        continuous_va=cont or 0.0,
-        pf=pf or 0.9,
-        instantaneous_a=r.qty(t, path, "instantaneous_trip", "current", required=False),
-        occupancy=_occupancy(r, t, path),
-        area_m2=_area(r, t, path),
-        device_type=_device_type(r, t, path),
-        schedule_columns=_schedule_columns(r, t, path),
-        phases_connected=_phases_connected(r, t, path, pv, "panel"),
-    )
-
-
-def _schedule_columns(r: Reader, t: dict, path: str) -> tuple[tuple[str, str], ...]:
-    """``columns = {"Cont?" = "continuous", Ins = "insulation"}``: the schedule's column
-    map (:func:`feedcheck.inputs.schedule_header.parse_column_map`)."""
-    from .schedule_header import parse_column_map
-
-    cols = t.get("columns")
-    if cols is None:
-        return ()
-    if not isinstance(cols, dict) or not all(
-        isinstance(k, str) and isinstance(v, str) for k, v in cols.items()
-    ):
-        r.add(f"{path}.columns", cols, 'a table of header = column, e.g. {Ins = "insulation"}')
-        return ()
-    try:
-        return tuple(
-            parse_column_map(
-                ",".join(f"{k}={v}" for k, v in cols.items()), f"{path}.columns"
-            ).items()
-        )
-    except ValueError as exc:
-        r.add(f"{path}.columns", cols, str(exc).split("expected ", 1)[-1])
-        return ()
-
-
-def _occupancy(r: Reader, t: dict, path: str) -> str:
-    """Occupancy for the lighting demand factors of the panel's schedule."""
-    occ = r.text(t, path, "occupancy", required=False, default="other")
-    if occ not in OCCUPANCIES:
-        r.add(
-            f"{path}.occupancy",
-            occ,
-            "one of "
-            + ", ".join(OCCUPANCIES)
-            + " (lighting demand factors of Table 220.42, unit loads of Table 220.12)",
-        )
-        return "other"
-    return occ
-
-
-def _device_type(r: Reader, t: dict, path: str) -> str | None:
-    """Family of the panel's devices, for the test X/R of its interrupting rating."""
-    if "device_type" not in t:
-        return None
-    kind = r.text(t, path, "device_type")
-    if kind not in DEVICE_FAMILIES:
-        r.add(f"{path}.device_type", kind, "one of " + ", ".join(DEVICE_FAMILIES))
-        return None
-    return kind
 
 
 def _options(r: Reader, opts: dict) -> Options:

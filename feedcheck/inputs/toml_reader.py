@@ -13,6 +13,7 @@ from ..model import MATERIAL_WORDS, VoltageSystem
 from ..units import UnitParseError, parse_quantity, parse_voltage_system
 
 VOLTAGE_RANGE_V = (100.0, 1000.0)  # line-to-line; "low voltage" is 1000 V and less
+MEDIUM_VOLTAGE_MAX_V = 35_000.0  # a source (or a transformer primary) up to 35 kV
 
 
 # ---------------------------------------------------------------- bounded parsing
@@ -173,8 +174,16 @@ class Reader:
         return v
 
     def voltage(
-        self, table: dict, path: str, key: str, required: bool = True, phases: int | None = None
+        self,
+        table: dict,
+        path: str,
+        key: str,
+        required: bool = True,
+        phases: int | None = None,
+        medium: bool = False,
     ) -> VoltageSystem | None:
+        """A system voltage; ``medium``: up to 35 kV (a source or a transformer primary),
+        otherwise low voltage only (1000 V and less)."""
         if key not in table:
             if required:
                 self.add(f"{path}.{key}", None, f"a value for {key!r} (required)")
@@ -185,11 +194,18 @@ class Reader:
             self.add(f"{path}.{key}", table[key], exc.expected)
             return None
         lo, hi = VOLTAGE_RANGE_V
+        if medium and hi < vs.voltage_ll_v <= MEDIUM_VOLTAGE_MAX_V:
+            return vs
         if not lo <= vs.voltage_ll_v <= hi:
             self.add(
                 f"{path}.{key}",
                 table[key],
-                f"a low-voltage system from {lo:g} V to {hi:g} V line to line",
+                f"a low-voltage system from {lo:g} V to {hi:g} V line to line"
+                + (
+                    f" or a medium voltage up to {MEDIUM_VOLTAGE_MAX_V / 1000:g} kV"
+                    if medium
+                    else " (medium voltage only at the source and a transformer's primary)"
+                ),
             )
             return None
         return vs

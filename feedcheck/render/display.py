@@ -318,6 +318,12 @@ FIGURES: dict[str, Figure] = {
     "vdrop_pct": Figure("Voltage drop from the source", "drop %", "%", 1, 2),
     "voltage_pct": Figure("Voltage", "V %", "% of nominal", 1, 2),
     "segment_vdrop_pct": Figure("Voltage drop in the feeding run", "run drop %", "%", 1, 2),
+    "service_transformer_va": Figure("Utility transformer rating", "svc kVA", "kVA", 1e-3, 1),
+    "service_z_pct": Figure("Utility transformer impedance", "svc Z %", "%", 1, 2),
+    "service_x_r": Figure("Utility transformer X/R", "svc X/R", "", 1, 2),
+    "service_primary_sc_va": Figure(
+        "Short-circuit power at its primary", "svc prim MVA", "MVA", 1e-6, 1
+    ),
 }
 # the node figures of the terminal summary, in column order
 TERMINAL_FIGURES = (
@@ -398,6 +404,24 @@ def node_title(node_id: str, kind: str, voltage: str) -> str:
     if kind == "source" and node_id == SOURCE_NODE_ID:
         return f"Source, {voltage}"
     return f"{node_id} — {kind}, {voltage}"
+
+
+def service_caption(values: dict) -> str:
+    """The source's utility transformer as the one-line states it ("" when the job
+    states the source by its fault current or short-circuit power).
+
+    >>> service_caption({"service_transformer_va": 750e3, "service_z_pct": 5.75,
+    ...                  "service_primary_sc_va": float("inf")})
+    'service: utility transformer 750 kVA, 5.75 % (infinite primary)'
+    """
+    if "service_transformer_va" not in values:
+        return ""
+    sc = values.get("service_primary_sc_va", float("inf"))
+    primary = "infinite primary" if sc == float("inf") else f"primary {sc / 1e6:g} MVA"
+    return (
+        f"service: utility transformer {values['service_transformer_va'] / 1000:g} kVA, "
+        f"{values['service_z_pct']:g} % ({primary})"
+    )
 
 
 def node_caption(node_id: str, kind: str) -> str:

@@ -11,7 +11,7 @@ Limits chosen (rule for absurd magnitudes)
 A value is an **input error** (exit 2) when it cannot describe a low-voltage
 distribution feed at all, or lies outside the range where the tool's methods hold;
 anything physically possible but unwise is left to the checks (a ``warn`` or
-``fail`` finding, exit 0 or 1). The ranges in ``feedcheck/inputs/job_file.py``:
+``fail`` finding, exit 0 or 1). The ranges in ``feedcheck/inputs/ranges.py``:
 
 * run length: > 0 and at most 2000 m (6560 ft); beyond that the short-line
   impedance model and the feeder-scale drop limits stop being a sensible study
@@ -24,6 +24,7 @@ anything physically possible but unwise is left to the checks (a ``warn`` or
   source: the highest listed current-limiting fuse ratings);
 * available fault current at the primary: 100 A to 1000 kA, or ``"infinite"``;
 * system voltages: 100 V to 1000 V line to line ("low voltage" is 1000 V and less);
+  the source and a transformer's primary also up to 35 kV (medium voltage);
 * NaN, infinity (except an infinite bus), zero and negative values are refused
   wherever a positive quantity is meant; numbers need a unit; a decimal comma
   (``"1,5 m"``) is refused instead of being read as 15 m.
@@ -129,8 +130,10 @@ CASES = [
      [("run[1].device got '1e9 A'; expected an ampere rating from 1 A to 6000 A", '1e9 A')]),
     ('interrupting-absurd', 'interrupting = "22 kA"', 'interrupting = "1e9 kA"',
      [("panel[1].interrupting got '1e9 kA'; expected an interrupting rating from 1 kA to 300 kA", '1e9 kA')]),
-    ('source-voltage-medium', 'voltage = "480 V delta"', 'voltage = "13800 V delta"',
-     [("source.voltage got '13800 V delta'; expected a low-voltage system from 100 V to 1000 V line to line", '13800 V')]),
+    ('source-voltage-over-35kv', 'voltage = "480 V delta"', 'voltage = "69 kV delta"',
+     [("source.voltage got '69 kV delta'; expected a low-voltage system from 100 V to 1000 V line to line or a medium voltage up to 35 kV", '69 kV')]),
+    ('panel-voltage-medium', 'load = "20 kVA"', 'load = "20 kVA"\nvoltage = "13.8 kV"',
+     [("panel[2].voltage got '13.8 kV'; expected a low-voltage system from 100 V to 1000 V line to line (medium voltage only at the source and a transformer's primary)", '13.8 kV')]),
     ('voltage-unparseable', 'voltage = "480 V delta"', 'voltage = "480 Volts-ish"',
      [(f"source.voltage got '480 Volts-ish'; expected {VSYS}", 'Volts-ish')]),
     ('wye-ratio-wrong', 'secondary = "208Y/120 V"', 'secondary = "208Y/100 V"',
@@ -179,8 +182,8 @@ CASES = [
      [("panel[2].id got 'P B'; expected an id of letters, digits, '-', '_' or '.' (at most 40, starting with a letter or digit)", 'id = "P B"'), (f"run[2].to got 'PB'; expected {NODE} — did you mean 'P B'?", 'to = "PB"')]),
     ('run-to-itself', 'to = "PB"', 'to = "PA"',
      [("run[2].to got 'PA'; expected a different element than its 'from'", ('to = "PA"', 2)), ("run[2].to got 'PA'; expected one run into 'PA' (radial feed; run[1] feeds it)", ('to = "PA"', 2)), ("panel[2].id got 'PB'; expected a [[run]] with to = 'PB' feeding it", 'id = "PB"')]),
-    ('panel-from-source', 'from = "TX1"', 'from = "source"',
-     [("run[1].from got 'source'; expected a transformer (panels are fed from a transformer secondary or another panel)", 'from = "source"\nto')]),
+    ('service-run-ground', 'from = "TX1"', 'from = "source"',
+     [("run[1].ground got '3 AWG Cu'; expected no ground on service conductors (from = 'source'): state their grounded conductor as neutral (250.24(C)); the electrode conductor and main bonding jumper go under [source]", 'ground = "3 AWG Cu"')]),
     ('panel-voltage-mismatch', 'interrupting = "10 kA"', 'interrupting = "10 kA"\nvoltage = "120/240 V"',
      [("panel[2].voltage got '120/240 V'; expected the voltage of the feed that reaches it (208Y/120 V)", '120/240 V')]),
     ('primary-voltage-mismatch', 'primary = "480 V delta"', 'primary = "208Y/120 V"',
@@ -188,7 +191,7 @@ CASES = [
     ('phases-mismatch', 'secondary = "208Y/120 V"', 'secondary = "120/240 V"',
      [("transformer[1].secondary got '120/240 V'; expected a 3-phase secondary like the 3-phase primary (480 V delta)", '120/240 V')]),
     ('misspelt-key', 'rating = "100 A"', 'ratting = "100 A"',
-     [("panel[2].ratting got 'ratting'; expected one of the keys id, rating, main_device, interrupting, voltage, schedule, load, continuous, power_factor, instantaneous_trip, occupancy, area, device_type, columns, phases_connected — did you mean 'rating'?", 'ratting'), ("panel[2].rating got (missing); expected a value for 'rating' (required)", ('[[panel]]', 2))]),
+     [("panel[2].ratting got 'ratting'; expected one of the keys id, rating, main_device, interrupting, voltage, schedule, load, continuous, power_factor, instantaneous_trip, occupancy, area, device_type, columns, phases_connected, series_rating, series_upstream, series_upstream_device — did you mean 'rating'?", 'ratting'), ("panel[2].rating got (missing); expected a value for 'rating' (required)", ('[[panel]]', 2))]),
     ('missing-required', 'primary_device = "175 A"\n', '',
      [("transformer[1].primary_device got (missing); expected a value for 'primary_device' (required)", '[[transformer]]')]),
     ('single-bracket-transformer', '[[transformer]]', '[transformer]',

@@ -32,6 +32,7 @@ from ..display import (
     node_title,
     percent,
     plain,
+    service_caption,
     status_word,
 )
 
@@ -195,6 +196,8 @@ def _node_lines(node, run, display: Display) -> tuple[str, str, str]:
         sub = f"fed by run {node.via_run}"
     elif node.parent is not None:
         sub = f"connected directly to {node.parent}"
+    elif node.kind == "source":
+        sub = service_caption(v)
     return head, " · ".join(parts), sub
 
 
