@@ -15,61 +15,9 @@ from .context import Context
 
 def check_transformer(ctx: Context, t: Transformer) -> None:
     sh = ctx.sheet(t.id, "transformer", f"Transformer {t.id}")
-    ph = t.primary.phases
-    sh.inputs += [
-        ("Rating", f"{t.rating_va / 1000:g} kVA"),
-        ("Primary", t.primary.text),
-        ("Secondary", t.secondary.text),
-        ("Impedance", f"{t.z_pct:g} %"),
-        ("Primary device", f"{t.primary_device_a:g} A"),
-        (
-            "Secondary device",
-            f"{t.secondary_device_a:g} A" if t.secondary_device_a else "none at the transformer",
-        ),
-    ]
-    ip = tk.rated_current_a(t.rating_va, t.primary.line_v, ph)
-    is_ = tk.rated_current_a(t.rating_va, t.secondary.line_v, ph)
-    form = "S / (√3 · V_LL)" if ph == 3 else "S / V"
-    k = "√3 · " if ph == 3 else ""
-    sh.step(
-        "Rated primary current",
-        f"I_p = {form}",
-        f"{t.rating_va:,.0f} / ({k}{t.primary.line_v:g})",
-        round(ip, 1),
-        "A",
-    )
-    sh.step(
-        "Rated secondary current",
-        f"I_s = {form}",
-        f"{t.rating_va:,.0f} / ({k}{t.secondary.line_v:g})",
-        round(is_, 1),
-        "A",
-    )
-    ctx.method(
-        "Rated current I = S/(√3·V) three-phase, S/V single-phase", "IEEE Std 141-1993 ch. 4"
-    )
-    ctx.add(
-        t.id,
-        "rated primary current",
-        ip,
-        None,
-        "A",
-        "info",
-        "rated-current",
-        f"{t.rating_va / 1000:g} kVA at {t.primary.line_v:g} V",
-    )
-    ctx.add(
-        t.id,
-        "rated secondary current",
-        is_,
-        None,
-        "A",
-        "info",
-        "rated-current",
-        f"{t.rating_va / 1000:g} kVA at {t.secondary.line_v:g} V",
-    )
+    ip, is_ = _rated_currents(ctx, t, sh)
 
-    # --- overcurrent protection, 450.3(B)
+    # --- overcurrent protection, 450.3(B) (450.3(A) over 1000 V)
     rules = list(ctx.rules.transformer_protection)
     ratings = ctx.rules.device_ratings_a
     sh.uses("transformer_protection", "device_ratings")
@@ -86,42 +34,87 @@ def check_transformer(ctx: Context, t: Transformer) -> None:
         if not math.isfinite(lim.max_device_a):
             # no standard rating above the computed figure: the figure itself is the limit
             lim = replace(lim, max_device_a=lim.computed_a)
-        how = (
-            "next standard rating up permitted"
-            if lim.next_size_up
-            else "largest standard rating not above it"
-        )
-        sh.step(
-            f"Largest {winding} device ({arrangement})",
-            f"{lim.max_pct:g} % × I_{winding[0]} → {how}",
-            f"{lim.max_pct:g} % × {rated:.1f} = {lim.computed_a:.1f} A",
-            lim.max_device_a,
-            "A",
-            lim.rule_id,
-        )
-        ok = passes(device, lim.max_device_a, "at_most")
-        note = (
-            f"{device:g} A device within the {lim.max_device_a:g} A limit "
-            f"({lim.max_pct:g} % of {rated:.1f} A, {arrangement})"
-        )
-        if not ok:
-            note = (
-                f"{device:g} A exceeds the largest permitted {lim.max_device_a:g} A "
-                f"({lim.max_pct:g} % of {rated:.1f} A, {arrangement}); use a device of "
-                f"{lim.max_device_a:g} A or less"
-            )
-        ctx.compare(
-            t.id,
-            f"{winding} device",
-            device,
-            lim.max_device_a,
-            "A",
-            "at_most",
-            lim.rule_id,
-            note,
-        )
-
+        _device_within_limit(ctx, t, sh, (winding, rated, device), lim, arrangement)
     _check_loading(ctx, t, sh, ip, is_)
+
+
+def _rated_currents(ctx: Context, t: Transformer, sh) -> tuple[float, float]:
+    """The nameplate on the sheet and the rated primary and secondary currents [A]."""
+    ph = t.primary.phases
+    sh.inputs += [
+        ("Rating", f"{t.rating_va / 1000:g} kVA"),
+        ("Primary", t.primary.text),
+        ("Secondary", t.secondary.text),
+        ("Impedance", f"{t.z_pct:g} %"),
+        ("Primary device", f"{t.primary_device_a:g} A"),
+        (
+            "Secondary device",
+            f"{t.secondary_device_a:g} A" if t.secondary_device_a else "none at the transformer",
+        ),
+    ]
+    form = "S / (√3 · V_LL)" if ph == 3 else "S / V"
+    k = "√3 · " if ph == 3 else ""
+    ctx.method(
+        "Rated current I = S/(√3·V) three-phase, S/V single-phase", "IEEE Std 141-1993 ch. 4"
+    )
+    out = []
+    for winding, system in (("primary", t.primary), ("secondary", t.secondary)):
+        rated = tk.rated_current_a(t.rating_va, system.voltage_ll_v, ph)
+        sh.step(
+            f"Rated {winding} current",
+            f"I_{winding[0]} = {form}",
+            f"{t.rating_va:,.0f} / ({k}{system.voltage_ll_v:g})",
+            round(rated, 1),
+            "A",
+        )
+        out.append(rated)
+    for winding, system, rated in (
+        ("primary", t.primary, out[0]),
+        ("secondary", t.secondary, out[1]),
+    ):
+        ctx.add(
+            t.id,
+            f"rated {winding} current",
+            rated,
+            None,
+            "A",
+            "info",
+            "rated-current",
+            f"{t.rating_va / 1000:g} kVA at {system.voltage_ll_v:g} V",
+        )
+    return out[0], out[1]
+
+
+def _device_within_limit(ctx: Context, t: Transformer, sh, what, lim, arrangement) -> None:
+    """A winding's device against its protection limit: the step and the finding;
+    ``what`` is (winding, rated current, device rating)."""
+    winding, rated, device = what
+    how = (
+        "next standard rating up permitted"
+        if lim.next_size_up
+        else "largest standard rating not above it"
+    )
+    sh.step(
+        f"Largest {winding} device ({arrangement})",
+        f"{lim.max_pct:g} % × I_{winding[0]} → {how}",
+        f"{lim.max_pct:g} % × {rated:.1f} = {lim.computed_a:.1f} A",
+        lim.max_device_a,
+        "A",
+        lim.rule_id,
+    )
+    note = (
+        f"{device:g} A device within the {lim.max_device_a:g} A limit "
+        f"({lim.max_pct:g} % of {rated:.1f} A, {arrangement})"
+    )
+    if not passes(device, lim.max_device_a, "at_most"):
+        note = (
+            f"{device:g} A exceeds the largest permitted {lim.max_device_a:g} A "
+            f"({lim.max_pct:g} % of {rated:.1f} A, {arrangement}); use a device of "
+            f"{lim.max_device_a:g} A or less"
+        )
+    ctx.compare(
+        t.id, f"{winding} device", device, lim.max_device_a, "A", "at_most", lim.rule_id, note
+    )
 
 
 def _arrangement(ctx: Context, t: Transformer, rated_secondary_a: float) -> str | None:
