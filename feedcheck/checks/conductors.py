@@ -7,7 +7,6 @@ from __future__ import annotations
 from ..calc import ampacity as ak
 from ..calc import protection as pk
 from ..calc import selection as sk
-from ..calc.constants import M_PER_FT
 from ..calc.sizes import SIZES
 from ..model import Run
 from .bonding import check_sds_conductors
@@ -74,7 +73,7 @@ def _run_sheet(ctx: Context, run: Run):
     sh = ctx.sheet(run.id, "run", f"Run {run.id} ({run.from_id} → {run.to_id})")
     sh.inputs += [
         ("From → to", f"{run.from_id} → {run.to_id}"),
-        ("Length", f"{run.length_m / M_PER_FT:,.0f} ft ({run.length_m:,.1f} m)"),
+        ("Length", ctx.length(run.length_m, pair=True)),
         (
             "Conductors",
             f"{run.sets} × {run.size.name} {run.material.capitalize()}, "

@@ -7,6 +7,7 @@ from dataclasses import dataclass, field
 from ..calc.power import current_from_apparent_power_a
 from ..findings import Finding, Status
 from ..model import Job, Tree
+from ..render.display import Display
 from ..results import NodeResult, Sheet
 from ..rulebook import RuleBook, current_rulebook
 from .compare import TOLERANCE, Direction, compare
@@ -51,6 +52,12 @@ class Context:
     phases: dict[str, PhaseLoad] = field(default_factory=dict)  # line currents per node
     lighting_minimum: list = field(default_factory=list)  # 220.12 figures (checks/lighting)
     chains: dict = field(default_factory=dict)  # panel id -> DemandChain of its schedule
+
+    def length(self, length_m: float, decimals: int | None = None, pair: bool = False) -> str:
+        """A length [m] for a note or a sheet, in the unit the job is written in (``pair``:
+        the other unit beside it in brackets)."""
+        display = Display(getattr(self.job, "length_unit", "ft"))
+        return display.length_pair(length_m) if pair else display.length(length_m, None, decimals)
 
     def design_factor(self) -> float:
         """The continuous-load factor (rule device-continuous-125)."""

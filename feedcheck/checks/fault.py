@@ -13,7 +13,7 @@ from ..calc import conductor as ck
 from ..calc import fault as fk
 from ..calc import fault_lg as lg
 from ..calc import transformer as tk
-from ..calc.constants import M_PER_FT, SQRT3
+from ..calc.constants import SQRT3
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
 from .context import Context
 from .fault_duty import (
@@ -495,7 +495,7 @@ def _trip_fixes(ctx, fa, panel_id, run, required_a, z_up1, z_up0) -> str:
     a = 2 * z_up1 + z_up0 if v.kind == "wye" else 3 * z_up1
     max_len = float(lg.max_length_for_trip_m(_v_ln(v), a, zp, zr, required_a, fa.c_min))
     parts = [
-        f"it would trip with the run at most {max_len / M_PER_FT:,.0f} ft ({max_len:,.1f} m)"
+        f"it would trip with the run at most {ctx.length(max_len, pair=True)}"
         if max_len > 0
         else "no run length would make it trip"
     ]

@@ -19,10 +19,6 @@ from ..results import (
 from ..tables import Table
 from .context import Context
 
-# today's reports show metres (feet beside them on the one-line diagram); a job's own
-# unit system is not recorded by the job reader yet
-DEFAULT_LENGTH_UNIT = "m"
-
 
 def describe_results(ctx: Context, results: Results) -> Results:
     """Fill the descriptive fields of ``results`` from the check context; return it."""
@@ -33,7 +29,7 @@ def describe_results(ctx: Context, results: Results) -> Results:
     book = ctx.rules.tables
     results.provenance = [table_provenance(book[name]) for name in sorted(book)]
     results.job_sha256 = ctx.job.file_sha256
-    results.length_unit = DEFAULT_LENGTH_UNIT
+    results.length_unit = getattr(ctx.job, "length_unit", "ft")
     return results
 
 

@@ -11,7 +11,7 @@ import numpy as np
 from ..calc import conductor as ck
 from ..calc import transformer as tk
 from ..calc import vdrop as vk
-from ..calc.constants import M_PER_FT, SQRT3
+from ..calc.constants import SQRT3
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
 from .compare import passes
 from .context import Context
@@ -187,7 +187,7 @@ def _run_drop(
             "%",
             "fail",
             lim.rule_id,
-            f"{current:.0f} A over {run.length_m / M_PER_FT:,.0f} ft of {run.size.name}: the "
+            f"{current:.0f} A over {ctx.length(run.length_m)} of {run.size.name}: the "
             "load cannot be delivered (the voltage collapses); "
             + _smallest_passing(ctx, run, current, pf, kind, lim.max_pct, pv.line_v),
         )
@@ -259,7 +259,7 @@ def _feeder_finding(ctx: Context, run, pv, lim, upstream_pct: float, figures) ->
     ok = passes(cum, lim.max_pct, "at_most")
     note = (
         f"{pct:.2f} % (approximate form {approx_pct:.2f} %) at {current:.0f} A over "
-        f"{run.length_m / M_PER_FT:,.0f} ft"
+        f"{ctx.length(run.length_m)}"
     )
     if upstream_pct > 0:
         note += (
@@ -327,7 +327,7 @@ def _smallest_passing(ctx, run, current, pf, kind, limit_pct, nominal_v) -> str:
         if idx >= 0
         else f"no {run.material.capitalize()} size up to {names[-1]} passes with {run.sets} set(s)"
     )
-    return f"{size_text}; with {run.size.name} the run may be at most {max_len / M_PER_FT:,.0f} ft"
+    return f"{size_text}; with {run.size.name} the run may be at most {ctx.length(max_len)}"
 
 
 def _motor_starting(ctx: Context) -> None:
@@ -416,6 +416,6 @@ def _motor_branch(ctx: Context, m, phases: int) -> tuple[float, float, str]:
     return (
         k * float(r) * m.length_m,
         k * float(x) * m.length_m,
-        f"at the motor terminals ({m.length_m / M_PER_FT:,.0f} ft of {m.size.name} "
+        f"at the motor terminals ({ctx.length(m.length_m)} of {m.size.name} "
         f"{m.material.capitalize()} from {m.panel_id})",
     )

@@ -242,12 +242,20 @@ class Display:
             return fixed(length_m, decimals)
         return fixed(float(length_m) / per, decimals)  # type: ignore[arg-type]
 
-    def length(self, length_m: object, unit: str | None = None) -> str:
-        """A length [m] with its unit ("12.2 m" or "40 ft")."""
-        return f"{self.length_figure(length_m, unit)} {unit or self.length_unit}"
+    def length(self, length_m: object, unit: str | None = None, decimals: int | None = None) -> str:
+        """A length [m] with its unit ("12.2 m" or "40 ft"); ``decimals``: instead of the
+        unit's usual number."""
+        unit = unit or self.length_unit
+        if decimals is not None and isinstance(length_m, (int, float)):
+            return f"{fixed(float(length_m) / LENGTH_UNITS[unit][0], decimals)} {unit}"
+        return f"{self.length_figure(length_m, unit)} {unit}"
 
     def length_pair(self, length_m: float) -> str:
-        """A length in the display unit with the other one in brackets."""
+        """A length in the display unit with the other one in brackets.
+
+        >>> Display("ft").length_pair(28.956), Display("ft").length(1.0, decimals=1)
+        ('95 ft (29.0 m)', '3.3 ft')
+        """
         return f"{self.length(length_m)} ({self.length(length_m, self.other_length_unit)})"
 
 
@@ -257,6 +265,37 @@ DEFAULT_DISPLAY = Display()
 def display_for(results: object) -> Display:
     """The display choices the results name (metres when they name none)."""
     return Display(getattr(results, "length_unit", "m") or "m")
+
+
+def finding_figures(
+    value: object,
+    limit: object,
+    unit: str,
+    display: Display = DEFAULT_DISPLAY,
+    style: NumberStyle = REPORT,
+) -> tuple[str, str]:
+    """(figure, limit) of a finding as shown, each with its unit ("" when absent); a
+    length (unit ``m``) in the display's length unit.
+
+    >>> finding_figures(18.288, 7.62, "m", Display("ft"))
+    ('60 ft', '25 ft')
+    >>> finding_figures(31.25, None, "A"), finding_figures(None, 5.0, "%")
+    (('31.25 A', ''), ('', '5.00 %'))
+    >>> finding_figures(250.0, float("inf"), "A")
+    ('250.0 A', 'unlimited')
+    """
+
+    def one(v: object) -> str:
+        if v is None:
+            return ""
+        if unit == "m" and isinstance(v, (int, float)) and not isinstance(v, bool):
+            return display.length(v)
+        shown = number(v, style)
+        if shown in (UNLIMITED, UNBOUNDED_BELOW, MISSING):
+            return shown
+        return f"{shown} {unit}".rstrip()
+
+    return one(value), one(limit)
 
 
 # ------------------------------------------------------------------ node labels

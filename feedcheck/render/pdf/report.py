@@ -201,7 +201,7 @@ def _drawings_story(results, display, heading) -> list:
     return story
 
 
-def _sheets_story(results, by_subject: dict, heading) -> list:
+def _sheets_story(results, by_subject: dict, display, heading) -> list:
     """One calculation sheet per element, node figures without a sheet, other findings."""
     story = [PageBreak(), heading("Calculation sheets", "sheets", 0, "h1")]
     nodes = {n.id: n for n in results.nodes}
@@ -217,6 +217,7 @@ def _sheets_story(results, by_subject: dict, heading) -> list:
             by_subject.get(sheet.element_id, []),
             tables_by_name,
             heading,
+            display,
         )
         story.append(Spacer(1, 10))
     for n in results.nodes:
@@ -230,7 +231,7 @@ def _sheets_story(results, by_subject: dict, heading) -> list:
     if rest:
         story.append(CondPageBreak(200))
         story.append(heading("Other findings", "other", 1, "h1"))
-        story.append(sx.findings_table(rest, with_subject=True))
+        story.append(sx.findings_table(rest, with_subject=True, display=display))
     return story
 
 
@@ -245,7 +246,7 @@ def _schedules_story(results, by_subject: dict, display, heading) -> list:
         rows = by_subject_prefix(by_subject, pid)
         if rows:
             story.append(sx.p("Circuit findings", "h2"))
-            story.append(sx.findings_table(rows, with_subject=True))
+            story.append(sx.findings_table(rows, with_subject=True, display=display))
         story.append(Spacer(1, 10))
     return story
 
@@ -268,7 +269,7 @@ def build_story(results, pages: dict[str, int]) -> list:
     story += [PageBreak()]
     story += sx.findings_summary(results, page_of, heading)
     story += _drawings_story(results, display, heading)
-    story += _sheets_story(results, by_subject, heading)
+    story += _sheets_story(results, by_subject, display, heading)
     story += _schedules_story(results, by_subject, display, heading)
     story += [PageBreak()]
     story += sx.methods_section(results, heading)

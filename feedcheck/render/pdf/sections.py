@@ -22,7 +22,9 @@ from ..display import (
     MISSING,
     STATUS_MEANING,
     Display,
+    display_for,
     figure_label,
+    finding_figures,
     fixed,
     is_flagged,
     node_figure,
@@ -249,7 +251,7 @@ def findings_summary(results, page_of, heading) -> list:
     if not shown:
         out.append(p("No check failed and none gave a warning.", "h2"))
         return out
-    out.append(findings_table(shown, page_of, with_subject=True))
+    out.append(findings_table(shown, page_of, with_subject=True, display=display_for(results)))
     return out
 
 
@@ -260,7 +262,7 @@ def _check_cell(f) -> list:
     return cell
 
 
-def findings_table(findings, page_of=None, with_subject=False):
+def findings_table(findings, page_of=None, with_subject=False, display=DEFAULT_DISPLAY):
     head = (
         ["status"]
         + (["element"] if with_subject else [])
@@ -269,14 +271,14 @@ def findings_table(findings, page_of=None, with_subject=False):
     )
     rows = [headed(head)]
     for f in findings:
-        unit = f" {f.unit}" if f.unit else ""
+        value, limit = finding_figures(f.value, f.limit, f.unit, display)
         row = [status_cell(f.status)]
         if with_subject:
             row.append(p(f.subject, "cellb"))
         row += [
             _check_cell(f),
-            p(number(f.value) + (unit if f.value is not None else "")),
-            p(number(f.limit) + (unit if f.limit is not None else "")),
+            p(value or MISSING),
+            p(limit or MISSING),
             p(f.rule_id),
         ]
         if page_of:
@@ -302,7 +304,9 @@ def node_figures_table(node):
     return grid_table(rows, [230, 90, 70, WIDTH - 390])
 
 
-def sheet_section(sheet, node, findings, tables_by_name, heading) -> list:
+def sheet_section(
+    sheet, node, findings, tables_by_name, heading, display: Display = DEFAULT_DISPLAY
+) -> list:
     out = [heading(f"Calculation sheet — {sheet.title}", f"sheet:{sheet.element_id}", 1, "h1")]
     if sheet.inputs:
         out.append(p("Inputs", "h2"))
@@ -326,7 +330,7 @@ def sheet_section(sheet, node, findings, tables_by_name, heading) -> list:
         out.append(grid_table(rows, [18, 112, 210, 70, WIDTH - 410]))
     if findings:
         out.append(p("Checks: figure, limit, status", "h2"))
-        out.append(findings_table(findings))
+        out.append(findings_table(findings, display=display))
     if node is not None and node.values:
         out.append(p("Figures at this node", "h2"))
         out.append(node_figures_table(node))
