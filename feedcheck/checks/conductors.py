@@ -278,7 +278,7 @@ def check_run(ctx: Context, run: Run) -> None:
         ctx.add(run.id, "ampacity", None, None, "A", "fail", "run-ampacity-after", str(exc))
         return
     for label, value, unit, rid in chain.steps():
-        sh.step(label, "", "", round(value, 3) if isinstance(value, float) else value, unit, rid)
+        sh.step(label, "", "", value, unit, rid)
     ctx.run_values.setdefault(run.id, {}).update(
         {
             "ampacity_a": chain.final_a,

@@ -107,9 +107,17 @@ class Context:
         return f
 
     def sheet(self, element_id: str, kind: str, title: str) -> Sheet:
-        if element_id not in self.sheets:
-            self.sheets[element_id] = Sheet(element_id, kind, title)
-        return self.sheets[element_id]
+        """The element's sheet (made on first use); a sheet never goes untitled: without
+        a title it is called by its kind and id until a check gives one."""
+        sh = self.sheets.get(element_id)
+        if sh is None:
+            default = (
+                kind.capitalize() if element_id == kind else f"{kind.capitalize()} {element_id}"
+            )
+            sh = self.sheets[element_id] = Sheet(element_id, kind, title or default)
+        elif title:
+            sh.title = title
+        return sh
 
     def method(self, name: str, source: str) -> None:
         if (name, source) not in self.methods:

@@ -15,6 +15,7 @@ from ..calc import fault_lg as lg
 from ..calc import transformer as tk
 from ..calc.constants import SQRT3
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
+from ..render.display import bolted_fault_words
 from .context import Context
 from .fault_duty import (
     describe_methods,
@@ -205,28 +206,29 @@ def _sheet_steps(ctx: Context, fa, g: _Figures, i: int, n: str) -> None:
     z_min_node = rf.z_min_ohm[i] * (v_node[i] / vb) ** 2
     v = tree.voltage_of[n]
     form = "I = c·V_LL / (√3·|Z|)" if v.phases == 3 else "I = c·V / |Z_loop| (Z_loop = √3·Z)"
+    bolted = bolted_fault_words(v.phases)
     sh.step(
         "Total impedance to this node, maximum case",
         "Z = Z_source + Z_transformer + Σ Z_runs (referred to this voltage)",
         f"{z_max_node.real * 1e3:.3f} + j{z_max_node.imag * 1e3:.3f} mΩ",
-        round(abs(z_max_node) * 1e3, 3),
+        abs(z_max_node) * 1e3,
         "mΩ",
         "fault-z-tolerance",
     )
     sh.step(
-        "Maximum three-phase fault current",
+        f"Maximum {bolted} fault current",
         form,
         f"{fa.c_max:g} × {v.line_v:g} / (√3 × {abs(z_max_node) * 1e3:.3f} mΩ)"
         + (f" + motors {motor_node[i]:.0f} A" if motor_node[i] > 0 else ""),
-        round(float(fault_max[i])),
+        float(fault_max[i]),
         "A",
         "fault-cond-temp-max",
     )
     sh.step(
-        "Minimum three-phase fault current",
+        f"Minimum {bolted} fault current",
         form,
         f"{fa.c_min:g} × {v.line_v:g} / (√3 × {abs(z_min_node) * 1e3:.3f} mΩ)",
-        round(float(rf.fault_min_a[i])),
+        float(rf.fault_min_a[i]),
         "A",
         "fault-cond-temp-min",
     )
@@ -234,7 +236,7 @@ def _sheet_steps(ctx: Context, fa, g: _Figures, i: int, n: str) -> None:
         "X/R and peak",
         "κ = 1.02 + 0.98·e^(−3/(X/R)); i_p = κ·√2·I_max",
         f"X/R = {rf.x_r[i]:.2f}",
-        round(float(peak[i])),
+        float(peak[i]),
         "A",
         "iec60909-kappa",
     )
@@ -245,7 +247,7 @@ def _sheet_steps(ctx: Context, fa, g: _Figures, i: int, n: str) -> None:
             if v.kind == "wye"
             else "I = V_LN / |Z_LN,source + Σ(Z_phase + Z_return)|",
             f"V_LN = {v.neutral_v:g} V",
-            round(lg_min[n]),
+            lg_min[n],
             "A",
             "fault-z0-ratio-min",
         )
@@ -254,7 +256,7 @@ def _sheet_steps(ctx: Context, fa, g: _Figures, i: int, n: str) -> None:
             "Point-to-point figure (second method)",
             "I = I_start · Π 1/(1 + f)",
             "f = √3·L·I/(C·n·V) per run",
-            round(ptp[n]),
+            ptp[n],
             "A",
             "fault-ptp-disagree",
         )

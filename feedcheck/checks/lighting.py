@@ -64,7 +64,7 @@ def report_minimum_lighting(ctx) -> None:
             "Minimum general lighting load (220.12)",
             "unit load × floor area",
             f"{m.unit_va_per_ft2:g} VA/ft² × {area_ft2:,.0f} ft²",
-            round(m.minimum_va),
+            m.minimum_va,
             "VA",
             m.rule_id,
         )

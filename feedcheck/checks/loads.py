@@ -192,7 +192,7 @@ def phase_design_steps(ctx, node: str, sheet, rule_id: str) -> tuple[float, str]
             f"Phase {LETTERS[j]} current",
             f"I_design = {100 * f:g} % · I_continuous + I_noncontinuous",
             f"{f:g} × {ph.cont_a[j]:.1f} + {ph.non_a[j]:.1f}",
-            round(float(design[j]), 1),
+            float(design[j]),
             "A",
         )
     k = ph.heaviest(f)
@@ -201,7 +201,7 @@ def phase_design_steps(ctx, node: str, sheet, rule_id: str) -> tuple[float, str]
         "Design current (heaviest phase)",
         "max over the phases of I_design",
         f"phase {LETTERS[k]}",
-        round(value, 1),
+        value,
         "A",
         rule_id,
     )
@@ -272,28 +272,28 @@ def demand_chain_steps(chain, sheet) -> None:
         "1. Connected load",
         "Σ circuit loads by kind",
         " + ".join(f"{k} {chain.connected_va[k]:,.0f}" for k in kinds) or "0",
-        round(float(chain.connected_total_va)),
+        float(chain.connected_total_va),
         "VA",
     )
     sheet.step(
         "2. After demand factors",
         "each kind through its tiers (Table 220.42, 220.44; others 100 %)",
         " + ".join(f"{k} {chain.demand_va[k]:,.0f}" for k in kinds) or "0",
-        round(float(chain.demand_total_va)),
+        float(chain.demand_total_va),
         "VA",
     )
     sheet.step(
         "3. Largest motor",
         "+ 25 % of the largest motor (430.24), once",
         f"0.25 × {float(chain.largest_motor_va):,.0f}",
-        round(float(chain.largest_motor_adder_va)),
+        float(chain.largest_motor_adder_va),
         "VA",
     )
     sheet.step(
         "4. Continuous loads",
         "+ 25 % of the continuous non-motor demand (215.2(A)(1))",
         f"0.25 × {float(chain.continuous_demand_va):,.0f}",
-        round(float(chain.continuous_adder_va)),
+        float(chain.continuous_adder_va),
         "VA",
     )
     sheet.step(
@@ -301,7 +301,7 @@ def demand_chain_steps(chain, sheet) -> None:
         "step 2 + step 3 + step 4",
         f"{float(chain.demand_total_va):,.0f} + {float(chain.largest_motor_adder_va):,.0f}"
         f" + {float(chain.continuous_adder_va):,.0f}",
-        round(float(chain.design_va)),
+        float(chain.design_va),
         "VA",
     )
 

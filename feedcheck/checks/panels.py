@@ -46,7 +46,7 @@ def check_panel(ctx: Context, p: Panel) -> None:
         "Demand current, balanced average",
         "I = S / (√3 · V_LL)" if v.phases == 3 else "I = S / V",
         f"{load.va:,.0f} / ({'√3 · ' if v.phases == 3 else ''}{v.line_v:g})",
-        round(i_load, 1),
+        i_load,
         "A",
     )
     demand_chain_steps(ctx.chains.get(p.id), sh)

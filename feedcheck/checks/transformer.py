@@ -35,14 +35,14 @@ def check_transformer(ctx: Context, t: Transformer) -> None:
         "Rated primary current",
         f"I_p = {form}",
         f"{t.rating_va:,.0f} / ({k}{t.primary.line_v:g})",
-        round(ip, 1),
+        ip,
         "A",
     )
     sh.step(
         "Rated secondary current",
         f"I_s = {form}",
         f"{t.rating_va:,.0f} / ({k}{t.secondary.line_v:g})",
-        round(is_, 1),
+        is_,
         "A",
     )
     ctx.method(
@@ -138,7 +138,7 @@ def check_transformer(ctx: Context, t: Transformer) -> None:
         "Resistance and reactance",
         "%R = %Z / √(1 + (X/R)²), %X = %R · X/R",
         f"{t.z_pct:g} / √(1 + {x_r:g}²) = {r_pct:.3f} %; {r_pct:.3f} × {x_r:g}",
-        round(x_pct, 3),
+        x_pct,
         "% (%X)",
     )
     n = load.va / t.rating_va
@@ -148,7 +148,7 @@ def check_transformer(ctx: Context, t: Transformer) -> None:
         "Loading",
         "demand kVA / rated kVA",
         f"{load.va / 1000:.1f} / {t.rating_va / 1000:g}",
-        round(pct, 1),
+        pct,
         "%",
         "xfmr-loading",
     )
@@ -173,14 +173,14 @@ def check_transformer(ctx: Context, t: Transformer) -> None:
         "Regulation (approximate)",
         "n(%R cos φ + %X sin φ) + n²(%X cos φ − %R sin φ)²/200",
         f"n = {n:.3f}, cos φ = {pf:.3f}",
-        round(reg_approx, 3),
+        reg_approx,
         "%",
     )
     sh.step(
         "Regulation (exact phasor)",
         "(|1 + n(r cos φ + x sin φ) + j n(x cos φ − r sin φ)| − 1) · 100",
         f"n = {n:.3f}, cos φ = {pf:.3f}",
-        round(reg_exact, 3),
+        reg_exact,
         "%",
     )
     ctx.method(
@@ -223,7 +223,7 @@ def _check_grounding(ctx: Context, t: Transformer, sh) -> None:
         "Largest ungrounded secondary conductor (sum of parallel sets and runs)",
         "Σ sets × area",
         " + ".join(f"{r.sets} × {r.size.name}" for r in runs),
-        round(total, 1),
+        total,
         "kcmil",
         "gec-sds",
     )

@@ -113,7 +113,7 @@ def check_voltage_drop(ctx: Context) -> None:
                 f"{t.tap_pct:+g} %: + lowers the secondary, nameplate convention)",
                 "E_r = √(E_s² − b²) − a; a = n(r cos φ + x sin φ), b = n(x cos φ − r sin φ)",
                 f"E_s = {sending:.4f} pu, n = {frac:.3f}, cos φ = {load.pf:.3f}",
-                round(100 * sending - reg, 3),
+                100 * sending - reg,
                 "% of nominal",
             )
             pct = 100 * sending - reg
@@ -205,7 +205,7 @@ def _run_drop(
         "I = S / (√3·V_LL)" if three else "I = S / V_LL (single-phase)",
         f"{load.va:,.0f} VA / ({'√3 × ' if three else ''}{pv.line_v:g} V)"
         + ("" if _balanced(feed, pv) else "; lines " + _lines_text(feed)),
-        round(current, 1),
+        current,
         "A",
     )
     sh.step(
@@ -220,21 +220,21 @@ def _run_drop(
         f"VD = {kk} · I · L · (R cos θ + X sin θ) / sets",
         f"{kk} × {current:.1f} × {run.length_m:.1f} m × ({r * 1e3:.4f} × {pf:.3f} + "
         f"{x * 1e3:.4f} × {math.sqrt(max(0.0, 1 - pf * pf)):.3f}) mΩ/m / {run.sets}",
-        round(approx_v, 2),
+        approx_v,
         "V",
     )
     sh.step(
         "Voltage drop, exact phasor (used for checks)",
         "VD = Es + IR cos θ + IX sin θ − √(Es² − (IX cos θ − IR sin θ)²)",
         f"Es = {sending_v:.1f} V",
-        round(exact_v, 2),
+        exact_v,
         "V",
     )
     sh.step(
         "Percent drop",
         "VD / V_nominal × 100",
         f"{exact_v:.2f} / {pv.line_v:g} × 100",
-        round(pct, 2),
+        pct,
         "%",
         limits["feeder"].rule_id,
     )

@@ -63,7 +63,7 @@ class NumberStyle:
     zero: str
 
 
-REPORT = NumberStyle(((1000.0, 0), (100.0, 1), (1.0, 2)), "0.00")
+REPORT = NumberStyle(((1000.0, 0), (100.0, 1), (1.0, 2)), "0")
 TERMINAL = NumberStyle(((100.0, 0), (10.0, 1), (1.0, 2)), "0")
 
 
@@ -85,9 +85,9 @@ def number(v: object, style: NumberStyle = REPORT) -> str:
     >>> number(30_000.0), number(208.21), number(2.5), number(0.01234)
     ('30,000', '208.2', '2.50', '0.0123')
     >>> number(208.21, TERMINAL), number(0.0, TERMINAL), number(2.13e-14), number(-1e-9)
-    ('208', '0', '0.00', '0.00')
-    >>> number(float("inf")), number(None), number(4.5e-5)
-    ('unlimited', '–', '0.000045')
+    ('208', '0', '0', '0')
+    >>> number(float("inf")), number(None), number(4.5e-5), number(15.0), number(31.25)
+    ('unlimited', '–', '0.000045', '15', '31.25')
     """
     if v is None:
         return MISSING
@@ -103,6 +103,8 @@ def number(v: object, style: NumberStyle = REPORT) -> str:
     a = abs(v)
     if a < TINY:
         return style.zero
+    if v.is_integer() and a < 1e15:  # a whole figure is not padded ("15 A", not "15.00 A")
+        return f"{int(v):,}"
     for at_least, decimals in style.steps:
         if a >= at_least:
             return _no_minus_zero(f"{v:,.{decimals}f}")
@@ -206,6 +208,16 @@ def amps(v: object, decimals: int = 1) -> str:
     return f"{fixed(v, decimals)} A"
 
 
+def bolted_fault_words(phases: object) -> str:
+    """The bolted fault a node's maximum and minimum figures are: three-phase on a
+    three-phase system, line-to-line on a single-phase one.
+
+    >>> bolted_fault_words(3), bolted_fault_words(1)
+    ('three-phase', 'line-to-line (single-phase system)')
+    """
+    return "line-to-line (single-phase system)" if phases == 1 else "three-phase"
+
+
 # ------------------------------------------------------------------ lengths
 
 # unit → (metres per unit, decimals shown)
@@ -280,19 +292,19 @@ def finding_figures(
     >>> finding_figures(18.288, 7.62, "m", Display("ft"))
     ('60 ft', '25 ft')
     >>> finding_figures(31.25, None, "A"), finding_figures(None, 5.0, "%")
-    (('31.25 A', ''), ('', '5.00 %'))
+    (('31.25 A', ''), ('', '5 %'))
     >>> finding_figures(250.0, float("inf"), "A")
-    ('250.0 A', 'unlimited')
+    ('250 A', 'unlimited')
     """
 
     def one(v: object) -> str:
         if v is None:
             return ""
-        if unit == "m" and isinstance(v, (int, float)) and not isinstance(v, bool):
-            return display.length(v)
         shown = number(v, style)
         if shown in (UNLIMITED, UNBOUNDED_BELOW, MISSING):
             return shown
+        if unit == "m" and isinstance(v, (int, float)) and not isinstance(v, bool):
+            return display.length(v)
         return f"{shown} {unit}".rstrip()
 
     return one(value), one(limit)
@@ -344,8 +356,21 @@ FIGURES: dict[str, Figure] = {
     "fault_ptp_a": Figure("Fault current, point-to-point method", "p-t-p kA", "kA", 1e-3, 2),
     "fault_ptp_diff_pct": Figure("Point-to-point against ohmic", "p-t-p diff %", "%", 1, 1),
     "vdrop_pct": Figure("Voltage drop from the source", "drop %", "%", 1, 2),
-    "voltage_pct": Figure("Voltage", "V %", "% of nominal", 1, 2),
+    "voltage_pct": Figure("Voltage at the node, percent of nominal", "V %", "% of nominal", 1, 2),
+    "voltage_v": Figure("Voltage at the node, volts", "V", "V", 1, 1),
     "segment_vdrop_pct": Figure("Voltage drop in the feeding run", "run drop %", "%", 1, 2),
+    "conductor_vdrop_pct": Figure(
+        "Voltage drop in the conductors since the transformer secondary", "cond drop %", "%", 1, 2
+    ),
+    "transformer_drop_pct": Figure("Voltage drop in the transformer", "xfmr drop %", "%", 1, 2),
+    "fault_primary_max_a": Figure(
+        "Fault current at the primary terminals, maximum", "Isc pri max kA", "kA", 1e-3, 2
+    ),
+    "fault_primary_min_a": Figure(
+        "Fault current at the primary terminals, minimum", "Isc pri min kA", "kA", 1e-3, 2
+    ),
+    "fault_motor_a": Figure("Motor contribution to the fault", "motors kA", "kA", 1e-3, 2),
+    "fault_duty_case": Figure("Governing fault case", "duty case", ""),
 }
 # the node figures of the terminal summary, in column order
 TERMINAL_FIGURES = (

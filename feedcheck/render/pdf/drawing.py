@@ -131,6 +131,8 @@ def _node_lines(node, run, display: Display) -> tuple[str, str, str]:
     parts = []
     if "fault_max_a" in v:
         parts.append(f"Isc max {kiloamps(v['fault_max_a'])}")
+    if "fault_duty_a" in v and v.get("fault_duty_case"):
+        parts.append(f"duty {kiloamps(v['fault_duty_a'])} ({v['fault_duty_case']})")
     if "fault_min_a" in v:
         parts.append(f"min {kiloamps(v['fault_min_a'])}")
     if "vdrop_pct" in v and v["vdrop_pct"] is not None:
@@ -402,6 +404,13 @@ def _free_spot(x: float, y: float, w: float, h: float, placed) -> tuple[float, f
     return x, y
 
 
+# the bars of each node: figure, legend, fill (the bolted maximum is line-to-line on a
+# single-phase node, marked 1φ)
+FAULT_BARS = (
+    ("fault_max_a", "maximum bolted (three-phase; 1φ: line-to-line)", GREY),
+    ("fault_duty_a", "interrupting duty (governing case × MF)", colors.black),
+    ("fault_min_a", "minimum", colors.white),
+)
 FAULT_ROW_H = 22.0
 FAULT_ROWS_PER_CHART = 24  # 24 × 22 pt + axes and legend stays well inside a letter page
 
@@ -413,23 +422,16 @@ def _finite(v) -> bool:
 def fault_current_charts(
     results, width: float = 500.0, rows_per_chart: int = FAULT_ROWS_PER_CHART
 ) -> list[Drawing]:
-    """Maximum and minimum fault current at each node as paired bars (kA), in
-    feed order, split into charts of at most ``rows_per_chart`` nodes that share
-    one scale (so bars on different pages compare); empty when no node carries
-    ``fault_max_a`` or ``fault_min_a``."""
-    rows = [
-        n
-        for n in results.nodes
-        if any(_finite(n.values.get(k)) for k in ("fault_max_a", "fault_min_a"))
-    ]
+    """Maximum bolted, governing interrupting duty and minimum fault current at each
+    node as grouped bars (kA), in feed order, split into charts of at most
+    ``rows_per_chart`` nodes that share one scale (so bars on different pages
+    compare); single-phase nodes are marked 1φ (their bolted fault is line-to-line);
+    empty when no node carries any of the figures."""
+    keys = [k for k, _, _ in FAULT_BARS]
+    rows = [n for n in results.nodes if any(_finite(n.values.get(k)) for k in keys)]
     if not rows:
         return []
-    vals = [
-        n.values[k]
-        for n in rows
-        for k in ("fault_max_a", "fault_min_a")
-        if _finite(n.values.get(k))
-    ]
+    vals = [n.values[k] for n in rows for k in keys if _finite(n.values.get(k))]
     xt = nice_ticks(0.0, max(vals) / 1000.0)
     step = max(1, int(rows_per_chart))
     return [_fault_chart_part(rows[i : i + step], xt, width) for i in range(0, len(rows), step)]
@@ -450,29 +452,22 @@ def _fault_chart_part(rows, xt, width: float) -> Drawing:
     sx, _ = _axes(d, x0, y0, w, h, xt, [0.0, 1.0], "fault current (kA)", "", plain, lambda t: "")
     for i, n in enumerate(rows):
         yc = y0 + h - row_h * (i + 0.5)
-        d.add(String(x0 - 4, yc - 3, txt(n.id), fontName=f.bold, fontSize=7.5, textAnchor="end"))
-        for k, dy, fill in (("fault_max_a", 2.5, GREY), ("fault_min_a", -6.5, colors.white)):
+        name = f"{n.id} 1φ" if getattr(n, "phases", None) == 1 else n.id
+        d.add(String(x0 - 4, yc - 3, txt(name), fontName=f.bold, fontSize=7.5, textAnchor="end"))
+        for j, (k, _, fill) in enumerate(FAULT_BARS):
             v = n.values.get(k)
             if not _finite(v):
                 continue
-            x1 = sx(v / 1000.0)
+            x1, yb = sx(v / 1000.0), yc + 4.5 - 6.2 * j
             d.add(
                 Rect(
-                    x0,
-                    yc + dy - 1,
-                    x1 - x0,
-                    7.5,
-                    fillColor=fill,
-                    strokeColor=colors.black,
-                    strokeWidth=0.6,
+                    x0, yb, x1 - x0, 5.2, fillColor=fill, strokeColor=colors.black, strokeWidth=0.5
                 )
             )
-            d.add(String(x1 + 3, yc + dy, fixed(v, 2, 1e-3), fontName=f.regular, fontSize=6.5))
-    ly = height - 12
-    d.add(Rect(x0, ly, 10, 7, fillColor=GREY, strokeColor=colors.black, strokeWidth=0.6))
-    d.add(String(x0 + 14, ly + 1, "maximum (bolted three-phase)", fontName=f.regular, fontSize=7))
-    d.add(
-        Rect(x0 + 150, ly, 10, 7, fillColor=colors.white, strokeColor=colors.black, strokeWidth=0.6)
-    )
-    d.add(String(x0 + 164, ly + 1, "minimum", fontName=f.regular, fontSize=7))
+            d.add(String(x1 + 3, yb + 0.4, fixed(v, 2, 1e-3), fontName=f.regular, fontSize=5.8))
+    lx, ly = x0, height - 12
+    for _, label, fill in FAULT_BARS:
+        d.add(Rect(lx, ly, 10, 7, fillColor=fill, strokeColor=colors.black, strokeWidth=0.6))
+        d.add(String(lx + 14, ly + 1, label, fontName=f.regular, fontSize=7))
+        lx += 24 + stringWidth(label, f.regular, 7)
     return d

@@ -297,11 +297,12 @@ def findings_table(findings, page_of=None, with_subject=False, display=DEFAULT_D
 
 
 def node_figures_table(node):
-    rows = [headed(["figure", "value", "unit", "key"])]
+    """The node's figures, labelled for people (the JSON keys stay in the JSON)."""
+    rows = [headed(["figure", "value", "unit"])]
     for k, v in node.values.items():
         label, shown, unit = node_figure(k, v)
-        rows.append([p(label), p(shown), p(unit), p(k, "note")])
-    return grid_table(rows, [230, 90, 70, WIDTH - 390])
+        rows.append([p(label), p(shown), p(unit)])
+    return grid_table(rows, [300, 110, WIDTH - 410])
 
 
 def sheet_section(
