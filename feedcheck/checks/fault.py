@@ -17,6 +17,7 @@ from ..calc.constants import SQRT3
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
 from ..render.display import bolted_fault_words
 from .context import Context
+from .fault_buildup import record_buildups
 from .fault_duty import (
     describe_methods,
     flag_return_paths,
@@ -29,11 +30,12 @@ from .fault_duty import (
     z0_ratio,
 )
 from .impedance import (
-    branch_impedances,
+    branch_parts,
     fault_assumptions,
     run_impedance_ohm,
     run_return_impedance_ohm,
     source_impedance,
+    summed,
 )
 from .taps import run_device
 
@@ -52,8 +54,9 @@ def check_faults(ctx: Context) -> None:
     vb = job.source.voltage.line_v
 
     zs = source_impedance(job)
-    b_max = branch_impedances(ctx, fa, fa.cond_c_max, "max")
-    b_min = branch_impedances(ctx, fa, None, "min")
+    parts_max = branch_parts(ctx, fa, fa.cond_c_max, "max")
+    parts_min = branch_parts(ctx, fa, None, "min")
+    b_max, b_min = summed(parts_max), summed(parts_min)
 
     def referred(branches):
         arr = np.zeros(len(order), dtype=complex)
@@ -95,6 +98,7 @@ def check_faults(ctx: Context) -> None:
     when = _calc_date(ctx)
     for i, n in enumerate(order):
         _record_node(ctx, fa, figs, i, n, when)
+    record_buildups(ctx, fa, zs, (parts_max, parts_min), rf, motor_node)
 
 
 def _describe_3ph(ctx: Context, fa) -> None:

@@ -190,6 +190,15 @@ def kiloamps(current_a: object) -> str:
     return f"{shown} kA"
 
 
+def milliohms(z_ohm: object) -> str:
+    """An impedance part [Ω] in mΩ, three decimals ("28.915").
+
+    >>> milliohms(0.028915), milliohms(-0.0), milliohms(1.5)
+    ('28.915', '0.000', '1,500.000')
+    """
+    return fixed(z_ohm, 3, 1e3)
+
+
 def percent(v: object, decimals: int = 2) -> str:
     """A percentage with its sign ("2.31 %").
 

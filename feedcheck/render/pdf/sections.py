@@ -22,11 +22,13 @@ from ..display import (
     MISSING,
     STATUS_MEANING,
     Display,
+    amps,
     display_for,
     figure_label,
     finding_figures,
     fixed,
     is_flagged,
+    milliohms,
     node_figure,
     number,
     status_word,
@@ -329,6 +331,8 @@ def sheet_section(
                 ]
             )
         out.append(grid_table(rows, [18, 112, 210, 70, WIDTH - 410]))
+    if sheet.buildup is not None:
+        out += buildup_section(sheet.buildup)
     if findings:
         out.append(p("Checks: figure, limit, status", "h2"))
         out.append(findings_table(findings, display=display))
@@ -350,6 +354,51 @@ def sheet_section(
             )
         out.append(grid_table(rows, [130, 200, 100, WIDTH - 430]))
     return out
+
+
+def buildup_section(b) -> list:
+    """The node's impedance build-up: components, their R and X in both cases referred to
+    the node's voltage, the sums and the fault figures they give."""
+    out = [p(f"Impedance build-up, per phase, referred to {b.voltage}", "h2")]
+    rows = [headed(["component", "max case", "R mΩ", "X mΩ", "min case", "R mΩ", "X mΩ"])]
+    for r in b.rows:
+        rows.append(
+            [
+                p(r.component),
+                p(r.max_case),
+                *ohm_pair(r.z_max_ohm),
+                p(r.min_case),
+                *ohm_pair(r.z_min_ohm),
+            ]
+        )
+    rows.append(
+        [
+            p("Sum (source to this node)", "cellb"),
+            p(""),
+            *ohm_pair(b.z_max_ohm, "cellb"),
+            p(""),
+            *ohm_pair(b.z_min_ohm, "cellb"),
+        ]
+    )
+    out.append(grid_table(rows, [200, 52, 46, 46, 52, 46, WIDTH - 442]))
+    motors = f" + motors {amps(b.motor_a, 0)}" if b.motor_a > 0 else ""
+    for case, c, z, ohmic, total in (
+        ("Maximum", b.c_max, b.z_max_abs_ohm, b.fault_ohmic_max_a, b.fault_max_a),
+        ("Minimum", b.c_min, b.z_min_abs_ohm, b.fault_min_a, b.fault_min_a),
+    ):
+        more = f"{motors} = {amps(total, 0)}" if case == "Maximum" and motors else ""
+        out.append(
+            p(
+                f"{case}: |Z| = {milliohms(z)} mΩ; I = c·V_LL/(√3·|Z|) = {number(c)} × "
+                f"{number(b.voltage_v)} V / (√3 × {milliohms(z)} mΩ) = {amps(ohmic, 0)}{more}",
+                "small",
+            )
+        )
+    return out
+
+
+def ohm_pair(z: complex, style: str = "cell") -> list:
+    return [p(milliohms(z.real), style), p(milliohms(z.imag), style)]
 
 
 # ------------------------------------------------------------ schedules
