@@ -9,6 +9,7 @@ from ..calc import protection as pk
 from ..calc import selection as sk
 from ..calc.sizes import SIZES
 from ..model import Run
+from .ampacity_sheet import ampacity_steps
 from .bonding import check_sds_conductors
 from .compare import passes
 from .context import Context
@@ -277,8 +278,7 @@ def check_run(ctx: Context, run: Run) -> None:
     except ValueError as exc:
         ctx.add(run.id, "ampacity", None, None, "A", "fail", "run-ampacity-after", str(exc))
         return
-    for label, value, unit, rid in chain.steps():
-        sh.step(label, "", "", value, unit, rid)
+    ampacity_steps(ctx, sh, chain, run.raceway == "free-air")
     ctx.run_values.setdefault(run.id, {}).update(
         {
             "ampacity_a": chain.final_a,
