@@ -190,6 +190,17 @@ def kiloamps(current_a: object) -> str:
     return f"{shown} kA"
 
 
+def kilovoltamps(va: object) -> str:
+    """An apparent power [VA] in kVA ("75 kVA", "112.5 kVA").
+
+    >>> kilovoltamps(75_000.0), kilovoltamps(112_500.0)
+    ('75 kVA', '112.5 kVA')
+    """
+    if not isinstance(va, (int, float)) or isinstance(va, bool):
+        return number(va)
+    return f"{number(va * 1e-3)} kVA"
+
+
 def milliohms(z_ohm: object) -> str:
     """An impedance part [Ω] in mΩ, three decimals ("28.915").
 

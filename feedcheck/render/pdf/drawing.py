@@ -3,12 +3,7 @@ voltage profile and the fault-current chart. They draw figures from the
 results (node figures, and the feed's description in ``results.diagram``);
 they compute none. Figures are formatted by :mod:`feedcheck.render.display`.
 
-The one-line diagram is a ladder: one row per node in feed order (source,
-transformers, panels), each indented by its depth in the feed, fed by a line
-from its parent. Symbols: a circle with a wave for the source, two
-overlapping circles for a transformer, a box for a panel. Rows have a fixed
-height, so a feed of any size stays legible; long feeds continue in further
-drawings.
+The one-line diagram is in :mod:`.one_line`.
 """
 
 from __future__ import annotations
@@ -25,14 +20,9 @@ from reportlab.pdfbase.pdfmetrics import stringWidth
 from ..display import (
     DEFAULT_DISPLAY,
     Display,
-    amps,
-    display_for,
     fixed,
-    kiloamps,
-    node_title,
     percent,
     plain,
-    status_word,
 )
 
 GREY = colors.Color(0.45, 0.45, 0.45)
@@ -90,149 +80,6 @@ def txt(s: object) -> str:
     for a, b in _FALLBACK_TEXT.items():
         s = s.replace(a, b)
     return s
-
-
-# ------------------------------------------------------------ one-line diagram
-
-ROW_H = 38.0
-INDENT = 26.0
-ROWS_PER_DRAWING = 16
-
-
-def _depths(nodes) -> dict[str, int]:
-    depth: dict[str, int] = {}
-    for n in nodes:
-        depth[n.id] = 0 if n.parent is None or n.parent not in depth else depth[n.parent] + 1
-    return depth
-
-
-def _symbol(d: Drawing, kind: str, x: float, y: float) -> float:
-    """Draw a node symbol centred on (x, y); return its half height."""
-    if kind == "source":
-        d.add(Circle(x, y, 9, strokeColor=colors.black, fillColor=colors.white, strokeWidth=1))
-        pts = []
-        for i in range(13):
-            t = i / 12
-            pts += [x - 5 + 10 * t, y + 3 * math.sin(2 * math.pi * t)]
-        d.add(PolyLine(pts, strokeColor=colors.black, strokeWidth=0.9))
-        return 9.0
-    if kind == "transformer":
-        for dy in (4.5, -4.5):
-            d.add(Circle(x, y + dy, 7, strokeColor=colors.black, fillColor=None, strokeWidth=1))
-        return 11.5
-    d.add(Rect(x - 9, y - 7, 18, 14, strokeColor=colors.black, fillColor=LIGHT, strokeWidth=1))
-    d.add(Line(x - 5, y + 3, x + 5, y + 3, strokeColor=colors.black, strokeWidth=1.4))
-    return 7.0
-
-
-def _node_lines(node, run, display: Display) -> tuple[str, str, str]:
-    head = node_title(node.id, node.kind, node.voltage)
-    v = node.values
-    parts = []
-    if "fault_max_a" in v:
-        parts.append(f"Isc max {kiloamps(v['fault_max_a'])}")
-    if "fault_duty_a" in v and v.get("fault_duty_case"):
-        parts.append(f"duty {kiloamps(v['fault_duty_a'])} ({v['fault_duty_case']})")
-    if "fault_min_a" in v:
-        parts.append(f"min {kiloamps(v['fault_min_a'])}")
-    if "vdrop_pct" in v and v["vdrop_pct"] is not None:
-        parts.append(f"drop {percent(v['vdrop_pct'])}")
-    if node.kind == "transformer":
-        if "rated_secondary_a" in v:
-            parts.append(f"rated {amps(v['rated_secondary_a'])} secondary")
-        if "loading_pct" in v:
-            parts.append(f"loading {percent(v['loading_pct'], 0)}")
-    if not parts and node.kind != "source":
-        parts.append("no fault-current or voltage-drop figures in these results")
-    if node.kind == "source" and "fault_max_a" not in v:
-        parts.append("supply at the transformer primary")
-    sub = ""
-    if run is not None:
-        sets = f"{run.sets} × " if run.sets > 1 else ""
-        sub = (
-            f"fed by run {run.id}: {sets}{run.size} {run.material.capitalize()}, "
-            f"{display.length_pair(run.length_m)}"
-        )
-    elif node.via_run:
-        sub = f"fed by run {node.via_run}"
-    elif node.parent is not None:
-        sub = f"connected directly to {node.parent}"
-    return head, " · ".join(parts), sub
-
-
-def one_line_diagrams(results, width: float = 500.0) -> list[Drawing]:
-    """One-line diagram of the feed as one or more drawings (16 rows each).
-
-    Each node is labelled with its maximum and minimum fault current and its
-    voltage drop where the results carry them; each feeding run (from
-    ``results.diagram``) with its sets, size, material and length.
-    """
-    f = fonts()
-    display = display_for(results)
-    nodes = list(results.nodes)
-    depth = _depths(nodes)
-    runs = {r.id: r for r in results.diagram.runs}
-    max_depth = max(depth.values(), default=0)
-    flags: dict[str, dict[str, int]] = {}
-    for fnd in getattr(results, "findings", ()):
-        if fnd.status in ("fail", "warn"):
-            c = flags.setdefault(fnd.subject.split("/")[0], {})
-            c[fnd.status] = c.get(fnd.status, 0) + 1
-    label_x = min(14 + (max_depth + 1) * INDENT + 18, width * 0.45)
-    drawings = []
-    for start in range(0, len(nodes), ROWS_PER_DRAWING):
-        chunk = nodes[start : start + ROWS_PER_DRAWING]
-        h = ROW_H * len(chunk) + 8
-        d = Drawing(width, h)
-        pos = {}
-        for i, n in enumerate(chunk):
-            pos[n.id] = (14 + depth[n.id] * INDENT + 10, h - ROW_H * (i + 0.5) - 4)
-        half = {}
-        for n in chunk:
-            x, y = pos[n.id]
-            half[n.id] = _symbol(d, n.kind, x, y)
-        for n in chunk:
-            if n.parent is None:
-                continue
-            x, y = pos[n.id]
-            if n.parent in pos:
-                px, py = pos[n.parent]
-                top = py - half[n.parent]
-            else:  # parent drawn in an earlier part
-                px = 14 + depth.get(n.parent, 0) * INDENT + 10
-                top = h
-            d.add(Line(px, top, px, y, strokeColor=colors.black, strokeWidth=1.2))
-            d.add(Line(px, y, x - 9, y, strokeColor=colors.black, strokeWidth=1.2))
-        for n in chunk:
-            x, y = pos[n.id]
-            head, figs, sub = _node_lines(n, runs.get(n.via_run) if n.via_run else None, display)
-            marks = {**flags.get(n.id, {})}
-            for k, v in flags.get(n.via_run or "", {}).items():
-                marks[k] = marks.get(k, 0) + v
-            if marks:
-                counts = [f"{marks[s]} {status_word(s)}" for s in ("fail", "warn") if s in marks]
-                head += "   [" + ", ".join(counts) + "]"
-            d.add(
-                Line(
-                    x + 12,
-                    y,
-                    label_x - 4,
-                    y,
-                    strokeColor=GREY,
-                    strokeWidth=0.4,
-                    strokeDashArray=[1, 2],
-                )
-            )
-            d.add(String(label_x, y + 6, txt(head), fontName=f.bold, fontSize=8.5))
-            d.add(String(label_x, y - 4.5, txt(figs), fontName=f.regular, fontSize=7.8))
-            if sub:
-                d.add(
-                    String(
-                        label_x, y - 14, txt(sub), fontName=f.regular, fontSize=6.8, fillColor=GREY
-                    )
-                )
-        drawings.append(d)
-    return drawings
 
 
 # ------------------------------------------------------------------ charts

@@ -38,14 +38,9 @@ from reportlab.platypus import (
 from ... import __version__
 from ..display import MISSING, display_for, node_caption
 from . import sections as sx
-from .drawing import (
-    fault_current_charts,
-    fonts,
-    one_line_diagrams,
-    txt,
-    voltage_profile_charts,
-)
+from .drawing import fault_current_charts, fonts, txt, voltage_profile_charts
 from .embed import RESULTS_NAME, attach, input_attachments
+from .one_line import one_line_diagrams
 from .tables_embed import table_attachments
 
 MARGIN = 42.0
@@ -167,8 +162,10 @@ def _drawings_story(results, display, heading) -> list:
     story = [PageBreak(), heading("One-line diagram", "diagram", 0, "h1")]
     story.append(
         sx.p(
-            "Feed order from the source down; each node shows its maximum and minimum fault "
-            "current and its voltage drop from the source, where the checks computed them.",
+            "Feed order from the source down; each node shows its ratings, its maximum bolted "
+            "fault current, governing interrupting duty and minimum fault current and its "
+            "voltage drop from the source (where the checks computed them), the run that "
+            "feeds it and its motors. 1φ marks a single-phase node.",
             "body",
         )
     )
