@@ -198,6 +198,7 @@ class Results:
     # for the renderers only (not part of to_dict(), whose keys are held stable):
     diagram: Diagram = field(default_factory=Diagram)
     provenance: list[TableProvenance] = field(default_factory=list)
+    tables_cited: list[str] = field(default_factory=list)  # tables the figures read
     job_sha256: str = ""  # of the job file's bytes
     length_unit: str = "m"  # lengths shown to people: "m" or "ft"
 
