@@ -50,24 +50,24 @@ SHORT_CAUTION = (
 # schedule column: (header, width weight, decimals or None for text)
 SCHEDULE_COLUMNS: dict[str, tuple[str, float, int | None]] = {
     "circuit": ("Ckt", 0.6, None),
-    "description": ("Description", 2.1, None),
+    "description": ("Description", 1.8, None),
     "poles": ("Pol", 0.55, 0),
     "phase": ("Ph", 0.65, None),
-    "kind": ("Kind", 1.4, None),
-    "continuous": ("Cont", 0.6, None),
+    "kind": ("Kind", 1.45, None),
+    "continuous": ("Cont", 0.8, None),
     "load_va": ("Load VA", 0.95, 0),
-    "pf": ("PF", 0.55, 2),
+    "pf": ("PF", 0.8, 2),
     "current_a": ("I A", 0.75, 1),
     "breaker_a": ("Brkr A", 0.75, 0),
     "size": ("Wire", 1.3, None),
     "ground": ("EGC", 1.15, None),
     "length_m": ("Len", 0.75, None),  # header and figure in the display's length unit
     "ampacity_a": ("Amp A", 0.75, 0),
-    "vdrop_pct": ("Drop %", 0.8, 2),
+    "vdrop_pct": ("Drop %", 0.95, 2),
     "total_vdrop_pct": ("Total %", 0.85, 2),
     "status": ("Status", 1.15, None),
-    "reason": ("Reason", 2.6, None),
-    "row": ("Row", 0.72, None),
+    "reason": ("Reason", 2.05, None),
+    "row": ("Row", 0.75, None),
 }
 
 
