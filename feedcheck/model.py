@@ -350,6 +350,7 @@ class Job:
     options: Options = field(default_factory=Options)
     text: str = ""
     file_sha256: str = ""  # of the job file's bytes as read
+    length_unit: str = "ft"  # lengths shown to people: "ft" or "m" (as the job is written)
 
     def element(self, element_id: str):
         for coll in (self.transformers, self.runs, self.panels):

@@ -28,6 +28,39 @@ class CalcStep:
     rule_id: str = ""
 
 
+@dataclass(frozen=True)
+class ImpedanceRow:
+    """One component of a node's impedance build-up, per phase (per-phase equivalent on
+    single-phase parts), referred to the node's voltage, in the maximum and the minimum
+    case, with the condition each case takes (temperature, tolerance)."""
+
+    component: str
+    max_case: str
+    min_case: str
+    z_max_ohm: complex
+    z_min_ohm: complex
+
+
+@dataclass(frozen=True)
+class ImpedanceBuildUp:
+    """Source to node, component by component, and the sums the node's fault figures
+    come from: I = c·V_LL/(√3·|Z|) (+ motors for the maximum)."""
+
+    voltage: str  # the node's system as written
+    voltage_v: float  # line-to-line [V] the components are referred to
+    rows: tuple[ImpedanceRow, ...]
+    z_max_ohm: complex
+    z_min_ohm: complex
+    z_max_abs_ohm: float
+    z_min_abs_ohm: float
+    c_max: float
+    c_min: float
+    fault_ohmic_max_a: float  # c_max·V/(√3·|Z_max|)
+    motor_a: float  # motor contribution added to it
+    fault_max_a: float
+    fault_min_a: float
+
+
 @dataclass
 class Sheet:
     """Calculation sheet for one element (transformer, run or panel)."""
@@ -38,6 +71,7 @@ class Sheet:
     inputs: list[tuple[str, str]] = field(default_factory=list)
     steps: list[CalcStep] = field(default_factory=list)
     tables_used: list[str] = field(default_factory=list)
+    buildup: ImpedanceBuildUp | None = None  # a node's impedance build-up (fault checks)
 
     def step(
         self, label: str, formula: str, substituted: str, result, unit: str = "", rule_id: str = ""
@@ -166,6 +200,7 @@ class Results:
     # for the renderers only (not part of to_dict(), whose keys are held stable):
     diagram: Diagram = field(default_factory=Diagram)
     provenance: list[TableProvenance] = field(default_factory=list)
+    tables_cited: list[str] = field(default_factory=list)  # tables the figures read
     job_sha256: str = ""  # of the job file's bytes
     length_unit: str = "m"  # lengths shown to people: "m" or "ft"
 

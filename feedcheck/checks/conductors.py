@@ -6,9 +6,9 @@ from __future__ import annotations
 
 from ..calc import protection as pk
 from ..calc.ampacity import ampacity_chain, rooftop_adder_c, termination_c_for
-from ..calc.constants import M_PER_FT
 from ..calc.sizes import SIZES
 from ..model import SOURCE_ID, Run
+from .ampacity_sheet import ampacity_steps
 from .bonding import check_sds_conductors
 from .compare import passes
 from .context import Context
@@ -30,7 +30,7 @@ def _run_sheet(ctx: Context, run: Run):
     sh = ctx.sheet(run.id, "run", f"Run {run.id} ({run.from_id} → {run.to_id})")
     sh.inputs += [
         ("From → to", f"{run.from_id} → {run.to_id}"),
-        ("Length", f"{run.length_m / M_PER_FT:,.0f} ft ({run.length_m:,.1f} m)"),
+        ("Length", ctx.length(run.length_m, pair=True)),
         (
             "Conductors",
             f"{run.sets} × {run.size.name} {run.material.capitalize()}, "
@@ -235,8 +235,7 @@ def check_run(ctx: Context, run: Run) -> None:
     except ValueError as exc:
         ctx.add(run.id, "ampacity", None, None, "A", "fail", "run-ampacity-after", str(exc))
         return
-    for label, value, unit, rid in chain.steps():
-        sh.step(label, "", "", round(value, 3) if isinstance(value, float) else value, unit, rid)
+    ampacity_steps(ctx, sh, chain, run.raceway == "free-air")
     ctx.run_values.setdefault(run.id, {}).update(
         {
             "ampacity_a": chain.final_a,

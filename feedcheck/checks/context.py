@@ -9,6 +9,7 @@ from dataclasses import dataclass, field, replace
 from ..calc.power import current_from_apparent_power_a
 from ..findings import Finding, Status
 from ..model import Job, Tree
+from ..render.display import Display
 from ..results import NodeResult, Sheet
 from ..rulebook import RowUse, RuleBook, current_rulebook
 from .compare import TOLERANCE, Direction, compare
@@ -58,6 +59,12 @@ class Context:
     # node or run id -> unconfirmed rows its impedance path reads (checks/impedance.py)
     impedance_rows: dict[str, tuple[RowUse, ...]] = field(default_factory=dict)
     motor_loads: dict = field(default_factory=dict)  # panel id -> motors' 430.24 shares
+
+    def length(self, length_m: float, decimals: int | None = None, pair: bool = False) -> str:
+        """A length [m] for a note or a sheet, in the unit the job is written in (``pair``:
+        the other unit beside it in brackets)."""
+        display = Display(getattr(self.job, "length_unit", "ft"))
+        return display.length_pair(length_m) if pair else display.length(length_m, None, decimals)
 
     def design_factor(self) -> float:
         """The continuous-load factor (rule device-continuous-125)."""
@@ -156,9 +163,17 @@ class Context:
         return f
 
     def sheet(self, element_id: str, kind: str, title: str) -> Sheet:
-        if element_id not in self.sheets:
-            self.sheets[element_id] = Sheet(element_id, kind, title)
-        return self.sheets[element_id]
+        """The element's sheet (made on first use); a sheet never goes untitled: without
+        a title it is called by its kind and id until a check gives one."""
+        sh = self.sheets.get(element_id)
+        if sh is None:
+            default = (
+                kind.capitalize() if element_id == kind else f"{kind.capitalize()} {element_id}"
+            )
+            sh = self.sheets[element_id] = Sheet(element_id, kind, title or default)
+        elif title:
+            sh.title = title
+        return sh
 
     def method(self, name: str, source: str) -> None:
         if (name, source) not in self.methods:

@@ -66,7 +66,7 @@ def source_voltage_pct(ctx: Context, rule_id: str) -> float:
         "Voltage at the source point under the total demand (source impedance)",
         "Z_s = V_LL / (√3 · I_sc); VD exact phasor form with I = S / (√3·V_LL)",
         f"|Z_s| = {abs(z) * 1e3:.4f} mΩ, I = {current:,.1f} A, cos θ = {load.pf:.3f}",
-        round(pct, 3),
+        pct,
         "% of nominal",
         rule_id,
     )

@@ -9,7 +9,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..calc.conductor import ac_impedance_ohm_per_m
-from ..calc.constants import M_PER_FT, SQRT3
+from ..calc.constants import SQRT3
 from ..calc.fault import (
     asymmetric_rms_half_cycle_a,
     cumulative_impedance_ohm,
@@ -26,7 +26,9 @@ from ..calc.fault_lg import (
     transformer_zero_sequence_ohm,
 )
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
+from ..render.display import bolted_fault_words
 from .context import Context
+from .fault_buildup import record_buildups
 from .fault_duty import (
     describe_methods,
     flag_return_paths,
@@ -41,12 +43,13 @@ from .fault_duty import (
 )
 from .high_leg import min_root_ohm
 from .impedance import (
-    branch_impedances,
+    branch_parts,
     fault_assumptions,
     run_impedance_ohm,
     run_return_impedance_ohm,
     service_transformer_ohm,
     source_impedance,
+    summed,
 )
 from .point_to_point import point_to_point_a, ptp_finding
 from .taps import run_device
@@ -62,8 +65,9 @@ def check_faults(ctx: Context) -> None:
     vb = job.source.voltage.voltage_ll_v
 
     zs = source_impedance(job)
-    b_max = branch_impedances(ctx, fa, fa.cond_c_max, "max")
-    b_min = branch_impedances(ctx, fa, None, "min")
+    parts_max = branch_parts(ctx, fa, fa.cond_c_max, "max")
+    parts_min = branch_parts(ctx, fa, None, "min")
+    b_max, b_min = summed(parts_max), summed(parts_min)
 
     def referred(branches):
         arr = np.zeros(len(order), dtype=complex)
@@ -107,6 +111,7 @@ def check_faults(ctx: Context) -> None:
     when = _calc_date(ctx)
     for at, node in enumerate(order):
         _record_node(ctx, fa, figs, at, node, when)
+    record_buildups(ctx, fa, zs, (parts_max, parts_min), rf, motor_node)
 
 
 def _describe_3ph(ctx: Context, fa) -> None:
@@ -198,29 +203,30 @@ def _sheet_steps(ctx: Context, fa, figs: _Figures, at: int, node_id: str) -> Non
     z_max_node = rf.z_max_ohm[at] * (v_node[at] / vb) ** 2
     z_min_node = rf.z_min_ohm[at] * (v_node[at] / vb) ** 2
     system = tree.voltage_of[node_id]
+    bolted = bolted_fault_words(system.phases)
     form = "I = c·V_LL / (√3·|Z|)" if system.phases == 3 else "I = c·V / |Z_loop| (Z_loop = √3·Z)"
     sheet.step(
         "Total impedance to this node, maximum case",
         "Z = Z_source + Z_transformer + Σ Z_runs (referred to this voltage)",
         f"{z_max_node.real * 1e3:.3f} + j{z_max_node.imag * 1e3:.3f} mΩ",
-        round(abs(z_max_node) * 1e3, 3),
+        abs(z_max_node) * 1e3,
         "mΩ",
         "fault-z-tolerance",
     )
     sheet.step(
-        "Maximum three-phase fault current",
+        f"Maximum {bolted} fault current",
         form,
         f"{fa.c_max:g} × {system.voltage_ll_v:g} / (√3 × {abs(z_max_node) * 1e3:.3f} mΩ)"
         + (f" + motors {motor_node[at]:.0f} A" if motor_node[at] > 0 else ""),
-        round(float(fault_max[at])),
+        float(fault_max[at]),
         "A",
         "fault-cond-temp-max",
     )
     sheet.step(
-        "Minimum three-phase fault current",
+        f"Minimum {bolted} fault current",
         form,
         f"{fa.c_min:g} × {system.voltage_ll_v:g} / (√3 × {abs(z_min_node) * 1e3:.3f} mΩ)",
-        round(float(rf.fault_min_a[at])),
+        float(rf.fault_min_a[at]),
         "A",
         "fault-cond-temp-min",
     )
@@ -228,7 +234,7 @@ def _sheet_steps(ctx: Context, fa, figs: _Figures, at: int, node_id: str) -> Non
         "X/R and peak",
         "κ = 1.02 + 0.98·e^(−3/(X/R)); i_p = κ·√2·I_max",
         f"X/R = {rf.x_r[at]:.2f}",
-        round(float(peak[at])),
+        float(peak[at]),
         "A",
         "iec60909-kappa",
     )
@@ -239,7 +245,7 @@ def _sheet_steps(ctx: Context, fa, figs: _Figures, at: int, node_id: str) -> Non
             if system.kind == "wye"
             else "I = V_LN / |Z_LN,source + Σ(Z_phase + Z_return)|",
             f"V_LN = {system.voltage_ln_v:g} V",
-            round(lg_min[node_id]),
+            lg_min[node_id],
             "A",
             "fault-z0-ratio-min",
         )
@@ -248,7 +254,7 @@ def _sheet_steps(ctx: Context, fa, figs: _Figures, at: int, node_id: str) -> Non
             "Point-to-point figure (second method)",
             "I = I_start · Π 1/(1 + f)",
             "f = √3·L·I/(C·n·V) per run",
-            round(ptp[node_id]),
+            ptp[node_id],
             "A",
             "fault-ptp-disagree",
         )
@@ -529,7 +535,7 @@ def _trip_fixes(ctx, fa, panel_id, run, required_a, z_up1, z_up0) -> str:
         max_length_for_trip_m(_v_ln(system), z_upstream_loop, zp, zr, required_a, fa.c_min)
     )
     parts = [
-        f"it would trip with the run at most {max_len / M_PER_FT:,.0f} ft ({max_len:,.1f} m)"
+        f"it would trip with the run at most {ctx.length(max_len, pair=True)}"
         if max_len > 0
         else "no run length would make it trip"
     ]

@@ -363,7 +363,7 @@ def _sheet_steps(ctx: Context, n: str, d: Duty) -> None:
         "Governing maximum fault (interrupting duty)",
         "max(three-phase, line-to-line, line-to-neutral, line-to-ground)",
         f"{CASE_WORDS[d.case]} governs, X/R {d.x_r:.2f}",
-        round(d.sym_a),
+        d.sym_a,
         "A",
         "panel-interrupting",
     )
@@ -374,7 +374,7 @@ def _sheet_steps(ctx: Context, n: str, d: Duty) -> None:
             "rms: √(1 + 2e^(−2π/(X/R)))/√(1 + 2e^(−2π/(X/R)test)); MF ≥ 1",
             f"{d.family}, X/R {d.x_r:.2f} vs test {d.row.test_x_r:g} ({d.row.basis}): "
             f"MF = {d.mf:.3f}; duty {d.mf:.3f} × {d.sym_a:,.0f} A",
-            round(d.duty_a),
+            d.duty_a,
             "A",
             d.row.rule_id,
         )

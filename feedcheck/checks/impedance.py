@@ -84,24 +84,49 @@ def run_return_impedance_ohm(run: Run, conductor_c: float, data: ck.ConductorDat
 def branch_impedances(
     ctx: Context, fa: FaultAssumptions, conductor_c: float | None, tx_case: str
 ) -> dict[str, complex]:
-    """Branch impedance (per-phase equivalent, at the node's own voltage) of each node.
+    """Branch impedance (per-phase equivalent, at the node's own voltage) of each node:
+    the sum of its parts (:func:`branch_parts`).
 
     ``tx_case``: ``"max"`` (transformer Z at its lower tolerance) or ``"min"`` (upper)
     or ``"nominal"``; ``conductor_c`` None: each run at :meth:`FaultAssumptions.min_c`.
     A transformer's branch includes the run that feeds it (referred
     through its ratio) and, for a single-phase unit on a three-phase node, the extra
-    source loop (added later, by :func:`single_phase_on_three_phase`).
+    source loop (added later, by the fault walk).
     """
+    return summed(branch_parts(ctx, fa, conductor_c, tx_case))
+
+
+def summed(parts: dict[str, list[BranchPart]]) -> dict[str, complex]:
+    """Each node's branch impedance from its parts."""
+    return {n: sum((p.z_ohm for p in ps), 0j) for n, ps in parts.items()}
+
+
+@dataclass(frozen=True)
+class BranchPart:
+    """One component of a node's branch: the run into it or its transformer, per-phase
+    equivalent at the node's own voltage, and the conductor temperature used [°C]
+    (None for a transformer)."""
+
+    element_id: str
+    kind: str  # "run" | "transformer"
+    z_ohm: complex
+    conductor_c: float | None
+
+
+def branch_parts(
+    ctx: Context, fa: FaultAssumptions, conductor_c: float | None, tx_case: str
+) -> dict[str, list[BranchPart]]:
+    """The components of each node's branch (see :func:`branch_impedances`)."""
     job, tree, data = ctx.job, ctx.tree, ctx.rules.conductors
     tx = {t.id: t for t in job.transformers}
-    out: dict[str, complex] = {}
+    out: dict[str, list[BranchPart]] = {}
     for n in tree.order:
         if n == "source":
             continue
         v = tree.voltage_of[n]
         run = tree.parent_run.get(n)
         temp_c = conductor_c if conductor_c is not None or run is None else fa.min_c(run)
-        z = 0j
+        parts: list[BranchPart] = []
         if tree.kind[n] == "transformer":
             t = tx[n]
             tol = {"max": fa.tolerance_pct, "min": fa.tolerance_pct, "nominal": 0.0}[tx_case]
@@ -121,12 +146,14 @@ def branch_impedances(
                 zr = run_impedance_ohm(run, temp_c, data)
                 if t.primary.phases == 1:  # loop out and back on two lines
                     zr = 2 * zr / SQRT3
-                z += complex(fk.refer_impedance_ohm(zr, parent_v.voltage_ll_v, v.voltage_ll_v))
-            z += zt
+                zr = complex(fk.refer_impedance_ohm(zr, parent_v.voltage_ll_v, v.voltage_ll_v))
+                parts.append(BranchPart(run.id, "run", zr, temp_c))
+            parts.append(BranchPart(t.id, "transformer", zt, None))
         elif run is not None:
             zr = run_impedance_ohm(run, temp_c, data)
             z = 2 * zr / SQRT3 if v.phases == 1 else zr
-        out[n] = z
+            parts.append(BranchPart(run.id, "run", z, temp_c))
+        out[n] = parts
     return out
 
 

@@ -212,7 +212,7 @@ def phase_design_steps(ctx, node: str, sheet, rule_id: str) -> tuple[float, str]
             f"Phase {LETTERS[j]} current",
             f"I_design = {100 * f:g} % · I_continuous + I_noncontinuous",
             f"{f:g} × {ph.cont_a[j]:.1f} + {ph.non_a[j]:.1f}",
-            round(float(design[j]), 1),
+            float(design[j]),
             "A",
         )
     k = ph.heaviest(f)
@@ -221,7 +221,7 @@ def phase_design_steps(ctx, node: str, sheet, rule_id: str) -> tuple[float, str]
         "Design current (heaviest phase)",
         "max over the phases of I_design",
         f"phase {LETTERS[k]}",
-        round(value, 1),
+        value,
         "A",
         rule_id,
     )

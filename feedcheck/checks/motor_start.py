@@ -9,7 +9,7 @@ import math
 
 from ..calc import conductor as ck
 from ..calc import motor_starting as ms
-from ..calc.constants import M_PER_FT, SQRT3
+from ..calc.constants import SQRT3
 from .context import Context
 from .impedance import branch_impedances, fault_assumptions, source_impedance
 
@@ -106,6 +106,6 @@ def _motor_branch(ctx: Context, m, phases: int) -> tuple[float, float, str]:
     return (
         k * float(r) * m.length_m,
         k * float(x) * m.length_m,
-        f"at the motor terminals ({m.length_m / M_PER_FT:,.0f} ft of {m.size.name} "
+        f"at the motor terminals ({ctx.length(m.length_m)} of {m.size.name} "
         f"{m.material.capitalize()} from {m.panel_id})",
     )

@@ -50,7 +50,7 @@ def check_panel(ctx: Context, panel: Panel) -> None:
         "Demand current, balanced average",
         "I = S / (√3 · V_LL)" if system.phases == 3 else "I = S / V",
         f"{load.va:,.0f} / ({'√3 · ' if system.phases == 3 else ''}{system.voltage_ll_v:g})",
-        round(i_load, 1),
+        i_load,
         "A",
     )
     demand_chain_steps(ctx, panel, sheet)

@@ -35,6 +35,7 @@ from .schedules import (
     _phases,
     _rule_rows,
     check_schedule,
+    review_frame,
     schedule_demand,
 )
 
@@ -134,6 +135,7 @@ class ScheduleBatch:
         panels["spares"] = [int(n[0]) for n in counts]
         panels["spaces"] = [int(n[1]) for n in counts]
         circuits = _circuits_frame(c, q, phase_txt, sev, reason)
+        review = review_frame(c, q)
         loads = demand.loads
         starts = np.searchsorted(demand.panel_code, np.arange(len(g.ids) + 1))
         out = {}
@@ -166,6 +168,7 @@ class ScheduleBatch:
                 {pid: loads[pid]},
                 list(getattr(self.schedules[pid], "notices", ())),
                 getattr(self.schedules[pid], "length_unit", "ft"),
+                review.iloc[a:b].reset_index(drop=True),
             )
         return out
 

@@ -111,6 +111,8 @@ class ScheduleResult:
     demands: dict[str, Load] = field(default_factory=dict)
     notices: list[str] = field(default_factory=list)  # from the reader (Schedule.notices)
     length_unit: str = "ft"  # as the schedule wrote lengths (exports show both)
+    # for the report only (not in the JSON): continuous, pf and ground of each circuit
+    review: object = None
 
     @property
     def exit_code(self) -> int:
@@ -413,6 +415,7 @@ def check_schedule(
         demands,
         list(getattr(schedule, "notices", ())),
         getattr(schedule, "length_unit", "ft"),
+        review_frame(c, q),
     )
 
 
@@ -575,6 +578,17 @@ def _circuits_frame(c, q: dict, phase_txt, sev, reason):
             "row": c["row"].to_numpy(),
         }
     )
+
+
+def review_frame(c, q: dict):
+    """What a reviewer reads beside each circuit besides the checked figures: whether it
+    is continuous, its power factor and its grounding conductor as written."""
+    import pandas as pd
+
+    size = c["ground_size"].to_numpy(object)
+    mat = np.char.capitalize(c["ground_material"].to_numpy(str).astype(str))
+    ground = np.where(size != "", size.astype(str) + " " + mat, "")
+    return pd.DataFrame({"continuous": q["continuous"], "pf": q["pf"], "ground": ground})
 
 
 def _totals(panels, demand: ScheduleDemand, imbalance, n: int, occupancy: str, system) -> dict:

@@ -10,7 +10,6 @@ figures show what declaring it would need.
 
 from __future__ import annotations
 
-from ..calc.constants import M_PER_FT
 from ..model import Run
 from .context import Context
 
@@ -68,10 +67,11 @@ def check_secondary_arrangement(ctx: Context, run: Run, ampacity: float) -> None
     transformer (240.21(C)(2), (C)(6))."""
     rid = _arrangement(ctx, run)
     if not run.tap_rule:
+        longest = ctx.length(ctx.rules.rule("xfmr-secondary-25ft").number("limit"))
         allows = (
             f"its length would allow tap_rule = '{_label(rid)}'"
             if rid
-            else "it is longer than 25 ft, so it needs a device at the transformer"
+            else f"it is longer than {longest}, so it needs a device at the transformer"
         )
         ctx.add(
             run.id,
@@ -96,8 +96,8 @@ def check_secondary_arrangement(ctx: Context, run: Run, ampacity: float) -> None
             "m",
             "at_most",
             declared,
-            f"{run.length_m / M_PER_FT:,.0f} ft of secondary conductors with no device at "
-            f"the transformer: more than {limit_m / M_PER_FT:.0f} ft needs a device at the "
+            f"{ctx.length(run.length_m)} of secondary conductors with no device at "
+            f"the transformer: more than {ctx.length(limit_m)} needs a device at the "
             "transformer",
         )
         return

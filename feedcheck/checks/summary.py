@@ -19,10 +19,6 @@ from ..results import (
 from ..tables import Table
 from .context import Context
 
-# today's reports show metres (feet beside them on the one-line diagram); a job's own
-# unit system is not recorded by the job reader yet
-DEFAULT_LENGTH_UNIT = "m"
-
 
 def describe_results(ctx: Context, results: Results) -> Results:
     """Fill the descriptive fields of ``results`` from the check context; return it."""
@@ -32,9 +28,67 @@ def describe_results(ctx: Context, results: Results) -> Results:
     results.diagram = feed_diagram(ctx)
     book = ctx.rules.tables
     results.provenance = [table_provenance(book[name]) for name in sorted(book)]
+    results.tables_cited = tables_cited(ctx, results)
     results.job_sha256 = ctx.job.file_sha256
-    results.length_unit = DEFAULT_LENGTH_UNIT
+    results.length_unit = getattr(ctx.job, "length_unit", "ft")
     return results
+
+
+# tables every feed walk reads (conductor impedance, fault assumptions, devices, EGC,
+# withstand) and those read when the job has schedules, motors or panels
+ALWAYS_READ = (
+    "conductor_impedance_table9",
+    "conductor_materials",
+    "raceway_effects",
+    "fault_assumptions",
+    "device_ratings",
+    "egc_size",
+    "withstand_k",
+    "insulation_types",
+    "insulation_thickness",
+    "check_rules",
+    "voltage_drop_limits",
+)
+READ_WITH = {
+    "schedules": (
+        "demand_factors",
+        "schedule_rules",
+        "small_conductor_limits",
+        "lighting_unit_loads",
+    ),
+    "motors": (
+        "motor_flc_single_phase",
+        "motor_flc_three_phase",
+        "motor_locked_rotor",
+        "motor_starting_limits",
+        "motor_branch_device_max",
+    ),
+    "panels": ("device_test_power_factor", "instantaneous_pickup"),
+}
+
+
+def tables_cited(ctx: Context, results: Results) -> list[str]:
+    """The tables this job's figures were read from: those its sheets name, those of
+    every rule id a step or finding cites, and those every walk (or its schedules,
+    motors, panels) reads; in the rule book's order."""
+    book = ctx.rules
+    names = set(ALWAYS_READ)
+    rule_ids = {f.rule_id for f in results.findings}
+    for sheet in results.sheets.values():
+        names.update(sheet.tables_used)
+        rule_ids.update(s.rule_id for s in sheet.steps)
+    for rid in rule_ids:
+        if rid and book.has_rule(rid):
+            names.add(book.rule(rid).table)
+    job = ctx.job
+    for what, present in (
+        ("schedules", bool(results.schedules)),
+        ("motors", bool(job.motors)),
+        ("panels", bool(job.panels)),
+    ):
+        if present:
+            names.update(READ_WITH[what])
+    return [n for n in sorted(book.tables) if n in names]
 
 
 def _ratings(ctx: Context, node_id: str, kind: str) -> dict[str, float | str]:

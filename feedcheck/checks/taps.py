@@ -19,7 +19,6 @@ The one rule, stated (the same for every check that needs "the device of a run")
 
 from __future__ import annotations
 
-from ..calc.constants import M_PER_FT
 from ..model import SOURCE_ID, Job, Run
 from .context import Context
 
@@ -136,8 +135,8 @@ def _check_feeder_tap(ctx: Context, run: Run, ampacity_a: float) -> None:
         "m",
         "at_most",
         rid,
-        f"{run.length_m / M_PER_FT:,.1f} ft tap under the {run.tap_rule} rule "
-        f"(at most {limit_m / M_PER_FT:.0f} ft); a longer run needs a device at its supply end",
+        f"{ctx.length(run.length_m, 1)} tap under the {run.tap_rule} rule "
+        f"(at most {ctx.length(limit_m)}); a longer run needs a device at its supply end",
     )
     feeder_a, what = feeder_device(ctx.job, run)
     share_pct = rules.rule(f"{rid}-ratio").number("limit")

@@ -64,7 +64,7 @@ def _rated_currents(ctx: Context, t: Transformer, sh) -> tuple[float, float]:
             f"Rated {winding} current",
             f"I_{winding[0]} = {form}",
             f"{t.rating_va:,.0f} / ({k}{system.voltage_ll_v:g})",
-            round(rated, 1),
+            rated,
             "A",
         )
         out.append(rated)
@@ -170,7 +170,7 @@ def _check_loading(ctx: Context, t: Transformer, sh, ip: float, is_: float) -> N
         "Resistance and reactance",
         "%R = %Z / √(1 + (X/R)²), %X = %R · X/R",
         f"{t.z_pct:g} / √(1 + {x_r:g}²) = {r_pct:.3f} %; {r_pct:.3f} × {x_r:g}",
-        round(x_pct, 3),
+        x_pct,
         "% (%X)",
     )
     n = load.va / t.rating_va
@@ -180,7 +180,7 @@ def _check_loading(ctx: Context, t: Transformer, sh, ip: float, is_: float) -> N
         "Loading",
         "demand kVA / rated kVA",
         f"{load.va / 1000:.1f} / {t.rating_va / 1000:g}",
-        round(pct, 1),
+        pct,
         "%",
         "xfmr-loading",
     )
@@ -205,14 +205,14 @@ def _check_loading(ctx: Context, t: Transformer, sh, ip: float, is_: float) -> N
         "Regulation (approximate)",
         "n(%R cos φ + %X sin φ) + n²(%X cos φ − %R sin φ)²/200",
         f"n = {n:.3f}, cos φ = {pf:.3f}",
-        round(reg_approx, 3),
+        reg_approx,
         "%",
     )
     sh.step(
         "Regulation (exact phasor)",
         "(|1 + n(r cos φ + x sin φ) + j n(x cos φ − r sin φ)| − 1) · 100",
         f"n = {n:.3f}, cos φ = {pf:.3f}",
-        round(reg_exact, 3),
+        reg_exact,
         "%",
     )
     ctx.method(
@@ -268,7 +268,7 @@ def _check_grounding(ctx: Context, t: Transformer, sh) -> None:
         "Largest ungrounded secondary conductor (sum of parallel sets and runs)",
         "Σ sets × area",
         " + ".join(f"{r.sets} × {r.size.name}" for r in runs),
-        round(total, 1),
+        total,
         "kcmil",
         "gec-sds",
     )

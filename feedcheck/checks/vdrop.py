@@ -12,7 +12,6 @@ import numpy as np
 from ..calc import conductor as ck
 from ..calc import transformer as tk
 from ..calc import vdrop as vk
-from ..calc.constants import M_PER_FT
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
 from .compare import passes
 from .context import Context
@@ -138,7 +137,7 @@ def _transformer_regulation(ctx: Context, t, load, pct: float, sheet) -> float:
         f"{t.tap_pct:+g} %: + lowers the secondary, nameplate convention)",
         "E_r = √(E_s² − b²) − a; a = n(r cos φ + x sin φ), b = n(x cos φ − r sin φ)",
         f"E_s = {sending:.4f} pu, n = {frac:.3f}, cos φ = {load.pf:.3f}",
-        round(100 * sending - reg, 3),
+        100 * sending - reg,
         "% of nominal",
     )
     ctx.nodes[t.id].values["transformer_drop_pct"] = reg
@@ -233,7 +232,7 @@ def _run_collapsed(ctx: Context, run, pv, lim, figures) -> None:
         "%",
         "fail",
         lim.rule_id,
-        f"{current:.0f} A over {run.length_m / M_PER_FT:,.0f} ft of {run.size.name}: the "
+        f"{current:.0f} A over {ctx.length(run.length_m)} of {run.size.name}: the "
         "load cannot be delivered (the voltage collapses); "
         + _smallest_passing(ctx, run, current, pf, kind, lim.max_pct, pv.line_v),
     )
@@ -257,7 +256,7 @@ def _run_steps(ctx: Context, run, pv, load, run_figures, drops, rule_id: str) ->
         "I = S / (√3·V_LL)" if three else "I = S / V_LL (single-phase)",
         f"{load.va:,.0f} VA / ({'√3 × ' if three else ''}{pv.line_v:g} V)"
         + ("" if _balanced(feed, pv) else "; lines " + _lines_text(feed)),
-        round(current, 1),
+        current,
         "A",
     )
     sh.step(
@@ -272,21 +271,21 @@ def _run_steps(ctx: Context, run, pv, load, run_figures, drops, rule_id: str) ->
         f"VD = {kk} · I · L · (R cos θ + X sin θ) / sets",
         f"{kk} × {current:.1f} × {run.length_m:.1f} m × ({r * 1e3:.4f} × {pf:.3f} + "
         f"{x * 1e3:.4f} × {math.sqrt(max(0.0, 1 - pf * pf)):.3f}) mΩ/m / {run.sets}",
-        round(approx_v, 2),
+        approx_v,
         "V",
     )
     sh.step(
         "Voltage drop, exact phasor (used for checks)",
         "VD = Es + IR cos θ + IX sin θ − √(Es² − (IX cos θ − IR sin θ)²)",
         f"Es = {sending_v:.1f} V",
-        round(exact_v, 2),
+        exact_v,
         "V",
     )
     sh.step(
         "Percent drop",
         "VD / V_nominal × 100",
         f"{exact_v:.2f} / {pv.line_v:g} × 100",
-        round(pct, 2),
+        pct,
         "%",
         rule_id,
     )
@@ -299,7 +298,7 @@ def _feeder_finding(ctx: Context, run, pv, lim, upstream_pct: float, figures) ->
     ok = passes(cum, lim.max_pct, "at_most")
     note = (
         f"{pct:.2f} % (approximate form {approx_pct:.2f} %) at {current:.0f} A over "
-        f"{run.length_m / M_PER_FT:,.0f} ft"
+        f"{ctx.length(run.length_m)}"
     )
     if upstream_pct > 0:
         note += (
@@ -367,4 +366,4 @@ def _smallest_passing(ctx, run, current, pf, kind, limit_pct, nominal_v) -> str:
         if idx >= 0
         else f"no {run.material.capitalize()} size up to {names[-1]} passes with {run.sets} set(s)"
     )
-    return f"{size_text}; with {run.size.name} the run may be at most {max_len / M_PER_FT:,.0f} ft"
+    return f"{size_text}; with {run.size.name} the run may be at most {ctx.length(max_len)}"

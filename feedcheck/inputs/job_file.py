@@ -25,6 +25,7 @@ from ..model import (
     VOLTAGE_DROP_MODES,
     VOLTAGE_FACTORS,
     Job,
+    Motor,
     Options,
     Project,
     Run,
@@ -47,6 +48,7 @@ from .toml_reader import (
     deep_key_line,
 )
 from .tree import build_tree
+from .unit_system import job_length_unit
 
 MAX_JOB_BYTES = 2_000_000
 JOB_FILE = FileKind(
@@ -207,6 +209,7 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
         motors=tuple(motors),
         options=options,
         text=text,
+        length_unit=_length_unit(data, runs, motors),
     )
 
 
@@ -225,6 +228,18 @@ def _service_ground(r: Reader, source, runs, run_tables, panel_ids: set[str]) ->
                 "conductor as neutral (250.24(C)); the electrode conductor and main "
                 "bonding jumper go under [source]",
             )
+
+
+def _length_unit(data: dict, runs: list[Run], motors: list[Motor]) -> str:
+    """The unit the job's lengths are shown in (see :mod:`.unit_system`)."""
+    written = [
+        t.get("length")
+        for key in ("run", "motor")
+        for t in (data.get(key) or ())
+        if isinstance(t, dict)
+    ]
+    sizes = [e.size.system for e in (*runs, *motors) if e.size is not None]
+    return job_length_unit(written, sizes)
 
 
 def _table(r: Reader, data: dict, name: str, expected: str) -> dict:

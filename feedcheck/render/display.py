@@ -74,7 +74,7 @@ class NumberStyle:
     zero: str
 
 
-REPORT = NumberStyle(((1000.0, 0), (100.0, 1), (1.0, 2)), "0.00")
+REPORT = NumberStyle(((1000.0, 0), (100.0, 1), (1.0, 2)), "0")
 TERMINAL = NumberStyle(((100.0, 0), (10.0, 1), (1.0, 2)), "0")
 
 
@@ -96,9 +96,9 @@ def number(v: object, style: NumberStyle = REPORT) -> str:
     >>> number(30_000.0), number(208.21), number(2.5), number(0.01234)
     ('30,000', '208.2', '2.50', '0.0123')
     >>> number(208.21, TERMINAL), number(0.0, TERMINAL), number(2.13e-14), number(-1e-9)
-    ('208', '0', '0.00', '0.00')
-    >>> number(float("inf")), number(None), number(4.5e-5)
-    ('unlimited', '–', '0.000045')
+    ('208', '0', '0', '0')
+    >>> number(float("inf")), number(None), number(4.5e-5), number(15.0), number(31.25)
+    ('unlimited', '–', '0.000045', '15', '31.25')
     """
     if v is None:
         return MISSING
@@ -114,6 +114,8 @@ def number(v: object, style: NumberStyle = REPORT) -> str:
     a = abs(v)
     if a < TINY:
         return style.zero
+    if v.is_integer() and a < 1e15:  # a whole figure is not padded ("15 A", not "15.00 A")
+        return f"{int(v):,}"
     for at_least, decimals in style.steps:
         if a >= at_least:
             return _no_minus_zero(f"{v:,.{decimals}f}")
@@ -199,6 +201,26 @@ def kiloamps(current_a: object) -> str:
     return f"{shown} kA"
 
 
+def kilovoltamps(va: object) -> str:
+    """An apparent power [VA] in kVA ("75 kVA", "112.5 kVA").
+
+    >>> kilovoltamps(75_000.0), kilovoltamps(112_500.0)
+    ('75 kVA', '112.5 kVA')
+    """
+    if not isinstance(va, (int, float)) or isinstance(va, bool):
+        return number(va)
+    return f"{number(va * 1e-3)} kVA"
+
+
+def milliohms(z_ohm: object) -> str:
+    """An impedance part [Ω] in mΩ, three decimals ("28.915").
+
+    >>> milliohms(0.028915), milliohms(-0.0), milliohms(1.5)
+    ('28.915', '0.000', '1,500.000')
+    """
+    return fixed(z_ohm, 3, 1e3)
+
+
 def percent(v: object, decimals: int = 2) -> str:
     """A percentage with its sign ("2.31 %").
 
@@ -215,6 +237,16 @@ def amps(v: object, decimals: int = 1) -> str:
     '208.2 A'
     """
     return f"{fixed(v, decimals)} A"
+
+
+def bolted_fault_words(phases: object) -> str:
+    """The bolted fault a node's maximum and minimum figures are: three-phase on a
+    three-phase system, line-to-line on a single-phase one.
+
+    >>> bolted_fault_words(3), bolted_fault_words(1)
+    ('three-phase', 'line-to-line (single-phase system)')
+    """
+    return "line-to-line (single-phase system)" if phases == 1 else "three-phase"
 
 
 # ------------------------------------------------------------------ lengths
@@ -253,12 +285,20 @@ class Display:
             return fixed(length_m, decimals)
         return fixed(float(length_m) / per, decimals)  # type: ignore[arg-type]
 
-    def length(self, length_m: object, unit: str | None = None) -> str:
-        """A length [m] with its unit ("12.2 m" or "40 ft")."""
-        return f"{self.length_figure(length_m, unit)} {unit or self.length_unit}"
+    def length(self, length_m: object, unit: str | None = None, decimals: int | None = None) -> str:
+        """A length [m] with its unit ("12.2 m" or "40 ft"); ``decimals``: instead of the
+        unit's usual number."""
+        unit = unit or self.length_unit
+        if decimals is not None and isinstance(length_m, (int, float)):
+            return f"{fixed(float(length_m) / LENGTH_UNITS[unit][0], decimals)} {unit}"
+        return f"{self.length_figure(length_m, unit)} {unit}"
 
     def length_pair(self, length_m: float) -> str:
-        """A length in the display unit with the other one in brackets."""
+        """A length in the display unit with the other one in brackets.
+
+        >>> Display("ft").length_pair(28.956), Display("ft").length(1.0, decimals=1)
+        ('95 ft (29.0 m)', '3.3 ft')
+        """
         return f"{self.length(length_m)} ({self.length(length_m, self.other_length_unit)})"
 
 
@@ -268,6 +308,37 @@ DEFAULT_DISPLAY = Display()
 def display_for(results: object) -> Display:
     """The display choices the results name (metres when they name none)."""
     return Display(getattr(results, "length_unit", "m") or "m")
+
+
+def finding_figures(
+    value: object,
+    limit: object,
+    unit: str,
+    display: Display = DEFAULT_DISPLAY,
+    style: NumberStyle = REPORT,
+) -> tuple[str, str]:
+    """(figure, limit) of a finding as shown, each with its unit ("" when absent); a
+    length (unit ``m``) in the display's length unit.
+
+    >>> finding_figures(18.288, 7.62, "m", Display("ft"))
+    ('60 ft', '25 ft')
+    >>> finding_figures(31.25, None, "A"), finding_figures(None, 5.0, "%")
+    (('31.25 A', ''), ('', '5 %'))
+    >>> finding_figures(250.0, float("inf"), "A")
+    ('250 A', 'unlimited')
+    """
+
+    def one(v: object) -> str:
+        if v is None:
+            return ""
+        shown = number(v, style)
+        if shown in (UNLIMITED, UNBOUNDED_BELOW, MISSING):
+            return shown
+        if unit == "m" and isinstance(v, (int, float)) and not isinstance(v, bool):
+            return display.length(v)
+        return f"{shown} {unit}".rstrip()
+
+    return one(value), one(limit)
 
 
 # ------------------------------------------------------------------ node labels
@@ -316,7 +387,8 @@ FIGURES: dict[str, Figure] = {
     "fault_ptp_a": Figure("Fault current, point-to-point method", "p-t-p kA", "kA", 1e-3, 2),
     "fault_ptp_diff_pct": Figure("Point-to-point against ohmic", "p-t-p diff %", "%", 1, 1),
     "vdrop_pct": Figure("Voltage drop from the source", "drop %", "%", 1, 2),
-    "voltage_pct": Figure("Voltage", "V %", "% of nominal", 1, 2),
+    "voltage_pct": Figure("Voltage at the node, percent of nominal", "V %", "% of nominal", 1, 2),
+    "voltage_v": Figure("Voltage at the node, volts", "V", "V", 1, 1),
     "segment_vdrop_pct": Figure("Voltage drop in the feeding run", "run drop %", "%", 1, 2),
     "service_transformer_va": Figure("Utility transformer rating", "svc kVA", "kVA", 1e-3, 1),
     "service_z_pct": Figure("Utility transformer impedance", "svc Z %", "%", 1, 2),
@@ -324,6 +396,18 @@ FIGURES: dict[str, Figure] = {
     "service_primary_sc_va": Figure(
         "Short-circuit power at its primary", "svc prim MVA", "MVA", 1e-6, 1
     ),
+    "conductor_vdrop_pct": Figure(
+        "Voltage drop in the conductors since the transformer secondary", "cond drop %", "%", 1, 2
+    ),
+    "transformer_drop_pct": Figure("Voltage drop in the transformer", "xfmr drop %", "%", 1, 2),
+    "fault_primary_max_a": Figure(
+        "Fault current at the primary terminals, maximum", "Isc pri max kA", "kA", 1e-3, 2
+    ),
+    "fault_primary_min_a": Figure(
+        "Fault current at the primary terminals, minimum", "Isc pri min kA", "kA", 1e-3, 2
+    ),
+    "fault_motor_a": Figure("Motor contribution to the fault", "motors kA", "kA", 1e-3, 2),
+    "fault_duty_case": Figure("Governing fault case", "duty case", ""),
 }
 # the node figures of the terminal summary, in column order
 TERMINAL_FIGURES = (

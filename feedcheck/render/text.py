@@ -13,9 +13,11 @@ from .display import (
     MISSING,
     TERMINAL,
     TERMINAL_FIGURES,
+    Display,
+    display_for,
     figure_cell,
+    finding_figures,
     fixed,
-    number,
     status_word,
     unconfirmed_line,
 )
@@ -60,13 +62,11 @@ def _schedule_line(results: Results, panel_id: str, totals: dict) -> str:
     )
 
 
-def _finding_lines(f) -> str:
+def _finding_lines(f, display: Display) -> str:
     fig = ""
     if f.value is not None and isinstance(f.value, float):
-        fig = number(f.value, TERMINAL)
-        if f.limit is not None:
-            fig += f" vs {number(f.limit, TERMINAL)}"
-        fig += f" {f.unit}".rstrip()
+        value, limit = finding_figures(f.value, f.limit, f.unit, display, TERMINAL)
+        fig = f"{value} vs {limit}" if limit else value
     what = f"{f.check}: {fig}" if fig else f.check
     head = f"{status_word(f.status):4}  {f.subject}  {what}  [{f.rule_id}]\n"
     note = textwrap.fill(f.note, width=96, initial_indent="      ", subsequent_indent="      ")
@@ -80,6 +80,7 @@ def _finding_lines(f) -> str:
 def render_text(results: Results, show_all: bool = False) -> str:
     """The summary as text for a terminal (``show_all``: passing and info findings too)."""
     out = io.StringIO()
+    display = display_for(results)
     j = results.job_summary
     out.write(f"{j['name']}  (rev {j['revision'] or MISSING}, rules {j['rules']})\n\n")
     out.write("\n".join(_node_table(results)) + "\n\n")
@@ -91,7 +92,7 @@ def render_text(results: Results, show_all: bool = False) -> str:
         out.write("\n")
     for f in results.sorted_findings():
         if show_all or f.status in ("fail", "warn") or f.unconfirmed:
-            out.write(_finding_lines(f))
+            out.write(_finding_lines(f, display))
     c = results.counts()
     out.write(
         f"\n{c['fail']} fail, {c['warn']} warn, {c['ok']} ok, {c['info']} info"

@@ -5,7 +5,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from feedcheck.render.pdf.drawing import one_line_diagrams
+from feedcheck.render.pdf.one_line import one_line_diagrams
 from feedcheck.runner import load_and_check
 
 SAMPLES = Path(__file__).resolve().parents[2] / "sample_jobs"

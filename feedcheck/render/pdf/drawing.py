@@ -3,12 +3,7 @@ voltage profile and the fault-current chart. They draw figures from the
 results (node figures, and the feed's description in ``results.diagram``);
 they compute none. Figures are formatted by :mod:`feedcheck.render.display`.
 
-The one-line diagram is a ladder: one row per node in feed order (source,
-transformers, panels), each indented by its depth in the feed, fed by a line
-from its parent. Symbols: a circle with a wave for the source, two
-overlapping circles for a transformer, a box for a panel. Rows have a fixed
-height, so a feed of any size stays legible; long feeds continue in further
-drawings.
+The one-line diagram is in :mod:`.one_line`.
 """
 
 from __future__ import annotations
@@ -25,15 +20,9 @@ from reportlab.pdfbase.pdfmetrics import stringWidth
 from ..display import (
     DEFAULT_DISPLAY,
     Display,
-    amps,
-    display_for,
     fixed,
-    kiloamps,
-    node_title,
     percent,
     plain,
-    service_caption,
-    status_word,
 )
 
 GREY = colors.Color(0.45, 0.45, 0.45)
@@ -91,189 +80,6 @@ def txt(s: object) -> str:
     for a, b in _FALLBACK_TEXT.items():
         s = s.replace(a, b)
     return s
-
-
-# ------------------------------------------------------------ one-line diagram
-
-ROW_H = 38.0
-INDENT = 26.0
-ROWS_PER_DRAWING = 16
-
-
-def _depths(nodes) -> dict[str, int]:
-    depth: dict[str, int] = {}
-    for n in nodes:
-        depth[n.id] = 0 if n.parent is None or n.parent not in depth else depth[n.parent] + 1
-    return depth
-
-
-def _symbol(d: Drawing, kind: str, x: float, y: float) -> float:
-    """Draw a node symbol centred on (x, y); return its half height."""
-    if kind == "source":
-        d.add(Circle(x, y, 9, strokeColor=colors.black, fillColor=colors.white, strokeWidth=1))
-        pts = []
-        for i in range(13):
-            t = i / 12
-            pts += [x - 5 + 10 * t, y + 3 * math.sin(2 * math.pi * t)]
-        d.add(PolyLine(pts, strokeColor=colors.black, strokeWidth=0.9))
-        return 9.0
-    if kind == "transformer":
-        for dy in (4.5, -4.5):
-            d.add(Circle(x, y + dy, 7, strokeColor=colors.black, fillColor=None, strokeWidth=1))
-        return 11.5
-    if kind == "motor":
-        d.add(Circle(x, y, 7, strokeColor=colors.black, fillColor=colors.white, strokeWidth=1))
-        d.add(String(x, y - 3, "M", fontName=fonts().bold, fontSize=8, textAnchor="middle"))
-        return 7.0
-    d.add(Rect(x - 9, y - 7, 18, 14, strokeColor=colors.black, fillColor=LIGHT, strokeWidth=1))
-    d.add(Line(x - 5, y + 3, x + 5, y + 3, strokeColor=colors.black, strokeWidth=1.4))
-    return 7.0
-
-
-@dataclass(frozen=True)
-class _MotorRow:
-    """A motor drawn as a row under its panel (a diagram motor in node form)."""
-
-    id: str
-    parent: str
-    motor: object
-    kind: str = "motor"
-    via_run: str | None = None
-    voltage: str = ""
-
-
-def _rows(results) -> list:
-    """The nodes in feed order, each panel's motors right after it."""
-    motors: dict[str, list] = {}
-    for m in getattr(results.diagram, "motors", ()):
-        motors.setdefault(m.panel_id, []).append(m)
-    rows = []
-    for n in results.nodes:
-        rows.append(n)
-        rows += [_MotorRow(m.id, n.id, m) for m in motors.get(n.id, ())]
-    return rows
-
-
-def _motor_lines(row: _MotorRow) -> tuple[str, str, str]:
-    m = row.motor
-    rating = f"{plain(m.hp)} hp" if m.hp is not None else "hp not given"
-    phases = f"{m.phases}-phase, " if m.phases else ""
-    figs = f"{phases}{rating} · FLC {amps(m.full_load_a)} ({m.flc_source or 'nameplate'})"
-    if m.locked_rotor_a is not None:
-        figs += f" · locked rotor {amps(m.locked_rotor_a, 0)}"
-    return f"{m.id} — motor", figs, f"on panel {m.panel_id}"
-
-
-def _node_lines(node, run, display: Display) -> tuple[str, str, str]:
-    if isinstance(node, _MotorRow):
-        return _motor_lines(node)
-    head = node_title(node.id, node.kind, node.voltage)
-    v = node.values
-    parts = []
-    if "fault_max_a" in v:
-        parts.append(f"Isc max {kiloamps(v['fault_max_a'])}")
-    if "fault_min_a" in v:
-        parts.append(f"min {kiloamps(v['fault_min_a'])}")
-    if "vdrop_pct" in v and v["vdrop_pct"] is not None:
-        parts.append(f"drop {percent(v['vdrop_pct'])}")
-    if node.kind == "transformer":
-        if "rated_secondary_a" in v:
-            parts.append(f"rated {amps(v['rated_secondary_a'])} secondary")
-        if "loading_pct" in v:
-            parts.append(f"loading {percent(v['loading_pct'], 0)}")
-    if not parts and node.kind != "source":
-        parts.append("no fault-current or voltage-drop figures in these results")
-    if node.kind == "source" and "fault_max_a" not in v:
-        parts.append("supply at the transformer primary")
-    sub = ""
-    if run is not None:
-        sets = f"{run.sets} × " if run.sets > 1 else ""
-        sub = (
-            f"fed by run {run.id}: {sets}{run.size} {run.material.capitalize()}, "
-            f"{display.length_pair(run.length_m)}"
-        )
-    elif node.via_run:
-        sub = f"fed by run {node.via_run}"
-    elif node.parent is not None:
-        sub = f"connected directly to {node.parent}"
-    elif node.kind == "source":
-        sub = service_caption(v)
-    return head, " · ".join(parts), sub
-
-
-def one_line_diagrams(results, width: float = 500.0) -> list[Drawing]:
-    """One-line diagram of the feed as one or more drawings (16 rows each).
-
-    Each node is labelled with its maximum and minimum fault current and its
-    voltage drop where the results carry them; each feeding run (from
-    ``results.diagram``) with its sets, size, material and length.
-    """
-    f = fonts()
-    display = display_for(results)
-    nodes = _rows(results)
-    depth = _depths(nodes)
-    runs = {r.id: r for r in results.diagram.runs}
-    max_depth = max(depth.values(), default=0)
-    flags: dict[str, dict[str, int]] = {}
-    for fnd in getattr(results, "findings", ()):
-        if fnd.status in ("fail", "warn"):
-            c = flags.setdefault(fnd.subject.split("/")[0], {})
-            c[fnd.status] = c.get(fnd.status, 0) + 1
-    label_x = min(14 + (max_depth + 1) * INDENT + 18, width * 0.45)
-    drawings = []
-    for start in range(0, len(nodes), ROWS_PER_DRAWING):
-        chunk = nodes[start : start + ROWS_PER_DRAWING]
-        h = ROW_H * len(chunk) + 8
-        d = Drawing(width, h)
-        pos = {}
-        for i, n in enumerate(chunk):
-            pos[n.id] = (14 + depth[n.id] * INDENT + 10, h - ROW_H * (i + 0.5) - 4)
-        half = {}
-        for n in chunk:
-            x, y = pos[n.id]
-            half[n.id] = _symbol(d, n.kind, x, y)
-        for n in chunk:
-            if n.parent is None:
-                continue
-            x, y = pos[n.id]
-            if n.parent in pos:
-                px, py = pos[n.parent]
-                top = py - half[n.parent]
-            else:  # parent drawn in an earlier part
-                px = 14 + depth.get(n.parent, 0) * INDENT + 10
-                top = h
-            d.add(Line(px, top, px, y, strokeColor=colors.black, strokeWidth=1.2))
-            d.add(Line(px, y, x - 9, y, strokeColor=colors.black, strokeWidth=1.2))
-        for n in chunk:
-            x, y = pos[n.id]
-            head, figs, sub = _node_lines(n, runs.get(n.via_run) if n.via_run else None, display)
-            marks = {**flags.get(n.id, {})}
-            for k, v in flags.get(n.via_run or "", {}).items():
-                marks[k] = marks.get(k, 0) + v
-            if marks:
-                counts = [f"{marks[s]} {status_word(s)}" for s in ("fail", "warn") if s in marks]
-                head += "   [" + ", ".join(counts) + "]"
-            d.add(
-                Line(
-                    x + 12,
-                    y,
-                    label_x - 4,
-                    y,
-                    strokeColor=GREY,
-                    strokeWidth=0.4,
-                    strokeDashArray=[1, 2],
-                )
-            )
-            d.add(String(label_x, y + 6, txt(head), fontName=f.bold, fontSize=8.5))
-            d.add(String(label_x, y - 4.5, txt(figs), fontName=f.regular, fontSize=7.8))
-            if sub:
-                d.add(
-                    String(
-                        label_x, y - 14, txt(sub), fontName=f.regular, fontSize=6.8, fillColor=GREY
-                    )
-                )
-        drawings.append(d)
-    return drawings
 
 
 # ------------------------------------------------------------------ charts
@@ -445,6 +251,13 @@ def _free_spot(x: float, y: float, w: float, h: float, placed) -> tuple[float, f
     return x, y
 
 
+# the bars of each node: figure, legend, fill (the bolted maximum is line-to-line on a
+# single-phase node, marked 1φ)
+FAULT_BARS = (
+    ("fault_max_a", "maximum bolted (three-phase; 1φ: line-to-line)", GREY),
+    ("fault_duty_a", "interrupting duty (governing case × MF)", colors.black),
+    ("fault_min_a", "minimum", colors.white),
+)
 FAULT_ROW_H = 22.0
 FAULT_ROWS_PER_CHART = 24  # 24 × 22 pt + axes and legend stays well inside a letter page
 
@@ -456,23 +269,16 @@ def _finite(v) -> bool:
 def fault_current_charts(
     results, width: float = 500.0, rows_per_chart: int = FAULT_ROWS_PER_CHART
 ) -> list[Drawing]:
-    """Maximum and minimum fault current at each node as paired bars (kA), in
-    feed order, split into charts of at most ``rows_per_chart`` nodes that share
-    one scale (so bars on different pages compare); empty when no node carries
-    ``fault_max_a`` or ``fault_min_a``."""
-    rows = [
-        n
-        for n in results.nodes
-        if any(_finite(n.values.get(k)) for k in ("fault_max_a", "fault_min_a"))
-    ]
+    """Maximum bolted, governing interrupting duty and minimum fault current at each
+    node as grouped bars (kA), in feed order, split into charts of at most
+    ``rows_per_chart`` nodes that share one scale (so bars on different pages
+    compare); single-phase nodes are marked 1φ (their bolted fault is line-to-line);
+    empty when no node carries any of the figures."""
+    keys = [k for k, _, _ in FAULT_BARS]
+    rows = [n for n in results.nodes if any(_finite(n.values.get(k)) for k in keys)]
     if not rows:
         return []
-    vals = [
-        n.values[k]
-        for n in rows
-        for k in ("fault_max_a", "fault_min_a")
-        if _finite(n.values.get(k))
-    ]
+    vals = [n.values[k] for n in rows for k in keys if _finite(n.values.get(k))]
     xt = nice_ticks(0.0, max(vals) / 1000.0)
     step = max(1, int(rows_per_chart))
     return [_fault_chart_part(rows[i : i + step], xt, width) for i in range(0, len(rows), step)]
@@ -493,29 +299,22 @@ def _fault_chart_part(rows, xt, width: float) -> Drawing:
     sx, _ = _axes(d, x0, y0, w, h, xt, [0.0, 1.0], "fault current (kA)", "", plain, lambda t: "")
     for i, n in enumerate(rows):
         yc = y0 + h - row_h * (i + 0.5)
-        d.add(String(x0 - 4, yc - 3, txt(n.id), fontName=f.bold, fontSize=7.5, textAnchor="end"))
-        for k, dy, fill in (("fault_max_a", 2.5, GREY), ("fault_min_a", -6.5, colors.white)):
+        name = f"{n.id} 1φ" if getattr(n, "phases", None) == 1 else n.id
+        d.add(String(x0 - 4, yc - 3, txt(name), fontName=f.bold, fontSize=7.5, textAnchor="end"))
+        for j, (k, _, fill) in enumerate(FAULT_BARS):
             v = n.values.get(k)
             if not _finite(v):
                 continue
-            x1 = sx(v / 1000.0)
+            x1, yb = sx(v / 1000.0), yc + 4.5 - 6.2 * j
             d.add(
                 Rect(
-                    x0,
-                    yc + dy - 1,
-                    x1 - x0,
-                    7.5,
-                    fillColor=fill,
-                    strokeColor=colors.black,
-                    strokeWidth=0.6,
+                    x0, yb, x1 - x0, 5.2, fillColor=fill, strokeColor=colors.black, strokeWidth=0.5
                 )
             )
-            d.add(String(x1 + 3, yc + dy, fixed(v, 2, 1e-3), fontName=f.regular, fontSize=6.5))
-    ly = height - 12
-    d.add(Rect(x0, ly, 10, 7, fillColor=GREY, strokeColor=colors.black, strokeWidth=0.6))
-    d.add(String(x0 + 14, ly + 1, "maximum (bolted three-phase)", fontName=f.regular, fontSize=7))
-    d.add(
-        Rect(x0 + 150, ly, 10, 7, fillColor=colors.white, strokeColor=colors.black, strokeWidth=0.6)
-    )
-    d.add(String(x0 + 164, ly + 1, "minimum", fontName=f.regular, fontSize=7))
+            d.add(String(x1 + 3, yb + 0.4, fixed(v, 2, 1e-3), fontName=f.regular, fontSize=5.8))
+    lx, ly = x0, height - 12
+    for _, label, fill in FAULT_BARS:
+        d.add(Rect(lx, ly, 10, 7, fillColor=fill, strokeColor=colors.black, strokeWidth=0.6))
+        d.add(String(lx + 14, ly + 1, label, fontName=f.regular, fontSize=7))
+        lx += 24 + stringWidth(label, f.regular, 7)
     return d

@@ -37,21 +37,19 @@ from reportlab.platypus import (
 
 from ... import __version__
 from ..display import MISSING, display_for, node_caption
+from . import back_matter as bm
 from . import sections as sx
-from .drawing import (
-    fault_current_charts,
-    fonts,
-    one_line_diagrams,
-    txt,
-    voltage_profile_charts,
-)
+from .drawing import fault_current_charts, fonts, txt, voltage_profile_charts
 from .embed import RESULTS_NAME, attach, input_attachments
+from .front_matter import contents_section, responsibility_block
+from .one_line import one_line_diagrams
 from .tables_embed import table_attachments
 
 MARGIN = 42.0
 TOP = 60.0
 BOTTOM = 54.0
 MAX_PASSES = 4
+SHEET_ROOM = 200.0  # a calculation sheet starts a new page unless this much room is left
 
 
 @dataclass(frozen=True)
@@ -167,8 +165,10 @@ def _drawings_story(results, display, heading) -> list:
     story = [PageBreak(), heading("One-line diagram", "diagram", 0, "h1")]
     story.append(
         sx.p(
-            "Feed order from the source down; each node shows its maximum and minimum fault "
-            "current and its voltage drop from the source, where the checks computed them.",
+            "Feed order from the source down; each node shows its ratings, its maximum bolted "
+            "fault current, governing interrupting duty and minimum fault current and its "
+            "voltage drop from the source (where the checks computed them), the run that "
+            "feeds it and its motors. 1φ marks a single-phase node.",
             "body",
         )
     )
@@ -211,15 +211,15 @@ def _charts_story(charts: list, title: str, continued: str, none_text: str) -> l
     return story
 
 
-def _sheets_story(results, by_subject: dict, heading) -> list:
+def _sheets_story(results, by_subject: dict, display, heading) -> list:
     """One calculation sheet per element, node figures without a sheet, other findings."""
-    story = [PageBreak(), heading("Calculation sheets", "sheets", 0, "h1")]
+    story = [CondPageBreak(320), heading("Calculation sheets", "sheets", 0, "h1")]
     nodes = {n.id: n for n in results.nodes}
     tables_by_name = {t.name: t for t in results.provenance}
     shown_subjects = set()
     for i, sheet in enumerate(_ordered_sheets(results)):
         if i:
-            story.append(CondPageBreak(300))
+            story.append(CondPageBreak(SHEET_ROOM))
         shown_subjects.add(sheet.element_id)
         story += sx.sheet_section(
             sheet,
@@ -227,6 +227,7 @@ def _sheets_story(results, by_subject: dict, heading) -> list:
             by_subject.get(sheet.element_id, []),
             tables_by_name,
             heading,
+            display,
         )
         story.append(Spacer(1, 10))
     for n in results.nodes:
@@ -240,14 +241,14 @@ def _sheets_story(results, by_subject: dict, heading) -> list:
     if rest:
         story.append(CondPageBreak(200))
         story.append(heading("Other findings", "other", 1, "h1"))
-        story.append(sx.findings_table(rest, with_subject=True))
+        story.append(sx.findings_table(rest, with_subject=True, display=display))
     return story
 
 
 def _schedules_story(results, by_subject: dict, display, heading) -> list:
     if not results.schedules:
         return []
-    story = [PageBreak(), heading("Panel schedules", "schedules", 0, "h1")]
+    story = [CondPageBreak(300), heading("Panel schedules", "schedules", 0, "h1")]
     for i, (pid, sched) in enumerate(results.schedules.items()):
         if i:
             story.append(CondPageBreak(250))
@@ -255,7 +256,7 @@ def _schedules_story(results, by_subject: dict, display, heading) -> list:
         rows = by_subject_prefix(by_subject, pid)
         if rows:
             story.append(sx.p("Circuit findings", "h2"))
-            story.append(sx.findings_table(rows, with_subject=True))
+            story.append(sx.findings_table(rows, with_subject=True, display=display))
         story.append(Spacer(1, 10))
     return story
 
@@ -266,7 +267,10 @@ def build_story(results, pages: dict[str, int]) -> list:
     st = sx.styles()
     new_pages: dict[str, int] = pages.setdefault("__new__", {})  # type: ignore[assignment]
 
+    titles: list[tuple[str, str, int]] = []
+
     def heading(text, key, level, style):
+        titles.append((text, key, level))
         return _Heading(text, st[style], key, level, new_pages)
 
     page_of = _page_of_factory(results, {k: v for k, v in pages.items() if k != "__new__"})
@@ -274,19 +278,21 @@ def build_story(results, pages: dict[str, int]) -> list:
     by_subject: dict[str, list] = {}
     for f in results.sorted_findings():
         by_subject.setdefault(f.subject, []).append(f)
-    story: list = sx.cover(results, heading)
-    story += [PageBreak()]
+    cover: list = sx.cover(results, heading, responsibility_block())
+    story: list = [PageBreak()]
     story += sx.findings_summary(results, page_of, heading)
     story += _drawings_story(results, display, heading)
-    story += _sheets_story(results, by_subject, heading)
+    story += _sheets_story(results, by_subject, display, heading)
     story += _schedules_story(results, by_subject, display, heading)
-    story += [PageBreak()]
-    story += sx.methods_section(results, heading)
-    story += [PageBreak()]
-    story += sx.tables_section(results, heading)
-    story += [PageBreak()]
-    story += sx.cautions_section(heading)
-    return story
+    story += [CondPageBreak(300)]
+    story += bm.methods_section(results, heading)
+    story += [CondPageBreak(300)]
+    story += bm.tables_section(results, heading)
+    story += [CondPageBreak(300)]
+    story += bm.cautions_section(heading)
+    known = {k: v for k, v in pages.items() if k != "__new__"}
+    contents = contents_section(titles, known, heading)
+    return [*cover, PageBreak(), *contents, *story]
 
 
 def by_subject_prefix(by_subject: dict, panel_id: str) -> list:

@@ -14,7 +14,7 @@ from xml.sax.saxutils import escape
 
 from reportlab.lib import colors
 from reportlab.lib.styles import ParagraphStyle
-from reportlab.platypus import Paragraph, Spacer, Table, TableStyle
+from reportlab.platypus import CondPageBreak, Paragraph, Spacer, Table, TableStyle
 
 from ... import CAUTION
 from ..display import (
@@ -22,9 +22,14 @@ from ..display import (
     MISSING,
     STATUS_MEANING,
     Display,
+    amps,
+    display_for,
     figure_label,
+    finding_figures,
     fixed,
     is_flagged,
+    kilovoltamps,
+    milliohms,
     node_figure,
     number,
     status_word,
@@ -46,21 +51,24 @@ SHORT_CAUTION = (
 # schedule column: (header, width weight, decimals or None for text)
 SCHEDULE_COLUMNS: dict[str, tuple[str, float, int | None]] = {
     "circuit": ("Ckt", 0.6, None),
-    "description": ("Description", 2.1, None),
+    "description": ("Description", 1.8, None),
     "poles": ("Pol", 0.55, 0),
     "phase": ("Ph", 0.65, None),
-    "kind": ("Kind", 1.55, None),
+    "kind": ("Kind", 1.45, None),
+    "continuous": ("Cont", 0.8, None),
     "load_va": ("Load VA", 0.95, 0),
+    "pf": ("PF", 0.8, 2),
     "current_a": ("I A", 0.75, 1),
     "breaker_a": ("Brkr A", 0.75, 0),
     "size": ("Wire", 1.3, None),
+    "ground": ("EGC", 1.15, None),
     "length_m": ("Len", 0.75, None),  # header and figure in the display's length unit
     "ampacity_a": ("Amp A", 0.75, 0),
-    "vdrop_pct": ("Drop %", 0.8, 2),
+    "vdrop_pct": ("Drop %", 0.95, 2),
     "total_vdrop_pct": ("Total %", 0.85, 2),
     "status": ("Status", 1.15, None),
-    "reason": ("Reason", 2.6, None),
-    "row": ("Row", 0.72, None),
+    "reason": ("Reason", 2.05, None),
+    "row": ("Row", 0.75, None),
 }
 
 
@@ -91,6 +99,9 @@ def styles() -> dict[str, ParagraphStyle]:
             "note": style("fc-note", 7, 8.4, textColor=colors.Color(0.3, 0.3, 0.3)),
             "h1": style("fc-h1", 14, 18, bold=True, spaceAfter=6, keepWithNext=1),
             "h2": style("fc-h2", 10.5, 13, bold=True, spaceBefore=8, spaceAfter=3, keepWithNext=1),
+            # a heading over a table that may split: kept with it by a conditional break
+            # (keepWithNext would carry a long table whole to the next page)
+            "h2t": style("fc-h2t", 10.5, 13, bold=True, spaceBefore=8, spaceAfter=3),
             "title": style("fc-title", 22, 27, bold=True),
             "subtitle": style("fc-sub", 12, 16),
             "box": style(
@@ -118,6 +129,15 @@ PARAGRAPH_CHARS = 1500
 def p(text: object, style: str = "cell") -> Paragraph:
     """Paragraph of plain (escaped) text, clipped to ``PARAGRAPH_CHARS`` with an ellipsis."""
     return Paragraph(escape(txt(_clip(text, PARAGRAPH_CHARS))), styles()[style])
+
+
+TABLE_HEAD_ROOM = 90.0  # a table heading starts a page unless this much room is left
+
+
+def table_heading(text: str) -> list:
+    """A heading over a table that may split across pages (a conditional break keeps it
+    off a page foot)."""
+    return [CondPageBreak(TABLE_HEAD_ROOM), p(text, "h2t")]
 
 
 def status_cell(status: str) -> Paragraph:
@@ -162,7 +182,7 @@ def _clip(s: str, n: int) -> str:
     return s if len(s) <= n else s[: n - 1] + "…"
 
 
-def cover(results, heading) -> list:
+def cover(results, heading, before_tables: list = ()) -> list:
     j = results.job_summary
     c = results.counts()
     out = [
@@ -182,7 +202,7 @@ def cover(results, heading) -> list:
         ("Made with", f"feedcheck {j.get('feedcheck_version', '')}"),
     ]
     extra = [
-        (k.replace("_", " ").capitalize(), str(v))
+        (figure_label(k)[0], f"{number(v)} {figure_label(k)[1]}".strip())
         for k, v in j.items()
         if k
         not in (
@@ -216,7 +236,8 @@ def cover(results, heading) -> list:
     t.setStyle(TableStyle(cmds))
     out.append(t)
     out.append(Paragraph(escape(txt(CAUTION)), styles()["box"]))
-    out += [Spacer(1, 4), p("Tables used (versions)", "h2")]
+    out += list(before_tables)
+    out += [Spacer(1, 4), p("Tables in force (versions)", "h2")]
     trows = [headed(["table", "origin", "edition", "sha256 (first 16)"])]
     for tb in results.provenance:
         trows.append(
@@ -253,7 +274,7 @@ def findings_summary(results, page_of, heading) -> list:
     if not shown:
         out.append(p("No check failed and none gave a warning.", "h2"))
         return out
-    out.append(findings_table(shown, page_of, with_subject=True))
+    out.append(findings_table(shown, page_of, with_subject=True, display=display_for(results)))
     return out
 
 
@@ -265,7 +286,7 @@ def _check_cell(f) -> list:
     return cell
 
 
-def findings_table(findings, page_of=None, with_subject=False):
+def findings_table(findings, page_of=None, with_subject=False, display=DEFAULT_DISPLAY):
     head = (
         ["status"]
         + (["element"] if with_subject else [])
@@ -274,14 +295,14 @@ def findings_table(findings, page_of=None, with_subject=False):
     )
     rows = [headed(head)]
     for f in findings:
-        unit = f" {f.unit}" if f.unit else ""
+        value, limit = finding_figures(f.value, f.limit, f.unit, display)
         row = [status_cell(f.status)]
         if with_subject:
             row.append(p(f.subject, "cellb"))
         row += [
             _check_cell(f),
-            p(number(f.value) + (unit if f.value is not None else "")),
-            p(number(f.limit) + (unit if f.limit is not None else "")),
+            p(value or MISSING),
+            p(limit or MISSING),
             p(f.rule_id),
         ]
         if page_of:
@@ -300,22 +321,25 @@ def findings_table(findings, page_of=None, with_subject=False):
 
 
 def node_figures_table(node):
-    rows = [headed(["figure", "value", "unit", "key"])]
+    """The node's figures, labelled for people (the JSON keys stay in the JSON)."""
+    rows = [headed(["figure", "value", "unit"])]
     for k, v in node.values.items():
         label, shown, unit = node_figure(k, v)
-        rows.append([p(label), p(shown), p(unit), p(k, "note")])
-    return grid_table(rows, [230, 90, 70, WIDTH - 390])
+        rows.append([p(label), p(shown), p(unit)])
+    return grid_table(rows, [300, 110, WIDTH - 410])
 
 
-def sheet_section(sheet, node, findings, tables_by_name, heading) -> list:
+def sheet_section(
+    sheet, node, findings, tables_by_name, heading, display: Display = DEFAULT_DISPLAY
+) -> list:
     out = [heading(f"Calculation sheet — {sheet.title}", f"sheet:{sheet.element_id}", 1, "h1")]
     if sheet.inputs:
-        out.append(p("Inputs", "h2"))
+        out += table_heading("Inputs")
         out.append(
             grid_table([[p(a, "cellb"), p(b)] for a, b in sheet.inputs], [170, WIDTH - 170], False)
         )
     if sheet.steps:
-        out.append(p("Calculation", "h2"))
+        out += table_heading("Calculation")
         rows = [headed(["#", "step", "formula and substituted values", "result", "rule id"])]
         for i, s in enumerate(sheet.steps, start=1):
             res = number(s.result)
@@ -329,14 +353,16 @@ def sheet_section(sheet, node, findings, tables_by_name, heading) -> list:
                 ]
             )
         out.append(grid_table(rows, [18, 112, 210, 70, WIDTH - 410]))
+    if sheet.buildup is not None:
+        out += buildup_section(sheet.buildup)
     if findings:
-        out.append(p("Checks: figure, limit, status", "h2"))
-        out.append(findings_table(findings))
+        out += table_heading("Checks: figure, limit, status")
+        out.append(findings_table(findings, display=display))
     if node is not None and node.values:
-        out.append(p("Figures at this node", "h2"))
+        out += table_heading("Figures at this node")
         out.append(node_figures_table(node))
     if sheet.tables_used:
-        out.append(p("Tables used", "h2"))
+        out += table_heading("Tables used")
         rows = [headed(["table", "title", "edition", "sha256"])]
         for name in sheet.tables_used:
             tb = tables_by_name.get(name)
@@ -352,6 +378,51 @@ def sheet_section(sheet, node, findings, tables_by_name, heading) -> list:
     return out
 
 
+def buildup_section(b) -> list:
+    """The node's impedance build-up: components, their R and X in both cases referred to
+    the node's voltage, the sums and the fault figures they give."""
+    out = table_heading(f"Impedance build-up, per phase, referred to {b.voltage}")
+    rows = [headed(["component", "max case", "R mΩ", "X mΩ", "min case", "R mΩ", "X mΩ"])]
+    for r in b.rows:
+        rows.append(
+            [
+                p(r.component),
+                p(r.max_case),
+                *ohm_pair(r.z_max_ohm),
+                p(r.min_case),
+                *ohm_pair(r.z_min_ohm),
+            ]
+        )
+    rows.append(
+        [
+            p("Sum (source to this node)", "cellb"),
+            p(""),
+            *ohm_pair(b.z_max_ohm, "cellb"),
+            p(""),
+            *ohm_pair(b.z_min_ohm, "cellb"),
+        ]
+    )
+    out.append(grid_table(rows, [200, 52, 46, 46, 52, 46, WIDTH - 442]))
+    motors = f" + motors {amps(b.motor_a, 0)}" if b.motor_a > 0 else ""
+    for case, c, z, ohmic, total in (
+        ("Maximum", b.c_max, b.z_max_abs_ohm, b.fault_ohmic_max_a, b.fault_max_a),
+        ("Minimum", b.c_min, b.z_min_abs_ohm, b.fault_min_a, b.fault_min_a),
+    ):
+        more = f"{motors} = {amps(total, 0)}" if case == "Maximum" and motors else ""
+        out.append(
+            p(
+                f"{case}: |Z| = {milliohms(z)} mΩ; I = c·V_LL/(√3·|Z|) = {number(c)} × "
+                f"{number(b.voltage_v)} V / (√3 × {milliohms(z)} mΩ) = {amps(ohmic, 0)}{more}",
+                "small",
+            )
+        )
+    return out
+
+
+def ohm_pair(z: complex, style: str = "cell") -> list:
+    return [p(milliohms(z.real), style), p(milliohms(z.imag), style)]
+
+
 # ------------------------------------------------------------ schedules
 
 
@@ -360,6 +431,8 @@ def _cell_text(col: str, v, decimals, display: Display) -> str:
         return ""
     if col == "status":
         return status_word(v)
+    if col == "continuous":
+        return "yes" if bool(v) else ""
     numeric = isinstance(v, (int, float)) and not isinstance(v, bool)
     if col == "length_m" and numeric:
         return display.length_figure(v)
@@ -407,94 +480,56 @@ def schedule_table(circuits, panel_id: str = "", display: Display = DEFAULT_DISP
     return grid_table(rows, [w * scale for w in weights], status_col=sc, statuses=statuses, pad=1.5)
 
 
+def review_order(circuits, schedule):
+    """The circuits in circuit order (panel by panel), with the columns a reviewer reads
+    beside them (continuous, power factor, grounding conductor) where the results
+    carry them."""
+    review = getattr(schedule, "review", None)
+    if review is not None and len(review) == len(circuits):
+        circuits = circuits.join(review[[c for c in review.columns if c not in circuits]])
+    keys = [k for k in ("panel", "circuit") if k in circuits.columns]
+    return circuits.sort_values(keys, kind="stable") if keys else circuits
+
+
+TOTALS_PER_ROW = 3
+
+
+def totals_block(totals: dict):
+    """A panel's totals as a compact block of label / figure pairs, three to a row."""
+    cells = []
+    for k, v in totals.items():
+        if re.fullmatch(r"[a-z0-9_]+", str(k)):
+            label, shown, unit = node_figure(str(k), v)
+            shown = whole_or_number(v) if unit in ("VA", "") else shown
+            if unit == "VA" and isinstance(v, (int, float)):
+                shown, unit = kilovoltamps(v).rsplit(" ", 1)
+        else:
+            label, shown, unit = str(k), whole_or_number(v), ""
+        cells.append((label, f"{shown} {unit}".strip()))
+    rows = []
+    for i in range(0, len(cells), TOTALS_PER_ROW):
+        row = []
+        for label, text in cells[i : i + TOTALS_PER_ROW]:
+            row += [p(label, "note"), p(text, "cellb")]
+        row += [p("")] * (2 * TOTALS_PER_ROW - len(row))
+        rows.append(row)
+    w = WIDTH / TOTALS_PER_ROW
+    return grid_table(rows, [w * 0.62, w * 0.38] * TOTALS_PER_ROW, False)
+
+
 def schedule_section(panel_id, schedule, heading, display: Display = DEFAULT_DISPLAY) -> list:
     out = [heading(f"Panel schedule — {panel_id}", f"sched:{panel_id}", 1, "h1")]
     circuits = getattr(schedule, "circuits", None)
     if circuits is not None and len(circuits):
-        out.append(schedule_table(circuits, panel_id, display))
+        out.append(schedule_table(review_order(circuits, schedule), panel_id, display))
     else:
         out.append(p("No circuits in this schedule.", "body"))
     totals = getattr(schedule, "totals", None) or {}
     if totals:
-        out.append(p("Totals", "h2"))
-        rows = []
-        for k, v in totals.items():
-            if re.fullmatch(r"[a-z0-9_]+", str(k)):
-                label, _, unit = node_figure(str(k), v)
-            else:
-                label, unit = str(k), ""
-            rows.append([p(label, "cellb"), p(whole_or_number(v)), p(unit)])
-        t = grid_table(rows, [200, 110, 60], False)
-        t.hAlign = "LEFT"
-        out.append(t)
+        out += table_heading("Panel totals")
+        out.append(totals_block(totals))
     notices = list(getattr(schedule, "notices", None) or ())
     if notices:  # what the reader skipped or did not understand: never dropped in silence
         out.append(p("Reading notices", "h2"))
         out.extend(p(f"• {n}", "body") for n in notices)
-    return out
-
-
-# --------------------------------------------- methods, tables, cautions
-
-
-def methods_section(results, heading) -> list:
-    out = [heading("Methods and assumptions", "methods", 0, "h1")]
-    if results.methods:
-        rows = [headed(["method", "published source"])]
-        rows += [[p(m), p(s)] for m, s in results.methods]
-        out.append(grid_table(rows, [300, WIDTH - 300]))
-    else:
-        out.append(p("No method was recorded by the checks.", "body"))
-    out.append(p("Assumptions", "h2"))
-    if results.assumptions:
-        out += [p(f"• {a}", "body") for a in results.assumptions]
-    else:
-        out.append(p("No assumption was made beyond the job's inputs and the tables.", "body"))
-    return out
-
-
-def tables_section(results, heading) -> list:
-    out = [heading("Table provenance", "tables", 0, "h1")]
-    out.append(
-        p(
-            "Each data table the checks read, with the document it follows. Tables of "
-            "confidence other than 'published' must be checked against the source before "
-            "the figures that use them are relied on.",
-            "body",
-        )
-    )
-    for tb in results.provenance:
-        rows = [
-            ("Title", tb.title),
-            ("Source", tb.source),
-            ("Edition", tb.edition),
-            ("Confidence", tb.confidence),
-            ("Basis", tb.basis or MISSING),
-            ("Conditions", tb.conditions or MISSING),
-            ("Origin", f"{tb.origin} copy, sha256 {tb.sha256}"),
-        ]
-        out.append(p(tb.name, "h2"))
-        out.append(grid_table([[p(a, "cellb"), p(b)] for a, b in rows], [80, WIDTH - 80], False))
-    return out
-
-
-CAUTION_POINTS = (
-    "These results are an aid to design and review, not an approval. Every figure must be "
-    "verified against the electrical code adopted where the work is done, with its local "
-    "amendments.",
-    "A licensed electrician or engineer must review the figures, the inputs and the "
-    "conclusions before anything is bought, built or energised.",
-    "The figures are only as good as the inputs: conductor lengths, sizes, nameplate "
-    "impedances and loads should be confirmed on site and against the equipment supplied.",
-    "This tool does not cover the safety of the work on site: isolation, testing for "
-    "absence of voltage, protective equipment and safe work practices are outside it.",
-    "Tables marked 'common practice' or 'from memory — verify' on the table provenance "
-    "page have not been confirmed against a published source.",
-)
-
-
-def cautions_section(heading) -> list:
-    out = [heading("Cautions", "cautions", 0, "h1")]
-    out.append(Paragraph(escape(txt(CAUTION)), styles()["box"]))
-    out += [p(f"• {c}", "body") for c in CAUTION_POINTS]
     return out
