@@ -46,7 +46,6 @@ import io
 import re
 from dataclasses import replace
 from pathlib import Path
-from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -57,9 +56,6 @@ from .files import FileKind, FileRefused, decode_utf8, read_bytes
 from .schedule_cells import MAX_PROBLEMS, Cells, factorised, truthy
 from .schedule_header import match_header
 from .schedule_rows import compare_totals, set_aside, unfold_two_column
-
-if TYPE_CHECKING:
-    import pandas as pd
 
 MAX_FILE_BYTES = 200_000_000
 MAX_ROWS = 2_000_000
@@ -91,9 +87,8 @@ def _guard_file(path: Path, problems: ProblemList) -> bytes:
     return raw
 
 
-def _read_csv(raw: bytes, problems: ProblemList) -> list[list[str]] | pd.DataFrame:
-    import pandas as pd
-
+def _read_csv(raw: bytes, problems: ProblemList) -> np.ndarray:
+    """The file's cells as a 2-D array of texts (row 0 the header)."""
     try:
         text = decode_utf8(raw, "UTF-8 text (save the schedule as CSV UTF-8)")
     except FileRefused as exc:
@@ -108,6 +103,29 @@ def _read_csv(raw: bytes, problems: ProblemList) -> list[list[str]] | pd.DataFra
     if n_lines > MAX_ROWS + 1:
         problems.add("", f"{n_lines:,} lines", f"at most {MAX_ROWS:,} circuit rows per file")
         problems.raise_if_any()
+    plain = _plain_csv(text)
+    return plain if plain is not None else _pandas_csv(text, problems)
+
+
+def _plain_csv(text: str) -> np.ndarray | None:
+    """A small file of plain cells (no quotes, blank lines, ragged rows or carriage
+    returns) split without the CSV parser's fixed cost; None for anything else, which
+    the parser reads (the same cells either way)."""
+    if len(text) > 200_000 or '"' in text or "\r" in text:
+        return None
+    lines = text[:-1].split("\n") if text.endswith("\n") else text.split("\n")
+    rows = [line.split(",") for line in lines]
+    width = len(rows[0])
+    if any(len(r) != width or r == [""] for r in rows):
+        return None
+    out = np.empty((len(rows), width), dtype=object)
+    out[:] = rows
+    return out
+
+
+def _pandas_csv(text: str, problems: ProblemList) -> np.ndarray:
+    import pandas as pd
+
     try:
         df = pd.read_csv(
             io.StringIO(text),
@@ -128,7 +146,7 @@ def _read_csv(raw: bytes, problems: ProblemList) -> list[list[str]] | pd.DataFra
     except pd.errors.EmptyDataError:
         problems.add("", "(empty file)", "a header row and one row per circuit")
         problems.raise_if_any()
-    return df
+    return df.to_numpy(object)
 
 
 def _refuse_nul(text: str, problems: ProblemList) -> None:
@@ -193,11 +211,10 @@ def _cell_text(v) -> str:
     return str(v)
 
 
-def _read_xlsx(raw: bytes, problems: ProblemList) -> pd.DataFrame:
+def _read_xlsx(raw: bytes, problems: ProblemList) -> np.ndarray:
     import warnings
 
     import openpyxl
-    import pandas as pd
 
     _xlsx_guard(raw, problems)
     try:
@@ -237,8 +254,9 @@ def _read_xlsx(raw: bytes, problems: ProblemList) -> pd.DataFrame:
     if not rows or not any(any(c.strip() for c in r) for r in rows):
         problems.add("", "(empty sheet)", "a header row and one row per circuit on the first sheet")
         problems.raise_if_any()
-    rows = [r + [""] * (width - len(r)) for r in rows]
-    return pd.DataFrame(rows, dtype=object)
+    out = np.empty((len(rows), width), dtype=object)
+    out[:] = [r + [""] * (width - len(r)) for r in rows]
+    return out
 
 
 # --------------------------------------------------------------------------- schedule
@@ -293,8 +311,8 @@ def read_schedule(
         problems.raise_if_any()
     df, row_no = unfold_two_column(df, layout, notices, problems)
     # every column as (codes, distinct stripped texts) of the rows below the header
-    cols = {pos: factorised(df[col].to_numpy(object)[1:]) for pos, col in enumerate(df.columns)}
-    head = df.iloc[:6].astype(str)
+    cols = {pos: factorised(df[1:, pos]) for pos in range(df.shape[1])}
+    head = [[str(x) for x in r] for r in df[:6].tolist()]
     found = match_header(
         head, lambda pos: bool((cols[pos][1] != "").any()), problems, notices, columns
     )
@@ -377,7 +395,7 @@ def _circuit_rows(cols, head, found, problems: ProblemList, rows_all):
         blank &= (uniq == "")[codes]
     # a header row repeated below the header (pasted twice, or a page break copy)
     circ_pos = found["circuit"][0]
-    head_txt = str(head.iat[0, circ_pos]).strip().lower()
+    head_txt = head[0][circ_pos].strip().lower()
     codes, uniq = cols[circ_pos]
     rep = np.array([u.lower() == head_txt for u in uniq], dtype=bool)[codes]
     keep = np.flatnonzero(~blank)
@@ -493,9 +511,7 @@ def _installation_columns(c: Cells) -> dict[str, np.ndarray]:
     gsize = np.where(no_g, cell["ground_size"], ground["size"])
     gmat = np.where(no_g, cell["ground_material"], ground["material"])
     # an insulation type in the cell (THHN …): the lower of it and the insulation column
-    import pandas as pd
-
-    ins = pd.Series(ins, dtype=object).astype(float).to_numpy()
+    ins = np.array(ins.tolist(), dtype=float)
     stated = c.text("insulation") != ""
     typed = cell["insulation_c"]
     ins = np.where(np.isnan(typed), ins, np.where(stated, np.fmin(ins, typed), typed))
@@ -518,12 +534,10 @@ def _installation_columns(c: Cells) -> dict[str, np.ndarray]:
 def _check_spaces(circuit, poles, panel, rows, found, problems: ProblemList) -> None:
     """Duplicate circuit numbers and spaces taken twice (an n-pole circuit at space s
     takes s, s+2, ...)."""
-    import pandas as pd
-
     valid = np.isfinite(circuit) & np.isfinite(poles)
     if not valid.any():
         return
-    pan_codes = pd.factorize(pd.Series(panel))[0]
+    pan_codes = _codes(panel)
     n_pole = np.where(valid, poles, 1).astype(np.int64)
     idx = np.repeat(np.flatnonzero(valid), n_pole[valid])
     step = np.arange(len(idx)) - np.repeat(np.cumsum(n_pole[valid]) - n_pole[valid], n_pole[valid])
@@ -550,6 +564,12 @@ def _check_spaces(circuit, poles, panel, rows, found, problems: ProblemList) -> 
             f"a circuit number not used twice in panel {panel[j]} (it has "
             f"{what} row {rows[first]}, space {space[order[d]]})",
         )
+
+
+def _codes(values: np.ndarray) -> np.ndarray:
+    """Number each distinct value in the order met (as ``pandas.factorize``)."""
+    seen: dict = {}
+    return np.array([seen.setdefault(v, len(seen)) for v in values.tolist()], dtype=np.intp)
 
 
 def _schedule(path: Path, v: dict, c: Cells, rows, notices, spaces, length_unit) -> Schedule:
