@@ -82,18 +82,17 @@ def _rule(rule_id: str) -> float:
 def _pickup(device_type: str, device_a: float) -> tuple[float, float, str]:
     from ..tables import load_table
 
-    t = load_table("instantaneous_pickup").data
-    rows = t[
-        (t["device_type"] == device_type)
-        & (t["rating_from_a"] <= device_a)
-        & (device_a <= t["rating_to_a"])
+    rows = [
+        r
+        for r in load_table("instantaneous_pickup").records()
+        if r["device_type"] == device_type and r["rating_from_a"] <= device_a <= r["rating_to_a"]
     ]
-    if rows.empty:
+    if not rows:
         _fail(
             f"no row of tables/instantaneous_pickup.csv for --device-type {device_type} "
             f"at {device_a:g} A; give --pickup-multiple"
         )
-    row = rows.iloc[0]
+    row = rows[0]
     return float(row["multiple"]), float(row["tolerance_pct"]), str(row["rule_id"])
 
 
