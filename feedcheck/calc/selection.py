@@ -106,6 +106,86 @@ class Selection:
     rule_ids: tuple[str, ...]
 
 
+@dataclass(frozen=True)
+class _Extra:
+    """The voltage-drop and withstand criteria of one selection, checked size by size."""
+
+    check_vd: bool
+    check_ws: bool
+    run: tuple  # material, raceway, sets, load current [A], SizingData
+    drop: tuple  # length [m], voltage [V], pf, phases, drop limit [%]
+    withstand: tuple  # insulation kind, fault current [A], clearing time [s]
+
+    def verdicts(self, name: str, ampacity_ok: bool, protection_ok: bool):
+        """Each criterion's verdict for size ``name``, the drop [%] and withstand [A]."""
+        material, raceway, sets, load_a, data = self.run
+        passed = {"ampacity": ampacity_ok, "protection": protection_ok}
+        vd_pct = ws = None
+        if self.check_vd:
+            length_m, voltage_v, pf, phases, vdrop_max_pct = self.drop
+            r, x = ac_impedance_ohm_per_m(
+                name, material, raceway, VDROP_CONDUCTOR_C, data=data.conductors
+            )
+            vd_pct = 100.0 * _vdrop_v(load_a, r, x, length_m, pf, phases, sets) / voltage_v
+            passed["voltage drop"] = vd_pct <= vdrop_max_pct + 1e-12
+        if self.check_ws:
+            insulation, fault_a, clearing_s = self.withstand
+            area = float(AREA_MM2[size_index(name)])
+            k = k_constant(insulation, material, "line", area, data=data.withstand).k
+            ws = float(withstand_current_a(area, clearing_s, k)) * sets
+            passed["withstand"] = ws >= fault_a
+        return passed, vd_pct, ws
+
+
+def _check_args(phases, pf, system, sets) -> None:
+    if phases not in (1, 3):
+        raise ValueError(f"phases: got {phases}; expected 1 or 3")
+    if not (0 < pf <= 1):
+        raise ValueError(f"pf: got {pf}; expected a power factor in (0, 1]")
+    if system not in ("awg", "metric"):
+        raise ValueError(f"system: got {system!r}; expected 'awg' or 'metric'")
+    if not (isinstance(sets, int | np.integer) and sets >= 1):
+        raise ValueError(f"sets: got {sets}; expected a whole number ≥ 1")
+
+
+def _device(continuous_a, noncontinuous_a, device_a, data: SizingData) -> float:
+    """The device given (at least 125 % continuous + noncontinuous, 215.3), else the next
+    standard rating above that."""
+    need = float(device_min_for_load_a(continuous_a, noncontinuous_a, tables=data.protection))
+    if need <= 0:
+        raise ValueError("continuous_a, noncontinuous_a: expected a load above 0 A")
+    dev = (
+        float(next_standard_rating_a(need, tables=data.protection))
+        if device_a is None
+        else float(device_a)
+    )
+    if dev < need - 1e-9:
+        raise ValueError(
+            f"device_a: got {dev:g} A; expected at least {need:g} A "
+            "(125 % of continuous + noncontinuous, NFPA 70 215.3)"
+        )
+    return dev
+
+
+def _none_meets(first: dict, check_vd: bool, check_ws: bool) -> None:
+    missing = [
+        c
+        for c in CRITERIA
+        if c not in first
+        and (
+            c in ("ampacity", "protection")
+            or (c == "voltage drop" and check_vd)
+            or (c == "withstand" and check_ws)
+        )
+    ]
+    raise ValueError(
+        "no standard size meets every criterion"
+        + (f" (none meets: {', '.join(missing)})" if missing else "")
+        + "; try more parallel sets, a higher insulation column or a "
+        "shorter run"
+    )
+
+
 def _candidates(system, sets, material, termination_c, dev, equipment_75c, data: SizingData):
     """The sizes tried, smallest first (tabulated for the material; 1/0 AWG or larger in
     parallel), and the termination column of each (110.14(C)(1) when not given)."""
@@ -243,29 +323,16 @@ def select_conductor(
     ----------
     NFPA 70-2023 110.14(C), 215.2(A)(1), 215.3, 240.4; IEC 60364-4-43 434.5.2.
     """
-    if phases not in (1, 3):
-        raise ValueError(f"phases: got {phases}; expected 1 or 3")
-    if not (0 < pf <= 1):
-        raise ValueError(f"pf: got {pf}; expected a power factor in (0, 1]")
-    if system not in ("awg", "metric"):
-        raise ValueError(f"system: got {system!r}; expected 'awg' or 'metric'")
-    if not (isinstance(sets, int | np.integer) and sets >= 1):
-        raise ValueError(f"sets: got {sets}; expected a whole number ≥ 1")
-    need = float(device_min_for_load_a(continuous_a, noncontinuous_a, tables=data.protection))
-    if need <= 0:
-        raise ValueError("continuous_a, noncontinuous_a: expected a load above 0 A")
-    dev = (
-        float(next_standard_rating_a(need, tables=data.protection))
-        if device_a is None
-        else float(device_a)
+    _check_args(phases, pf, system, sets)
+    dev = _device(continuous_a, noncontinuous_a, device_a, data)
+    extra = _Extra(
+        length_m > 0 and voltage_v is not None,
+        fault_a is not None,
+        (material, raceway, sets, continuous_a + noncontinuous_a, data),
+        (length_m, voltage_v, pf, phases, vdrop_max_pct),
+        (withstand_insulation, fault_a, clearing_s),
     )
-    if dev < need - 1e-9:
-        raise ValueError(
-            f"device_a: got {dev:g} A; expected at least {need:g} A "
-            "(125 % of continuous + noncontinuous, NFPA 70 215.3)"
-        )
-    check_vd = length_m > 0 and voltage_v is not None
-    check_ws = fault_a is not None
+    check_vd, check_ws = extra.check_vd, extra.check_ws
     if check_ws and clearing_s is None:
         raise ValueError("clearing_s: expected a clearing time with fault_a")
     for what, v in (("continuous_a", continuous_a), ("noncontinuous_a", noncontinuous_a)):
@@ -278,20 +345,7 @@ def select_conductor(
     first: dict[str, str] = {}
     chosen = None
     for i, name in enumerate(names):
-        passed = {"ampacity": bool(ok[0][i]), "protection": bool(ok[1][i])}
-        vd_pct = ws = None
-        if check_vd:
-            r, x = ac_impedance_ohm_per_m(
-                name, material, raceway, VDROP_CONDUCTOR_C, data=data.conductors
-            )
-            load_a = continuous_a + noncontinuous_a
-            vd_pct = 100.0 * _vdrop_v(load_a, r, x, length_m, pf, phases, sets) / voltage_v
-            passed["voltage drop"] = vd_pct <= vdrop_max_pct + 1e-12
-        if check_ws:
-            area = float(AREA_MM2[size_index(name)])
-            k = k_constant(withstand_insulation, material, "line", area, data=data.withstand).k
-            ws = float(withstand_current_a(area, clearing_s, k)) * sets
-            passed["withstand"] = ws >= fault_a
+        passed, vd_pct, ws = extra.verdicts(name, bool(ok[0][i]), bool(ok[1][i]))
         for c, good in passed.items():
             if good and c not in first:
                 first[c] = name
@@ -305,22 +359,7 @@ def select_conductor(
                 break
     order = AWG_KCMIL_ORDER if system == "awg" else METRIC_ORDER
     if chosen is None:
-        missing = [
-            c
-            for c in CRITERIA
-            if c not in first
-            and (
-                c in ("ampacity", "protection")
-                or (c == "voltage drop" and check_vd)
-                or (c == "withstand" and check_ws)
-            )
-        ]
-        raise ValueError(
-            "no standard size meets every criterion"
-            + (f" (none meets: {', '.join(missing)})" if missing else "")
-            + "; try more parallel sets, a higher insulation column or a "
-            "shorter run"
-        )
+        _none_meets(first, check_vd, check_ws)
     name, term, chain, mx, vd_pct, ws = chosen
     rank = {n: i for i, n in enumerate(order)}
     present = [c for c in CRITERIA if c in first]

@@ -20,22 +20,18 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..errors import InputError, ProblemList
+from ..errors import InputError
 from ..model import Job, Schedule, VoltageSystem
 from ..rulebook import RuleBook
-from .schedule_circuits import circuit_quantities
-from .schedule_rules import apply_rules, circuit_findings
 from .schedules import (
     ScheduleDemand,
     ScheduleResult,
-    _circuits_frame,
-    _Deferred,
     _panel_findings,
-    _panel_table,
-    _phases,
     _rule_rows,
+    check_frame,
     check_schedule,
     schedule_demand,
+    schedule_result,
 )
 
 
@@ -110,68 +106,41 @@ class ScheduleBatch:
         )
 
     def _check_joined(self, g: _Group, drops, limits) -> dict[str, ScheduleResult]:
-        """The group's circuits in one frame, split back per panel (as check_schedule)."""
-        s, system, demand = g.joined, g.system, g.demand
-        rules = _rule_rows(self.book)
-        c = s.circuits
-        q = circuit_quantities(
-            c,
-            s.load_unit,
-            system,
-            {pid: drops.get(pid, 0.0) for pid in g.ids},
-            limits,
-            ProblemList(str(s.path)),
-            self.book,
-        )
-        statuses = {k: str(r["status"]) for k, r in rules.items()}
-        sev, reason, found = apply_rules(q, len(c), statuses, limits)
-        per_phase, phase_txt = _phases(q["poles"], q["circuit"], demand, system)
-        panels, design_va, imbalance = _panel_table(demand, per_phase, sev, system)
-        counts = [
-            (getattr(self.schedules[pid], "spaces", {}) or {}).get(pid, (0, 0))
-            for pid in demand.panel_ids
-        ]
-        panels["spares"] = [int(n[0]) for n in counts]
-        panels["spaces"] = [int(n[1]) for n in counts]
-        circuits = _circuits_frame(c, q, phase_txt, sev, reason)
+        """The group's circuits in one frame (the steps of check_schedule), split back
+        per panel."""
+        demand, rules = g.demand, _rule_rows(self.book)
+        drop = {pid: drops.get(pid, 0.0) for pid in g.ids}
+        k = check_frame(g.joined, g.system, drop, limits, demand, self.book, rules)
         loads = demand.loads
         starts = np.searchsorted(demand.panel_code, np.arange(len(g.ids) + 1))
         out = {}
         for j, pid in enumerate(demand.panel_ids):
             a, b = int(starts[j]), int(starts[j + 1])
             p = self.panels[pid]
-            panel_row = panels.iloc[j : j + 1].reset_index(drop=True)
+            panel_row = k.panels.iloc[j : j + 1].reset_index(drop=True)
             findings = _panel_findings(
                 panel_row,
-                design_va[j : j + 1],
-                imbalance[j : j + 1],
-                per_phase[j : j + 1],
+                k.design_va[j : j + 1],
+                k.imbalance[j : j + 1],
+                k.per_phase[j : j + 1],
                 rules,
-                system,
+                g.system,
                 p.rating_a,
                 p.main_device_a,
             )
-            mine = _slice_found(found, a, b)
-            any_fail = any(f[6] == "fail" for f in mine) or any(
-                f.status == "fail" for f in findings
-            )
-            out[pid] = ScheduleResult(
-                self.schedules[pid].path,
-                system.text,
-                circuits.iloc[a:b].reset_index(drop=True),
-                _totals_of(panel_row, g.occupancy, system),
-                panel_row,
-                _Deferred(_builder(q["panel"][a:b], q["circuit"][a:b], mine, findings), any_fail),
+            out[pid] = schedule_result(
+                self.schedules[pid],
+                g.system,
+                (
+                    k.circuits.iloc[a:b].reset_index(drop=True),
+                    _totals_of(panel_row, g.occupancy, g.system),
+                    panel_row,
+                ),
+                (k.q["panel"][a:b], k.q["circuit"][a:b], _slice_found(k.found, a, b), findings),
                 loads[pid],
                 {pid: loads[pid]},
-                list(getattr(self.schedules[pid], "notices", ())),
-                getattr(self.schedules[pid], "length_unit", "ft"),
             )
         return out
-
-
-def _builder(panel, circuit, found, findings):
-    return lambda: circuit_findings(panel, circuit, found) + findings
 
 
 def _join(schedules: list[Schedule]) -> Schedule:
@@ -180,7 +149,11 @@ def _join(schedules: list[Schedule]) -> Schedule:
 
     circuits = pd.concat([s.circuits for s in schedules], ignore_index=True)
     panels = tuple(p for s in schedules for p in s.panels)
-    return Schedule(schedules[0].path, circuits, schedules[0].load_unit, panels)
+    # each panel's spares and spaces as its own file counted them
+    spaces = {
+        p: (getattr(s, "spaces", {}) or {}).get(p, (0, 0)) for s in schedules for p in s.panels
+    }
+    return Schedule(schedules[0].path, circuits, schedules[0].load_unit, panels, spaces=spaces)
 
 
 def _slice_found(found: list, a: int, b: int) -> list:
