@@ -177,3 +177,81 @@ def _totals_of(panel_row, occupancy: str, system: VoltageSystem) -> dict:
     totals["occupancy"] = occupancy
     totals["system"] = system.text
     return totals
+
+
+def check_files(items, feeder_drop_pct, occupancy, bus_a, main_a, book: RuleBook) -> list:
+    """Schedules of ``feedcheck schedule`` (``items``: (schedule, system) in file order)
+    checked as :func:`~feedcheck.checks.schedules.check_schedule` checks each alone,
+    but the one-panel files alike in system and load unit in one frame (the fixed cost
+    per check paid once per group, not once per file). Returns, per item, its
+    ScheduleResult or the InputError its check raised.
+    """
+    from ..errors import InputError
+
+    out: list = [None] * len(items)
+    groups: dict[tuple, dict[str, int]] = {}
+    for i, (s, system) in enumerate(items):
+        g = groups.setdefault((system, s.load_unit), {})
+        if len(s.panels) == 1 and s.panels[0] not in g:
+            g[s.panels[0]] = i
+        else:  # several panels in the file, or a panel id met before: alone
+            out[i] = _alone(s, system, feeder_drop_pct, occupancy, bus_a, main_a, book)
+    for (system, _unit), members in groups.items():
+        done = None
+        if len(members) > 1:
+            try:
+                panel_opts = (feeder_drop_pct, occupancy, bus_a, main_a)
+                done = _joined_files(items, members, system, panel_opts, book)
+            except InputError:
+                done = None  # each file on its own: the message names its file
+        for pid, i in members.items():
+            if done is not None:
+                out[i] = done[pid]
+            else:
+                s = items[i][0]
+                out[i] = _alone(s, system, feeder_drop_pct, occupancy, bus_a, main_a, book)
+    return out
+
+
+def _alone(s, system, feeder_drop_pct, occupancy, bus_a, main_a, book):
+    from ..errors import InputError
+
+    try:
+        return check_schedule(s, system, feeder_drop_pct, occupancy, bus_a, main_a, rules=book)
+    except InputError as exc:
+        return exc
+
+
+def _joined_files(items, members, system, panel_opts, book) -> dict:
+    """One-panel files checked in one frame, split back per file."""
+    from .drop_rules import drop_limits
+    from .schedules import panel_totals
+
+    feeder_drop_pct, occupancy, bus_a, main_a = panel_opts
+    scheds = [items[i][0] for i in members.values()]
+    joined = _join(scheds)
+    demand = schedule_demand(joined, system, occupancy, book)
+    rules = _rule_rows(book)
+    k = check_frame(joined, system, feeder_drop_pct, drop_limits(rules=book), demand, book, rules)
+    loads = demand.loads
+    totals = panel_totals(k.panels, occupancy, system)
+    starts = np.searchsorted(demand.panel_code, np.arange(len(scheds) + 1))
+    out = {}
+    for j, (pid, i) in enumerate(members.items()):
+        a, b = int(starts[j]), int(starts[j + 1])
+        row = k.panels.iloc[j : j + 1].reset_index(drop=True)
+        one = (k.design_va[j : j + 1], k.imbalance[j : j + 1], k.per_phase[j : j + 1])
+        findings = _panel_findings(row, *one, rules, system, bus_a, main_a)
+        out[pid] = schedule_result(
+            items[i][0],
+            system,
+            (
+                k.circuits.iloc[a:b].reset_index(drop=True),
+                totals[j],
+                row,
+            ),
+            (k.q["panel"][a:b], k.q["circuit"][a:b], _slice_found(k.found, a, b), findings),
+            loads[pid],
+            {pid: loads[pid]},
+        )
+    return out

@@ -469,16 +469,18 @@ def _totals(panels, demand: ScheduleDemand, imbalance, n: int, occupancy: str, s
             "occupancy": occupancy,
             "system": system.text,
         }
-    totals = {
-        k: (
-            int(v)
-            if isinstance(v, (int, np.integer))
-            else float(v)
-            if isinstance(v, (float, np.floating))
-            else v
-        )
-        for k, v in zip(panels.columns, (panels[k].iat[0] for k in panels.columns), strict=True)
-    }
-    totals["occupancy"] = occupancy
-    totals["system"] = system.text
-    return totals
+    return panel_totals(panels, occupancy, system)[0]
+
+
+def panel_totals(panels, occupancy: str, system) -> list[dict]:
+    """Each panel's figures as the totals of a one-panel schedule (Python numbers)."""
+    out = []
+    for row in panels.to_dict("records"):
+        totals = {
+            k: (int(v) if isinstance(v, int) else float(v) if isinstance(v, float) else v)
+            for k, v in row.items()
+        }
+        totals["occupancy"] = occupancy
+        totals["system"] = system.text
+        out.append(totals)
+    return out

@@ -346,23 +346,21 @@ def _file_system(path: Path, s, opts):
 
 
 def _from_files(files, opts, panel_opts, done, unreadable):
-    from ..checks.schedules import check_schedule
+    from ..checks.schedule_batch import check_files
     from ..errors import InputError
     from ..inputs.schedule_file import read_schedule
+    from ..rulebook import current_rulebook
 
-    feeder_drop, occupancy, bus_a, main_a = panel_opts
-    results, bad = [], []
+    read, bad = [], []  # (file number, path, schedule, system); (file number, InputError)
 
     def one(path, stage=lambda _w: None):
         try:
             stage("reading")
             s = read_schedule(path, columns=opts["columns"], layout=opts["layout"])
-            system = _file_system(path, s, opts)
+            read.append((len(read) + len(bad), path, s, _file_system(path, s, opts)))
             stage("checking")
-            results.append(check_schedule(s, system, feeder_drop, occupancy, bus_a, main_a))
-            done.append(str(path))
         except InputError as exc:
-            bad.append(exc)
+            bad.append((len(read) + len(bad), exc))
 
     big = [f for f in files if _size(f) >= LARGE_FILE_BYTES]
     if len(files) >= PROGRESS_FROM:
@@ -375,6 +373,17 @@ def _from_files(files, opts, panel_opts, done, unreadable):
     else:
         for f in files:
             one(f)
+    # alike one-panel files are checked together (checks/schedule_batch.py)
+    items = [(s, system) for _, _, s, system in read]
+    checked = check_files(items, *panel_opts, current_rulebook())
+    results = []
+    for (k, path, _s, _system), res in zip(read, checked, strict=True):
+        if isinstance(res, InputError):
+            bad.append((k, res))
+        else:
+            results.append(res)
+            done.append(str(path))
+    bad = [exc for _, exc in sorted(bad, key=lambda kb: kb[0])]
     if bad and not opts["keep_going"]:
         raise InputError([p for exc in bad for p in exc.problems])
     unreadable.extend(bad)
