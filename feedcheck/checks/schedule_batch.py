@@ -215,9 +215,11 @@ def check_files(items, feeder_drop_pct, occupancy, bus_a, main_a, book: RuleBook
 
 def _alone(s, system, feeder_drop_pct, occupancy, bus_a, main_a, book):
     from ..errors import InputError
+    from . import schedules  # looked up at each call (a test may stand in for it)
 
     try:
-        return check_schedule(s, system, feeder_drop_pct, occupancy, bus_a, main_a, rules=book)
+        check = schedules.check_schedule
+        return check(s, system, feeder_drop_pct, occupancy, bus_a, main_a, rules=book)
     except InputError as exc:
         return exc
 
