@@ -386,7 +386,9 @@ def _panel_findings(panels, design_va, imbalance, per_phase, rules, system, bus_
     n_ph = 3 if system.phases == 3 else (2 if system.kind == "split" else 1)
     imb = rules["sched-imbalance"]
     findings: list[Finding] = []
-    for j, pid in enumerate(panels["panel"]):
+    design_a = panels["design_current_a"].to_numpy(float)
+    line_a = panels[[f"phase_{x}_design_a" for x in "abc"]].to_numpy(float)
+    for j, pid in enumerate(panels["panel"].tolist()):
         findings.append(
             compare(
                 float(imbalance[j]),
@@ -403,8 +405,8 @@ def _panel_findings(panels, design_va, imbalance, per_phase, rules, system, bus_
                 tolerance=0.0,
             )
         )
-        i_d = float(panels["design_current_a"].iat[j])
-        heavy = "ABC"[int(np.argmax(panels[[f"phase_{x}_design_a" for x in "abc"]].iloc[j]))]
+        i_d = float(design_a[j])
+        heavy = "ABC"[int(np.argmax(line_a[j]))]
         for rid, what, rating in (
             ("panel-bus-load", "bus rating", bus_a),
             ("panel-main-load", "main device", main_a),
