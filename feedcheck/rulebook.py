@@ -311,7 +311,7 @@ class RuleBook:
 
 
 def _records(t: Table) -> tuple[Row, ...]:
-    return tuple(MappingProxyType(r) for r in t.data.to_dict("records"))
+    return tuple(MappingProxyType(r) for r in t.records())
 
 
 def _missing(t: Table, column: str, value: str, expected: str) -> None:
@@ -322,12 +322,12 @@ def _missing(t: Table, column: str, value: str, expected: str) -> None:
 
 def _ampacity_array(t: Table) -> np.ndarray:
     """(material, column 60/75/90, size) array; metric sizes interpolated log-log."""
-    df = t.data
+    df = t.columns
     out = np.full((2, 3, len(SIZE_NAMES)), np.nan)
-    idx = size_index(df["size"].to_numpy(str))
-    m = material_index(df["material"].to_numpy(str))
+    idx = size_index(df["size"].astype(str))
+    m = material_index(df["material"].astype(str))
     for c, col in enumerate(("c60_a", "c75_a", "c90_a")):
-        out[m, c, idx] = df[col].to_numpy(float)
+        out[m, c, idx] = df[col].astype(float)
     metric = np.array([SIZES[n].system == "metric" for n in SIZE_NAMES])
     for mm in range(2):
         for c in range(3):
@@ -344,58 +344,59 @@ def _ampacity_array(t: Table) -> np.ndarray:
 
 
 def _ampacity(tabs: Mapping[str, Table], rules: Mapping[str, RuleRow]) -> AmpacityTables:
-    adj = tabs["adjustment_factors"].data
-    roof = tabs["rooftop_adder"].data
+    adj = tabs["adjustment_factors"].columns
+    roof = tabs["rooftop_adder"].records()
     metric = np.array([SIZES[n].system == "metric" for n in SIZE_NAMES])
     return AmpacityTables(
         _ampacity_array(tabs["ampacity_raceway"]),
         _ampacity_array(tabs["ampacity_free_air"]),
         metric,
-        adj["count_from"].to_numpy(int),
-        adj["count_to"].to_numpy(int),
-        adj["factor"].to_numpy(float),
-        tuple(adj["rule_id"].astype(str)),
+        adj["count_from"].astype(int),
+        adj["count_to"].astype(int),
+        adj["factor"].astype(float),
+        tuple(str(x) for x in adj["rule_id"].tolist()),
         tuple(
             (
-                str(r.edition),
-                float(r.height_from_mm),
-                float(r.height_to_mm),
-                float(r.adder_c),
-                str(r.rule_id),
+                str(r["edition"]),
+                float(r["height_from_mm"]),
+                float(r["height_to_mm"]),
+                float(r["adder_c"]),
+                str(r["rule_id"]),
             )
-            for r in roof.itertuples(index=False)
+            for r in roof
         ),
         _need(rules, tabs, "ampacity_rules", "continuous-125").number() / 100.0,
     )
 
 
-def _by_key(t: Table, key: str, wanted: tuple[str, ...], column: str):
-    df = t.data.set_index(key)
+def _by_key(t: Table, key: str, wanted: tuple[str, ...], column: str) -> np.ndarray:
+    """Column ``column`` of the rows whose ``key`` is each of ``wanted``, in that order."""
+    keys = t.columns[key].tolist()
     for w in wanted:
-        if w not in df.index:
+        if w not in keys:
             _missing(t, key, w, f"a row for {w!r}")
-    return df.loc[list(wanted), column]
+    return t.columns[column][[keys.index(w) for w in wanted]]
 
 
 def _conductors(tabs: Mapping[str, Table]) -> ConductorData:
-    t9 = tabs["conductor_impedance_table9"].data
+    t9 = tabs["conductor_impedance_table9"].records()
     mat_t, rw_t = tabs["conductor_materials"], tabs["raceway_effects"]
-    ins = tabs["insulation_thickness"].data
+    ins = tabs["insulation_thickness"].columns
     n = len(SIZE_NAMES)
     r75 = np.full((2, 3, n), np.nan)
     xl = np.full((2, n), np.nan)
     names = {nm: i for i, nm in enumerate(SIZE_NAMES)}
-    for row in t9.itertuples(index=False):
-        i = names[parse_size(row.size).name]
+    for row in t9:
+        i = names[parse_size(row["size"]).name]
         for m, pre in enumerate(MATERIALS):
             for c, col in enumerate(("pvc", "aluminum", "steel")):
-                r75[m, c, i] = getattr(row, f"{pre}_r_{col}") * OHM_PER_KFT_TO_OHM_PER_M
-        xl[0, i] = row.xl_nonmagnetic * OHM_PER_KFT_TO_OHM_PER_M
-        xl[1, i] = row.xl_steel * OHM_PER_KFT_TO_OHM_PER_M
+                r75[m, c, i] = row[f"{pre}_r_{col}"] * OHM_PER_KFT_TO_OHM_PER_M
+        xl[0, i] = row["xl_nonmagnetic"] * OHM_PER_KFT_TO_OHM_PER_M
+        xl[1, i] = row["xl_steel"] * OHM_PER_KFT_TO_OHM_PER_M
     colmap = {"pvc": 0, "aluminum": 1, "steel": 2}
 
     def m(col):
-        return _by_key(mat_t, "material", MATERIALS, col).to_numpy(float)
+        return _by_key(mat_t, "material", MATERIALS, col).astype(float)
 
     def rw(col):
         return _by_key(rw_t, "raceway", RACEWAYS, col)
@@ -407,34 +408,34 @@ def _conductors(tabs: Mapping[str, Table]) -> ConductorData:
         m("alpha20_per_k"),
         m("alpha75_per_k"),
         m("k_strand"),
-        rw("x_factor").to_numpy(float),
-        rw("r_added_ohm_per_kft").to_numpy(float) * OHM_PER_KFT_TO_OHM_PER_M,
-        np.array([colmap[c] for c in rw("table9_column")]),
-        ins["up_to_mm2"].to_numpy(float),
-        ins["thickness_mm"].to_numpy(float),
+        rw("x_factor").astype(float),
+        rw("r_added_ohm_per_kft").astype(float) * OHM_PER_KFT_TO_OHM_PER_M,
+        np.array([colmap[c] for c in rw("table9_column").tolist()]),
+        ins["up_to_mm2"].astype(float),
+        ins["thickness_mm"].astype(float),
     )
 
 
 def _protection(
     tabs: Mapping[str, Table], rules: Mapping[str, RuleRow], rho20: np.ndarray
 ) -> ProtectionTables:
-    dev = tabs["device_ratings"].data
-    small = tabs["small_conductor_limits"].data
-    egc = tabs["egc_size"].data
+    dev = tabs["device_ratings"].columns
+    small = tabs["small_conductor_limits"].records()
+    egc = tabs["egc_size"].columns
     lim = np.full((2, len(SIZE_NAMES)), np.inf)
     rid = [[""] * len(SIZE_NAMES) for _ in range(2)]
-    for r in small.itertuples(index=False):
-        mi, i = int(material_index(r.material)), int(size_index(r.size))
-        lim[mi, i] = float(r.max_device_a)
-        rid[mi][i] = str(r.rule_id)
+    for r in small:
+        mi, i = int(material_index(r["material"])), int(size_index(r["size"]))
+        lim[mi, i] = float(r["max_device_a"])
+        rid[mi][i] = str(r["rule_id"])
     return ProtectionTables(
-        dev.loc[dev["breaker"] == "yes", "rating_a"].to_numpy(float),
-        dev.loc[dev["fuse"] == "yes", "rating_a"].to_numpy(float),
+        dev["rating_a"][dev["breaker"] == "yes"].astype(float),
+        dev["rating_a"][dev["fuse"] == "yes"].astype(float),
         lim,
         tuple(tuple(x) for x in rid),
-        egc["device_up_to_a"].to_numpy(float),
-        tuple(str(SIZES[s].name) if s in SIZES else s for s in egc["cu"]),
-        tuple(str(SIZES[s].name) if s in SIZES else s for s in egc["al"]),
+        egc["device_up_to_a"].astype(float),
+        tuple(str(SIZES[s].name) if s in SIZES else s for s in egc["cu"].tolist()),
+        tuple(str(SIZES[s].name) if s in SIZES else s for s in egc["al"].tolist()),
         rho20,
         _need(rules, tabs, "protection_rules", "prot-next-size-up").number(),
         _need(rules, tabs, "protection_rules", "device-continuous-125").number() / 100.0,
@@ -445,20 +446,20 @@ def _withstand(tabs: Mapping[str, Table]) -> WithstandData:
     mat_t = tabs["conductor_materials"]
 
     def m(col):
-        return _by_key(mat_t, "material", MATERIALS, col).to_numpy(float)
+        return _by_key(mat_t, "material", MATERIALS, col).astype(float)
 
     rows = tuple(
         KSpec(
-            str(r.insulation),
-            str(r.conductor_role),
-            str(r.material),
-            float(r.initial_c),
-            float(r.final_c),
-            float(r.max_area_mm2),
-            float(r.k),
-            str(r.rule_id),
+            str(r["insulation"]),
+            str(r["conductor_role"]),
+            str(r["material"]),
+            float(r["initial_c"]),
+            float(r["final_c"]),
+            float(r["max_area_mm2"]),
+            float(r["k"]),
+            str(r["rule_id"]),
         )
-        for r in tabs["withstand_k"].data.itertuples(index=False)
+        for r in tabs["withstand_k"].records()
     )
     return WithstandData(
         rows,
@@ -548,12 +549,12 @@ def build_rulebook(user_dir: str | Path | None = None) -> RuleBook:
         _protection(tabs, rules, conductors.rho20),
         _withstand(tabs),
         TransformerXR(
-            tabs["transformer_xr"].data["rating_kva"].to_numpy(float),
-            tabs["transformer_xr"].data["x_r"].to_numpy(float),
+            tabs["transformer_xr"].columns["rating_kva"].astype(float),
+            tabs["transformer_xr"].columns["x_r"].astype(float),
         ),
         _fault(rules, tabs),
         _records(tabs["transformer_protection"]),
-        tabs["device_ratings"].data["rating_a"].to_numpy(float),
+        tabs["device_ratings"].columns["rating_a"].astype(float),
         udir,
         MappingProxyType(rules),
         motor_flc=_motor_flc(tabs),

@@ -27,9 +27,14 @@ same name; the others stay as shipped.
 from __future__ import annotations
 
 import io
+import re
+from collections.abc import Mapping
 from dataclasses import dataclass, field
+from functools import cached_property
 from pathlib import Path
 from typing import TYPE_CHECKING
+
+import numpy as np
 
 from .errors import InputError, ProblemList
 
@@ -96,16 +101,36 @@ def confidence_level(text: str) -> str:
 
 @dataclass(frozen=True)
 class Table:
-    """A loaded table: its rows, its provenance and where it came from."""
+    """A loaded table: its rows, its provenance and where it came from.
+
+    ``columns`` holds each column as a numpy array (int64, float64 with NaN for a blank
+    cell, or object texts), in file order; ``data`` is the same table as a pandas
+    DataFrame, built on first use (the quick commands never import pandas).
+    """
 
     name: str
-    data: pd.DataFrame
+    columns: Mapping[str, np.ndarray]
     meta: dict[str, str]
     path: Path
     origin: str  # "shipped" or "user"
     sha256: str = ""
     units: dict[str, str] = field(default_factory=dict)
     row_confidence: tuple[str, ...] = ()  # one level per row (column, else the header)
+
+    @cached_property
+    def data(self) -> pd.DataFrame:
+        import pandas as pd
+
+        return pd.DataFrame(dict(self.columns))
+
+    def records(self) -> list[dict]:
+        """Every row as a dict of Python values (``data.to_dict("records")``)."""
+        cols = [(k, v.tolist()) for k, v in self.columns.items()]
+        n = len(cols[0][1]) if cols else 0
+        return [{k: v[i] for k, v in cols} for i in range(n)]
+
+    def __len__(self) -> int:
+        return len(next(iter(self.columns.values()))) if self.columns else 0
 
     @property
     def title(self) -> str:
@@ -171,17 +196,8 @@ def read_table_file(path: Path, name: str, origin: str) -> Table:
     """Read and validate one table file; raise InputError naming each problem."""
     import hashlib
 
-    import pandas as pd
-
     problems = ProblemList(str(path))
-    try:
-        raw = path.read_bytes()
-    except OSError as exc:
-        problems.add("", "", f"a readable table file ({exc.strerror})")
-        problems.raise_if_any()
-    if len(raw) > MAX_TABLE_BYTES:
-        problems.add("", f"{len(raw)} bytes", f"a table under {MAX_TABLE_BYTES} bytes")
-        problems.raise_if_any()
+    raw = _raw_bytes(path, problems)
     try:
         text = raw.decode("utf-8")
     except UnicodeDecodeError as exc:
@@ -197,6 +213,107 @@ def read_table_file(path: Path, name: str, origin: str) -> Table:
         problems.add(
             "header '# confidence:'", conf, " or ".join(repr(c) for c in CONFIDENCE_LEVELS)
         )
+    cols = _plain_columns(body)
+    if cols is None:
+        cols = _pandas_columns(body, problems)
+    units = _check_columns(cols, meta, n_header, problems)
+    problems.raise_if_any()
+    header_level = confidence_level(conf)
+    n = len(next(iter(cols.values()))) if cols else 0
+    if ROW_CONFIDENCE in cols:
+        rows = tuple(
+            header_level if _blank(v) else confidence_level(str(v))
+            for v in cols[ROW_CONFIDENCE].tolist()
+        )
+    else:
+        rows = (header_level,) * n
+    return Table(name, cols, meta, path, origin, hashlib.sha256(raw).hexdigest(), units, rows)
+
+
+def _raw_bytes(path: Path, problems: ProblemList) -> bytes:
+    try:
+        raw = path.read_bytes()
+    except OSError as exc:
+        problems.add("", "", f"a readable table file ({exc.strerror})")
+        problems.raise_if_any()
+    if len(raw) > MAX_TABLE_BYTES:
+        problems.add("", f"{len(raw)} bytes", f"a table under {MAX_TABLE_BYTES} bytes")
+        problems.raise_if_any()
+    return raw
+
+
+def _blank(v) -> bool:
+    return v is None or (isinstance(v, float) and v != v) or not str(v).strip()
+
+
+# what the CSV parser reads as a missing value (pandas' default NA texts)
+_NA = {
+    "", "#N/A", "#N/A N/A", "#NA", "-1.#IND", "-1.#QNAN", "-NaN", "-nan", "1.#IND",
+    "1.#QNAN", "<NA>", "N/A", "NA", "NULL", "NaN", "None", "n/a", "nan", "null",
+}  # fmt: skip
+_INT = re.compile(r"-?\d{1,18}")
+_FLOAT = re.compile(r"-?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?|-?inf")
+
+
+def _plain_columns(body: str) -> dict[str, np.ndarray] | None:
+    """The table's columns read without pandas: plain cells (no quotes, no padding after
+    a value, every row as wide as the header); None for anything else, which pandas
+    reads. Column types as pandas gives them: int64, float64 (NaN for a blank cell) or
+    object texts."""
+    if "\r" in body:
+        return None
+    lines = [ln for ln in body.split("\n") if ln]
+    if len(lines) < 2 or any(not ln.strip() for ln in lines):
+        return None
+    if '"' in body:  # quoted cells (a comma inside a text)
+        import csv
+
+        names, *rows = list(csv.reader(lines, skipinitialspace=True))
+    else:
+        names = [c.lstrip() for c in lines[0].split(",")]
+        rows = [[c.lstrip() for c in ln.split(",")] for ln in lines[1:]]
+    if len(set(names)) != len(names) or not all(names) or any(len(r) != len(names) for r in rows):
+        return None
+    out = {}
+    for j, name in enumerate(names):
+        arr = _typed([r[j] for r in rows])
+        if arr is None:
+            return None
+        out[name.strip()] = arr
+    return out
+
+
+def _typed(cells: list[str]) -> np.ndarray | None:
+    """One column as pandas types it, or None when unsure (pandas decides)."""
+    if any(c != c.rstrip() for c in cells):
+        return None
+    na = [c in _NA for c in cells]
+    vals = [c for c, m in zip(cells, na, strict=True) if not m]
+    if not vals:
+        return np.full(len(cells), np.nan)
+    if all(_INT.fullmatch(v) for v in vals) and not any(na):
+        return np.array([int(v) for v in vals], dtype=np.int64)
+    if all(_INT.fullmatch(v) or _FLOAT.fullmatch(v) for v in vals):
+        return np.array([np.nan if m else float(c) for c, m in zip(cells, na, strict=True)])
+    for v in vals:
+        if v.lower() in ("true", "false") or (not _FLOAT.fullmatch(v) and _parses_as_float(v)):
+            return None  # pandas reads these as booleans or numbers
+    out = np.empty(len(cells), dtype=object)
+    out[:] = [np.nan if m else c for c, m in zip(cells, na, strict=True)]
+    return out
+
+
+def _parses_as_float(v) -> bool:
+    try:
+        float(v)
+    except (TypeError, ValueError):
+        return False
+    return True
+
+
+def _pandas_columns(body: str, problems: ProblemList) -> dict[str, np.ndarray]:
+    import pandas as pd
+
     try:
         df = pd.read_csv(
             io.StringIO(body), skipinitialspace=True, comment=None, float_precision="round_trip"
@@ -204,104 +321,101 @@ def read_table_file(path: Path, name: str, origin: str) -> Table:
     except Exception as exc:  # pandas raises several parser error types
         problems.add("body", "", f"CSV rows under the header ({exc})")
         problems.raise_if_any()
-    df.columns = [str(c).strip() for c in df.columns]
+    return {str(c).strip(): df[c].to_numpy() for c in df.columns}
+
+
+def _isna(arr: np.ndarray) -> np.ndarray:
+    if arr.dtype.kind == "f":
+        return np.isnan(arr)
+    if arr.dtype.kind == "O":
+        return np.array([v is None or (isinstance(v, float) and v != v) for v in arr], bool)
+    return np.zeros(len(arr), dtype=bool)
+
+
+def _as_numbers(arr: np.ndarray) -> np.ndarray:
+    """A column as floats, NaN where a cell is not a number (``pandas.to_numeric``)."""
+    if arr.dtype.kind in "iufb":
+        return arr.astype(float)
+    vals = arr.tolist()
+    return np.array([float(v) if _parses_as_float(v) else np.nan for v in vals], dtype=float)
+
+
+def _check_columns(cols: dict, meta: dict, n_header: int, problems: ProblemList) -> dict:
+    """The declared units, gaps, numeric columns, key and monotonic rules of a table."""
     units: dict[str, str] = {}
     for part in filter(None, (p.strip() for p in meta.get("units", "").split(","))):
         if "=" in part:
             col, unit = (s.strip() for s in part.split("=", 1))
             units[col] = unit
-            if col not in df.columns:
-                problems.add(
-                    "header '# units:'", col, f"a column of the table ({', '.join(df.columns)})"
-                )
-    if df.empty:
+            if col not in cols:
+                problems.add("header '# units:'", col, f"a column of the table ({', '.join(cols)})")
+    n = len(next(iter(cols.values()))) if cols else 0
+    if n == 0:
         problems.add("body", "", "at least one data row")
-    for col in df.columns:
-        if df[col].isna().any() and not (col.startswith("opt_") or col == ROW_CONFIDENCE):
-            bad = int(df.index[df[col].isna()][0]) + n_header + 2
-            problems.add(f"column '{col}'", "", "a value in every row (no gaps)", line=bad)
+    for col, arr in cols.items():
+        gaps = np.flatnonzero(_isna(arr))
+        if len(gaps) and not (col.startswith("opt_") or col == ROW_CONFIDENCE):
+            line = int(gaps[0]) + n_header + 2
+            problems.add(f"column '{col}'", "", "a value in every row (no gaps)", line=line)
     not_numeric: set[str] = set()  # reported once, not again as out of order
     for col, unit in units.items():
-        if not df.empty and col in df.columns and not pd.api.types.is_numeric_dtype(df[col]):
-            bad_rows = pd.to_numeric(df[col], errors="coerce").isna() & df[col].notna()
-            first = int(bad_rows.to_numpy().argmax())
-            problems.add(
-                f"column '{col}'",
-                str(df[col].iloc[first]),
-                f"numbers (in {unit})",
-                line=first + n_header + 2,
-            )
+        arr = cols.get(col)
+        if n and arr is not None and arr.dtype.kind not in "iufb":
+            bad = np.isnan(_as_numbers(arr)) & ~_isna(arr)
+            first = int(bad.argmax())
+            line = first + n_header + 2
+            problems.add(f"column '{col}'", str(arr[first]), f"numbers (in {unit})", line=line)
             not_numeric.add(col)
-    key = meta.get("key", "").strip()
-    if key:
-        if key not in df.columns:
-            problems.add("header '# key:'", key, "a column of the table")
-        elif df[key].duplicated().any():
-            first = int(df[key].duplicated().to_numpy().argmax())
-            problems.add(
-                f"column '{key}'",
-                df[key].iloc[first],
-                "unique key values",
-                line=first + n_header + 2,
-            )
+    _check_key(cols, meta.get("key", "").strip(), n_header, problems)
     for rule in filter(None, (r.strip() for r in meta.get("monotonic", "").split(";"))):
-        parts = rule.split()
-        if len(parts) != 2 or parts[1] not in (
-            "increasing",
-            "decreasing",
-            "nondecreasing",
-            "nonincreasing",
-        ):
-            problems.add(
-                "header '# monotonic:'", rule, "'column increasing' or 'column decreasing'"
-            )
-            continue
-        col, direction = parts
-        if col not in df.columns:
-            problems.add("header '# monotonic:'", col, "a column of the table")
-            continue
-        if df.empty or col in not_numeric:
-            continue
-        s = pd.to_numeric(df[col], errors="coerce")
-        d = s.diff().iloc[1:]
-        ok = {
-            "increasing": (d > 0).all(),
-            "decreasing": (d < 0).all(),
-            "nondecreasing": (d >= 0).all(),
-            "nonincreasing": (d <= 0).all(),
-        }[direction]
-        if not ok or s.isna().any():
-            bad_pos = (
-                int(
-                    (
-                        ~{
-                            "increasing": d > 0,
-                            "decreasing": d < 0,
-                            "nondecreasing": d >= 0,
-                            "nonincreasing": d <= 0,
-                        }[direction]
-                    )
-                    .to_numpy()
-                    .argmax()
-                )
-                + 1
-            )
-            problems.add(
-                f"column '{col}'",
-                str(df[col].iloc[bad_pos]),
-                f"values {direction} down the table",
-                line=bad_pos + n_header + 2,
-            )
-    problems.raise_if_any()
-    header_level = confidence_level(conf)
-    if ROW_CONFIDENCE in df.columns:
-        rows = tuple(
-            header_level if pd.isna(v) or not str(v).strip() else confidence_level(str(v))
-            for v in df[ROW_CONFIDENCE]
+        _check_monotonic(cols, rule, not_numeric, n, n_header, problems)
+    return units
+
+
+def _check_key(cols: dict, key: str, n_header: int, problems: ProblemList) -> None:
+    if not key:
+        return
+    if key not in cols:
+        problems.add("header '# key:'", key, "a column of the table")
+        return
+    seen: set = set()
+    for i, v in enumerate(cols[key].tolist()):
+        k = "\x00nan" if isinstance(v, float) and v != v else v
+        if k in seen:
+            problems.add(f"column '{key}'", v, "unique key values", line=i + n_header + 2)
+            return
+        seen.add(k)
+
+
+_DIRECTIONS = {
+    "increasing": np.greater,
+    "decreasing": np.less,
+    "nondecreasing": np.greater_equal,
+    "nonincreasing": np.less_equal,
+}
+
+
+def _check_monotonic(cols, rule: str, not_numeric, n: int, n_header: int, problems) -> None:
+    parts = rule.split()
+    if len(parts) != 2 or parts[1] not in _DIRECTIONS:
+        problems.add("header '# monotonic:'", rule, "'column increasing' or 'column decreasing'")
+        return
+    col, direction = parts
+    if col not in cols:
+        problems.add("header '# monotonic:'", col, "a column of the table")
+        return
+    if n == 0 or col in not_numeric:
+        return
+    s = _as_numbers(cols[col])
+    good = _DIRECTIONS[direction](np.diff(s), 0)
+    if not good.all() or np.isnan(s).any():
+        bad_pos = int((~good).argmax()) + 1 if len(good) else 0
+        problems.add(
+            f"column '{col}'",
+            str(cols[col][bad_pos]),
+            f"values {direction} down the table",
+            line=bad_pos + n_header + 2,
         )
-    else:
-        rows = (header_level,) * len(df)
-    return Table(name, df, meta, path, origin, hashlib.sha256(raw).hexdigest(), units, rows)
 
 
 def load_table(name: str) -> Table:
@@ -349,12 +463,12 @@ def verify_all() -> tuple[list[Table], list[InputError]]:
 def rule(table: str, rule_id: str) -> dict:
     """One row of a rules table, by its ``rule_id`` column."""
     t = load_table(table)
-    rows = t.data[t.data["rule_id"] == rule_id]
-    if rows.empty:
-        pl = ProblemList(str(t.path))
-        pl.add("column 'rule_id'", rule_id, "a row with this rule id")
-        pl.raise_if_any()
-    return rows.iloc[0].to_dict()
+    for row in t.records():
+        if row.get("rule_id") == rule_id:
+            return row
+    pl = ProblemList(str(t.path))
+    pl.add("column 'rule_id'", rule_id, "a row with this rule id")
+    pl.raise_if_any()
 
 
 def used_tables() -> list[Table]:

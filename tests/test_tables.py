@@ -200,3 +200,39 @@ def test_tables_command_prints_counts_by_confidence(tmp_path):
     assert f", {n_rows} rows by confidence: " in total
     published = sum(t.confidence_counts().get("published", 0) for t in good)
     assert f"{published} published" in total
+
+
+def test_tables_read_without_pandas_as_pandas_reads_them():
+    # the plain reader (quick commands) gives the columns, types and values of
+    # pandas.read_csv for every shipped table and for cells where the two could differ
+    import io
+
+    import numpy as np
+    import pandas as pd
+
+    from feedcheck import tables as T
+
+    def pandas_columns(body):
+        df = pd.read_csv(
+            io.StringIO(body), skipinitialspace=True, comment=None, float_precision="round_trip"
+        )
+        return {str(c).strip(): df[c].to_numpy() for c in df.columns}
+
+    def same(a, b):
+        assert list(a) == list(b)
+        for k in a:
+            assert a[k].dtype == b[k].dtype, k
+            for x, y in zip(a[k].tolist(), b[k].tolist(), strict=True):
+                assert (x != x and y != y) or (x == y and type(x) is type(y)), (k, x, y)
+
+    for path in sorted(T.shipped_tables_dir().glob("*.csv")):
+        body = T._split_header(path.read_text(encoding="utf-8"))[1]
+        plain = T._plain_columns(body)
+        assert plain is not None, path.name  # every shipped table takes the quick path
+        same(plain, pandas_columns(body))
+    for cells in (["inf", "1"], ["NA", "5"], ["5.", ".5"], ["1e3", "2"], ["a", "5"], ["", "x"]):
+        body = "c,d\n" + "".join(f"{v},1\n" for v in cells)
+        same(T._plain_columns(body), pandas_columns(body))
+    for cells in (["+5", "3"], ["True", "False"], ["Inf", "1"], ["a ", "b"]):  # pandas decides
+        assert T._plain_columns("c\n" + "\n".join(cells) + "\n") is None
+    assert np.isnan(T._plain_columns("c,d\nNA,1\n")["c"][0])

@@ -87,6 +87,8 @@ def size_index(size) -> np.ndarray:
     Canonical names (``"4/0 AWG"``) are looked up directly; other trade spellings
     go through :func:`~feedcheck.calc.sizes.parse_size`. Unknown names raise ValueError.
     """
+    if type(size) is str and size in _SIZE_INDEX:  # one canonical name: the common call
+        return np.array(_SIZE_INDEX[size], dtype=np.intp)
     arr = np.asarray(size, dtype=object)
     uniq, inv = np.unique(arr.ravel().astype(str), return_inverse=True)
     idx = np.empty(len(uniq), dtype=np.intp)
@@ -102,6 +104,8 @@ def size_index(size) -> np.ndarray:
 
 
 def _choice_index(value, choices: tuple[str, ...], what: str) -> np.ndarray:
+    if type(value) is str and value in choices:  # one canonical choice: the common call
+        return np.array(choices.index(value), dtype=np.intp)
     arr = np.asarray(value, dtype=object)
     uniq, inv = np.unique(arr.ravel().astype(str), return_inverse=True)
     out = np.empty(len(uniq), dtype=np.intp)

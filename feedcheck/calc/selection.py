@@ -29,8 +29,21 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .ampacity import PARALLEL_MIN_AREA_MM2, AmpacityChain, AmpacityTables, ampacity_chain
-from .conductor import AREA_MM2, ConductorData, ac_impedance_ohm_per_m, size_index
+from .ampacity import (
+    PARALLEL_MIN_AREA_MM2,
+    AmpacityChain,
+    AmpacityTables,
+    _column,
+    ampacity_a,
+    ampacity_chain,
+)
+from .conductor import (
+    AREA_MM2,
+    ConductorData,
+    ac_impedance_ohm_per_m,
+    material_index,
+    size_index,
+)
 from .constants import SQRT3
 from .protection import (
     ProtectionTables,
@@ -91,6 +104,141 @@ class Selection:
     vdrop_pct: float | None
     withstand_a: float | None
     rule_ids: tuple[str, ...]
+
+
+@dataclass(frozen=True)
+class _Extra:
+    """The voltage-drop and withstand criteria of one selection, checked size by size."""
+
+    check_vd: bool
+    check_ws: bool
+    run: tuple  # material, raceway, sets, load current [A], SizingData
+    drop: tuple  # length [m], voltage [V], pf, phases, drop limit [%]
+    withstand: tuple  # insulation kind, fault current [A], clearing time [s]
+
+    def verdicts(self, name: str, ampacity_ok: bool, protection_ok: bool):
+        """Each criterion's verdict for size ``name``, the drop [%] and withstand [A]."""
+        material, raceway, sets, load_a, data = self.run
+        passed = {"ampacity": ampacity_ok, "protection": protection_ok}
+        vd_pct = ws = None
+        if self.check_vd:
+            length_m, voltage_v, pf, phases, vdrop_max_pct = self.drop
+            r, x = ac_impedance_ohm_per_m(
+                name, material, raceway, VDROP_CONDUCTOR_C, data=data.conductors
+            )
+            vd_pct = 100.0 * _vdrop_v(load_a, r, x, length_m, pf, phases, sets) / voltage_v
+            passed["voltage drop"] = vd_pct <= vdrop_max_pct + 1e-12
+        if self.check_ws:
+            insulation, fault_a, clearing_s = self.withstand
+            area = float(AREA_MM2[size_index(name)])
+            k = k_constant(insulation, material, "line", area, data=data.withstand).k
+            ws = float(withstand_current_a(area, clearing_s, k)) * sets
+            passed["withstand"] = ws >= fault_a
+        return passed, vd_pct, ws
+
+
+def _check_args(phases, pf, system, sets) -> None:
+    if phases not in (1, 3):
+        raise ValueError(f"phases: got {phases}; expected 1 or 3")
+    if not (0 < pf <= 1):
+        raise ValueError(f"pf: got {pf}; expected a power factor in (0, 1]")
+    if system not in ("awg", "metric"):
+        raise ValueError(f"system: got {system!r}; expected 'awg' or 'metric'")
+    if not (isinstance(sets, int | np.integer) and sets >= 1):
+        raise ValueError(f"sets: got {sets}; expected a whole number ≥ 1")
+
+
+def _device(continuous_a, noncontinuous_a, device_a, data: SizingData) -> float:
+    """The device given (at least 125 % continuous + noncontinuous, 215.3), else the next
+    standard rating above that."""
+    need = float(device_min_for_load_a(continuous_a, noncontinuous_a, tables=data.protection))
+    if need <= 0:
+        raise ValueError("continuous_a, noncontinuous_a: expected a load above 0 A")
+    dev = (
+        float(next_standard_rating_a(need, tables=data.protection))
+        if device_a is None
+        else float(device_a)
+    )
+    if dev < need - 1e-9:
+        raise ValueError(
+            f"device_a: got {dev:g} A; expected at least {need:g} A "
+            "(125 % of continuous + noncontinuous, NFPA 70 215.3)"
+        )
+    return dev
+
+
+def _none_meets(first: dict, check_vd: bool, check_ws: bool) -> None:
+    missing = [
+        c
+        for c in CRITERIA
+        if c not in first
+        and (
+            c in ("ampacity", "protection")
+            or (c == "voltage drop" and check_vd)
+            or (c == "withstand" and check_ws)
+        )
+    ]
+    raise ValueError(
+        "no standard size meets every criterion"
+        + (f" (none meets: {', '.join(missing)})" if missing else "")
+        + "; try more parallel sets, a higher insulation column or a "
+        "shorter run"
+    )
+
+
+def _candidates(system, sets, material, termination_c, dev, equipment_75c, data: SizingData):
+    """The sizes tried, smallest first (tabulated for the material; 1/0 AWG or larger in
+    parallel), and the termination column of each (110.14(C)(1) when not given)."""
+    order = AWG_KCMIL_ORDER if system == "awg" else METRIC_ORDER
+    m = 0 if material == "cu" else 1
+    small = float(AREA_MM2[size_index("1 AWG")])
+    names, terms = [], []
+    for name in order:
+        area = float(AREA_MM2[size_index(name)])
+        if sets > 1 and area < PARALLEL_MIN_AREA_MM2 * (1 - 1e-9):
+            continue
+        if np.isnan(data.ampacity.raceway_a[m, 0, size_index(name)]):
+            continue
+        names.append(name)
+        if termination_c is not None:
+            terms.append(termination_c)
+        else:
+            terms.append(60.0 if (dev <= 100.0 or area <= small) and not equipment_75c else 75.0)
+    return names, terms
+
+
+def _screen(names, terms, dev, sets, chain_args, more, data: SizingData):
+    """Ampacity (before and after corrections) and protection verdicts of every size at
+    once: the figures :func:`~feedcheck.calc.ampacity.ampacity_chain` and
+    :func:`~feedcheck.calc.protection.max_device_a` give one size at a time."""
+    if not names:
+        return np.zeros(0, bool), np.zeros(0, bool)
+    material, insulation_c, ambient_c, current_carrying = chain_args
+    free_air, rooftop_c, cont_a, non_a = more
+    tabs = data.ampacity
+    final = np.asarray(
+        ampacity_a(
+            np.array(names, dtype=object),
+            material,
+            insulation_c,
+            ambient_c,
+            current_carrying,
+            np.array(terms, dtype=float),
+            sets,
+            free_air,
+            rooftop_c,
+            tables=tabs,
+        ),
+        dtype=float,
+    )
+    tab = tabs.free_air_a if free_air else tabs.raceway_a
+    m, idx = int(material_index(material)), size_index(np.array(names, dtype=object))
+    ci = int(_column(insulation_c, "insulation_c"))
+    before = tab[m, np.minimum(ci, _column(np.array(terms, dtype=float), "t")), idx] * sets
+    ok_before = before >= tabs.continuous_factor * cont_a + non_a - 1e-9
+    ok_after = final >= cont_a + non_a - 1e-9
+    mx = max_device_a(final, np.array(names, dtype=object), material, tables=data.protection)
+    return ok_before & ok_after, dev <= np.asarray(mx, dtype=float) + 1e-9
 
 
 def select_conductor(
@@ -175,109 +323,43 @@ def select_conductor(
     ----------
     NFPA 70-2023 110.14(C), 215.2(A)(1), 215.3, 240.4; IEC 60364-4-43 434.5.2.
     """
-    if phases not in (1, 3):
-        raise ValueError(f"phases: got {phases}; expected 1 or 3")
-    if not (0 < pf <= 1):
-        raise ValueError(f"pf: got {pf}; expected a power factor in (0, 1]")
-    if system not in ("awg", "metric"):
-        raise ValueError(f"system: got {system!r}; expected 'awg' or 'metric'")
-    if not (isinstance(sets, int | np.integer) and sets >= 1):
-        raise ValueError(f"sets: got {sets}; expected a whole number ≥ 1")
-    need = float(device_min_for_load_a(continuous_a, noncontinuous_a, tables=data.protection))
-    if need <= 0:
-        raise ValueError("continuous_a, noncontinuous_a: expected a load above 0 A")
-    dev = (
-        float(next_standard_rating_a(need, tables=data.protection))
-        if device_a is None
-        else float(device_a)
+    _check_args(phases, pf, system, sets)
+    dev = _device(continuous_a, noncontinuous_a, device_a, data)
+    extra = _Extra(
+        length_m > 0 and voltage_v is not None,
+        fault_a is not None,
+        (material, raceway, sets, continuous_a + noncontinuous_a, data),
+        (length_m, voltage_v, pf, phases, vdrop_max_pct),
+        (withstand_insulation, fault_a, clearing_s),
     )
-    if dev < need - 1e-9:
-        raise ValueError(
-            f"device_a: got {dev:g} A; expected at least {need:g} A "
-            "(125 % of continuous + noncontinuous, NFPA 70 215.3)"
-        )
-    check_vd = length_m > 0 and voltage_v is not None
-    check_ws = fault_a is not None
+    check_vd, check_ws = extra.check_vd, extra.check_ws
     if check_ws and clearing_s is None:
         raise ValueError("clearing_s: expected a clearing time with fault_a")
-    load_a = continuous_a + noncontinuous_a
-    free_air = raceway == "free-air"
-    tabs = data.ampacity
-    order = AWG_KCMIL_ORDER if system == "awg" else METRIC_ORDER
+    for what, v in (("continuous_a", continuous_a), ("noncontinuous_a", noncontinuous_a)):
+        if not (np.isfinite(v) and v >= 0):
+            raise ValueError(f"{what}: got {v}; expected a load current ≥ 0 A")
+    names, terms = _candidates(system, sets, material, termination_c, dev, equipment_75c, data)
+    chain_args = (material, insulation_c, ambient_c, current_carrying)
+    more = (free_air := raceway == "free-air", rooftop_adder_c, continuous_a, noncontinuous_a)
+    ok = _screen(names, terms, dev, sets, chain_args, more, data)
     first: dict[str, str] = {}
     chosen = None
-    for name in order:
-        idx = int(size_index(name))
-        area = float(AREA_MM2[idx])
-        if sets > 1 and area < PARALLEL_MIN_AREA_MM2 * (1 - 1e-9):
-            continue
-        m = 0 if material == "cu" else 1
-        if np.isnan(tabs.raceway_a[m, 0, idx]):
-            continue
-        term = (
-            termination_c
-            if termination_c is not None
-            else (
-                60.0
-                if (
-                    (dev <= 100.0 or area <= float(AREA_MM2[size_index("1 AWG")]))
-                    and not equipment_75c
-                )
-                else 75.0
-            )
-        )
-        chain = ampacity_chain(
-            name,
-            material,
-            insulation_c,
-            ambient_c,
-            current_carrying,
-            term,
-            sets,
-            free_air,
-            rooftop_adder_c,
-            continuous_a,
-            noncontinuous_a,
-            tables=tabs,
-        )
-        mx = float(max_device_a(chain.final_a, name, material, tables=data.protection))
-        passed = {"ampacity": chain.ok_before and chain.ok_after, "protection": dev <= mx + 1e-9}
-        vd_pct = None
-        if check_vd:
-            r, x = ac_impedance_ohm_per_m(
-                name, material, raceway, VDROP_CONDUCTOR_C, data=data.conductors
-            )
-            vd_pct = 100.0 * _vdrop_v(load_a, r, x, length_m, pf, phases, sets) / voltage_v
-            passed["voltage drop"] = vd_pct <= vdrop_max_pct + 1e-12
-        ws = None
-        if check_ws:
-            k = k_constant(withstand_insulation, material, "line", area, data=data.withstand).k
-            ws = float(withstand_current_a(area, clearing_s, k)) * sets
-            passed["withstand"] = ws >= fault_a
-        for c, ok in passed.items():
-            if ok and c not in first:
+    for i, name in enumerate(names):
+        passed, vd_pct, ws = extra.verdicts(name, bool(ok[0][i]), bool(ok[1][i]))
+        for c, good in passed.items():
+            if good and c not in first:
                 first[c] = name
         if chosen is None and all(passed.values()):
-            chosen = (name, term, chain, mx, vd_pct, ws)
+            chain = ampacity_chain(
+                name, *chain_args, terms[i], sets, free_air, *more[1:], tables=data.ampacity
+            )
+            mx = float(max_device_a(chain.final_a, name, material, tables=data.protection))
+            chosen = (name, terms[i], chain, mx, vd_pct, ws)
             if len(first) == len(passed):
                 break
+    order = AWG_KCMIL_ORDER if system == "awg" else METRIC_ORDER
     if chosen is None:
-        missing = [
-            c
-            for c in CRITERIA
-            if c not in first
-            and (
-                c in ("ampacity", "protection")
-                or (c == "voltage drop" and check_vd)
-                or (c == "withstand" and check_ws)
-            )
-        ]
-        raise ValueError(
-            "no standard size meets every criterion"
-            + (f" (none meets: {', '.join(missing)})" if missing else "")
-            + "; try more parallel sets, a higher insulation column or a "
-            "shorter run"
-        )
+        _none_meets(first, check_vd, check_ws)
     name, term, chain, mx, vd_pct, ws = chosen
     rank = {n: i for i, n in enumerate(order)}
     present = [c for c in CRITERIA if c in first]

@@ -20,23 +20,18 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..errors import InputError, ProblemList
+from ..errors import InputError
 from ..model import Job, Schedule, VoltageSystem
 from ..rulebook import RuleBook
-from .schedule_circuits import circuit_quantities
-from .schedule_rules import apply_rules, circuit_findings
 from .schedules import (
     ScheduleDemand,
     ScheduleResult,
-    _circuits_frame,
-    _Deferred,
     _panel_findings,
-    _panel_table,
-    _phases,
     _rule_rows,
+    check_frame,
     check_schedule,
-    review_frame,
     schedule_demand,
+    schedule_result,
 )
 
 
@@ -111,70 +106,42 @@ class ScheduleBatch:
         )
 
     def _check_joined(self, g: _Group, drops, limits) -> dict[str, ScheduleResult]:
-        """The group's circuits in one frame, split back per panel (as check_schedule)."""
-        s, system, demand = g.joined, g.system, g.demand
-        rules = _rule_rows(self.book)
-        c = s.circuits
-        q = circuit_quantities(
-            c,
-            s.load_unit,
-            system,
-            {pid: drops.get(pid, 0.0) for pid in g.ids},
-            limits,
-            ProblemList(str(s.path)),
-            self.book,
-        )
-        statuses = {k: str(r["status"]) for k, r in rules.items()}
-        sev, reason, found = apply_rules(q, len(c), statuses, limits)
-        per_phase, phase_txt = _phases(q["poles"], q["circuit"], demand, system)
-        panels, design_va, imbalance = _panel_table(demand, per_phase, sev, system)
-        counts = [
-            (getattr(self.schedules[pid], "spaces", {}) or {}).get(pid, (0, 0))
-            for pid in demand.panel_ids
-        ]
-        panels["spares"] = [int(n[0]) for n in counts]
-        panels["spaces"] = [int(n[1]) for n in counts]
-        circuits = _circuits_frame(c, q, phase_txt, sev, reason)
-        review = review_frame(c, q)
+        """The group's circuits in one frame (the steps of check_schedule), split back
+        per panel."""
+        demand, rules = g.demand, _rule_rows(self.book)
+        drop = {pid: drops.get(pid, 0.0) for pid in g.ids}
+        k = check_frame(g.joined, g.system, drop, limits, demand, self.book, rules)
         loads = demand.loads
         starts = np.searchsorted(demand.panel_code, np.arange(len(g.ids) + 1))
         out = {}
         for j, pid in enumerate(demand.panel_ids):
             a, b = int(starts[j]), int(starts[j + 1])
             p = self.panels[pid]
-            panel_row = panels.iloc[j : j + 1].reset_index(drop=True)
+            panel_row = k.panels.iloc[j : j + 1].reset_index(drop=True)
             findings = _panel_findings(
                 panel_row,
-                design_va[j : j + 1],
-                imbalance[j : j + 1],
-                per_phase[j : j + 1],
+                k.design_va[j : j + 1],
+                k.imbalance[j : j + 1],
+                k.per_phase[j : j + 1],
                 rules,
-                system,
+                g.system,
                 p.rating_a,
                 p.main_device_a,
             )
-            mine = _slice_found(found, a, b)
-            any_fail = any(f[6] == "fail" for f in mine) or any(
-                f.status == "fail" for f in findings
-            )
-            out[pid] = ScheduleResult(
-                self.schedules[pid].path,
-                system.text,
-                circuits.iloc[a:b].reset_index(drop=True),
-                _totals_of(panel_row, g.occupancy, system),
-                panel_row,
-                _Deferred(_builder(q["panel"][a:b], q["circuit"][a:b], mine, findings), any_fail),
+            out[pid] = schedule_result(
+                self.schedules[pid],
+                g.system,
+                (
+                    k.circuits.iloc[a:b].reset_index(drop=True),
+                    _totals_of(panel_row, g.occupancy, g.system),
+                    panel_row,
+                ),
+                (k.q["panel"][a:b], k.q["circuit"][a:b], _slice_found(k.found, a, b), findings),
                 loads[pid],
                 {pid: loads[pid]},
-                list(getattr(self.schedules[pid], "notices", ())),
-                getattr(self.schedules[pid], "length_unit", "ft"),
-                review.iloc[a:b].reset_index(drop=True),
+                k.review.iloc[a:b].reset_index(drop=True),
             )
         return out
-
-
-def _builder(panel, circuit, found, findings):
-    return lambda: circuit_findings(panel, circuit, found) + findings
 
 
 def _join(schedules: list[Schedule]) -> Schedule:
@@ -183,7 +150,11 @@ def _join(schedules: list[Schedule]) -> Schedule:
 
     circuits = pd.concat([s.circuits for s in schedules], ignore_index=True)
     panels = tuple(p for s in schedules for p in s.panels)
-    return Schedule(schedules[0].path, circuits, schedules[0].load_unit, panels)
+    # each panel's spares and spaces as its own file counted them
+    spaces = {
+        p: (getattr(s, "spaces", {}) or {}).get(p, (0, 0)) for s in schedules for p in s.panels
+    }
+    return Schedule(schedules[0].path, circuits, schedules[0].load_unit, panels, spaces=spaces)
 
 
 def _slice_found(found: list, a: int, b: int) -> list:
@@ -207,3 +178,84 @@ def _totals_of(panel_row, occupancy: str, system: VoltageSystem) -> dict:
     totals["occupancy"] = occupancy
     totals["system"] = system.text
     return totals
+
+
+def check_files(items, feeder_drop_pct, occupancy, bus_a, main_a, book: RuleBook) -> list:
+    """Schedules of ``feedcheck schedule`` (``items``: (schedule, system) in file order)
+    checked as :func:`~feedcheck.checks.schedules.check_schedule` checks each alone,
+    but the one-panel files alike in system and load unit in one frame (the fixed cost
+    per check paid once per group, not once per file). Returns, per item, its
+    ScheduleResult or the InputError its check raised.
+    """
+    from ..errors import InputError
+
+    out: list = [None] * len(items)
+    groups: dict[tuple, dict[str, int]] = {}
+    for i, (s, system) in enumerate(items):
+        g = groups.setdefault((system, s.load_unit), {})
+        if len(s.panels) == 1 and s.panels[0] not in g:
+            g[s.panels[0]] = i
+        else:  # several panels in the file, or a panel id met before: alone
+            out[i] = _alone(s, system, feeder_drop_pct, occupancy, bus_a, main_a, book)
+    for (system, _unit), members in groups.items():
+        done = None
+        if len(members) > 1:
+            try:
+                panel_opts = (feeder_drop_pct, occupancy, bus_a, main_a)
+                done = _joined_files(items, members, system, panel_opts, book)
+            except InputError:
+                done = None  # each file on its own: the message names its file
+        for pid, i in members.items():
+            if done is not None:
+                out[i] = done[pid]
+            else:
+                s = items[i][0]
+                out[i] = _alone(s, system, feeder_drop_pct, occupancy, bus_a, main_a, book)
+    return out
+
+
+def _alone(s, system, feeder_drop_pct, occupancy, bus_a, main_a, book):
+    from ..errors import InputError
+    from . import schedules  # looked up at each call (a test may stand in for it)
+
+    try:
+        check = schedules.check_schedule
+        return check(s, system, feeder_drop_pct, occupancy, bus_a, main_a, rules=book)
+    except InputError as exc:
+        return exc
+
+
+def _joined_files(items, members, system, panel_opts, book) -> dict:
+    """One-panel files checked in one frame, split back per file."""
+    from .drop_rules import drop_limits
+    from .schedules import panel_totals
+
+    feeder_drop_pct, occupancy, bus_a, main_a = panel_opts
+    scheds = [items[i][0] for i in members.values()]
+    joined = _join(scheds)
+    demand = schedule_demand(joined, system, occupancy, book)
+    rules = _rule_rows(book)
+    k = check_frame(joined, system, feeder_drop_pct, drop_limits(rules=book), demand, book, rules)
+    loads = demand.loads
+    totals = panel_totals(k.panels, occupancy, system)
+    starts = np.searchsorted(demand.panel_code, np.arange(len(scheds) + 1))
+    out = {}
+    for j, (pid, i) in enumerate(members.items()):
+        a, b = int(starts[j]), int(starts[j + 1])
+        row = k.panels.iloc[j : j + 1].reset_index(drop=True)
+        one = (k.design_va[j : j + 1], k.imbalance[j : j + 1], k.per_phase[j : j + 1])
+        findings = _panel_findings(row, *one, rules, system, bus_a, main_a)
+        out[pid] = schedule_result(
+            items[i][0],
+            system,
+            (
+                k.circuits.iloc[a:b].reset_index(drop=True),
+                totals[j],
+                row,
+            ),
+            (k.q["panel"][a:b], k.q["circuit"][a:b], _slice_found(k.found, a, b), findings),
+            loads[pid],
+            {pid: loads[pid]},
+            k.review.iloc[a:b].reset_index(drop=True),
+        )
+    return out

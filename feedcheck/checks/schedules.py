@@ -45,13 +45,20 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
-from ..calc.demand import KINDS, PanelDemand, Tiers, panel_demand
+from ..calc.demand import KINDS
 from ..errors import ProblemList
 from ..findings import SEVERITY, Finding
-from ..model import OCCUPANCIES, Schedule, VoltageSystem
+from ..model import Schedule, VoltageSystem
 from ..rulebook import RuleBook, current_rulebook
 from .context import Load
-from .schedule_circuits import circuit_electrics, circuit_quantities
+from .schedule_circuits import circuit_quantities
+from .schedule_demand import (  # noqa: F401  (part of this interface)
+    ScheduleDemand,
+    _phase_of_space,
+    demand_load,
+    demand_tiers,
+    schedule_demand,
+)
 from .schedule_rules import apply_rules, circuit_findings
 
 if TYPE_CHECKING:
@@ -157,165 +164,6 @@ ScheduleResult.findings = property(
 )
 
 
-# --------------------------------------------------------------------------- demand
-def demand_tiers(
-    occupancy: str = "other", rules: RuleBook | None = None
-) -> dict[str, list[tuple[float, float, float]]]:
-    """Demand tiers by load kind from ``tables/demand_factors.csv`` for an occupancy.
-
-    Examples
-    --------
-    >>> demand_tiers()["receptacle"]
-    [(0.0, 10000.0, 1.0), (10000.0, inf, 0.5)]
-    """
-    if occupancy not in OCCUPANCIES:
-        raise ValueError(f"occupancy: got {occupancy!r}; expected one of {', '.join(OCCUPANCIES)}")
-    book = rules if rules is not None else current_rulebook()
-    out: dict[str, list[tuple[float, float, float]]] = {}
-    for r in book.rows("demand_factors"):
-        if r["kind"] == "lighting" and r["occupancy"] != occupancy:
-            continue
-        out.setdefault(str(r["kind"]), []).append(
-            (float(r["from_va"]), float(r["to_va"]), float(r["factor"]))
-        )
-    return out
-
-
-@dataclass(frozen=True)
-class ScheduleDemand:
-    """Demand of every panel of one schedule, computed once (:func:`schedule_demand`)."""
-
-    occupancy: str
-    load_va: np.ndarray  # per circuit [VA]
-    panel_code: np.ndarray  # per circuit
-    panel_ids: tuple[str, ...]
-    figures: PanelDemand
-    continuous_factor: float
-    # demand current on lines A, B, C of each panel [A], continuous / noncontinuous
-    phase_cont_a: np.ndarray | None = None  # (panels, 3)
-    phase_non_a: np.ndarray | None = None
-    continuous_by_kind_va: np.ndarray | None = None  # (panels, kinds) connected
-    tiers: dict | None = None  # demand tiers by kind (for the chain on the sheet)
-    motor_factor: float = 1.25  # rule df-motor-largest, as panel_demand used it
-
-    def chain(self, j: int):
-        """The demand arithmetic of panel ``j`` as one chain (calc/demand_chain.py)."""
-        from ..calc.demand_chain import demand_chain
-
-        f = self.figures
-        conn = {k: float(f.connected_va[j, i]) for i, k in enumerate(KINDS)}
-        cont = {
-            k: float(self.continuous_by_kind_va[j, i]) for i, k in enumerate(KINDS) if k != "motor"
-        }
-        return demand_chain(
-            conn,
-            cont,
-            float(f.largest_motor_va[j]),
-            self.tiers,
-            self.motor_factor,
-            self.continuous_factor,
-        )
-
-    @property
-    def loads(self) -> dict[str, Load]:
-        f = self.figures
-        return {
-            pid: Load(
-                float(f.demand_va[j]),
-                float(f.continuous_va[j]),
-                float(f.real_w[j]),
-                None if self.phase_cont_a is None else tuple(map(float, self.phase_cont_a[j])),
-                None if self.phase_non_a is None else tuple(map(float, self.phase_non_a[j])),
-                float(f.connected_va[j, KINDS.index("lighting")]),
-                None if self.tiers is None else self.chain(j),
-            )
-            for j, pid in enumerate(self.panel_ids)
-        }
-
-    def design_phase_a(self) -> np.ndarray:
-        """Design current of every line of every panel (continuous at 125 %) [A]."""
-        return self.continuous_factor * self.phase_cont_a + self.phase_non_a
-
-    @property
-    def load(self) -> Load:
-        """Demand load of the (first) panel, for the feed walk."""
-        return self.loads[self.panel_ids[0]]
-
-
-def schedule_demand(
-    schedule: Schedule,
-    system: VoltageSystem,
-    occupancy: str = "other",
-    rules: RuleBook | None = None,
-) -> ScheduleDemand:
-    """Connected and demand load of every panel of a schedule (no circuit checks)."""
-    import pandas as pd
-
-    tiers = demand_tiers(occupancy, rules)
-    c = schedule.circuits
-    _v, load_va, current_a, _k = circuit_electrics(c, schedule.load_unit, system)
-    codes, ids = pd.factorize(pd.Series(c["panel"].to_numpy(object)))
-    kcode = np.asarray(pd.Categorical(c["kind"].to_numpy(object), categories=KINDS).codes)
-    # a motor is never also "continuous": 430.24 takes its 125 % as the largest motor
-    # (calc/demand_chain.py step 3), so the 125 % of 215.2(A)(1) is not applied again
-    cont = c["continuous"].to_numpy(bool) & (kcode != KINDS.index("motor"))
-    figures = panel_demand(
-        kcode,
-        load_va,
-        cont,
-        c["pf"].to_numpy(float),
-        codes,
-        len(ids),
-        {k: _tiers(rows) for k, rows in tiers.items()},
-        tiers["motor-largest"][0][2],
-    )
-    dem_a = current_a * figures.circuit_factor  # demand current on each pole of a circuit
-    args = (c["poles"].to_numpy(), c["circuit"].to_numpy(), np.asarray(codes), len(ids), system)
-    return ScheduleDemand(
-        occupancy,
-        load_va,
-        np.asarray(codes),
-        tuple(str(p) for p in ids),
-        figures,
-        tiers["continuous"][0][2],
-        _line_currents(np.where(cont, dem_a, 0.0), *args),
-        _line_currents(np.where(cont, 0.0, dem_a), *args),
-        np.bincount(
-            np.asarray(codes) * len(KINDS) + kcode,
-            weights=np.where(cont, load_va, 0.0),
-            minlength=len(KINDS) * len(ids),
-        ).reshape(len(ids), len(KINDS)),
-        {k: rows for k, rows in tiers.items() if k in KINDS and k != "motor"},
-        tiers["motor-largest"][0][2],
-    )
-
-
-def _line_currents(current_a, poles, circuit, codes, n_pan: int, system) -> np.ndarray:
-    """Current on lines A, B, C of each panel [A]: each circuit's current on every
-    line of its spaces (a two-pole 208 V load draws S / 208 V on both of its lines)."""
-    counts = np.asarray(poles).astype(np.int64)
-    owner = np.repeat(np.arange(len(counts)), counts)
-    step = np.arange(len(owner)) - np.repeat(np.cumsum(counts) - counts, counts)
-    ph = _phase_of_space(np.asarray(circuit)[owner].astype(np.int64) + 2 * step, system)
-    # two-wire: the one line stands for the pair, so a two-pole circuit counts once
-    once = counts[owner] if system.phases != 3 and system.kind != "split" else 1
-    return np.bincount(
-        codes[owner] * 3 + ph, weights=current_a[owner] / once, minlength=3 * n_pan
-    ).reshape(n_pan, 3)
-
-
-def _tiers(rows: list[tuple[float, float, float]]) -> Tiers:
-    """Tiers of one kind from its (from_va, to_va, factor) rows."""
-    lo, hi, f = (np.array(col, float) for col in zip(*rows, strict=True))
-    return Tiers(lo, hi, f)
-
-
-def demand_load(schedule: Schedule, system: VoltageSystem, occupancy: str = "other") -> Load:
-    """Demand load of a one-panel schedule (for the feed walk), without the circuit
-    checks; the same figures as ``check_schedule(...).demand``."""
-    return schedule_demand(schedule, system, occupancy).load
-
-
 # --------------------------------------------------------------------------- the check
 def _rule_rows(book: RuleBook) -> dict[str, dict]:
     return {r["rule_id"]: r for r in book.rows("schedule_rules")}
@@ -378,8 +226,42 @@ def check_schedule(
     if demand is None:
         demand = schedule_demand(schedule, system, occupancy, book)
     rules = _rule_rows(book)
+    k = check_frame(schedule, system, feeder_drop_pct, limits, demand, book, rules)
+    panels = k.panels
+    findings = _panel_findings(
+        panels, k.design_va, k.imbalance, k.per_phase, rules, system, bus_a, main_a
+    )
+    totals = _totals(panels, demand, k.imbalance, len(k.circuits), occupancy, system)
+    demands = demand.loads
+    return schedule_result(
+        schedule,
+        system,
+        (k.circuits, totals, panels),
+        (k.q["panel"], k.q["circuit"], k.found, findings),
+        demands[str(panels["panel"].iat[0])],
+        demands,
+        k.review,
+    )
+
+
+@dataclass
+class CheckedFrame:
+    """Every circuit of a schedule (one panel or several) checked in one frame."""
+
+    q: dict  # the circuit quantities (schedule_circuits.circuit_quantities)
+    found: list  # the rule failures (schedule_rules.apply_rules)
+    per_phase: np.ndarray  # (panels, 3) VA
+    panels: pd.DataFrame  # one row per panel (with spares and spaces)
+    design_va: np.ndarray
+    imbalance: np.ndarray
+    circuits: pd.DataFrame  # CIRCUIT_COLUMNS
+    review: pd.DataFrame  # for the report: continuous, pf, ground (review_frame)
+
+
+def check_frame(schedule, system, feeder_drop_pct, limits, demand, book, rules) -> CheckedFrame:
+    """The circuit rules on every circuit and each panel's totals: the steps
+    :func:`check_schedule` and the job's batch (checks/schedule_batch.py) share."""
     c = schedule.circuits
-    n = len(c)
     q = circuit_quantities(
         c,
         schedule.load_unit,
@@ -389,39 +271,40 @@ def check_schedule(
         ProblemList(str(schedule.path)),
         book,
     )
-    sev, reason, found = apply_rules(q, n, {k: str(r["status"]) for k, r in rules.items()}, limits)
+    statuses = {k: str(r["status"]) for k, r in rules.items()}
+    sev, reason, found = apply_rules(q, len(c), statuses, limits)
     per_phase, phase_txt = _phases(q["poles"], q["circuit"], demand, system)
     panels, design_va, imbalance = _panel_table(demand, per_phase, sev, system)
     spaces = getattr(schedule, "spaces", {}) or {}
     panels["spares"] = [int(spaces.get(str(p), (0, 0))[0]) for p in panels["panel"]]
     panels["spaces"] = [int(spaces.get(str(p), (0, 0))[1]) for p in panels["panel"]]
-    findings = _panel_findings(
-        panels, design_va, imbalance, per_phase, rules, system, bus_a, main_a
-    )
     circuits = _circuits_frame(c, q, phase_txt, sev, reason)
-    totals = _totals(panels, demand, imbalance, n, occupancy, system)
+    review = review_frame(c, q)
+    return CheckedFrame(q, found, per_phase, panels, design_va, imbalance, circuits, review)
+
+
+def schedule_result(
+    schedule, system, tables, failures, demand: Load, demands, review=None
+) -> ScheduleResult:
+    """A checked schedule: ``tables`` = (circuits, totals, panels); ``failures`` = (panel
+    and circuit columns, rule failures, panel findings); findings built on first use;
+    ``review`` the report's columns of its circuits (:func:`review_frame`)."""
+    circuits, totals, panels = tables
+    panel, circuit, found, findings = failures
     any_fail = any(f[6] == "fail" for f in found) or any(f.status == "fail" for f in findings)
-    panel, circuit = q["panel"], q["circuit"]
-    deferred = _Deferred(lambda: circuit_findings(panel, circuit, found) + findings, any_fail)
-    demands = demand.loads
     return ScheduleResult(
         schedule.path,
         system.text,
         circuits,
         totals,
         panels,
-        deferred,
-        demands[str(panels["panel"].iat[0])],
+        _Deferred(lambda: circuit_findings(panel, circuit, found) + findings, any_fail),
+        demand,
         demands,
         list(getattr(schedule, "notices", ())),
         getattr(schedule, "length_unit", "ft"),
-        review_frame(c, q),
+        review,
     )
-
-
-def _phase_of_space(space: np.ndarray, system: VoltageSystem) -> np.ndarray:
-    n_ph = 3 if system.phases == 3 else (2 if system.kind == "split" else 1)
-    return ((space - 1) // 2) % n_ph
 
 
 def _phases(poles, circuit, demand: ScheduleDemand, system: VoltageSystem):
@@ -512,7 +395,9 @@ def _panel_findings(panels, design_va, imbalance, per_phase, rules, system, bus_
     n_ph = 3 if system.phases == 3 else (2 if system.kind == "split" else 1)
     imb = rules["sched-imbalance"]
     findings: list[Finding] = []
-    for j, pid in enumerate(panels["panel"]):
+    design_a = panels["design_current_a"].to_numpy(float)
+    line_a = panels[[f"phase_{x}_design_a" for x in "abc"]].to_numpy(float)
+    for j, pid in enumerate(panels["panel"].tolist()):
         findings.append(
             compare(
                 float(imbalance[j]),
@@ -529,8 +414,8 @@ def _panel_findings(panels, design_va, imbalance, per_phase, rules, system, bus_
                 tolerance=0.0,
             )
         )
-        i_d = float(panels["design_current_a"].iat[j])
-        heavy = "ABC"[int(np.argmax(panels[[f"phase_{x}_design_a" for x in "abc"]].iloc[j]))]
+        i_d = float(design_a[j])
+        heavy = "ABC"[int(np.argmax(line_a[j]))]
         for rid, what, rating in (
             ("panel-bus-load", "bus rating", bus_a),
             ("panel-main-load", "main device", main_a),
@@ -606,16 +491,18 @@ def _totals(panels, demand: ScheduleDemand, imbalance, n: int, occupancy: str, s
             "occupancy": occupancy,
             "system": system.text,
         }
-    totals = {
-        k: (
-            int(v)
-            if isinstance(v, (int, np.integer))
-            else float(v)
-            if isinstance(v, (float, np.floating))
-            else v
-        )
-        for k, v in zip(panels.columns, (panels[k].iat[0] for k in panels.columns), strict=True)
-    }
-    totals["occupancy"] = occupancy
-    totals["system"] = system.text
-    return totals
+    return panel_totals(panels, occupancy, system)[0]
+
+
+def panel_totals(panels, occupancy: str, system) -> list[dict]:
+    """Each panel's figures as the totals of a one-panel schedule (Python numbers)."""
+    out = []
+    for row in panels.to_dict("records"):
+        totals = {
+            k: (int(v) if isinstance(v, int) else float(v) if isinstance(v, float) else v)
+            for k, v in row.items()
+        }
+        totals["occupancy"] = occupancy
+        totals["system"] = system.text
+        out.append(totals)
+    return out

@@ -182,17 +182,16 @@ def _row_label(table: Table, row: dict) -> str:
     key = table.meta.get("key", "").strip()
     if key and key in row:
         return str(row[key])
-    cols = [c for c in table.data.columns if c not in ("row_confidence", "rule_id")][:2]
+    cols = [c for c in table.columns if c not in ("row_confidence", "rule_id")][:2]
     return " ".join(str(row[c]) for c in cols)
 
 
 def table_provenance(table: Table) -> TableProvenance:
     """Where one table's figures come from, and how far each row was confirmed."""
     rows: tuple[tuple[str, str], ...] = ()
-    if "row_confidence" in table.data.columns:
+    if "row_confidence" in table.columns:
         rows = tuple(
-            (_row_label(table, row), str(row["row_confidence"]))
-            for row in table.data.to_dict("records")
+            (_row_label(table, row), str(row["row_confidence"])) for row in table.records()
         )
     meta = table.meta
     return TableProvenance(

@@ -372,23 +372,21 @@ def _file_system(path: Path, schedule, opts):
 
 
 def _from_files(files, opts, panel_opts, done, unreadable):
-    from ..checks.schedules import check_schedule
+    from ..checks.schedule_batch import check_files
     from ..errors import InputError
     from ..inputs.schedule_file import read_schedule
+    from ..rulebook import current_rulebook
 
-    feeder_drop, occupancy, bus_a, main_a = panel_opts
-    results, bad = [], []
+    read, bad = [], []  # (file number, path, schedule, system); (file number, InputError)
 
     def one(path, stage=lambda _w: None):
         try:
             stage("reading")
-            schedule = read_schedule(path, columns=opts["columns"], layout=opts["layout"])
-            system = _file_system(path, schedule, opts)
+            s = read_schedule(path, columns=opts["columns"], layout=opts["layout"])
+            read.append((len(read) + len(bad), path, s, _file_system(path, s, opts)))
             stage("checking")
-            results.append(check_schedule(schedule, system, feeder_drop, occupancy, bus_a, main_a))
-            done.append(str(path))
         except InputError as exc:
-            bad.append(exc)
+            bad.append((len(read) + len(bad), exc))
 
     big = [file_path for file_path in files if _size(file_path) >= LARGE_FILE_BYTES]
     if len(files) >= PROGRESS_FROM:
@@ -399,8 +397,19 @@ def _from_files(files, opts, panel_opts, done, unreadable):
         for file_path in files:
             _one_with_stages(file_path, one)
     else:
-        for file_path in files:
-            one(file_path)
+        for f in files:
+            one(f)
+    # alike one-panel files are checked together (checks/schedule_batch.py)
+    items = [(s, system) for _, _, s, system in read]
+    checked = check_files(items, *panel_opts, current_rulebook())
+    results = []
+    for (k, path, _s, _system), res in zip(read, checked, strict=True):
+        if isinstance(res, InputError):
+            bad.append((k, res))
+        else:
+            results.append(res)
+            done.append(str(path))
+    bad = [exc for _, exc in sorted(bad, key=lambda kb: kb[0])]
     if bad and not opts["keep_going"]:
         raise InputError([problem for exc in bad for problem in exc.problems])
     unreadable.extend(bad)

@@ -3,6 +3,8 @@ distinct cell text is parsed once and the result spread over the rows that hold 
 
 from __future__ import annotations
 
+import re
+
 import numpy as np
 
 from ..errors import ProblemList
@@ -11,6 +13,11 @@ MAX_PROBLEMS = 100  # bad cells listed one by one; the rest are counted
 # control characters (tab, LF and CR are cell separators, never inside a number)
 CONTROL_RE = r"[\x00-\x1f\x7f]"
 SMALL_COLUMN = 2000  # up to this many cells: factorised without pandas
+_CONTROL = re.compile(CONTROL_RE)
+_SEPARATORS = re.compile(r"[,_\s]")
+_SQUEEZE = re.compile(r"[\s°]|deg")
+# a plain decimal of at most 15 digits: Python's float gives what pandas.to_numeric does
+_PLAIN = re.compile(r"[+-]?(?=\.?\d)\d*\.?\d*")
 _TRUE = {"yes", "y", "true", "t", "1", "x", "c", "cont", "continuous"}
 _FALSE = {"no", "n", "false", "f", "0", "", "-", "nc"}
 
@@ -95,20 +102,20 @@ class Cells:
         strip: str = "",
         pre: str = "",
     ) -> np.ndarray:
-        import pandas as pd
-
         if key not in self.found:
             return np.full(self.n, np.nan if default is None else default)
         codes, uniq = self.col(key)
-        s = pd.Series(uniq, dtype=object)
+        texts = uniq.tolist()
         # a control character (a NUL byte …) is never part of a number: refused, not dropped
-        control = s.str.contains(CONTROL_RE, regex=True).to_numpy(bool)
+        control = np.array([_CONTROL.search(t) is not None for t in texts], dtype=bool)
         if pre:  # removed before spaces are: a part of the cell with its own number
-            s = s.str.replace(pre, "", regex=True, case=False)
-        clean = s.str.replace(r"[,_\s]", "", regex=True)
+            rx = re.compile(pre, re.I)
+            texts = [rx.sub("", t) for t in texts]
+        clean = [_SEPARATORS.sub("", t) for t in texts]
         if strip:
-            clean = clean.str.replace(strip, "", regex=True, case=False)
-        v = pd.to_numeric(clean, errors="coerce").to_numpy(float)
+            rx = re.compile(strip, re.I)
+            clean = [rx.sub("", t) for t in clean]
+        v = _to_numbers(clean)
         empty = uniq == ""
         if default is not None:
             v[empty] = default
@@ -123,19 +130,18 @@ class Cells:
     def choice(
         self, key: str, mapping: dict[str, object], expected: str, default, squeeze: bool = False
     ) -> np.ndarray:
-        import pandas as pd
-
         if key not in self.found:
             return np.full(self.n, default, dtype=object)
         codes, uniq = self.col(key)
-        s = pd.Series(uniq, dtype=object).str.lower()
+        low = [t.lower() for t in uniq.tolist()]
         if squeeze:
-            s = s.str.replace(r"[\s°]|deg", "", regex=True)
-        low = s.to_numpy(object)
+            low = [_SQUEEZE.sub("", t) for t in low]
+        low = np.array([*low, None], dtype=object)[:-1]
         mapped = np.array([mapping.get(u) if u else default for u in low] + [None], dtype=object)[
             :-1
         ]
-        self.bad(key, (pd.isna(mapped) & (low != ""))[codes], (codes, uniq), expected)
+        missing = np.array([m is None or m != m for m in mapped.tolist()], dtype=bool)
+        self.bad(key, (missing & (low != ""))[codes], (codes, uniq), expected)
         return mapped[codes]
 
     def conductor(self, key: str, required: bool) -> dict[str, np.ndarray]:
@@ -175,6 +181,26 @@ class Cells:
             np.array([*cols[6], False], dtype=bool)[:-1][codes] & (problem == "")[codes]
         )
         return out
+
+
+def _to_numbers(texts: list[str]) -> np.ndarray:
+    """Texts as numbers (NaN where not a number), as ``pandas.to_numeric`` reads them;
+    plain short decimals without pandas (the common case: its fixed cost dominates)."""
+    out = np.full(len(texts), np.nan)
+    rest = []
+    signed = any("-" in t for t in texts)  # pandas' "-0" is 0.0 or -0.0 by the column
+    for i, t in enumerate(texts):
+        if not signed and _PLAIN.fullmatch(t) and sum(ch.isdigit() for ch in t) <= 15:
+            out[i] = float(t)
+        elif t:
+            rest.append(i)
+    if rest:
+        import pandas as pd
+
+        out[rest] = pd.to_numeric(
+            pd.Series([texts[i] for i in rest], dtype=object), errors="coerce"
+        ).to_numpy(float)
+    return out
 
 
 def truthy() -> dict[str, object]:

@@ -46,20 +46,22 @@ import io
 import re
 from dataclasses import replace
 from pathlib import Path
-from typing import TYPE_CHECKING
 
 import numpy as np
 
 from ..errors import InputError, ProblemList
-from ..model import LOAD_KINDS, RACEWAYS, Schedule
+from ..model import Schedule
 from ..units import SCHEDULE_HEADER_UNITS
 from .files import FileKind, FileRefused, decode_utf8, read_bytes
-from .schedule_cells import MAX_PROBLEMS, Cells, factorised, truthy
+from .schedule_cells import MAX_PROBLEMS, Cells, factorised
+from .schedule_columns import (
+    cell_text,
+    check_spaces,
+    electrical_columns,
+    installation_columns,
+)
 from .schedule_header import match_header
 from .schedule_rows import compare_totals, set_aside, unfold_two_column
-
-if TYPE_CHECKING:
-    import pandas as pd
 
 MAX_FILE_BYTES = 200_000_000
 MAX_ROWS = 2_000_000
@@ -67,8 +69,6 @@ MAX_COLUMNS = 60
 MAX_XLSX_UNPACKED_BYTES = 1_000_000_000
 MAX_XLSX_RATIO = 200.0
 MAX_XLSX_MEMBERS = 10_000
-# ``20 A 22kAIC``, ``20/22 kAIC``: the interrupting rating after a breaker rating
-AIC_SUFFIX = r"\s*[,/;]?\s*\d+(?:[.,]\d+)?\s*(?:k\s*a?|ka)?\s*aic\s*$"
 
 
 # --------------------------------------------------------------------------- raw reading
@@ -91,9 +91,8 @@ def _guard_file(path: Path, problems: ProblemList) -> bytes:
     return raw
 
 
-def _read_csv(raw: bytes, problems: ProblemList) -> list[list[str]] | pd.DataFrame:
-    import pandas as pd
-
+def _read_csv(raw: bytes, problems: ProblemList) -> np.ndarray:
+    """The file's cells as a 2-D array of texts (row 0 the header)."""
     try:
         text = decode_utf8(raw, "UTF-8 text (save the schedule as CSV UTF-8)")
     except FileRefused as exc:
@@ -108,6 +107,29 @@ def _read_csv(raw: bytes, problems: ProblemList) -> list[list[str]] | pd.DataFra
     if n_lines > MAX_ROWS + 1:
         problems.add("", f"{n_lines:,} lines", f"at most {MAX_ROWS:,} circuit rows per file")
         problems.raise_if_any()
+    plain = _plain_csv(text)
+    return plain if plain is not None else _pandas_csv(text, problems)
+
+
+def _plain_csv(text: str) -> np.ndarray | None:
+    """A small file of plain cells (no quotes, blank lines, ragged rows or carriage
+    returns) split without the CSV parser's fixed cost; None for anything else, which
+    the parser reads (the same cells either way)."""
+    if len(text) > 200_000 or '"' in text or "\r" in text:
+        return None
+    lines = text[:-1].split("\n") if text.endswith("\n") else text.split("\n")
+    rows = [line.split(",") for line in lines]
+    width = len(rows[0])
+    if any(len(r) != width or r == [""] for r in rows):
+        return None
+    out = np.empty((len(rows), width), dtype=object)
+    out[:] = rows
+    return out
+
+
+def _pandas_csv(text: str, problems: ProblemList) -> np.ndarray:
+    import pandas as pd
+
     try:
         df = pd.read_csv(
             io.StringIO(text),
@@ -128,7 +150,7 @@ def _read_csv(raw: bytes, problems: ProblemList) -> list[list[str]] | pd.DataFra
     except pd.errors.EmptyDataError:
         problems.add("", "(empty file)", "a header row and one row per circuit")
         problems.raise_if_any()
-    return df
+    return df.to_numpy(object)
 
 
 def _refuse_nul(text: str, problems: ProblemList) -> None:
@@ -183,21 +205,10 @@ def _xlsx_guard(raw: bytes, problems: ProblemList) -> None:
     problems.raise_if_any()
 
 
-def _cell_text(v) -> str:
-    if v is None:
-        return ""
-    if isinstance(v, bool):
-        return "yes" if v else "no"
-    if isinstance(v, float):
-        return str(int(v)) if v.is_integer() and abs(v) < 1e15 else repr(v)
-    return str(v)
-
-
-def _read_xlsx(raw: bytes, problems: ProblemList) -> pd.DataFrame:
+def _read_xlsx(raw: bytes, problems: ProblemList) -> np.ndarray:
     import warnings
 
     import openpyxl
-    import pandas as pd
 
     _xlsx_guard(raw, problems)
     try:
@@ -229,7 +240,7 @@ def _read_xlsx(raw: bytes, problems: ProblemList) -> pd.DataFrame:
                 )
                 problems.raise_if_any()
             r = r[:MAX_COLUMNS]
-            cells = [_cell_text(v) for v in r]
+            cells = [cell_text(v) for v in r]
             width = max(width, len(cells))
             rows.append(cells)
     finally:
@@ -237,8 +248,9 @@ def _read_xlsx(raw: bytes, problems: ProblemList) -> pd.DataFrame:
     if not rows or not any(any(c.strip() for c in r) for r in rows):
         problems.add("", "(empty sheet)", "a header row and one row per circuit on the first sheet")
         problems.raise_if_any()
-    rows = [r + [""] * (width - len(r)) for r in rows]
-    return pd.DataFrame(rows, dtype=object)
+    out = np.empty((len(rows), width), dtype=object)
+    out[:] = [r + [""] * (width - len(r)) for r in rows]
+    return out
 
 
 # --------------------------------------------------------------------------- schedule
@@ -286,26 +298,45 @@ def read_schedule(
     p = Path(path)
     problems = ProblemList(str(p))
     notices: list[str] = []
+    cols, head, found, row_no = _table(p, layout, columns, problems, notices)
+    cols, rows = _circuit_rows(cols, head, found, problems, row_no)
+    keep, spaces, totals = set_aside(cols, rows, found, panel_id or p.stem, notices)
+    cols, rows = _only(cols, rows, keep, problems)
+    c = Cells(cols, len(rows), found, rows, problems)
+    values = _values(c, found, rows, panel_id or p.stem, problems)
+    _value_notices(c, found, rows, notices)
+    unit = found["load"][2] or "va"
+    scale = SCHEDULE_HEADER_UNITS["load"].get(unit, ("VA", 1.0))[1]
+    compare_totals(totals, values["load_value"], values["panel"], scale, unit.upper(), notices)
+    length_unit = "ft" if found["length"][2] in ("", "ft", "feet", "foot") else "m"
+    system = _one_system(c, problems)
+    sched = _schedule(p, values, c, rows, tuple(notices), spaces, length_unit)
+    return replace(sched, system=system) if system else sched
+
+
+def _table(p: Path, layout: str, columns, problems: ProblemList, notices: list[str]):
+    """The file's cells: each column as (codes, distinct stripped texts) of the rows below
+    the header, the first rows as text, the header matched, and each row's number."""
     raw = _guard_file(p, problems)
     df = _read_xlsx(raw, problems) if p.suffix.lower() == ".xlsx" else _read_csv(raw, problems)
     if df.shape[1] > MAX_COLUMNS:
         problems.add("row 1", f"{df.shape[1]} columns", f"at most {MAX_COLUMNS} columns")
         problems.raise_if_any()
     df, row_no = unfold_two_column(df, layout, notices, problems)
-    # every column as (codes, distinct stripped texts) of the rows below the header
-    cols = {pos: factorised(df[col].to_numpy(object)[1:]) for pos, col in enumerate(df.columns)}
-    head = df.iloc[:6].astype(str)
+    cols = {pos: factorised(df[1:, pos]) for pos in range(df.shape[1])}
+    head = [[str(x) for x in r] for r in df[:6].tolist()]
     found = match_header(
         head, lambda pos: bool((cols[pos][1] != "").any()), problems, notices, columns
     )
     problems.raise_if_any()
-    cols, rows = _circuit_rows(cols, head, found, problems, row_no)
-    keep, spaces, totals = set_aside(cols, rows, found, panel_id or p.stem, notices)
-    cols, rows = _only(cols, rows, keep, problems)
-    c = Cells(cols, len(rows), found, rows, problems)
-    values = _electrical_columns(c, found)
-    values.update(_installation_columns(c))
-    values["panel"] = c.text("panel", panel_id or p.stem)
+    return cols, head, found, row_no
+
+
+def _values(c: Cells, found, rows, panel_id: str, problems: ProblemList) -> dict:
+    """Every column typed and validated; raises InputError listing every bad cell."""
+    values = electrical_columns(c, found)
+    values.update(installation_columns(c))
+    values["panel"] = c.text("panel", panel_id)
     if "panel" in found:
         empty_panel = values["panel"] == ""
         c.bad(
@@ -314,7 +345,7 @@ def read_schedule(
     amb, ins = values["ambient_c"], values["insulation_c"]
     ok_amb = np.isnan(amb) | np.isnan(ins) | (amb < ins)
     c.bad("ambient", ~ok_amb, c.text("ambient"), "an ambient below the insulation rating")
-    _check_spaces(values["circuit"], values["poles"], values["panel"], rows, found, problems)
+    check_spaces(values["circuit"], values["poles"], values["panel"], rows, found, problems)
     if c.count > MAX_PROBLEMS:
         problems.add(
             "",
@@ -322,6 +353,11 @@ def read_schedule(
             f"(only the first {MAX_PROBLEMS} are listed)",
         )
     problems.raise_if_any()
+    return values
+
+
+def _value_notices(c: Cells, found, rows, notices: list[str]) -> None:
+    """Notices on values read but not checked, or assumed."""
     if "aic" in found:
         notices.append(
             f"column '{found['aic'][1]}' (interrupting ratings) read and validated but not "
@@ -334,13 +370,6 @@ def read_schedule(
             f"rows {', '.join(map(str, at[:10]))}{' …' if len(at) > 10 else ''}: write Cu or "
             "Al to confirm"
         )
-    unit = found["load"][2] or "va"
-    scale = SCHEDULE_HEADER_UNITS["load"].get(unit, ("VA", 1.0))[1]
-    compare_totals(totals, values["load_value"], values["panel"], scale, unit.upper(), notices)
-    length_unit = "ft" if found["length"][2] in ("", "ft", "feet", "foot") else "m"
-    system = _one_system(c, problems)
-    sched = _schedule(p, values, c, rows, tuple(notices), spaces, length_unit)
-    return replace(sched, system=system) if system else sched
 
 
 def _one_system(c: Cells, problems: ProblemList) -> str:
@@ -377,7 +406,7 @@ def _circuit_rows(cols, head, found, problems: ProblemList, rows_all):
         blank &= (uniq == "")[codes]
     # a header row repeated below the header (pasted twice, or a page break copy)
     circ_pos = found["circuit"][0]
-    head_txt = str(head.iat[0, circ_pos]).strip().lower()
+    head_txt = head[0][circ_pos].strip().lower()
     codes, uniq = cols[circ_pos]
     rep = np.array([u.lower() == head_txt for u in uniq], dtype=bool)[codes]
     keep = np.flatnonzero(~blank)
@@ -397,159 +426,6 @@ def _circuit_rows(cols, head, found, problems: ProblemList, rows_all):
     if n < n_body:
         cols = {pos: (codes[keep], uniq) for pos, (codes, uniq) in cols.items()}
     return cols, rows
-
-
-_TEMPERATURE_WORDS = {"60": 60.0, "75": 75.0, "90": 90.0, "60c": 60.0, "75c": 75.0, "90c": 90.0}
-
-
-def _electrical_columns(c: Cells, found) -> dict[str, np.ndarray]:
-    """Circuit number, poles, load (scaled by its header unit), pf, breaker, length."""
-    units = SCHEDULE_HEADER_UNITS
-    circuit = c.number(
-        "circuit", "a circuit number, a whole number from 1 to 999", 1, 999, None, integer=True
-    )
-    poles = c.number("poles", "1, 2 or 3 poles", 1, 3, 1.0, integer=True)
-    load_unit, load_scale = units["load"].get(found["load"][2], ("VA", 1.0))
-    unit_text = {"va": "VA", "kva": "kVA", "w": "W", "kw": "kW", "a": "A"}.get(
-        found["load"][2], "VA"
-    )
-    load = c.number("load", f"a load in {unit_text}, a number ≥ 0", 0, 1e8, None)
-    pf = c.number("pf", "a power factor from 0.05 to 1", 0.05, 1.0, 1.0)
-    breaker = c.number(
-        "breaker",
-        "a breaker rating in A, e.g. 20, '20 A' or '20 A 22kAIC'",
-        1,
-        6000,
-        None,
-        strip=r"a$",
-        pre=AIC_SUFFIX,
-    )
-    # an interrupting rating (its own column, or after the breaker rating) is read and
-    # validated; ``schedule`` has no fault current to hold it against (``check`` does)
-    c.number(
-        "aic",
-        "an interrupting rating such as 22kAIC, '22 kA' or 10000",
-        1,
-        300_000,
-        np.nan,
-        strip=r"(?:k?a?ic|ka|a)$",
-    )
-    len_scale = units["length"].get(found["length"][2], units["length"][""])[1]
-    length = c.number(
-        "length", "a one-way length greater than 0 (up to 2000 m)", 1e-6, 2000 / len_scale, None
-    )
-    return {
-        "circuit": circuit,
-        "poles": poles,
-        "load_value": load * load_scale,
-        "load_unit": load_unit,
-        "pf": pf,
-        "breaker_a": breaker,
-        "length_m": length * len_scale,
-    }
-
-
-def _installation_columns(c: Cells) -> dict[str, np.ndarray]:
-    """Insulation, termination, ambient, bundling, load kind, continuous, raceway, wires."""
-    ins = c.choice("insulation", _TEMPERATURE_WORDS, "60, 75 or 90 (°C)", 75.0, squeeze=True)
-    term = c.choice("termination", _TEMPERATURE_WORDS, "60, 75 or 90 (°C)", np.nan, squeeze=True)
-    amb = c.number("ambient", "an ambient from -40 to 85 °C", -40, 85, 30.0)
-    ccc = c.number(
-        "current_carrying",
-        "a whole number of current-carrying conductors, 1 to 80",
-        1,
-        80,
-        3.0,
-        integer=True,
-    )
-    kind = c.choice(
-        "kind",
-        {k: k for k in LOAD_KINDS}
-        | {
-            "light": "lighting",
-            "lights": "lighting",
-            "receptacles": "receptacle",
-            "recept": "receptacle",
-            "motors": "motor",
-            "heat": "heating",
-            "heater": "heating",
-        },
-        "a load kind: " + ", ".join(LOAD_KINDS),
-        "other",
-    )
-    cont = c.choice("continuous", truthy(), "yes or no", False)
-    raceway = c.choice(
-        "raceway",
-        {r: r for r in RACEWAYS}
-        | {"emt": "steel", "rmc": "steel", "imc": "steel", "free air": "free-air"},
-        "one of " + ", ".join(RACEWAYS),
-        "steel",
-    )
-    cell = c.conductor("conductor", required=True)
-    size, material = cell["size"], cell["material"]
-    ground = c.conductor("ground", required=False)
-    # a ground column wins; a blank one takes the ground written in the conductor cell
-    no_g = ground["size"] == ""
-    gsize = np.where(no_g, cell["ground_size"], ground["size"])
-    gmat = np.where(no_g, cell["ground_material"], ground["material"])
-    # an insulation type in the cell (THHN …): the lower of it and the insulation column
-    import pandas as pd
-
-    ins = pd.Series(ins, dtype=object).astype(float).to_numpy()
-    stated = c.text("insulation") != ""
-    typed = cell["insulation_c"]
-    ins = np.where(np.isnan(typed), ins, np.where(stated, np.fmin(ins, typed), typed))
-    c.assumed_copper = cell["assumed"] | (ground["assumed"] & ~no_g)
-    return {
-        "insulation_c": ins.astype(float),
-        "termination_c": term.astype(float),
-        "ambient_c": amb,
-        "current_carrying": ccc,
-        "kind": kind,
-        "continuous": cont,
-        "raceway": raceway,
-        "size": size,
-        "material": material,
-        "ground_size": gsize,
-        "ground_material": gmat,
-    }
-
-
-def _check_spaces(circuit, poles, panel, rows, found, problems: ProblemList) -> None:
-    """Duplicate circuit numbers and spaces taken twice (an n-pole circuit at space s
-    takes s, s+2, ...)."""
-    import pandas as pd
-
-    valid = np.isfinite(circuit) & np.isfinite(poles)
-    if not valid.any():
-        return
-    pan_codes = pd.factorize(pd.Series(panel))[0]
-    n_pole = np.where(valid, poles, 1).astype(np.int64)
-    idx = np.repeat(np.flatnonzero(valid), n_pole[valid])
-    step = np.arange(len(idx)) - np.repeat(np.cumsum(n_pole[valid]) - n_pole[valid], n_pole[valid])
-    space = circuit[idx].astype(np.int64) + 2 * step
-    key = pan_codes[idx].astype(np.int64) * 10_000 + space
-    order = np.argsort(key, kind="stable")
-    ks = key[order]
-    dup = np.flatnonzero(ks[1:] == ks[:-1]) + 1
-    for d in dup[:MAX_PROBLEMS]:
-        j = idx[order[d]]
-        # the earliest row holding this space
-        start = d
-        while start > 0 and ks[start - 1] == ks[d]:
-            start -= 1
-        first = idx[order[start]]
-        what = (
-            "the same circuit number as"
-            if step[order[d]] == 0 and circuit[j] == circuit[first]
-            else "a space already taken by"
-        )
-        problems.add(
-            f"row {rows[j]}, column '{found['circuit'][1]}'",
-            _cell_text(circuit[j]),
-            f"a circuit number not used twice in panel {panel[j]} (it has "
-            f"{what} row {rows[first]}, space {space[order[d]]})",
-        )
 
 
 def _schedule(path: Path, v: dict, c: Cells, rows, notices, spaces, length_unit) -> Schedule:

@@ -7,13 +7,9 @@ brackets (``load [VA]``, ``length (m)``).
 from __future__ import annotations
 
 import re
-from typing import TYPE_CHECKING
 
 from ..errors import ProblemList
 from ..units import SCHEDULE_HEADER_UNITS
-
-if TYPE_CHECKING:
-    import pandas as pd
 
 # canonical column -> spellings (normalised: lower case, single spaces)
 ALIASES: dict[str, tuple[str, ...]] = {
@@ -151,7 +147,7 @@ def accepted_spellings(key: str) -> str:
 
 
 def match_header(
-    df: pd.DataFrame,
+    df: list[list[str]],
     has_values,
     problems: ProblemList,
     notices: list[str] | None = None,
@@ -159,13 +155,13 @@ def match_header(
 ) -> dict[str, tuple[int, str, str]]:
     """canonical name -> (column position, header text, unit).
 
-    ``df`` holds the header row and the rows below it as text (the first few are enough:
+    ``df`` holds the header row and the rows below it as lists of text (the first few are enough:
     they are searched for a header placed too low); ``has_values(pos)`` tells whether
     column ``pos`` has a non-blank cell below the header. ``user_map`` (normalised header
     → column or ``ignore``, :func:`parse_column_map`) comes first; every other header not
     understood is named in ``notices`` (never dropped in silence).
     """
-    header = [str(cell) for cell in df.iloc[0].tolist()]
+    header = [str(cell) for cell in df[0]]
     found, blank = _match_columns(header, has_values, problems, notices, user_map or {})
     missing = [key for key in REQUIRED if key not in found]
     if missing:
@@ -229,7 +225,7 @@ def _match_columns(header, has_values, problems, notices, user_map):
 def _header_too_low_hint(df, missing) -> str:
     """Where the missing columns are, when the header row sits below title rows."""
     for row in range(1, min(len(df), 6)):
-        names = {_LOOKUP.get(normalise_header(cell)[0]) for cell in df.iloc[row].tolist()}
+        names = {_LOOKUP.get(normalise_header(cell)[0]) for cell in df[row]}
         if all(key in names for key in missing):
             return (
                 f" (they are in row {row + 1}: the header must be row 1 — remove the "

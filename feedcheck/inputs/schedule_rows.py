@@ -45,9 +45,7 @@ def unfold_two_column(df, layout: str, notices: list[str], problems: ProblemList
     ``layout``: ``auto`` (detect a header whose two halves name the same columns, each
     with a circuit column), ``one-row`` or ``two-column``.
     """
-    import pandas as pd
-
-    header = df.iloc[0].tolist()
+    header = df[0].tolist()
     n_body = len(df) - 1
     rows = np.arange(2, n_body + 2)
     if layout == "one-row":
@@ -74,13 +72,9 @@ def unfold_two_column(df, layout: str, notices: list[str], problems: ProblemList
         return df, rows
     left, right_of = split
     right = [right_of[keys[i]] for i in left]
-    body = df.iloc[1:]
-    lhalf = body.iloc[:, left].to_numpy(object)
-    rhalf = body.iloc[:, right].to_numpy(object)
-    both = np.empty((2 * n_body, len(left)), dtype=object)
-    both[0::2], both[1::2] = lhalf, rhalf
-    head = np.array([[header[i] for i in left]], dtype=object)
-    out = pd.DataFrame(np.vstack([head, both]), dtype=object)
+    out = np.empty((2 * n_body + 1, len(left)), dtype=object)
+    out[0] = [header[i] for i in left]
+    out[1::2], out[2::2] = df[1:, left], df[1:, right]
     notices.append(
         f"two-column panel form: columns {left[0] + 1}–{left[-1] + 1} and "
         f"{min(right) + 1}–{max(right) + 1} read as one circuit per half-row"
@@ -108,18 +102,21 @@ def classify(text, found) -> np.ndarray:
     return kind
 
 
-def _matches(cells: np.ndarray, rx: re.Pattern) -> np.ndarray:
-    import pandas as pd
+def _factorize(cells) -> tuple[np.ndarray, list]:
+    """(codes, distinct values in the order met)."""
+    seen: dict = {}
+    codes = [seen.setdefault(v, len(seen)) for v in np.asarray(cells, dtype=object).tolist()]
+    return np.array(codes, dtype=np.intp), list(seen)
 
-    codes, uniq = pd.factorize(np.asarray(cells, dtype=object))
+
+def _matches(cells: np.ndarray, rx: re.Pattern) -> np.ndarray:
+    codes, uniq = _factorize(cells)
     hit = np.array([bool(rx.match(str(u))) for u in uniq] + [False], dtype=bool)
     return hit[codes]
 
 
 def _in(cells: np.ndarray, words: set[str]) -> np.ndarray:
-    import pandas as pd
-
-    codes, uniq = pd.factorize(np.asarray(cells, dtype=object))
+    codes, uniq = _factorize(cells)
     hit = np.array([str(u).strip().lower() in words for u in uniq] + [True], dtype=bool)
     return hit[codes]
 
@@ -140,9 +137,7 @@ def set_aside(cols, rows, found, default_panel: str, notices: list[str]):
     kind = classify(text, found)
     panel = text("panel")
     panel = np.where(panel == "", default_panel, panel)
-    import pandas as pd
-
-    codes, uniq = pd.factorize(text("poles"))
+    codes, uniq = _factorize(text("poles"))
     poles = np.array([int(u) if u in ("1", "2", "3") else 1 for u in uniq] + [1])[codes]
     spaces: dict[str, tuple[int, int]] = {}
     for pid in dict.fromkeys(panel[kind != TOTAL].tolist()):

@@ -63,11 +63,12 @@ def render_schedule_summary(results, show_all: bool, shown_circuits: int = 20) -
         for note in getattr(r, "notices", []):
             word = "WARN" if note.startswith(("warning:", "column")) else "note"
             lines.append(f"  {word:4}  {note.removeprefix('warning: ')}")
-        bad = c[st != "ok"]
-        shown = bad if show_all else bad.head(shown_circuits)
-        for row in shown.itertuples(index=False):
-            word = status_word(row.status, loud=True)
-            lines.append(f"  {word:4}  {row.panel}/{row.circuit}  {row.reason}")
+        bad = [i for i, v in enumerate(st.tolist()) if v != "ok"]
+        shown = bad if show_all else bad[:shown_circuits]
+        panel, circuit, reason = (c[k].tolist() for k in ("panel", "circuit", "reason"))
+        for i in shown:
+            word = status_word(st[i], loud=True)
+            lines.append(f"  {word:4}  {panel[i]}/{circuit[i]}  {reason[i]}")
         if len(bad) > len(shown):
             lines.append(f"  … {len(bad) - len(shown)} more (--all lists them, --out saves all)")
         panel_ids = set(r.panels["panel"])

@@ -48,3 +48,26 @@ def test_one_frame_equals_panel_by_panel(tmp_path):
         )
     # the failing circuits of the invented data make the comparison bite
     assert any(f.status == "fail" for r in res.schedules.values() for f in r.findings)
+
+
+def test_schedule_command_files_in_one_frame_equal_each_alone(tmp_path):
+    # feedcheck schedule: alike one-panel files checked together (check_files) give what
+    # check_schedule gives each file alone, totals' number types included
+    from feedcheck.checks.schedule_batch import check_files
+    from feedcheck.inputs.schedule_file import read_schedule
+    from feedcheck.units import parse_voltage_system
+
+    job_text(12, tmp_path)  # writes twelve invented one-panel schedules
+    scheds = [read_schedule(p) for p in sorted(tmp_path.glob("*.csv"))]
+    system, book = parse_voltage_system("208Y/120 V"), current_rulebook()
+    got = check_files([(s, system) for s in scheds], 1.5, "other", 100.0, 100.0, book)
+    assert len(got) == 12
+    for s, g in zip(scheds, got, strict=True):
+        alone = check_schedule(s, system, 1.5, "other", 100.0, 100.0, rules=book)
+        pd.testing.assert_frame_equal(g.circuits, alone.circuits, check_exact=True)
+        pd.testing.assert_frame_equal(g.panels, alone.panels, check_exact=True)
+        assert [(k, type(v)) for k, v in g.totals.items()] == [
+            (k, type(v)) for k, v in alone.totals.items()
+        ]
+        assert g.totals == alone.totals and g.exit_code == alone.exit_code
+        assert [f.as_dict() for f in g.findings] == [f.as_dict() for f in alone.findings]

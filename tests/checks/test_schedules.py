@@ -267,7 +267,7 @@ def test_demand_load_alone_equals_the_full_check(samples):
 def test_demand_is_computed_once_per_panel(samples, monkeypatch):
     # issue 11: the runner computes each panel's demand once, for the walk and the circuits
     import feedcheck.calc.demand as kernel
-    import feedcheck.checks.schedules as sc
+    import feedcheck.checks.schedule_demand as sc
     from feedcheck.runner import run_job
 
     calls = []
