@@ -475,11 +475,11 @@ def _motor_flc(tabs: Mapping[str, Table]) -> MotorFlcTables:
     """Tables 430.248 and 430.250 as arrays (columns ``flc_<V>v_a``, blank = no current)."""
 
     def one(name: str, title: str) -> MotorFlcTable:
-        df = tabs[name].data
+        cols = tabs[name].columns  # numpy columns: no pandas on the quick commands
         return MotorFlcTable.from_named_columns(
-            df["hp"].to_numpy(float),
-            {c: df[c].to_numpy(float) for c in df.columns if "flc_" in str(c)},
-            tuple(df["rule_id"].astype(str)),
+            np.asarray(cols["hp"], float),
+            {c: np.asarray(cols[c], float) for c in cols if "flc_" in str(c)},
+            tuple(str(v) for v in cols["rule_id"]),
             title,
         )
 

@@ -137,15 +137,27 @@ def test_every_command_has_help_with_caution(path, cmd):
     assert "licensed electrician or engineer" in r.stdout
 
 
-def test_quick_figures_do_not_import_pandas_or_reportlab():
-    """`feedcheck calc rated-current` must start fast: no pandas or reportlab on its path."""
+QUICK_COMMANDS = [
+    ["calc", "rated-current", "--rating", "75kVA", "--voltage", "208V"],
+    # the three that read tables (the rule book) must read them without pandas too
+    ["calc", "fault", "--rating", "75kVA", "--primary", "480 V delta",
+     "--secondary", "208Y/120 V", "--impedance", "5.1%"],
+    ["calc", "ampacity", "--size", "3/0 AWG", "--material", "cu", "--insulation", "90degC",
+     "--ambient", "40degC", "--current-carrying", "6", "--termination", "75degC"],
+    ["calc", "voltage-drop", "--current", "150A", "--length", "200 ft", "--size", "3/0 AWG",
+     "--material", "cu", "--raceway", "steel", "--system", "208Y/120 V"],
+]  # fmt: skip
+
+
+@pytest.mark.parametrize("args", QUICK_COMMANDS, ids=[a[1] for a in QUICK_COMMANDS])
+def test_quick_figures_do_not_import_pandas_or_reportlab(args):
+    """The quick `calc` commands must start fast: no pandas or reportlab on their path."""
     import subprocess
     import sys
 
     code = (
         "import sys; from click.testing import CliRunner; from feedcheck.cli import main; "
-        "r = CliRunner().invoke(main, ['calc', 'rated-current', '--rating', '75kVA', "
-        "'--voltage', '208V']); assert r.exit_code == 0, r.output; "
+        f"r = CliRunner().invoke(main, {args!r}); assert r.exit_code == 0, r.output; "
         "print(sorted(m for m in ('pandas', 'reportlab') if m in sys.modules))"
     )
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True)
