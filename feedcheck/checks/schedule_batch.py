@@ -30,6 +30,7 @@ from .schedules import (
     _rule_rows,
     check_frame,
     check_schedule,
+    panel_totals,
     schedule_demand,
     schedule_result,
 )
@@ -170,14 +171,8 @@ def _slice_found(found: list, a: int, b: int) -> list:
 
 def _totals_of(panel_row, occupancy: str, system: VoltageSystem) -> dict:
     """One panel's totals, as :func:`feedcheck.checks.schedules.check_schedule` gives
-    them for a one-panel schedule."""
-    totals = {
-        k: (float(v) if isinstance(v, (int, float, np.floating, np.integer)) else v)
-        for k, v in panel_row.iloc[0].to_dict().items()
-    }
-    totals["occupancy"] = occupancy
-    totals["system"] = system.text
-    return totals
+    them for a one-panel schedule (counts stay whole numbers)."""
+    return panel_totals(panel_row, occupancy, system)[0]
 
 
 def check_files(items, feeder_drop_pct, occupancy, bus_a, main_a, book: RuleBook) -> list:
