@@ -22,9 +22,7 @@ MAX_MODULE_LINES = 600
 MAX_FUNCTION_LINES = 80
 
 # known gap: still over the budget (split them; then take them off this list)
-OVER_BUDGET = {
-    "calc/selection.py:select_conductor",
-}
+OVER_BUDGET: set[str] = set()  # empty: every module and function is within the budget
 
 
 def _over_budget() -> set[str]:

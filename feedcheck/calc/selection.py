@@ -137,7 +137,37 @@ class _Extra:
         return passed, vd_pct, ws
 
 
-def _check_args(phases, pf, system, sets) -> None:
+def _search(names, terms, ok, extra, args, data: SizingData):
+    """The first size passing each criterion, and the first passing all of them as
+    (name, termination, chain, max device, drop %, withstand) (None when none does);
+    ``ok`` the screened (ampacity, protection) verdicts of every size."""
+    chain_args, more, sets, material = args
+    first: dict[str, str] = {}
+    chosen = None
+    for i, name in enumerate(names):
+        passed, vd_pct, ws = extra.verdicts(name, bool(ok[0][i]), bool(ok[1][i]))
+        for c, good in passed.items():
+            if good and c not in first:
+                first[c] = name
+        if chosen is None and all(passed.values()):
+            chain = ampacity_chain(
+                name, *chain_args, terms[i], sets, more[0], *more[1:], tables=data.ampacity
+            )
+            mx = float(max_device_a(chain.final_a, name, material, tables=data.protection))
+            chosen = (name, terms[i], chain, mx, vd_pct, ws)
+            if len(first) == len(passed):
+                break
+    return first, chosen
+
+
+def _check_args(phases, pf, system, sets, loads=(), fault=(None, None)) -> None:
+    """Refuse arguments no selection can use; ``loads`` (name, value) of the load
+    currents, ``fault`` (fault_a, clearing_s)."""
+    if fault[0] is not None and fault[1] is None:
+        raise ValueError("clearing_s: expected a clearing time with fault_a")
+    for what, v in loads:
+        if not (np.isfinite(v) and v >= 0):
+            raise ValueError(f"{what}: got {v}; expected a load current ≥ 0 A")
     if phases not in (1, 3):
         raise ValueError(f"phases: got {phases}; expected 1 or 3")
     if not (0 < pf <= 1):
@@ -268,62 +298,27 @@ def select_conductor(
 ) -> Selection:
     """Smallest conductor size meeting ampacity, protection, voltage drop and withstand.
 
-    Parameters
-    ----------
-    continuous_a, noncontinuous_a : float
-        Load currents [A].
-    material : str
-        ``"cu"`` or ``"al"``.
-    insulation_c : float
-        Insulation column [°C] (60, 75, 90).
-    ambient_c : float
-        Ambient [°C].
-    current_carrying : int
-        Current-carrying conductors per raceway.
-    termination_c : float, optional
-        Termination column [°C]; default by 110.14(C)(1) from the device and size
-        (``equipment_75c`` when the equipment is marked for 75 °C).
-    sets : int
-        Parallel sets (each ≥ 1/0 AWG when > 1).
-    raceway : str
-        ``steel``, ``aluminum``, ``pvc``, ``cable`` or ``free-air`` (free air uses
-        Table 310.17).
-    device_a : float, optional
-        Overcurrent device [A]; default the next standard rating ≥ 1.25 Ic + Inc.
-    length_m, voltage_v, phases, pf, vdrop_max_pct :
-        One-way length [m], nominal line-to-line (three-phase) or line voltage [V],
-        1 or 3, power factor, drop limit [%]. The drop is checked when ``length_m`` > 0
-        and ``voltage_v`` is given.
-    fault_a, clearing_s : float, optional
-        Available fault current [A] and device clearing time [s] (withstand check).
-    withstand_insulation : str
-        ``"thermoplastic"`` (THHN-like) or ``"thermoset"`` (XHHW-like) for k.
-    system : str
-        ``"awg"`` (AWG/kcmil) or ``"metric"``.
-    data : SizingData
-        Tables (``book.sizing`` of the rule book).
+    Loads ``continuous_a``, ``noncontinuous_a`` [A]; ``material`` "cu"/"al";
+    ``insulation_c`` column (60, 75, 90 °C); ``ambient_c``; ``current_carrying`` per
+    raceway; ``termination_c`` (default by 110.14(C)(1) from the device and size,
+    ``equipment_75c`` when the equipment is marked 75 °C); ``sets`` in parallel (each
+    ≥ 1/0 AWG); ``raceway`` steel, aluminum, pvc, cable or free-air (Table 310.17);
+    ``device_a`` (default the next standard rating ≥ 1.25 Ic + Inc); the drop is checked
+    when ``length_m`` > 0 and ``voltage_v`` (line-to-line three-phase, else line) is
+    given, with ``phases``, ``pf`` and ``vdrop_max_pct``; withstand when ``fault_a`` [A]
+    is given, with ``clearing_s`` and ``withstand_insulation`` ("thermoplastic" or
+    "thermoset"); ``rooftop_adder_c`` [°C]; ``system`` "awg" or "metric"; ``data`` the
+    rule book's ``book.sizing``. Returns a :class:`Selection`; ``ValueError`` for bad
+    input, a device smaller than the load requires, or no size meeting every criterion.
 
-    Returns
-    -------
-    Selection
-
-    Raises
-    ------
-    ValueError
-        Bad input, a device smaller than the load requires, or no size meets every
-        criterion.
-
-    Examples
-    --------
     >>> s = select_conductor(150.0, 30.0, "cu", 90.0, 40.0, 6, data=book.sizing)  # 4/0 too small
     >>> s.size, s.device_a, s.governing
     ('250 kcmil', 225.0, 'protection')
 
-    References
-    ----------
-    NFPA 70-2023 110.14(C), 215.2(A)(1), 215.3, 240.4; IEC 60364-4-43 434.5.2.
+    References: NFPA 70-2023 110.14(C), 215.2(A)(1), 215.3, 240.4; IEC 60364-4-43 434.5.2.
     """
-    _check_args(phases, pf, system, sets)
+    loads = (("continuous_a", continuous_a), ("noncontinuous_a", noncontinuous_a))
+    _check_args(phases, pf, system, sets, loads, (fault_a, clearing_s))
     dev = _device(continuous_a, noncontinuous_a, device_a, data)
     extra = _Extra(
         length_m > 0 and voltage_v is not None,
@@ -332,49 +327,17 @@ def select_conductor(
         (length_m, voltage_v, pf, phases, vdrop_max_pct),
         (withstand_insulation, fault_a, clearing_s),
     )
-    check_vd, check_ws = extra.check_vd, extra.check_ws
-    if check_ws and clearing_s is None:
-        raise ValueError("clearing_s: expected a clearing time with fault_a")
-    for what, v in (("continuous_a", continuous_a), ("noncontinuous_a", noncontinuous_a)):
-        if not (np.isfinite(v) and v >= 0):
-            raise ValueError(f"{what}: got {v}; expected a load current ≥ 0 A")
     names, terms = _candidates(system, sets, material, termination_c, dev, equipment_75c, data)
     chain_args = (material, insulation_c, ambient_c, current_carrying)
-    more = (free_air := raceway == "free-air", rooftop_adder_c, continuous_a, noncontinuous_a)
+    more = (raceway == "free-air", rooftop_adder_c, continuous_a, noncontinuous_a)
     ok = _screen(names, terms, dev, sets, chain_args, more, data)
-    first: dict[str, str] = {}
-    chosen = None
-    for i, name in enumerate(names):
-        passed, vd_pct, ws = extra.verdicts(name, bool(ok[0][i]), bool(ok[1][i]))
-        for c, good in passed.items():
-            if good and c not in first:
-                first[c] = name
-        if chosen is None and all(passed.values()):
-            chain = ampacity_chain(
-                name, *chain_args, terms[i], sets, free_air, *more[1:], tables=data.ampacity
-            )
-            mx = float(max_device_a(chain.final_a, name, material, tables=data.protection))
-            chosen = (name, terms[i], chain, mx, vd_pct, ws)
-            if len(first) == len(passed):
-                break
-    order = AWG_KCMIL_ORDER if system == "awg" else METRIC_ORDER
+    first, chosen = _search(names, terms, ok, extra, (chain_args, more, sets, material), data)
     if chosen is None:
-        _none_meets(first, check_vd, check_ws)
+        _none_meets(first, extra.check_vd, extra.check_ws)
     name, term, chain, mx, vd_pct, ws = chosen
-    rank = {n: i for i, n in enumerate(order)}
+    rank = {n: i for i, n in enumerate(AWG_KCMIL_ORDER if system == "awg" else METRIC_ORDER)}
     present = [c for c in CRITERIA if c in first]
     governing = max(present, key=lambda c: (rank[first[c]], -CRITERIA.index(c)))
-    rules = [*chain.rule_ids, "device-continuous-125", "prot-next-size-up"]
-    return Selection(
-        name,
-        sets,
-        dev,
-        term,
-        governing,
-        tuple((c, first[c]) for c in present),
-        chain,
-        mx,
-        vd_pct,
-        ws,
-        tuple(rules),
-    )
+    rules = (*chain.rule_ids, "device-continuous-125", "prot-next-size-up")
+    criteria = tuple((c, first[c]) for c in present)
+    return Selection(name, sets, dev, term, governing, criteria, chain, mx, vd_pct, ws, rules)

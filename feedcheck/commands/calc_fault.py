@@ -466,7 +466,8 @@ def _print_rows(res, motor_flc) -> None:
         )
         diff = round(row["ptp_diff_pct"], 1) + 0.0  # + 0.0: never "-0.0"
         out(
-            f"  point-to-point       {row['ptp_a']:>10,.0f} A   {diff:+.1f} % vs ohmic maximum{flag}"
+            f"  point-to-point       {row['ptp_a']:>10,.0f} A   {diff:+.1f} % vs "
+            f"ohmic maximum{flag}"
         )
         if motor_flc:
             out(
