@@ -30,9 +30,9 @@ from .schedules import (
     _rule_rows,
     check_frame,
     check_schedule,
-    panel_totals,
     schedule_demand,
     schedule_result,
+    totals_of_record,
 )
 
 
@@ -114,6 +114,7 @@ class ScheduleBatch:
         k = check_frame(g.joined, g.system, drop, limits, demand, self.book, rules)
         loads = demand.loads
         starts = np.searchsorted(demand.panel_code, np.arange(len(g.ids) + 1))
+        records = k.panels.to_dict("records")  # once for the group, not per panel
         out = {}
         for j, pid in enumerate(demand.panel_ids):
             a, b = int(starts[j]), int(starts[j + 1])
@@ -134,7 +135,7 @@ class ScheduleBatch:
                 g.system,
                 (
                     k.circuits.iloc[a:b].reset_index(drop=True),
-                    _totals_of(panel_row, g.occupancy, g.system),
+                    _totals_of(records[j], g.occupancy, g.system),
                     panel_row,
                 ),
                 (k.q["panel"][a:b], k.q["circuit"][a:b], _slice_found(k.found, a, b), findings),
@@ -169,10 +170,10 @@ def _slice_found(found: list, a: int, b: int) -> list:
     return out
 
 
-def _totals_of(panel_row, occupancy: str, system: VoltageSystem) -> dict:
-    """One panel's totals, as :func:`feedcheck.checks.schedules.check_schedule` gives
-    them for a one-panel schedule (counts stay whole numbers)."""
-    return panel_totals(panel_row, occupancy, system)[0]
+def _totals_of(record: dict, occupancy: str, system: VoltageSystem) -> dict:
+    """One panel's totals (its record of the group's panel table), as
+    :func:`feedcheck.checks.schedules.panel_totals` gives them for a one-panel schedule."""
+    return totals_of_record(record, occupancy, system)
 
 
 def check_files(items, feeder_drop_pct, occupancy, bus_a, main_a, book: RuleBook) -> list:

@@ -496,13 +496,22 @@ def _totals(panels, demand: ScheduleDemand, imbalance, n: int, occupancy: str, s
 
 def panel_totals(panels, occupancy: str, system) -> list[dict]:
     """Each panel's figures as the totals of a one-panel schedule (Python numbers)."""
-    out = []
-    for row in panels.to_dict("records"):
-        totals = {
-            k: (int(v) if isinstance(v, int) else float(v) if isinstance(v, float) else v)
-            for k, v in row.items()
-        }
-        totals["occupancy"] = occupancy
-        totals["system"] = system.text
-        out.append(totals)
-    return out
+    return [totals_of_record(row, occupancy, system) for row in panels.to_dict("records")]
+
+
+def totals_of_record(row: dict, occupancy: str, system) -> dict:
+    """One panel's record of the panel table as its totals: whole numbers stay whole
+    (counts are never shown as 20.0), other numbers are floats."""
+    totals = {
+        k: (
+            int(v)
+            if isinstance(v, (int, np.integer)) and not isinstance(v, bool)
+            else float(v)
+            if isinstance(v, (float, np.floating))
+            else v
+        )
+        for k, v in row.items()
+    }
+    totals["occupancy"] = occupancy
+    totals["system"] = system.text
+    return totals
