@@ -231,3 +231,25 @@ def panel_motor_steps(sheet, shares: list[MotorLoad], adder: float) -> None:
         "VA",
         "motor-feeder-largest",
     )
+
+
+def node_adder_step(ctx, node: str, sheet) -> None:
+    """430.24 above the panels on a node's sheet: the one 25 % kept (the largest motor
+    below the node) and the other panels' 25 % not counted again."""
+    found = ctx.node_motor_adders.get(node)
+    if found is None:
+        return
+    k = found.kept
+
+    def name(a):
+        return f"{a.motor or 'schedule motor'} on {a.panel_id}"
+
+    sheet.step(
+        "Motors below: the largest motor's adder only (430.24)",
+        "rolled-up load − the adder of every motor panel's largest motor but the largest",
+        f"kept: {k.va:,.0f} VA of the {k.motor_va:,.0f} VA motor ({name(k)}); not again: "
+        + ", ".join(f"{d.va:,.0f} VA ({name(d)})" for d in found.dropped),
+        -round(found.dropped_va),
+        "VA",
+        "motor-feeder-largest",
+    )
