@@ -174,3 +174,24 @@ def test_kw_beyond_the_last_row_is_refused(write_job):
     path = write_job(job_text() + '\n[[motor]]\nid = "M"\npanel = "P"\nkw = 400\n')
     res = CliRunner().invoke(main, ["check", str(path)])
     assert res.exit_code == 2 and "the table ends at 500 hp" in res.output
+
+
+def test_sample_motor_is_complete():
+    """The willow_yard_service sample's AC-1 gives its device and disconnect: every one of
+    its findings is evaluated. Limits: 25 hp, 460 V column, 34 A (NFPA 70 Table 430.250,
+    from memory as the table file); Table 430.52 inverse-time breaker 250 % → 85 A, next
+    standard rating 90 A (240.6(A), 430.52(C)(1) Exception No. 1); 430.110(A) 115 % →
+    39.1 A."""
+    import json
+    from pathlib import Path
+
+    from click.testing import CliRunner
+
+    from feedcheck.cli import main
+
+    job = Path(__file__).parents[2] / "sample_jobs" / "willow_yard_service.toml"
+    doc = json.loads(CliRunner().invoke(main, ["check", str(job), "--format", "json"]).stdout)
+    mine = [f for f in doc["findings"] if f["subject"] == "AC-1"]
+    assert mine and all(f["status"] == "ok" for f in mine), mine
+    assert finding(doc, "AC-1", "branch device")["limit"] == pytest.approx(90.0)
+    assert finding(doc, "AC-1", "disconnect rating")["limit"] == pytest.approx(1.15 * 34.0)
