@@ -110,3 +110,35 @@ def test_a_schedule_motor_takes_part_in_the_one_adder(check_json, tmp_path):
     hand = 60_000 / (math.sqrt(3) * 208) + 1.25 * FLC_25HP_208 + 2 * FLC_10HP_208
     assert node(doc, "P")["design_current_a"] == pytest.approx(hand, rel=1e-6)
     assert node(doc, "P2")["design_current_a"] == pytest.approx(1.25 * FLC_10HP_208, rel=1e-6)
+
+
+def test_single_phase_motor_loads_its_pair_up_the_feed(check_json):
+    """A single-phase 5 hp motor at 208 V (30.8 A, NFPA 70 Table 430.248, 208 V column,
+    from memory) alone on three-phase panel P1, under P with 60 kVA balanced: it loads
+    two lines of P1 and of P (the feeder R and transformer T) with 125 % × 30.8 A
+    (430.24, the largest motor) and the third none; the heaviest phase governs (215.2(A)(1)
+    by the heaviest line): 60,000 / (√3 × 208) + 1.25 × 30.8 = 205.0 A."""
+    text = job_text(ground="3 AWG Cu") + BRANCH.format(n=1, hp=5).replace(
+        "hp = 5\n", "hp = 5\nphases = 1\n"
+    )
+    doc = check_json(text)
+    hand = 60_000 / (math.sqrt(3) * 208) + 1.25 * 30.8
+    assert node(doc, "P1")["design_current_a"] == pytest.approx(1.25 * 30.8, rel=1e-6)
+    for n in ("P", "T"):
+        assert node(doc, n)["design_current_a"] == pytest.approx(hand, rel=1e-6), n
+    assert run(doc, "R")["current_a"] == pytest.approx(hand, rel=1e-6)
+    assert run(doc, "R1")["current_a"] == pytest.approx(1.25 * 30.8, rel=1e-6)
+    # the balanced average is lower: the single-phase load is not spread over three lines
+    avg = node(doc, "P")["load_va"] / (math.sqrt(3) * 208)
+    assert avg < hand - 5
+
+
+def test_a_single_phase_panel_motor_drops_its_adder_on_its_own_lines(check_json):
+    """P1: 25 hp three-phase (74.8 A); P2: 5 hp single-phase at 208 V (30.8 A, Table
+    430.248, from memory) on two lines. Above them only the 25 hp motor's 25 % counts
+    (430.24): the heaviest line of P carries 166.5 + 1.25 × 74.8 + 30.8 A."""
+    text = _job(second_hp=5).replace('panel = "P2"\nhp = 5\n', 'panel = "P2"\nhp = 5\nphases = 1\n')
+    doc = check_json(text)
+    hand = 60_000 / (math.sqrt(3) * 208) + 1.25 * FLC_25HP_208 + 30.8
+    assert node(doc, "P")["design_current_a"] == pytest.approx(hand, rel=1e-6)
+    assert node(doc, "P2")["design_current_a"] == pytest.approx(1.25 * 30.8, rel=1e-6)
