@@ -260,16 +260,19 @@ def node_adder_step(ctx, node: str, sheet) -> None:
     if found is None:
         return
     k = found.kept
+    after = ctx.loads[node].va
 
     def name(a):
         return f"{a.motor or 'schedule motor'} on {a.panel_id}"
 
     sheet.step(
-        "Motors below: the largest motor's adder only (430.24)",
-        "rolled-up load − the adder of every motor panel's largest motor but the largest",
-        f"kept: {k.va:,.0f} VA of the {k.motor_va:,.0f} VA motor ({name(k)}); not again: "
-        + ", ".join(f"{d.va:,.0f} VA ({name(d)})" for d in found.dropped),
-        -round(found.dropped_va),
+        "Load with motors below: the largest motor's adder only (430.24)",
+        "own + everything fed − the adder of every motor panel's largest motor but the "
+        "largest one below",
+        f"{after + found.dropped_va:,.0f} − "
+        + " − ".join(f"{d.va:,.0f} ({name(d)})" for d in found.dropped)
+        + f"; kept {k.va:,.0f} of the {k.motor_va:,.0f} VA motor ({name(k)})",
+        round(after),
         "VA",
         "motor-feeder-largest",
     )
