@@ -239,7 +239,7 @@ def check_transformer_phases(ctx, t: Transformer) -> None:
         return
     rated = float(current_from_apparent_power_a(t.rating_va, v.voltage_ll_v, v.phases))
     sh = ctx.sheet(t.id, "transformer", f"Transformer {t.id}")
-    from .motors import node_adder_step
+    from .motor_sheet import node_adder_step
 
     node_adder_step(ctx, t.id, sh)
     value, letter = phase_design_steps(ctx, t.id, sh, "xfmr-loading")
