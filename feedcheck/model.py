@@ -267,6 +267,7 @@ class Motor:
     flc_basis: str = ""  # "table" (430.6(A)(1)) or "nameplate"
     flc_rule_id: str = ""  # row of the full-load current table used
     flc_column_v: float | None = None  # voltage column of that table used [V]
+    flc_row_hp: float | None = None  # horsepower of that table row [hp]
     device_a: float | None = None  # branch short-circuit and ground-fault device
     device_type: str = "inverse-time-breaker"  # one of MOTOR_DEVICES
     motor_type: str | None = None  # one of MOTOR_TYPES; None: by phases

@@ -150,6 +150,8 @@ class DiagramMotor:
     hp: float | None
     flc_source: str = ""  # "Table 430.250", or "nameplate" when typed in without hp
     phases: int | None = None
+    device: str = ""  # branch device as given ("70 A inverse-time breaker"), "" if none
+    disconnect_a: float | None = None
 
 
 @dataclass(frozen=True)

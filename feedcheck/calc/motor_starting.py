@@ -122,4 +122,31 @@ def motor_starting_voltage_pct(
     return _out(100.0 * vt / vr)
 
 
-__all__ = ["motor_starting_current_a", "motor_starting_voltage_pct"]
+def voltage_on_path_pct(
+    sending_v, locked_rotor_a, starting_pf, r_path_ohm, x_path_ohm, r_to_ohm, x_to_ohm
+):
+    """Voltage at a point of a starting motor's path, percent of the sending voltage.
+
+    Impedance divider as in :func:`motor_starting_voltage_pct`: the point lies after
+    ``r_to_ohm + j·x_to_ohm`` of the path's ``r_path_ohm + j·x_path_ohm`` (source side);
+    V = E_s · |Z_path − Z_to + Z_m| / |Z_path + Z_m|. Everything else fed from that point
+    sees this voltage while the motor starts (prior load neglected). The whole path
+    (``Z_to = Z_path``) gives the terminal voltage, the source (``Z_to = 0``) 100 %.
+
+    Examples
+    --------
+    The motor of :func:`motor_starting_voltage_pct`, the point halfway along its path:
+
+    >>> round(voltage_on_path_pct(277, 600, 0.3, 0.02, 0.04, 0.01, 0.02), 2)
+    95.63
+    >>> round(voltage_on_path_pct(277, 600, 0.3, 0.02, 0.04, 0.02, 0.04), 2)
+    91.26
+    """
+    z_path, z_m, _es = _motor_impedances(
+        sending_v, locked_rotor_a, starting_pf, r_path_ohm, x_path_ohm, None
+    )
+    z_to = _finite("r_to_ohm", r_to_ohm) + 1j * _finite("x_to_ohm", x_to_ohm)
+    return _out(100.0 * np.abs(z_path - z_to + z_m) / np.abs(z_path + z_m))
+
+
+__all__ = ["motor_starting_current_a", "motor_starting_voltage_pct", "voltage_on_path_pct"]

@@ -29,6 +29,8 @@ class Load:
     phase_non_a: tuple[float, float, float] | None = None
     lighting_va: float | None = None  # connected general lighting of a schedule [VA]
     chain: object = None  # calc.demand_chain.DemandChain of a schedule, for the sheet
+    # the schedule's largest-motor 25 % on lines A, B, C [A] (part of phase_non_a)
+    motor_adder_a: tuple[float, float, float] | None = None
 
     @property
     def pf(self) -> float:
@@ -59,6 +61,8 @@ class Context:
     # node or run id -> unconfirmed rows its impedance path reads (checks/impedance.py)
     impedance_rows: dict[str, tuple[RowUse, ...]] = field(default_factory=dict)
     motor_loads: dict = field(default_factory=dict)  # panel id -> motors' 430.24 shares
+    # node id -> NodeAdders: the one largest-motor 25 % of every node above a motor panel
+    node_motor_adders: dict = field(default_factory=dict)
 
     def length(self, length_m: float, decimals: int | None = None, pair: bool = False) -> str:
         """A length [m] for a note or a sheet, in the unit the job is written in (``pair``:
@@ -218,7 +222,7 @@ def build_context(
     minima = _add_minimum_lighting(job, book, own)
     from .motor_loads import add_motor_loads
 
-    motor_loads = add_motor_loads(job, book, own)
+    motor_loads, adders = add_motor_loads(job, book, own)
     loads = {n: Load(o.va, o.continuous_va, o.w) for n, o in own.items()}
     for n in reversed(tree.order):
         parent = tree.parent_node[n]
@@ -228,6 +232,9 @@ def build_context(
             loads[parent].w += loads[n].w
     ctx = Context(job, tree, loads, book, calc_date=calc_date)
     ctx.phases = roll_up_phases(job, tree, own)
+    from .motor_loads import one_adder_per_node
+
+    ctx.node_motor_adders = one_adder_per_node(job, adders, loads, ctx.phases)
     ctx.lighting_minimum = minima
     ctx.motor_loads = motor_loads
     ctx.chains = {n: o.chain for n, o in own.items() if o.chain is not None}

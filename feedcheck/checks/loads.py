@@ -239,6 +239,9 @@ def check_transformer_phases(ctx, t: Transformer) -> None:
         return
     rated = float(current_from_apparent_power_a(t.rating_va, v.voltage_ll_v, v.phases))
     sh = ctx.sheet(t.id, "transformer", f"Transformer {t.id}")
+    from .motor_sheet import node_adder_step
+
+    node_adder_step(ctx, t.id, sh)
     value, letter = phase_design_steps(ctx, t.id, sh, "xfmr-loading")
     rule = ctx.rules.rule("xfmr-loading")
     limit_a = rated * rule.number("limit") / 100.0

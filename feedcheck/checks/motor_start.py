@@ -26,6 +26,7 @@ def check_motor_starting(ctx: Context) -> None:
     vb = job.source.voltage.line_v
     lr = ctx.rules.rows("motor_locked_rotor")
     lim = ctx.rules.rule("ms-motor-terminals")
+    starts = []  # (motor, E, I_LR, pf, path impedance, impedance to each node on the path)
     ctx.method(
         "Motor starting dip, impedance divider: V_t = E_s·|Z_m|/|Z_path + Z_m| with "
         "Z_m = V_rated/I_LR at the starting power factor",
@@ -39,8 +40,10 @@ def check_motor_starting(ctx: Context) -> None:
             chain.append(n)
             n = tree.parent_node[n]
         z = zs
+        upto = {"source": zs}  # impedance from the source to each node of the path
         for node in reversed(chain):
             z += branches[node] * (vb / tree.voltage_of[node].line_v) ** 2
+            upto[node] = z
         v = tree.voltage_of[m.panel_id]
         z_node = z * (v.line_v / vb) ** 2
         hp = m.hp if m.hp is not None else math.inf
@@ -48,15 +51,14 @@ def check_motor_starting(ctx: Context) -> None:
         i_lr = m.locked_rotor_a if m.locked_rotor_a else float(row["lr_multiple"]) * m.full_load_a
         pf_start = float(row["starting_pf"])
         phases = m.phases or v.phases
-        if phases == 3:
-            es = v.line_v / SQRT3
-            zr, zx = z_node.real, z_node.imag
-        elif v.phases == 3:  # a single-phase motor on two lines: the loop of both lines
-            es = v.line_v
-            zr, zx = 2 * z_node.real, 2 * z_node.imag
-        else:
-            es = v.line_v
-            zr, zx = (z_node * SQRT3).real, (z_node * SQRT3).imag
+        # per phase (three-phase), the loop of both lines (single-phase on two lines)
+        loop = 1.0 if phases == 3 else (2.0 if v.phases == 3 else SQRT3)
+        es = v.line_v / SQRT3 if phases == 3 else v.line_v
+        zr, zx = (z_node * loop).real, (z_node * loop).imag
+        to_panel = loop * (v.line_v / vb) ** 2
+        starts.append(
+            (m, es, i_lr, pf_start, z_node * loop, {k: to_panel * u for k, u in upto.items()})
+        )
         lr_text = f"locked rotor {i_lr:.0f} A" + (
             "" if m.locked_rotor_a else f", {row['lr_multiple']:g} × FLC typical"
         )
@@ -87,6 +89,52 @@ def check_motor_starting(ctx: Context) -> None:
             "ms-motor-terminals",
             f"{vt:.1f} % of rated voltage {where} while starting ({lr_text})",
             fail_status=str(lim["status"]),
+        )
+    _lighting_flicker(ctx, starts)
+
+
+def lighting_panels(ctx: Context) -> list[str]:
+    """Panels known to serve general lighting: a schedule with lighting circuits, or a
+    220.12 minimum lighting load (occupancy and area). A panel given by ``load`` alone
+    is not known to serve lighting."""
+    found = [p for p, c in ctx.chains.items() if float(c.connected_va.get("lighting", 0)) > 0]
+    found += [m.panel_id for m in ctx.lighting_minimum if m.used_va > 0]
+    return list(dict.fromkeys(found))
+
+
+def _lighting_flicker(ctx: Context, starts: list) -> None:
+    """The dip at every panel serving lighting while each motor starts, held against row
+    ms-lighting-flicker: the dip of the motor's path at the last node it shares with
+    the lighting panel (the panel itself when it is on the path; beyond that node no
+    starting current flows, prior load neglected). The worst motor per panel."""
+    rule = ctx.rules.rule("ms-lighting-flicker")
+    tree = ctx.tree
+    for panel in lighting_panels(ctx):
+        worst = None
+        for m, es, i_lr, pf, z, upto in starts:
+            n = panel
+            while n not in upto:
+                n = tree.parent_node[n] if n != "source" else "source"
+            at = float(
+                ms.voltage_on_path_pct(es, i_lr, pf, z.real, z.imag, upto[n].real, upto[n].imag)
+            )
+            if worst is None or at < worst[0]:
+                worst = (at, m.id, n)
+        if worst is None:
+            continue
+        at, mid, n = worst
+        shared = "" if n == panel else f" (through {n}, which it shares with {mid}'s path)"
+        ctx.compare(
+            panel,
+            "lighting dip while a motor starts",
+            100.0 - at,
+            rule.number("max_dip_pct"),
+            "%",
+            "at_most",
+            "ms-lighting-flicker",
+            f"{panel} serves lighting and dips to {at:.1f} % while {mid} starts{shared}; "
+            f"{rule['note']}",
+            fail_status=str(rule["status"]),
         )
 
 

@@ -51,14 +51,29 @@ def _flc(ctx: Context, m: Motor, sheet) -> None:
         sheet.inputs.append(("Nameplate full-load current", f"{m.nameplate_a:g} A (overload only)"))
     if m.flc_basis == "table":
         title = "Table 430.248" if phases == 1 else "Table 430.250"
+        row_hp = m.flc_row_hp if m.flc_row_hp is not None else m.hp
         sheet.step(
             "Full-load current from the table (430.6(A)(1))",
-            f"NFPA 70 {title}: {m.hp:g} hp row, {m.flc_column_v:g} V column",
+            f"NFPA 70 {title}: {row_hp:g} hp row, {m.flc_column_v:g} V column",
             f"row {m.flc_rule_id}",
             m.full_load_a,
             "A",
             m.flc_rule_id,
         )
+        if taken_up(m):
+            ctx.add(
+                m.id,
+                "full-load current from the table",
+                m.full_load_a,
+                None,
+                "A",
+                "info",
+                "motor-flc-table",
+                f"{m.kw:g} kW = {m.hp:.2f} hp lies between the rows of {title}: the next "
+                f"larger row, {row_hp:g} hp, gives {m.full_load_a:g} A (the larger current, "
+                "430.6(A)(1)); the 430.52 device limit rests on it too: check the device "
+                "against the motor's nameplate and the maker's data",
+            )
         return
     ctx.add(
         m.id,
@@ -72,6 +87,11 @@ def _flc(ctx: Context, m: Motor, sheet) -> None:
         "conductors and devices from Table 430.248/430.250 (give hp = … on [[motor]])",
     )
     sheet.step("Full-load current (as typed, no horsepower)", "—", "", m.full_load_a, "A")
+
+
+def taken_up(m: Motor) -> bool:
+    """A kW rating that lies between horsepower rows (the next larger row taken)."""
+    return m.kw is not None and m.flc_row_hp is not None and m.flc_row_hp > m.hp * 1.01
 
 
 def _branch_conductor(ctx: Context, m: Motor, sheet) -> None:

@@ -58,6 +58,9 @@ def check_panel(ctx: Context, panel: Panel) -> None:
         from .motors import panel_motor_steps
 
         panel_motor_steps(sheet, *ctx.motor_loads[panel.id])
+    from .motor_sheet import node_adder_step
+
+    node_adder_step(ctx, panel.id, sheet)
     i_design, phase = phase_design_steps(ctx, panel.id, sheet, "panel-bus-load")
     ctx.nodes[panel.id].values.update(
         {"load_va": load.va, "load_a": i_load, "design_current_a": i_design}

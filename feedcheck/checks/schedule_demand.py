@@ -65,6 +65,9 @@ class ScheduleDemand:
     continuous_by_kind_va: np.ndarray | None = None  # (panels, kinds) connected
     tiers: dict | None = None  # demand tiers by kind (for the chain on the sheet)
     motor_factor: float = 1.25  # rule df-motor-largest, as panel_demand used it
+    # the largest motor's 25 % (430.24) on lines A, B, C of each panel [A], part of
+    # phase_non_a (spread over the motor circuits as the demand factor spreads it)
+    phase_motor_adder_a: np.ndarray | None = None
 
     def chain(self, j: int):
         """The demand arithmetic of panel ``j`` as one chain (calc/demand_chain.py)."""
@@ -96,6 +99,9 @@ class ScheduleDemand:
                 None if self.phase_non_a is None else tuple(map(float, self.phase_non_a[j])),
                 float(f.connected_va[j, KINDS.index("lighting")]),
                 None if self.tiers is None else self.chain(j),
+                None
+                if self.phase_motor_adder_a is None
+                else tuple(map(float, self.phase_motor_adder_a[j])),
             )
             for j, pid in enumerate(self.panel_ids)
         }
@@ -126,7 +132,8 @@ def schedule_demand(
     kcode = np.asarray(pd.Categorical(c["kind"].to_numpy(object), categories=KINDS).codes)
     # a motor is never also "continuous": 430.24 takes its 125 % as the largest motor
     # (calc/demand_chain.py step 3), so the 125 % of 215.2(A)(1) is not applied again
-    cont = c["continuous"].to_numpy(bool) & (kcode != KINDS.index("motor"))
+    motor = kcode == KINDS.index("motor")
+    cont = c["continuous"].to_numpy(bool) & ~motor
     figures = panel_demand(
         kcode,
         load_va,
@@ -155,6 +162,7 @@ def schedule_demand(
         ).reshape(len(ids), len(KINDS)),
         {k: rows for k, rows in tiers.items() if k in KINDS and k != "motor"},
         tiers["motor-largest"][0][2],
+        _line_currents(np.where(motor, current_a * (figures.circuit_factor - 1.0), 0.0), *args),
     )
 
 

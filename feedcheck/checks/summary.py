@@ -172,6 +172,8 @@ def feed_diagram(ctx: Context) -> Diagram:
             m.hp,
             _flc_source(m, job.tree.voltage_of[m.panel_id].phases),
             m.phases,
+            f"{m.device_a:g} A {m.device_type.replace('-', ' ')}" if m.device_a is not None else "",
+            m.disconnect_a,
         )
         for m in job.motors
     )

@@ -136,6 +136,7 @@ def table_currents(r: Reader, motors: list[Motor], tree: Tree, paths: list[str])
             flc_basis="table",
             flc_rule_id=table.rule_id[row] if table.rule_id else "",
             flc_column_v=column_v,
+            flc_row_hp=float(table.hp[row]),
         )
         if m.locked_rotor_a is not None:
             try:
@@ -184,9 +185,13 @@ def _table_row(r: Reader, m: Motor, path: str, table, volts: float):
         key_v = "voltage" if m.voltage_v is not None else "panel"
         r.add(f"{path}.{key_v}", f"{volts:g} V", f"a voltage {where} has a column for: {exc}")
         return None
+    # a kW rating between horsepower rows takes the next larger row (its larger current:
+    # 430.6(A)(1) sizes from the table, and the larger row is the safe side for conductors
+    # and disconnects); a horsepower between rows is refused (a typing slip more often)
+    between = "next-larger" if m.kw is not None else "refuse"
     try:
-        row = int(motor_flc_row(m.hp, table))
-        flc = float(motor_flc_a(m.hp, volts, table))
+        row = int(motor_flc_row(m.hp, table, between))
+        flc = float(motor_flc_a(m.hp, volts, table, between))
     except ValueError as exc:
         r.add(f"{path}.{key}", given, f"a rating {where} lists: {exc}")
         return None

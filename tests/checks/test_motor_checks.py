@@ -133,3 +133,65 @@ def test_single_phase_motor_on_three_phase_panel(check_json):
     assert node(doc, "P")["design_current_a"] == pytest.approx(1.25 * 30.8, rel=1e-3)
     dip = finding(doc, "P1", "starting dip at the panel")
     assert 0 < dip["value"] < 100
+
+
+@pytest.mark.parametrize(
+    "kw, row_hp, flc_a",
+    [
+        # IEC ratings between the horsepower rows at 746 W/hp: the next larger row of
+        # NFPA 70 Table 430.250, 208 V column (from memory, as the table file's rows)
+        (22, 30, 88.0),  # 22 kW = 29.49 hp → 30 hp row, 88 A
+        (11, 15, 46.2),  # 11 kW = 14.75 hp → 15 hp row, 46.2 A
+        (4, 7.5, 24.2),  # 4 kW = 5.36 hp → 7-1/2 hp row, 24.2 A
+    ],
+)
+def test_kw_between_rows_takes_the_next_larger_row(check_json, kw, row_hp, flc_a):
+    """A kW rating between horsepower rows is sized from the next larger row (the larger
+    table current, 430.6(A)(1)) and the finding says so; it is not refused."""
+    text = job_text() + f'\n[[motor]]\nid = "M"\npanel = "P"\nkw = {kw}\n'
+    doc = check_json(text)
+    info = finding(doc, "M", "full-load current from the table")
+    assert info["status"] == "info" and info["value"] == pytest.approx(flc_a)
+    assert f"next larger row, {row_hp:g} hp" in info["note"]
+    assert finding(doc, "M", "disconnect rating")["limit"] == pytest.approx(1.15 * flc_a)
+
+
+def test_kw_on_a_row_has_no_taken_up_note(check_json):
+    """18.5 kW = 24.80 hp is within 1 % of the 25 hp row: that row, 74.8 A (Table 430.250,
+    208 V), no note."""
+    text = job_text() + '\n[[motor]]\nid = "M"\npanel = "P"\nkw = 18.5\n'
+    doc = check_json(text)
+    assert not [f for f in doc["findings"] if f["check"] == "full-load current from the table"]
+    assert finding(doc, "M", "disconnect rating")["limit"] == pytest.approx(1.15 * FLC_25HP_208)
+
+
+def test_kw_beyond_the_last_row_is_refused(write_job):
+    """400 kW = 536 hp: above the last row of Table 430.250 (500 hp): an input error."""
+    from click.testing import CliRunner
+
+    from feedcheck.cli import main
+
+    path = write_job(job_text() + '\n[[motor]]\nid = "M"\npanel = "P"\nkw = 400\n')
+    res = CliRunner().invoke(main, ["check", str(path)])
+    assert res.exit_code == 2 and "the table ends at 500 hp" in res.output
+
+
+def test_sample_motor_is_complete():
+    """The willow_yard_service sample's AC-1 gives its device and disconnect: every one of
+    its findings is evaluated. Limits: 25 hp, 460 V column, 34 A (NFPA 70 Table 430.250,
+    from memory as the table file); Table 430.52 inverse-time breaker 250 % → 85 A, next
+    standard rating 90 A (240.6(A), 430.52(C)(1) Exception No. 1); 430.110(A) 115 % →
+    39.1 A."""
+    import json
+    from pathlib import Path
+
+    from click.testing import CliRunner
+
+    from feedcheck.cli import main
+
+    job = Path(__file__).parents[2] / "sample_jobs" / "willow_yard_service.toml"
+    doc = json.loads(CliRunner().invoke(main, ["check", str(job), "--format", "json"]).stdout)
+    mine = [f for f in doc["findings"] if f["subject"] == "AC-1"]
+    assert mine and all(f["status"] == "ok" for f in mine), mine
+    assert finding(doc, "AC-1", "branch device")["limit"] == pytest.approx(90.0)
+    assert finding(doc, "AC-1", "disconnect rating")["limit"] == pytest.approx(1.15 * 34.0)

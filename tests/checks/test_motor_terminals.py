@@ -4,6 +4,7 @@ locked-rotor current below the full-load current refused (exit 2)."""
 
 from __future__ import annotations
 
+import pytest
 from click.testing import CliRunner
 
 from feedcheck.cli import main
@@ -49,3 +50,30 @@ def test_locked_rotor_below_full_load_is_an_input_error(write_job):
     res = CliRunner().invoke(main, ["check", str(write_job(_job(lra="30 A")))])
     assert res.exit_code == 2
     assert "motor[1].locked_rotor" in res.output and "30 A" in res.output
+
+
+LIGHTING_MOTOR = '\n[[motor]]\nid = "M"\npanel = "P"\nhp = 25\nlocked_rotor = "{lr} A"\n'
+
+
+@pytest.mark.parametrize("lr, status", [(150, "ok"), (4000, "info")])
+def test_lighting_panel_dip_while_a_motor_starts(check_json, lr, status):
+    """Row ms-lighting-flicker (5 %, common practice, no source) applied at a panel that
+    serves general lighting (here the 220.12 minimum of its occupancy and area): the dip
+    at the motor's own panel is the panel dip of the same divider (IEEE Std 399-1997
+    ch. 9); above 5 % an info finding."""
+
+    text = job_text(load_kva=0.001).replace(
+        "power_factor = ", 'occupancy = "office"\narea = "2000 ft2"\npower_factor = '
+    ) + LIGHTING_MOTOR.format(lr=lr)
+    doc = check_json(text)
+    f = finding(doc, "P", "lighting dip while a motor starts")
+    panel = finding(doc, "M", "starting dip at the panel")
+    assert f["value"] == pytest.approx(panel["value"], rel=1e-9)
+    assert f["limit"] == 5.0 and f["status"] == status
+
+
+def test_no_lighting_no_flicker_finding(check_json):
+    """A panel given by load alone is not known to serve lighting: no finding."""
+
+    doc = check_json(job_text() + LIGHTING_MOTOR.format(lr=400))
+    assert not [f for f in doc["findings"] if f["check"] == "lighting dip while a motor starts"]

@@ -21,7 +21,8 @@ def test_motor_row_under_its_panel_with_hp_and_flc():
     head = texts.index("RTU-1 — motor")
     # 15 hp three-phase at 208 V: 46.2 A, NFPA 70 Table 430.250 (2008 copy; 2023 from memory)
     assert "3-phase, 15 hp · FLC 46.2 A (Table 430.250)" in texts[head + 1]
-    assert texts[head + 2] == "on panel RTU"
+    # the branch device and disconnect as the job gives them (no figure: the job's own words)
+    assert texts[head + 2] == "on panel RTU · 125 A inverse time breaker · disconnect 60 A"
     assert "M" in texts  # the motor symbol
     # drawn after its panel's row
     assert texts.index(next(t for t in texts if t.startswith("RTU — panel"))) < head

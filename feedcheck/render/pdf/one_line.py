@@ -111,7 +111,10 @@ def _motor_text(row: _MotorRow) -> list[tuple[str, str]]:
     figs = f"{phases}{rating} · FLC {amps(m.full_load_a)} ({m.flc_source or 'nameplate'})"
     if m.locked_rotor_a is not None:
         figs += f" · locked rotor {amps(m.locked_rotor_a, 0)}"
-    return [("head", f"{m.id} — motor"), ("figs", figs), ("sub", f"on panel {m.panel_id}")]
+    where = f"on panel {m.panel_id}" + (f" · {m.device}" if m.device else "")
+    if m.disconnect_a is not None:
+        where += f" · disconnect {amps(m.disconnect_a, 0)}"
+    return [("head", f"{m.id} — motor"), ("figs", figs), ("sub", where)]
 
 
 def _ratings(dn) -> list[str]:
