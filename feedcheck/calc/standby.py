@@ -14,13 +14,13 @@ from .constants import SQRT3
 from .service import _out, _positive
 
 
-def generator_fault_a(rating_va, voltage_ll_v, xdss_pct, phases=3):
+def generator_fault_a(rating_va, voltage_ll_v, xdss_pct, x_r=np.inf, phases=3):
     """Symmetrical three-phase fault current at a generator's terminals [A].
 
-    Method: I_rated = S / (√3 · V_LL) (single-phase S / V), then I = I_rated / x"d with
-    x"d = X"d% / 100 on the machine's own rating (IEEE Std 141-1993 ch. 4; IEEE Std
-    242-2001 ch. 2). The machine's resistance is small beside X"d and its magnitude is
-    taken as X"d (the X/R splits it for the walk).
+    Method: I_rated = S / (√3 · V_LL) (single-phase S / V), then I = I_rated / |z"|
+    with z" = x"d / (X/R) + j x"d, x"d = X"d% / 100 on the machine's own rating. With
+    the resistance neglected (``x_r`` infinite) this is the published
+    I = I_rated / x"d (IEEE Std 141-1993 ch. 4; IEEE Std 242-2001 ch. 2).
 
     Parameters
     ----------
@@ -30,6 +30,9 @@ def generator_fault_a(rating_va, voltage_ll_v, xdss_pct, phases=3):
         Rated line-to-line voltage [V].
     xdss_pct : float or array
         Subtransient reactance X"d [%] on the generator's rating.
+    x_r : float or array
+        The generator's X/R (its armature resistance R = X"d / (X/R)); infinite
+        (default): resistance neglected.
     phases : int
         3 (default) or 1.
 
@@ -53,6 +56,8 @@ def generator_fault_a(rating_va, voltage_ll_v, xdss_pct, phases=3):
     --------
     >>> round(generator_fault_a(500e3, 480.0, 12.0))
     5012
+    >>> round(generator_fault_a(500e3, 480.0, 12.0, x_r=15.0))
+    5001
 
     References
     ----------
@@ -63,5 +68,7 @@ def generator_fault_a(rating_va, voltage_ll_v, xdss_pct, phases=3):
     s = _positive("rating_va", rating_va)
     v = _positive("voltage_ll_v", voltage_ll_v)
     x = _positive("xdss_pct", xdss_pct)
+    xr = _positive("x_r", x_r, allow_inf=True)
     rated = s / (SQRT3 * v) if phases == 3 else s / v
-    return _out(np.asarray(rated / (x / 100.0), dtype=float))
+    z_pu = (x / 100.0) * np.sqrt(1.0 + 1.0 / xr**2)
+    return _out(np.asarray(rated / z_pu, dtype=float))

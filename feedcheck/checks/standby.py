@@ -54,7 +54,7 @@ def below(job: Job, top: str) -> list[str]:
 def standby_source_fault(gen) -> float:
     """The generator's first-cycle fault current at its terminals [A]."""
     v = gen.voltage
-    return float(generator_fault_a(gen.rating_va, v.voltage_ll_v, gen.xdss_pct, v.phases))
+    return float(generator_fault_a(gen.rating_va, v.voltage_ll_v, gen.xdss_pct, gen.x_r, v.phases))
 
 
 def standby_job(job: Job) -> Job:

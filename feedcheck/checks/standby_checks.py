@@ -97,8 +97,9 @@ def _generator_fault(job: Job) -> Finding:
         "A",
         "info",
         "generator-fault",
-        f'I = I_rated / x"d = {_rated_a(gen):.1f} A / {gen.xdss_pct / 100:g} at the '
-        f"terminals, first cycle, X/R {gen.x_r:g} ({GENERATOR_FAULT_SOURCE})",
+        f'I = I_rated / |z"| = {_rated_a(gen):.1f} A / {_z_pu(gen):.4f} at the terminals, '
+        f'first cycle (x"d {gen.xdss_pct / 100:g} with R = X"d / {gen.x_r:g}; '
+        f"{GENERATOR_FAULT_SOURCE})",
     )
 
 
@@ -143,6 +144,15 @@ def _generator_ground_fault(job: Job) -> Finding:
     )
 
 
+def _z_pu(gen) -> float:
+    return gen.xdss_pct / 100 * (1 + 1 / gen.x_r**2) ** 0.5
+
+
+def _z_pu(gen) -> float:
+    """|z"| per unit: x"d with the armature resistance X"d / (X/R)."""
+    return gen.xdss_pct / 100 * (1 + 1 / gen.x_r**2) ** 0.5
+
+
 def _rated_a(gen) -> float:
     v = gen.voltage
     return gen.rating_va / (SQRT3 * v.voltage_ll_v if v.phases == 3 else v.voltage_ll_v)
@@ -171,8 +181,8 @@ def _generator_sheet(job: Job) -> Sheet:
     )
     sh.step(
         "First-cycle fault current at the terminals",
-        'I = I_rated / x"d',
-        f"{rated:,.1f} / {gen.xdss_pct / 100:g}",
+        'I = I_rated / |z"|, |z"| = x"d · √(1 + (R/X)²)',
+        f"{rated:,.1f} / {_z_pu(gen):.4f}",
         standby_source_fault(gen),
         "A",
         "generator-fault",
