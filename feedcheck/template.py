@@ -107,6 +107,27 @@ power_factor = 0.9
 # conductors = "8 AWG Cu"      # 125 % FLC (430.22) and the starting dip at its terminals
 # termination = "75 degC"      # optional; default by 110.14(C)(1)
 
+# A standby source (optional; both tables or neither): the transfer switch stands at the
+# line side of a panel fed by a run from the source; the generator reaches it by its own
+# run. Every figure below the switch is computed for both positions (normal, standby).
+# [transfer_switch]
+# id = "ATS-1"
+# panel = "MDP"                # the panel it feeds (fed by a run from "source")
+# rating = "400 A"             # held against the panel's design current
+# withstand = "30 kA"          # optional withstand and closing rating (UL 1008)
+#
+# [generator]
+# id = "GEN-1"
+# rating = "300 kVA"
+# kw = "240 kW"                # optional
+# voltage = "480Y/277 V"       # the source's voltage
+# subtransient = "14 %"        # X"d on its own rating: I = I_rated / x"d (IEEE Std 141)
+# x_r = 15                     # its X/R
+# length = "80 ft"             # its run to the transfer switch (run keys: conductors,
+# conductors = "500 kcmil Cu"  # sets, insulation, raceway, ambient, current_carrying,
+# ground = "3 AWG Cu"          # ground, device, termination)
+# device = "400 A"             # its output breaker
+
 # [options]
 # impedance_tolerance = "7.5 %"   # transformer %Z tolerance (IEEE C57.12.00)
 # voltage_factor = "none"         # or "iec60909" (c max / c min on fault currents)
