@@ -94,9 +94,11 @@ def add_standby(job: Job, normal: Results, panel_loads, calc_date, rules) -> Res
     normal.runs.extend(
         {**r, "position": STANDBY} for r in standby.runs if r["id"] == job.generator.id
     )
-    from .standby_checks import check_switch_and_generator
+    from .standby_checks import check_switch_and_generator, diagram_standby
 
     check_switch_and_generator(job, normal, standby)
+    _position_steps(normal, job.generator.id, keep)
+    normal.diagram = replace(normal.diagram, standby=diagram_standby(job, standby))
     return normal
 
 
@@ -154,3 +156,37 @@ def _standby_findings(job: Job, normal: Results, standby: Results, on_gen) -> li
         subject = gen.id if f.subject == SOURCE_ID else f.subject
         out.append(replace(f, subject=subject, check=f.check + " (standby)", note=where + f.note))
     return out
+
+
+POSITION_LABELS = {
+    "fault_max_a": ("maximum fault", "the larger"),
+    "fault_duty_a": ("interrupting duty", "the larger"),
+    "fault_min_a": ("minimum fault", "the smaller"),
+    "fault_lg_min_a": ("minimum line-to-ground fault", "the smaller"),
+    "vdrop_pct": ("voltage drop", "the larger"),
+}
+
+
+def _position_steps(results: Results, gen_id: str, keep: set[str]) -> None:
+    """On the generator's sheet: each node's figure in both positions and the one
+    that governs."""
+    sheet = results.sheets[gen_id]
+    for node in results.nodes:
+        if node.id not in keep:
+            continue
+        for key, (label, rule) in POSITION_LABELS.items():
+            v = node.values
+            if governs_key(key) not in v:
+                continue
+            unit, scale = ("%", 1.0) if key.endswith("_pct") else ("kA", 1e-3)
+            sheet.step(
+                f"{node.id}: {label}",
+                f"governing position: {rule} of normal and standby",
+                f"normal {_fmt(v.get(key), scale)} {unit}, "
+                f"standby {_fmt(v['standby_' + key], scale)} {unit}",
+                v[governs_key(key)],
+            )
+
+
+def _fmt(value, scale: float) -> str:
+    return "–" if not isinstance(value, float) else f"{value * scale:.2f}"

@@ -7,7 +7,7 @@ from __future__ import annotations
 from ..calc.constants import SQRT3
 from ..findings import Finding
 from ..model import Job
-from ..results import Results, Sheet
+from ..results import DiagramStandby, Results, Sheet
 from .compare import compare
 from .standby import GENERATOR_FAULT_SOURCE, standby_source_fault
 
@@ -188,3 +188,20 @@ def _generator_sheet(job: Job) -> Sheet:
         "generator-fault",
     )
     return sh
+
+
+def diagram_standby(job: Job, standby: Results) -> DiagramStandby:
+    """The switch and the generator as the one-line draws them."""
+    gen, ts = job.generator, job.transfer_switch
+    normal_run = next(r.id for r in job.runs if r.to_id == ts.panel_id)
+    return DiagramStandby(
+        ts.id,
+        ts.rating_a,
+        ts.panel_id,
+        normal_run,
+        gen.id,
+        gen.rating_va,
+        gen.xdss_pct,
+        standby.diagram.run(gen.id),
+        standby_source_fault(gen),
+    )
