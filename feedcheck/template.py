@@ -107,6 +107,14 @@ power_factor = 0.9
 # conductors = "8 AWG Cu"      # 125 % FLC (430.22) and the starting dip at its terminals
 # termination = "75 degC"      # optional; default by 110.14(C)(1)
 
+# [options]
+# impedance_tolerance = "7.5 %"   # transformer %Z tolerance (IEEE C57.12.00)
+# voltage_factor = "none"         # or "iec60909" (c max / c min on fault currents)
+# voltage_drop = "recommended"    # or "mandatory": drop limits fail instead of warn
+# feeder_drop = "3 %"
+# branch_drop = "3 %"
+# total_drop = "5 %"
+
 # A standby source (optional; both tables or neither): the transfer switch stands at the
 # line side of a panel fed by a run from the source; the generator reaches it by its own
 # run. Every figure below the switch is computed for both positions (normal, standby).
@@ -127,12 +135,4 @@ power_factor = 0.9
 # conductors = "500 kcmil Cu"  # sets, insulation, raceway, ambient, current_carrying,
 # ground = "3 AWG Cu"          # ground, device, termination)
 # device = "400 A"             # its output breaker
-
-# [options]
-# impedance_tolerance = "7.5 %"   # transformer %Z tolerance (IEEE C57.12.00)
-# voltage_factor = "none"         # or "iec60909" (c max / c min on fault currents)
-# voltage_drop = "recommended"    # or "mandatory": drop limits fail instead of warn
-# feeder_drop = "3 %"
-# branch_drop = "3 %"
-# total_drop = "5 %"
 """

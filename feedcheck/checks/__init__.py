@@ -47,7 +47,7 @@ def check_job(
         normal = replace(job, generator=None, transfer_switch=None)
         loads = copy.deepcopy(panel_loads)
         results = check_job(normal, panel_loads, calc_date, rules)
-        return add_standby(job, results, loads, calc_date, rules)
+        return add_standby(job, results, loads, calc_date, rules, check_job)
     ctx = build_context(job, panel_loads, calc_date, rules)
     tree = ctx.tree
     for n in tree.order:

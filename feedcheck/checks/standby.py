@@ -15,11 +15,11 @@ from __future__ import annotations
 import copy
 from dataclasses import replace
 
-from ..calc.standby import generator_fault_a
 from ..findings import Finding
 from ..inputs.tree import build_tree
 from ..model import SOURCE_ID, Job, Source
 from ..results import Results
+from .standby_checks import check_switch_and_generator, diagram_standby, standby_source_fault
 
 STANDBY = "standby"
 NORMAL = "normal"
@@ -36,7 +36,6 @@ LG_FIGURES = ("fault_lg_min_a",)
 LG_CHECKS = ("ground fault trips instantaneously", "withstand, grounding conductor")
 # the standby walk's findings at the source that concern the generator
 SOURCE_CHECKS = ("source voltage under load", "voltage dip on taking the whole load at once")
-GENERATOR_FAULT_SOURCE = "IEEE Std 141-1993 ch. 4; IEEE Std 242-2001 ch. 2"
 
 
 def below(job: Job, top: str) -> list[str]:
@@ -49,12 +48,6 @@ def below(job: Job, top: str) -> list[str]:
         if p == top:
             out.append(n)
     return out
-
-
-def standby_source_fault(gen) -> float:
-    """The generator's first-cycle fault current at its terminals [A]."""
-    v = gen.voltage
-    return float(generator_fault_a(gen.rating_va, v.voltage_ll_v, gen.xdss_pct, gen.x_r, v.phases))
 
 
 def standby_job(job: Job) -> Job:
@@ -81,10 +74,9 @@ def standby_job(job: Job) -> Job:
     )
 
 
-def add_standby(job: Job, normal: Results, panel_loads, calc_date, rules) -> Results:
-    """Check the standby position and add its figures and findings to ``normal``."""
-    from . import check_job
-
+def add_standby(job: Job, normal: Results, panel_loads, calc_date, rules, check_job) -> Results:
+    """Check the standby position (with ``check_job``, the feed walk) and add its
+    figures and findings to ``normal``."""
     sjob = standby_job(job)
     standby = check_job(sjob, copy.deepcopy(panel_loads), calc_date, rules)
     keep = set(below(job, job.transfer_switch.panel_id))
@@ -94,8 +86,6 @@ def add_standby(job: Job, normal: Results, panel_loads, calc_date, rules) -> Res
     normal.runs.extend(
         {**r, "position": STANDBY} for r in standby.runs if r["id"] == job.generator.id
     )
-    from .standby_checks import check_switch_and_generator, diagram_standby
-
     check_switch_and_generator(job, normal, standby)
     _position_steps(normal, job.generator.id, keep)
     normal.diagram = replace(normal.diagram, standby=diagram_standby(job, standby))

@@ -5,17 +5,24 @@ sheet) and its size against the demand it takes over (information)."""
 from __future__ import annotations
 
 from ..calc.constants import SQRT3
+from ..calc.standby import generator_fault_a
 from ..findings import Finding
 from ..model import Job
 from ..results import DiagramStandby, Results, Sheet
 from .compare import compare
-from .standby import GENERATOR_FAULT_SOURCE, standby_source_fault
 
+GENERATOR_FAULT_SOURCE = "IEEE Std 141-1993 ch. 4; IEEE Std 242-2001 ch. 2"
 # sources of the switch checks (from memory: the clause numbers of the 2023 edition)
 SWITCH_RATING_SOURCE = "common practice, no source (UL 1008 rates the switch's current)"
 SWITCH_WITHSTAND_SOURCE = (
     "NFPA 70-2023 110.10, 700.5(E), 701.5(D); UL 1008 withstand and closing rating"
 )
+
+
+def standby_source_fault(gen) -> float:
+    """The generator's first-cycle fault current at its terminals [A]."""
+    v = gen.voltage
+    return float(generator_fault_a(gen.rating_va, v.voltage_ll_v, gen.xdss_pct, gen.x_r, v.phases))
 
 
 def check_switch_and_generator(job: Job, normal: Results, standby: Results) -> None:
