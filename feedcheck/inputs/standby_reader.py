@@ -70,7 +70,7 @@ def _generator(r: Reader, g: dict, ts: dict, read_run) -> Generator | None:
         xdss = None
     x_r = r.number(g, "generator", "x_r", 0.5, 100, required=True)
     run_t = {k: g[k] for k in GENERATOR_RUN_KEYS if k in g}
-    panel = ts.get("panel") if isinstance(ts.get("panel"), str) else ""
+    panel = ts.get("panel") if isinstance(ts.get("panel"), str) else "transfer switch"
     run = read_run(
         r, {"id": gid or "generator", "from": SOURCE_ID, "to": panel, **run_t}, "generator"
     )
