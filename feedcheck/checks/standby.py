@@ -30,6 +30,7 @@ POSITION_FIGURES = {
     "fault_min_a": "min",
     "fault_lg_min_a": "min",
     "vdrop_pct": "max",
+    "conductor_vdrop_pct": "max",  # the feeder drop branch circuits add to
 }
 LG_FIGURES = ("fault_lg_min_a",)
 # checks resting on a line-to-ground figure: not evaluated on the generator's system
@@ -154,6 +155,7 @@ POSITION_LABELS = {
     "fault_min_a": ("minimum fault", "the smaller"),
     "fault_lg_min_a": ("minimum line-to-ground fault", "the smaller"),
     "vdrop_pct": ("voltage drop", "the larger"),
+    "conductor_vdrop_pct": ("conductor drop since the source", "the larger"),
 }
 
 
