@@ -37,6 +37,12 @@ def check_switch_and_generator(job: Job, normal: Results, standby: Results) -> N
         _generator_ground_fault(job),
     ]
     normal.sheets[gen.id] = _generator_sheet(job)
+    normal.assumptions.append(
+        f"Standby position: generator {gen.id}'s first-cycle (subtransient) current is used "
+        "for the maximum and the minimum figures; its current then falls toward the "
+        "transient and steady-state values (held up only by its excitation support), so "
+        "a time-delayed trip on generator power needs the manufacturer's decrement curve."
+    )
     normal.methods.append(
         (
             f"Standby position: generator {gen.id} through transfer switch {ts.id} feeds "
