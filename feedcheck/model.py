@@ -303,6 +303,32 @@ class Panel:
 
 
 @dataclass(frozen=True)
+class Generator:
+    """The standby source: a generator feeding the transfer switch by its own run
+    (``run``: from the source node to the transfer switch's panel in the standby
+    position's feed). Subtransient reactance ``xdss_pct`` on its own rating."""
+
+    id: str
+    rating_va: float
+    voltage: VoltageSystem
+    xdss_pct: float
+    x_r: float
+    run: Run
+    rating_w: float | None = None  # kW rating as typed, None: not given
+
+
+@dataclass(frozen=True)
+class TransferSwitch:
+    """A transfer switch at the line side of ``panel_id``: the normal position takes the
+    run into that panel from the source, the standby position the generator's run."""
+
+    id: str
+    panel_id: str
+    rating_a: float
+    withstand_a: float | None = None  # withstand and closing rating, None: not given
+
+
+@dataclass(frozen=True)
 class Options:
     impedance_tolerance_pct: float | None = None  # None: rule fault-z-tolerance of the tables
     voltage_factor: str = "none"  # one of VOLTAGE_FACTORS
@@ -352,6 +378,8 @@ class Job:
     text: str = ""
     file_sha256: str = ""  # of the job file's bytes as read
     length_unit: str = "ft"  # lengths shown to people: "ft" or "m" (as the job is written)
+    generator: Generator | None = None  # the standby source (with transfer_switch)
+    transfer_switch: TransferSwitch | None = None
 
     def element(self, element_id: str):
         for coll in (self.transformers, self.runs, self.panels):

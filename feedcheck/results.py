@@ -155,12 +155,29 @@ class DiagramMotor:
 
 
 @dataclass(frozen=True)
+class DiagramStandby:
+    """A standby source as drawn: the transfer switch at the line side of ``panel_id``
+    (normal feed ``normal_run``) and the generator feeding it through ``generator_run``."""
+
+    switch_id: str
+    switch_rating_a: float
+    panel_id: str
+    normal_run: str
+    generator_id: str
+    rating_va: float
+    xdss_pct: float
+    generator_run: DiagramRun
+    fault_a: float  # first-cycle fault current at the generator's terminals [A]
+
+
+@dataclass(frozen=True)
 class Diagram:
-    """The feed as drawn: nodes in feed order, runs, motors."""
+    """The feed as drawn: nodes in feed order, runs, motors, a standby source."""
 
     nodes: tuple[DiagramNode, ...] = ()
     runs: tuple[DiagramRun, ...] = ()
     motors: tuple[DiagramMotor, ...] = ()
+    standby: DiagramStandby | None = None
 
     def run(self, run_id: str | None) -> DiagramRun | None:
         """The run with this id (None when there is none)."""

@@ -54,7 +54,14 @@ def check_job_with_schedules(job: Job, schedules: dict, calc_date: str | None = 
     results = check_job(job, batch.loads(), calc_date, book)
     # branch drops add to the conductor drop since the transformer secondary (the same
     # basis as the panel's own total-drop check), under the job's drop limits
-    drops = {n.id: float(n.values.get("conductor_vdrop_pct", 0.0) or 0.0) for n in results.nodes}
+    # (with a standby source: the larger of the two positions' feeder drops)
+    drops = {
+        n.id: max(
+            float(n.values.get(k, 0.0) or 0.0)
+            for k in ("conductor_vdrop_pct", "standby_conductor_vdrop_pct")
+        )
+        for n in results.nodes
+    }
     for pid, res in batch.check(drops, job_drop_limits(job, book)).items():
         res.findings = book.with_cited_notes(res.findings)  # rule rows not confirmed
         results.schedules[pid] = res

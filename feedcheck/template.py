@@ -114,4 +114,25 @@ power_factor = 0.9
 # feeder_drop = "3 %"
 # branch_drop = "3 %"
 # total_drop = "5 %"
+
+# A standby source (optional; both tables or neither): the transfer switch stands at the
+# line side of a panel fed by a run from the source; the generator reaches it by its own
+# run. Every figure below the switch is computed for both positions (normal, standby).
+# [transfer_switch]
+# id = "ATS-1"
+# panel = "MDP"                # the panel it feeds (fed by a run from "source")
+# rating = "400 A"             # held against the panel's design current
+# withstand = "30 kA"          # optional withstand and closing rating (UL 1008)
+#
+# [generator]
+# id = "GEN-1"
+# rating = "300 kVA"
+# kw = "240 kW"                # optional
+# voltage = "480Y/277 V"       # the source's voltage
+# subtransient = "14 %"        # X"d on its own rating: I = I_rated / x"d (IEEE Std 141)
+# x_r = 15                     # its X/R
+# length = "80 ft"             # its run to the transfer switch (run keys: conductors,
+# conductors = "500 kcmil Cu"  # sets, insulation, raceway, ambient, current_carrying,
+# ground = "3 AWG Cu"          # ground, device, termination)
+# device = "400 A"             # its output breaker
 """

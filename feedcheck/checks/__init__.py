@@ -6,6 +6,9 @@ assembles :class:`~feedcheck.results.Results`.
 
 from __future__ import annotations
 
+import copy
+from dataclasses import replace
+
 from .. import __version__
 from ..model import Job
 from ..results import NodeResult, Results
@@ -38,6 +41,13 @@ def check_job(
     read the clock. ``rules``: the rule book (default: the tables in force, shipped or
     ``--tables``).
     """
+    if job.generator is not None and job.transfer_switch is not None:
+        from .standby import add_standby
+
+        normal = replace(job, generator=None, transfer_switch=None)
+        loads = copy.deepcopy(panel_loads)
+        results = check_job(normal, panel_loads, calc_date, rules)
+        return add_standby(job, results, loads, calc_date, rules, check_job)
     ctx = build_context(job, panel_loads, calc_date, rules)
     tree = ctx.tree
     for n in tree.order:

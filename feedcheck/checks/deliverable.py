@@ -62,6 +62,8 @@ def source_voltage_pct(ctx: Context, rule_id: str) -> float:
         )
         return 0.0
     pct = 100.0 * (1.0 - drop_v / v_ll)
+    if src.given_as == "generator":
+        return _generator_held(ctx, pct, current, load.pf)
     sheet.step(
         "Voltage at the source point under the total demand (source impedance)",
         "Z_s = V_LL / (√3 · I_sc); VD exact phasor form with I = S / (√3·V_LL)",
@@ -71,6 +73,25 @@ def source_voltage_pct(ctx: Context, rule_id: str) -> float:
         rule_id,
     )
     return pct
+
+
+def _generator_held(ctx: Context, pct: float, current: float, pf: float) -> float:
+    """A generator's regulator holds its terminal voltage in steady state: the drop is
+    counted from its terminals. The drop of the whole demand through X"d is the dip
+    when the load is taken at once (information)."""
+    ctx.add(
+        "source",
+        "voltage dip on taking the whole load at once",
+        100.0 - pct,
+        None,
+        "%",
+        "info",
+        "generator-dip",
+        f"{current:,.0f} A at power factor {pf:.2f} through the generator's subtransient "
+        "impedance; in steady state its voltage regulator holds the terminal voltage, "
+        "so the drops below are counted from its terminals (common practice, no source)",
+    )
+    return 100.0
 
 
 def transformer_collapsed(ctx: Context, node: str, t, load, rule_id: str) -> None:

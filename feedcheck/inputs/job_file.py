@@ -40,6 +40,7 @@ from .motor_keys import read_motor, table_currents
 from .panel_reader import read_panel
 from .ranges import CLEARING, DEVICE
 from .source_reader import read_source
+from .standby_reader import check_standby, read_standby
 from .toml_reader import (
     DEEP_KEY_VALUE,
     KEY_PARTS_EXPECTED,
@@ -102,7 +103,17 @@ OPTION_KEYS = (
     "branch_drop",
     "total_drop",
 )
-TOP_KEYS = ("project", "source", "transformer", "run", "panel", "motor", "options")
+TOP_KEYS = (
+    "project",
+    "source",
+    "transformer",
+    "run",
+    "panel",
+    "motor",
+    "options",
+    "generator",
+    "transfer_switch",
+)
 
 
 def read_job(path: str | Path) -> Job:
@@ -185,6 +196,9 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
     motors = [read_motor(r, t, p) for p, t in zip(motor_paths, motor_tables, strict=True)]
     options = _options(r, _table(r, data, "options", "an [options] table"))
     check_feed(r, transformers, runs, panels, motors, source)
+    generator, switch = read_standby(r, data, _run)
+    ids = {e.id for coll in (transformers, runs, panels, motors) for e in coll}
+    check_standby(r, generator, switch, runs, panels, source, ids)
     # schedule paths resolve relative to the job file's folder
     panels = [
         replace(pn, schedule=(job_path.parent / pn.schedule) if pn.schedule else None)
@@ -210,6 +224,8 @@ def parse_job_data(data: dict, text: str, job_path: Path) -> Job:
         options=options,
         text=text,
         length_unit=_length_unit(data, runs, motors),
+        generator=generator,
+        transfer_switch=switch,
     )
 
 

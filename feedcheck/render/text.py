@@ -42,6 +42,39 @@ def _node_table(results: Results) -> list[str]:
     ]
 
 
+# figures held per source position (normal / standby): key, column, decimals, scale
+POSITION_COLUMNS = (
+    ("fault_max_a", "Isc max kA", 2, 1e-3),
+    ("fault_duty_a", "duty kA", 2, 1e-3),
+    ("fault_min_a", "Isc min kA", 2, 1e-3),
+    ("vdrop_pct", "drop %", 2, 1.0),
+)
+
+
+def _position_table(results: Results) -> list[str]:
+    """Below a transfer switch: each figure normal / standby and the governing one."""
+    nodes = [n for n in results.nodes if "fault_max_governs" in n.values]
+    if not nodes:
+        return []
+    header = ["node (normal / standby)", *[c for _, c, _, _ in POSITION_COLUMNS]]
+    rows = []
+    for n in nodes:
+        v, cells = n.values, [n.id]
+        for key, _, dec, scale in POSITION_COLUMNS:
+            gov = v.get(key.rsplit("_", 1)[0] + "_governs", "")
+            pair = f"{fixed(v.get(key), dec, scale)} / {fixed(v.get('standby_' + key), dec, scale)}"
+            cells.append(f"{pair} ({gov})" if gov else pair)
+        rows.append(cells)
+    widths = [max(len(r[i]) for r in [header, *rows]) for i in range(len(header))]
+    lines = [
+        "source positions: the governing one in brackets (maximum and duty: the larger, "
+        "minimum: the smaller, drop: the larger)"
+    ]
+    for r in [header, *rows]:
+        lines.append("  ".join(c.ljust(w) for c, w in zip(r, widths, strict=True)).rstrip())
+    return lines
+
+
 def _phase_keys(results: Results, panel_id: str) -> tuple[str, ...]:
     """Per-phase load keys of a panel: two on a single-phase system, three otherwise."""
     node = next((n for n in results.nodes if n.id == panel_id), None)
@@ -84,6 +117,8 @@ def render_text(results: Results, show_all: bool = False) -> str:
     j = results.job_summary
     out.write(f"{j['name']}  (rev {j['revision'] or MISSING}, rules {j['rules']})\n\n")
     out.write("\n".join(_node_table(results)) + "\n\n")
+    if positions := _position_table(results):
+        out.write("\n".join(positions) + "\n\n")
     for pid, sr in results.schedules.items():
         out.write(_schedule_line(results, pid, sr.totals) + "\n")
         for notice in getattr(sr, "notices", None) or ():

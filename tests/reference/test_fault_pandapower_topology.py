@@ -67,6 +67,14 @@ def _network(job):
         bus["source"] = pp.create_bus(net, vn_kv=src.voltage.line_v / 1e3)
         s_mva = math.sqrt(3) * src.voltage.line_v * src.fault_a / 1e6
         pp.create_ext_grid(net, bus["source"], s_sc_max_mva=C * s_mva, rx_max=1.0 / src.x_r)
+    _add_branches(net, job, bus)
+    net.trafo["power_station_unit"] = True  # K_T off
+    sc.calc_sc(net, fault="3ph", case="max")
+    return net, bus
+
+
+def _add_branches(net, job, bus):
+    """The job's runs and transformers below the source bus (three-phase nodes only)."""
     tx = {t.id: t for t in job.transformers}
     tree = job.tree
     for n in tree.order[1:]:
@@ -92,9 +100,6 @@ def _network(job):
                    t.z_pct, t.x_r)  # fmt: skip
         else:
             bus[n] = at
-    net.trafo["power_station_unit"] = True  # K_T off
-    sc.calc_sc(net, fault="3ph", case="max")
-    return net, bus
 
 
 @pytest.mark.parametrize(
@@ -115,3 +120,50 @@ def test_whole_job_matches_pandapower(samples, tmp_path, name, expect_nodes):
         theirs = float(net.res_bus_sc.ikss_ka.at[b]) * 1e3 / C
         # issue 14: within 2 % (the brief's tolerance); the two agree much closer
         assert ours[node] == pytest.approx(theirs, rel=0.02), node
+
+
+def _standby_network(sjob, gen):
+    """pandapower network of the standby position: the generator as a pandapower
+    ``gen`` (subtransient X"d, R = X"d / (X/R)) at the source bus, its run and the
+    job below the transfer switch. IEC 60909-0:2016 eq. (18) multiplies a generator's
+    impedance by K_G = c_max / (1 + x"d · sin φ_rG) (U_n = U_rG); with cos φ = 1 this
+    is c_max, divided out by giving pandapower the impedance / c_max."""
+    net = pp.create_empty_network(f_hz=60.0)
+    v = gen.voltage.line_v
+    bus = {"source": pp.create_bus(net, vn_kv=v / 1e3)}
+    x_ohm = gen.xdss_pct / 100 * v**2 / gen.rating_va
+    pp.create_gen(
+        net, bus["source"], p_mw=0.0, vm_pu=1.0, sn_mva=gen.rating_va / 1e6, vn_kv=v / 1e3,
+        xdss_pu=gen.xdss_pct / 100 / C, rdss_ohm=x_ohm / gen.x_r / C, cos_phi=1.0,
+        slack=True,
+    )  # fmt: skip
+    _add_branches(net, sjob, bus)
+    net.trafo["power_station_unit"] = True  # K_T off
+    sc.calc_sc(net, fault="3ph", case="max")
+    return net, bus
+
+
+def test_standby_position_matches_pandapower(samples, tmp_path):
+    # issue 14 item 4: the standby position's three-phase faults (generator through its
+    # run and the transfer switch) within 2 % of pandapower's IEC 60909 figures
+    from feedcheck.checks.standby import standby_job
+
+    path = _job_without_motors_or_tolerance(samples, tmp_path, "willow_yard_standby.toml")
+    job = read_job(path)
+    assert job.generator is not None and not job.motors
+    net, bus = _standby_network(standby_job(job), job.generator)
+    nodes = {n.id: n.values for n in run_job(path).nodes}
+    assert set(bus) == {"source", "MDP", "T1", "LP1"}
+    for node, b in bus.items():
+        if node == "source":
+            continue  # the utility's point, not on the standby feed
+        theirs = float(net.res_bus_sc.ikss_ka.at[b]) * 1e3 / C
+        assert nodes[node]["standby_fault_max_a"] == pytest.approx(theirs, rel=0.02), node
+        # the generator is the weaker source here: the normal position governs the maximum
+        assert nodes[node]["fault_max_governs"] == "normal", node
+    # at the generator's terminals pandapower gives the published I_rated / |z"|
+    gen = job.generator
+    rated = gen.rating_va / (math.sqrt(3) * gen.voltage.line_v)
+    z_pu = gen.xdss_pct / 100 * math.sqrt(1 + 1 / gen.x_r**2)
+    terminals = float(net.res_bus_sc.ikss_ka.at[bus["source"]]) * 1e3 / C
+    assert terminals == pytest.approx(rated / z_pu, rel=1e-3)

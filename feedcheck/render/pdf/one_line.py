@@ -21,7 +21,7 @@ computed here.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 from reportlab.graphics.shapes import Circle, Drawing, Line, PolyLine, Rect, String
 from reportlab.lib import colors
@@ -70,9 +70,16 @@ def _symbol(d: Drawing, kind: str, x: float, y: float) -> float:
         for dy in (4.5, -4.5):
             d.add(Circle(x, y + dy, 7, strokeColor=colors.black, fillColor=None, strokeWidth=1))
         return 11.5
-    if kind == "motor":
+    if kind in ("motor", "generator"):
+        letter = "M" if kind == "motor" else "G"
         d.add(Circle(x, y, 7, strokeColor=colors.black, fillColor=colors.white, strokeWidth=1))
-        d.add(String(x, y - 3, "M", fontName=fonts().bold, fontSize=8, textAnchor="middle"))
+        d.add(String(x, y - 3, letter, fontName=fonts().bold, fontSize=8, textAnchor="middle"))
+        return 7.0
+    if kind == "switch":  # a transfer switch: a blade between two contacts
+        for dx in (-6, 6):
+            d.add(Circle(x + dx, y + 4, 1.6, strokeColor=colors.black, fillColor=colors.white))
+        d.add(Circle(x, y - 5, 1.6, strokeColor=colors.black, fillColor=colors.black))
+        d.add(Line(x, y - 5, x - 6, y + 4, strokeColor=colors.black, strokeWidth=1.2))
         return 7.0
     d.add(Rect(x - 9, y - 7, 18, 14, strokeColor=colors.black, fillColor=LIGHT, strokeWidth=1))
     d.add(Line(x - 5, y + 3, x + 5, y + 3, strokeColor=colors.black, strokeWidth=1.4))
@@ -92,16 +99,57 @@ class _MotorRow:
     values: dict = field(default_factory=dict)
 
 
+@dataclass(frozen=True)
+class _StandbyRow:
+    """The transfer switch or the generator of a standby source, drawn as a row: the
+    switch between the normal feed and its panel, the generator under the switch."""
+
+    id: str
+    parent: str | None
+    standby: object
+    kind: str = "switch"
+    via_run: str | None = None
+    voltage: str = ""
+    values: dict = field(default_factory=dict)
+
+
 def _rows(results) -> list:
-    """The nodes in feed order, each panel's motors right after it."""
+    """The nodes in feed order, each panel's motors right after it; a standby source's
+    transfer switch above its panel (the panel hung under it) and the generator beside."""
     motors: dict[str, list] = {}
     for m in getattr(results.diagram, "motors", ()):
         motors.setdefault(m.panel_id, []).append(m)
+    sb = getattr(results.diagram, "standby", None)
     rows = []
     for n in results.nodes:
+        if sb is not None and n.id == sb.panel_id:
+            rows.append(_StandbyRow(sb.switch_id, n.parent, sb))
+            rows.append(_StandbyRow(sb.generator_id, sb.switch_id, sb, "generator"))
+            n = replace(n, parent=sb.switch_id)
         rows.append(n)
         rows += [_MotorRow(m.id, n.id, m) for m in motors.get(n.id, ())]
     return rows
+
+
+def _standby_text(row: _StandbyRow, display: Display) -> list[tuple[str, str]]:
+    sb = row.standby
+    if row.kind == "switch":
+        return [
+            ("head", f"{sb.switch_id} — transfer switch, {amps(sb.switch_rating_a, 0)}"),
+            ("figs", f"normal: run {sb.normal_run} · standby: generator {sb.generator_id}"),
+            ("sub", f"feeds {sb.panel_id} and everything below it in either position"),
+        ]
+    run = sb.generator_run
+    sets = f"{run.sets} × " if run.sets > 1 else ""
+    return [
+        ("head", f"{sb.generator_id} — standby generator, {kilovoltamps(sb.rating_va)}"),
+        ("figs", f'X"d {percent(sb.xdss_pct)} · Isc at terminals {kiloamps(sb.fault_a)}'),
+        (
+            "sub",
+            f"to {sb.switch_id} by run {run.id}: {sets}{run.size} {run.material.capitalize()}, "
+            f"{display.length_pair(run.length_m)}",
+        ),
+    ]
 
 
 def _motor_text(row: _MotorRow) -> list[tuple[str, str]]:
@@ -217,6 +265,8 @@ def _node_text(node, results, flags, display: Display, width: float) -> list[tup
     """The lines beside a node: (style, text)."""
     if isinstance(node, _MotorRow):
         return _motor_text(node)
+    if isinstance(node, _StandbyRow):
+        return _standby_text(node, display)
     f = fonts()
     diagram = results.diagram
     head = node_title(node.id, node.kind, node.voltage)
