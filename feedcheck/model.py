@@ -123,17 +123,6 @@ class VoltageSystem:
     def high_leg(self) -> bool:
         return self.kind == "highleg"
 
-    # former spellings, kept while checks/vdrop.py, checks/schedules.py,
-    # checks/schedule_circuits.py and inputs/job_file.py still read them; new code
-    # uses voltage_ll_v / voltage_ln_v (DEVELOPERS.md glossary)
-    @property
-    def line_v(self) -> float:
-        return self.voltage_ll_v
-
-    @property
-    def neutral_v(self) -> float | None:
-        return self.voltage_ln_v
-
 
 @dataclass(frozen=True)
 class Project:
@@ -181,7 +170,7 @@ class Source:
     @property
     def medium_voltage(self) -> bool:
         """True above 1000 V (NFPA 70: over 1000 V nominal)."""
-        return self.voltage.line_v > LOW_VOLTAGE_MAX_V
+        return self.voltage.voltage_ll_v > LOW_VOLTAGE_MAX_V
 
 
 @dataclass(frozen=True)

@@ -315,7 +315,7 @@ def parse_voltage_system(text: object, phases: int | None = None) -> VoltageSyst
     3
     >>> parse_voltage_system("240/120 V high-leg delta").kind
     'highleg'
-    >>> parse_voltage_system("13.8 kV").line_v  # medium voltage: kV spelled out
+    >>> parse_voltage_system("13.8 kV").voltage_ll_v  # medium voltage: kV spelled out
     13800.0
     """
     s = str(text)

@@ -86,7 +86,7 @@ def test_bad_voltage_systems(text):
 )
 def test_kilovolt_spellings(text, line, neutral, kind):
     v = parse_voltage_system(text)
-    assert (v.line_v, v.neutral_v, v.kind) == (line, neutral, kind)
+    assert (v.voltage_ll_v, v.voltage_ln_v, v.kind) == (line, neutral, kind)
 
 
 # ---- the conversion table used without the pint registry (feedcheck.units_fast)

@@ -51,12 +51,12 @@ def node_buildup(ctx, fa, n, zs: complex, parts: tuple[dict, dict], figures) -> 
     contribution) [A] of the walk, shown beside the sums."""
     tree = ctx.tree
     v = tree.voltage_of[n]
-    vn, vb = v.line_v, ctx.job.source.voltage.line_v
+    vn, vb = v.voltage_ll_v, ctx.job.source.voltage.voltage_ll_v
     zs_n = zs * (vn / vb) ** 2
     rows = [ImpedanceRow(f"source: {ctx.job.source.voltage.text}", "", "", zs_n, zs_n)]
     z_max = z_min = zs_n
     for k in _path(ctx, n):
-        f = (vn / tree.voltage_of[k].line_v) ** 2
+        f = (vn / tree.voltage_of[k].voltage_ll_v) ** 2
         pk = tree.parent_node[k]
         if tree.voltage_of[k].phases == 1 and tree.voltage_of[pk].phases == 3:
             extra = 2 / SQRT3 - 1

@@ -226,11 +226,11 @@ def _service_ln(ctx, fa, n, zt_loop, z_total_max, z_line, motor_a) -> DutyFigure
         rating, z_pct, x_r = svc.rating_va, svc.z_pct, svc.x_r
     else:  # an equivalent transformer of the source loop (any rating gives the same ohms)
         rating = 100e3
-        z_pct = abs(zt_loop) * rating / v.line_v**2 * 100.0
+        z_pct = abs(zt_loop) * rating / v.voltage_ll_v**2 * 100.0
         x_r = zt_loop.imag / zt_loop.real if zt_loop.real > 0 else 100.0
     z_src = upstream_part(SQRT3 * z_total_max[SOURCE_ID], zt_loop)
     f = split_phase_fault(
-        rating, v.line_v, z_pct, x_r, "max", 0.0, z_src, z_line[n], z_line[n], c=fa.c_max
+        rating, v.voltage_ll_v, z_pct, x_r, "max", 0.0, z_src, z_line[n], z_line[n], c=fa.c_max
     )
     fig = DutyFigures()
     fig.faults_a["ln"] = float(f.fault_ln_a) + motor_a.get(n, 0.0)

@@ -41,7 +41,7 @@ def note_high_legs(ctx) -> None:
         v = ctx.tree.voltage_of[n]
         if v.kind != "highleg":
             continue
-        high_v = math.sqrt(3.0) / 2.0 * v.line_v
+        high_v = math.sqrt(3.0) / 2.0 * v.voltage_ll_v
         ctx.add(
             n,
             "high-leg marking",
@@ -69,13 +69,13 @@ def note_high_legs(ctx) -> None:
 def max_per_leg(ctx, n: str, v, z_wye_ohm: complex, z_line_ohm: complex, c: float):
     """A/C-N and B-N maximum fault currents at node ``n`` [A] (neutral of phase size),
     with the node value of the high leg and the sheet steps."""
-    i_a, i_b = hl.high_leg_faults_a(v.line_v, z_wye_ohm, z_line_ohm, z_line_ohm, c)
+    i_a, i_b = hl.high_leg_faults_a(v.voltage_ll_v, z_wye_ohm, z_line_ohm, z_line_ohm, c)
     sh = ctx.sheet(n, ctx.tree.kind[n], "")
     if v.kind == "split":  # a 120/240 V panel on the A-C legs: no high leg in it
         sh.step(
             "Line to neutral fault, maximum (on the A-C legs of a high-leg delta)",
             "I = c·(V_LL/2) / |5/12·Z_Δ + Z_line + Z_neutral|, Z_Δ = 3·Z_Y",
-            f"{c:g} × {v.line_v / 2:g} V",
+            f"{c:g} × {v.voltage_ll_v / 2:g} V",
             round(float(i_a)),
             "A",
         )
@@ -85,7 +85,7 @@ def max_per_leg(ctx, n: str, v, z_wye_ohm: complex, z_line_ohm: complex, c: floa
     sh.step(
         "A or C to neutral fault, maximum (high-leg delta)",
         "I = c·(V_LL/2) / |5/12·Z_Δ + Z_line + Z_neutral|, Z_Δ = 3·Z_Y",
-        f"{c:g} × {v.line_v / 2:g} / |{hl.K_AN:.4f} × {abs(zd) * 1e3:.3f} mΩ + "
+        f"{c:g} × {v.voltage_ll_v / 2:g} / |{hl.K_AN:.4f} × {abs(zd) * 1e3:.3f} mΩ + "
         f"2 × {abs(z_line_ohm) * 1e3:.3f} mΩ|",
         round(float(i_a)),
         "A",
@@ -93,7 +93,7 @@ def max_per_leg(ctx, n: str, v, z_wye_ohm: complex, z_line_ohm: complex, c: floa
     sh.step(
         f"High leg ({HIGH_LEG}) to neutral fault, maximum",
         "I = c·(√3/2·V_LL) / |3/4·Z_Δ + Z_line + Z_neutral|",
-        f"{c:g} × {math.sqrt(3) / 2 * v.line_v:.1f} / |0.75 × {abs(zd) * 1e3:.3f} mΩ + "
+        f"{c:g} × {math.sqrt(3) / 2 * v.voltage_ll_v:.1f} / |0.75 × {abs(zd) * 1e3:.3f} mΩ + "
         f"2 × {abs(z_line_ohm) * 1e3:.3f} mΩ|",
         round(float(i_b)),
         "A",
@@ -120,15 +120,15 @@ def leg_drops(ctx, run, ph, r: float, x: float, pf: float) -> None:
     out = {}
     for j, leg in enumerate("ABC"):
         if leg == HIGH_LEG:
-            out[leg] = math.sqrt(3.0) * feed[j] * z / v.line_v * 100.0
+            out[leg] = math.sqrt(3.0) * feed[j] * z / v.voltage_ll_v * 100.0
         else:
-            out[leg] = 2.0 * feed[j] * z / v.neutral_v * 100.0
+            out[leg] = 2.0 * feed[j] * z / v.voltage_ln_v * 100.0
     values = ctx.run_values.setdefault(run.id, {})
     values.update({f"vdrop_{k.lower()}_pct": float(p) for k, p in out.items()})
     ctx.sheet(run.id, "run", "").step(
         "Drop per leg (high-leg delta)",
         "A, C: 2·I·Z·L / 120 V (all of the leg's current back on the neutral); "
-        f"{HIGH_LEG}: √3·I·Z·L / {v.line_v:g} V",
+        f"{HIGH_LEG}: √3·I·Z·L / {v.voltage_ll_v:g} V",
         ", ".join(f"{k} {feed[j]:.1f} A" for j, k in enumerate("ABC")),
         ", ".join(f"{k} {p:.2f} %" for k, p in out.items()),
         "",

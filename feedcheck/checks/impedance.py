@@ -177,11 +177,11 @@ def service_transformer_ohm(job: Job) -> complex | None:
     (the source's zero-sequence impedance is then k × Z1 by rule fault-z0-ratio-*)."""
     s = job.source
     v = s.voltage
-    if not is_service(job) or v.neutral_v is None:
+    if not is_service(job) or v.voltage_ln_v is None:
         return None
     if s.service is not None:
         t = s.service
-        mag = t.z_pct / 100.0 * v.line_v**2 / t.rating_va
+        mag = t.z_pct / 100.0 * v.voltage_ll_v**2 / t.rating_va
         return complex(mag / (1 + t.x_r**2) ** 0.5 * (1 + 1j * t.x_r))
     zs = source_impedance(job)
     return zs if v.phases == 3 else SQRT3 * zs

@@ -27,7 +27,7 @@ class MotorLoad:
     flc_a: float
     va: float
     lines: tuple[int, ...]
-    line_v: float  # voltage the FLC is drawn at [V]
+    drawn_at_v: float  # voltage the FLC is drawn at [V]
 
 
 @dataclass(frozen=True)
@@ -59,11 +59,11 @@ def motor_volts(m: Motor, v) -> tuple[float, bool]:
     line-to-neutral load (a single-phase motor rated near the panel's neutral voltage)."""
     ln = (
         m.phases == 1
-        and v.neutral_v is not None
+        and v.voltage_ln_v is not None
         and m.voltage_v is not None
-        and abs(m.voltage_v - v.neutral_v) < abs(m.voltage_v - v.line_v)
+        and abs(m.voltage_v - v.voltage_ln_v) < abs(m.voltage_v - v.voltage_ll_v)
     )
-    return (v.neutral_v if ln else v.line_v), ln
+    return (v.voltage_ln_v if ln else v.voltage_ll_v), ln
 
 
 def add_motor_loads(job: Job, book, own: dict):

@@ -23,7 +23,7 @@ def check_motor_starting(ctx: Context) -> None:
     fa = fault_assumptions(ctx)
     branches = branch_impedances(ctx, fa, OPERATING_C, "nominal")
     zs = source_impedance(job)
-    vb = job.source.voltage.line_v
+    vb = job.source.voltage.voltage_ll_v
     lr = ctx.rules.rows("motor_locked_rotor")
     lim = ctx.rules.rule("ms-motor-terminals")
     starts = []  # (motor, E, I_LR, pf, path impedance, impedance to each node on the path)
@@ -42,10 +42,10 @@ def check_motor_starting(ctx: Context) -> None:
         z = zs
         upto = {"source": zs}  # impedance from the source to each node of the path
         for node in reversed(chain):
-            z += branches[node] * (vb / tree.voltage_of[node].line_v) ** 2
+            z += branches[node] * (vb / tree.voltage_of[node].voltage_ll_v) ** 2
             upto[node] = z
         v = tree.voltage_of[m.panel_id]
-        z_node = z * (v.line_v / vb) ** 2
+        z_node = z * (v.voltage_ll_v / vb) ** 2
         hp = m.hp if m.hp is not None else math.inf
         row = next(r for r in lr if r["hp_to"] >= hp) if m.hp is not None else lr[-1]
         i_lr = m.locked_rotor_a if m.locked_rotor_a else float(row["lr_multiple"]) * m.full_load_a
@@ -53,9 +53,9 @@ def check_motor_starting(ctx: Context) -> None:
         phases = m.phases or v.phases
         # per phase (three-phase), the loop of both lines (single-phase on two lines)
         loop = 1.0 if phases == 3 else (2.0 if v.phases == 3 else SQRT3)
-        es = v.line_v / SQRT3 if phases == 3 else v.line_v
+        es = v.voltage_ll_v / SQRT3 if phases == 3 else v.voltage_ll_v
         zr, zx = (z_node * loop).real, (z_node * loop).imag
-        to_panel = loop * (v.line_v / vb) ** 2
+        to_panel = loop * (v.voltage_ll_v / vb) ** 2
         starts.append(
             (m, es, i_lr, pf_start, z_node * loop, {k: to_panel * u for k, u in upto.items()})
         )

@@ -45,7 +45,7 @@ def _flc(ctx: Context, m: Motor, sheet) -> None:
         rating = "not given" if m.hp is None else f"{m.hp:g} hp"
     sheet.inputs += [
         ("Rating", rating),
-        ("Phases, voltage", f"{phases}-phase, {(m.voltage_v or v.line_v):g} V on {v.text}"),
+        ("Phases, voltage", f"{phases}-phase, {(m.voltage_v or v.voltage_ll_v):g} V on {v.text}"),
     ]
     if m.nameplate_a is not None:
         sheet.inputs.append(("Nameplate full-load current", f"{m.nameplate_a:g} A (overload only)"))

@@ -27,8 +27,8 @@ def circuit_electrics(c: pd.DataFrame, load_unit: str, system: VoltageSystem):
 
     poles = c["poles"].to_numpy()
     three = system.phases == 3
-    vln = system.neutral_v if system.neutral_v is not None else system.line_v
-    vll = system.line_v
+    vln = system.voltage_ln_v if system.voltage_ln_v is not None else system.voltage_ll_v
+    vll = system.voltage_ll_v
     # volts per ampere of load: VA = I · kv
     kv = np.where(poles == 1, vln, np.where((poles == 3) & three, SQRT3 * vll, vll))
     nominal_v = np.where(poles == 1, vln, vll)
@@ -284,7 +284,7 @@ def circuit_quantities(
         "phases": system.phases,
         "system": system.text,
         "two": 2.0,
-        "neutral_ok": ~((poles == 1) & (system.neutral_v is None)),
+        "neutral_ok": ~((poles == 1) & (system.voltage_ln_v is None)),
         # a one-pole circuit in a B space of a high-leg delta: 208 V to neutral
         "high_leg_ok": ~(
             (poles == 1)

@@ -369,7 +369,7 @@ def _panel_table(demand: ScheduleDemand, per_phase, sev, system: VoltageSystem):
             # the heaviest line's design current (215.2(A)(1)), not the balanced average
             "design_current_a": dph[:, :n_ph].max(axis=1),
             "balanced_design_current_a": current_from_apparent_power_a(
-                design_va, system.line_v, system.phases
+                design_va, system.voltage_ll_v, system.phases
             ),
             "phase_a_design_a": dph[:, 0],
             "phase_b_design_a": dph[:, 1],

@@ -69,12 +69,12 @@ def describe_source(ctx: Context) -> None:
             f"Service transformer X/R {t.x_r:g} taken from the typical-value table "
             f"({t.x_r_typical_row}); state service_x_r where the utility gives it."
         )
-    infinite, _ = service_through_fault(t.rating_va, v.line_v, t.z_pct, t.x_r, v.phases)
+    infinite, _ = service_through_fault(t.rating_va, v.voltage_ll_v, t.z_pct, t.x_r, v.phases)
     k = "√3 · " if v.phases == 3 else ""
     sh.step(
         "Through-fault of the utility transformer, infinite bus",
         f"I = S / ({k}V · Z%/100)",
-        f"{t.rating_va:,.0f} / ({k}{v.line_v:g} × {t.z_pct / 100:g})",
+        f"{t.rating_va:,.0f} / ({k}{v.voltage_ll_v:g} × {t.z_pct / 100:g})",
         round(infinite, 0),
         "A",
         "service-through-fault",
@@ -196,7 +196,7 @@ def _grounded_conductor(ctx: Context, run: Run) -> None:
     """250.24(C): the grounded conductor in each raceway from the ungrounded conductors
     in it (Table 250.102(C)(1)); 1/0 AWG or larger in parallel."""
     v = ctx.tree.voltage_of[run.to_id]
-    if v.neutral_v is None:
+    if v.voltage_ln_v is None:
         return
     try:
         need = bk.supply_side_jumper_size(run.size.area_kcmil, 1, run.material, _table(ctx))

@@ -122,7 +122,7 @@ def _arrangement(ctx: Context, t: Transformer, rated_secondary_a: float) -> str 
     whether a secondary device is given; Table 450.3(A) 'any location' over 1000 V by
     the impedance band and the primary device type (a fuse when the job does not say:
     the lower limit). None when the table has no row (over 10 %): a warning says so."""
-    if t.primary.line_v <= LOW_VOLTAGE_MAX_V:
+    if t.primary.voltage_ll_v <= LOW_VOLTAGE_MAX_V:
         ctx.method(
             "Transformer overcurrent protection limits", "NFPA 70-2023 450.3(B), Table 450.3(B)"
         )

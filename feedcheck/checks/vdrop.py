@@ -56,7 +56,7 @@ def check_voltage_drop(ctx: Context) -> None:
         {
             "voltage_pct": src_pct,
             "vdrop_pct": 100.0 - src_pct,
-            "voltage_v": job.source.voltage.line_v * src_pct / 100.0,
+            "voltage_v": job.source.voltage.voltage_ll_v * src_pct / 100.0,
         }
     )
     for n in tree.order[1:]:
@@ -87,7 +87,7 @@ def check_voltage_drop(ctx: Context) -> None:
                 "voltage_pct": pct,
                 "vdrop_pct": 100.0 - pct,
                 "conductor_vdrop_pct": cond_drop_here,
-                "voltage_v": v.line_v * pct / 100.0,
+                "voltage_v": v.voltage_ll_v * pct / 100.0,
             }
         )
         if tree.kind[n] == "panel":
@@ -186,7 +186,7 @@ def _run_drop(
         run.size.name, run.material, run.raceway, OPERATING_C, data=ctx.rules.conductors
     )
     r, x = float(r), float(x)
-    sending_v = pv.line_v * sending_pct / 100.0
+    sending_v = pv.voltage_ll_v * sending_pct / 100.0
     approx_v = float(vk.voltage_drop_approximate_v(current, r, x, run.length_m, pf, kind, run.sets))
     try:
         exact_v = (
@@ -201,8 +201,8 @@ def _run_drop(
     except ValueError:  # the run cannot carry this load at all: its voltage collapses
         _run_collapsed(ctx, run, pv, limits["feeder"], (current, pf, kind))
         return sending_pct
-    pct = 100.0 * exact_v / pv.line_v
-    approx_pct = 100.0 * approx_v / pv.line_v
+    pct = 100.0 * exact_v / pv.voltage_ll_v
+    approx_pct = 100.0 * approx_v / pv.voltage_ll_v
     rid = limits["feeder"].rule_id
     _run_steps(ctx, run, pv, load, (r, x, current, pf, kind), (approx_v, exact_v, sending_v), rid)
     ctx.run_values.setdefault(run.id, {}).update(
@@ -234,7 +234,7 @@ def _run_collapsed(ctx: Context, run, pv, lim, figures) -> None:
         lim.rule_id,
         f"{current:.0f} A over {ctx.length(run.length_m)} of {run.size.name}: the "
         "load cannot be delivered (the voltage collapses); "
-        + _smallest_passing(ctx, run, current, pf, kind, lim.max_pct, pv.line_v),
+        + _smallest_passing(ctx, run, current, pf, kind, lim.max_pct, pv.voltage_ll_v),
     )
     ctx.run_values.setdefault(run.id, {}).update(
         {"current_a": current, "vdrop_pct": 100.0, "length_m": run.length_m}
@@ -247,14 +247,14 @@ def _run_steps(ctx: Context, run, pv, load, run_figures, drops, rule_id: str) ->
     approx_v, exact_v, sending_v = drops
     ph = ctx.phases[run.to_id]
     feed = ph.feed_cont_a + ph.feed_non_a
-    pct = 100.0 * exact_v / pv.line_v
+    pct = 100.0 * exact_v / pv.voltage_ll_v
     sh = ctx.sheet(run.id, "run", f"Run {run.id} ({run.from_id} → {run.to_id})")
     kk = {"3ph": "√3", "1ph2w": "2", "1ph3w": "2", "ln4w": "2"}[kind]
     three = pv.phases == 3 and not ph.single_phase_feed
     sh.step(
         "Load current on the run (heaviest line)",
         "I = S / (√3·V_LL)" if three else "I = S / V_LL (single-phase)",
-        f"{load.va:,.0f} VA / ({'√3 × ' if three else ''}{pv.line_v:g} V)"
+        f"{load.va:,.0f} VA / ({'√3 × ' if three else ''}{pv.voltage_ll_v:g} V)"
         + ("" if _balanced(feed, pv) else "; lines " + _lines_text(feed)),
         current,
         "A",
@@ -284,7 +284,7 @@ def _run_steps(ctx: Context, run, pv, load, run_figures, drops, rule_id: str) ->
     sh.step(
         "Percent drop",
         "VD / V_nominal × 100",
-        f"{exact_v:.2f} / {pv.line_v:g} × 100",
+        f"{exact_v:.2f} / {pv.voltage_ll_v:g} × 100",
         pct,
         "%",
         rule_id,
@@ -308,7 +308,7 @@ def _feeder_finding(ctx: Context, run, pv, lim, upstream_pct: float, figures) ->
         ctx.run_values[run.id]["feeder_vdrop_pct"] = cum
     if not ok:
         room = max(lim.max_pct - upstream_pct, 1e-6)
-        note += "; " + _smallest_passing(ctx, run, current, pf, kind, room, pv.line_v)
+        note += "; " + _smallest_passing(ctx, run, current, pf, kind, room, pv.voltage_ll_v)
     ctx.compare(
         run.id,
         "feeder voltage drop",

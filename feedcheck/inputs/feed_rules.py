@@ -177,7 +177,7 @@ def _check_panel_voltage(r: Reader, i: int, pn: Panel, have) -> None:
     feed (line voltage equal, a neutral only where the feed has one at that voltage) and
     its pair (120/240 V on a high-leg delta: C-A, beside the neutral tap)."""
     pair = pn.phases_connected
-    if abs(have.line_v - pn.voltage.line_v) > 0.5 or have.phases < pn.voltage.phases:
+    if abs(have.voltage_ll_v - pn.voltage.voltage_ll_v) > 0.5 or have.phases < pn.voltage.phases:
         r.add(
             f"panel[{i}].voltage",
             pn.voltage.text,
@@ -196,14 +196,14 @@ def _check_panel_voltage(r: Reader, i: int, pn: Panel, have) -> None:
             '"C-A" or none: a 120/240 V panel on a high-leg delta takes the legs beside '
             "the neutral tap (B is the high leg, 208 V to neutral; 408.3(E)(1))",
         )
-    elif pn.voltage.neutral_v is not None and (
-        have.neutral_v is None or abs(have.neutral_v - pn.voltage.neutral_v) > 0.5
+    elif pn.voltage.voltage_ln_v is not None and (
+        have.voltage_ln_v is None or abs(have.voltage_ln_v - pn.voltage.voltage_ln_v) > 0.5
     ):
-        have_n = "none" if have.neutral_v is None else f"{have.neutral_v:g} V"
+        have_n = "none" if have.voltage_ln_v is None else f"{have.voltage_ln_v:g} V"
         r.add(
             f"panel[{i}].voltage",
             pn.voltage.text,
-            f"a voltage without a neutral, or a feed with a {pn.voltage.neutral_v:g} V "
+            f"a voltage without a neutral, or a feed with a {pn.voltage.voltage_ln_v:g} V "
             f"neutral ({have.text} has {have_n})",
         )
 

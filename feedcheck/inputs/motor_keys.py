@@ -157,8 +157,8 @@ def _motor_volts(r: Reader, m: Motor, path: str, v, phases: int) -> float | None
     (line-to-line, or line-to-neutral for a single-phase motor), else the panel's
     line-to-line voltage."""
     if m.voltage_v is None:
-        return v.line_v
-    fits = [v.line_v] + ([v.neutral_v] if phases == 1 and v.neutral_v else [])
+        return v.voltage_ll_v
+    fits = [v.voltage_ll_v] + ([v.voltage_ln_v] if phases == 1 and v.voltage_ln_v else [])
     if any(abs(m.voltage_v - s) <= VOLTAGE_MATCH * s for s in fits):
         return m.voltage_v
     r.add(

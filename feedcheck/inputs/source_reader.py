@@ -121,7 +121,9 @@ def _service_source(r: Reader, src: dict) -> tuple[Source | None, int]:
     if xr is None:
         xr, row = typical_x_r(rating)
     service = ServiceTransformer(rating, z, xr, psc, pxr or 10.0, row)
-    fault_a, x_r = service_through_fault(rating, sv.line_v, z, xr, sv.phases, psc, pxr or 10.0)
+    fault_a, x_r = service_through_fault(
+        rating, sv.voltage_ll_v, z, xr, sv.phases, psc, pxr or 10.0
+    )
     source = Source(sv, fault_a, x_r, given_as="service-transformer", service=service)
     return _service_grounding(r, src, source), phases
 
@@ -162,7 +164,7 @@ def _source_fault_a(r: Reader, src: dict, sv) -> float | None:
     if sc_key:
         mva = r.qty(src, "source", sc_key, "power", apparent_only=True)
         if mva is not None and sv is not None:
-            fault_a = mva / (math.sqrt(3) * sv.line_v if sv.phases == 3 else sv.line_v)
+            fault_a = mva / (math.sqrt(3) * sv.voltage_ll_v if sv.phases == 3 else sv.voltage_ll_v)
     elif src:
         fault_a = r.qty(src, "source", "available_fault", "current", allow_inf=True)
     if (

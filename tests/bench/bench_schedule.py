@@ -79,7 +79,7 @@ def per_row_reference(schedule, system, rows: int) -> float:
     c = schedule.circuits.head(rows)
     t0 = time.perf_counter()
     for r in c.itertuples(index=False):
-        i = r.load_value / system.neutral_v
+        i = r.load_value / system.voltage_ln_v
         term = float(termination_c_for(r.breaker_a, r.size))
         amp = float(
             ampacity_a(r.size, r.material, r.insulation_c, r.ambient_c, r.current_carrying, term)

@@ -85,7 +85,7 @@ def _doc(check_json, pair="", schedule=""):
 )
 def test_spellings(text):
     v = parse_voltage_system(text)
-    assert (v.kind, v.phases, v.line_v, v.neutral_v) == ("highleg", 3, 240.0, 120.0)
+    assert (v.kind, v.phases, v.voltage_ll_v, v.voltage_ln_v) == ("highleg", 3, 240.0, 120.0)
 
 
 def test_neutral_must_be_half_the_line_voltage():

@@ -60,12 +60,12 @@ def _network(job):
         hv = pp.create_bus(net, vn_kv=MV_KV)
         sc_mva = 1e6 if math.isinf(t.primary_sc_va) else t.primary_sc_va / 1e6
         pp.create_ext_grid(net, hv, s_sc_max_mva=C * sc_mva, rx_max=1.0 / t.primary_x_r)
-        bus["source"] = pp.create_bus(net, vn_kv=src.voltage.line_v / 1e3)
-        v = src.voltage.line_v
+        bus["source"] = pp.create_bus(net, vn_kv=src.voltage.voltage_ll_v / 1e3)
+        v = src.voltage.voltage_ll_v
         _trafo(net, hv, bus["source"], t.rating_va, MV_KV * 1e3, v, t.z_pct, t.x_r)
     else:
-        bus["source"] = pp.create_bus(net, vn_kv=src.voltage.line_v / 1e3)
-        s_mva = math.sqrt(3) * src.voltage.line_v * src.fault_a / 1e6
+        bus["source"] = pp.create_bus(net, vn_kv=src.voltage.voltage_ll_v / 1e3)
+        s_mva = math.sqrt(3) * src.voltage.voltage_ll_v * src.fault_a / 1e6
         pp.create_ext_grid(net, bus["source"], s_sc_max_mva=C * s_mva, rx_max=1.0 / src.x_r)
     _add_branches(net, job, bus)
     net.trafo["power_station_unit"] = True  # K_T off
@@ -85,7 +85,7 @@ def _add_branches(net, job, bus):
         run = tree.parent_run[n]
         at = bus[parent]
         if run is not None:
-            end = pp.create_bus(net, vn_kv=tree.voltage_of[parent].line_v / 1e3)
+            end = pp.create_bus(net, vn_kv=tree.voltage_of[parent].voltage_ll_v / 1e3)
             r, x = ac_impedance_ohm_per_m(run.size.name, run.material, run.raceway, 20.0)
             pp.create_line_from_parameters(
                 net, at, end, length_km=run.length_m / 1e3, r_ohm_per_km=float(r) * 1e3,
@@ -95,8 +95,8 @@ def _add_branches(net, job, bus):
             at = end
         if n in tx:
             t = tx[n]
-            bus[n] = pp.create_bus(net, vn_kv=t.secondary.line_v / 1e3)
-            _trafo(net, at, bus[n], t.rating_va, t.primary.line_v, t.secondary.line_v,
+            bus[n] = pp.create_bus(net, vn_kv=t.secondary.voltage_ll_v / 1e3)
+            _trafo(net, at, bus[n], t.rating_va, t.primary.voltage_ll_v, t.secondary.voltage_ll_v,
                    t.z_pct, t.x_r)  # fmt: skip
         else:
             bus[n] = at
@@ -129,7 +129,7 @@ def _standby_network(sjob, gen):
     impedance by K_G = c_max / (1 + x"d · sin φ_rG) (U_n = U_rG); with cos φ = 1 this
     is c_max, divided out by giving pandapower the impedance / c_max."""
     net = pp.create_empty_network(f_hz=60.0)
-    v = gen.voltage.line_v
+    v = gen.voltage.voltage_ll_v
     bus = {"source": pp.create_bus(net, vn_kv=v / 1e3)}
     x_ohm = gen.xdss_pct / 100 * v**2 / gen.rating_va
     pp.create_gen(
@@ -163,7 +163,7 @@ def test_standby_position_matches_pandapower(samples, tmp_path):
         assert nodes[node]["fault_max_governs"] == "normal", node
     # at the generator's terminals pandapower gives the published I_rated / |z"|
     gen = job.generator
-    rated = gen.rating_va / (math.sqrt(3) * gen.voltage.line_v)
+    rated = gen.rating_va / (math.sqrt(3) * gen.voltage.voltage_ll_v)
     z_pu = gen.xdss_pct / 100 * math.sqrt(1 + 1 / gen.x_r**2)
     terminals = float(net.res_bus_sc.ikss_ka.at[bus["source"]]) * 1e3 / C
     assert terminals == pytest.approx(rated / z_pu, rel=1e-3)
