@@ -30,9 +30,29 @@ def test_xlpe_short_circuit_limit_matches_two_makers():
     for typ in ("XHHW", "XHHW-2", "XHH"):  # X: cross-linked polyethylene
         assert float(t.loc[typ, "sc_final_c"]) == 250.0, typ
         assert t.loc[typ, "row_confidence"].startswith("published"), typ
-    # the limits no copy confirms stay flagged
-    for typ in ("THHN", "THWN-2", "RHW-2", "USE-2", "XHHN", "MTW"):
+    # the rows no copy confirms stay flagged
+    for typ in ("USE", "USE-2", "XHHN", "MTW"):
         assert t.loc[typ, "row_confidence"].startswith("from memory — verify"), typ
+
+
+def test_thermoplastic_and_rubber_limits_match_maker_data():
+    """Cooper Bussmann SPD, 'Component Protection - Wire & Cable' (ICEA formulae): maximum
+    allowable short-circuit temperatures thermoplastic 150 °C; paper, rubber and varnished
+    cloth 200 °C (tests/reference/tables/insulation_types__bussmann_sc_limits.csv)."""
+    copy = {
+        r["insulation"]: float(r["sc_final_c"])
+        for r in _copy("insulation_types__bussmann_sc_limits")
+    }
+    assert copy["thermoplastic"] == 150.0 and copy["rubber"] == 200.0
+    t = load_table("insulation_types").data.set_index("type")
+    thermoplastic = ("TW", "THW", "THW-2", "THWN", "THWN-2", "THHN", "THHW", "MTW")
+    for typ in thermoplastic:  # T (and MTW): thermoplastic insulation
+        assert t.loc[typ, "family"] == "thermoplastic", typ
+        assert float(t.loc[typ, "sc_final_c"]) == copy["thermoplastic"], typ
+    for typ in ("RHW", "RHW-2", "RHH"):  # R: rubber (thermoset)
+        assert float(t.loc[typ, "sc_final_c"]) == copy["rubber"], typ
+    for typ in (*thermoplastic[:-1], "RHW", "RHW-2", "RHH"):  # ratings confirmed too
+        assert t.loc[typ, "row_confidence"].startswith("published"), typ
 
 
 @pytest.mark.parametrize("name", table_names())
