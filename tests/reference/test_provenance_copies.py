@@ -65,3 +65,17 @@ def test_every_row_confidence_starts_with_a_level(name):
         sorted(set(t.row_confidence) - set(CONFIDENCE_LEVELS)),
     )
     assert confidence_level(t.confidence) in CONFIDENCE_LEVELS
+
+
+def test_service_and_sds_grounding_rules_cite_the_clauses_of_the_code_text():
+    """NFPA 70-2017 Article 250 text (250.24, 250.28, 250.30): the clause each grounding and
+    bonding rule cites, the table it is sized by and the parallel minimum, as the code text
+    puts them (tests/reference/tables/check_rules__nec2017_art250_text.csv)."""
+    rules = load_table("check_rules").data.set_index("rule_id")
+    for row in _copy("check_rules__nec2017_art250_text"):
+        cited = rules.loc[row["rule_id"], "clause"]
+        basis = rules.loc[row["rule_id"], "basis"]
+        assert row["clause"] in cited, (row["rule_id"], cited)
+        assert row["sized_by"] in cited, (row["rule_id"], cited)
+        if row["min_parallel"]:
+            assert f"{row['min_parallel']} or larger" in basis, (row["rule_id"], basis)
