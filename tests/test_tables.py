@@ -82,10 +82,10 @@ def test_transformer_protection_rows_match_450_3_b():
 
 
 def test_transformer_protection_rows_over_1000_v():
-    # NFPA 70-2023 Table 450.3(A), any location (from memory — the rows carry
-    # row_confidence "from memory — verify"): primary breaker 600 % / fuse 300 % up to
-    # 6 % impedance, 400 % / 300 % over 6 % up to 10 %; secondary of 1000 V or less 125 %;
-    # note 1 (next higher standard rating) throughout
+    # NFPA 70-2017 Table 450.3(A), any location (the code text and a data page, see
+    # tests/reference/tables/transformer_protection__*.csv): primary breaker 600 % / fuse
+    # 300 % up to 6 % impedance, 400 % / 300 % over 6 % up to 10 %; secondary of 1000 V or
+    # less 125 %; Note 1 (next higher standard rating) throughout
     t = load_table("transformer_protection").data.set_index("rule_id")
     assert t.loc["xfmr-prot-mv-z6-breaker-primary", "max_pct"] == 600
     assert t.loc["xfmr-prot-mv-z6-fuse-primary", "max_pct"] == 300
@@ -95,7 +95,7 @@ def test_transformer_protection_rows_over_1000_v():
     assert len(mv) == 8
     assert (mv[mv["winding"] == "secondary"]["max_pct"] == 125).all()
     assert (mv["next_size_up"] == "yes").all()
-    assert (mv["row_confidence"] == "from memory — verify").all()
+    assert (mv["row_confidence"] == "published").all()
 
 
 def _copy(tmp_path, name):

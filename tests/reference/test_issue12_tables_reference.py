@@ -119,6 +119,7 @@ def test_insulation_ratings_match_table_310_16_heads():
     for typ, row in ours.iterrows():
         expect = "thermoplastic" if typ.startswith(("T", "M")) else "thermoset"
         assert row["family"] == expect, typ
-        # ICEA P-32-382 limits as recalled (from memory): 150 °C thermoplastic,
-        # 250 °C cross-linked, 200 °C rubber
+        # ICEA P-32-382 limits: 150 °C thermoplastic and 200 °C rubber (Cooper Bussmann SPD,
+        # wire and cable protection), 250 °C cross-linked (two makers' XLPE data sheets);
+        # U types (USE, USE-2) at 250 °C from memory
         assert row["sc_final_c"] == {"T": 150, "M": 150, "X": 250, "U": 250, "R": 200}[typ[0]]

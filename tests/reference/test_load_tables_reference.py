@@ -123,7 +123,14 @@ def test_device_max_table_matches_copy():
 def test_lighting_unit_loads_match_copies_and_mark_the_rest():
     t = load_table("lighting_unit_loads").data.set_index("occupancy")
     confirmed = set()
-    for name in ("nec2017-data-page", "other-copies", "220-14J-quote", "trade-pages", "annex-d3"):
+    for name in (
+        "nec2017-data-page",
+        "other-copies",
+        "220-14J-quote",
+        "trade-pages",
+        "annex-d3",
+        "nec2017-text",
+    ):
         copy = _copy(f"lighting_unit_loads__{name}").set_index("occupancy")
         for occ, row in copy.iterrows():
             assert t.loc[occ, "va_per_ft2"] == row["va_per_ft2"], occ  # NFPA 70-2017 Table 220.12

@@ -30,9 +30,29 @@ def test_xlpe_short_circuit_limit_matches_two_makers():
     for typ in ("XHHW", "XHHW-2", "XHH"):  # X: cross-linked polyethylene
         assert float(t.loc[typ, "sc_final_c"]) == 250.0, typ
         assert t.loc[typ, "row_confidence"].startswith("published"), typ
-    # the limits no copy confirms stay flagged
-    for typ in ("THHN", "THWN-2", "RHW-2", "USE-2", "XHHN", "MTW"):
+    # the rows no copy confirms stay flagged
+    for typ in ("USE", "USE-2", "XHHN", "MTW"):
         assert t.loc[typ, "row_confidence"].startswith("from memory — verify"), typ
+
+
+def test_thermoplastic_and_rubber_limits_match_maker_data():
+    """Cooper Bussmann SPD, 'Component Protection - Wire & Cable' (ICEA formulae): maximum
+    allowable short-circuit temperatures thermoplastic 150 °C; paper, rubber and varnished
+    cloth 200 °C (tests/reference/tables/insulation_types__bussmann_sc_limits.csv)."""
+    copy = {
+        r["insulation"]: float(r["sc_final_c"])
+        for r in _copy("insulation_types__bussmann_sc_limits")
+    }
+    assert copy["thermoplastic"] == 150.0 and copy["rubber"] == 200.0
+    t = load_table("insulation_types").data.set_index("type")
+    thermoplastic = ("TW", "THW", "THW-2", "THWN", "THWN-2", "THHN", "THHW", "MTW")
+    for typ in thermoplastic:  # T (and MTW): thermoplastic insulation
+        assert t.loc[typ, "family"] == "thermoplastic", typ
+        assert float(t.loc[typ, "sc_final_c"]) == copy["thermoplastic"], typ
+    for typ in ("RHW", "RHW-2", "RHH"):  # R: rubber (thermoset)
+        assert float(t.loc[typ, "sc_final_c"]) == copy["rubber"], typ
+    for typ in (*thermoplastic[:-1], "RHW", "RHW-2", "RHH"):  # ratings confirmed too
+        assert t.loc[typ, "row_confidence"].startswith("published"), typ
 
 
 @pytest.mark.parametrize("name", table_names())
@@ -45,3 +65,17 @@ def test_every_row_confidence_starts_with_a_level(name):
         sorted(set(t.row_confidence) - set(CONFIDENCE_LEVELS)),
     )
     assert confidence_level(t.confidence) in CONFIDENCE_LEVELS
+
+
+def test_service_and_sds_grounding_rules_cite_the_clauses_of_the_code_text():
+    """NFPA 70-2017 Article 250 text (250.24, 250.28, 250.30): the clause each grounding and
+    bonding rule cites, the table it is sized by and the parallel minimum, as the code text
+    puts them (tests/reference/tables/check_rules__nec2017_art250_text.csv)."""
+    rules = load_table("check_rules").data.set_index("rule_id")
+    for row in _copy("check_rules__nec2017_art250_text"):
+        cited = rules.loc[row["rule_id"], "clause"]
+        basis = rules.loc[row["rule_id"], "basis"]
+        assert row["clause"] in cited, (row["rule_id"], cited)
+        assert row["sized_by"] in cited, (row["rule_id"], cited)
+        if row["min_parallel"]:
+            assert f"{row['min_parallel']} or larger" in basis, (row["rule_id"], basis)
