@@ -187,8 +187,8 @@ def table_path(name: str, user_dir: Path | object | None = _CURRENT) -> tuple[Pa
     udir = _user_dir if user_dir is _CURRENT else user_dir
     if udir is not None:
         p = Path(udir) / f"{name}.csv"  # type: ignore[arg-type]
-        if p.is_file():
-            return p, "user"
+        if p.exists() or p.is_symlink():  # any entry of that name is the user's copy:
+            return p, "user"  # a pipe, device or broken link is refused when read
     return shipped_tables_dir() / f"{name}.csv", "shipped"
 
 
@@ -231,15 +231,19 @@ def read_table_file(path: Path, name: str, origin: str) -> Table:
 
 
 def _raw_bytes(path: Path, problems: ProblemList) -> bytes:
+    """The table file's bytes through the one guard on a user's file (a regular file,
+    its size checked before reading: a pipe or device in ``--tables DIR`` never hangs)."""
+    from .inputs.files import FileKind, FileRefused, read_bytes
+
+    kind = FileKind(
+        "table file", "(.csv)", MAX_TABLE_BYTES, f"a table under {MAX_TABLE_BYTES} bytes"
+    )
     try:
-        raw = path.read_bytes()
-    except OSError as exc:
-        problems.add("", "", f"a readable table file ({exc.strerror})")
+        return read_bytes(path, kind)
+    except FileRefused as exc:
+        problems.add("", exc.value, exc.expected)
         problems.raise_if_any()
-    if len(raw) > MAX_TABLE_BYTES:
-        problems.add("", f"{len(raw)} bytes", f"a table under {MAX_TABLE_BYTES} bytes")
-        problems.raise_if_any()
-    return raw
+    raise AssertionError("unreachable")  # raise_if_any raised
 
 
 def _blank(v) -> bool:

@@ -20,6 +20,7 @@ from __future__ import annotations
 
 import shlex
 import shutil
+from pathlib import Path
 
 import pytest
 
@@ -28,6 +29,7 @@ from feedcheck.tables import shipped_tables_dir
 from . import assert_no_traceback, cli
 
 JOB = "sample_jobs/harbor_kitchen.toml"
+ROOT = Path(__file__).resolve().parents[2]
 POWER = "a power with a unit, e.g. '75 kVA'"
 LEN = "a length with a unit, e.g. '85 ft or 26 m'"
 
@@ -296,3 +298,29 @@ def test_broken_user_table_stops_a_check(tmp_path):
     assert_no_traceback(r)
     assert r.exit_code == 2
     assert f"error: {p}:" in r.stderr and not out.exists()
+
+
+@pytest.mark.parametrize("kind", ["pipe", "folder"])
+def test_user_table_that_is_no_regular_file(tmp_path, kind):
+    """A pipe or folder named like a table in --tables DIR is the user's copy and is
+    refused (exit 2, named), never read until it blocks nor silently replaced by the
+    shipped table. Run in a child process with a time limit: a regression must fail,
+    not hang the suite."""
+    import os
+    import subprocess
+    import sys
+
+    p = tmp_path / "device_ratings.csv"
+    os.mkfifo(p) if kind == "pipe" else p.mkdir()
+    code = (
+        "import sys; from click.testing import CliRunner; from feedcheck.cli import main; "
+        f"r = CliRunner().invoke(main, ['--tables', {str(tmp_path)!r}, 'check', {JOB!r}]); "
+        "print(r.exit_code); print(r.stderr)"
+    )
+    out = subprocess.run(
+        [sys.executable, "-c", code], capture_output=True, text=True, timeout=60, cwd=ROOT
+    )
+    exit_code, _, stderr = out.stdout.partition("\n")
+    assert exit_code == "2", out.stdout + out.stderr
+    assert f"error: {p}" in stderr and "Traceback" not in stderr
+    assert ("not a device or pipe" if kind == "pipe" else "not a folder") in stderr
