@@ -52,7 +52,7 @@ from .impedance import (
     summed,
 )
 from .point_to_point import point_to_point_a, ptp_finding
-from .taps import run_device
+from .taps import feeder_device, run_device
 
 
 def check_faults(ctx: Context) -> None:
@@ -494,7 +494,7 @@ def _instantaneous_checks(ctx, fa, lg_min, pos, z1_total, z0_total) -> None:
             continue
         run = tree.parent_run[panel.id]
         up = tree.parent_node[panel.id]
-        device, _where = run_device(job, run)  # the one rule of checks/taps.py
+        device, whose = _clearing_device(ctx, panel.id, run)
         if device is None:
             continue
         mult, tol, rid = _pickup(ctx, device, panel.instantaneous_a)
@@ -504,6 +504,7 @@ def _instantaneous_checks(ctx, fa, lg_min, pos, z1_total, z0_total) -> None:
             f"{kiloamps(chk.required_a)} ({mult:g} × {device:g} A"
             + (f" + {tol:g} % tolerance" if tol else "")
             + ")"
+            + whose
         )
         if not chk.trips:
             up_i = pos[up]
@@ -520,6 +521,39 @@ def _instantaneous_checks(ctx, fa, lg_min, pos, z1_total, z0_total) -> None:
             rid,
             note,
         )
+
+
+def _clearing_device(ctx, panel_id: str, run) -> tuple[float | None, str]:
+    """The device that must clear a ground fault at ``panel_id``'s end of ``run``, and
+    words saying whose it is when it is not the run's own (a tap: the device of the
+    conductors it is tapped from, NFPA 70-2023 240.21(B)). Where no device can be named
+    the check is not evaluated: an ``info`` finding says so (never ``ok``)."""
+    device, where = run_device(ctx.job, run)  # the one rule of checks/taps.py
+    if device is not None:
+        return device, ""
+    if ctx.tree.kind.get(run.from_id) == "transformer":
+        reason = (
+            f"{run.id} has no device at its supply (transformer secondary conductors): a "
+            "fault on its line side is cleared by the transformer's primary device alone"
+        )
+    elif where == "tap":
+        up, what = feeder_device(ctx.job, run)
+        if up is not None:
+            return up, f"; {run.id} is a tap: the {what} must clear the fault"
+        reason = f"{run.id} is a tap and {what}"
+    else:
+        reason = f"no device protects {run.id}"
+    ctx.add(
+        panel_id,
+        "ground fault trips instantaneously",
+        None,
+        None,
+        "A",
+        "info",
+        "inst-trip-not-evaluated",
+        f"not evaluated: {reason}",
+    )
+    return None, ""
 
 
 def _trip_fixes(ctx, fa, panel_id, run, required_a, z_up1, z_up0) -> str:

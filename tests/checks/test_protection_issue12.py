@@ -450,3 +450,47 @@ def test_feeder_tap_rule_on_secondary_conductors_fails(write_job):
     f = finding(doc, "S", "overcurrent protection")
     assert (f["status"], f["rule_id"]) == ("fail", "feeder-unprotected")
     assert "transformer secondary 10 ft" in f["note"]
+
+
+# ------------------------------------------------- instantaneous trip behind a tap
+def test_tap_panel_trip_check_held_against_the_feeder_device(write_job):
+    """A ground fault at the end of a 10 ft tap is cleared by the device the tap is
+    taken from (NFPA 70-2023 240.21(B): the tap has no device at its supply), so the
+    instantaneous-trip check of LP uses MDP's 400 A main, not nothing. Pick-up = 400 A ×
+    the typical multiple of tables/instantaneous_pickup.csv × (1 + its tolerance)
+    (common practice, no source: the multiple and tolerance are read from the row cited)."""
+    _, doc = check(
+        write_job,
+        feed(
+            length="8 ft",
+            conductors="3 AWG Cu",
+            ground="8 AWG Cu",
+            run_extra=TAP75 + 'tap_rule = "10 ft"',
+            bus=100,
+            main='main_device = "100 A"',
+        ),
+    )
+    f = finding(doc, "LP", "ground fault trips instantaneously")
+    assert f["status"] in ("ok", "warn")
+    assert "R is a tap" in f["note"] and "400 A" in f["note"]
+    from feedcheck.rulebook import current_rulebook
+
+    row = next(
+        r for r in current_rulebook().rows("instantaneous_pickup") if r["rule_id"] == f["rule_id"]
+    )
+    assert f["limit"] == pytest.approx(400 * row["multiple"] * (1 + row["tolerance_pct"] / 100))
+
+
+def test_secondary_conductors_without_device_trip_check_not_evaluated(write_job):
+    """Never "ok" for a check that cannot be evaluated: transformer secondary conductors
+    with no device at the transformer (NFPA 70-2023 240.21(C)(2)) leave no device on the
+    panel's feed whose instantaneous trip could be checked — an info finding says so."""
+    text = feed(bus=400, main='main_device = "400 A"', load=20)
+    text = text.replace('secondary_device = "400 A"\n', "").replace(
+        'device = "400 A"\n\n[[panel]]\nid = "MDP"',
+        'tap_rule = "transformer secondary 10 ft"\n\n[[panel]]\nid = "MDP"',
+    )
+    _, doc = check(write_job, text)
+    f = finding(doc, "MDP", "ground fault trips instantaneously")
+    assert (f["status"], f["rule_id"]) == ("info", "inst-trip-not-evaluated")
+    assert f["value"] is None and f["note"].startswith("not evaluated")
