@@ -108,7 +108,7 @@ def test_insulation_ratings_match_table_310_16_heads():
     checked = 0
     for typ, row in ours.iterrows():
         if typ not in heads:
-            continue  # MTW, XHHN: rating from memory (row_confidence says so)
+            continue  # MTW, XHHN: not in this copy (see the Table 310.104(A) copy's test)
         ratings = {int(row["dry_c"])}
         if not pd.isna(row["opt_wet_c"]):
             ratings.add(int(row["opt_wet_c"]))
@@ -120,6 +120,6 @@ def test_insulation_ratings_match_table_310_16_heads():
         expect = "thermoplastic" if typ.startswith(("T", "M")) else "thermoset"
         assert row["family"] == expect, typ
         # ICEA P-32-382 limits: 150 °C thermoplastic and 200 °C rubber (Cooper Bussmann SPD,
-        # wire and cable protection), 250 °C cross-linked (two makers' XLPE data sheets);
-        # U types (USE, USE-2) at 250 °C from memory
+        # wire and cable protection; NFPA 70-2017 Table 240.92(B)), 250 °C cross-linked (two
+        # makers' XLPE data sheets; Table 240.92(B)); U types (USE, USE-2) at 250 °C from memory
         assert row["sc_final_c"] == {"T": 150, "M": 150, "X": 250, "U": 250, "R": 200}[typ[0]]
