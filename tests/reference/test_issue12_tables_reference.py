@@ -38,9 +38,16 @@ def _area(text: str) -> float:
     return parse_size(_awg(t)).area_kcmil
 
 
-def test_supply_side_bonding_jumper_matches_table_250_102_c_1():
-    """NFPA 70-2023 Table 250.102(C)(1), cell by cell (copy names the copies)."""
-    pub = _read("supply_side_bonding_jumper__nfpa70_2023.csv")
+@pytest.mark.parametrize(
+    "copy",
+    [
+        "supply_side_bonding_jumper__nfpa70_2023.csv",  # rows via Table 250.66 and examples
+        "supply_side_bonding_jumper__nfpa70_2017_text.csv",  # NFPA 70-2017 text
+    ],
+)
+def test_supply_side_bonding_jumper_matches_table_250_102_c_1(copy):
+    """NFPA 70 Table 250.102(C)(1), cell by cell (each copy names its source)."""
+    pub = _read(copy)
     ours = load_table("supply_side_bonding_jumper").data
     assert len(pub) == len(ours)
     for (_, p), (_, o) in zip(pub.iterrows(), ours.iterrows(), strict=True):
@@ -64,6 +71,27 @@ def test_supply_side_bonding_jumper_matches_table_250_102_c_1():
             top_al = p["aluminum"].split()[0]
         assert o["cu_up_to_kcmil"] == pytest.approx(_area(top_cu), rel=2e-3)
         assert o["al_up_to_kcmil"] == pytest.approx(_area(top_al), rel=2e-3)
+
+
+def test_supply_side_bonding_jumper_note_1_matches_nfpa70_2017():
+    """NFPA 70-2017 Table 250.102(C)(1) Note 1: above 1100 kcmil Cu / 1750 kcmil Al the
+    jumper has at least 12 1/2 percent of the (equivalent) area, and need not be larger than
+    the largest ungrounded conductor or set (supply_side_bonding_jumper__nfpa70_2017_text.csv)."""
+    from feedcheck.calc.bonding import JumperTable, supply_side_jumper_size
+
+    note = _read("supply_side_bonding_jumper__nfpa70_2017_text.csv").iloc[-1]
+    assert float(note["percent_of_area"]) == 12.5
+    assert note["cap"].startswith("largest ungrounded conductor")
+    rows = load_table("supply_side_bonding_jumper").data
+    last = rows.iloc[-1]
+    assert last["percent_of_area"] == 12.5
+    assert last["row_confidence"] == "published"  # both sentences read in the 2017 text
+    table = JumperTable.from_records(rows.to_dict("records"))
+    for area, sets in ((1250.0, 1), (600.0, 4), (2000.0, 3)):
+        j = supply_side_jumper_size(area, sets, "cu", table)
+        assert j.rule == "percent"
+        assert j.required_kcmil == pytest.approx(0.125 * area * sets)  # Note 1, sentence 1
+        assert j.required_kcmil <= area * sets  # Note 1, sentence 2
 
 
 def test_device_test_power_factor_matches_tsewg_tp6():
