@@ -115,6 +115,11 @@ def test_device_test_power_factor_matches_tsewg_tp6():
             assert float(x_r_from_power_factor(o["test_pf"])) == pytest.approx(
                 o["test_x_r"], rel=2e-3
             )
+    # fuses: the copy gives only the X/R limit 4.9 (EC&M part 2, 'Low-Voltage Fuses'); the
+    # shipped power factor is the one of that X/R, not a figure of its own
+    assert ours.loc["tpf-fuse-lv", "test_pf"] == pytest.approx(
+        1.0 / math.sqrt(1.0 + float(pub.iloc[5]["equivalent_min_x_r"]) ** 2), abs=5e-4
+    )
     # insulated-case rows repeat the molded-case bands (both tested to UL 489)
     for band in ("10ka", "20ka", "over-20ka"):
         a, b = ours.loc[f"tpf-mccb-{band}"], ours.loc[f"tpf-iccb-{band}"]
