@@ -68,7 +68,7 @@ def test_insulation_ratings_match_nfpa70_2017_table_310_104a():
     for typ, pub in copy.items():
         ours = t.loc[typ]
         if float(ours["dry_c"]) != float(pub["dry_c"]):
-            wrong.append(f"{typ} dry: Table 310.104(A) {pub['dry_c']} degC, shipped {ours['dry_c']}")
+            wrong.append(f"{typ} dry: Table 310.104(A) {pub['dry_c']}, shipped {ours['dry_c']}")
         wet = "" if pd.isna(ours["opt_wet_c"]) else f"{float(ours['opt_wet_c']):g}"
         if wet != pub["wet_c"]:
             wrong.append(f"{typ} wet: Table 310.104(A) {pub['wet_c']!r} degC, shipped {wet!r}")
