@@ -83,6 +83,16 @@ def test_insulation_ratings_match_nfpa70_2017_table_310_104a():
         assert t.loc[typ, "row_confidence"].startswith("published"), typ
 
 
+def test_use_insulation_family_matches_ul854_abstract():
+    """UL 854 (abstract): 'Type USE cable has thermoset insulation' (HDPE-over-XL allowed for
+    single conductors); no material is named, so the USE/USE-2 short-circuit limit stays
+    flagged (tests/reference/tables/insulation_types__ul854_abstract.csv)."""
+    t = load_table("insulation_types").data.set_index("type")
+    for row in _copy("insulation_types__ul854_abstract"):
+        assert t.loc[row["type"], "family"] == row["family"], row["type"]
+        assert t.loc[row["type"], "row_confidence"].startswith("from memory — verify")
+
+
 def test_short_circuit_limits_match_nfpa70_2017_table_240_92b():
     """NFPA 70-2017 Table 240.92(B): T2 = 150 °C thermoplastic, 200 °C paper, rubber and
     varnished cloth, 250 °C cross-linked polyethylene, for copper and aluminum alike
