@@ -93,6 +93,28 @@ def test_use_insulation_family_matches_ul854_abstract():
         assert t.loc[row["type"], "row_confidence"].startswith("from memory — verify")
 
 
+def test_schedule_insulation_ratings_match_nfpa70_2017_table_310_104a():
+    """The ratings a schedule's conductor cell gives its insulation words: the lower of the
+    dry and wet ratings of NFPA 70-2017 Table 310.104(A) (dual-rated words: the lowest of
+    the types named); NM and UF at 60 °C (NFPA 70-2017 334.80, 340.80)."""
+    from feedcheck.inputs.schedule_conductor import INSULATION_TYPES
+
+    copy = {r["type"]: r for r in _copy("insulation_types__nfpa70_2017_t310_104a")}
+
+    def lowest(typ: str) -> float:
+        r = copy[typ]
+        return min(float(r["dry_c"]), float(r["wet_c"] or r["dry_c"]))
+
+    checked = 0
+    for word, rating in INSULATION_TYPES.items():
+        if word.startswith(("nm", "uf")):
+            assert rating == 60.0, word  # 334.80, 340.80: 60 °C conductors
+            continue
+        assert rating == min(lowest(t.upper()) for t in word.split("/")), word
+        checked += 1
+    assert checked >= 12
+
+
 def test_short_circuit_limits_match_nfpa70_2017_table_240_92b():
     """NFPA 70-2017 Table 240.92(B): T2 = 150 °C thermoplastic, 200 °C paper, rubber and
     varnished cloth, 250 °C cross-linked polyethylene, for copper and aluminum alike
