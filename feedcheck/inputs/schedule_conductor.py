@@ -4,10 +4,12 @@
 or ``3-#12 CU THWN-2 + #12 G`` (count, size, a grounding conductor marked ``G``/``GND``/
 ``EGC``/``GROUND``). Parts are separated by ``,``, ``;`` or ``+``.
 
-Insulation types give the insulation's temperature rating (NFPA 70-2023 Table 310.4(1),
-from memory: TW, UF 60 °C; THW, THWN, RHW, USE, XHHW (wet) 75 °C; THHN, THWN-2, XHHW-2,
-RHW-2, USE-2 90 °C). NM cable is taken at 60 °C (NFPA 70-2023 334.80: its ampacity is
-that of 60 °C conductors; from memory) and XHHW at 75 °C (its wet rating: the safe one).
+Insulation types give the insulation's temperature rating, the lower of its dry and wet
+ratings (NFPA 70-2017 Table 310.104(A), Table 310.4(A) from 2020; read 2026-12-03, copy in
+tests/reference/tables/insulation_types__nfpa70_2017_t310_104a.csv: TW 60 °C; THW, THWN,
+RHW, USE, XHHW (wet) 75 °C; THHN (dry and damp), THWN-2, XHHW-2, RHW-2, USE-2 90 °C).
+NM and UF cable are taken at 60 °C (NFPA 70-2017 334.80 and 340.80: their ampacity is that
+of 60 °C conductors) and XHHW at 75 °C (its wet rating: the safe one).
 A cell without a material is read as copper and the reader says so (common practice, no
 source: branch circuits under 8 AWG are copper).
 """

@@ -38,9 +38,16 @@ def _area(text: str) -> float:
     return parse_size(_awg(t)).area_kcmil
 
 
-def test_supply_side_bonding_jumper_matches_table_250_102_c_1():
-    """NFPA 70-2023 Table 250.102(C)(1), cell by cell (copy names the copies)."""
-    pub = _read("supply_side_bonding_jumper__nfpa70_2023.csv")
+@pytest.mark.parametrize(
+    "copy",
+    [
+        "supply_side_bonding_jumper__nfpa70_2023.csv",  # rows via Table 250.66 and examples
+        "supply_side_bonding_jumper__nfpa70_2017_text.csv",  # NFPA 70-2017 text
+    ],
+)
+def test_supply_side_bonding_jumper_matches_table_250_102_c_1(copy):
+    """NFPA 70 Table 250.102(C)(1), cell by cell (each copy names its source)."""
+    pub = _read(copy)
     ours = load_table("supply_side_bonding_jumper").data
     assert len(pub) == len(ours)
     for (_, p), (_, o) in zip(pub.iterrows(), ours.iterrows(), strict=True):
@@ -66,6 +73,27 @@ def test_supply_side_bonding_jumper_matches_table_250_102_c_1():
         assert o["al_up_to_kcmil"] == pytest.approx(_area(top_al), rel=2e-3)
 
 
+def test_supply_side_bonding_jumper_note_1_matches_nfpa70_2017():
+    """NFPA 70-2017 Table 250.102(C)(1) Note 1: above 1100 kcmil Cu / 1750 kcmil Al the
+    jumper has at least 12 1/2 percent of the (equivalent) area, and need not be larger than
+    the largest ungrounded conductor or set (supply_side_bonding_jumper__nfpa70_2017_text.csv)."""
+    from feedcheck.calc.bonding import JumperTable, supply_side_jumper_size
+
+    note = _read("supply_side_bonding_jumper__nfpa70_2017_text.csv").iloc[-1]
+    assert float(note["percent_of_area"]) == 12.5
+    assert note["cap"].startswith("largest ungrounded conductor")
+    rows = load_table("supply_side_bonding_jumper").data
+    last = rows.iloc[-1]
+    assert last["percent_of_area"] == 12.5
+    assert last["row_confidence"] == "published"  # both sentences read in the 2017 text
+    table = JumperTable.from_records(rows.to_dict("records"))
+    for area, sets in ((1250.0, 1), (600.0, 4), (2000.0, 3)):
+        j = supply_side_jumper_size(area, sets, "cu", table)
+        assert j.rule == "percent"
+        assert j.required_kcmil == pytest.approx(0.125 * area * sets)  # Note 1, sentence 1
+        assert j.required_kcmil <= area * sets  # Note 1, sentence 2
+
+
 def test_device_test_power_factor_matches_tsewg_tp6():
     """UL 489 / IEEE C37.13 test power factors as tabulated in TSEWG TP-6 (2008) Tables 1, 2."""
     pub = _read("device_test_power_factor__tsewg_tp6_2008.csv")
@@ -87,6 +115,11 @@ def test_device_test_power_factor_matches_tsewg_tp6():
             assert float(x_r_from_power_factor(o["test_pf"])) == pytest.approx(
                 o["test_x_r"], rel=2e-3
             )
+    # fuses: the copy gives only the X/R limit 4.9 (EC&M part 2, 'Low-Voltage Fuses'); the
+    # shipped power factor is the one of that X/R, not a figure of its own
+    assert ours.loc["tpf-fuse-lv", "test_pf"] == pytest.approx(
+        1.0 / math.sqrt(1.0 + float(pub.iloc[5]["equivalent_min_x_r"]) ** 2), abs=5e-4
+    )
     # insulated-case rows repeat the molded-case bands (both tested to UL 489)
     for band in ("10ka", "20ka", "over-20ka"):
         a, b = ours.loc[f"tpf-mccb-{band}"], ours.loc[f"tpf-iccb-{band}"]
@@ -108,7 +141,7 @@ def test_insulation_ratings_match_table_310_16_heads():
     checked = 0
     for typ, row in ours.iterrows():
         if typ not in heads:
-            continue  # MTW, XHHN: rating from memory (row_confidence says so)
+            continue  # MTW, XHHN: not in this copy (see the Table 310.104(A) copy's test)
         ratings = {int(row["dry_c"])}
         if not pd.isna(row["opt_wet_c"]):
             ratings.add(int(row["opt_wet_c"]))
@@ -120,6 +153,7 @@ def test_insulation_ratings_match_table_310_16_heads():
         expect = "thermoplastic" if typ.startswith(("T", "M")) else "thermoset"
         assert row["family"] == expect, typ
         # ICEA P-32-382 limits: 150 °C thermoplastic and 200 °C rubber (Cooper Bussmann SPD,
-        # wire and cable protection), 250 °C cross-linked (two makers' XLPE data sheets);
-        # U types (USE, USE-2) at 250 °C from memory
-        assert row["sc_final_c"] == {"T": 150, "M": 150, "X": 250, "U": 250, "R": 200}[typ[0]]
+        # wire and cable protection; NFPA 70-2017 Table 240.92(B)), 250 °C cross-linked (two
+        # makers' XLPE data sheets; Table 240.92(B)); U types (USE, USE-2): thermoset not
+        # named in Table 310.104(A), so the lowest thermoset limit, 200 °C (Table 240.92(B))
+        assert row["sc_final_c"] == {"T": 150, "M": 150, "X": 250, "U": 200, "R": 200}[typ[0]]

@@ -58,10 +58,14 @@ def _copy_cells(df):
 @pytest.mark.parametrize(
     ("table", "copies"),
     [
-        # NFPA 70 Table 430.250 (1999 Table 430-150; 2008; 2017 catalogue reproduction)
-        ("motor_flc_three_phase", ["paige-1999", "nec2008-scan", "catalogue-2017"]),
-        # NFPA 70 Table 430.248 (1999 Table 430-148; guide sheet derived from it)
-        ("motor_flc_single_phase", ["paige-1999", "guide-sheet"]),
+        # NFPA 70 Table 430.250 (1999 Table 430-150; 2008; 2017 catalogue reproduction;
+        # 2017 text)
+        (
+            "motor_flc_three_phase",
+            ["paige-1999", "nec2008-scan", "catalogue-2017", "nfpa70-2017-text"],
+        ),
+        # NFPA 70 Table 430.248 (1999 Table 430-148; guide sheet derived from it; 2017 text)
+        ("motor_flc_single_phase", ["paige-1999", "guide-sheet", "nfpa70-2017-text"]),
     ],
 )
 def test_motor_flc_tables_match_every_copy(table, copies):
@@ -109,15 +113,33 @@ def test_motor_currents_fall_as_voltage_rises():
         assert np.all(up[~np.isnan(up)] > 0), table
 
 
-def test_device_max_table_matches_copy():
+@pytest.mark.parametrize("copy_name", ["nec2011-copy", "nfpa70-2017-text"])
+def test_device_max_table_matches_copy(copy_name):
     shipped = load_table("motor_branch_device_max").data.set_index("motor_type")
-    # NFPA 70-2011 Table 430.52, as copied
-    copy = _copy("motor_branch_device_max__nec2011-copy").set_index("motor_type")
+    # NFPA 70-2011 Table 430.52 (reproduction) and NFPA 70-2017 Table 430.52 (text), as copied
+    copy = _copy(f"motor_branch_device_max__{copy_name}").set_index("motor_type")
     assert sorted(shipped.index) == sorted(copy.index)
     for col in copy.columns:
-        assert (shipped.loc[copy.index, col] == copy[col]).all(), col
+        bad = shipped.loc[copy.index, col] != copy[col]
+        assert not bad.any(), f"{copy_name} {col}: {list(copy.index[bad])}"
     # single row spot check: NFPA 70 Table 430.52, Design B energy-efficient, instantaneous trip
     assert shipped.loc["design-b-energy-efficient", "instantaneous_breaker_pct"] == 1100
+    # the row's name as the 2017 text prints it (no 'premium efficiency' in that edition)
+    assert shipped.loc["design-b-energy-efficient", "description"].endswith(
+        "Design B energy-efficient"
+    )
+
+
+def test_motor_rule_limits_match_nfpa70_2017_text():
+    """NFPA 70-2017 430.22 (125 %), 430.24 (125 % of the highest rated motor),
+    430.52(C)(1) (the Table 430.52 value) and 430.110(A) (115 %), as printed
+    (tests/reference/tables/motor_rules__nfpa70-2017-text.csv)."""
+    rules = load_table("motor_rules").data.set_index("rule_id")
+    copy = _copy("motor_rules__nfpa70-2017-text")
+    for _, row in copy.iterrows():
+        ours = rules.loc[row["rule_id"]]
+        assert float(ours["limit"]) == float(row["limit"]), row["rule_id"]
+        assert ours["clause"].startswith(row["clause"]), (row["rule_id"], ours["clause"])
 
 
 def test_lighting_unit_loads_match_copies_and_mark_the_rest():

@@ -9,6 +9,7 @@ from __future__ import annotations
 import csv
 from pathlib import Path
 
+import pandas as pd
 import pytest
 
 from feedcheck.tables import CONFIDENCE_LEVELS, confidence_level, load_table, table_names
@@ -30,9 +31,12 @@ def test_xlpe_short_circuit_limit_matches_two_makers():
     for typ in ("XHHW", "XHHW-2", "XHH"):  # X: cross-linked polyethylene
         assert float(t.loc[typ, "sc_final_c"]) == 250.0, typ
         assert t.loc[typ, "row_confidence"].startswith("published"), typ
-    # the rows no copy confirms stay flagged
-    for typ in ("USE", "USE-2", "XHHN", "MTW"):
-        assert t.loc[typ, "row_confidence"].startswith("from memory — verify"), typ
+    # USE, USE-2: no copy names their thermoset, so the lowest thermoset limit of NFPA
+    # 70-2017 Table 240.92(B) is held (200 °C rubber; XLPE/EPR would allow 250 °C): the
+    # worst case for the withstand check, stated as such in the row
+    for typ in ("USE", "USE-2"):
+        assert float(t.loc[typ, "sc_final_c"]) == 200.0, typ
+        assert t.loc[typ, "row_confidence"].startswith("published, conservative"), typ
 
 
 def test_thermoplastic_and_rubber_limits_match_maker_data():
@@ -51,8 +55,87 @@ def test_thermoplastic_and_rubber_limits_match_maker_data():
         assert float(t.loc[typ, "sc_final_c"]) == copy["thermoplastic"], typ
     for typ in ("RHW", "RHW-2", "RHH"):  # R: rubber (thermoset)
         assert float(t.loc[typ, "sc_final_c"]) == copy["rubber"], typ
-    for typ in (*thermoplastic[:-1], "RHW", "RHW-2", "RHH"):  # ratings confirmed too
+    for typ in (*thermoplastic, "RHW", "RHW-2", "RHH"):  # ratings confirmed too
         assert t.loc[typ, "row_confidence"].startswith("published"), typ
+
+
+def test_insulation_ratings_match_nfpa70_2017_table_310_104a():
+    """NFPA 70-2017 Table 310.104(A), cell by cell: each type's rating in dry and in wet
+    locations (blank: dry and damp only) and its insulation family as the Insulation column
+    (or, where it prints none, the trade name) names it
+    (tests/reference/tables/insulation_types__nfpa70_2017_t310_104a.csv)."""
+    copy = {r["type"]: r for r in _copy("insulation_types__nfpa70_2017_t310_104a")}
+    t = load_table("insulation_types").data.set_index("type")
+    assert set(copy) == set(t.index)  # every shipped type is in the copy
+    wrong = []
+    for typ, pub in copy.items():
+        ours = t.loc[typ]
+        if float(ours["dry_c"]) != float(pub["dry_c"]):
+            wrong.append(f"{typ} dry: Table 310.104(A) {pub['dry_c']}, shipped {ours['dry_c']}")
+        wet = "" if pd.isna(ours["opt_wet_c"]) else f"{float(ours['opt_wet_c']):g}"
+        if wet != pub["wet_c"]:
+            wrong.append(f"{typ} wet: Table 310.104(A) {pub['wet_c']!r} degC, shipped {wet!r}")
+        words = (pub["insulation"] or pub["trade_name"]).lower()
+        family = next((f for f in ("thermoplastic", "thermoset") if f in words), None)
+        if family is None:
+            assert typ in ("USE", "USE-2"), typ  # 'heat- and moisture-resistant' only
+        elif ours["family"] != family:
+            wrong.append(f"{typ} family: Table 310.104(A) {words!r}, shipped {ours['family']}")
+    assert not wrong, "\n".join(wrong)
+    for typ in ("MTW", "XHHN"):  # confirmed in this copy (2026-12-03)
+        assert t.loc[typ, "row_confidence"].startswith("published"), typ
+
+
+def test_use_insulation_family_matches_ul854_abstract():
+    """UL 854 (abstract): 'Type USE cable has thermoset insulation' (HDPE-over-XL allowed for
+    single conductors); no material is named, so the USE/USE-2 short-circuit limit stays
+    flagged (tests/reference/tables/insulation_types__ul854_abstract.csv)."""
+    t = load_table("insulation_types").data.set_index("type")
+    for row in _copy("insulation_types__ul854_abstract"):
+        assert t.loc[row["type"], "family"] == row["family"], row["type"]
+        assert t.loc[row["type"], "row_confidence"].startswith("from memory — verify")
+
+
+def test_schedule_insulation_ratings_match_nfpa70_2017_table_310_104a():
+    """The ratings a schedule's conductor cell gives its insulation words: the lower of the
+    dry and wet ratings of NFPA 70-2017 Table 310.104(A) (dual-rated words: the lowest of
+    the types named); NM and UF at 60 °C (NFPA 70-2017 334.80, 340.80)."""
+    from feedcheck.inputs.schedule_conductor import INSULATION_TYPES
+
+    copy = {r["type"]: r for r in _copy("insulation_types__nfpa70_2017_t310_104a")}
+
+    def lowest(typ: str) -> float:
+        r = copy[typ]
+        return min(float(r["dry_c"]), float(r["wet_c"] or r["dry_c"]))
+
+    checked = 0
+    for word, rating in INSULATION_TYPES.items():
+        if word.startswith(("nm", "uf")):
+            assert rating == 60.0, word  # 334.80, 340.80: 60 °C conductors
+            continue
+        assert rating == min(lowest(t.upper()) for t in word.split("/")), word
+        checked += 1
+    assert checked >= 12
+
+
+def test_short_circuit_limits_match_nfpa70_2017_table_240_92b():
+    """NFPA 70-2017 Table 240.92(B): T2 = 150 °C thermoplastic, 200 °C paper, rubber and
+    varnished cloth, 250 °C cross-linked polyethylene, for copper and aluminum alike
+    (tests/reference/tables/insulation_types__nfpa70_2017_t240_92b.csv)."""
+    copy = _copy("insulation_types__nfpa70_2017_t240_92b")
+    by_ins: dict[str, set[float]] = {}
+    for r in copy:
+        by_ins.setdefault(r["insulation"], set()).add(float(r["sc_final_c"]))
+    assert all(len(v) == 1 for v in by_ins.values())  # same T2 for Cu and Al
+    t = load_table("insulation_types").data.set_index("type")
+    expect = {"T": "thermoplastic", "M": "thermoplastic", "X": "cross-linked polyethylene"}
+    expect["R"] = "paper rubber varnished cloth"
+    for typ, row in t.iterrows():
+        if typ in ("USE", "USE-2"):  # thermoset not named: the lowest thermoset T2
+            assert float(row["sc_final_c"]) == min(by_ins["paper rubber varnished cloth"])
+            continue
+        (limit,) = by_ins[expect[typ[0]]]
+        assert float(row["sc_final_c"]) == limit, (typ, limit)
 
 
 @pytest.mark.parametrize("name", table_names())
