@@ -88,12 +88,13 @@ def test_insulation_ratings_match_nfpa70_2017_table_310_104a():
 
 def test_use_insulation_family_matches_ul854_abstract():
     """UL 854 (abstract): 'Type USE cable has thermoset insulation' (HDPE-over-XL allowed for
-    single conductors); no material is named, so the USE/USE-2 short-circuit limit stays
-    flagged (tests/reference/tables/insulation_types__ul854_abstract.csv)."""
+    single conductors); no material is named, so the USE/USE-2 short-circuit limit is the
+    lowest thermoset limit of NFPA 70-2017 Table 240.92(B), marked as the conservative
+    choice (tests/reference/tables/insulation_types__ul854_abstract.csv)."""
     t = load_table("insulation_types").data.set_index("type")
     for row in _copy("insulation_types__ul854_abstract"):
         assert t.loc[row["type"], "family"] == row["family"], row["type"]
-        assert t.loc[row["type"], "row_confidence"].startswith("from memory — verify")
+        assert t.loc[row["type"], "row_confidence"].startswith("published, conservative")
 
 
 def test_schedule_insulation_ratings_match_nfpa70_2017_table_310_104a():
