@@ -177,7 +177,12 @@ def _refuse_nul(text: str, problems: ProblemList) -> None:
     problems.raise_if_any()
 
 
-def _xlsx_guard(raw: bytes, problems: ProblemList) -> None:
+def xlsx_guard(
+    raw: bytes, problems: ProblemList, max_unpacked: int = MAX_XLSX_UNPACKED_BYTES
+) -> None:
+    """Refuse bytes that are not a zip archive, or that unpack beyond ``max_unpacked``
+    bytes, into too many parts, or more than :data:`MAX_XLSX_RATIO` to one (zip bomb
+    guard), before any XML is parsed (used by the schedule and job workbook readers)."""
     import zipfile
 
     try:
@@ -187,11 +192,11 @@ def _xlsx_guard(raw: bytes, problems: ProblemList) -> None:
         problems.raise_if_any()
     infos = zf.infolist()
     total = sum(i.file_size for i in infos)
-    if len(infos) > MAX_XLSX_MEMBERS or total > MAX_XLSX_UNPACKED_BYTES:
+    if len(infos) > MAX_XLSX_MEMBERS or total > max_unpacked:
         problems.add(
             "",
             f"{len(infos)} parts, {total:,} bytes unpacked",
-            f"a workbook unpacking to at most {MAX_XLSX_UNPACKED_BYTES:,} bytes",
+            f"a workbook unpacking to at most {max_unpacked:,} bytes",
         )
     for i in infos:
         if i.file_size > 1_000_000 and i.file_size > MAX_XLSX_RATIO * max(i.compress_size, 1):
@@ -210,7 +215,7 @@ def _read_xlsx(raw: bytes, problems: ProblemList) -> np.ndarray:
 
     import openpyxl
 
-    _xlsx_guard(raw, problems)
+    xlsx_guard(raw, problems)
     try:
         with warnings.catch_warnings():
             warnings.simplefilter("ignore")

@@ -1,0 +1,307 @@
+"""Read a job workbook (XLSX) into the data the job file's TOML reader produces.
+
+The data then goes through the same validation as a job file
+(:func:`feedcheck.inputs.job_file.parse_job_data`); its problems name the key path
+(``run[2].length``, counted from 1 like the elements) and :meth:`Located.where` turns
+that into the place in the workbook: ``sheet 'run', row 3, column 'length'``.
+
+What only a workbook can get wrong is refused here, every problem collected with its
+sheet, row and column: a sheet or key that is no job's (with the nearest name), a key
+twice, a value under no key, an empty row between elements, merged cells, spreadsheet
+errors, a formula with no stored result (formulas are never evaluated: the value a
+spreadsheet program stored is read, as for schedules), a date or number where text is
+expected (:mod:`.workbook_cells`). The file passes the same guards as a schedule
+workbook first (a regular file, its size, the zip bomb guard), with tighter limits.
+"""
+
+from __future__ import annotations
+
+import difflib
+import hashlib
+import io
+import re
+from dataclasses import dataclass, field, replace
+from pathlib import Path
+
+from ..errors import InputError, ProblemList
+from .files import FileKind, FileRefused, read_bytes
+from .workbook_cells import README_SHEET, SHEETS, CellRefused, job_value
+
+MAX_WORKBOOK_BYTES = 5_000_000
+MAX_UNPACKED_BYTES = 20_000_000  # a job of thousands of elements unpacks to a few MB
+MAX_ROWS = 10_000  # elements per sheet
+MAX_COLUMNS = 60
+MAX_PROBLEMS = 50
+WORKBOOK_FILE = FileKind(
+    "job workbook",
+    "(.xlsx)",
+    MAX_WORKBOOK_BYTES,
+    f"a job workbook of at most {MAX_WORKBOOK_BYTES:,} bytes",
+    (".xlsx",),
+    "a job workbook saved as .xlsx",
+)
+_PATH_RE = re.compile(r"^([a-z_]+)(?:\[(\d+)\])?(?:\.(.+))?$")
+
+
+@dataclass
+class Located:
+    """A workbook read into job data, with where each element and key stands."""
+
+    file: str
+    data: dict = field(default_factory=dict)
+    sha256: str = ""
+    sheet_of: dict[str, str] = field(default_factory=dict)  # kind -> sheet name as written
+    rows: dict[str, list[int]] = field(default_factory=dict)  # kind -> row of each element
+    headers: dict[str, dict[str, str]] = field(default_factory=dict)  # kind -> key -> header
+
+    def where(self, path: str) -> str:
+        """``run[2].length`` → ``sheet 'run', row 3, column 'length'`` (unchanged when
+        the path names nothing in the workbook)."""
+        m = _PATH_RE.match(path)
+        if not m or m.group(1) not in SHEETS:
+            return path
+        kind, index, key = m.group(1), m.group(2), m.group(3)
+        parts = [f"sheet {self.sheet_of.get(kind, kind)!r}"]
+        rows = self.rows.get(kind, [])
+        if index is not None and 0 < int(index) <= len(rows):
+            parts.append(f"row {rows[int(index) - 1]}")
+        elif index is None and key is not None and rows:
+            parts.append(f"row {rows[0]}")
+        if key is not None:
+            key = key.split(".", 1)[0]
+            parts.append(f"column {self.headers.get(kind, {}).get(key, key)!r}")
+        return ", ".join(parts)
+
+    def locate(self, exc: InputError) -> InputError:
+        """The same problems, their key paths turned into places in the workbook."""
+        return InputError(
+            [
+                replace(p, where=self.where(p.where), line=None) if p.file == self.file else p
+                for p in exc.problems
+            ]
+        )
+
+
+def read_workbook(path: str | Path) -> Located:
+    """Read a job workbook into job data.
+
+    Raises
+    ------
+    InputError
+        Every problem of the workbook as a workbook (file, sheet, row, column, value,
+        expectation); the job's own validation follows in the caller.
+    """
+    p = Path(path)
+    problems = ProblemList(str(p))
+    try:
+        raw = read_bytes(p, WORKBOOK_FILE)
+        if not raw:
+            raise FileRefused("(empty file)", "a job workbook (see `feedcheck workbook`)")
+    except FileRefused as exc:
+        problems.add("", exc.value, exc.expected)
+        problems.raise_if_any()
+    return workbook_data(raw, str(p))
+
+
+def workbook_data(raw: bytes, file: str) -> Located:
+    """Job data out of the bytes of a workbook (``file`` names it in problems)."""
+    from .schedule_file import xlsx_guard
+
+    problems = ProblemList(file)
+    xlsx_guard(raw, problems, MAX_UNPACKED_BYTES)
+    values, formulas = _open(raw, problems)
+    out = Located(file, sha256=hashlib.sha256(raw).hexdigest())
+    try:
+        for kind, name in _sheet_kinds(values.sheetnames, problems).items():
+            _read_sheet(out, kind, values[name], formulas[name], problems)
+            if len(problems.items) >= MAX_PROBLEMS:
+                break
+    finally:
+        values.close()
+        formulas.close()
+    problems.raise_if_any()
+    return out
+
+
+def _open(raw: bytes, problems: ProblemList):
+    """The workbook twice: stored values, and formulas (to tell a formula cell)."""
+    import warnings
+
+    import openpyxl
+
+    try:
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            values = openpyxl.load_workbook(io.BytesIO(raw), data_only=True)
+            formulas = openpyxl.load_workbook(io.BytesIO(raw), data_only=False)
+    except Exception as exc:  # openpyxl raises several types for a damaged workbook
+        problems.add(
+            "", type(exc).__name__, "an .xlsx workbook that opens in a spreadsheet program"
+        )
+        problems.raise_if_any()
+    return values, formulas
+
+
+def _norm(name: str) -> str:
+    return re.sub(r"[\s-]+", "_", str(name).strip().lower())
+
+
+def _sheet_kinds(names: list[str], problems: ProblemList) -> dict[str, str]:
+    """Each sheet's kind (``transfer switch`` and ``Transfer_Switch`` name the same);
+    the read-me sheet is skipped, any other name refused with the nearest kind."""
+    kinds: dict[str, str] = {}
+    for name in names:
+        kind = _norm(name)
+        if kind == _norm(README_SHEET):
+            continue
+        if kind not in SHEETS:
+            close = difflib.get_close_matches(kind, list(SHEETS), n=1)
+            hint = f" — did you mean {close[0]!r}?" if close else ""
+            problems.add(
+                f"sheet {name!r}",
+                name,
+                "a sheet named after a table of the job: " + ", ".join(SHEETS) + hint,
+            )
+        elif kind in kinds:
+            problems.add(
+                f"sheet {name!r}", name, f"one sheet per table ({kinds[kind]!r} is {kind} too)"
+            )
+        else:
+            kinds[kind] = name
+    return kinds
+
+
+def _stored_cells(ws) -> dict[tuple[int, int], object]:
+    """The cells a sheet stores, by (row, column): only those, never the rectangle that
+    a far-away cell would span (openpyxl keeps them in ``_cells``)."""
+    return {rc: c for rc, c in ws._cells.items() if c.value is not None}
+
+
+def _read_sheet(out: Located, kind: str, ws, wf, problems: ProblemList) -> None:
+    name = ws.title
+    sheet = f"sheet {name!r}"
+    for rng in sorted(str(r) for r in wf.merged_cells.ranges):
+        problems.add(
+            f"{sheet}, cells {rng}", "merged cells", "one value per cell (unmerge the cells)"
+        )
+    cells = _stored_cells(ws)
+    formula = {rc for rc, c in _stored_cells(wf).items() if c.data_type == "f"}
+    cells.update({rc: wf._cells[rc] for rc in formula if rc not in cells})  # no stored value
+    if _beyond_limits(cells, sheet, problems):
+        return
+    header = _header(kind, cells, sheet, problems)
+    keys, many = SHEETS[kind]
+    rows = sorted({r for r, _ in cells if r > 1})
+    _gaps(rows, sheet, problems)
+    if not many and len(rows) > 1:
+        problems.add(
+            f"{sheet}, row {rows[1]}",
+            "a second row",
+            f"one row: the job has one [{kind}] (its keys across row 2)",
+        )
+    out.sheet_of[kind] = name
+    out.headers[kind] = {key: text for key, (_, text) in header.items()}
+    out.rows[kind] = rows
+    column_key = {col: key for key, (col, _) in header.items()}
+    by_row: dict[int, list] = {r: [] for r in rows}
+    for (row, col), c in sorted(cells.items()):
+        if row > 1:
+            by_row[row].append((col, c))
+    elements = []
+    for r in rows:
+        if len(problems.items) >= MAX_PROBLEMS:
+            break
+        element = {}
+        for col, c in by_row[r]:
+            if col not in column_key:
+                problems.add(
+                    f"{sheet}, row {r}, column {_letter(col)}",
+                    _shown(c.value),
+                    "a value under a key of row 1 (this column has none)",
+                )
+                continue
+            key = column_key[col]
+            where = f"{sheet}, row {r}, column {header[key][1]!r}"
+            value = _cell(kind, key, c, (r, col) in formula, problems, where)
+            if value is not None:
+                element[key] = value
+        elements.append(element)
+    if elements:
+        out.data[kind] = elements if many else elements[0]
+
+
+def _cell(kind: str, key: str, c, is_formula: bool, problems: ProblemList, where: str):
+    if is_formula and c.data_type == "f":
+        problems.add(
+            where,
+            str(c.value),
+            "a value: this formula has no stored result (type the value, or open and save "
+            "the workbook in a spreadsheet program; formulas are not evaluated)",
+        )
+        return None
+    try:
+        return job_value(kind, key, c.value, c.data_type, c.number_format or "")
+    except CellRefused as exc:
+        problems.add(where, exc.shown, exc.expected)
+        return None
+
+
+def _beyond_limits(cells: dict, sheet: str, problems: ProblemList) -> bool:
+    far_row = max((r for r, _ in cells), default=0)
+    far_col = max((c for _, c in cells), default=0)
+    if far_row > MAX_ROWS + 1:
+        problems.add(
+            f"{sheet}, row {far_row}", "a value", f"at most {MAX_ROWS:,} rows of elements"
+        )
+    if far_col > MAX_COLUMNS:
+        problems.add(
+            f"{sheet}, column {_letter(far_col)}", "a value", f"at most {MAX_COLUMNS} columns"
+        )
+    return far_row > MAX_ROWS + 1 or far_col > MAX_COLUMNS
+
+
+def _header(kind: str, cells: dict, sheet: str, problems: ProblemList) -> dict:
+    """Row 1: key -> (column, the header as written); unknown and repeated keys refused."""
+    allowed = SHEETS[kind][0]
+    found: dict[str, tuple[int, str]] = {}
+    for (row, col), c in sorted(cells.items()):
+        if row != 1:
+            continue
+        text = c.value if isinstance(c.value, str) else ""
+        where = f"{sheet}, row 1, column {_letter(col)}"
+        key = _norm(text.lstrip("'"))
+        if key not in allowed:
+            close = difflib.get_close_matches(key, allowed, n=1)
+            hint = f" — did you mean {close[0]!r}?" if close else ""
+            problems.add(
+                where, _shown(c.value), f"one of the keys of [{kind}]: " + ", ".join(allowed) + hint
+            )
+        elif key in found:
+            problems.add(where, text, f"each key once (column {_letter(found[key][0])} has it)")
+        else:
+            found[key] = (col, text.strip())
+    return found
+
+
+def _gaps(rows: list[int], sheet: str, problems: ProblemList) -> None:
+    """An empty row between elements is refused (rows below the last are not rows)."""
+    expected = 2
+    for r in rows:
+        if r > expected:
+            span = f"row {expected}" if r == expected + 1 else f"rows {expected}-{r - 1}"
+            problems.add(
+                f"{sheet}, {span}",
+                "(empty row)",
+                "one element per row from row 2, no empty row between (delete it)",
+            )
+        expected = r + 1
+
+
+def _letter(col: int) -> str:
+    from openpyxl.utils import get_column_letter
+
+    return get_column_letter(col)
+
+
+def _shown(value) -> str:
+    return "" if value is None else str(value)
