@@ -121,11 +121,13 @@ def check_cmd(job_file, fmt, out, show_all):
 @click.argument("path", type=click.Path(dir_okay=False), default="job.toml")
 @click.option("--force", is_flag=True, help="Overwrite an existing file.")
 def init_cmd(path, force):
-    """Write a commented job-file template to PATH (default job.toml).
+    """Write a commented job-file template to PATH (default job.toml); a PATH ending
+    in .xlsx gets the same job as a workbook to fill in (see `feedcheck workbook`).
 
     \b
-    Example:
+    Examples:
       feedcheck init site_a.toml && feedcheck check site_a.toml
+      feedcheck init site_a.xlsx && feedcheck check site_a.xlsx
     """
     from pathlib import Path
 
@@ -138,7 +140,13 @@ def init_cmd(path, force):
     if Path(path).exists() and not force:
         click.echo(f"error: {path} exists; use --force to overwrite it", err=True)
         sys.exit(2)
-    write_text_atomic(path, TEMPLATE)
+    if Path(path).suffix.lower() == ".xlsx":
+        from .io_atomic import write_bytes_atomic
+        from .workbook_export import template_workbook
+
+        write_bytes_atomic(path, template_workbook())
+    else:
+        write_text_atomic(path, TEMPLATE)
     click.echo(f"wrote {path} — edit it, then run: feedcheck check {path}")
 
 

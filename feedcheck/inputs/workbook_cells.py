@@ -42,6 +42,7 @@ from .toml_reader import deep_key_line
 README_SHEET = "read me"
 DECIMAL_FORMAT = "0.0"  # a whole number that is a decimal in the job file (1.0)
 DATE_FORMAT = "yyyy-mm-dd"
+DATETIME_FORMAT = "yyyy-mm-dd hh:mm:ss"
 TABLE_KEYS = frozenset({"columns"})  # keys whose value is an inline table
 DATE_KEYS = frozenset({("project", "date"), ("project", "revision")})  # read as text
 
@@ -163,7 +164,9 @@ def cell_value(kind: str, key: str, value):
                 repr(value), "a finite number of at most 16 significant digits (a cell's)"
             )
         return value, DECIMAL_FORMAT if value == int(value) else ""
-    if isinstance(value, dt.datetime):
+    if isinstance(value, dt.datetime):  # a cell holds no time zone nor microseconds
+        if value.tzinfo is None and not value.microsecond:
+            return value, DATETIME_FORMAT
         return _text(str(value)), ""
     if isinstance(value, dt.date):
         return value, DATE_FORMAT

@@ -189,7 +189,7 @@ def _read_sheet(out: Located, kind: str, ws, wf, problems: ProblemList) -> None:
     cells.update({rc: wf._cells[rc] for rc in formula if rc not in cells})  # no stored value
     if _beyond_limits(cells, sheet, problems):
         return
-    header = _header(kind, cells, sheet, problems)
+    header, refused = _header(kind, cells, sheet, problems)
     keys, many = SHEETS[kind]
     rows = sorted({r for r, _ in cells if r > 1})
     _gaps(rows, sheet, problems)
@@ -213,6 +213,8 @@ def _read_sheet(out: Located, kind: str, ws, wf, problems: ProblemList) -> None:
             break
         element = {}
         for col, c in by_row[r]:
+            if col in refused:
+                continue  # under a key refused in row 1: that problem says it
             if col not in column_key:
                 problems.add(
                     f"{sheet}, row {r}, column {_letter(col)}",
@@ -260,16 +262,20 @@ def _beyond_limits(cells: dict, sheet: str, problems: ProblemList) -> bool:
     return far_row > MAX_ROWS + 1 or far_col > MAX_COLUMNS
 
 
-def _header(kind: str, cells: dict, sheet: str, problems: ProblemList) -> dict:
-    """Row 1: key -> (column, the header as written); unknown and repeated keys refused."""
+def _header(kind: str, cells: dict, sheet: str, problems: ProblemList) -> tuple[dict, set]:
+    """Row 1: key -> (column, the header as written), and the columns whose key is
+    refused (unknown or repeated)."""
     allowed = SHEETS[kind][0]
     found: dict[str, tuple[int, str]] = {}
+    refused: set[int] = set()
     for (row, col), c in sorted(cells.items()):
         if row != 1:
             continue
         text = c.value if isinstance(c.value, str) else ""
         where = f"{sheet}, row 1, column {_letter(col)}"
         key = _norm(text.lstrip("'"))
+        if key not in allowed or key in found:
+            refused.add(col)
         if key not in allowed:
             close = difflib.get_close_matches(key, allowed, n=1)
             hint = f" — did you mean {close[0]!r}?" if close else ""
@@ -280,7 +286,7 @@ def _header(kind: str, cells: dict, sheet: str, problems: ProblemList) -> dict:
             problems.add(where, text, f"each key once (column {_letter(found[key][0])} has it)")
         else:
             found[key] = (col, text.strip())
-    return found
+    return found, refused
 
 
 def _gaps(rows: list[int], sheet: str, problems: ProblemList) -> None:
