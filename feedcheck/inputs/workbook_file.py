@@ -154,6 +154,8 @@ def _sheet_kinds(names: list[str], problems: ProblemList) -> dict[str, str]:
         kind = _norm(name)
         if kind == _norm(README_SHEET):
             continue
+        if len(problems.items) >= MAX_PROBLEMS:
+            break
         if kind not in SHEETS:
             close = difflib.get_close_matches(kind, list(SHEETS), n=1)
             hint = f" — did you mean {close[0]!r}?" if close else ""
