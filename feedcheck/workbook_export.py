@@ -45,8 +45,7 @@ HOW_TO = (
     "Add a key: type it in row 1 of a free column. Add an element: fill the next row "
     "(no empty rows between elements). Add a table: a new sheet named after it "
     "(for example motor), with its keys in row 1.",
-    "A panel's columns map is written as in the job file: "
-    '{Ins = "insulation", Notes = "ignore"}.',
+    'A panel\'s columns map is written as in the job file: {Ins = "insulation", Notes = "ignore"}.',
     "Panel schedules stay CSV or XLSX files in this workbook's folder, named by the "
     "panel's schedule key.",
     "No formulas, merged cells or dates (except the project's date): the stored values "
@@ -108,9 +107,7 @@ def _tables(data: dict, problems: ProblemList) -> dict[str, list[dict]]:
 def _keys(kind: str, elements: list[dict]) -> list[str]:
     """The keys the elements use, in the order of the job's key list, others after."""
     used = dict.fromkeys(k for e in elements for k in e)
-    return [k for k in SHEETS[kind][0] if k in used] + [
-        k for k in used if k not in SHEETS[kind][0]
-    ]
+    return [k for k in SHEETS[kind][0] if k in used] + [k for k in used if k not in SHEETS[kind][0]]
 
 
 def _sheet(ws, kind: str, elements: list[dict], problems: ProblemList) -> None:
@@ -177,4 +174,3 @@ def template_workbook() -> bytes:
     from .template import TEMPLATE
 
     return job_workbook(tomllib.loads(TEMPLATE))
-

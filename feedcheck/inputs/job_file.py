@@ -61,6 +61,7 @@ SPREADSHEET_SUFFIXES = (".xls", ".xlsm", ".xlsb", ".ods", ".csv", ".numbers")
 _TEMPERATURE_RATING = "'60 degC', '75 degC' or '90 degC'"
 _INSULATION = "'60 degC', '75 degC', '90 degC' or an insulation type such as 'THHN' or 'XHHW-2'"
 
+
 def read_job(path: str | Path) -> Job:
     """Read, parse and validate a job file (TOML) or job workbook (``.xlsx``).
 

@@ -95,8 +95,7 @@ TEXT_KEYS = frozenset(
 )
 
 TEXT_EXPECTED = (
-    "text (this cell holds {what}: format the cell as Text, or type an apostrophe "
-    "before the value)"
+    "text (this cell holds {what}: format the cell as Text, or type an apostrophe before the value)"
 )
 COLUMNS_EXPECTED = (
     'a column map written as in the job file, e.g. {Ins = "insulation", Notes = "ignore"}'

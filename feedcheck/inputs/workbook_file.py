@@ -192,7 +192,7 @@ def _read_sheet(out: Located, kind: str, ws, wf, problems: ProblemList) -> None:
     if _beyond_limits(cells, sheet, problems):
         return
     header, refused = _header(kind, cells, sheet, problems)
-    keys, many = SHEETS[kind]
+    many = SHEETS[kind][1]
     rows = sorted({r for r, _ in cells if r > 1})
     _gaps(rows, sheet, problems)
     if not many and len(rows) > 1:
@@ -254,9 +254,7 @@ def _beyond_limits(cells: dict, sheet: str, problems: ProblemList) -> bool:
     far_row = max((r for r, _ in cells), default=0)
     far_col = max((c for _, c in cells), default=0)
     if far_row > MAX_ROWS + 1:
-        problems.add(
-            f"{sheet}, row {far_row}", "a value", f"at most {MAX_ROWS:,} rows of elements"
-        )
+        problems.add(f"{sheet}, row {far_row}", "a value", f"at most {MAX_ROWS:,} rows of elements")
     if far_col > MAX_COLUMNS:
         problems.add(
             f"{sheet}, column {_letter(far_col)}", "a value", f"at most {MAX_COLUMNS} columns"

@@ -153,13 +153,37 @@ def _zip(parts: dict[str, bytes]) -> bytes:
 @pytest.mark.parametrize(
     ("name", "data", "expected"),
     [
-        ("job.xlsx", b"[project]\nname = 'x'\n", "got '(not a zip archive)'; expected an .xlsx workbook saved by a spreadsheet program"),
+        (
+            "job.xlsx",
+            b"[project]\nname = 'x'\n",
+            "got '(not a zip archive)'; expected an .xlsx workbook saved by a spreadsheet program",
+        ),
         ("job.xlsx", b"", "got '(empty file)'; expected a job workbook (see `feedcheck workbook`)"),
-        ("job.xlsx", _zip({"a.txt": b"hello"}), "expected an .xlsx workbook that opens in a spreadsheet program"),
-        ("job.xlsx", _zip({"a.txt": b"\0" * 5_000_000}), "expected parts compressed at most 200:1 (zip bomb guard)"),
-        ("job.ods", b"PK", "got 'job.ods'; expected a TOML job file or a job workbook saved as .xlsx"),
-        ("job.xls", b"\xd0\xcf", "got 'job.xls'; expected a TOML job file or a job workbook saved as .xlsx"),
-        ("job.csv", b"a,b\n", "got 'job.csv'; expected a TOML job file or a job workbook saved as .xlsx"),
+        (
+            "job.xlsx",
+            _zip({"a.txt": b"hello"}),
+            "expected an .xlsx workbook that opens in a spreadsheet program",
+        ),
+        (
+            "job.xlsx",
+            _zip({"a.txt": b"\0" * 5_000_000}),
+            "expected parts compressed at most 200:1 (zip bomb guard)",
+        ),
+        (
+            "job.ods",
+            b"PK",
+            "got 'job.ods'; expected a TOML job file or a job workbook saved as .xlsx",
+        ),
+        (
+            "job.xls",
+            b"\xd0\xcf",
+            "got 'job.xls'; expected a TOML job file or a job workbook saved as .xlsx",
+        ),
+        (
+            "job.csv",
+            b"a,b\n",
+            "got 'job.csv'; expected a TOML job file or a job workbook saved as .xlsx",
+        ),
     ],
     ids=["text-named-xlsx", "empty", "zip-not-workbook", "zip-bomb", "ods", "xls", "csv"],
 )
@@ -182,11 +206,27 @@ def test_workbook_over_the_size_limit_is_refused_before_reading(tmp_path, monkey
 
     job = _good(tmp_path / "job.xlsx")
     kind = workbook_file.WORKBOOK_FILE
-    monkeypatch.setattr(workbook_file, "WORKBOOK_FILE", type(kind)(*(
-        (kind.noun, kind.folder_hint, 100, "a job workbook of at most 100 bytes", kind.suffixes, kind.suffix_expected)
-    )))
+    monkeypatch.setattr(
+        workbook_file,
+        "WORKBOOK_FILE",
+        type(kind)(
+            *(
+                (
+                    kind.noun,
+                    kind.folder_hint,
+                    100,
+                    "a job workbook of at most 100 bytes",
+                    kind.suffixes,
+                    kind.suffix_expected,
+                )
+            )
+        ),
+    )
     (line,) = assert_rejected(cli("check", job), n=1)
-    assert line == f"error: {job}: got '{job.stat().st_size} bytes'; expected a job workbook of at most 100 bytes"
+    assert (
+        line
+        == f"error: {job}: got '{job.stat().st_size} bytes'; expected a job workbook of at most 100 bytes"
+    )
 
 
 def _with_stored_formula(path):
@@ -224,7 +264,9 @@ def test_workbooks_a_spreadsheet_program_makes_are_read(tmp_path):
     _with_stored_formula(job)
     toml = tmp_path / "job.toml"
     toml.write_text(
-        GOOD.replace("sets = 1", "sets = 2").replace('prepared_by = "Test fixture"', 'prepared_by = "Test fixture"\ndate = 2026-11-30'),
+        GOOD.replace("sets = 1", "sets = 2").replace(
+            'prepared_by = "Test fixture"', 'prepared_by = "Test fixture"\ndate = 2026-11-30'
+        ),
         encoding="utf-8",
     )
     a, b = cli("check", toml, "--format", "json"), cli("check", job, "--format", "json")
