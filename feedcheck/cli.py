@@ -38,6 +38,7 @@ def main(tables_dir):
       feedcheck init my_job.toml          write a commented job template
       feedcheck check my_job.toml         check a job; summary in the terminal
       feedcheck check my_job.toml --format json > results.json
+      feedcheck workbook my_job.toml      the job as a workbook (check it as my_job.xlsx)
       feedcheck tables                    list the data tables and their sources
       feedcheck calc rated-current --rating 75kVA --voltage 208V
 
@@ -83,12 +84,13 @@ def _check_out_folder(value):
 @click.option("--all", "show_all", is_flag=True, help="Also list passing and info findings.")
 @handle_input_errors
 def check_cmd(job_file, fmt, out, show_all):
-    """Check every element of a job file.
+    """Check every element of a job file (TOML, or a job workbook .xlsx).
 
     \b
     Examples:
       feedcheck check sample_jobs/harbor_kitchen.toml
       feedcheck check job.toml --format json --out results.json
+      feedcheck check job.xlsx
     Exit code 0: no failing check; 1: a check failed; 2: the input is invalid;
     130: interrupted.
     """

@@ -177,14 +177,14 @@ def _refuse_nul(text: str, problems: ProblemList) -> None:
     problems.raise_if_any()
 
 
-def xlsx_guard(
-    raw: bytes, problems: ProblemList, max_unpacked: int = MAX_XLSX_UNPACKED_BYTES
-) -> None:
+def xlsx_guard(raw: bytes, problems: ProblemList, max_unpacked: int | None = None) -> None:
     """Refuse bytes that are not a zip archive, or that unpack beyond ``max_unpacked``
     bytes, into too many parts, or more than :data:`MAX_XLSX_RATIO` to one (zip bomb
     guard), before any XML is parsed (used by the schedule and job workbook readers)."""
     import zipfile
 
+    if max_unpacked is None:
+        max_unpacked = MAX_XLSX_UNPACKED_BYTES
     try:
         zf = zipfile.ZipFile(io.BytesIO(raw))
     except zipfile.BadZipFile:
