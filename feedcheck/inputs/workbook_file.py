@@ -21,16 +21,19 @@ import hashlib
 import io
 import re
 from dataclasses import dataclass, field, replace
+from itertools import zip_longest
 from pathlib import Path
+from typing import NamedTuple
 
 from ..errors import InputError, ProblemList
 from .files import FileKind, FileRefused, read_bytes
 from .workbook_cells import README_SHEET, SHEETS, CellRefused, job_value
 
 MAX_WORKBOOK_BYTES = 5_000_000
-MAX_UNPACKED_BYTES = 20_000_000  # a job of thousands of elements unpacks to a few MB
-MAX_ROWS = 10_000  # elements per sheet
+MAX_UNPACKED_BYTES = 10_000_000  # a job of a thousand panels unpacks to well under 1 MB
+MAX_ROWS = 5_000  # elements per sheet (a building-scale job has about a thousand runs)
 MAX_COLUMNS = 60
+MAX_CELLS = 150_000  # filled cells in the workbook
 MAX_PROBLEMS = 50
 WORKBOOK_FILE = FileKind(
     "job workbook",
@@ -53,6 +56,7 @@ class Located:
     sheet_of: dict[str, str] = field(default_factory=dict)  # kind -> sheet name as written
     rows: dict[str, list[int]] = field(default_factory=dict)  # kind -> row of each element
     headers: dict[str, dict[str, str]] = field(default_factory=dict)  # kind -> key -> header
+    filled: int = 0  # filled cells read so far
 
     def where(self, path: str) -> str:
         """``run[2].length`` → ``sheet 'run', row 3, column 'length'`` (unchanged when
@@ -112,8 +116,9 @@ def workbook_data(raw: bytes, file: str) -> Located:
     values, formulas = _open(raw, problems)
     out = Located(file, sha256=hashlib.sha256(raw).hexdigest())
     try:
-        for kind, name in _sheet_kinds(values.sheetnames, problems).items():
-            _read_sheet(out, kind, values[name], formulas[name], problems)
+        names = [ws.title for ws in values.worksheets]  # a chart sheet holds no values
+        for kind, name in _sheet_kinds(names, problems).items():
+            _read_sheet(out, kind, (values[name], formulas[name], raw), problems)
             if len(problems.items) >= MAX_PROBLEMS:
                 break
     finally:
@@ -124,7 +129,8 @@ def workbook_data(raw: bytes, file: str) -> Located:
 
 
 def _open(raw: bytes, problems: ProblemList):
-    """The workbook twice: stored values, and formulas (to tell a formula cell)."""
+    """The workbook twice, read as a stream (read-only): stored values, and formulas
+    (to tell a formula cell)."""
     import warnings
 
     import openpyxl
@@ -132,8 +138,8 @@ def _open(raw: bytes, problems: ProblemList):
     try:
         with warnings.catch_warnings():
             warnings.simplefilter("ignore")
-            values = openpyxl.load_workbook(io.BytesIO(raw), data_only=True)
-            formulas = openpyxl.load_workbook(io.BytesIO(raw), data_only=False)
+            values = openpyxl.load_workbook(io.BytesIO(raw), read_only=True, data_only=True)
+            formulas = openpyxl.load_workbook(io.BytesIO(raw), read_only=True, data_only=False)
     except Exception as exc:  # openpyxl raises several types for a damaged workbook
         problems.add(
             "", type(exc).__name__, "an .xlsx workbook that opens in a spreadsheet program"
@@ -173,23 +179,101 @@ def _sheet_kinds(names: list[str], problems: ProblemList) -> dict[str, str]:
     return kinds
 
 
-def _stored_cells(ws) -> dict[tuple[int, int], object]:
-    """The cells a sheet stores, by (row, column): only those, never the rectangle that
-    a far-away cell would span (openpyxl keeps them in ``_cells``)."""
-    return {rc: c for rc, c in ws._cells.items() if c.value is not None}
+class Stored(NamedTuple):
+    """One stored cell: its value (a formula's stored result), openpyxl's data type, its
+    number format, and whether it holds a formula."""
+
+    value: object
+    data_type: str
+    number_format: str
+    formula: bool
 
 
-def _read_sheet(out: Located, kind: str, ws, wf, problems: ProblemList) -> None:
+def _stored_cells(
+    ws, wf, sheet: str, problems: ProblemList, room: int
+) -> dict[tuple[int, int], Stored] | None:
+    """The cells holding a value or a formula, by (row, column), read row by row from the
+    stored values (``ws``) and formulas (``wf``, None: the sheet has none); the stored
+    size of the sheet is not trusted. A value beyond the limits (``room``: the filled
+    cells still allowed) ends the reading, the limit named (None)."""
+    ws.reset_dimensions()
+    cells: dict[tuple[int, int], Stored] = {}
+    if wf is not None:
+        wf.reset_dimensions()
+    formulas = wf.iter_rows() if wf is not None else ()
+    rows = zip_longest(ws.iter_rows(), formulas, fillvalue=())
+    for r, (row_v, row_f) in enumerate(rows, start=1):
+        for c, (cv, cf) in enumerate(zip_longest(row_v, row_f), start=1):
+            value = getattr(cv, "value", None)
+            formula = getattr(cf, "data_type", "") == "f"
+            if value is None and not formula:
+                continue
+            if r > MAX_ROWS + 1 or c > MAX_COLUMNS or len(cells) >= room:
+                problems.add(*_limit(sheet, r, c))
+                return None
+            if value is None:  # a formula a spreadsheet program never stored a result for
+                cells[r, c] = Stored(cf.value, "f", "", True)
+            else:
+                cells[r, c] = Stored(value, cv.data_type, cv.number_format or "", formula)
+    return cells
+
+
+def _limit(sheet: str, r: int, c: int) -> tuple[str, str, str]:
+    if r > MAX_ROWS + 1:
+        return f"{sheet}, row {r}", "a value", f"at most {MAX_ROWS:,} rows of elements"
+    if c > MAX_COLUMNS:
+        return f"{sheet}, column {_letter(c)}", "a value", f"at most {MAX_COLUMNS} columns"
+    return (
+        f"{sheet}, row {r}",
+        f"more than {MAX_CELLS:,} filled cells",
+        f"at most {MAX_CELLS:,} filled cells in the workbook",
+    )
+
+
+def _sheet_part(raw: bytes, ws) -> bytes:
+    """The XML of a read-only sheet, from its part of the archive (openpyxl keeps the
+    part's name in ``_worksheet_path``): a read-only sheet lists no merged cells."""
+    import zipfile
+
+    with zipfile.ZipFile(io.BytesIO(raw)) as z:
+        try:
+            return z.read(ws._worksheet_path)
+        except KeyError:
+            return b""
+
+
+_FORMULA_TAG = re.compile(rb"<(?:\w+:)?f[\s>/]")
+
+
+def _merged(data: bytes) -> list[str]:
+    """The merged ranges (``A2:B2``) of a sheet's XML."""
+    import xml.etree.ElementTree as ET
+
+    if b"mergeCell" not in data:
+        return []
+    found = []
+    for _, el in ET.iterparse(io.BytesIO(data)):
+        if el.tag.rsplit("}", 1)[-1] == "mergeCell" and el.get("ref"):
+            found.append(el.get("ref"))
+        el.clear()
+    return sorted(found)
+
+
+def _read_sheet(out: Located, kind: str, sheets, problems: ProblemList) -> None:
+    ws, wf, raw = sheets
     name = ws.title
     sheet = f"sheet {name!r}"
-    for rng in sorted(str(r) for r in wf.merged_cells.ranges):
+    if out.filled > MAX_CELLS:
+        return  # the limit is named at the sheet where it was passed
+    part = _sheet_part(raw, ws)
+    for rng in _merged(part):
         problems.add(
             f"{sheet}, cells {rng}", "merged cells", "one value per cell (unmerge the cells)"
         )
-    cells = _stored_cells(ws)
-    formula = {rc for rc, c in _stored_cells(wf).items() if c.data_type == "f"}
-    cells.update({rc: wf._cells[rc] for rc in formula if rc not in cells})  # no stored value
-    if _beyond_limits(cells, sheet, problems):
+    wf = wf if _FORMULA_TAG.search(part) or not part else None  # a second pass for formulas
+    cells = _stored_cells(ws, wf, sheet, problems, MAX_CELLS - out.filled)
+    out.filled = out.filled + len(cells) if cells is not None else MAX_CELLS + 1
+    if not cells:
         return
     header, refused = _header(kind, cells, sheet, problems)
     many = SHEETS[kind][1]
@@ -226,7 +310,7 @@ def _read_sheet(out: Located, kind: str, ws, wf, problems: ProblemList) -> None:
                 continue
             key = column_key[col]
             where = f"{sheet}, row {r}, column {header[key][1]!r}"
-            value = _cell(kind, key, c, (r, col) in formula, problems, where)
+            value = _cell(kind, key, c, problems, where)
             if value is not None:
                 element[key] = value
         elements.append(element)
@@ -234,8 +318,8 @@ def _read_sheet(out: Located, kind: str, ws, wf, problems: ProblemList) -> None:
         out.data[kind] = elements if many else elements[0]
 
 
-def _cell(kind: str, key: str, c, is_formula: bool, problems: ProblemList, where: str):
-    if is_formula and c.data_type == "f":
+def _cell(kind: str, key: str, c: Stored, problems: ProblemList, where: str):
+    if c.formula and c.data_type == "f":
         problems.add(
             where,
             str(c.value),
@@ -244,22 +328,10 @@ def _cell(kind: str, key: str, c, is_formula: bool, problems: ProblemList, where
         )
         return None
     try:
-        return job_value(kind, key, c.value, c.data_type, c.number_format or "")
+        return job_value(kind, key, c.value, c.data_type, c.number_format)
     except CellRefused as exc:
         problems.add(where, exc.shown, exc.expected)
         return None
-
-
-def _beyond_limits(cells: dict, sheet: str, problems: ProblemList) -> bool:
-    far_row = max((r for r, _ in cells), default=0)
-    far_col = max((c for _, c in cells), default=0)
-    if far_row > MAX_ROWS + 1:
-        problems.add(f"{sheet}, row {far_row}", "a value", f"at most {MAX_ROWS:,} rows of elements")
-    if far_col > MAX_COLUMNS:
-        problems.add(
-            f"{sheet}, column {_letter(far_col)}", "a value", f"at most {MAX_COLUMNS} columns"
-        )
-    return far_row > MAX_ROWS + 1 or far_col > MAX_COLUMNS
 
 
 def _header(kind: str, cells: dict, sheet: str, problems: ProblemList) -> tuple[dict, set]:

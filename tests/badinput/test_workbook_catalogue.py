@@ -107,7 +107,7 @@ CASES = [
     ("columns-extra-key", lambda wb: (_set("panel", "I1", "columns")(wb), _set("panel", "I2", '{Ins = "insulation"}\nx = 1')(wb)),
      [f"sheet 'panel', row 2, column 'columns' got '{{Ins = \"insulation\"}}\\nx = 1'; expected {COLUMNS_EXPECTED}"]),
     ("far-row", _set("run", "A20000", "W-Z"),
-     ["sheet 'run', row 20000 got 'a value'; expected at most 10,000 rows of elements"]),
+     ["sheet 'run', row 20000 got 'a value'; expected at most 5,000 rows of elements"]),
     ("far-column", _set("run", "BZ2", "x"),
      ["sheet 'run', column BZ got 'a value'; expected at most 60 columns"]),
     # the job's own validation, placed at the cell
@@ -227,6 +227,34 @@ def test_workbook_over_the_size_limit_is_refused_before_reading(tmp_path, monkey
         line
         == f"error: {job}: got '{job.stat().st_size} bytes'; expected a job workbook of at most 100 bytes"
     )
+
+
+def test_filled_cells_beyond_the_limit_end_the_reading(tmp_path, monkeypatch):
+    from feedcheck.inputs import workbook_file
+
+    monkeypatch.setattr(workbook_file, "MAX_CELLS", 30)
+    job = _good(tmp_path / "job.xlsx")
+    (line,) = assert_rejected(cli("check", job), n=1)
+    assert line.startswith(f"error: {job}: sheet 'run', row ") and line.endswith(
+        "filled cells'; expected at most 30 filled cells in the workbook"
+    ), line
+
+
+def test_sheet_with_a_forged_small_dimension_is_read_whole(tmp_path):
+    """The stored size of a sheet (``<dimension ref="A1:A1"/>``) is not trusted."""
+    job = _good(tmp_path / "job.xlsx")
+    _edit(job, _set("run", "D3", "140 fx"))
+    with zipfile.ZipFile(job) as z:
+        parts = {i.filename: z.read(i.filename) for i in z.infolist()}
+    name = f"xl/worksheets/sheet{openpyxl.load_workbook(job).sheetnames.index('run') + 1}.xml"
+    xml = parts[name].decode()
+    start = xml.index("<dimension ref=")
+    parts[name] = (
+        xml[:start] + '<dimension ref="A1:A1" />' + xml[xml.index("/>", start) + 2 :]
+    ).encode()
+    job.write_bytes(_zip(parts))
+    (line,) = assert_rejected(cli("check", job), n=1)
+    assert "sheet 'run', row 3, column 'length' got '140 fx'" in line
 
 
 def _with_stored_formula(path):
