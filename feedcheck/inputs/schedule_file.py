@@ -190,6 +190,13 @@ def xlsx_guard(raw: bytes, problems: ProblemList, max_unpacked: int | None = Non
     except zipfile.BadZipFile:
         problems.add("", "(not a zip archive)", "an .xlsx workbook saved by a spreadsheet program")
         problems.raise_if_any()
+    except Exception as exc:  # a damaged directory: unknown versions, bad offsets, …
+        problems.add(
+            "",
+            f"(a damaged zip archive: {type(exc).__name__})",
+            "an .xlsx workbook saved by a spreadsheet program",
+        )
+        problems.raise_if_any()
     infos = zf.infolist()
     total = sum(i.file_size for i in infos)
     if len(infos) > MAX_XLSX_MEMBERS or total > max_unpacked:

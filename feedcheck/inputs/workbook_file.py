@@ -259,19 +259,34 @@ def _merged(data: bytes) -> list[str]:
     return sorted(found)
 
 
+def _sheet_cells(ws, wf, raw: bytes, sheet: str, problems: ProblemList, room: int):
+    """The sheet's merged ranges refused and its stored cells (None past a limit); a
+    damaged part of the archive (the sheets are unpacked and parsed only now) is refused
+    with the sheet named."""
+    try:
+        part = _sheet_part(raw, ws)
+        for rng in _merged(part):
+            problems.add(
+                f"{sheet}, cells {rng}", "merged cells", "one value per cell (unmerge the cells)"
+            )
+        wf = wf if _FORMULA_TAG.search(part) or not part else None  # formulas: a second pass
+        return _stored_cells(ws, wf, sheet, problems, room)
+    except Exception as exc:  # zip, deflate and XML errors of many kinds in a damaged part
+        problems.add(
+            sheet,
+            type(exc).__name__,
+            "a sheet that opens in a spreadsheet program (this part of the workbook is damaged)",
+        )
+        return {}
+
+
 def _read_sheet(out: Located, kind: str, sheets, problems: ProblemList) -> None:
     ws, wf, raw = sheets
     name = ws.title
     sheet = f"sheet {name!r}"
     if out.filled > MAX_CELLS:
         return  # the limit is named at the sheet where it was passed
-    part = _sheet_part(raw, ws)
-    for rng in _merged(part):
-        problems.add(
-            f"{sheet}, cells {rng}", "merged cells", "one value per cell (unmerge the cells)"
-        )
-    wf = wf if _FORMULA_TAG.search(part) or not part else None  # a second pass for formulas
-    cells = _stored_cells(ws, wf, sheet, problems, MAX_CELLS - out.filled)
+    cells = _sheet_cells(ws, wf, raw, sheet, problems, MAX_CELLS - out.filled)
     out.filled = out.filled + len(cells) if cells is not None else MAX_CELLS + 1
     if not cells:
         return

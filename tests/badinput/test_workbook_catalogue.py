@@ -194,6 +194,26 @@ def test_not_a_job_workbook(tmp_path, name, data, expected):
     assert line.startswith(f"error: {job}: ") and line.endswith(expected), line
 
 
+def _zip_needing_version_7_1() -> bytes:
+    data = bytearray(job_workbook(tomllib.loads(GOOD)))
+    i = data.index(b"PK\x01\x02")  # the first entry of the central directory
+    data[i + 6] = 71  # "version needed to extract": 7.1, which no reader here supports
+    return bytes(data)
+
+
+@pytest.mark.parametrize("command", [["check"], ["schedule", "--system", "208Y/120 V"]])
+def test_damaged_zip_directory_is_an_input_error_not_a_fault(tmp_path, command):
+    """Found by tests/fuzz/fuzz_workbook.py: the zip reader's NotImplementedError was an
+    internal error (exit 3) for a job workbook and a schedule workbook alike."""
+    p = tmp_path / "PA.xlsx"
+    p.write_bytes(_zip_needing_version_7_1())
+    (line,) = assert_rejected(cli(*command, p), n=1)
+    assert line == (
+        f"error: {p}: got '(a damaged zip archive: NotImplementedError)'; expected an .xlsx "
+        "workbook saved by a spreadsheet program"
+    )
+
+
 def test_a_folder_named_like_a_workbook(tmp_path):
     job = tmp_path / "job.xlsx"
     job.mkdir()
