@@ -41,15 +41,17 @@ HOW_TO = (
     "harmonic_neutral is TRUE or FALSE.",
     "An empty cell means the key is not given (its default applies). A lone apostrophe "
     "(') is an empty text; a text that starts like a formula (-2.5 %, =, +, @) is kept "
-    "with one leading apostrophe, which is not part of the value.",
+    "with one leading apostrophe, which is not part of the value. Type a signed tap with "
+    "an apostrophe too ('+2.5 %): a spreadsheet would otherwise store the number 0.025 "
+    "and drop the sign.",
     "Add a key: type it in row 1 of a free column. Add an element: fill the next row "
     "(no empty rows between elements). Add a table: a new sheet named after it "
     "(for example motor), with its keys in row 1.",
     'A panel\'s columns map is written as in the job file: {Ins = "insulation", Notes = "ignore"}.',
     "Panel schedules stay CSV or XLSX files in this workbook's folder, named by the "
     "panel's schedule key.",
-    "No formulas, merged cells or dates (except the project's date): the stored values "
-    "are read, never computed. This sheet is not read.",
+    "Formulas are not computed: the result the spreadsheet stored is read. Merged cells "
+    "and dates (except the project's date) are refused. This sheet is not read.",
     "Check it with: feedcheck check THIS.xlsx (every command that takes a job file takes "
     "the workbook).",
 )
