@@ -38,6 +38,7 @@ def main(tables_dir):
       feedcheck init my_job.toml          write a commented job template
       feedcheck check my_job.toml         check a job; summary in the terminal
       feedcheck check my_job.toml --format json > results.json
+      feedcheck workbook my_job.toml      the job as a workbook (check it as my_job.xlsx)
       feedcheck tables                    list the data tables and their sources
       feedcheck calc rated-current --rating 75kVA --voltage 208V
 
@@ -83,12 +84,13 @@ def _check_out_folder(value):
 @click.option("--all", "show_all", is_flag=True, help="Also list passing and info findings.")
 @handle_input_errors
 def check_cmd(job_file, fmt, out, show_all):
-    """Check every element of a job file.
+    """Check every element of a job file (TOML, or a job workbook .xlsx).
 
     \b
     Examples:
       feedcheck check sample_jobs/harbor_kitchen.toml
       feedcheck check job.toml --format json --out results.json
+      feedcheck check job.xlsx
     Exit code 0: no failing check; 1: a check failed; 2: the input is invalid;
     130: interrupted.
     """
@@ -121,11 +123,13 @@ def check_cmd(job_file, fmt, out, show_all):
 @click.argument("path", type=click.Path(dir_okay=False), default="job.toml")
 @click.option("--force", is_flag=True, help="Overwrite an existing file.")
 def init_cmd(path, force):
-    """Write a commented job-file template to PATH (default job.toml).
+    """Write a commented job-file template to PATH (default job.toml); a PATH ending
+    in .xlsx gets the same job as a workbook to fill in (see `feedcheck workbook`).
 
     \b
-    Example:
+    Examples:
       feedcheck init site_a.toml && feedcheck check site_a.toml
+      feedcheck init site_a.xlsx && feedcheck check site_a.xlsx
     """
     from pathlib import Path
 
@@ -138,7 +142,13 @@ def init_cmd(path, force):
     if Path(path).exists() and not force:
         click.echo(f"error: {path} exists; use --force to overwrite it", err=True)
         sys.exit(2)
-    write_text_atomic(path, TEMPLATE)
+    if Path(path).suffix.lower() == ".xlsx":
+        from .io_atomic import write_bytes_atomic
+        from .workbook_export import template_workbook
+
+        write_bytes_atomic(path, template_workbook())
+    else:
+        write_text_atomic(path, TEMPLATE)
     click.echo(f"wrote {path} — edit it, then run: feedcheck check {path}")
 
 

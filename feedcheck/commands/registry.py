@@ -19,6 +19,7 @@ def register(main, calc) -> None:
         labels,
         report,
         schedule,
+        workbook,
     )
 
     for group, command in (
@@ -34,5 +35,6 @@ def register(main, calc) -> None:
         (main, extract.extract_command),
         (main, compare.compare_command),
         (main, labels.labels_command),
+        (main, workbook.workbook_command),
     ):
         group.add_command(command)

@@ -15,7 +15,7 @@ import tomllib
 from dataclasses import replace
 from pathlib import Path
 
-from ..errors import ProblemList
+from ..errors import InputError, ProblemList
 from ..model import (
     INSULATION_RATINGS_C,
     PRIMARY_DEVICE_KINDS,
@@ -36,6 +36,7 @@ from .element_keys import phases_connected as _phases_connected
 from .element_keys import tap_pct as _tap
 from .feed_rules import check_feed, check_series, check_voltages
 from .files import FileKind, FileRefused, decode_utf8, read_bytes
+from .job_keys import OPTION_KEYS, PROJECT_KEYS, RUN_KEYS, TOP_KEYS, TRANSFORMER_KEYS
 from .motor_keys import read_motor, table_currents
 from .panel_reader import read_panel
 from .ranges import CLEARING, DEVICE
@@ -55,69 +56,14 @@ MAX_JOB_BYTES = 2_000_000
 JOB_FILE = FileKind(
     "job file", "(.toml)", MAX_JOB_BYTES, f"a job file under {MAX_JOB_BYTES // 1_000_000} MB"
 )
+# spreadsheets a job cannot be read from (a workbook is read as .xlsx only)
+SPREADSHEET_SUFFIXES = (".xls", ".xlsm", ".xlsb", ".ods", ".csv", ".numbers")
 _TEMPERATURE_RATING = "'60 degC', '75 degC' or '90 degC'"
 _INSULATION = "'60 degC', '75 degC', '90 degC' or an insulation type such as 'THHN' or 'XHHW-2'"
 
-PROJECT_KEYS = ("name", "site", "prepared_by", "date", "revision", "rules", "notes")
-TRANSFORMER_KEYS = (
-    "id",
-    "from",
-    "rating",
-    "primary",
-    "secondary",
-    "impedance",
-    "x_r",
-    "primary_device",
-    "secondary_device",
-    "tap",
-    "zero_sequence_ratio",
-    "phases_connected",
-    "primary_device_type",
-)
-RUN_KEYS = (
-    "id",
-    "from",
-    "to",
-    "length",
-    "conductors",
-    "sets",
-    "insulation",
-    "raceway",
-    "ambient",
-    "current_carrying",
-    "ground",
-    "device",
-    "termination",
-    "rooftop_height",
-    "harmonic_neutral",
-    "clearing_time",
-    "tap_rule",
-    "bonding_jumper",
-    "neutral",
-)
-OPTION_KEYS = (
-    "impedance_tolerance",
-    "voltage_factor",
-    "voltage_drop",
-    "feeder_drop",
-    "branch_drop",
-    "total_drop",
-)
-TOP_KEYS = (
-    "project",
-    "source",
-    "transformer",
-    "run",
-    "panel",
-    "motor",
-    "options",
-    "generator",
-    "transfer_switch",
-)
-
 
 def read_job(path: str | Path) -> Job:
-    """Read, parse and validate a job file.
+    """Read, parse and validate a job file (TOML) or job workbook (``.xlsx``).
 
     Returns
     -------
@@ -127,10 +73,41 @@ def read_job(path: str | Path) -> Job:
     Raises
     ------
     InputError
-        Listing every problem found (file, key path, line, value, expectation).
+        Listing every problem found (file, key path and line, or sheet, row and
+        column; value; expectation).
     """
     p = Path(path)
+    if p.suffix.lower() == ".xlsx":
+        from .workbook_file import read_workbook
+
+        book = read_workbook(p)
+        try:
+            job = parse_job_data(book.data, "", p)
+        except InputError as exc:
+            raise book.locate(exc) from None
+        return replace(job, file_sha256=book.sha256)
+    data, text, raw = read_toml(p)
+    job = parse_job_data(data, text, p)
+    return replace(job, file_sha256=hashlib.sha256(raw).hexdigest())
+
+
+def read_job_data(path: str | Path) -> dict:
+    """The job's data as its reader parses it (TOML or workbook), not yet validated."""
+    p = Path(path)
+    if p.suffix.lower() == ".xlsx":
+        from .workbook_file import read_workbook
+
+        return read_workbook(p).data
+    return read_toml(p)[0]
+
+
+def read_toml(p: Path) -> tuple[dict, str, bytes]:
+    """A job file's parsed TOML, its text and its bytes (guarded: a regular file, its
+    size, UTF-8, keys of a few parts, TOML syntax)."""
     pl = ProblemList(str(p))
+    if p.suffix.lower() in SPREADSHEET_SUFFIXES:
+        pl.add("", p.name, "a TOML job file or a job workbook saved as .xlsx")
+        pl.raise_if_any()
     try:
         raw = read_bytes(p, JOB_FILE)
         if not raw.strip():
@@ -161,8 +138,7 @@ def read_job(path: str | Path) -> Job:
             line=int(m.group(1)) if m else None,
         )
         pl.raise_if_any()
-    job = parse_job_data(data, text, p)
-    return replace(job, file_sha256=hashlib.sha256(raw).hexdigest())
+    return data, text, raw
 
 
 def parse_job_data(data: dict, text: str, job_path: Path) -> Job:

@@ -177,21 +177,33 @@ def _refuse_nul(text: str, problems: ProblemList) -> None:
     problems.raise_if_any()
 
 
-def _xlsx_guard(raw: bytes, problems: ProblemList) -> None:
+def xlsx_guard(raw: bytes, problems: ProblemList, max_unpacked: int | None = None) -> None:
+    """Refuse bytes that are not a zip archive, or that unpack beyond ``max_unpacked``
+    bytes, into too many parts, or more than :data:`MAX_XLSX_RATIO` to one (zip bomb
+    guard), before any XML is parsed (used by the schedule and job workbook readers)."""
     import zipfile
 
+    if max_unpacked is None:
+        max_unpacked = MAX_XLSX_UNPACKED_BYTES
     try:
         zf = zipfile.ZipFile(io.BytesIO(raw))
     except zipfile.BadZipFile:
         problems.add("", "(not a zip archive)", "an .xlsx workbook saved by a spreadsheet program")
         problems.raise_if_any()
+    except Exception as exc:  # a damaged directory: unknown versions, bad offsets, …
+        problems.add(
+            "",
+            f"(a damaged zip archive: {type(exc).__name__})",
+            "an .xlsx workbook saved by a spreadsheet program",
+        )
+        problems.raise_if_any()
     infos = zf.infolist()
     total = sum(i.file_size for i in infos)
-    if len(infos) > MAX_XLSX_MEMBERS or total > MAX_XLSX_UNPACKED_BYTES:
+    if len(infos) > MAX_XLSX_MEMBERS or total > max_unpacked:
         problems.add(
             "",
             f"{len(infos)} parts, {total:,} bytes unpacked",
-            f"a workbook unpacking to at most {MAX_XLSX_UNPACKED_BYTES:,} bytes",
+            f"a workbook unpacking to at most {max_unpacked:,} bytes",
         )
     for i in infos:
         if i.file_size > 1_000_000 and i.file_size > MAX_XLSX_RATIO * max(i.compress_size, 1):
@@ -210,7 +222,7 @@ def _read_xlsx(raw: bytes, problems: ProblemList) -> np.ndarray:
 
     import openpyxl
 
-    _xlsx_guard(raw, problems)
+    xlsx_guard(raw, problems)
     try:
         with warnings.catch_warnings():
             warnings.simplefilter("ignore")

@@ -58,11 +58,18 @@ def job_changes(old: Revision, new: Revision) -> list[str]:
     """Job keys added, removed or changed (arrays of tables named by their id)."""
 
     def parse(rev: Revision) -> dict:
-        return _flatten(tomllib.loads(rev.files[rev.job_name].decode("utf-8-sig")))
+        raw = rev.files[rev.job_name]
+        if rev.job_name.lower().endswith(".xlsx"):  # a job workbook: the same data
+            from ..inputs.workbook_file import workbook_data
+
+            return _flatten(workbook_data(raw, rev.job_name).data)
+        return _flatten(tomllib.loads(raw.decode("utf-8-sig")))
+
+    from ..errors import InputError
 
     try:
         a, b = parse(old), parse(new)
-    except (tomllib.TOMLDecodeError, UnicodeDecodeError, KeyError) as exc:
+    except (tomllib.TOMLDecodeError, UnicodeDecodeError, KeyError, InputError) as exc:
         return [f"job file: cannot be compared key by key ({type(exc).__name__})"]
     lines = []
     for key in [*a, *[k for k in b if k not in a]]:

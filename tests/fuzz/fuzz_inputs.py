@@ -191,13 +191,14 @@ def gen_values(rng: random.Random, seeds: list[str]) -> bytes:
 GENERATORS = {"bytes": gen_bytes, "mutate": gen_mutate, "values": gen_values}
 
 
-def check_one(data: bytes, workdir: Path) -> tuple[int, str | None]:
-    """Run one input; return its exit code and a description of a breach (or None)."""
+def check_one(data: bytes, workdir: Path, name: str = "job.toml") -> tuple[int, str | None]:
+    """Run one input (written as ``name``); return its exit code and a description of a
+    breach (or None)."""
     from click.testing import CliRunner
 
     from feedcheck.cli import main
 
-    job = workdir / "job.toml"
+    job = workdir / name
     out = workdir / "out.json"
     job.write_bytes(data)
     if out.exists():
