@@ -2,8 +2,24 @@
 :class:`~feedcheck.workbench.actions.Session`, and the loop that serves it on
 127.0.0.1 until Ctrl-C, the page's goodbye or a long silence.
 
-Every request passes :func:`~feedcheck.workbench.security.check_request` first. The
-routes are listed in WORKBENCH_API.md; nothing else is served.
+Every request passes the guard of :mod:`~feedcheck.workbench.security` first. The
+routes, all below ``/TOKEN/`` (nothing else is served):
+
+=========================  ==============================================================
+``GET  ""``                the page (``static/index.html``); ``GET static/<name>`` its files
+``GET  api/state``         job (name, exists, dirty, unit), rev, text, schema, elements,
+                           results (:mod:`.payload`)
+``POST api/edit``          ``{rev, edits: [set|add|remove|text]}`` → state (rev + 1);
+                           a stale rev → 409
+``POST api/save``          the text written to the job file (atomic, in its folder)
+``POST api/report``        ``<stem>_report.pdf`` of the saved job → its download url
+``GET  api/download/<n>``  a file this session wrote, as an attachment
+``POST api/new``           ``{name}``: a new job from the template in the same folder
+``GET  api/schedule``      ``?panel=ID``: the schedule's cells, each row's status
+``POST api/schedule``      ``{panel, columns, rows}``: edited cells checked in memory
+``POST api/schedule/save`` the edited cells written back to the schedule's file
+``POST api/ping``, ``bye`` the page is there / is going
+=========================  ==============================================================
 """
 
 from __future__ import annotations
