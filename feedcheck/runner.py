@@ -31,7 +31,7 @@ def load_and_check(job_file: str | Path, calc_date: str | None = None) -> tuple[
 
         calc_date = today()
     job = read_job(job_file)
-    return job, check_job_with_schedules(job, _read_job_schedules(job), calc_date)
+    return job, check_job_with_schedules(job, read_job_schedules(job), calc_date)
 
 
 def check_job_with_schedules(job: Job, schedules: dict, calc_date: str | None = None) -> Results:
@@ -69,8 +69,12 @@ def check_job_with_schedules(job: Job, schedules: dict, calc_date: str | None = 
     return results
 
 
-def _read_job_schedules(job: Job) -> dict:
-    """Each panel's schedule, read and validated; one InputError for all of them."""
+def read_job_schedules(job: Job, grids: dict | None = None) -> dict:
+    """Each panel's schedule, read and validated; one InputError for all of them.
+
+    ``grids``: panel id → the schedule's cells already in memory (an edited grid, row 0
+    as the file's first row), read in place of the panel's file.
+    """
     from .errors import InputError, Problem
     from .inputs.schedule_file import read_schedule
 
@@ -80,7 +84,8 @@ def _read_job_schedules(job: Job) -> dict:
             continue
         try:
             cols = dict(getattr(p, "schedule_columns", ()))
-            sched = read_schedule(p.schedule, panel_id=p.id, columns=cols or None)
+            grid = (grids or {}).get(p.id)
+            sched = read_schedule(p.schedule, panel_id=p.id, columns=cols or None, cells=grid)
         except InputError as exc:
             problems.extend(exc.problems)
             continue
@@ -98,6 +103,9 @@ def _read_job_schedules(job: Job) -> dict:
     if problems:
         raise InputError(problems)
     return out
+
+
+_read_job_schedules = read_job_schedules  # the former name
 
 
 def run_job(job_file: str | Path, calc_date: str | None = None) -> Results:

@@ -19,11 +19,16 @@ from ..errors import InputError
 INTERRUPTED = 130  # 128 + SIGINT, as shells report an interrupted program
 
 
+def problem_line(problem) -> str:
+    """The line an input problem is shown as (the terminal and the workbench alike)."""
+    return f"error: {problem}"
+
+
 def echo_problems(problems) -> None:
     """Each input problem on its own line of stderr, then how many and that nothing was
     written."""
     for problem in problems:
-        click.echo(f"error: {problem}", err=True)
+        click.echo(problem_line(problem), err=True)
     count = len(problems)
     click.echo(
         f"{count} problem{'s' if count != 1 else ''} in the input; nothing was written.",

@@ -15,6 +15,7 @@ def register(main, calc) -> None:
         calc_transformer,
         calc_vdrop,
         compare,
+        edit,
         extract,
         labels,
         report,
@@ -36,5 +37,6 @@ def register(main, calc) -> None:
         (main, compare.compare_command),
         (main, labels.labels_command),
         (main, workbook.workbook_command),
+        (main, edit.edit_command),
     ):
         group.add_command(command)

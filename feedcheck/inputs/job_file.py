@@ -59,6 +59,10 @@ JOB_FILE = FileKind(
 # spreadsheets a job cannot be read from (a workbook is read as .xlsx only)
 SPREADSHEET_SUFFIXES = (".xls", ".xlsm", ".xlsb", ".ods", ".csv", ".numbers")
 _TEMPERATURE_RATING = "'60 degC', '75 degC' or '90 degC'"
+_EMPTY_EXPECTED = (
+    "a TOML job file with [project], [source], [[transformer]], "
+    "[[run]] and [[panel]] (see `feedcheck init`)"
+)
 _INSULATION = "'60 degC', '75 degC', '90 degC' or an insulation type such as 'THHN' or 'XHHW-2'"
 
 
@@ -104,6 +108,13 @@ def read_job_data(path: str | Path) -> dict:
 def read_toml(p: Path) -> tuple[dict, str, bytes]:
     """A job file's parsed TOML, its text and its bytes (guarded: a regular file, its
     size, UTF-8, keys of a few parts, TOML syntax)."""
+    text, raw = read_job_source(p)
+    return read_job_text(text, p), text, raw
+
+
+def read_job_source(p: Path) -> tuple[str, bytes]:
+    """A job file's text and bytes (guarded: a regular file, its size, not empty, UTF-8);
+    not parsed."""
     pl = ProblemList(str(p))
     if p.suffix.lower() in SPREADSHEET_SUFFIXES:
         pl.add("", p.name, "a TOML job file or a job workbook saved as .xlsx")
@@ -111,14 +122,21 @@ def read_toml(p: Path) -> tuple[dict, str, bytes]:
     try:
         raw = read_bytes(p, JOB_FILE)
         if not raw.strip():
-            raise FileRefused(
-                "(empty file)",
-                "a TOML job file with [project], [source], [[transformer]], "
-                "[[run]] and [[panel]] (see `feedcheck init`)",
-            )
+            raise FileRefused("(empty file)", _EMPTY_EXPECTED)
         text = decode_utf8(raw, "UTF-8 text (save the file as UTF-8)")
     except FileRefused as exc:
         pl.add("", exc.value, exc.expected, line=exc.line)
+        pl.raise_if_any()
+    return text, raw
+
+
+def read_job_text(text: str, path: str | Path) -> dict:
+    """A job file's text parsed as TOML with the guards of the file reader (keys of a
+    few parts, nesting, syntax with its line): the one parse of a job's text, from a
+    file or from memory (the workbench's edited text); problems name ``path``."""
+    pl = ProblemList(str(path))
+    if not text.strip():
+        pl.add("", "(empty file)", _EMPTY_EXPECTED)
         pl.raise_if_any()
     if (deep := deep_key_line(text)) is not None:
         pl.add("", DEEP_KEY_VALUE, KEY_PARTS_EXPECTED, line=deep)
@@ -138,7 +156,7 @@ def read_toml(p: Path) -> tuple[dict, str, bytes]:
             line=int(m.group(1)) if m else None,
         )
         pl.raise_if_any()
-    return data, text, raw
+    return data
 
 
 def parse_job_data(data: dict, text: str, job_path: Path) -> Job:

@@ -271,6 +271,7 @@ def read_schedule(
     panel_id: str | None = None,
     columns: dict[str, str] | None = None,
     layout: str = "auto",
+    cells: np.ndarray | None = None,
 ) -> Schedule:
     """Read and validate a panel schedule (CSV or XLSX).
 
@@ -285,6 +286,9 @@ def read_schedule(
         (:func:`feedcheck.inputs.schedule_header.parse_column_map`).
     layout : str
         ``auto`` (detect the two-column panel form), ``one-row`` or ``two-column``.
+    cells : 2-D array of str, optional
+        The file's cells already in memory (row 0 the file's first row: an edited grid);
+        the file is not read. Problems still name ``path``.
 
     Returns
     -------
@@ -310,7 +314,7 @@ def read_schedule(
     p = Path(path)
     problems = ProblemList(str(p))
     notices: list[str] = []
-    cols, head, found, row_no = _table(p, layout, columns, problems, notices)
+    cols, head, found, row_no = _table(p, layout, columns, problems, notices, cells)
     cols, rows = _circuit_rows(cols, head, found, problems, row_no)
     keep, spaces, totals = set_aside(cols, rows, found, panel_id or p.stem, notices)
     cols, rows = _only(cols, rows, keep, problems)
@@ -326,11 +330,19 @@ def read_schedule(
     return replace(sched, system=system) if system else sched
 
 
-def _table(p: Path, layout: str, columns, problems: ProblemList, notices: list[str]):
+def read_schedule_cells(path: str | Path) -> np.ndarray:
+    """A schedule file's cells as texts (row 0 its first row), guarded as
+    :func:`read_schedule` guards the file; not validated."""
+    p = Path(path)
+    problems = ProblemList(str(p))
+    raw = _guard_file(p, problems)
+    return _read_xlsx(raw, problems) if p.suffix.lower() == ".xlsx" else _read_csv(raw, problems)
+
+
+def _table(p: Path, layout: str, columns, problems: ProblemList, notices: list[str], cells=None):
     """The file's cells: each column as (codes, distinct stripped texts) of the rows below
     the header, the first rows as text, the header matched, and each row's number."""
-    raw = _guard_file(p, problems)
-    df = _read_xlsx(raw, problems) if p.suffix.lower() == ".xlsx" else _read_csv(raw, problems)
+    df = read_schedule_cells(p) if cells is None else cells
     if df.shape[1] > MAX_COLUMNS:
         problems.add("row 1", f"{df.shape[1]} columns", f"at most {MAX_COLUMNS} columns")
         problems.raise_if_any()

@@ -95,13 +95,19 @@ def _schedule_line(results: Results, panel_id: str, totals: dict) -> str:
     )
 
 
-def _finding_lines(f, display: Display) -> str:
+def finding_head(f, display: Display) -> str:
+    """The first line of a finding in the terminal summary (status, subject, check,
+    figures, rule), without its note; the workbench shows the same line."""
     fig = ""
     if f.value is not None and isinstance(f.value, float):
         value, limit = finding_figures(f.value, f.limit, f.unit, display, TERMINAL)
         fig = f"{value} vs {limit}" if limit else value
     what = f"{f.check}: {fig}" if fig else f.check
-    head = f"{status_word(f.status):4}  {f.subject}  {what}  [{f.rule_id}]\n"
+    return f"{status_word(f.status):4}  {f.subject}  {what}  [{f.rule_id}]"
+
+
+def _finding_lines(f, display: Display) -> str:
+    head = finding_head(f, display) + "\n"
     note = textwrap.fill(f.note, width=96, initial_indent="      ", subsequent_indent="      ")
     for u in f.unconfirmed:
         note += "\n" + textwrap.fill(
