@@ -45,6 +45,7 @@ const form = new FormView($("editor"), {
 // ---------------------------------------------------------------- state
 
 function applyState(state) {
+  if (!state.schema && page.state) state.schema = page.state.schema; // the schema never changes
   page.state = state;
   paintTop();
   paintStatus();
@@ -52,6 +53,11 @@ function applyState(state) {
     const same = elementsOf(model(), page.selected.kind);
     if (!same.length) page.selected = { kind: "project", index: 0 };
     else page.selected = { kind: page.selected.kind, index: same[same.length - 1].index };
+  }
+  const textOnly = state.job && state.job.form_edits === false;
+  if (textOnly && page.selected.kind !== "__text__") {
+    showText();
+    notice(`The forms are off until the job file text is fixed: ${state.job.text_only_reason || "it cannot be read as tables"}. Edit it below.`, "error");
   }
   paintNav();
   paintEditor();
@@ -151,11 +157,15 @@ function openNode(node) {
 }
 
 async function goTo(target) {
+  if (page.state.job && page.state.job.form_edits === false) return showText();
   select(target.kind, target.index);
   const circuit = target.subject && target.subject.includes("/") ? target.subject.split("/").slice(1).join("/") : null;
-  if (circuit && page.grid) {
-    await page.grid.ready;
-    if (page.grid && page.grid.showCircuit(circuit)) return;
+  if ((circuit || target.row) && page.grid) {
+    const grid = page.grid;
+    await grid.ready;
+    // a schedule's row as the spreadsheet numbers it: the header is row 1
+    if (target.row && grid.showRow(target.row - 2)) return;
+    if (circuit && grid.showCircuit(circuit)) return;
   }
   form.focusField(target.key);
 }
@@ -254,16 +264,28 @@ async function save() {
       saved.push(sched.saved);
       page.editedSchedules.delete(panel);
     }
-    page.state.job = { ...page.state.job, dirty: false, exists: true };
+    page.state.job = { ...page.state.job, ...(done.job || { dirty: false, exists: true }) };
     paintTop();
     notice(`Saved ${saved.join(", ")}.`, "ok");
+    return true;
   } catch (err) {
     showError(err);
+    return false;
   }
+}
+
+function unsaved() {
+  const job = page.state && page.state.job;
+  return Boolean((job && (job.dirty || !job.exists)) || page.editedSchedules.size);
 }
 
 async function report() {
   await queue.flush();
+  if (unsaved()) {
+    const ok = window.confirm("The report is written from the saved files. Save your changes now and write the report?");
+    if (!ok) return;
+    if (!(await save())) return;
+  }
   const button = $("btn-report");
   button.disabled = true;
   notice("Writing the report…", "info");
@@ -322,8 +344,7 @@ function wire() {
     fetch("api/bye", { method: "POST", headers: { "Content-Type": "application/json" }, body: "{}", keepalive: true }).catch(() => {});
   });
   window.addEventListener("beforeunload", (e) => {
-    const job = page.state && page.state.job;
-    if ((job && job.dirty) || page.editedSchedules.size) e.preventDefault();
+    if (unsaved()) e.preventDefault();
   });
 }
 

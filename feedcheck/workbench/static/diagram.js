@@ -3,13 +3,12 @@
 
 import { s } from "./dom.js";
 
-const BOX_W = 210;
+const BOX_W = 270;
 const COL_GAP = 90;
 const ROW_GAP = 18;
 const HEAD_H = 40;
-const LINE_H = 16;
+const LINE_H = 15;
 const PAD = 14;
-const MAX_FIGURES = 4;
 
 const STATUS_WORD = { fail: "FAIL", warn: "WARN", ok: "OK", info: "INFO" };
 
@@ -22,7 +21,7 @@ function layout(nodes) {
     else roots.push(n);
   }
   for (const n of byId.values()) {
-    n.shown = (n.figures || []).slice(0, MAX_FIGURES);
+    n.shown = n.figures || [];
     n.h = HEAD_H + n.shown.length * LINE_H + 8;
   }
   const place = (n, depth, top) => {
@@ -63,16 +62,15 @@ function nodeBox(n, onNode) {
     s("rect", { class: "node-stripe", width: 6, height: n.h, rx: 2 }),
     s("text", { class: "node-id", x: 14, y: 18 }, n.id),
     s("text", { class: "node-status", x: BOX_W - 10, y: 18, "text-anchor": "end" }, STATUS_WORD[n.status] || ""),
-    s("text", { class: "node-title", x: 14, y: 33 }, clip(n.title || n.kind || "", 30)),
+    s("text", { class: "node-title", x: 14, y: 33 }, clip(n.title || n.kind || "", 40)),
   );
   n.shown.forEach(([label, value], i) => {
     const y = HEAD_H + 12 + i * LINE_H;
     g.append(
-      s("text", { class: "fig-label", x: 14, y }, clip(label, 18)),
+      s("text", { class: "fig-label", x: 14, y }, label, s("title", {}, label)),
       s("text", { class: "fig-value", x: BOX_W - 10, y, "text-anchor": "end" }, value),
     );
   });
-  if ((n.figures || []).length > n.shown.length) g.append(s("title", {}, n.figures.map((f) => f.join(": ")).join("\n")));
   const open = () => onNode(n);
   g.addEventListener("click", open);
   g.addEventListener("keydown", (e) => {
@@ -110,6 +108,11 @@ function link(parent, child, onRun) {
 /** Draw the feed; onNode(node) and onRun(runId) open the forms. */
 export function renderDiagram(root, results, { onNode, onRun }) {
   const nodes = (results && results.nodes) || [];
+  if (!nodes.length && results && results.valid === false && root.querySelector("svg.feed")) {
+    markStale(root, true);
+    return;
+  }
+  markStale(root, false);
   if (!nodes.length) {
     const why = results && results.valid === false ? "The feed is drawn once the input errors are fixed." : "No feed to draw yet.";
     const p = document.createElement("p");
@@ -135,4 +138,24 @@ export function renderDiagram(root, results, { onNode, onRun }) {
   }
   for (const n of all) svg.append(nodeBox(n, onNode));
   root.replaceChildren(svg);
+  fitLabels(svg);
+}
+
+/** Shorten a figure's label (never its value) where the two would overlap. */
+function fitLabels(svg) {
+  for (const label of svg.querySelectorAll(".fig-label")) {
+    const value = label.nextElementSibling;
+    const room = BOX_W - 10 - value.getComputedTextLength() - 10 - 14;
+    const full = label.firstChild.textContent;
+    let n = full.length;
+    while (n > 4 && label.getComputedTextLength() > room) {
+      n -= 1;
+      label.firstChild.textContent = `${full.slice(0, n).trimEnd()}…`;
+    }
+  }
+}
+
+/** The last drawn feed stays, marked as not current, while the input has errors. */
+export function markStale(root, stale) {
+  root.classList.toggle("stale", stale);
 }

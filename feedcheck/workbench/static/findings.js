@@ -5,12 +5,24 @@ import { badge, h, statusRank } from "./dom.js";
 
 function where(item) {
   if (!item.kind) return null;
-  return { kind: item.kind, index: item.index ?? 0, key: item.key || null, subject: item.subject || null };
+  return { kind: item.kind, index: item.index ?? 0, key: item.key || null, subject: item.subject || null, row: item.row ?? null };
+}
+
+/** The CLI's line without what the row shows beside it (status word, subject, rule). */
+function shortLine(item) {
+  let text = item.message || "";
+  const head = `${item.status || ""} ${item.subject || ""} `.toLowerCase();
+  const squeezed = text.replace(/^(\S+)\s+(\S+)\s+/, "$1 $2 ").toLowerCase();
+  if (item.subject && squeezed.startsWith(head)) text = text.replace(/^\S+\s+\S+\s+/, "");
+  const tail = ` [${item.rule_id}]`;
+  if (item.rule_id && text.trimEnd().endsWith(tail)) text = text.trimEnd().slice(0, -tail.length).trimEnd();
+  return text;
 }
 
 function row(item, status, text, subject, onGo) {
   const target = where(item);
   const body = [badge(status), subject ? h("span", { class: "subject" }, subject) : null, h("span", { class: "message" }, text)];
+  if (item.note) body.push(h("span", { class: "note" }, item.note));
   if (item.rule_id) body.push(h("span", { class: "rule" }, item.rule_id));
   if (!target) return h("li", { class: `finding st-${status}` }, h("div", { class: "finding-body" }, body));
   return h(
@@ -61,7 +73,7 @@ export function renderFindings(root, results, view, { onGo, onToggleOk }) {
       ),
     );
     if (!shown.length) parts.push(h("p", { class: "muted" }, "No failures, warnings or notes."));
-    else parts.push(h("ul", { class: "finding-list", id: "finding-list" }, shown.map((f) => row(f, f.status, f.message, f.subject, onGo))));
+    else parts.push(h("ul", { class: "finding-list", id: "finding-list" }, shown.map((f) => row(f, f.status, shortLine(f), f.subject, onGo))));
   }
   root.replaceChildren(...parts);
 }

@@ -61,13 +61,33 @@ export function renderNav(nav, model, selected, { onSelect, onAdd, onText }) {
             onclick: () => onSelect(kind.kind, element.index),
           },
           h("span", { class: "nav-label" }, kind.multiple ? elementLabel(kind, element) : kind.title),
-          status && status !== "ok" ? badge(status) : null,
+          ["error", "fail", "warn"].includes(status) ? badge(status) : null,
         ),
       );
     });
     const empty = !items.length;
+    if (empty && !kind.multiple) {
+      const current = selected.kind === kind.kind;
+      items.push(
+        h(
+          "li",
+          {},
+          h(
+            "button",
+            {
+              type: "button",
+              class: `nav-item absent${current ? " current" : ""}`,
+              dataset: { kind: kind.kind, index: "0" },
+              onclick: () => onSelect(kind.kind, 0),
+            },
+            h("span", { class: "nav-label" }, kind.title),
+            h("span", { class: "nav-none" }, "none"),
+          ),
+        ),
+      );
+    }
     const add =
-      kind.multiple || empty
+      kind.multiple
         ? h(
             "button",
             {
@@ -77,7 +97,7 @@ export function renderNav(nav, model, selected, { onSelect, onAdd, onText }) {
               title: `Add to ${kind.title.toLowerCase()}`,
               onclick: () => onAdd(kind.kind),
             },
-            empty && !kind.multiple ? `add ${kind.title.toLowerCase()}` : "add",
+            "add",
           )
         : null;
     groups.push(
@@ -102,6 +122,11 @@ export function renderNav(nav, model, selected, { onSelect, onAdd, onText }) {
     ),
   );
   nav.replaceChildren(...groups.filter((g) => g.querySelector("button")));
+}
+
+function usefulHelp(field) {
+  const help = (field.help || "").trim();
+  return help !== "" && !["required", "optional"].includes(help.toLowerCase());
 }
 
 function fieldId(kind, index, key) {
@@ -144,6 +169,7 @@ export class FormView {
     this.extras = extras;
     this.shown = null;
     this.fields = new Map();
+    this.showAll = false;
   }
 
   /** Draw the form of (kind, index); redraws only when another part is shown. */
@@ -168,7 +194,7 @@ export class FormView {
       "div",
       { class: "form-empty" },
       h("h2", {}, kind.title),
-      h("p", {}, "This job has none."),
+      h("p", {}, `This job has no ${kind.title.toLowerCase()} table; the defaults apply.`),
       h("button", { type: "button", onclick: () => this.onAdd(kind.kind) }, `Add ${kind.title.toLowerCase()}`),
     );
   }
@@ -196,7 +222,35 @@ export class FormView {
     );
     const general = h("div", { class: "form-errors", id: "form-errors" });
     const rows = kind.fields.map((field) => this.fieldRow(kind, element, field, idList));
-    return h("form", { class: "element-form", autocomplete: "off", onsubmit: (e) => e.preventDefault() }, head, general, h("div", { class: "fields" }, rows), datalist);
+    this.toggle = h("button", { type: "button", class: "quiet more", id: "more-fields", onclick: () => this.toggleAll() });
+    return h(
+      "form",
+      { class: "element-form", autocomplete: "off", onsubmit: (e) => e.preventDefault() },
+      head,
+      general,
+      h("div", { class: "fields" }, rows),
+      this.toggle,
+      datalist,
+    );
+  }
+
+  toggleAll() {
+    this.showAll = !this.showAll;
+    this.foldEmpty();
+  }
+
+  /** Optional settings left empty fold away (the defaults apply); shown on demand. */
+  foldEmpty() {
+    let folded = 0;
+    for (const { input, row, field } of this.fields.values()) {
+      const empty = !field.required && input.value === "" && !row.classList.contains("has-error");
+      const hide = empty && !this.showAll && document.activeElement !== input;
+      row.hidden = hide;
+      if (empty) folded += 1;
+    }
+    if (!this.toggle) return;
+    this.toggle.hidden = folded === 0;
+    this.toggle.textContent = this.showAll ? "Hide the settings left empty" : `Show ${folded} more setting${folded === 1 ? "" : "s"} (empty: defaults apply)`;
   }
 
   fieldRow(kind, element, field, idList) {
@@ -217,15 +271,16 @@ export class FormView {
       "div",
       { class: "field", dataset: { key: field.key } },
       h(
-        "label",
-        { for: id, class: "field-label" },
-        field.label || field.key,
+        "div",
+        { class: "field-label" },
+        h("label", { for: id }, field.label || field.key),
         field.required ? h("span", { class: "req" }, "required") : null,
+        h("span", { class: "keyname", title: "the key in the job file" }, field.key),
       ),
       h("div", { class: "field-input" }, input, field.hint ? h("span", { class: "hint" }, field.hint) : null),
-      h("div", { class: "field-notes" }, error, field.help ? h("p", { class: "help" }, field.help) : null, h("p", { class: "keyname" }, `key: ${field.key}`)),
+      h("div", { class: "field-notes" }, error, usefulHelp(field) ? h("p", { class: "help" }, field.help) : null),
     );
-    this.fields.set(field.key, { input, error, row });
+    this.fields.set(field.key, { input, error, row, field });
     return row;
   }
 
@@ -261,14 +316,19 @@ export class FormView {
       if (!row.classList.contains("has-error")) input.removeAttribute("aria-invalid");
     }
     if (general) general.replaceChildren(...loose);
+    this.foldEmpty();
   }
 
   /** Take the user to a field: scroll it into view, focus it, mark it for a moment. */
   focusField(key) {
     const field = key && this.fields.get(key);
+    if (field && field.row.hidden) {
+      this.showAll = true;
+      this.foldEmpty();
+    }
     const target = field ? field.row : this.root.querySelector(".form-head");
     if (!target) return false;
-    target.scrollIntoView({ block: "center" });
+    (field ? field.input : target).scrollIntoView({ block: "center" });
     if (field) field.input.focus({ preventScroll: true });
     target.classList.remove("flash");
     void target.offsetWidth;

@@ -58,6 +58,7 @@ export class ScheduleGrid {
   async load() {
     try {
       this.data = await getJSON(`api/schedule?panel=${encodeURIComponent(this.panel)}`);
+      if (this.data.edited) this.onEdited(this.panel);
     } catch (err) {
       this.root.replaceChildren(h("p", { class: "muted" }, `Schedule: ${err.message}`));
       return false;
@@ -85,7 +86,16 @@ export class ScheduleGrid {
     const { columns, rows, file } = this.data;
     this.inputs = [];
     this.statusCells = [];
-    const head = h("tr", {}, h("th", { class: "rownum" }, "#"), columns.map((c) => h("th", { scope: "col" }, c)), h("th", { scope: "col", class: "status-col" }, "Status"), h("th", {}, ""));
+    this.widths = columns.map((c, i) => Math.min(30, Math.max(4, c.length, ...rows.map((r) => String(r[i] ?? "").length)) + 1));
+    const head = h(
+      "tr",
+      {},
+      h("th", { class: "rownum" }, "#"),
+      h("th", { scope: "col", class: "status-col" }, "Status"),
+      columns.map((c) => h("th", { scope: "col" }, c)),
+      h("th", { scope: "col" }, "Check"),
+      h("th", {}, ""),
+    );
     const body = rows.map((cells, r) => this.rowElement(cells, r, columns.length));
     const table = h("table", { class: "grid", id: `grid-${this.panel}` }, h("thead", {}, head), h("tbody", {}, body));
     table.addEventListener("paste", (e) => this.paste(e));
@@ -108,7 +118,13 @@ export class ScheduleGrid {
     const inputs = [];
     const tds = [];
     for (let c = 0; c < width; c += 1) {
-      const input = h("input", { type: "text", spellcheck: "false", "aria-label": `${this.data.columns[c]}, row ${r + 1}`, dataset: { row: String(r), col: String(c) } });
+      const input = h("input", {
+        type: "text",
+        spellcheck: "false",
+        size: this.widths[c],
+        "aria-label": `${this.data.columns[c]}, row ${r + 1}`,
+        dataset: { row: String(r), col: String(c) },
+      });
       input.value = cells[c] ?? "";
       input.addEventListener("input", () => {
         this.data.rows[r][c] = input.value;
@@ -119,16 +135,18 @@ export class ScheduleGrid {
     }
     this.inputs[r] = inputs;
     const status = h("td", { class: "status-cell" });
-    this.statusCells[r] = status;
-    const remove = h("button", { type: "button", class: "quiet row-remove", title: `Remove row ${r + 1}`, onclick: () => this.removeRow(r) }, "×");
-    return h("tr", { dataset: { row: String(r) } }, h("td", { class: "rownum" }, String(r + 1)), tds, status, h("td", {}, remove));
+    const message = h("td", { class: "message-cell" });
+    this.statusCells[r] = [status, message];
+    const remove = h("button", { type: "button", class: "quiet row-remove", title: `Remove row ${r + 1}`, "aria-label": `Remove row ${r + 1}`, onclick: () => this.removeRow(r) }, "×");
+    return h("tr", { dataset: { row: String(r) } }, h("td", { class: "rownum" }, String(r + 1)), status, tds, message, h("td", {}, remove));
   }
 
   paintStatus() {
     const { status = [], messages = [] } = this.data;
-    this.statusCells.forEach((cell, r) => {
+    this.statusCells.forEach(([cell, message], r) => {
       const st = status[r] || "";
-      cell.replaceChildren(st ? badge(st) : h("span", { class: "muted" }, "—"), messages[r] ? h("span", { class: "row-message" }, messages[r]) : null);
+      cell.replaceChildren(st ? badge(st) : h("span", { class: "muted", title: "not checked" }, "—"));
+      message.textContent = messages[r] || "";
       cell.parentElement.className = st ? `st-row-${st}` : "";
     });
   }
@@ -205,7 +223,12 @@ export class ScheduleGrid {
   /** Scroll to the row of a circuit (first column) and mark it. */
   showCircuit(circuit) {
     const r = this.data ? this.data.rows.findIndex((cells) => String(cells[0]).trim() === String(circuit).trim()) : -1;
-    if (r < 0) return false;
+    return this.showRow(r);
+  }
+
+  /** Scroll to row r (0 = the first row under the header) and mark it. */
+  showRow(r) {
+    if (!this.data || r < 0 || r >= this.inputs.length) return false;
     const tr = this.inputs[r][0].closest("tr");
     tr.scrollIntoView({ block: "center" });
     this.inputs[r][0].focus({ preventScroll: true });

@@ -147,6 +147,11 @@ def start(jobs):
         bench.stop()
 
 
+def _console(msg, problems: list[str]) -> None:
+    if msg.type == "error":
+        problems.append(f"console {msg.type}: {msg.text} ({msg.location.get('url')})")
+
+
 @pytest.fixture
 def open_page(browser, start):
     """open_page(job) → (page, workbench): the page loaded and its first state drawn.
@@ -161,10 +166,7 @@ def open_page(browser, start):
         page = context.new_page()
         page.set_default_timeout(WAIT_MS)
         page.on("pageerror", lambda exc: problems.append(f"page error: {exc}"))
-        page.on(
-            "console",
-            lambda msg: problems.append(f"console {msg.type}: {msg.text}") if msg.type == "error" else None,
-        )
+        page.on("console", lambda msg: _console(msg, problems))
         page.goto(bench.url)
         page.wait_for_selector("body[data-ready=true]")
         return page, bench
