@@ -102,7 +102,9 @@ class Workbench:
             pytest.fail(f"feedcheck edit printed no address within {timeout_s} s")
         if not line.startswith(URL_PREFIX):
             self.stop()
-            pytest.fail(f"feedcheck edit printed {line!r}; stderr: {self.proc.stderr.read()[-2000:]}")
+            pytest.fail(
+                f"feedcheck edit printed {line!r}; stderr: {self.proc.stderr.read()[-2000:]}"
+            )
         return line[len(URL_PREFIX) :].strip()
 
     @property
@@ -161,7 +163,9 @@ def open_page(browser, start):
 
     def _open(job: str = "harbor_kitchen.toml"):
         bench = start(job)
-        context = browser.new_context(accept_downloads=True, viewport={"width": 1440, "height": 960})
+        context = browser.new_context(
+            accept_downloads=True, viewport={"width": 1440, "height": 960}
+        )
         contexts.append(context)
         page = context.new_page()
         page.set_default_timeout(WAIT_MS)

@@ -21,7 +21,9 @@ except ImportError:  # the browser fixture says why the tests do not run
 
 # The scenario's own voltage-drop requirement (appended to the temporary copy only):
 # drops held as failures against 3 % feeder / 5 % total, the job's stated limits.
-DROP_AS_REQUIREMENT = '\n[options]\nvoltage_drop = "mandatory"\nfeeder_drop = "3 %"\ntotal_drop = "5 %"\n'
+DROP_AS_REQUIREMENT = (
+    '\n[options]\nvoltage_drop = "mandatory"\nfeeder_drop = "3 %"\ntotal_drop = "5 %"\n'
+)
 
 
 def cli(*args: str) -> subprocess.CompletedProcess:
@@ -82,15 +84,19 @@ def test_clicking_a_diagram_node_opens_its_form(open_page, shots):
 def test_longer_run_shows_a_failure_and_the_finding_leads_to_the_field(jobs, open_page, shots):
     job = jobs / "harbor_kitchen.toml"
     job.write_text(job.read_text(encoding="utf-8") + DROP_AS_REQUIREMENT, encoding="utf-8")
-    page, bench = open_page()
+    page, _ = open_page()
     expect(page.locator("#status-line")).to_contain_text("0 fail")
     page.click("svg.feed .via[data-run='F-EQ1']")
     page.fill("#editor input[data-key='length']", "400 ft")
-    failure = page.locator("#finding-list .finding.st-fail", has_text="F-EQ1").filter(has_text="feeder voltage drop")
+    failure = page.locator("#finding-list .finding.st-fail", has_text="F-EQ1").filter(
+        has_text="feeder voltage drop"
+    )
     expect(failure).to_be_visible()
     # the same words as the terminal's line for that finding
     job_after = jobs / "check_copy.toml"
-    job_after.write_text(job.read_text(encoding="utf-8").replace('"140 ft"', '"400 ft"'), encoding="utf-8")
+    job_after.write_text(
+        job.read_text(encoding="utf-8").replace('"140 ft"', '"400 ft"'), encoding="utf-8"
+    )
     terminal = cli("check", str(job_after)).stdout
     line = next(x for x in terminal.splitlines() if x.startswith("FAIL") and "F-EQ1" in x)
     head = line.split("F-EQ1", 1)[1].split("[", 1)[0].strip()
@@ -108,12 +114,14 @@ def test_longer_run_shows_a_failure_and_the_finding_leads_to_the_field(jobs, ope
 
 
 def test_input_error_shows_the_cli_message_under_the_field(jobs, open_page, shots):
-    page, bench = open_page()
+    page, _ = open_page()
     open_element(page, "run", "F-LP1")
     page.fill("#editor input[data-key='length']", "95 furlongs")
     bad = jobs / "harbor_kitchen.toml"
     copy = jobs / "bad_copy.toml"
-    copy.write_text(bad.read_text(encoding="utf-8").replace('"95 ft"', '"95 furlongs"'), encoding="utf-8")
+    copy.write_text(
+        bad.read_text(encoding="utf-8").replace('"95 ft"', '"95 furlongs"'), encoding="utf-8"
+    )
     result = cli("check", str(copy))
     assert result.returncode == 2
     message = result.stderr.splitlines()[0].replace(str(copy), str(bad))
@@ -128,7 +136,7 @@ def test_input_error_shows_the_cli_message_under_the_field(jobs, open_page, shot
 
 
 def test_pasting_three_rows_into_a_schedule_checks_each_row(jobs, open_page, shots):
-    page, bench = open_page()
+    page, _ = open_page()
     open_element(page, "panel", "LP1")
     grid = page.locator("#schedule table.grid tbody tr")
     expect(grid.first).to_be_visible()
@@ -143,7 +151,9 @@ def test_pasting_three_rows_into_a_schedule_checks_each_row(jobs, open_page, sho
     expect(first_cell).to_be_focused()
     paste(page, first_cell, "\r\n".join(rows) + "\r\n")
     expect(grid).to_have_count(before + 3)
-    expect(page.locator(f"#schedule input[data-row='{before + 2}'][data-col='1']")).to_have_value("Coffee brewer")
+    expect(page.locator(f"#schedule input[data-row='{before + 2}'][data-col='1']")).to_have_value(
+        "Coffee brewer"
+    )
     # each pasted row carries its checked status, by word and colour
     for r in range(before, before + 3):
         expect(grid.nth(r).locator(".status-cell .badge")).to_be_visible()
@@ -163,7 +173,8 @@ def paste(page, target, text: str) -> None:
         """(el, text) => {
             const data = new DataTransfer();
             data.setData('text/plain', text);
-            el.dispatchEvent(new ClipboardEvent('paste', {clipboardData: data, bubbles: true, cancelable: true}));
+            const options = {clipboardData: data, bubbles: true, cancelable: true};
+            el.dispatchEvent(new ClipboardEvent('paste', options));
         }""",
         text,
     )
