@@ -304,6 +304,7 @@ async function report() {
 function newJob() {
   const dialog = $("new-dialog");
   $("new-error").hidden = true;
+  $("new-unsaved").hidden = !unsaved();
   dialog.showModal();
   $("new-name").select();
 }

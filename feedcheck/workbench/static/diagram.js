@@ -1,10 +1,12 @@
 // The one-line diagram of the feed, drawn from results.nodes (figures as the server
-// formatted them). Source on the left, each run a line to the element it feeds.
+// formatted them). Source on the left, each run a line to the element it feeds; every
+// column as wide as its widest node needs (up to MAX_W, then labels are shortened).
 
 import { s } from "./dom.js";
 
-const BOX_W = 270;
-const COL_GAP = 90;
+const MIN_W = 190;
+const MAX_W = 290;
+const COL_GAP = 64;
 const ROW_GAP = 18;
 const HEAD_H = 40;
 const LINE_H = 15;
@@ -12,39 +14,79 @@ const PAD = 14;
 
 const STATUS_WORD = { fail: "FAIL", warn: "WARN", ok: "OK", info: "INFO" };
 
-function layout(nodes) {
-  const byId = new Map(nodes.map((n) => [n.id, { ...n, children: [] }]));
+function tree(nodes) {
+  const byId = new Map(nodes.map((n) => [n.id, { ...n, children: [], figures: n.figures || [] }]));
   const roots = [];
   for (const n of byId.values()) {
     const parent = n.parent && byId.get(n.parent);
     if (parent) parent.children.push(n);
     else roots.push(n);
+    n.h = HEAD_H + n.figures.length * LINE_H + 8;
   }
-  for (const n of byId.values()) {
-    n.shown = n.figures || [];
-    n.h = HEAD_H + n.shown.length * LINE_H + 8;
+  const depth = (n, d) => {
+    n.depth = d;
+    for (const c of n.children) depth(c, d + 1);
+  };
+  for (const r of roots) depth(r, 0);
+  return { byId, roots };
+}
+
+/** The width each node needs for its title and its longest label + value. */
+function measure(svg, all) {
+  const probe = s("text", { x: 0, y: -100 });
+  svg.append(probe);
+  const width = (cls, text) => {
+    probe.setAttribute("class", cls);
+    probe.textContent = text;
+    return probe.getComputedTextLength();
+  };
+  for (const n of all) {
+    const needs = [width("node-title", n.title || "") + 28, width("node-id", n.id) + 80];
+    for (const [label, value] of n.figures) needs.push(width("fig-label", label) + width("fig-value", value) + 40);
+    n.need = Math.min(MAX_W, Math.max(MIN_W, ...needs));
   }
-  const place = (n, depth, top) => {
-    n.x = PAD + depth * (BOX_W + COL_GAP);
+  probe.remove();
+}
+
+function place(roots, all) {
+  const columns = [];
+  for (const n of all) columns[n.depth] = Math.max(columns[n.depth] || 0, n.need);
+  const left = [PAD];
+  columns.forEach((w, d) => (left[d + 1] = left[d] + w + COL_GAP));
+  const put = (n, top) => {
+    n.x = left[n.depth];
+    n.w = columns[n.depth];
     if (!n.children.length) {
       n.y = top;
       return top + n.h;
     }
     let cursor = top;
-    let bottom = top;
     n.children.forEach((child, i) => {
-      bottom = place(child, depth + 1, cursor + (i ? ROW_GAP : 0));
-      cursor = bottom;
+      cursor = put(child, cursor + (i ? ROW_GAP : 0));
     });
     const first = n.children[0];
     const last = n.children[n.children.length - 1];
     const centre = (first.y + first.h / 2 + last.y + last.h / 2) / 2;
     n.y = Math.max(top, centre - n.h / 2);
-    return Math.max(bottom, n.y + n.h);
+    return Math.max(cursor, n.y + n.h);
   };
   let cursor = PAD;
-  for (const root of roots) cursor = place(root, 0, cursor) + ROW_GAP;
-  return { all: [...byId.values()], height: cursor - ROW_GAP + PAD };
+  for (const root of roots) cursor = put(root, cursor) + ROW_GAP;
+  return { width: left[columns.length] - COL_GAP + PAD, height: cursor - ROW_GAP + PAD };
+}
+
+function clip(text, n) {
+  return text.length > n ? `${text.slice(0, n - 1)}…` : text;
+}
+
+function onActivate(el, fn) {
+  el.addEventListener("click", fn);
+  el.addEventListener("keydown", (e) => {
+    if (e.key === "Enter" || e.key === " ") {
+      e.preventDefault();
+      fn();
+    }
+  });
 }
 
 function nodeBox(n, onNode) {
@@ -55,54 +97,65 @@ function nodeBox(n, onNode) {
     tabindex: "0",
     role: "button",
     "data-node": n.id,
-    "aria-label": `${n.title || n.id}: ${STATUS_WORD[n.status] || "not checked"}; open its form`,
+    "aria-label": `${n.title || n.id}: ${STATUS_WORD[n.status] || "nothing held against a limit"}; open its form`,
   });
   g.append(
-    s("rect", { class: "node-box", width: BOX_W, height: n.h, rx: 6 }),
+    s("rect", { class: "node-box", width: n.w, height: n.h, rx: 6 }),
     s("rect", { class: "node-stripe", width: 6, height: n.h, rx: 2 }),
     s("text", { class: "node-id", x: 14, y: 18 }, n.id),
-    s("text", { class: "node-status", x: BOX_W - 10, y: 18, "text-anchor": "end" }, STATUS_WORD[n.status] || ""),
-    s("text", { class: "node-title", x: 14, y: 33 }, clip(n.title || n.kind || "", 40)),
+    s("text", { class: "node-status", x: n.w - 10, y: 18, "text-anchor": "end" }, STATUS_WORD[n.status] || ""),
+    s("text", { class: "node-title", x: 14, y: 33 }, clip(n.title || n.kind || "", 52)),
   );
-  n.shown.forEach(([label, value], i) => {
+  n.figures.forEach(([label, value], i) => {
     const y = HEAD_H + 12 + i * LINE_H;
     g.append(
-      s("text", { class: "fig-label", x: 14, y }, label, s("title", {}, label)),
-      s("text", { class: "fig-value", x: BOX_W - 10, y, "text-anchor": "end" }, value),
+      s("text", { class: "fig-label", x: 14, y }, label, s("title", {}, `${label}: ${value}`)),
+      s("text", { class: "fig-value", x: n.w - 10, y, "text-anchor": "end" }, value),
     );
   });
-  const open = () => onNode(n);
-  g.addEventListener("click", open);
-  g.addEventListener("keydown", (e) => {
-    if (e.key === "Enter" || e.key === " ") {
-      e.preventDefault();
-      open();
-    }
-  });
+  onActivate(g, () => onNode(n));
   return g;
-}
-
-function clip(text, n) {
-  return text.length > n ? `${text.slice(0, n - 1)}…` : text;
 }
 
 function link(parent, child, onRun) {
-  const x1 = parent.x + BOX_W;
+  const x1 = parent.x + parent.w;
   const y1 = parent.y + parent.h / 2;
   const x2 = child.x;
   const y2 = child.y + child.h / 2;
-  const mid = x1 + COL_GAP / 2 - 20;
+  const mid = x1 + 18;
   const g = s("g", { class: "link" });
   g.append(s("path", { class: "wire", d: `M${x1},${y1} H${mid} V${y2} H${x2}` }));
   if (child.via) {
-    const label = s("text", { class: "via", x: mid + 6, y: y2 - 5, tabindex: "0", role: "button", "data-run": child.via }, child.via);
-    label.addEventListener("click", () => onRun(child.via));
-    label.addEventListener("keydown", (e) => {
-      if (e.key === "Enter") onRun(child.via);
-    });
+    const label = s(
+      "text",
+      { class: "via", x: mid + 6, y: y2 - 5, tabindex: "0", role: "button", "data-run": child.via, "aria-label": `run ${child.via}: open its form` },
+      child.via,
+    );
+    onActivate(label, () => onRun(child.via));
     g.append(label);
   }
   return g;
+}
+
+/** Shorten a figure's label (never its value) where the two would still overlap. */
+function fitLabels(svg) {
+  for (const label of svg.querySelectorAll(".fig-label")) {
+    const value = label.nextElementSibling;
+    const box = label.parentElement.querySelector(".node-box");
+    const room = Number(box.getAttribute("width")) - 10 - value.getComputedTextLength() - 10 - 14;
+    const text = label.firstChild;
+    const full = text.textContent;
+    let n = full.length;
+    while (n > 4 && label.getComputedTextLength() > room) {
+      n -= 1;
+      text.textContent = `${full.slice(0, n).trimEnd()}…`;
+    }
+  }
+}
+
+/** The last drawn feed stays, marked as not current, while the input has errors. */
+function markStale(root, stale) {
+  root.classList.toggle("stale", stale);
 }
 
 /** Draw the feed; onNode(node) and onRun(runId) open the forms. */
@@ -121,41 +174,19 @@ export function renderDiagram(root, results, { onNode, onRun }) {
     root.replaceChildren(p);
     return;
   }
-  const { all, height } = layout(nodes);
-  const byId = new Map(all.map((n) => [n.id, n]));
-  const width = Math.max(...all.map((n) => n.x + BOX_W)) + PAD;
-  const svg = s("svg", {
-    class: "feed",
-    width,
-    height,
-    viewBox: `0 0 ${width} ${height}`,
-    role: "img",
-    "aria-label": "One-line diagram of the feed",
-  });
+  const { byId, roots } = tree(nodes);
+  const all = [...byId.values()];
+  const svg = s("svg", { class: "feed", role: "group", "aria-label": "One-line diagram of the feed" });
+  root.replaceChildren(svg);
+  measure(svg, all);
+  const { width, height } = place(roots, all);
+  svg.setAttribute("width", width);
+  svg.setAttribute("height", height);
+  svg.setAttribute("viewBox", `0 0 ${width} ${height}`);
   for (const n of all) {
     const parent = n.parent && byId.get(n.parent);
     if (parent) svg.append(link(parent, n, onRun));
   }
   for (const n of all) svg.append(nodeBox(n, onNode));
-  root.replaceChildren(svg);
   fitLabels(svg);
-}
-
-/** Shorten a figure's label (never its value) where the two would overlap. */
-function fitLabels(svg) {
-  for (const label of svg.querySelectorAll(".fig-label")) {
-    const value = label.nextElementSibling;
-    const room = BOX_W - 10 - value.getComputedTextLength() - 10 - 14;
-    const full = label.firstChild.textContent;
-    let n = full.length;
-    while (n > 4 && label.getComputedTextLength() > room) {
-      n -= 1;
-      label.firstChild.textContent = `${full.slice(0, n).trimEnd()}…`;
-    }
-  }
-}
-
-/** The last drawn feed stays, marked as not current, while the input has errors. */
-export function markStale(root, stale) {
-  root.classList.toggle("stale", stale);
 }
