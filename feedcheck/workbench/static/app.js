@@ -55,10 +55,11 @@ function applyState(state) {
     else page.selected = { kind: page.selected.kind, index: same[same.length - 1].index };
   }
   const textOnly = state.job && state.job.form_edits === false;
-  if (textOnly && page.selected.kind !== "__text__") {
-    showText();
-    notice(`The forms are off until the job file text is fixed: ${state.job.text_only_reason || "it cannot be read as tables"}. Edit it below.`, "error");
-  }
+  if (textOnly && !page.textOnly) {
+    if (page.selected.kind !== "__text__") showText();
+    notice(`The forms are off until the job file text is fixed: ${state.job.text_only_reason || "it cannot be read as tables"}. Edit the text below.`, "error");
+  } else if (!textOnly && page.textOnly) $("notice").hidden = true;
+  page.textOnly = textOnly;
   paintNav();
   paintEditor();
   paintResults();
@@ -101,6 +102,13 @@ function paintStatus() {
 }
 
 function paintNav() {
+  if (page.textOnly) {
+    $("elements").replaceChildren(
+      h("p", { class: "nav-note" }, "The forms return once the job file text reads as tables."),
+      h("button", { type: "button", class: "nav-item nav-text current", onclick: showText }, "Job file text"),
+    );
+    return;
+  }
   renderNav($("elements"), model(), page.selected, {
     onSelect: (kind, index) => select(kind, index),
     onAdd: addElement,
@@ -134,6 +142,7 @@ function select(kind, index, force = false) {
   const changed = page.selected.kind !== kind || page.selected.index !== index;
   page.selected = { kind, index };
   page.textArea = null;
+  $("editor").classList.remove("text-mode");
   if (changed && page.grid) page.grid = null;
   paintNav();
   form.show(model(), page.selected, force || changed);
@@ -156,8 +165,20 @@ function openNode(node) {
   $("editor").scrollTop = 0;
 }
 
+/** Show the job file text with line n (1 = the first) selected. */
+function showLine(n) {
+  if (page.selected.kind !== "__text__") showText();
+  const area = page.textArea;
+  const lines = area.value.split("\n");
+  const start = lines.slice(0, n - 1).reduce((sum, line) => sum + line.length + 1, 0);
+  area.focus();
+  area.setSelectionRange(start, start + (lines[n - 1] || "").length);
+  const lineHeight = parseFloat(getComputedStyle(area).lineHeight) || 18;
+  area.scrollTop = Math.max(0, (n - 5) * lineHeight);
+}
+
 async function goTo(target) {
-  if (page.state.job && page.state.job.form_edits === false) return showText();
+  if (!target.kind || page.textOnly) return target.line ? showLine(target.line) : showText();
   select(target.kind, target.index);
   const circuit = target.subject && target.subject.includes("/") ? target.subject.split("/").slice(1).join("/") : null;
   if ((circuit || target.row) && page.grid) {
@@ -229,6 +250,7 @@ function showText() {
     },
     "Apply text",
   );
+  $("editor").classList.add("text-mode");
   $("editor").replaceChildren(
     h("div", { class: "form-head" }, h("h2", {}, "Job file text"), apply),
     h("p", { class: "muted" }, "The whole job file as it will be saved, comments included. Edits here replace the document when you apply them."),
@@ -242,7 +264,7 @@ function showText() {
 function notice(text, kind = "info", link = null) {
   const box = $("notice");
   box.className = `notice notice-${kind}`;
-  box.replaceChildren(h("span", {}, text), link, h("button", { type: "button", class: "quiet", onclick: () => (box.hidden = true) }, "dismiss"));
+  box.replaceChildren(...[h("span", {}, text), link, h("button", { type: "button", class: "quiet", onclick: () => (box.hidden = true) }, "dismiss")].filter(Boolean));
   box.hidden = false;
 }
 

@@ -4,7 +4,7 @@
 import { badge, h, statusRank } from "./dom.js";
 
 function where(item) {
-  if (!item.kind) return null;
+  if (!item.kind) return item.line ? { kind: null, line: item.line } : null;
   return { kind: item.kind, index: item.index ?? 0, key: item.key || null, subject: item.subject || null, row: item.row ?? null };
 }
 
@@ -33,8 +33,8 @@ function row(item, status, text, subject, onGo) {
       {
         type: "button",
         class: "finding-body",
-        title: target.key ? `Go to ${target.kind} ${subject || ""} · ${target.key}` : `Go to ${target.kind} ${subject || ""}`,
-        dataset: { kind: target.kind, index: String(target.index), key: target.key || "" },
+        title: target.kind ? `Go to ${target.kind} ${subject || ""}${target.key ? ` · ${target.key}` : ""}` : `Go to line ${target.line} of the job file`,
+        dataset: { kind: target.kind || "", index: String(target.index ?? ""), key: target.key || "" },
         onclick: () => onGo(target),
       },
       body,
