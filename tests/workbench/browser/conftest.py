@@ -167,6 +167,8 @@ def open_page(browser, start):
             accept_downloads=True, viewport={"width": 1440, "height": 960}
         )
         contexts.append(context)
+        # the page reads no clipboard itself; the tests put text on it to paste with Ctrl+V
+        context.grant_permissions(["clipboard-read", "clipboard-write"], origin=bench.origin)
         page = context.new_page()
         page.set_default_timeout(WAIT_MS)
         page.on("pageerror", lambda exc: problems.append(f"page error: {exc}"))

@@ -87,7 +87,11 @@ def test_longer_run_shows_a_failure_and_the_finding_leads_to_the_field(jobs, ope
     page, _ = open_page()
     expect(page.locator("#status-line")).to_contain_text("0 fail")
     page.click("svg.feed .via[data-run='F-EQ1']")
-    page.fill("#editor input[data-key='length']", "400 ft")
+    edits = []
+    page.on("request", lambda r: edits.append(r) if r.url.endswith("/api/edit") else None)
+    field = page.locator("#editor input[data-key='length']")
+    field.fill("")
+    field.press_sequentially("400 ft", delay=40)  # typed, not committed: no Enter, no Tab
     failure = page.locator("#finding-list .finding.st-fail", has_text="F-EQ1").filter(
         has_text="feeder voltage drop"
     )
@@ -103,6 +107,8 @@ def test_longer_run_shows_a_failure_and_the_finding_leads_to_the_field(jobs, ope
     expect(failure.locator(".message")).to_have_text(head)
     expect(page.locator("svg.feed [data-node='EQ1']")).to_have_class("node st-fail")
     expect(page.locator("#status-line")).not_to_contain_text("0 fail")
+    # debounced: the keystrokes went out as fewer requests than characters typed
+    assert 1 <= len(edits) < len("400 ft")
     shot(page, shots, "03_failure")
     page.click("#elements .nav-item[data-kind='project']")  # away from the run's form
     failure.click()
@@ -168,16 +174,10 @@ def test_pasting_three_rows_into_a_schedule_checks_each_row(jobs, open_page, sho
 
 
 def paste(page, target, text: str) -> None:
-    """A paste as the browser delivers it: a paste event carrying the clipboard text."""
-    target.evaluate(
-        """(el, text) => {
-            const data = new DataTransfer();
-            data.setData('text/plain', text);
-            const options = {clipboardData: data, bubbles: true, cancelable: true};
-            el.dispatchEvent(new ClipboardEvent('paste', options));
-        }""",
-        text,
-    )
+    """Put tab-separated text on the clipboard, then Ctrl+V into the focused cell."""
+    target.focus()
+    page.evaluate("text => navigator.clipboard.writeText(text)", text)
+    page.keyboard.press("Control+V")
 
 
 def test_save_writes_the_change_and_keeps_the_comments(jobs, open_page, shots):
@@ -197,8 +197,16 @@ def test_save_writes_the_change_and_keeps_the_comments(jobs, open_page, shots):
 
 def test_write_report_downloads_a_pdf(open_page, shots):
     page, bench = open_page()
+    # an unsaved change: the report is written from the saved files, so the page asks
+    open_element(page, "project", "Project")
+    page.fill("#editor input[data-key='revision']", "C")
+    expect(page.locator("#job-dirty")).to_be_visible()
+    questions = []
+    page.on("dialog", lambda d: (questions.append(d.message), d.accept()))
     with page.expect_download() as download:
         page.click("#btn-report")
+    assert len(questions) == 1 and "Save" in questions[0]
+    assert 'revision = "C"' in bench.job.read_text(encoding="utf-8")
     pdf = Path(download.value.path()).read_bytes()
     assert pdf.startswith(b"%PDF-")
     assert download.value.suggested_filename == "harbor_kitchen_report.pdf"
