@@ -45,7 +45,7 @@ REQUIRED = {
     "source": ("voltage",),
     "transformer": ("id", "rating", "primary", "secondary", "impedance", "primary_device"),
     "run": ("id", "from", "to", "length", "conductors"),
-    "panel": ("id", "rating", "interrupting"),
+    "panel": ("id", "rating"),
     "motor": ("id", "panel"),
     "generator": ("id", "rating", "voltage", "subtransient", "x_r"),
     "transfer_switch": ("id", "panel", "rating"),

@@ -47,14 +47,21 @@ def allowed_origins(port: int) -> tuple[str, ...]:
     return tuple(f"http://{h}" for h in allowed_hosts(port))
 
 
-def check_request(request: Request, token: str, port: int) -> str:
+def check_token(request: Request, token: str) -> str:
     """The path below the token (``api/state``, ``static/app.js``, ``""``); raises
-    Refused when the request breaks any rule of this module."""
+    Refused (403) when the path does not start with the token (compared in constant
+    time)."""
     prefix = f"/{token}/"
     path = request.path
     given = path[: len(prefix)]
     if not hmac.compare_digest(given.encode("utf-8", "replace"), prefix.encode()):
         raise Refused(403, "refused: unknown address")
+    return path[len(prefix) :]
+
+
+def check_request(request: Request, port: int) -> None:
+    """Raises Refused when a request (its token already checked) breaks a rule of this
+    module: Host, method, and for a POST its Origin, content type and length."""
     if request.host not in allowed_hosts(port):
         raise Refused(403, "refused: the Host header does not name this server")
     if request.method not in ("GET", "POST"):
@@ -68,7 +75,6 @@ def check_request(request: Request, token: str, port: int) -> str:
         length = request.content_length
         if length is None or length > MAX_BODY:
             raise Refused(413, f"refused: a body of at most {MAX_BODY:,} bytes with its length")
-    return path[len(prefix) :]
 
 
 def json_body(request: Request) -> dict:

@@ -21,7 +21,7 @@ from werkzeug.wrappers import Request, Response
 from ..errors import InputError
 from .actions import ActionRefused, Session
 from .schema import schema
-from .security import Refused, check_request, json_body, secured
+from .security import Refused, check_request, check_token, json_body, secured
 
 STATIC_DIR = Path(__file__).with_name("static")
 STATIC_TYPES = {
@@ -97,21 +97,21 @@ class Workbench:
 
     def respond(self, request: Request) -> Response:
         try:
-            route = check_request(request, self.token, self.port)
+            route = check_token(request, self.token)
         except Refused as exc:
             return Response(exc.reason, status=exc.status, mimetype="text/plain")
         is_api = route.startswith("api/")
         try:
-            if is_api:
-                self.lifetime.ping() if route != "api/bye" else None
-                return self.api(request, route[len("api/") :])
-            return self.page(route)
+            check_request(request, self.port)
+            if not is_api:
+                return self.page(route)
+            if route != "api/bye":
+                self.lifetime.ping()
+            return self.api(request, route[len("api/") :])
         except Refused as exc:
-            return (
-                _json({"error": exc.reason}, exc.status)
-                if is_api
-                else Response(exc.reason, status=exc.status, mimetype="text/plain")
-            )
+            if is_api:
+                return _json({"error": exc.reason}, exc.status)
+            return Response(exc.reason, status=exc.status, mimetype="text/plain")
         except ActionRefused as exc:
             return _json({"error": exc.message, **exc.extra}, exc.status)
         except InputError as exc:
@@ -171,18 +171,24 @@ class Workbench:
         return response
 
 
+def bind(app: Workbench, port: int):
+    """The threaded server of ``app`` listening on 127.0.0.1 (never another address)."""
+    from werkzeug.serving import make_server
+
+    server = make_server("127.0.0.1", port, app, threaded=True)
+    app.port = server.server_port
+    return server
+
+
 def serve(session: Session, port: int = 0, open_browser: bool = True, echo=print) -> None:
     """Serve the session on 127.0.0.1 until Ctrl-C, the page's goodbye or a silence."""
     import logging
-
-    from werkzeug.serving import make_server
 
     logging.getLogger("werkzeug").setLevel(logging.ERROR)  # no line per request
     idle = float(os.environ.get("FEEDCHECK_WORKBENCH_IDLE_S", IDLE_S))
     token = secrets.token_urlsafe(24)
     app = Workbench(session, token, port, lifetime=Lifetime(idle_s=idle))
-    server = make_server("127.0.0.1", port, app, threaded=True)
-    app.port = server.server_port
+    server = bind(app, port)
     url = f"http://127.0.0.1:{app.port}/{token}/"
     echo(f"feedcheck workbench: {url}")
     thread = threading.Thread(target=server.serve_forever, daemon=True)
