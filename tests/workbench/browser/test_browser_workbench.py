@@ -167,6 +167,10 @@ def test_pasting_three_rows_into_a_schedule_checks_each_row(jobs, open_page, sho
     expect(grid.nth(before).locator(".status-cell .badge")).not_to_have_text("fail")
     expect(page.locator("#finding-list .finding.st-fail", has_text="LP1/23").first).to_be_visible()
     shot(page, shots, "06_pasted_schedule")
+    # a circuit's finding leads to its row of the grid
+    page.click("#elements .nav-item[data-kind='project']")
+    page.locator("#finding-list .finding.st-fail", has_text="LP1/23").first.click()
+    expect(page.locator(f"#schedule input[data-row='{before + 2}'][data-col='0']")).to_be_focused()
     page.click("#btn-save")
     expect(page.locator("#notice")).to_contain_text("LP1.csv")
     saved = (jobs / "LP1.csv").read_text(encoding="utf-8")
