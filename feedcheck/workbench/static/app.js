@@ -2,7 +2,7 @@
 // the list of parts, the selected part's form and the findings.
 
 import { ApiError, EditQueue, getJSON, postJSON } from "./api.js";
-import { renderDiagram } from "./diagram.js";
+import { renderDiagram, showSelected } from "./diagram.js";
 import { h } from "./dom.js";
 import { renderFindings } from "./findings.js";
 import { FormView, elementsOf, findElement, renderNav } from "./forms.js";
@@ -124,9 +124,22 @@ function paintEditor() {
   form.show(model(), page.selected);
 }
 
+/** The diagram's mark on the selected part: its node, or a run's label and what it feeds. */
+function paintSelected() {
+  const element = findElement(model(), page.selected.kind, page.selected.index);
+  const id = element && element.id;
+  if (page.selected.kind === "source") return showSelected($("diagram"), "source", null);
+  if (page.selected.kind === "run") {
+    const fed = ((page.state.results && page.state.results.nodes) || []).find((n) => n.via === id);
+    return showSelected($("diagram"), fed ? fed.id : null, id);
+  }
+  showSelected($("diagram"), id, null);
+}
+
 function paintResults() {
   const results = page.state.results;
   renderDiagram($("diagram"), results, { onNode: openNode, onRun: (id) => openById("run", id) });
+  paintSelected();
   renderFindings($("findings"), results, page.view, {
     onGo: goTo,
     onToggleOk: () => {
@@ -146,6 +159,7 @@ function select(kind, index, force = false) {
   if (changed && page.grid) page.grid = null;
   paintNav();
   form.show(model(), page.selected, force || changed);
+  paintSelected();
 }
 
 function openById(kind, id) {

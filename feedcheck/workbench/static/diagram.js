@@ -11,6 +11,7 @@ const ROW_GAP = 18;
 const HEAD_H = 40;
 const LINE_H = 15;
 const PAD = 14;
+const ATTACH_Y = 26; // wires meet the boxes level with their titles
 
 const STATUS_WORD = { fail: "FAIL", warn: "WARN", ok: "OK", info: "INFO" };
 
@@ -64,10 +65,9 @@ function place(roots, all) {
     n.children.forEach((child, i) => {
       cursor = put(child, cursor + (i ? ROW_GAP : 0));
     });
-    const first = n.children[0];
-    const last = n.children[n.children.length - 1];
-    const centre = (first.y + first.h / 2 + last.y + last.h / 2) / 2;
-    n.y = Math.max(top, centre - n.h / 2);
+    // level with its first child: the main line of the feed runs straight across the top,
+    // branches below it (a tall feed keeps its source in the first screenful)
+    n.y = top;
     return Math.max(cursor, n.y + n.h);
   };
   let cursor = PAD;
@@ -119,9 +119,9 @@ function nodeBox(n, onNode) {
 
 function link(parent, child, onRun) {
   const x1 = parent.x + parent.w;
-  const y1 = parent.y + parent.h / 2;
+  const y1 = parent.y + ATTACH_Y;
   const x2 = child.x;
-  const y2 = child.y + child.h / 2;
+  const y2 = child.y + ATTACH_Y;
   const mid = x1 + 18;
   const g = s("g", { class: "link" });
   g.append(s("path", { class: "wire", d: `M${x1},${y1} H${mid} V${y2} H${x2}` }));
@@ -189,4 +189,26 @@ export function renderDiagram(root, results, { onNode, onRun }) {
   }
   for (const n of all) svg.append(nodeBox(n, onNode));
   fitLabels(svg);
+}
+
+/** Mark the selected element in the diagram (a node, or a run's label and the node it
+ * feeds) and scroll it into view when it is out of sight. */
+export function showSelected(root, nodeId, runId) {
+  for (const el of root.querySelectorAll(".selected")) el.classList.remove("selected");
+  const svg = root.querySelector("svg.feed");
+  if (!svg) return;
+  const esc = (v) => (window.CSS && CSS.escape ? CSS.escape(v) : v);
+  const run = runId ? svg.querySelector(`.via[data-run="${esc(runId)}"]`) : null;
+  if (run) run.classList.add("selected");
+  const target = nodeId ? svg.querySelector(`.node[data-node="${esc(nodeId)}"]`) : null;
+  if (target) target.classList.add("selected");
+  const focus = target || run;
+  if (!focus) return;
+  const box = focus.getBoundingClientRect();
+  const view = root.getBoundingClientRect();
+  const inside = box.left >= view.left && box.right <= view.right && box.top >= view.top && box.bottom <= view.bottom;
+  if (!inside) {
+    root.scrollLeft += box.left - view.left - 40;
+    root.scrollTop += box.top - view.top - 20;
+  }
 }
