@@ -5,6 +5,7 @@ sample jobs (see conftest.py). The oracle of every figure and message is the CLI
 from __future__ import annotations
 
 import json
+import re
 import subprocess
 import sys
 from pathlib import Path
@@ -105,7 +106,8 @@ def test_longer_run_shows_a_failure_and_the_finding_leads_to_the_field(jobs, ope
     line = next(x for x in terminal.splitlines() if x.startswith("FAIL") and "F-EQ1" in x)
     head = line.split("F-EQ1", 1)[1].split("[", 1)[0].strip()
     expect(failure.locator(".message")).to_have_text(head)
-    expect(page.locator("svg.feed [data-node='EQ1']")).to_have_class("node st-fail")
+    expect(page.locator("svg.feed [data-node='EQ1']")).to_have_class(re.compile(r"\bst-fail\b"))
+    expect(page.locator("svg.feed [data-node='EQ1'] .node-status")).to_have_text("FAIL")
     expect(page.locator("#status-line")).not_to_contain_text("0 fail")
     # debounced: the keystrokes went out as fewer requests than characters typed
     assert 1 <= len(edits) < len("400 ft")
