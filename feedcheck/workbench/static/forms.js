@@ -181,6 +181,7 @@ export class FormView {
     this.shown = key;
     this.shownId = element && element.id;
     this.fields = new Map();
+    this.foldable = null;
     const kind = kindInfo(model, selected.kind);
     if (!kind) return this.root.replaceChildren(h("p", { class: "muted" }, "Nothing selected."));
     if (!element) return this.root.replaceChildren(this.absent(kind));
@@ -241,12 +242,18 @@ export class FormView {
 
   /** Optional settings left empty fold away (the defaults apply); shown on demand. */
   foldEmpty() {
+    const isEmpty = ({ input, row, field }) => !field.required && input.value === "" && !row.classList.contains("has-error");
+    if (!this.foldable) {
+      // decided once per form drawn, so a field does not vanish while the form is in use;
+      // a table with nothing filled in yet (just added, or all defaults) folds nothing
+      const empty = [...this.fields].filter(([, f]) => isEmpty(f)).map(([key]) => key);
+      this.foldable = new Set(empty.length === this.fields.size ? [] : empty);
+    }
     let folded = 0;
-    for (const { input, row, field } of this.fields.values()) {
-      const empty = !field.required && input.value === "" && !row.classList.contains("has-error");
-      const hide = empty && !this.showAll && document.activeElement !== input;
-      row.hidden = hide;
-      if (empty) folded += 1;
+    for (const [key, f] of this.fields) {
+      const fold = this.foldable.has(key) && isEmpty(f);
+      if (fold) folded += 1;
+      f.row.hidden = fold && !this.showAll && document.activeElement !== f.input;
     }
     if (!this.toggle) return;
     this.toggle.hidden = folded === 0;
