@@ -277,6 +277,9 @@ function showText() {
 
 function notice(text, kind = "info", link = null) {
   const box = $("notice");
+  clearTimeout(page.noticeTimer);
+  // a plain confirmation goes by itself; errors and a download link stay until dismissed
+  if (kind === "ok" && !link) page.noticeTimer = setTimeout(() => (box.hidden = true), 8000);
   box.className = `notice notice-${kind}`;
   box.replaceChildren(...[h("span", {}, text), link, h("button", { type: "button", class: "quiet", onclick: () => (box.hidden = true) }, "dismiss")].filter(Boolean));
   box.hidden = false;
