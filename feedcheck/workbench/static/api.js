@@ -106,15 +106,15 @@ export class EditQueue {
   async send(edits, retried = false) {
     this.onBusy(true);
     try {
-      const state = await postJSON("api/edit", { rev: this.rev, edits });
-      this.accept(state);
+      this.accept(await postJSON("api/edit", { rev: this.rev, edits }));
     } catch (err) {
-      if (err instanceof ApiError && err.status === 409 && !retried) {
-        const state = await getJSON("api/state");
-        this.accept(state);
-        return this.send(edits, true);
+      if (!(err instanceof ApiError && err.status === 409 && !retried)) return this.onError(err);
+      try {
+        this.accept(await getJSON("api/state"));
+      } catch (again) {
+        return this.onError(again);
       }
-      this.onError(err);
+      return this.send(edits, true);
     }
   }
 

@@ -250,3 +250,27 @@ def test_requests_without_the_token_are_refused(browser, start):
         assert status == 403
     finally:
         context.close()
+
+
+def test_two_pages_on_one_job_lose_no_edit(open_page):
+    """A second page edits on a revision the first has moved past: the server answers
+    409, the page reads the state again and sends the same edit on the new revision."""
+    first, bench = open_page()
+    second = first.context.new_page()
+    second.goto(bench.url)
+    second.wait_for_selector("body[data-ready=true]")
+    open_element(first, "run", "F-LP1")
+    first.fill("#editor input[data-key='length']", "110 ft")
+    expect(first.locator("#status-line")).to_contain_text("checked in")
+    expect(first.locator("#job-dirty")).to_be_visible()
+    answers = []
+    second.on("response", lambda r: answers.append(r.status) if "/api/" in r.url else None)
+    open_element(second, "project", "Project")
+    second.fill("#editor input[data-key='revision']", "D")
+    expect(second.locator("#job-dirty")).to_be_visible()
+    second.click("#btn-save")
+    expect(second.locator("#notice")).to_contain_text("Saved")
+    assert 409 in answers
+    saved = bench.job.read_text(encoding="utf-8")
+    assert 'length = "110 ft"' in saved and 'revision = "D"' in saved
+    second.close()
