@@ -96,7 +96,7 @@ function paintStatus() {
     else line.classList.add("st-ok");
   }
   if (page.busy) text += " · checking…";
-  else if (typeof results.elapsed_ms === "number") text += ` · checked in ${results.elapsed_ms} ms`;
+  else if (results.valid !== false && typeof results.elapsed_ms === "number") text += ` · checked in ${results.elapsed_ms} ms`;
   line.textContent = text;
   line.title = text;
 }

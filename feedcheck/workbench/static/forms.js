@@ -124,6 +124,10 @@ export function renderNav(nav, model, selected, { onSelect, onAdd, onText }) {
   nav.replaceChildren(...groups.filter((g) => g.querySelector("button")));
 }
 
+function titleOf(kind, element) {
+  return kind.multiple ? `${kind.title} › ${element.id || `#${element.index + 1}`}` : kind.title;
+}
+
 function usefulHelp(field) {
   const help = (field.help || "").trim();
   return help !== "" && !["required", "optional"].includes(help.toLowerCase());
@@ -176,10 +180,15 @@ export class FormView {
   show(model, selected, force = false) {
     const key = `${selected.kind}|${selected.index}`;
     const element = findElement(model, selected.kind, selected.index);
-    const sameShape = this.shown === key && this.shownId === (element && element.id);
+    // typing never redraws the form (focus and caret stay); only another part, or a
+    // panel's schedule file changed once its field is left, draws it anew
+    const schedule = (element && element.values && element.values.schedule) || "";
+    const scheduleField = this.fields.get("schedule");
+    const scheduleSame = this.shownSchedule === schedule || (scheduleField && document.activeElement === scheduleField.input);
+    const sameShape = this.shown === key && scheduleSame;
     if (!force && sameShape && this.fields.size) return this.update(model);
     this.shown = key;
-    this.shownId = element && element.id;
+    this.shownSchedule = schedule;
     this.fields = new Map();
     this.foldable = null;
     const kind = kindInfo(model, selected.kind);
@@ -204,7 +213,7 @@ export class FormView {
     const idList = "known-ids";
     const ids = (model.elements || []).filter((e) => e.id).map((e) => e.id);
     const datalist = h("datalist", { id: idList }, ["source", ...ids].map((v) => h("option", { value: v })));
-    const title = kind.multiple ? `${kind.title} › ${element.id || `#${element.index + 1}`}` : kind.title;
+    const title = titleOf(kind, element);
     const head = h(
       "div",
       { class: "form-head" },
@@ -298,6 +307,9 @@ export class FormView {
     const element = findElement(model, kindName, index);
     if (!element) return;
     const pending = model.pendingKeys || new Set();
+    const kind = kindInfo(model, kindName);
+    const title = this.root.querySelector("#form-title");
+    if (kind && title) title.textContent = titleOf(kind, element);
     for (const [key, { input, error, row }] of this.fields) {
       const typing = document.activeElement === input || pending.has(`${kindName}|${index}|${key}`);
       const value = (element.values && element.values[key]) ?? "";

@@ -274,3 +274,21 @@ def test_two_pages_on_one_job_lose_no_edit(open_page):
     saved = bench.job.read_text(encoding="utf-8")
     assert 'length = "110 ft"' in saved and 'revision = "D"' in saved
     second.close()
+
+
+def test_typing_keeps_the_field_while_answers_arrive(open_page):
+    """Answers to earlier keystrokes redraw findings and diagram, never the field being
+    typed in: focus and text stay, even when the typed key is the element's id."""
+    page, _ = open_page()
+    open_element(page, "run", "F-LP1")
+    field = page.locator("#editor input[data-key='id']")
+    field.click()
+    field.press("End")
+    answers = []
+    page.on("response", lambda r: answers.append(r) if r.url.endswith("/api/edit") else None)
+    field.press_sequentially("AB", delay=600)  # slower than the page's 350 ms quiet time
+    expect(page.locator("#form-title")).to_contain_text("F-LP1AB")
+    assert len(answers) >= 2  # each keystroke was answered while typing went on
+    expect(field).to_be_focused()
+    expect(field).to_have_value("F-LP1AB")
+    expect(page.locator("svg.feed .via[data-run='F-LP1AB']")).to_be_visible()
