@@ -69,6 +69,10 @@ export class ScheduleGrid {
 
   /** The job changed elsewhere: fetch the statuses again unless the user is editing here. */
   async refresh() {
+    if (!this.data) {
+      await this.load(); // it could not be read before (the job had input errors)
+      return;
+    }
     if (this.sending || this.root.contains(document.activeElement)) return;
     try {
       const fresh = await getJSON(`api/schedule?panel=${encodeURIComponent(this.panel)}`);
