@@ -308,3 +308,19 @@ def test_a_bad_cell_typed_in_the_grid_can_be_fixed_there(open_page):
     cell.fill("1440")
     expect(page.locator("#finding-list")).to_be_visible(timeout=3000)
     expect(page.locator("#status-line")).to_contain_text("0 fail")
+
+
+def test_adding_a_motor_names_what_it_needs_and_removing_it_restores_the_job(open_page):
+    page, bench = open_page()
+    before = page.locator("#status-line").inner_text().split(" · checked")[0]
+    page.click("#elements [data-add-kind='motor']")
+    expect(page.locator("#form-title")).to_contain_text("Motors")
+    # the new motor's missing keys are named under their fields, as the CLI names them
+    expect(page.locator("#editor .field.has-error").first).to_be_visible()
+    expect(page.locator("#status-line")).to_contain_text("input error")
+    first_error = page.locator("#editor .field.has-error .field-error").first.inner_text()
+    assert first_error.startswith(f"error: {bench.job}:")
+    page.on("dialog", lambda d: d.accept())
+    page.click("#editor button:has-text('Remove')")
+    expect(page.locator("#elements .nav-item[data-kind='motor']")).to_have_count(0)
+    expect(page.locator("#status-line")).to_contain_text(before)
