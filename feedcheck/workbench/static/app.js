@@ -3,7 +3,7 @@
 
 import { ApiError, EditQueue, getJSON, postJSON } from "./api.js";
 import { renderDiagram, showSelected } from "./diagram.js";
-import { h } from "./dom.js";
+import { debounce, h } from "./dom.js";
 import { renderFindings } from "./findings.js";
 import { FormView, elementsOf, findElement, renderNav } from "./forms.js";
 import { ScheduleGrid } from "./schedule.js";
@@ -247,27 +247,28 @@ function showText() {
   paintNav();
   const area = h("textarea", { id: "job-text", spellcheck: "false", "aria-label": "The job file (TOML)" });
   area.value = page.state.text || "";
+  // the text is checked as it is typed, like the forms (a little slower: whole document)
+  const send = debounce(async () => {
+    const text = area.value;
+    await queue.op({ op: "text", text });
+    if (area.value === text) page.textEdited = false;
+  }, 600);
   area.addEventListener("input", () => {
     page.textEdited = true;
+    send();
+  });
+  area.addEventListener("blur", () => {
+    if (page.textEdited) send.now();
   });
   page.textArea = area;
-  const apply = h(
-    "button",
-    {
-      type: "button",
-      class: "primary",
-      onclick: async () => {
-        await queue.op({ op: "text", text: area.value });
-        page.textEdited = false;
-        area.value = page.state.text || "";
-      },
-    },
-    "Apply text",
-  );
   $("editor").classList.add("text-mode");
   $("editor").replaceChildren(
-    h("div", { class: "form-head" }, h("h2", {}, "Job file text"), apply),
-    h("p", { class: "muted" }, "The whole job file as it will be saved, comments included. Edits here replace the document when you apply them."),
+    h("div", { class: "form-head" }, h("h2", {}, "Job file text")),
+    h(
+      "p",
+      { class: "muted" },
+      "The whole job file as it is saved, comments included. It is checked as you type, like the forms.",
+    ),
     area,
   );
   form.shown = null;

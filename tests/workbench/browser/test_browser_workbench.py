@@ -324,3 +324,19 @@ def test_adding_a_motor_names_what_it_needs_and_removing_it_restores_the_job(ope
     page.click("#editor button:has-text('Remove')")
     expect(page.locator("#elements .nav-item[data-kind='motor']")).to_have_count(0)
     expect(page.locator("#status-line")).to_contain_text(before)
+
+
+def test_the_job_file_text_is_checked_as_it_is_typed(open_page):
+    page, bench = open_page()
+    page.click("#elements .nav-text")
+    area = page.locator("#job-text")
+    text = area.input_value()
+    assert text == bench.job.read_text(encoding="utf-8")  # comments included
+    area.fill(text.replace('length = "95 ft"', 'length = "110 ft"', 1))
+    lp1 = page.locator("svg.feed [data-node='LP1']")
+    expect(lp1.locator(".fig-value").last).to_have_text("110 ft")
+    area.fill(text.replace("[source]", "[source", 1))
+    expect(page.locator("#input-errors .finding")).to_have_count(1)
+    page.click("#input-errors .finding-body")  # names a line only: that line is selected
+    selected = area.evaluate("a => a.value.slice(a.selectionStart, a.selectionEnd)")
+    assert selected == "[source"
