@@ -340,3 +340,15 @@ def test_the_job_file_text_is_checked_as_it_is_typed(open_page):
     page.click("#input-errors .finding-body")  # names a line only: that line is selected
     selected = area.evaluate("a => a.value.slice(a.selectionStart, a.selectionEnd)")
     assert selected == "[source"
+
+
+def test_clipboard_text_is_split_as_spreadsheets_write_it(open_page):
+    """Tab-separated clipboard text as spreadsheet programs write it (common practice, no
+    source): tabs between cells, CR LF or LF between rows, a cell holding a tab, a line
+    break or a quote is quoted, a quote inside doubled."""
+    page, _ = open_page()
+    split = page.evaluate(
+        """async text => (await import('./static/schedule.js')).parseTabText(text)""",
+        'a\t"b\tc"\r\n"x ""y"""\t\n"two\nlines"\tz\n',
+    )
+    assert split == [["a", "b\tc"], ['x "y"', ""], ["two\nlines", "z"]]
