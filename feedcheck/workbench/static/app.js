@@ -294,8 +294,14 @@ function showError(err) {
   } else notice(`The workbench server does not answer (${err.message}). Is \`feedcheck edit\` still running?`, "error");
 }
 
-async function save() {
+/** Everything typed reaches the server before a save or a report. */
+async function flushAll() {
   await queue.flush();
+  if (page.grid) await page.grid.flush();
+}
+
+async function save() {
+  await flushAll();
   try {
     const done = await postJSON("api/save", {});
     const saved = [done.saved];
@@ -320,7 +326,7 @@ function unsaved() {
 }
 
 async function report() {
-  await queue.flush();
+  await flushAll();
   if (unsaved()) {
     const ok = window.confirm("The report is written from the saved files. Save your changes now and write the report?");
     if (!ok) return;
@@ -351,7 +357,7 @@ function newJob() {
 
 async function createJob(event) {
   event.preventDefault();
-  await queue.flush();
+  await flushAll();
   try {
     const state = await postJSON("api/new", { name: $("new-name").value.trim() });
     $("new-dialog").close();

@@ -132,6 +132,7 @@ export class ScheduleGrid {
       input.value = cells[c] ?? "";
       input.addEventListener("input", () => {
         this.data.rows[r][c] = input.value;
+        this.unsent = true;
         this.send();
       });
       inputs.push(input);
@@ -197,12 +198,26 @@ export class ScheduleGrid {
     this.send.now();
   }
 
-  async post() {
+  /** Send what is typed but not sent yet; resolves once the server has answered. */
+  async flush() {
+    this.send.cancel();
+    while (this.unsent || this.inflight) await (this.inflight || this.post());
+  }
+
+  post() {
     if (this.sending) {
       this.again = true;
-      return;
+      return this.inflight;
     }
+    this.inflight = this.postNow().finally(() => {
+      this.inflight = null;
+    });
+    return this.inflight;
+  }
+
+  async postNow() {
     this.sending = true;
+    this.unsent = false;
     try {
       const { columns, rows } = this.data;
       const state = await postJSON("api/schedule", { panel: this.panel, columns, rows });
@@ -219,7 +234,8 @@ export class ScheduleGrid {
       this.sending = false;
       if (this.again) {
         this.again = false;
-        this.post();
+        this.unsent = true;
+        this.send(); // what was typed meanwhile goes out next
       }
     }
   }
