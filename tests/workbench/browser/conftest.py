@@ -50,9 +50,11 @@ def browser():
     if not (Path(CHROMIUM).is_file() and os.access(CHROMIUM, os.X_OK)):
         _unavailable(f"no Chromium at {CHROMIUM}")
     try:
-        from playwright.sync_api import sync_playwright
+        from playwright.sync_api import expect, sync_playwright
     except ImportError:
         _unavailable("the Python package playwright is not installed")
+    # conditions are waited for, never slept on; a loaded CI machine gets the same time
+    expect.set_options(timeout=WAIT_MS)
     with sync_playwright() as pw:
         chromium = pw.chromium.launch(executable_path=CHROMIUM, args=CHROMIUM_ARGS, headless=True)
         yield chromium
