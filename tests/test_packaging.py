@@ -57,6 +57,9 @@ def test_wheel_ships_tables_and_runs_from_elsewhere(tmp_path):
 
     names = zipfile.ZipFile(wheel).namelist()
     assert "feedcheck/tables/device_ratings.csv" in names
+    # the workbench page ships inside the package (no network at run time)
+    assert "feedcheck/workbench/static/index.html" in names
+    assert "feedcheck/workbench/static/app.js" in names
     env_dir = tmp_path / "venv"
     venv.EnvBuilder(with_pip=True).create(env_dir)
     py = env_dir / "bin" / "python"
