@@ -154,8 +154,11 @@ def table_heading(text: str) -> list:
     return [CondPageBreak(TABLE_HEAD_ROOM), p(text, "h2t")]
 
 
-def status_cell(status: str) -> Paragraph:
-    return p(status_word(status), "cellb" if is_flagged(status) else "cell")
+def status_cell(status: str, width: float) -> str | Paragraph:
+    """The status word in a cell ``width`` wide (bold when it fails or warns)."""
+    if is_flagged(status):
+        return p(status_word(status), "cellb")
+    return fitted(status_word(status), "cell", width)
 
 
 def grid_table(
@@ -317,28 +320,26 @@ def findings_table(findings, page_of=None, with_subject=False, display=DEFAULT_D
         + ["check", "figure", "limit", "rule id"]
         + (["page"] if page_of else [])
     )
-    rows = [headed(head)]
-    for f in findings:
-        value, limit = finding_figures(f.value, f.limit, f.unit, display)
-        row = [status_cell(f.status)]
-        if with_subject:
-            row.append(p(f.subject, "cellb"))
-        row += [
-            _check_cell(f),
-            p(value or MISSING),
-            p(limit or MISSING),
-            p(f.rule_id),
-        ]
-        if page_of:
-            row.append(p(page_of(f.subject)))
-        rows.append(row)
     widths = [40, 50, 184, 62, 62, 120] if with_subject else [40, 208, 70, 70, 140]
     if page_of:
         widths.append(32)
-    scale = WIDTH / sum(widths)
-    return grid_table(
-        rows, [w * scale for w in widths], status_col=0, statuses=[f.status for f in findings]
-    )
+    widths = [w * WIDTH / sum(widths) for w in widths]
+    room = [w - 6 for w in widths]  # the text width of each column (padding 3 each side)
+    rows = [headed(head)]
+    for f in findings:
+        value, limit = finding_figures(f.value, f.limit, f.unit, display)
+        row = [status_cell(f.status, room[0])]
+        if with_subject:
+            row.append(p(f.subject, "cellb"))
+        row.append(_check_cell(f))
+        figures = [value or MISSING, limit or MISSING, f.rule_id]
+        if page_of:
+            figures.append(page_of(f.subject))
+        last = room[-len(figures) :]
+        row += [fitted(text, "cell", w) for text, w in zip(figures, last, strict=True)]
+        rows.append(row)
+    statuses = [f.status for f in findings]
+    return grid_table(rows, widths, status_col=0, statuses=statuses, font="cell")
 
 
 # --------------------------------------------------------- calculation sheets
@@ -347,10 +348,11 @@ def findings_table(findings, page_of=None, with_subject=False, display=DEFAULT_D
 def node_figures_table(node):
     """The node's figures, labelled for people (the JSON keys stay in the JSON)."""
     rows = [headed(["figure", "value", "unit"])]
+    widths = [300, 110, WIDTH - 410]
     for k, v in node.values.items():
-        label, shown, unit = node_figure(k, v)
-        rows.append([p(label), p(shown), p(unit)])
-    return grid_table(rows, [300, 110, WIDTH - 410])
+        cells = node_figure(k, v)  # label, figure, unit
+        rows.append([fitted(c, "cell", w - 6) for c, w in zip(cells, widths, strict=True)])
+    return grid_table(rows, widths, font="cell")
 
 
 def sheet_section(
