@@ -361,9 +361,8 @@ def sheet_section(
     out = [heading(f"Calculation sheet — {sheet.title}", f"sheet:{sheet.element_id}", 1, "h1")]
     if sheet.inputs:
         out += table_heading("Inputs")
-        out.append(
-            grid_table([[p(a, "cellb"), p(b)] for a, b in sheet.inputs], [170, WIDTH - 170], False)
-        )
+        rows = [[p(a, "cellb"), fitted(b, "cell", WIDTH - 176)] for a, b in sheet.inputs]
+        out.append(grid_table(rows, [170, WIDTH - 170], False, font="cell"))
     if sheet.steps:
         out += table_heading("Calculation")
         rows = [headed(["#", "step", "formula and substituted values", "result", "rule id"])]
@@ -371,14 +370,14 @@ def sheet_section(
             res = number(s.result)
             rows.append(
                 [
-                    p(str(i)),
+                    fitted(str(i), "cell", 12),
                     p(s.label, "cellb"),
                     [p(s.formula), p("= " + s.substituted, "note")],
                     p(f"{res} {s.unit}".strip(), "cellb"),
-                    p(s.rule_id or MISSING),
+                    fitted(s.rule_id or MISSING, "cell", WIDTH - 416),
                 ]
             )
-        out.append(grid_table(rows, [18, 112, 210, 70, WIDTH - 410]))
+        out.append(grid_table(rows, [18, 112, 210, 70, WIDTH - 410], font="cell"))
     if sheet.buildup is not None:
         out += buildup_section(sheet.buildup)
     if findings:
@@ -390,17 +389,12 @@ def sheet_section(
     if sheet.tables_used:
         out += table_heading("Tables used")
         rows = [headed(["table", "title", "edition", "sha256"])]
+        widths = [130, 200, 100, WIDTH - 430]
         for name in sheet.tables_used:
             tb = tables_by_name.get(name)
-            rows.append(
-                [
-                    p(name),
-                    p(tb.title if tb else ""),
-                    p(tb.edition if tb else ""),
-                    p(tb.sha256[:16] if tb else MISSING),
-                ]
-            )
-        out.append(grid_table(rows, [130, 200, 100, WIDTH - 430]))
+            cells = (name, tb.title, tb.edition, tb.sha256[:16]) if tb else (name, "", "", MISSING)
+            rows.append([fitted(c, "cell", w - 6) for c, w in zip(cells, widths, strict=True)])
+        out.append(grid_table(rows, widths, font="cell"))
     return out
 
 
