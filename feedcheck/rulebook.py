@@ -207,7 +207,7 @@ class RuleBook:
         t, cols = self.tables[table], tuple(match)
         index = self._index.get((table, cols))
         if index is None:
-            columns = [[canon_cell(c, v) for v in t.data[c]] for c in cols]
+            columns = [[canon_cell(c, v) for v in t.columns[c].tolist()] for c in cols]
             index = {}
             for i, key in enumerate(zip(*columns, strict=True)):
                 index.setdefault(key, i)
@@ -230,10 +230,10 @@ class RuleBook:
         insulation thickness table that sets its spacing."""
         want = parse_size(size)
         t9 = self.tables["conductor_impedance_table9"]
-        if any(canon_cell("size", v) == want.name for v in t9.data["size"]):
+        if any(canon_cell("size", v) == want.name for v in t9.columns["size"].tolist()):
             return (self.row_use(t9.name, size=want.name),)
         ins = self.tables["insulation_thickness"]
-        up_to = ins.data["up_to_mm2"].to_numpy(float)
+        up_to = np.asarray(ins.columns["up_to_mm2"], dtype=float)
         i = min(int(np.searchsorted(up_to, want.area_mm2 * (1 - 1e-9))), len(up_to) - 1)
         label = f"up to {up_to[i]:g} mm2 (for {want.name})"
         return (RowUse(ins.name, label, ins.row_confidence[i], ins.meta.get("cite", "")),)
@@ -267,10 +267,10 @@ class RuleBook:
         for name in names:
             sizes = self._index.get((name, "sizes", material))
             if sizes is None:
-                df = self.tables[name].data
+                cols = self.tables[name].columns
                 sizes = [
                     parse_size(str(s))
-                    for s, m in zip(df["size"], df["material"], strict=True)
+                    for s, m in zip(cols["size"].tolist(), cols["material"].tolist(), strict=True)
                     if m == material
                 ]
                 self._index[(name, "sizes", material)] = sizes
