@@ -62,7 +62,7 @@ def _column(temp_c, what: str) -> np.ndarray:
     col = np.full(t.shape, -1, dtype=np.intp)
     for i, c in enumerate(COLUMNS_C):
         col[t == c] = i
-    if np.any(col < 0):
+    if (col < 0).any():
         bad = t[col < 0].ravel()[0]
         raise ValueError(f"{what}: got {bad:g} °C; expected a table column, 60, 75 or 90 °C")
     return col
@@ -99,7 +99,7 @@ def ambient_factor(insulation_c, ambient_c):
     """
     tc = np.asarray(insulation_c, dtype=float)
     ta = np.asarray(ambient_c, dtype=float)
-    if not np.all(np.isfinite(ta)) or np.any(ta >= tc) or np.any(ta < -50.0):
+    if not np.isfinite(ta).all() or (ta >= tc).any() or (ta < -50.0).any():
         bad = np.broadcast_to(ta, np.broadcast(ta, tc).shape)[
             ~np.broadcast_to(
                 np.isfinite(ta) & (ta < tc) & (ta >= -50.0), np.broadcast(ta, tc).shape
@@ -128,7 +128,7 @@ def adjustment_factor(current_carrying, *, tables: AmpacityTables):
     """
     t = tables
     n = np.asarray(current_carrying)
-    if not np.all((n >= 1) & (n == np.floor(n))):
+    if not ((n >= 1) & (n == np.floor(n))).all():
         raise ValueError(
             f"current_carrying: got {current_carrying}; expected a whole number ≥ 1 "
             "of current-carrying conductors in the raceway"
@@ -223,7 +223,7 @@ def _base(tables, free_air, m, col, idx):
         tables.free_air_a[m, col, idx],
         tables.raceway_a[m, col, idx],
     )
-    if np.any(np.isnan(table)):
+    if np.isnan(table).any():
         pos = np.flatnonzero(np.isnan(np.asarray(table).ravel()))[0]
         name = SIZE_NAMES[np.asarray(idx).ravel()[pos]]
         mat = ("cu", "al")[np.asarray(m).ravel()[pos]]
@@ -238,9 +238,9 @@ def _base(tables, free_air, m, col, idx):
 def _check_sets(sets, idx) -> np.ndarray:
     """Parallel sets as an array: whole numbers ≥ 1, and 1/0 AWG or larger when > 1."""
     n_sets = np.asarray(sets)
-    if not np.all((n_sets >= 1) & (n_sets == np.floor(n_sets))):
+    if not ((n_sets >= 1) & (n_sets == np.floor(n_sets))).all():
         raise ValueError(f"sets: got {sets}; expected a whole number ≥ 1")
-    if np.any((n_sets > 1) & (AREA_MM2[idx] < PARALLEL_MIN_AREA_MM2 * (1 - 1e-9))):
+    if ((n_sets > 1) & (AREA_MM2[idx] < PARALLEL_MIN_AREA_MM2 * (1 - 1e-9))).any():
         raise ValueError(
             "sets: conductors in parallel must be 1/0 AWG or larger "
             "(NFPA 70 310.10(G)(1)); got a smaller size with sets > 1"

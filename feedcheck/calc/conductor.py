@@ -124,7 +124,7 @@ def material_index(material) -> np.ndarray:
 
 def _check_temperature(conductor_c) -> np.ndarray:
     t = np.asarray(conductor_c, dtype=float)
-    if not np.all(np.isfinite(t)) or np.any((t < -50.0) | (t > 400.0)):
+    if not np.isfinite(t).all() or ((t < -50.0) | (t > 400.0)).any():
         bad = t[~(np.isfinite(t) & (t >= -50.0) & (t <= 400.0))].ravel()[0]
         raise ValueError(f"conductor_c: got {bad}; expected a temperature from -50 to 400 °C")
     return t
@@ -174,7 +174,7 @@ def dc_resistance_ohm_per_m(area_mm2, material, conductor_c, *, data: ConductorD
     """
     d = data
     a = np.asarray(area_mm2, dtype=float)
-    if not np.all(np.isfinite(a) & (a > 0)):
+    if not (np.isfinite(a) & (a > 0)).all():
         raise ValueError(
             f"area_mm2: got {a[~(np.isfinite(a) & (a > 0))].ravel()[0]}; "
             "expected a positive cross-section in mm²"
@@ -360,7 +360,7 @@ def ac_impedance_ohm_per_m(size, material, raceway, conductor_c=75.0, *, data: C
     r = d.r75_ohm_per_m[m, col, idx] * (1.0 + d.alpha75[m] * (t - 75.0))
     x = d.xl_ohm_per_m[(col == 2).astype(np.intp), idx]
     missing = np.isnan(r)
-    if np.any(missing):
+    if missing.any():
         rc, xc = ac_impedance_computed_ohm_per_m(
             AREA_MM2[idx[missing]],
             np.array(MATERIALS)[m[missing]],
@@ -387,7 +387,7 @@ def parallel_impedance_ohm_per_m(r_ohm_per_m, x_ohm_per_m, sets):
     (0.1, 0.05)
     """
     n = np.asarray(sets)
-    if not np.all((n >= 1) & (n == np.floor(n))):
+    if not ((n >= 1) & (n == np.floor(n))).all():
         raise ValueError(f"sets: got {sets}; expected a whole number of sets ≥ 1")
     r = np.asarray(r_ohm_per_m, dtype=float) / n
     x = np.asarray(x_ohm_per_m, dtype=float) / n
