@@ -81,6 +81,10 @@ class ConductorData:
     ins_thickness_mm: np.ndarray
 
 
+# up to this many names are looked up one by one; more are first made distinct
+SMALL_LOOKUP = 64
+
+
 def size_index(size) -> np.ndarray:
     """Index into ``SIZE_NAMES`` for a size name or an array of names (same shape).
 
@@ -90,6 +94,10 @@ def size_index(size) -> np.ndarray:
     if type(size) is str and size in _SIZE_INDEX:  # one canonical name: the common call
         return np.array(_SIZE_INDEX[size], dtype=np.intp)
     arr = np.asarray(size, dtype=object)
+    if arr.size <= SMALL_LOOKUP:
+        names = arr.ravel().tolist()
+        if all(type(n) is str and n in _SIZE_INDEX for n in names):  # canonical names
+            return np.array([_SIZE_INDEX[n] for n in names], dtype=np.intp).reshape(arr.shape)
     uniq, inv = np.unique(arr.ravel().astype(str), return_inverse=True)
     idx = np.empty(len(uniq), dtype=np.intp)
     for k, name in enumerate(uniq):
