@@ -64,6 +64,7 @@ class Context:
     motor_loads: dict = field(default_factory=dict)  # panel id -> motors' 430.24 shares
     # node id -> NodeAdders: the one largest-motor 25 % of every node above a motor panel
     node_motor_adders: dict = field(default_factory=dict)
+    ampacity_row_cache: dict = field(default_factory=dict)  # see ampacity_rows()
 
     @cached_property
     def panel_by_id(self) -> dict:
@@ -128,8 +129,11 @@ class Context:
     def ampacity_rows(self, run, size: str | None = None) -> tuple[RowUse, ...]:
         """The ampacity table rows a figure of ``run`` (or of ``size`` in its place)
         reads (:meth:`RuleBook.ampacity_uses`)."""
-        name = size or run.size.name
-        return self.rules.ampacity_uses(name, run.material, run.raceway == "free-air")
+        key = (size or run.size.name, run.material, run.raceway == "free-air")
+        rows = self.ampacity_row_cache.get(key)
+        if rows is None:  # the same few sizes recur over a building's runs: read once
+            rows = self.ampacity_row_cache[key] = self.rules.ampacity_uses(*key)
+        return rows
 
     def add(
         self,
