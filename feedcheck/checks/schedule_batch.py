@@ -128,20 +128,20 @@ class ScheduleBatch:
         out = {}
         for j, pid in enumerate(demand.panel_ids):
             a, b = int(starts[j]), int(starts[j + 1])
-            panel_row = k.panels.iloc[j : j + 1].reset_index(drop=True)
+            panel_row = _rows(k.panels, j, j + 1)
             findings = each[j]
             out[pid] = schedule_result(
                 self.schedules[pid],
                 g.system,
                 (
-                    k.circuits.iloc[a:b].reset_index(drop=True),
+                    _rows(k.circuits, a, b),
                     _totals_of(records[j], g.occupancy, g.system),
                     panel_row,
                 ),
                 (k.q["panel"][a:b], k.q["circuit"][a:b], _slice_found(k.found, a, b), findings),
                 loads[pid],
                 {pid: loads[pid]},
-                k.review.iloc[a:b].reset_index(drop=True),
+                _rows(k.review, a, b),
             )
         return out
 
@@ -157,6 +157,17 @@ def _join(schedules: list[Schedule]) -> Schedule:
         p: (getattr(s, "spaces", {}) or {}).get(p, (0, 0)) for s in schedules for p in s.panels
     }
     return Schedule(schedules[0].path, circuits, schedules[0].load_unit, panels, spaces=spaces)
+
+
+def _rows(frame, a: int, b: int):
+    """Rows ``a:b`` of a group's frame numbered from 0: the values of
+    ``frame.iloc[a:b].reset_index(drop=True)``, sharing the group's arrays instead of
+    copying them (a checked frame is read, never changed in place)."""
+    import pandas as pd
+
+    part = frame.iloc[a:b].copy(deep=False)
+    part.index = pd.RangeIndex(b - a)
+    return part
 
 
 def _slice_found(found: list, a: int, b: int) -> list:
@@ -245,19 +256,19 @@ def _joined_files(items, members, system, panel_opts, book) -> dict:
     out = {}
     for j, (pid, i) in enumerate(members.items()):
         a, b = int(starts[j]), int(starts[j + 1])
-        row = k.panels.iloc[j : j + 1].reset_index(drop=True)
+        row = _rows(k.panels, j, j + 1)
         findings = each[j]
         out[pid] = schedule_result(
             items[i][0],
             system,
             (
-                k.circuits.iloc[a:b].reset_index(drop=True),
+                _rows(k.circuits, a, b),
                 totals[j],
                 row,
             ),
             (k.q["panel"][a:b], k.q["circuit"][a:b], _slice_found(k.found, a, b), findings),
             loads[pid],
             {pid: loads[pid]},
-            k.review.iloc[a:b].reset_index(drop=True),
+            _rows(k.review, a, b),
         )
     return out
