@@ -432,15 +432,9 @@ def ampacity_chain(
     t = tables
     _check_load_currents(continuous_a, noncontinuous_a)
     run = (size, material, insulation_c, ambient_c, current_carrying, termination_c, sets)
-    final = float(ampacity_a(*run, free_air, rooftop_adder_c, tables=t))
-    idx, m, ci, ct = _table_indices(size, material, insulation_c, termination_c)
-    tab = t.free_air_a if free_air else t.raceway_a
-    base = float(tab[m, ci, idx])
-    fa = float(ambient_factor(COLUMNS_C[ci], ambient_c + rooftop_adder_c))
-    fadj = float(adjustment_factor(current_carrying, tables=t))
-    corrected = round(base * fa * fadj * sets, 9)
-    cap = float(tab[m, ct, idx]) * sets
-    before = float(tab[m, min(ci, ct), idx]) * sets
+    final, idx, m, base, fa, fadj, corrected, cap, before = _chain_figures(
+        run, free_air, rooftop_adder_c, t
+    )
     req_before = t.continuous_factor * continuous_a + noncontinuous_a
     req_after = continuous_a + noncontinuous_a
     table_rule = "nec-310.17" if free_air else "nec-310.16"
@@ -472,6 +466,40 @@ def ampacity_chain(
         final >= req_after - 1e-9,
         _chain_rule_ids(table_rule, adj_rule, termination_c, sets),
     )
+
+
+_FIGURES: dict = {}  # (id(tables), inputs) -> (tables, figures): see _chain_figures
+_FIGURES_MAX = 4096
+
+
+def _chain_figures(run: tuple, free_air, rooftop_adder_c, tables: AmpacityTables) -> tuple:
+    """The figures of a run's chain that do not depend on its load: (final ampacity,
+    size and material index, base, ambient and adjustment factors, corrected, cap,
+    before corrections). Remembered by their inputs (a building repeats the same
+    runs): keyed by the tables' identity, which is checked again on use."""
+    key = (id(tables), run, free_air, rooftop_adder_c)
+    try:
+        hit = _FIGURES.get(key)
+    except TypeError:  # an input that cannot be a key (an array): worked out each time
+        key, hit = None, None
+    if hit is not None and hit[0] is tables:
+        return hit[1]
+    size, material, insulation_c, ambient_c, current_carrying, termination_c, sets = run
+    final = float(ampacity_a(*run, free_air, rooftop_adder_c, tables=tables))
+    idx, m, ci, ct = _table_indices(size, material, insulation_c, termination_c)
+    tab = tables.free_air_a if free_air else tables.raceway_a
+    base = float(tab[m, ci, idx])
+    fa = float(ambient_factor(COLUMNS_C[ci], ambient_c + rooftop_adder_c))
+    fadj = float(adjustment_factor(current_carrying, tables=tables))
+    corrected = round(base * fa * fadj * sets, 9)
+    cap = float(tab[m, ct, idx]) * sets
+    before = float(tab[m, min(ci, ct), idx]) * sets
+    figures = (final, idx, m, base, fa, fadj, corrected, cap, before)
+    if key is not None:
+        if len(_FIGURES) >= _FIGURES_MAX:
+            _FIGURES.clear()
+        _FIGURES[key] = (tables, figures)
+    return figures
 
 
 def _check_load_currents(continuous_a, noncontinuous_a) -> None:
