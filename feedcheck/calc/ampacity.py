@@ -62,7 +62,7 @@ def _column(temp_c, what: str) -> np.ndarray:
     col = np.full(t.shape, -1, dtype=np.intp)
     for i, c in enumerate(COLUMNS_C):
         col[t == c] = i
-    if np.any(col < 0):
+    if (col < 0).any():
         bad = t[col < 0].ravel()[0]
         raise ValueError(f"{what}: got {bad:g} °C; expected a table column, 60, 75 or 90 °C")
     return col
@@ -99,7 +99,7 @@ def ambient_factor(insulation_c, ambient_c):
     """
     tc = np.asarray(insulation_c, dtype=float)
     ta = np.asarray(ambient_c, dtype=float)
-    if not np.all(np.isfinite(ta)) or np.any(ta >= tc) or np.any(ta < -50.0):
+    if not np.isfinite(ta).all() or (ta >= tc).any() or (ta < -50.0).any():
         bad = np.broadcast_to(ta, np.broadcast(ta, tc).shape)[
             ~np.broadcast_to(
                 np.isfinite(ta) & (ta < tc) & (ta >= -50.0), np.broadcast(ta, tc).shape
@@ -128,7 +128,7 @@ def adjustment_factor(current_carrying, *, tables: AmpacityTables):
     """
     t = tables
     n = np.asarray(current_carrying)
-    if not np.all((n >= 1) & (n == np.floor(n))):
+    if not ((n >= 1) & (n == np.floor(n))).all():
         raise ValueError(
             f"current_carrying: got {current_carrying}; expected a whole number ≥ 1 "
             "of current-carrying conductors in the raceway"
@@ -223,7 +223,7 @@ def _base(tables, free_air, m, col, idx):
         tables.free_air_a[m, col, idx],
         tables.raceway_a[m, col, idx],
     )
-    if np.any(np.isnan(table)):
+    if np.isnan(table).any():
         pos = np.flatnonzero(np.isnan(np.asarray(table).ravel()))[0]
         name = SIZE_NAMES[np.asarray(idx).ravel()[pos]]
         mat = ("cu", "al")[np.asarray(m).ravel()[pos]]
@@ -238,9 +238,9 @@ def _base(tables, free_air, m, col, idx):
 def _check_sets(sets, idx) -> np.ndarray:
     """Parallel sets as an array: whole numbers ≥ 1, and 1/0 AWG or larger when > 1."""
     n_sets = np.asarray(sets)
-    if not np.all((n_sets >= 1) & (n_sets == np.floor(n_sets))):
+    if not ((n_sets >= 1) & (n_sets == np.floor(n_sets))).all():
         raise ValueError(f"sets: got {sets}; expected a whole number ≥ 1")
-    if np.any((n_sets > 1) & (AREA_MM2[idx] < PARALLEL_MIN_AREA_MM2 * (1 - 1e-9))):
+    if ((n_sets > 1) & (AREA_MM2[idx] < PARALLEL_MIN_AREA_MM2 * (1 - 1e-9))).any():
         raise ValueError(
             "sets: conductors in parallel must be 1/0 AWG or larger "
             "(NFPA 70 310.10(G)(1)); got a smaller size with sets > 1"
@@ -432,15 +432,9 @@ def ampacity_chain(
     t = tables
     _check_load_currents(continuous_a, noncontinuous_a)
     run = (size, material, insulation_c, ambient_c, current_carrying, termination_c, sets)
-    final = float(ampacity_a(*run, free_air, rooftop_adder_c, tables=t))
-    idx, m, ci, ct = _table_indices(size, material, insulation_c, termination_c)
-    tab = t.free_air_a if free_air else t.raceway_a
-    base = float(tab[m, ci, idx])
-    fa = float(ambient_factor(COLUMNS_C[ci], ambient_c + rooftop_adder_c))
-    fadj = float(adjustment_factor(current_carrying, tables=t))
-    corrected = round(base * fa * fadj * sets, 9)
-    cap = float(tab[m, ct, idx]) * sets
-    before = float(tab[m, min(ci, ct), idx]) * sets
+    final, idx, m, base, fa, fadj, corrected, cap, before = _chain_figures(
+        run, free_air, rooftop_adder_c, t
+    )
     req_before = t.continuous_factor * continuous_a + noncontinuous_a
     req_after = continuous_a + noncontinuous_a
     table_rule = "nec-310.17" if free_air else "nec-310.16"
@@ -472,6 +466,40 @@ def ampacity_chain(
         final >= req_after - 1e-9,
         _chain_rule_ids(table_rule, adj_rule, termination_c, sets),
     )
+
+
+_FIGURES: dict = {}  # (id(tables), inputs) -> (tables, figures): see _chain_figures
+_FIGURES_MAX = 4096
+
+
+def _chain_figures(run: tuple, free_air, rooftop_adder_c, tables: AmpacityTables) -> tuple:
+    """The figures of a run's chain that do not depend on its load: (final ampacity,
+    size and material index, base, ambient and adjustment factors, corrected, cap,
+    before corrections). Remembered by their inputs (a building repeats the same
+    runs): keyed by the tables' identity, which is checked again on use."""
+    key = (id(tables), run, free_air, rooftop_adder_c)
+    try:
+        hit = _FIGURES.get(key)
+    except TypeError:  # an input that cannot be a key (an array): worked out each time
+        key, hit = None, None
+    if hit is not None and hit[0] is tables:
+        return hit[1]
+    size, material, insulation_c, ambient_c, current_carrying, termination_c, sets = run
+    final = float(ampacity_a(*run, free_air, rooftop_adder_c, tables=tables))
+    idx, m, ci, ct = _table_indices(size, material, insulation_c, termination_c)
+    tab = tables.free_air_a if free_air else tables.raceway_a
+    base = float(tab[m, ci, idx])
+    fa = float(ambient_factor(COLUMNS_C[ci], ambient_c + rooftop_adder_c))
+    fadj = float(adjustment_factor(current_carrying, tables=tables))
+    corrected = round(base * fa * fadj * sets, 9)
+    cap = float(tab[m, ct, idx]) * sets
+    before = float(tab[m, min(ci, ct), idx]) * sets
+    figures = (final, idx, m, base, fa, fadj, corrected, cap, before)
+    if key is not None:
+        if len(_FIGURES) >= _FIGURES_MAX:
+            _FIGURES.clear()
+        _FIGURES[key] = (tables, figures)
+    return figures
 
 
 def _check_load_currents(continuous_a, noncontinuous_a) -> None:

@@ -81,6 +81,10 @@ class ConductorData:
     ins_thickness_mm: np.ndarray
 
 
+# up to this many names are looked up one by one; more are first made distinct
+SMALL_LOOKUP = 64
+
+
 def size_index(size) -> np.ndarray:
     """Index into ``SIZE_NAMES`` for a size name or an array of names (same shape).
 
@@ -90,6 +94,10 @@ def size_index(size) -> np.ndarray:
     if type(size) is str and size in _SIZE_INDEX:  # one canonical name: the common call
         return np.array(_SIZE_INDEX[size], dtype=np.intp)
     arr = np.asarray(size, dtype=object)
+    if arr.size <= SMALL_LOOKUP:
+        names = arr.ravel().tolist()
+        if all(type(n) is str and n in _SIZE_INDEX for n in names):  # canonical names
+            return np.array([_SIZE_INDEX[n] for n in names], dtype=np.intp).reshape(arr.shape)
     uniq, inv = np.unique(arr.ravel().astype(str), return_inverse=True)
     idx = np.empty(len(uniq), dtype=np.intp)
     for k, name in enumerate(uniq):
@@ -124,7 +132,7 @@ def material_index(material) -> np.ndarray:
 
 def _check_temperature(conductor_c) -> np.ndarray:
     t = np.asarray(conductor_c, dtype=float)
-    if not np.all(np.isfinite(t)) or np.any((t < -50.0) | (t > 400.0)):
+    if not np.isfinite(t).all() or ((t < -50.0) | (t > 400.0)).any():
         bad = t[~(np.isfinite(t) & (t >= -50.0) & (t <= 400.0))].ravel()[0]
         raise ValueError(f"conductor_c: got {bad}; expected a temperature from -50 to 400 °C")
     return t
@@ -174,7 +182,7 @@ def dc_resistance_ohm_per_m(area_mm2, material, conductor_c, *, data: ConductorD
     """
     d = data
     a = np.asarray(area_mm2, dtype=float)
-    if not np.all(np.isfinite(a) & (a > 0)):
+    if not (np.isfinite(a) & (a > 0)).all():
         raise ValueError(
             f"area_mm2: got {a[~(np.isfinite(a) & (a > 0))].ravel()[0]}; "
             "expected a positive cross-section in mm²"
@@ -360,7 +368,7 @@ def ac_impedance_ohm_per_m(size, material, raceway, conductor_c=75.0, *, data: C
     r = d.r75_ohm_per_m[m, col, idx] * (1.0 + d.alpha75[m] * (t - 75.0))
     x = d.xl_ohm_per_m[(col == 2).astype(np.intp), idx]
     missing = np.isnan(r)
-    if np.any(missing):
+    if missing.any():
         rc, xc = ac_impedance_computed_ohm_per_m(
             AREA_MM2[idx[missing]],
             np.array(MATERIALS)[m[missing]],
@@ -387,7 +395,7 @@ def parallel_impedance_ohm_per_m(r_ohm_per_m, x_ohm_per_m, sets):
     (0.1, 0.05)
     """
     n = np.asarray(sets)
-    if not np.all((n >= 1) & (n == np.floor(n))):
+    if not ((n >= 1) & (n == np.floor(n))).all():
         raise ValueError(f"sets: got {sets}; expected a whole number of sets ≥ 1")
     r = np.asarray(r_ohm_per_m, dtype=float) / n
     x = np.asarray(x_ohm_per_m, dtype=float) / n

@@ -47,7 +47,7 @@ def _out(arr):
 def _positive(name: str, value, allow_inf: bool = False) -> np.ndarray:
     arr = np.asarray(value, dtype=float)
     bad = np.isnan(arr) | (arr <= 0) | (~np.isfinite(arr) & (not allow_inf))
-    if np.any(bad):
+    if bad.any():
         raise ValueError(
             f"{name} must be a number greater than zero"
             f"{'' if allow_inf else ' and finite'}, got {value!r}"
@@ -57,14 +57,14 @@ def _positive(name: str, value, allow_inf: bool = False) -> np.ndarray:
 
 def _nonneg(name: str, value) -> np.ndarray:
     arr = np.asarray(value, dtype=float)
-    if np.any(~np.isfinite(arr) | (arr < 0)):
+    if (~np.isfinite(arr) | (arr < 0)).any():
         raise ValueError(f"{name} must be a finite number not below zero, got {value!r}")
     return arr
 
 
 def _impedance(name: str, value) -> np.ndarray:
     z = np.asarray(value, dtype=complex)
-    if np.any(~np.isfinite(z)) or np.any(z.real < 0) or np.any(z.imag < 0):
+    if (~np.isfinite(z)).any() or (z.real < 0).any() or (z.imag < 0).any():
         raise ValueError(f"{name} must be finite with R ≥ 0 and X ≥ 0 [Ω], got {value!r}")
     return z
 
@@ -168,7 +168,7 @@ def transformer_fault_impedances_ohm(rating_va, voltage_ll_v, z_pct, x_r, tolera
     0.860465
     """
     tol = np.asarray(tolerance_pct, dtype=float)
-    if np.any(~np.isfinite(tol) | (tol < 0) | (tol >= 100)):
+    if (~np.isfinite(tol) | (tol < 0) | (tol >= 100)).any():
         raise ValueError(f"tolerance_pct must be in [0, 100), got {tolerance_pct!r}")
     z = np.asarray(transformer_impedance_ohm(rating_va, voltage_ll_v, z_pct, x_r, phases))
     return _out(z * (1.0 - tol / 100.0)), _out(z * (1.0 + tol / 100.0))
@@ -187,7 +187,7 @@ def branch_impedance_ohm(length_m, r_ohm_per_m, x_ohm_per_m, sets=1):
     r = _nonneg("r_ohm_per_m", r_ohm_per_m)
     x = _nonneg("x_ohm_per_m", x_ohm_per_m)
     n = np.asarray(sets, dtype=float)
-    if np.any(~np.isfinite(n) | (n < 1) | (n != np.round(n))):
+    if (~np.isfinite(n) | (n < 1) | (n != np.round(n))).any():
         raise ValueError(f"sets must be a whole number ≥ 1, got {sets!r}")
     return _out(length * (r + 1j * x) / n)
 
@@ -232,7 +232,7 @@ def fault_current_3ph_a(voltage_ll_v, z_total_ohm, c=1.0):
     v = _positive("voltage_ll_v", voltage_ll_v)
     cc = _positive("c", c)
     z = np.abs(_impedance("z_total_ohm", z_total_ohm))
-    if np.any(z <= 0):
+    if (z <= 0).any():
         raise ValueError(
             "z_total_ohm must not be zero: an infinite source needs a "
             "transformer or conductor impedance in the path"
@@ -254,7 +254,7 @@ def fault_current_1ph_a(voltage_v, z_loop_ohm, c=1.0):
     v = _positive("voltage_v", voltage_v)
     cc = _positive("c", c)
     z = np.abs(_impedance("z_loop_ohm", z_loop_ohm))
-    if np.any(z <= 0):
+    if (z <= 0).any():
         raise ValueError("z_loop_ohm must not be zero")
     return _out(cc * v / z)
 
@@ -336,7 +336,7 @@ def _check_parents(parent_index) -> np.ndarray:
     if p.ndim != 1 or not np.issubdtype(p.dtype, np.integer):
         raise ValueError("parent_index must be a 1-D integer array (−1 for a root)")
     idx = np.arange(p.size)
-    if np.any((p < -1) | (p >= idx)):
+    if ((p < -1) | (p >= idx)).any():
         bad = int(np.flatnonzero((p < -1) | (p >= idx))[0])
         raise ValueError(
             f"parent_index[{bad}] = {int(p[bad])}: expected −1 (root) or the "

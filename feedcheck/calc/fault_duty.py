@@ -91,7 +91,7 @@ def governing_duty_a(fault_3ph_a=None, fault_ll_a=None, fault_ln_a=None, fault_l
     arrs = []
     for n, v in given:
         a = np.asarray(v, dtype=float)
-        if np.any(~np.isfinite(a) | (a < 0)):
+        if (~np.isfinite(a) | (a < 0)).any():
             raise ValueError(f"fault_{n}_a must be finite numbers not below zero, got {v!r}")
         arrs.append(a)
     stack = np.stack(np.broadcast_arrays(*arrs))
@@ -112,7 +112,7 @@ def x_r_from_power_factor(pf):
     (4.899, 6.591)
     """
     p = np.asarray(pf, dtype=float)
-    if np.any(~np.isfinite(p) | (p <= 0) | (p > 1)):
+    if (~np.isfinite(p) | (p <= 0) | (p > 1)).any():
         raise ValueError(f"pf must be in (0, 1], got {pf!r}")
     return _out(np.sqrt(1.0 - p**2) / p)
 
@@ -168,7 +168,7 @@ def asymmetry_multiplying_factor(x_r, test_x_r, basis):
     xt = _positive("test_x_r", test_x_r)
     b = np.asarray(basis, dtype=object)
     bad = ~np.isin(b, RATING_BASES)
-    if np.any(bad):
+    if bad.any():
         raise ValueError(f"basis must be one of {RATING_BASES}, got {basis!r}")
     peak = _peak_ratio(xr) / _peak_ratio(xt)
     rms = _rms_ratio(xr) / _rms_ratio(xt)
@@ -281,6 +281,6 @@ def fault_lg_delta_wye_a(
     z1 = zs + zt + zp
     z0 = k * zt + zp + 3.0 * zr
     z = np.abs(2.0 * z1 + z0)
-    if np.any(z <= 0):
+    if (z <= 0).any():
         raise ValueError("z1 + z2 + z0 must not be zero")
     return _out(3.0 * _positive("c", c) * v / z)

@@ -80,10 +80,12 @@ def element_current_a(load_va, connection, voltage_ll_v):
         raise ValueError(f"voltage_ll_v: got {voltage_ll_v!r}; expected a voltage > 0 V")
     conn = np.broadcast_to(np.asarray(connection, dtype=object), s.shape)
     div = np.empty(s.shape)
+    bad = np.ones(s.shape, dtype=bool)  # not (yet) a known connection
     for code, ph in CONNECTIONS.items():
-        div[conn == code] = {1: v / SQRT3, 2: v, 3: SQRT3 * v}[len(ph)]
-    bad = ~np.isin(conn, list(CONNECTIONS))
-    if np.any(bad):
+        this = conn == code
+        div[this] = {1: v / SQRT3, 2: v, 3: SQRT3 * v}[len(ph)]
+        bad &= ~this
+    if bad.any():
         raise ValueError(
             f"connection: got {conn[bad].ravel()[0]!r}; expected one of {', '.join(CONNECTIONS)}"
         )
@@ -158,7 +160,7 @@ def phase_currents_a(load_va, connection, voltage_ll_v):
     s = np.atleast_1d(_nonneg("load_va", load_va))
     conn = np.broadcast_to(np.asarray(connection, dtype=object), s.shape)
     unset = np.isin(conn, list(UNSPECIFIED))
-    if np.any(unset):
+    if unset.any():
         raise ValueError(
             "connection: unspecified (LL/LN) connections must be assigned "
             "first (assign_connections)"
@@ -167,7 +169,7 @@ def phase_currents_a(load_va, connection, voltage_ll_v):
     out = np.zeros(3)
     for code, ph in CONNECTIONS.items():
         m = conn == code
-        if np.any(m):
+        if m.any():
             out[list(ph)] += i[m].sum()
     return out
 
@@ -245,7 +247,7 @@ def phase_loading(load_va, continuous, connection, voltage_ll_v, motor=None) -> 
         if motor is None
         else np.broadcast_to(np.asarray(motor, dtype=bool), s.shape)
     )
-    if np.any(cont & mot):
+    if (cont & mot).any():
         raise ValueError(
             "continuous: a motor is not also a continuous load (430.24 takes "
             "125 % of the largest motor instead)"
@@ -297,7 +299,7 @@ def vdrop_factor(phases):
     IEEE Std 141-1993, ch. 3 (voltage drop of single- and three-phase circuits).
     """
     p = np.asarray(phases)
-    if not np.all(np.isin(p, (1, 3))):
+    if not np.isin(p, (1, 3)).all():
         raise ValueError(f"phases: got {phases!r}; expected 1 or 3")
     out = np.where(p == 3, SQRT3, 2.0)
     return out if out.ndim else float(out)
@@ -305,6 +307,6 @@ def vdrop_factor(phases):
 
 def _nonneg(name, x):
     a = np.asarray(x, dtype=float)
-    if not np.all(np.isfinite(a) & (a >= 0)):
+    if not (np.isfinite(a) & (a >= 0)).all():
         raise ValueError(f"{name}: got {x!r}; expected finite values ≥ 0")
     return a

@@ -40,7 +40,7 @@ def conductor_constant_a_ft_per_v(r_ohm_per_m, x_ohm_per_m):
     """
     z_kft = np.hypot(_nonneg("r_ohm_per_m", r_ohm_per_m), _nonneg("x_ohm_per_m", x_ohm_per_m))
     z_kft = z_kft * 304.8
-    if np.any(z_kft <= 0):
+    if (z_kft <= 0).any():
         raise ValueError("conductor impedance must not be zero")
     return _out(1000.0 / z_kft)
 
@@ -70,7 +70,7 @@ def ptp_secondary_current_a(
     i = _positive("rated_current_a", rated_current_a)
     zp = _positive("z_pct", z_pct)
     tol = np.asarray(tolerance_pct, dtype=float)
-    if np.any(~np.isfinite(tol) | (tol < 0) | (tol >= 100)):
+    if (~np.isfinite(tol) | (tol < 0) | (tol >= 100)).any():
         raise ValueError(f"tolerance_pct must be in [0, 100), got {tolerance_pct!r}")
     inf_bus = i * 100.0 / (zp * (1.0 - tol / 100.0))
     if primary_fault_a is None:

@@ -57,10 +57,10 @@ def current_from_apparent_power_a(va, voltage_ll_v, phases=3):
     IEEE Std 141-1993, ch. 3.
     """
     ph = np.asarray(phases)
-    if not np.all(np.isin(ph, (1, 3))):
+    if not np.isin(ph, (1, 3)).all():
         raise ValueError(f"phases must be 1 or 3, got {phases!r}")
     v = np.asarray(voltage_ll_v, dtype=float)
-    if not np.all(np.isfinite(v)) or np.any(v <= 0):
+    if not np.isfinite(v).all() or (v <= 0).any():
         raise ValueError(
             f"voltage_ll_v must be a finite number greater than zero, got {voltage_ll_v!r}"
         )

@@ -58,7 +58,7 @@ def standard_ratings_a(kind: str = "breaker", *, tables: ProtectionTables):
 
 def _positive(x, name):
     a = np.asarray(x, dtype=float)
-    if not np.all(np.isfinite(a) & (a >= 0)):
+    if not (np.isfinite(a) & (a >= 0)).all():
         raise ValueError(
             f"{name}: got {a[~(np.isfinite(a) & (a >= 0))].ravel()[0]}; "
             "expected a finite current ≥ 0 A"
@@ -87,7 +87,7 @@ def next_standard_rating_a(current_a, kind: str = "breaker", *, tables: Protecti
     r = standard_ratings_a(kind, tables=tables)
     a = _positive(current_a, "current_a")
     i = np.searchsorted(r, a * (1 - 1e-12), side="left")
-    if np.any(i >= len(r)):
+    if (i >= len(r)).any():
         raise ValueError(
             f"current_a: got {a.max():g} A; expected at most {r[-1]:g} A, the "
             "largest standard rating"
@@ -295,7 +295,7 @@ def egc_area_mm2(
     """
     t = tables
     d = np.asarray(device_a, float)
-    if not np.all(np.isfinite(d) & (d > 0) & (d <= t.egc_up_to_a[-1])):
+    if not (np.isfinite(d) & (d > 0) & (d <= t.egc_up_to_a[-1])).all():
         raise ValueError(
             f"device_a: got {device_a}; expected a device rating from 1 to "
             f"{t.egc_up_to_a[-1]:g} A (Table 250.122)"
@@ -310,7 +310,7 @@ def egc_area_mm2(
         return table, table, np.ones(shape), np.full(shape, np.inf)
     ps = np.asarray(phase_area_mm2, float)
     pm = np.asarray(phase_min_area_mm2, float)
-    if not (np.all(ps > 0) and np.all(pm > 0)):
+    if not ((ps > 0).all() and (pm > 0).all()):
         raise ValueError("phase_area_mm2, phase_min_area_mm2: expected areas > 0 mm²")
     ratio = np.where(ps > pm * (1 + 1e-9), ps / pm, 1.0)
     pmat = material_index(material if phase_material is None else phase_material)

@@ -26,6 +26,7 @@ NFPA 70-2023 110.14(C), 215.2(A)(1), 215.3, 240.4, 310.10(G), 310.15; IEC 60364-
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import cache
 
 import numpy as np
 
@@ -216,6 +217,13 @@ def _none_meets(first: dict, check_vd: bool, check_ws: bool) -> None:
     )
 
 
+@cache
+def _order_indices(system: str) -> tuple[int, ...]:
+    """Index of every size of the system's order (``SIZE_NAMES``), looked up once."""
+    order = AWG_KCMIL_ORDER if system == "awg" else METRIC_ORDER
+    return tuple(size_index(np.array(order, dtype=object)).tolist())
+
+
 def _candidates(system, sets, material, termination_c, dev, equipment_75c, data: SizingData):
     """The sizes tried, smallest first (tabulated for the material; 1/0 AWG or larger in
     parallel), and the termination column of each (110.14(C)(1) when not given)."""
@@ -223,11 +231,11 @@ def _candidates(system, sets, material, termination_c, dev, equipment_75c, data:
     m = 0 if material == "cu" else 1
     small = float(AREA_MM2[size_index("1 AWG")])
     names, terms = [], []
-    for name in order:
-        area = float(AREA_MM2[size_index(name)])
+    for name, i in zip(order, _order_indices(system), strict=True):
+        area = float(AREA_MM2[i])
         if sets > 1 and area < PARALLEL_MIN_AREA_MM2 * (1 - 1e-9):
             continue
-        if np.isnan(data.ampacity.raceway_a[m, 0, size_index(name)]):
+        if np.isnan(data.ampacity.raceway_a[m, 0, i]):
             continue
         names.append(name)
         if termination_c is not None:

@@ -25,14 +25,14 @@ from .power import current_from_apparent_power_a
 
 def _phase_factor(phases):
     phases = np.asarray(phases)
-    if not np.all(np.isin(phases, (1, 3))):
+    if not np.isin(phases, (1, 3)).all():
         raise ValueError(f"phases must be 1 or 3, got {phases!r}")
     return np.where(phases == 3, SQRT3, 1.0)
 
 
 def _positive(name: str, value) -> np.ndarray:
     arr = np.asarray(value, dtype=float)
-    if not np.all(np.isfinite(arr)) or np.any(arr <= 0):
+    if not np.isfinite(arr).all() or (arr <= 0).any():
         raise ValueError(f"{name} must be a finite number greater than zero, got {value!r}")
     return arr
 
@@ -146,10 +146,10 @@ def transformer_impedance_ohm(rating_va, voltage_ll_v, z_pct, x_r, phases=3):
 
 def _load_terms(r_pct, x_pct, load_fraction, pf):
     pf = np.asarray(pf, dtype=float)
-    if np.any((pf <= 0) | (pf > 1)):
+    if ((pf <= 0) | (pf > 1)).any():
         raise ValueError(f"power factor must be in (0, 1], got {pf!r}")
     n = np.asarray(load_fraction, dtype=float)
-    if np.any(n < 0) or not np.all(np.isfinite(n)):
+    if (n < 0).any() or not np.isfinite(n).all():
         raise ValueError(f"load fraction must be finite and not negative, got {load_fraction!r}")
     sin = np.sqrt(1.0 - pf**2)
     a = n * (np.asarray(r_pct) * pf + np.asarray(x_pct) * sin) / 100.0
@@ -229,7 +229,7 @@ def secondary_drop_pct_exact(r_pct, x_pct, load_fraction, pf, sending_pu=1.0):
     a, b = _load_terms(r_pct, x_pct, load_fraction, pf)
     es = np.asarray(sending_pu, dtype=float)
     rad = es**2 - b**2
-    if np.any(rad < 0):
+    if (rad < 0).any():
         raise ValueError("load too large for this impedance: no real receiving-end voltage")
     out = 100.0 * (es - (np.sqrt(rad) - a))
     return out if np.ndim(out) else float(out)

@@ -38,7 +38,7 @@ FAMILIES = ("thermoplastic", "thermoset")
 def _arr(name, x, allow_zero=False):
     a = np.asarray(x, dtype=float)
     ok = np.isfinite(a) & ((a >= 0) if allow_zero else (a > 0))
-    if not np.all(ok):
+    if not ok.all():
         raise ValueError(
             f"{name} must be finite and {'not below' if allow_zero else 'above'} zero, got {x!r}"
         )
@@ -49,11 +49,11 @@ def _temps(t0_c, initial_c, final_c):
     t0 = _arr("t0_c", t0_c)
     t1 = np.asarray(initial_c, dtype=float)
     t2 = np.asarray(final_c, dtype=float)
-    if np.any(~np.isfinite(t1) | ~np.isfinite(t2)):
+    if (~np.isfinite(t1) | ~np.isfinite(t2)).any():
         raise ValueError("initial_c and final_c must be finite temperatures [°C]")
-    if np.any(t2 <= t1):
+    if (t2 <= t1).any():
         raise ValueError(f"final_c must be above initial_c, got {final_c!r} ≤ {initial_c!r}")
-    if np.any(t1 + t0 <= 0):
+    if (t1 + t0 <= 0).any():
         raise ValueError("initial_c must be above −T0")
     return t0, t1, t2
 
@@ -129,7 +129,7 @@ def icea_final_temperature_c(current_a, area_mm2, clearing_s, k_icea, t0_c, init
     k = _arr("k_icea", k_icea)
     t0 = _arr("t0_c", t0_c)
     t1 = np.asarray(initial_c, dtype=float)
-    if np.any(~np.isfinite(t1) | (t1 + t0 <= 0)):
+    if (~np.isfinite(t1) | (t1 + t0 <= 0)).any():
         raise ValueError(f"initial_c must be a finite temperature above −T0, got {initial_c!r}")
     return _out((t1 + t0) * 10.0 ** ((i / a_cmil) ** 2 * t / k) - t0)
 
@@ -149,7 +149,7 @@ def operating_temperature_c(ambient_c, rated_c, current_a, ampacity_a):
     """
     ta = np.asarray(ambient_c, dtype=float)
     tr = np.asarray(rated_c, dtype=float)
-    if np.any(~np.isfinite(ta) | ~np.isfinite(tr) | (tr <= ta)):
+    if (~np.isfinite(ta) | ~np.isfinite(tr) | (tr <= ta)).any():
         raise ValueError("rated_c must be a finite temperature above ambient_c")
     i = _arr("current_a", current_a, allow_zero=True)
     amp = _arr("ampacity_a", ampacity_a)

@@ -5,6 +5,7 @@ from __future__ import annotations
 from collections.abc import Iterator, Mapping, Sequence
 from contextlib import contextmanager
 from dataclasses import dataclass, field, replace
+from functools import cached_property
 
 from ..calc.power import current_from_apparent_power_a
 from ..findings import Finding, Status
@@ -63,6 +64,20 @@ class Context:
     motor_loads: dict = field(default_factory=dict)  # panel id -> motors' 430.24 shares
     # node id -> NodeAdders: the one largest-motor 25 % of every node above a motor panel
     node_motor_adders: dict = field(default_factory=dict)
+    ampacity_row_cache: dict = field(default_factory=dict)  # see ampacity_rows()
+
+    @cached_property
+    def panel_by_id(self) -> dict:
+        """The job's panels by id (looked up once per node, not by a scan of them all)."""
+        return _first_by_id(self.job.panels)
+
+    @cached_property
+    def transformer_by_id(self) -> dict:
+        return _first_by_id(self.job.transformers)
+
+    @cached_property
+    def run_by_id(self) -> dict:
+        return _first_by_id(self.job.runs)
 
     def length(self, length_m: float, decimals: int | None = None, pair: bool = False) -> str:
         """A length [m] for a note or a sheet, in the unit the job is written in (``pair``:
@@ -114,8 +129,11 @@ class Context:
     def ampacity_rows(self, run, size: str | None = None) -> tuple[RowUse, ...]:
         """The ampacity table rows a figure of ``run`` (or of ``size`` in its place)
         reads (:meth:`RuleBook.ampacity_uses`)."""
-        name = size or run.size.name
-        return self.rules.ampacity_uses(name, run.material, run.raceway == "free-air")
+        key = (size or run.size.name, run.material, run.raceway == "free-air")
+        rows = self.ampacity_row_cache.get(key)
+        if rows is None:  # the same few sizes recur over a building's runs: read once
+            rows = self.ampacity_row_cache[key] = self.rules.ampacity_uses(*key)
+        return rows
 
     def add(
         self,
@@ -190,6 +208,14 @@ class Context:
     def load_current_a(self, node: str) -> float:
         v = self.tree.voltage_of[node]
         return current_from_apparent_power_a(self.loads[node].va, v.voltage_ll_v, v.phases)
+
+
+def _first_by_id(items) -> dict:
+    """``{id: item}``, the first item of each id (as a scan for it would find)."""
+    out: dict = {}
+    for item in items:
+        out.setdefault(item.id, item)
+    return out
 
 
 def _f(v):

@@ -26,12 +26,12 @@ def _path(ctx: Context, n: str) -> list[str]:
 
 def _component(ctx: Context, part: BranchPart) -> str:
     if part.kind == "transformer":
-        t = next(t for t in ctx.job.transformers if t.id == part.element_id)
+        t = ctx.transformer_by_id[part.element_id]
         return (
             f"transformer {t.id}: {t.rating_va / 1000:g} kVA, {t.z_pct:g} % Z, "
             f"X/R {t.x_r:g}, {t.primary.text} → {t.secondary.text}"
         )
-    run = next(r for r in ctx.job.runs if r.id == part.element_id)
+    run = ctx.run_by_id[part.element_id]
     sets = f"{run.sets} × " if run.sets > 1 else ""
     return (
         f"run {run.id}: {sets}{run.size.name} {run.material.capitalize()}, "

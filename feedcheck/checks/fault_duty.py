@@ -325,7 +325,7 @@ def panel_duty(ctx: Context, panel, faults_a: dict, x_r: dict) -> Duty:
 
 def node_duty(ctx: Context, n: str, faults_a: dict, x_r: dict) -> Duty:
     """Governing duty at any node; panels get their device family's factor."""
-    panel = next((p for p in ctx.job.panels if p.id == n), None)
+    panel = ctx.panel_by_id.get(n)
     if panel is not None:
         return panel_duty(ctx, panel, faults_a, x_r)
     sym, case, xr = governing(faults_a, x_r)
@@ -381,7 +381,7 @@ def _sheet_steps(ctx: Context, n: str, d: Duty) -> None:
 
 
 def _check_interrupting(ctx: Context, n: str, d: Duty) -> None:
-    panel = next(p for p in ctx.job.panels if p.id == n)
+    panel = ctx.panel_by_id[n]
     rating, series = series_rating_a(ctx, panel)  # 240.86: a combination's rating
     what = f"{CASE_WORDS[d.case]} maximum governs" + (f"; {series}" if series else "")
     if rating is None:

@@ -101,8 +101,12 @@ def roll_up_phases(job: Job, tree: Tree, own: dict) -> dict[str, PhaseLoad]:
             pload.cont_a[:k] += o.continuous_va / k / line_share_v(v)
             pload.non_a[:k] += (o.va - o.continuous_va) / k / line_share_v(v)
         out[n] = pload
+    children: dict[str, list[str]] = {n: [] for n in tree.order}  # tree.children, at once
+    for n in tree.order:
+        if tree.parent_node[n] is not None:
+            children[tree.parent_node[n]].append(n)
     for p in reversed(tree.order):
-        kids = tree.children(p)
+        kids = children[p]
         if kids:
             _feed_children(tree, tx, p, kids, out, pairs)
     return out
@@ -123,20 +127,37 @@ def _feed_children(tree: Tree, tx: dict, p: str, kids: list[str], out: dict, pai
         elements += _elements_of_child(tree, tx.get(c), c, out[c], pairs)
     va = [ce + ne for _, ce, ne, _ in elements]
     conn = assign_connections(va, [e[3] for e in elements], pv.voltage_ll_v) if elements else []
+    by_child: dict[str, list] = {c: [] for c in kids}  # each child's elements, in order
+    for element, used in zip(elements, conn, strict=True):
+        by_child[element[0]].append((element, used))
     for c in kids:
         fc, fn = np.zeros(3), np.zeros(3)
-        for (child, ce, ne, given), used in zip(elements, conn, strict=True):
-            if child != c:
-                continue
+        passed = tx.get(c) is None and out[c].single_phase_feed  # its own lines
+        currents = _element_currents(by_child[c], pv.voltage_ll_v) if not passed else None
+        for k, ((_child, _ce, _ne, given), used) in enumerate(by_child[c]):
             ph = list(CONNECTIONS[used])
             if given in UNSPECIFIED or out[c].single_phase_feed:
                 out[c].connection, out[c].assigned = used, given in UNSPECIFIED
-            if tx.get(c) is None and out[c].single_phase_feed:
+            if passed:
                 _pass_lines(out[c], ph, fc, fn)  # a single-phase panel: its own lines
                 continue
-            fc[ph] += element_current_a(ce, used, pv.voltage_ll_v)
-            fn[ph] += element_current_a(ne, used, pv.voltage_ll_v)
+            fc[ph] += currents[0][k]
+            fn[ph] += currents[1][k]
         _store(out[c], parent, fc, fn)
+
+
+def _element_currents(elements: list, voltage_ll_v: float) -> tuple[np.ndarray, np.ndarray]:
+    """Continuous and noncontinuous line current [A] of each (element, connection) of
+    one child, in one call each."""
+    if not elements:
+        return np.zeros(0), np.zeros(0)
+    used = np.array([u for _, u in elements], dtype=object)
+    cont = np.array([e[1] for e, _ in elements], dtype=float)
+    non = np.array([e[2] for e, _ in elements], dtype=float)
+    return (
+        np.atleast_1d(element_current_a(cont, used, voltage_ll_v)),
+        np.atleast_1d(element_current_a(non, used, voltage_ll_v)),
+    )
 
 
 def _pass_lines(load: PhaseLoad, ph: list[int], fc, fn) -> None:

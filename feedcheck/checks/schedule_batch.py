@@ -26,10 +26,10 @@ from ..rulebook import RuleBook
 from .schedules import (
     ScheduleDemand,
     ScheduleResult,
-    _panel_findings,
     _rule_rows,
     check_frame,
     check_schedule,
+    panel_findings_each,
     schedule_demand,
     schedule_result,
     totals_of_record,
@@ -115,33 +115,33 @@ class ScheduleBatch:
         loads = demand.loads
         starts = np.searchsorted(demand.panel_code, np.arange(len(g.ids) + 1))
         records = k.panels.to_dict("records")  # once for the group, not per panel
+        ratings = [self.panels[pid] for pid in demand.panel_ids]
+        each = panel_findings_each(
+            k.panels,
+            k.imbalance,
+            k.per_phase,
+            rules,
+            g.system,
+            [p.rating_a for p in ratings],
+            [p.main_device_a for p in ratings],
+        )
         out = {}
         for j, pid in enumerate(demand.panel_ids):
             a, b = int(starts[j]), int(starts[j + 1])
-            p = self.panels[pid]
-            panel_row = k.panels.iloc[j : j + 1].reset_index(drop=True)
-            findings = _panel_findings(
-                panel_row,
-                k.design_va[j : j + 1],
-                k.imbalance[j : j + 1],
-                k.per_phase[j : j + 1],
-                rules,
-                g.system,
-                p.rating_a,
-                p.main_device_a,
-            )
+            panel_row = _rows(k.panels, j, j + 1)
+            findings = each[j]
             out[pid] = schedule_result(
                 self.schedules[pid],
                 g.system,
                 (
-                    k.circuits.iloc[a:b].reset_index(drop=True),
+                    _rows(k.circuits, a, b),
                     _totals_of(records[j], g.occupancy, g.system),
                     panel_row,
                 ),
                 (k.q["panel"][a:b], k.q["circuit"][a:b], _slice_found(k.found, a, b), findings),
                 loads[pid],
                 {pid: loads[pid]},
-                k.review.iloc[a:b].reset_index(drop=True),
+                _rows(k.review, a, b),
             )
         return out
 
@@ -159,14 +159,28 @@ def _join(schedules: list[Schedule]) -> Schedule:
     return Schedule(schedules[0].path, circuits, schedules[0].load_unit, panels, spaces=spaces)
 
 
+def _rows(frame, a: int, b: int):
+    """Rows ``a:b`` of a group's frame numbered from 0: the values of
+    ``frame.iloc[a:b].reset_index(drop=True)``, sharing the group's arrays instead of
+    copying them (a checked frame is read, never changed in place)."""
+    import pandas as pd
+
+    part = frame.iloc[a:b].copy(deep=False)
+    part.index = pd.RangeIndex(b - a)
+    return part
+
+
 def _slice_found(found: list, a: int, b: int) -> list:
     """The rule failures of circuits ``a:b`` renumbered from 0 (rules without one
     dropped), as :func:`~feedcheck.checks.schedule_rules.apply_rules` gives them."""
     out = []
     for name, rid, idx, vals, lims, unit, status, texts in found:
-        sel = (idx >= a) & (idx < b)
-        if sel.any():
-            out.append((name, rid, idx[sel] - a, vals[sel], lims[sel], unit, status, texts[sel]))
+        lo, hi = np.searchsorted(idx, (a, b))  # idx ascends (np.flatnonzero)
+        if hi > lo:
+            part = slice(lo, hi)
+            out.append(
+                (name, rid, idx[part] - a, vals[part], lims[part], unit, status, texts[part])
+            )
     return out
 
 
@@ -235,23 +249,26 @@ def _joined_files(items, members, system, panel_opts, book) -> dict:
     loads = demand.loads
     totals = panel_totals(k.panels, occupancy, system)
     starts = np.searchsorted(demand.panel_code, np.arange(len(scheds) + 1))
+    n = len(scheds)
+    each = panel_findings_each(
+        k.panels, k.imbalance, k.per_phase, rules, system, [bus_a] * n, [main_a] * n
+    )
     out = {}
     for j, (pid, i) in enumerate(members.items()):
         a, b = int(starts[j]), int(starts[j + 1])
-        row = k.panels.iloc[j : j + 1].reset_index(drop=True)
-        one = (k.design_va[j : j + 1], k.imbalance[j : j + 1], k.per_phase[j : j + 1])
-        findings = _panel_findings(row, *one, rules, system, bus_a, main_a)
+        row = _rows(k.panels, j, j + 1)
+        findings = each[j]
         out[pid] = schedule_result(
             items[i][0],
             system,
             (
-                k.circuits.iloc[a:b].reset_index(drop=True),
+                _rows(k.circuits, a, b),
                 totals[j],
                 row,
             ),
             (k.q["panel"][a:b], k.q["circuit"][a:b], _slice_found(k.found, a, b), findings),
             loads[pid],
             {pid: loads[pid]},
-            k.review.iloc[a:b].reset_index(drop=True),
+            _rows(k.review, a, b),
         )
     return out

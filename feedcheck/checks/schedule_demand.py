@@ -11,6 +11,7 @@ continuous portion is carried separately; the feeder and panel checks apply its 
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import cached_property
 
 import numpy as np
 
@@ -87,8 +88,10 @@ class ScheduleDemand:
             self.continuous_factor,
         )
 
-    @property
+    @cached_property
     def loads(self) -> dict[str, Load]:
+        """Each panel's demand load, ``{panel_id: Load}`` (worked out once: the feed walk
+        and the circuit checks read the same loads, which no one changes in place)."""
         f = self.figures
         return {
             pid: Load(

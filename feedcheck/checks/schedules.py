@@ -390,15 +390,25 @@ def _panel_table(demand: ScheduleDemand, per_phase, sev, system: VoltageSystem):
 def _panel_findings(panels, design_va, imbalance, per_phase, rules, system, bus_a, main_a):
     """Phase balance of each panel, and its heaviest phase's design current against bus
     and main device."""
+    n = len(panels)
+    each = panel_findings_each(
+        panels, imbalance, per_phase, rules, system, [bus_a] * n, [main_a] * n
+    )
+    return [f for one in each for f in one]
+
+
+def panel_findings_each(panels, imbalance, per_phase, rules, system, bus_a, main_a):
+    """The findings of :func:`_panel_findings`, one list per panel (row of ``panels``);
+    ``bus_a`` and ``main_a``: each panel's ratings (None: not given)."""
     from .compare import compare
 
     n_ph = 3 if system.phases == 3 else (2 if system.kind == "split" else 1)
     imb = rules["sched-imbalance"]
-    findings: list[Finding] = []
+    out: list[list[Finding]] = []
     design_a = panels["design_current_a"].to_numpy(float)
     line_a = panels[[f"phase_{x}_design_a" for x in "abc"]].to_numpy(float)
     for j, pid in enumerate(panels["panel"].tolist()):
-        findings.append(
+        findings = [
             compare(
                 float(imbalance[j]),
                 float(imb["value"]),
@@ -413,12 +423,12 @@ def _panel_findings(panels, design_va, imbalance, per_phase, rules, system, bus_
                 + " kVA)",
                 tolerance=0.0,
             )
-        )
+        ]
         i_d = float(design_a[j])
         heavy = "ABC"[int(np.argmax(line_a[j]))]
         for rid, what, rating in (
-            ("panel-bus-load", "bus rating", bus_a),
-            ("panel-main-load", "main device", main_a),
+            ("panel-bus-load", "bus rating", bus_a[j]),
+            ("panel-main-load", "main device", main_a[j]),
         ):
             if rating:
                 findings.append(
@@ -434,7 +444,8 @@ def _panel_findings(panels, design_va, imbalance, per_phase, rules, system, bus_
                         f"(continuous at 125 %) vs {what} {rating:g} A",
                     )
                 )
-    return findings
+        out.append(findings)
+    return out
 
 
 def _circuits_frame(c, q: dict, phase_txt, sev, reason):

@@ -42,7 +42,7 @@ def _need(ctx: Context, run: Run, rid: str) -> tuple[float, str]:
     """240.21(C)(2)(1)(b) and (C)(6)(1): ampacity at least a share (in %) of the primary
     device times the primary-to-secondary voltage ratio, the shares read from their rule
     rows; (C)(2)(1)(a): for 10 ft also at least the device the conductors end in."""
-    t = next(x for x in ctx.job.transformers if x.id == run.from_id)
+    t = ctx.transformer_by_id[run.from_id]
     ratio = t.primary.voltage_ll_v / t.secondary.voltage_ll_v
     share_pct = ctx.rules.rule(f"{rid}-ratio").number("limit")
     divisor = 100.0 / share_pct
@@ -58,7 +58,7 @@ def _need(ctx: Context, run: Run, rid: str) -> tuple[float, str]:
 
 
 def _end_device(ctx: Context, run: Run) -> float | None:
-    panel = next((p for p in ctx.job.panels if p.id == run.to_id), None)
+    panel = ctx.panel_by_id.get(run.to_id)
     return panel.main_device_a if panel else None
 
 

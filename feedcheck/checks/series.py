@@ -30,7 +30,7 @@ def series_rating_a(ctx: Context, panel: Panel) -> tuple[float | None, str]:
         "devices at most 1 % of the lower-rated device's interrupting rating",
         "NFPA 70-2023 240.86(B), 240.86(C), 110.22(C)",
     )
-    run = next(r for r in ctx.job.runs if r.id == panel.series_upstream_run)
+    run = ctx.run_by_id[panel.series_upstream_run]
     declared = panel.series_upstream_device_a
     if declared is not None and abs(declared - (run.device_a or 0.0)) > 1e-9:
         ctx.add(

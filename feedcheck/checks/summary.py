@@ -97,7 +97,7 @@ def _ratings(ctx: Context, node_id: str, kind: str) -> dict[str, float | str]:
     if kind == "source":
         return {"fault_a": job.source.fault_a, "x_r": job.source.x_r}
     if kind == "transformer":
-        t = next((t for t in job.transformers if t.id == node_id), None)
+        t = ctx.transformer_by_id.get(node_id)
         if t is None:
             return {}
         out: dict[str, float | str] = {
@@ -116,7 +116,7 @@ def _ratings(ctx: Context, node_id: str, kind: str) -> dict[str, float | str]:
         if t.tap_pct:
             out["tap_pct"] = t.tap_pct
         return out
-    p = next((p for p in job.panels if p.id == node_id), None)
+    p = ctx.panel_by_id.get(node_id)
     if p is None:
         return {}
     out = {"rating_a": p.rating_a}

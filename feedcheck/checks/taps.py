@@ -173,7 +173,7 @@ def _check_tap_end_device(ctx: Context, run: Run, ampacity_a: float, rid: str) -
     """The tap ends in one device rated at most the tap's ampacity (240.21(B)(1)(1)b:
     ampacity not less than the device at the termination; (B)(2)(2): a single device
     limiting the load to the tap's ampacity)."""
-    panel = next((candidate for candidate in ctx.job.panels if candidate.id == run.to_id), None)
+    panel = ctx.panel_by_id.get(run.to_id)
     end = panel.main_device_a if panel is not None else None
     check = "tap ends in one device"
     if end is None:
@@ -211,7 +211,7 @@ def tap_needs_a(ctx: Context, run: Run) -> float:
         rid = FEEDER_TAPS[run.tap_rule]
         feeder_a, _ = feeder_device(ctx.job, run)
         share = ctx.rules.rule(f"{rid}-ratio").number("limit") / 100.0
-        panel = next((candidate for candidate in ctx.job.panels if candidate.id == run.to_id), None)
+        panel = ctx.panel_by_id.get(run.to_id)
         end = panel.main_device_a if panel is not None and panel.main_device_a else 0.0
         return max((feeder_a or 0.0) * share, end)
     if run.tap_rule in SECONDARY_TAPS or (

@@ -73,7 +73,7 @@ def _expand(paths: tuple[str, ...], out: str | None = None) -> list[Path]:
                     or entry.name.startswith((".", "~$"))
                 ):
                     continue
-                if entry.resolve() in own or is_results_file(entry):
+                if (own and entry.resolve() in own) or is_results_file(entry):
                     click.echo(
                         f"skipped {entry}: a results file feedcheck schedule wrote", err=True
                     )

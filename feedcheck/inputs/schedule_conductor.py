@@ -17,6 +17,7 @@ source: branch circuits under 8 AWG are copper).
 from __future__ import annotations
 
 import re
+from functools import lru_cache
 
 from ..calc.sizes import SizeError, parse_size
 from ..model import MATERIAL_WORDS
@@ -45,6 +46,7 @@ _COUNT = re.compile(r"^\s*\d{1,2}\s*(?:[-x×]\s*|(?=#))", re.I)
 _SPLIT = re.compile(r"[,;+]")
 
 
+@lru_cache(maxsize=4096)  # the same few conductor texts recur over a building's files
 def parse_conductor_cell(text: str):
     """``(size, material, insulation °C or None, ground size, ground material, problem,
     material_assumed)``; ``problem`` names what could not be read ("" when all was).

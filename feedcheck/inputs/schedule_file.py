@@ -477,7 +477,8 @@ def _schedule(path: Path, v: dict, c: Cells, rows, notices, spaces, length_unit)
             "raceway": v["raceway"],
             "length_m": v["length_m"],
             "row": rows,
-        }
+        },
+        copy=False,  # the columns are this reader's own arrays: no second copy of them
     )
     panels = tuple(dict.fromkeys(v["panel"].tolist()))
     return Schedule(path, frame, v["load_unit"], panels, notices, spaces, length_unit)

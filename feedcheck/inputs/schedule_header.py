@@ -7,6 +7,7 @@ brackets (``load [VA]``, ``length (m)``).
 from __future__ import annotations
 
 import re
+from functools import lru_cache
 
 from ..errors import ProblemList
 from ..units import SCHEDULE_HEADER_UNITS
@@ -100,7 +101,11 @@ def normalise_header(text: object) -> tuple[str, str]:
     >>> normalise_header("  CURRENT_carrying  ")
     ('current carrying', '')
     """
-    raw = "" if text is None else str(text)
+    return _normalised("" if text is None else str(text))
+
+
+@lru_cache(maxsize=4096)  # a folder's files repeat the same few header texts
+def _normalised(raw: str) -> tuple[str, str]:
     match = _UNIT_RE.match(raw.strip())
     name, unit = (match.group("name"), match.group("unit")) if match else (raw, "")
     name = " ".join(re.sub(r"[_\-.#:?]+", " ", name).lower().split())

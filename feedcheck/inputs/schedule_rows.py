@@ -82,43 +82,40 @@ def unfold_two_column(df, layout: str, notices: list[str], problems: ProblemList
     return out, np.repeat(rows, 2)
 
 
-def classify(text, found) -> np.ndarray:
-    """CIRCUIT, SPARE, SPACE or TOTAL per body row; ``text(key)`` gives a column's cells."""
-    load = text("load")
-    n = len(load)
+def classify(column, found) -> np.ndarray:
+    """CIRCUIT, SPARE, SPACE or TOTAL per body row; ``column(key)`` gives a column's
+    cells as (codes, distinct texts)."""
+    load = column("load")
+    n = len(load[0])
     kind = np.full(n, CIRCUIT, dtype=np.int8)
     total = np.zeros(n, dtype=bool)
     for key in ("circuit", "description", "load", "breaker", "conductor"):
         if key in found:
-            total |= _matches(text(key), TOTAL_RE)
+            total |= _matches(column(key), TOTAL_RE)
     no_load = _in(load, _NO_LOAD)
-    said = _matches(text("description"), _SPARE_RE) | _matches(text("circuit"), _SPARE_RE)
-    said |= _matches(text("breaker"), _SPARE_RE) | _matches(load, _SPARE_RE)
-    bare = _in(text("conductor"), _NO_LOAD) & _in(text("length"), _NO_LOAD)
+    said = _matches(column("description"), _SPARE_RE) | _matches(column("circuit"), _SPARE_RE)
+    said |= _matches(column("breaker"), _SPARE_RE) | _matches(load, _SPARE_RE)
+    bare = _in(column("conductor"), _NO_LOAD) & _in(column("length"), _NO_LOAD)
     spare = no_load & (said | bare) & ~total
     kind[spare] = SPARE
-    kind[spare & _in(text("breaker"), _NO_DEVICE)] = SPACE
+    kind[spare & _in(column("breaker"), _NO_DEVICE)] = SPACE
     kind[total] = TOTAL
     return kind
 
 
-def _factorize(cells) -> tuple[np.ndarray, list]:
-    """(codes, distinct values in the order met)."""
-    seen: dict = {}
-    codes = [seen.setdefault(v, len(seen)) for v in np.asarray(cells, dtype=object).tolist()]
-    return np.array(codes, dtype=np.intp), list(seen)
+def _per_text(column, test) -> np.ndarray:
+    """``test`` of every cell of a column given as (codes, distinct texts), run once per
+    distinct text."""
+    codes, uniq = column
+    return np.array([test(u) for u in uniq.tolist()] + [False], dtype=bool)[codes]
 
 
-def _matches(cells: np.ndarray, rx: re.Pattern) -> np.ndarray:
-    codes, uniq = _factorize(cells)
-    hit = np.array([bool(rx.match(str(u))) for u in uniq] + [False], dtype=bool)
-    return hit[codes]
+def _matches(column, rx: re.Pattern) -> np.ndarray:
+    return _per_text(column, lambda u: bool(rx.match(str(u))))
 
 
-def _in(cells: np.ndarray, words: set[str]) -> np.ndarray:
-    codes, uniq = _factorize(cells)
-    hit = np.array([str(u).strip().lower() in words for u in uniq] + [True], dtype=bool)
-    return hit[codes]
+def _in(column, words: set[str]) -> np.ndarray:
+    return _per_text(column, lambda u: str(u).strip().lower() in words)
 
 
 def set_aside(cols, rows, found, default_panel: str, notices: list[str]):
@@ -128,16 +125,19 @@ def set_aside(cols, rows, found, default_panel: str, notices: list[str]):
     rows as (row number, cell that names it, stated load text, panel text).
     """
 
+    blank = (np.zeros(len(rows), dtype=np.intp), np.array([""], dtype=object))
+
+    def column(key: str) -> tuple[np.ndarray, np.ndarray]:
+        return cols[found[key][0]] if key in found else blank
+
     def text(key: str) -> np.ndarray:
-        if key not in found:
-            return np.full(len(rows), "", dtype=object)
-        codes, uniq = cols[found[key][0]]
+        codes, uniq = column(key)
         return uniq[codes]
 
-    kind = classify(text, found)
+    kind = classify(column, found)
     panel = text("panel")
     panel = np.where(panel == "", default_panel, panel)
-    codes, uniq = _factorize(text("poles"))
+    codes, uniq = column("poles")
     poles = np.array([int(u) if u in ("1", "2", "3") else 1 for u in uniq] + [1])[codes]
     spaces: dict[str, tuple[int, int]] = {}
     for pid in dict.fromkeys(panel[kind != TOTAL].tolist()):
@@ -147,25 +147,31 @@ def set_aside(cols, rows, found, default_panel: str, notices: list[str]):
             int(poles[mine & (kind == SPACE)].sum()),
         )
     totals = []
-    named = {k: text(k) for k in ("circuit", "description", "load", "breaker", "conductor")}
+    at_totals = np.flatnonzero(kind == TOTAL)
+    named = {
+        k: text(k)
+        for k in ("circuit", "description", "load", "breaker", "conductor")
+        if len(at_totals)
+    }
     load = text("load")
-    for i in np.flatnonzero(kind == TOTAL):
+    for i in at_totals:
         label = next((str(v[i]) for v in named.values() if TOTAL_RE.match(str(v[i]))), "total")
         totals.append((int(rows[i]), label, str(load[i]), str(text("panel")[i])))
     n_sp, n_sc = int((kind == SPARE).sum()), int((kind == SPACE).sum())
     # a spare with its conductor and length given stays a circuit of no load: its
     # breaker still protects that conductor and is checked
     wired = (kind != CIRCUIT) & (kind != TOTAL)
-    wired &= ~_in(text("conductor"), _NO_LOAD) & ~_in(text("length"), _NO_LOAD)
-    wired &= ~_in(text("breaker"), _NO_DEVICE)
+    wired &= ~_in(column("conductor"), _NO_LOAD) & ~_in(column("length"), _NO_LOAD)
+    wired &= ~_in(column("breaker"), _NO_DEVICE)
     if wired.any() and "load" in found:
-        codes, uniq = cols[found["load"][0]]
+        load_cells = column("load")
+        codes, uniq = load_cells
         zero = np.flatnonzero(uniq == "0")
         if not len(zero):
             uniq = np.append(uniq, np.array(["0"], dtype=object))
             zero = [len(uniq) - 1]
         codes = codes.copy()
-        codes[wired & _in(load, _NO_LOAD)] = zero[0]
+        codes[wired & _in(load_cells, _NO_LOAD)] = zero[0]
         cols[found["load"][0]] = (codes, uniq)
     if n_sp or n_sc:
         notices.append(

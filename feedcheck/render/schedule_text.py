@@ -3,6 +3,8 @@ totals, its failing and warning circuits, its panel findings; then the count."""
 
 from __future__ import annotations
 
+from functools import lru_cache
+
 from .. import CAUTION
 from .display import fixed, status_word
 
@@ -11,6 +13,7 @@ def _kva(v) -> str:
     return fixed(v, 1, 1e-3)
 
 
+@lru_cache(maxsize=64)  # a folder's files share a few systems: each text parsed once
 def _phase_letters(system_text: str) -> str:
     """``ABC`` for a three-phase system, ``AB`` for a single-phase (split or two-wire) one."""
     from ..units import parse_voltage_system

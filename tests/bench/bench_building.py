@@ -1,7 +1,7 @@
 """Benchmark: building-scale jobs and quick-command start-up, as ratios in one run.
 
 Run on demand (not part of the test command):
-``python tests/bench/bench_building.py [--repeat N] [--quick]``.
+``python tests/bench/bench_building.py [--repeat N] [--quick] [--rows check,schedule]``.
 
 Generates jobs of 1, 12, 100 and 1,000 panels (our own invented data: ten panels per
 480 V delta → 208Y/120 V transformer, 30 circuits per panel, so 100 transformers and
@@ -227,6 +227,15 @@ CALC = {
 }
 
 
+def calc_rows(repeat: int) -> None:
+    """The quick commands' start-up against ``python -c "import click, pint"``."""
+    base = timed([PY, "-c", "import click, pint"], max(repeat, 5))
+    for name, argv in CALC.items():
+        t = timed([*CLI, "calc", *argv], max(repeat, 5))
+        target = 1.2 if name == "rated-current" else 1.5
+        line(f"calc {name} vs python -c 'import click, pint'", t, base, target)
+
+
 def fault_walk_note() -> None:
     """Time the two forms of the radial walk at job sizes (in process, best of 5): a
     job-shaped feed (source, transformers, ten panels each: depth 3) and the deep random
@@ -271,34 +280,42 @@ def main() -> None:
         "--report-1000", action="store_true", help="also report the 1,000-panel job (one run)"
     )
     ap.add_argument(
+        "--rows",
+        default="calc,check,schedule,report",
+        help="comma-separated rows to run (calc, check, schedule, report); default all",
+    )
+    ap.add_argument(
         "--code", help="run the commands with this source tree first on PYTHONPATH (a 'before')"
     )
     args = ap.parse_args()
     if args.code:
         ENV["PYTHONPATH"] = os.pathsep.join(filter(None, [args.code, ENV.get("PYTHONPATH")]))
     r = args.repeat
+    rows = set(args.rows.split(","))
     print(f"{os.cpu_count()} CPUs, load average {os.getloadavg()[0]:.1f}; medians of {r} runs")
     with tempfile.TemporaryDirectory() as tmp:
         root = Path(tmp)
         jobs = {n: make_job(root, n) for n in (1, 12, 100, 1000)}
-        base = timed([PY, "-c", "import click, pint"], max(r, 5))
-        for name, argv in CALC.items():
-            t = timed([*CLI, "calc", *argv], max(r, 5))
-            target = 1.2 if name == "rated-current" else 1.5
-            line(f"calc {name} vs python -c 'import click, pint'", t, base, target)
-        checks = {n: timed([*CLI, "check", str(path)], r) for n, path in jobs.items()}
-        for n, t in checks.items():
-            print(f"check {n:>5} panels: wall {t[0]:7.3f} s, CPU {t[1]:7.3f} s, peak {t[2]:.0f} MB")
-        line("check 1,000 panels vs 1 panel", checks[1000], checks[1], 3.0)
-        if not args.quick:
+        if "calc" in rows:
+            calc_rows(r)
+        if "check" in rows:
+            checks = {n: timed([*CLI, "check", str(path)], r) for n, path in jobs.items()}
+            for n, t in checks.items():
+                print(
+                    f"check {n:>5} panels: wall {t[0]:7.3f} s, CPU {t[1]:7.3f} s, "
+                    f"peak {t[2]:.0f} MB"
+                )
+            line("check 1,000 panels vs 1 panel", checks[1000], checks[1], 3.0)
+        if "schedule" in rows and not args.quick:
             folder, one = make_schedules(root)
             sysv = ["--system", "208Y/120 V"]
             t_one = timed([*CLI, "schedule", str(one), *sysv], r)
             t_many = timed([*CLI, "schedule", str(folder), *sysv], r)
             line("schedule: 2,000 files vs one file of the same 60,000 rows", t_many, t_one, 1.5)
         reports = {n: [*CLI, "report", str(jobs[n]), "-o", str(root / f"r{n}.pdf")] for n in jobs}
-        t1, t12 = timed(reports[1], r), timed(reports[12], r)
-        line("report 12 panels vs 1 panel", t12, t1, 2.0)
+        if "report" in rows:
+            t1, t12 = timed(reports[1], r), timed(reports[12], r)
+            line("report 12 panels vs 1 panel", t12, t1, 2.0)
         if args.report_1000:
             w, cpu, rss = run_once(reports[1000])
             verdict = "met" if w <= 90 and rss <= 1536 else "NOT met"
@@ -306,7 +323,8 @@ def main() -> None:
                 f"report 1,000 panels (one run)\n    wall {w:7.1f} s, CPU {cpu:7.1f} s, peak RSS "
                 f"{rss:.0f} MB | target <= 90 s and <= 1.5 GB: {verdict}"
             )
-        fault_walk_note()
+        if "check" in rows:
+            fault_walk_note()
 
 
 if __name__ == "__main__":

@@ -4,10 +4,13 @@ its node, not from re-reading the voltage text."""
 from __future__ import annotations
 
 import re
+import textwrap
 
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
-from feedcheck.render.text import render_text
+from feedcheck.render.text import _fill, render_text
 from feedcheck.runner import run_job
 
 
@@ -61,3 +64,17 @@ primary_device = "110 A"
     assert source.values.get("fault_max_a") == float("inf")
     text = render_text(results, show_all=True)
     assert "∞" not in text and not re.search(r"\binf\b", text) and "unlimited" in text
+
+
+@settings(max_examples=400, deadline=None)
+@given(text=st.text(alphabet=st.sampled_from("ab .-\t\n\r\x0b\x0c\u00a0\u2003"), max_size=130))
+def test_note_wrapping_matches_textwrap(text):
+    """The one-line shortcut gives exactly what ``textwrap.fill`` gives (common
+    practice, no source: the wrapper is the reference)."""
+    for rest in ("      ", "        "):
+        expected = textwrap.fill(text, width=96, initial_indent="      ", subsequent_indent=rest)
+        assert _fill(text, rest) == expected
+    long_word = "x" * len(text)
+    assert _fill(long_word, "      ") == textwrap.fill(
+        long_word, width=96, initial_indent="      ", subsequent_indent="      "
+    )
