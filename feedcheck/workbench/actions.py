@@ -63,7 +63,7 @@ class Session:
         self.saved_text = text if exists else None
         self.grids: dict[str, list[list[str]]] = {}  # panel id → edited cells
         self.grids_saved: set[str] = set()
-        self.job = None
+        self.job = None  # the job as parsed from the text (kept while a schedule is bad)
         self.results = None
         self.payload = self._check()
 
@@ -86,12 +86,13 @@ class Session:
         try:
             data = read_job_text(text, self.job_path)
             job = parse_job_data(data, text, self.job_path)
+            self.job = job  # its schedules stay reachable while one of them is bad
             grids = {pid: _cells(rows) for pid, rows in self.grids.items()}
             schedules = read_job_schedules(job, grids)
             results = check_job_with_schedules(job, schedules, self.calc_date)
         except InputError as exc:
             return invalid_payload(exc, str(self.job_path), elements, self.folder, started)
-        self.job, self.results = job, results
+        self.results = results
         return results_payload(results, elements, started)
 
     def state(self) -> dict:
@@ -186,7 +187,9 @@ class Session:
     # ------------------------------------------------------------ schedules
     def _schedule_path(self, panel) -> tuple[str, Path]:
         if self.job is None:
-            raise ActionRefused(409, "the job has input errors: its schedules are not read")
+            raise ActionRefused(
+                409, "the job file has input errors: its panels (and schedules) are not read"
+            )
         for p in self.job.panels:
             if p.id == panel and p.schedule is not None:
                 path = Path(p.schedule)
@@ -203,6 +206,13 @@ class Session:
         else:
             cells = [[str(c) for c in row] for row in read_schedule_cells(path).tolist()]
         status, messages = _row_status(self.results, pid, len(cells) - 1)
+        if self.results is None:  # the job is not checked: mark the rows an error names
+            for err in self.payload.get("input_errors", []):
+                i = (err.get("row") or 0) - 2
+                same = err.get("kind") == "panel" and self._panel_at(err.get("index")) == pid
+                if same and 0 <= i < len(status):
+                    status[i] = "fail"
+                    messages[i] = "; ".join(m for m in (messages[i], err["message"]) if m)
         return {
             "panel": pid,
             "file": path.name,
@@ -221,9 +231,13 @@ class Session:
         self.rev += 1
         self.payload = self._check()
         state = self.state()
-        if self.results is not None:
+        if self.job is not None:  # a bad cell stays in the grid, to be fixed there
             state["schedule"] = self.schedule(pid)
         return state
+
+    def _panel_at(self, index) -> str | None:
+        panels = self.job.panels if self.job is not None else []
+        return panels[index].id if isinstance(index, int) and 0 <= index < len(panels) else None
 
     def save_schedule(self, panel) -> dict:
         pid, path = self._schedule_path(panel)

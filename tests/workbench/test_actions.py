@@ -115,6 +115,34 @@ def test_schedule_edit_with_a_bad_cell_names_the_row(page):
     assert "LP1.csv" in errors[0]["message"] and "'twenty'" in errors[0]["message"]
 
 
+def test_a_bad_cell_can_be_fixed_in_the_grid_while_the_job_is_not_checked(page):
+    """The grid stays readable and editable while its own bad cell keeps the job from
+    being checked; the row the error names is marked, and fixing the cell checks again."""
+    g = page.get("api/schedule?panel=LP1").json
+    col = g["columns"].index("Breaker [A]")
+    rows = [list(r) for r in g["rows"]]
+    good = rows[2][col]
+    rows[2][col] = "twenty"
+    state = page.post("api/schedule", {"panel": "LP1", "columns": g["columns"], "rows": rows}).json
+    assert not state["results"]["valid"]
+    assert state["schedule"]["rows"][2][col] == "twenty"
+    again = page.get("api/schedule?panel=LP1")
+    assert again.status_code == 200 and again.json["rows"][2][col] == "twenty"
+    assert again.json["status"][2] == "fail" and "'twenty'" in again.json["messages"][2]
+    assert again.json["status"][0] == ""  # nothing checked: no other row has a status
+    rows[2][col] = good
+    state = page.post("api/schedule", {"panel": "LP1", "columns": g["columns"], "rows": rows}).json
+    assert state["results"]["valid"] and not state["results"]["input_errors"]
+    assert state["schedule"]["status"][0] in ("ok", "warn", "fail", "info")
+
+
+def test_schedule_of_a_job_whose_file_does_not_read_is_refused(page):
+    text = page.get("api/state").json["text"]
+    page.edit({"op": "text", "text": text.replace("[source]", "[source", 1)})
+    r = page.get("api/schedule?panel=LP1")
+    assert r.status_code == 409 and "job file has input errors" in r.json["error"]
+
+
 def test_schedule_save_to_xlsx_keeps_other_sheets(tmp_path, static_dir):
     from .conftest import copy_sample
 

@@ -307,11 +307,6 @@ def test_typing_keeps_the_field_while_answers_arrive(open_page):
     expect(page.locator("svg.feed .via[data-run='F-LP1AB']")).to_be_visible()
 
 
-@pytest.mark.xfail(
-    strict=True,
-    reason="server: api/schedule is refused (409) while the job has input errors, so a bad "
-    "cell typed in the grid cannot be fixed there (asked in WORKBENCH_API.md, Changes)",
-)
 def test_a_bad_cell_typed_in_the_grid_can_be_fixed_there(open_page):
     page, _ = open_page()
     open_element(page, "panel", "LP1")
