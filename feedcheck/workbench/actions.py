@@ -93,7 +93,7 @@ class Session:
         except InputError as exc:
             return invalid_payload(exc, str(self.job_path), elements, self.folder, started)
         self.results = results
-        return results_payload(results, elements, started)
+        return results_payload(results, elements, started, job)
 
     def state(self) -> dict:
         return {

@@ -14,7 +14,7 @@ from pathlib import Path
 
 from ..commands.errors import problem_line
 from ..errors import InputError
-from ..render.display import display_for, node_figure, node_title
+from ..render.display import TERMINAL, display_for, finding_figures, node_figure, node_title
 from ..render.text import finding_head
 
 _PATH = re.compile(r"^([a-z_]+)(?:\[(\d+)\])?(?:\.([A-Za-z0-9_-]+))?")
@@ -60,6 +60,7 @@ CHECK_KEYS = {
     "transfer switch withstand vs available fault": "withstand",
 }
 NODE_STATUS_ORDER = ("fail", "warn", "ok")
+MAX_SIDE_FIGURES = 6  # figures of a motor, switch or generator node
 
 
 def element_index(elements: list[dict]) -> dict[str, tuple[str, int]]:
@@ -150,8 +151,55 @@ def _worst_by_node(results) -> dict[str, str]:
     return out
 
 
-def results_payload(results, elements: list[dict], started: float) -> dict:
-    """RESULTS of a job that was read (see WORKBENCH_API.md)."""
+def _own_node(node_id: str, kind: str, parent: str, title: str, own: list, display) -> dict:
+    """A node drawn from an element's own findings: their figures (each once) and the
+    worst evaluated status among them."""
+    figures, seen = [], set()
+    for f in own:
+        if isinstance(f.value, float) and f.check not in seen:
+            seen.add(f.check)
+            shown, _ = finding_figures(f.value, f.limit, f.unit, display, TERMINAL)
+            figures.append([f.check[:1].upper() + f.check[1:], shown])
+    statuses = {f.status for f in own}
+    return {
+        "id": node_id,
+        "kind": kind,
+        "parent": parent,
+        "via": None,
+        "title": title,
+        "figures": figures[:MAX_SIDE_FIGURES],
+        "status": next((s for s in NODE_STATUS_ORDER if s in statuses), "none"),
+    }
+
+
+def side_nodes(job, results, display) -> list[dict]:
+    """Elements the feed walk makes no node of, drawn beside the panel they hang on:
+    each motor (under its panel), the transfer switch (at its panel) and the generator
+    (at the switch). Their figures are those of their own findings."""
+    if job is None:
+        return []
+    own: dict[str, list] = {}
+    for f in results.sorted_findings():
+        own.setdefault(f.subject, []).append(f)
+    out = []
+    for m in job.motors:
+        rating = f"{m.hp:g} hp" if m.hp is not None else f"{m.full_load_a:g} A full-load"
+        title = f"{m.id} — motor, {rating}"
+        out.append(_own_node(m.id, "motor", m.panel_id, title, own.get(m.id, []), display))
+    ats, gen = job.transfer_switch, job.generator
+    if ats is not None and gen is not None:
+        title = f"{ats.id} — transfer switch, {ats.rating_a:g} A, at {ats.panel_id}"
+        out.append(
+            _own_node(ats.id, "transfer_switch", ats.panel_id, title, own.get(ats.id, []), display)
+        )
+        title = f"{gen.id} — generator, {gen.rating_va / 1000:g} kVA (standby)"
+        out.append(_own_node(gen.id, "generator", ats.id, title, own.get(gen.id, []), display))
+    return out
+
+
+def results_payload(results, elements: list[dict], started: float, job=None) -> dict:
+    """RESULTS of a job that was read (see WORKBENCH_API.md); with the job, its motors
+    and standby source are nodes too."""
     display = display_for(results)
     ids = element_index(elements)
     worst = _worst_by_node(results)
@@ -160,7 +208,8 @@ def results_payload(results, elements: list[dict], started: float) -> dict:
         "input_errors": [],
         "counts": results.counts(),
         "findings": [_finding(f, display, ids) for f in results.sorted_findings()],
-        "nodes": [_node(n, display, worst) for n in results.nodes],
+        "nodes": [_node(n, display, worst) for n in results.nodes]
+        + side_nodes(job, results, display),
         "unit": results.length_unit,
         "elapsed_ms": round((time.perf_counter() - started) * 1000),
     }

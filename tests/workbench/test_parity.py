@@ -62,7 +62,33 @@ def test_findings_are_those_of_check_json(tmp_path, static_dir, name):
         (f["status"], f["subject"], f["check"], f["rule_id"]) for f in expected["findings"]
     ]
     assert results["counts"] == expected["counts"]
-    assert [n["id"] for n in results["nodes"]] == [n["id"] for n in expected["nodes"]]
+    feed = [n["id"] for n in results["nodes"] if n["kind"] not in SIDE_KINDS]
+    assert feed == [n["id"] for n in expected["nodes"]]
+    side = [n["id"] for n in results["nodes"] if n["kind"] in SIDE_KINDS]
+    job_ids = {f["subject"] for f in expected["findings"]}
+    assert all(i in job_ids for i in side)  # every side node is an element with findings
+
+
+SIDE_KINDS = ("motor", "transfer_switch", "generator")
+
+
+def test_motors_and_the_standby_source_are_nodes_beside_their_panel(tmp_path, static_dir):
+    """Drawn where they hang (a motor under its panel, the switch at its panel, the
+    generator at the switch), with their own findings' figures and worst status."""
+    job = copy_sample(tmp_path, "willow_yard_standby.toml")
+    expected = json.loads(cli("check", str(job), "--format", "json").stdout)
+    results = make_page(job, static_dir).get("api/state").json["results"]
+    side = {n["id"]: n for n in results["nodes"] if n["kind"] in SIDE_KINDS}
+    assert {(n["kind"], n["parent"]) for n in side.values()} == {
+        ("motor", "MDP"),
+        ("transfer_switch", "MDP"),
+        ("generator", "ATS-1"),
+    }
+    order = ("fail", "warn", "ok")
+    for node_id, n in side.items():
+        own = {f["status"] for f in expected["findings"] if f["subject"] == node_id}
+        assert n["status"] == next((s for s in order if s in own), "none")
+        assert n["figures"] and all(len(fig) == 2 and fig[1] for fig in n["figures"])
 
 
 def test_finding_lines_are_the_terminal_lines(tmp_path, static_dir):

@@ -360,3 +360,12 @@ def test_clipboard_text_is_split_as_spreadsheets_write_it(open_page):
         'a\t"b\tc"\r\n"x ""y"""\t\n"two\nlines"\tz\n',
     )
     assert split == [["a", "b\tc"], ['x "y"', ""], ["two\nlines", "z"]]
+
+
+def test_motors_and_the_standby_source_are_drawn_and_open_their_forms(open_page):
+    page, _ = open_page("willow_yard_standby.toml")
+    for node_id, title in (("AC-1", "AC-1"), ("ATS-1", "Transfer switch"), ("GEN-1", "Generator")):
+        node = page.locator(f"svg.feed [data-node='{node_id}']")
+        expect(node).to_be_visible()
+        node.locator(".node-box").click()
+        expect(page.locator("#form-title")).to_contain_text(title)
