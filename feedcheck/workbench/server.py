@@ -17,6 +17,7 @@ routes, all below ``/TOKEN/`` (nothing else is served):
 ``POST api/new``           ``{name}``: a new job from the template in the same folder
 ``GET  api/schedule``      ``?panel=ID``: the schedule's cells, each row's status
 ``POST api/schedule``      ``{panel, columns, rows}``: edited cells checked in memory
+                           → state (with the grid as ``schedule`` while the job reads)
 ``POST api/schedule/save`` the edited cells written back to the schedule's file
 ``POST api/ping``, ``bye`` the page is there / is going
 =========================  ==============================================================
@@ -169,9 +170,10 @@ class Workbench:
             "save": lambda: {**s.save(), "job": s.state()["job"]},
             "report": s.report,
             "new": lambda: {**s.new(body.get("name")), "schema": schema()},
-            "schedule": lambda: s.edit_schedule(
-                body.get("panel"), body.get("columns"), body.get("rows")
-            ),
+            "schedule": lambda: {
+                **s.edit_schedule(body.get("panel"), body.get("columns"), body.get("rows")),
+                "schema": schema(),
+            },
             "schedule/save": lambda: s.save_schedule(body.get("panel")),
         }
         if name not in handlers:

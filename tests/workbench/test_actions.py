@@ -134,6 +134,7 @@ def test_a_bad_cell_can_be_fixed_in_the_grid_while_the_job_is_not_checked(page):
     state = page.post("api/schedule", {"panel": "LP1", "columns": g["columns"], "rows": rows}).json
     assert state["results"]["valid"] and not state["results"]["input_errors"]
     assert state["schedule"]["status"][0] in ("ok", "warn", "fail", "info")
+    assert state["schema"]["kinds"]  # a state like every other answer
 
 
 def test_schedule_of_a_job_whose_file_does_not_read_is_refused(page):
