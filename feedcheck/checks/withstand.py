@@ -9,7 +9,8 @@
   whichever the fault checks put in the node's values).
 - The grounding conductor carries no load: it starts from the ambient and is held
   against the maximum line-to-ground fault (``fault_lg_max_a``), or, where no such
-  figure is available, the three-phase maximum with a note. It is taken as insulated
+  figure is available, the larger of the bolted (three-phase, or line-to-line on a
+  single-phase node) and line-to-neutral maxima, with a note. It is taken as insulated
   like the phase conductors (a bare conductor tolerates more: conservative).
 """
 
@@ -74,10 +75,18 @@ def _clearing_s(ctx: Context, run: Run) -> float:
     return t
 
 
-def governing_duty(ctx: Context, node: str) -> tuple[float | None, str]:
-    """Largest maximum fault figure [A] at ``node`` and its key."""
+def duty_name(ctx: Context, node: str, key: str) -> str:
+    """How a finding names a node's fault figure: a single-phase node's bolted fault is
+    its line-to-line maximum, not a three-phase one."""
+    if key == "fault_max_a" and ctx.tree.voltage_of[node].phases == 1:
+        return DUTY_KEYS["fault_ll_max_a"]
+    return DUTY_KEYS[key]
+
+
+def governing_duty(ctx: Context, node: str, keys=tuple(DUTY_KEYS)) -> tuple[float | None, str]:
+    """Largest maximum fault figure [A] at ``node`` among ``keys``, and its name."""
     values = ctx.nodes[node].values
-    found = [(float(values[k]), v) for k, v in DUTY_KEYS.items() if values.get(k) is not None]
+    found = [(float(values[k]), duty_name(ctx, node, k)) for k in keys if values.get(k) is not None]
     return max(found) if found else (None, "")
 
 
@@ -132,10 +141,9 @@ def check_withstand(ctx: Context, run: Run, load_a: float, ampacity_a: float) ->
     if run.ground is not None:
         lg = ctx.nodes[run.from_id].values.get("fault_lg_max_a")
         key, note = DUTY_KEYS["fault_lg_max_a"], ""
-        if lg is None:
-            lg = ctx.nodes[run.from_id].values.get("fault_max_a")
-            key = DUTY_KEYS["fault_max_a"]
-            note = "; no maximum line-to-ground figure: the three-phase maximum is used"
+        if lg is None:  # the larger of the bolted and line-to-neutral maxima (conservative)
+            lg, key = governing_duty(ctx, run.from_id, ("fault_max_a", "fault_ln_max_a"))
+            note = f"; no maximum line-to-ground figure: the {key} is used"
         k_icea, t0 = _constants(ctx, run.ground_material)
         t1g = run.ambient_c
         i_g = float(

@@ -133,3 +133,75 @@ def test_dual_marking_is_an_input_error(write_job):
     res = CliRunner().invoke(main, ["check", str(write_job(text))])
     assert res.exit_code == 2
     assert "run[1].insulation" in res.output
+
+
+SPLIT_JOB = """
+[project]
+name = "withstand on a 120/240 V secondary (invented)"
+
+[source]
+voltage = "480 V"
+phases = 1
+available_fault = "infinite"
+
+[[transformer]]
+id = "T"
+rating = "50 kVA"
+primary = "480 V"
+secondary = "120/240 V"
+impedance = "2.5 %"
+x_r = 2
+primary_device = "110 A"
+secondary_device = "225 A"
+
+[[run]]
+id = "R"
+from = "T"
+to = "P"
+length = "10 ft"
+conductors = "4/0 AWG Cu"
+ground = "4 AWG Cu"
+device = "225 A"
+
+[[panel]]
+id = "P"
+rating = "225 A"
+main_device = "225 A"
+interrupting = "22 kA"
+load = "20 kVA"
+
+[[run]]
+id = "B"
+from = "P"
+to = "Q"
+length = "40 ft"
+conductors = "6 AWG Cu"
+ground = "10 AWG Cu"
+device = "60 A"
+
+[[panel]]
+id = "Q"
+rating = "100 A"
+main_device = "60 A"
+interrupting = "10 kA"
+load = "8 kVA"
+"""
+
+
+def test_grounding_conductor_on_a_120_240_node_takes_the_larger_of_line_to_line_and_neutral(
+    write_job,
+):
+    """A 120/240 V node has no line-to-ground figure; near the transformer its
+    line-to-neutral fault exceeds the line-to-line one (half-winding: fuse makers'
+    application note, common practice), and the grounding conductor carries the
+    line-to-ground (≈ line-to-neutral) fault. The larger is held, named as it is: a
+    single-phase node's bolted fault is a line-to-line figure, never "three-phase"."""
+    res = CliRunner().invoke(main, ["check", str(write_job(SPLIT_JOB)), "--format", "json"])
+    doc = json.loads(res.stdout)
+    p = node(doc, "P")
+    assert p["fault_ln_max_a"] > p["fault_max_a"]  # the premise of this job
+    f = finding(doc, "B", "withstand, grounding conductor")
+    assert f["value"] == pytest.approx(p["fault_ln_max_a"])
+    assert "(line-to-neutral maximum)" in f["note"] and "three-phase" not in f["note"]
+    phase = finding(doc, "B", "withstand, phase conductors")
+    assert "three-phase" not in phase["note"]
