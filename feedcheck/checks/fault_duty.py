@@ -49,7 +49,10 @@ DEFAULT_FAMILY = "molded-case"
 
 
 def kiloamps(current_a: float) -> str:
-    """A fault current in a finding's note: kA, two decimals."""
+    """A fault current in a finding's note: kA, two decimals; an unbounded one (an
+    infinite source) reads "unlimited", never "inf"."""
+    if not math.isfinite(current_a):
+        return "unlimited"
     return f"{current_a / 1000:,.2f} kA"
 
 

@@ -23,6 +23,7 @@ from ..calc.sizes import Size
 from ..model import Run
 from .compare import passes
 from .context import Context
+from .fault_duty import kiloamps
 
 # node values the fault checks may give, and how a finding names them
 DUTY_KEYS = {
@@ -178,7 +179,7 @@ def _emit(ctx, run, what, duty, key, i_w, t, t1, ins, extra="") -> None:
         "at_most",
         "run-withstand",
         f"{what} withstand {i_w / 1000:,.1f} kA for {t:g} s ({ins.name}, {ins.family}, "
-        f"{t1:.0f} °C → {ins.limit_c:g} °C, ICEA P-32-382) vs {duty / 1000:,.2f} kA "
+        f"{t1:.0f} °C → {ins.limit_c:g} °C, ICEA P-32-382) vs {kiloamps(duty)} "
         f"({key}) at the sending end"
         + extra
         + ("" if ok else "; a faster device or larger conductor"),

@@ -205,3 +205,40 @@ def test_grounding_conductor_on_a_120_240_node_takes_the_larger_of_line_to_line_
     assert "(line-to-neutral maximum)" in f["note"] and "three-phase" not in f["note"]
     phase = finding(doc, "B", "withstand, phase conductors")
     assert "three-phase" not in phase["note"]
+
+
+INFINITE_JOB = """
+[project]
+name = "run from an infinite source (invented)"
+
+[source]
+voltage = "480 V delta"
+available_fault = "infinite"
+
+[[run]]
+id = "R"
+from = "source"
+to = "P"
+length = "50 ft"
+conductors = "500 kcmil Cu"
+insulation = "THHN"
+neutral = "1/0 AWG Cu"
+
+[[panel]]
+id = "P"
+rating = "400 A"
+main_device = "400 A"
+interrupting = "65 kA"
+load = "150 kVA"
+"""
+
+
+def test_a_run_from_an_infinite_source_reads_unlimited_never_inf(write_job):
+    """An "infinite" source makes the fault at its terminals unbounded: the finding
+    shows it in words, and the run cannot be shown to withstand it (never "ok")."""
+    res = CliRunner().invoke(main, ["check", str(write_job(INFINITE_JOB)), "--format", "json"])
+    doc = json.loads(res.stdout)
+    f = finding(doc, "R", "withstand, phase conductors")
+    assert f["status"] == "warn"
+    assert "vs unlimited" in f["note"]
+    assert all(" inf " not in g["note"] and "inf kA" not in g["note"] for g in doc["findings"])
