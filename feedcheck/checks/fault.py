@@ -175,6 +175,13 @@ def _record_node(ctx: Context, fa, figs: _Figures, at: int, node_id: str, when: 
         node.values["fault_lg_min_a"] = figs.lg_min[node_id]
     if node_id in figs.ptp:
         ptp_finding(ctx, fa, node_id, figs.ptp[node_id], float(figs.ohmic_no_motor[at]))
+    # the source too (its minimum is never shown above a maximum), but not a generator:
+    # its own line-to-ground fault is not computed (README, standby source)
+    at_generator = node_id == "source" and ctx.job.source.given_as == "generator"
+    if node_id in figs.worst and not at_generator:
+        for case, key in (("ln", "fault_ln_max_a"), ("lg", "fault_lg_max_a")):
+            if case in figs.worst[node_id].faults_a:
+                node.values[key] = figs.worst[node_id].faults_a[case]
     if node_id == "source":
         return
     _sheet_steps(ctx, fa, figs, at, node_id)
@@ -184,9 +191,6 @@ def _record_node(ctx: Context, fa, figs: _Figures, at: int, node_id: str, when: 
     if node_id in figs.worst:
         faults.update(figs.worst[node_id].faults_a)
         x_rs.update(figs.worst[node_id].x_r)
-        for case, key in (("ln", "fault_ln_max_a"), ("lg", "fault_lg_max_a")):
-            if case in figs.worst[node_id].faults_a:
-                node.values[key] = figs.worst[node_id].faults_a[case]
     record_duty(ctx, node_id, node_duty(ctx, node_id, faults, x_rs), when)
 
 

@@ -115,3 +115,17 @@ load = "10 kVA"
     duty = _finding(res, "P", "interrupting rating")
     assert "line-to-neutral maximum governs" in duty.note
     assert duty.value == pytest.approx(i_ln, rel=0.03)  # 1 ft of 4/0 Cu out and back
+    src = next(n for n in res.nodes if n.id == "source").values
+    # at the service point itself the same figure, with no run (half-winding model above)
+    assert src["fault_ln_max_a"] == pytest.approx(i_ln, rel=1e-6)
+    assert src["fault_ln_max_a"] >= src["fault_lg_min_a"]
+
+
+def test_no_node_shows_a_minimum_above_its_maximum(willow):
+    """At the source as at every node, the line-to-ground minimum is never above the
+    largest maximum shown (the service's own maxima are recorded there too)."""
+    for n in willow.nodes:
+        v = n.values
+        largest = max(v.get(k, 0.0) for k in ("fault_max_a", "fault_lg_max_a", "fault_ln_max_a"))
+        assert v.get("fault_lg_min_a", 0.0) <= largest * (1 + 1e-9), n.id
+    assert "fault_lg_max_a" in next(n for n in willow.nodes if n.id == "source").values
