@@ -28,6 +28,7 @@ from ..calc.fault_duty import (
 from ..calc.fault_high_leg import K_AN
 from ..calc.fault_split_phase import half_winding_impedance_ohm, split_phase_fault
 from ..model import DEVICE_FAMILIES, SOURCE_ID, Transformer
+from ..render.display import kiloamps  # a fault current in a note: "12.35 kA", "unlimited"
 from .compare import passes
 from .context import Context
 from .high_leg import max_per_leg
@@ -46,14 +47,6 @@ CASE_WORDS = {
     "lg": "line-to-ground",
 }
 DEFAULT_FAMILY = "molded-case"
-
-
-def kiloamps(current_a: float) -> str:
-    """A fault current in a finding's note: kA, two decimals; an unbounded one (an
-    infinite source) reads "unlimited", never "inf"."""
-    if not math.isfinite(current_a):
-        return "unlimited"
-    return f"{current_a / 1000:,.2f} kA"
 
 
 @dataclass

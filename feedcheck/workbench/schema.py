@@ -14,6 +14,7 @@ from __future__ import annotations
 import functools
 import re
 
+from ..inputs.standby_reader import GENERATOR_RUN_KEYS
 from ..inputs.workbook_cells import SHEETS
 from ..model import (
     OCCUPANCIES,
@@ -92,6 +93,7 @@ HELP = {
         "optional: Z0/Z1 of a delta-wye transformer for the line-to-ground maximum and "
         "minimum (rules fault-z0-ratio-max 0.85 / -min 1.0 when absent)"
     ),
+    ("run", "ambient"): "ambient temperature around the run",
     ("run", "bonding_jumper"): (
         "secondary conductors without a device: supply-side bonding jumper "
         "(250.30(A)(2)), Table 250.102(C)(1)"
@@ -122,13 +124,7 @@ HELP = {
     ("motor", "raceway"): "the branch run's raceway",
     ("generator", "length"): "its run to the transfer switch (with conductors)",
     ("generator", "conductors"): "the run's conductors, as a [[run]]",
-    ("generator", "sets"): "the run's parallel sets per phase",
-    ("generator", "insulation"): "the run's insulation, as a [[run]]",
-    ("generator", "raceway"): "the run's raceway",
-    ("generator", "ambient"): "the run's ambient temperature",
-    ("generator", "current_carrying"): "current-carrying conductors in the run's raceway",
     ("generator", "ground"): "the run's equipment grounding conductor",
-    ("generator", "termination"): "the run's terminal temperature rating",
     ("options", "feeder_drop"): "voltage drop limit of a feeder",
     ("options", "branch_drop"): "voltage drop limit of a branch circuit",
     ("options", "total_drop"): "voltage drop limit from the source to the farthest outlet",
@@ -138,18 +134,11 @@ EXAMPLES = {
     ("source", "short_circuit_mva"): "250 MVA",
     ("source", "primary_x_r"): "10",
     ("transformer", "zero_sequence_ratio"): "0.85",
-    ("run", "ambient"): "30 degC",
     ("panel", "instantaneous_trip"): "2500 A",
     ("panel", "device_type"): "molded-case",
     ("motor", "kw"): "7.5",
     ("motor", "motor_type"): "squirrel-cage",
     ("motor", "raceway"): "steel",
-    ("generator", "sets"): "1",
-    ("generator", "insulation"): "THHN",
-    ("generator", "raceway"): "steel",
-    ("generator", "ambient"): "30 degC",
-    ("generator", "current_carrying"): "3",
-    ("generator", "termination"): "75 degC",
 }
 
 
@@ -191,10 +180,21 @@ def _label(key: str) -> str:
     return _LABELS.get(key, key.replace("_", " ").capitalize())
 
 
-def _field(kind: str, key: str) -> dict:
+def _note(kind: str, key: str) -> tuple[str, str]:
+    """(example, help) of a key: the template's, else kept here; a key of the
+    generator's run that neither gives is described as the [[run]] key it is."""
     example, help_text = template_notes().get((kind, key), ("", ""))
     example = example or EXAMPLES.get((kind, key), "")
     help_text = HELP.get((kind, key), help_text)
+    if kind == "generator" and key in GENERATOR_RUN_KEYS and not help_text:
+        run_example, run_help = _note("run", key)
+        example = example or run_example
+        help_text = f"its run to the transfer switch: {run_help}"
+    return example, help_text
+
+
+def _field(kind: str, key: str) -> dict:
+    example, help_text = _note(kind, key)
     return {
         "key": key,
         "label": _label(key),
