@@ -3,9 +3,10 @@
 Run on demand (not part of the test command):
 ``python tests/bench/bench_building.py [--repeat N] [--quick] [--rows check,schedule]``.
 
-Generates jobs of 1, 12, 100 and 1,000 panels (our own invented data: ten panels per
-480 V delta → 208Y/120 V transformer, 30 circuits per panel, so 100 transformers and
-30,000 circuits at 1,000 panels) and a folder of 2,000 schedule files (60,000 circuits)
+Generates jobs of 1, 12, 100 and 1,000 panels (our own invented data: a 13.8 kV service
+stated by its short-circuit power, ten panels per 150 kVA 13.8 kV delta → 208Y/120 V
+transformer, 30 circuits per panel, so 100 transformers and 30,000 circuits at 1,000
+panels; loads sized so the design passes, as a real job's would) and a folder of 2,000 schedule files (60,000 circuits)
 beside one file holding the same 60,000 rows with a ``panel`` column. Every figure is a
 whole process (the ``feedcheck`` script beside this Python; ``python -c "import click,
 pint"`` for the start-up baseline), one warm-up run then the median of ``--repeat``
@@ -49,7 +50,7 @@ HEADER = (
 def schedule_rows(panel: str, rng: np.random.Generator, with_panel: bool = True) -> list[str]:
     """30 invented circuits of one panel, as CSV lines (no header)."""
     s = rng.integers(0, len(SIZES), CIRCUITS)
-    load = (rng.uniform(300, 1400, CIRCUITS) * (1 + s // 3)).round(0)
+    load = (rng.uniform(90, 420, CIRCUITS) * (1 + s // 3)).round(0)
     length = rng.uniform(10, 120, CIRCUITS).round(0)
     out = []
     for k in range(CIRCUITS):
@@ -76,16 +77,17 @@ def job_text(n_panels: int, folder: Path, seed: int = 17) -> str:
     n_tr = max(1, -(-n_panels // PANELS_PER_TRANSFORMER))
     parts = [
         '[project]\nname = "Generated campus (invented benchmark data)"\n'
-        'date = "2026-12-01"\n\n[source]\nvoltage = "480 V delta"\nphases = 3\n'
-        'available_fault = "35 kA"\nx_r = 6\n'
+        'date = "2026-12-01"\n\n[source]\nvoltage = "13800 V delta"\nphases = 3\n'
+        'short_circuit = "500 MVA"\nx_r = 12\n'
     ]
     made = 0
     for t in range(n_tr):
         tid = f"T{t:03d}"
         parts.append(
-            f'\n[[transformer]]\nid = "{tid}"\nrating = "150 kVA"\nprimary = "480 V delta"\n'
+            f'\n[[transformer]]\nid = "{tid}"\nrating = "150 kVA"\nprimary = "13800 V delta"\n'
             f'secondary = "208Y/120 V"\nimpedance = "4.5 %"\nx_r = 4\n'
-            f'primary_device = "250 A"\nsecondary_device = "500 A"\n'
+            f'primary_device = "15 A"\nprimary_device_type = "fuse"\n'
+            f'secondary_device = "500 A"\n'
         )
         for k in range(min(PANELS_PER_TRANSFORMER, n_panels - made)):
             pid = f"P{t:03d}{k}"
