@@ -6,14 +6,15 @@ Run on demand (not part of the test command):
 Generates jobs of 1, 12, 100 and 1,000 panels (our own invented data: a 13.8 kV service
 stated by its short-circuit power, ten panels per 150 kVA 13.8 kV delta → 208Y/120 V
 transformer, 30 circuits per panel, so 100 transformers and 30,000 circuits at 1,000
-panels; loads sized so the design passes, as a real job's would) and a folder of 2,000 schedule files (60,000 circuits)
-beside one file holding the same 60,000 rows with a ``panel`` column. Every figure is a
-whole process (the ``feedcheck`` script beside this Python; ``python -c "import click,
-pint"`` for the start-up baseline), one warm-up run then the median of ``--repeat``
-runs, measured side by side in this one run: wall time, CPU time (user + system of the
-child) and the child's peak resident memory, all from the child's own rusage
-(``os.wait4``, the figures ``resource.getrusage`` gives for a child). On a shared
-machine the CPU ratio is the steadier one; both are printed. Printed: one line per row
+panels; loads sized so the design passes, as a real job's would) and a folder of 2,000
+schedule files (60,000 circuits) beside one file holding the same 60,000 rows with a
+``panel`` column. Every figure is a whole process (the ``feedcheck`` script beside this
+Python; ``python -c "import click, pint"`` for the start-up baseline), one warm-up run
+then the median of ``--repeat`` runs, measured side by side in this one run: wall time,
+CPU time (user + system of the child) and the child's peak resident memory, all from the
+child's own rusage (``os.wait4``, the figures ``resource.getrusage`` gives for a child).
+On a shared machine the CPU ratio is the steadier one; both are printed.
+Printed: one line per row
 of issue 17's table, each as a ratio against its baseline with the target (the report
 of the 12-panel job against the 1-panel job; with ``--report-1000`` also the 1,000-panel
 report, one run, against its 90 s and 1.5 GB targets), then the two forms of the radial
