@@ -17,7 +17,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..calc.constants import SQRT3
-from ..calc.fault import motor_contribution_a, transformer_fault_impedances_ohm, x_r_ratio
+from ..calc.fault import motor_contribution_a, x_r_ratio
 from ..calc.fault_duty import (
     TestConditionRow,
     asymmetry_multiplying_factor,
@@ -37,6 +37,7 @@ from .impedance import (
     run_impedance_ohm,
     run_return_impedance_ohm,
     service_transformer_ohm,
+    transformer_fault_impedances_ohm,
 )
 from .series import series_rating_a
 

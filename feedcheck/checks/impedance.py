@@ -13,9 +13,13 @@ from dataclasses import dataclass
 from ..calc import conductor as ck
 from ..calc import fault as fk
 from ..calc.constants import SQRT3
+from ..calc.memo import memoised
 from ..model import SOURCE_ID, Job, Run
 from ..rulebook import RowUse
 from .context import Context
+
+# the transformer's fault impedances at its tolerance: one nameplate, computed once
+transformer_fault_impedances_ohm = memoised(fk.transformer_fault_impedances_ohm)
 
 
 @dataclass(frozen=True)
@@ -59,12 +63,19 @@ def fault_assumptions(ctx: Context) -> FaultAssumptions:
     )
 
 
+@memoised
+def _conductors_ohm(size, material, raceway, conductor_c, length_m, sets, *, data) -> complex:
+    """Impedance of ``length_m`` of ``sets`` parallel conductors of one phase [Ω]
+    (kept per distinct call: runs alike in every one of these share it)."""
+    r, x = ck.ac_impedance_ohm_per_m(size, material, raceway, conductor_c, data=data)
+    return complex(fk.branch_impedance_ohm(length_m, float(r), float(x), sets))
+
+
 def run_impedance_ohm(run: Run, conductor_c: float, data: ck.ConductorData) -> complex:
     """Series impedance of a run per phase (one conductor, sets in parallel) [Ω]."""
-    r, x = ck.ac_impedance_ohm_per_m(
-        run.size.name, run.material, run.raceway, conductor_c, data=data
+    return _conductors_ohm(
+        run.size.name, run.material, run.raceway, conductor_c, run.length_m, run.sets, data=data
     )
-    return complex(fk.branch_impedance_ohm(run.length_m, float(r), float(x), run.sets))
 
 
 def run_return_impedance_ohm(run: Run, conductor_c: float, data: ck.ConductorData) -> complex:
@@ -77,8 +88,9 @@ def run_return_impedance_ohm(run: Run, conductor_c: float, data: ck.ConductorDat
     material = run.ground_material if run.ground is not None else run.material
     if run.from_id == SOURCE_ID and run.ground is None and run.neutral is not None:
         size, material = run.neutral, run.neutral_material
-    r, x = ck.ac_impedance_ohm_per_m(size.name, material, run.raceway, conductor_c, data=data)
-    return complex(fk.branch_impedance_ohm(run.length_m, float(r), float(x), run.sets))
+    return _conductors_ohm(
+        size.name, material, run.raceway, conductor_c, run.length_m, run.sets, data=data
+    )
 
 
 def branch_impedances(
@@ -130,7 +142,7 @@ def branch_parts(
         if tree.kind[n] == "transformer":
             t = tx[n]
             tol = {"max": fa.tolerance_pct, "min": fa.tolerance_pct, "nominal": 0.0}[tx_case]
-            zmax, zmin = fk.transformer_fault_impedances_ohm(
+            zmax, zmin = transformer_fault_impedances_ohm(
                 t.rating_va,
                 t.secondary.voltage_ll_v,
                 t.z_pct,

@@ -88,25 +88,81 @@ class ScheduleDemand:
             self.continuous_factor,
         )
 
+    def chains(self) -> list:
+        """Every panel's demand chain (:meth:`chain`), the arithmetic done once on arrays
+        (one value per panel: the kernel is vectorised, element by element the same
+        operations) and split per panel; panel by panel when the kernel refuses them
+        (its message then names the one panel's value, as :meth:`chain` gives it)."""
+        from ..calc.demand_chain import DemandChain, demand_chain
+
+        f = self.figures
+        try:
+            ch = demand_chain(
+                {k: f.connected_va[:, i].astype(float) for i, k in enumerate(KINDS)},
+                {
+                    k: self.continuous_by_kind_va[:, i].astype(float)
+                    for i, k in enumerate(KINDS)
+                    if k != "motor"
+                },
+                np.asarray(f.largest_motor_va, dtype=float),
+                self.tiers,
+                self.motor_factor,
+                self.continuous_factor,
+            )
+        except ValueError:
+            return [self.chain(j) for j in range(len(self.panel_ids))]
+        conn = {k: np.asarray(v).tolist() for k, v in ch.connected_va.items()}
+        dem = {k: np.asarray(v).tolist() for k, v in ch.demand_va.items()}
+        cols = [
+            np.asarray(v).tolist()
+            for v in (
+                ch.connected_total_va,
+                ch.demand_total_va,
+                ch.largest_motor_va,
+                ch.largest_motor_adder_va,
+                ch.continuous_demand_va,
+                ch.continuous_adder_va,
+                ch.design_va,
+            )
+        ]
+        return [
+            DemandChain(
+                {k: v[j] for k, v in conn.items()},
+                cols[0][j],
+                {k: v[j] for k, v in dem.items()},
+                *(c[j] for c in cols[1:]),
+                ch.largest_motor_factor,
+                ch.continuous_factor,
+            )
+            for j in range(len(self.panel_ids))
+        ]
+
     @cached_property
     def loads(self) -> dict[str, Load]:
         """Each panel's demand load, ``{panel_id: Load}`` (worked out once: the feed walk
         and the circuit checks read the same loads, which no one changes in place)."""
         f = self.figures
+        n = len(self.panel_ids)
+        chains = [None] * n if self.tiers is None else self.chains()
+
+        def rows(a):
+            return [None] * n if a is None else [tuple(r) for r in np.asarray(a).tolist()]
+
+        lighting = f.connected_va[:, KINDS.index("lighting")].astype(float).tolist()
         return {
-            pid: Load(
-                float(f.demand_va[j]),
-                float(f.continuous_va[j]),
-                float(f.real_w[j]),
-                None if self.phase_cont_a is None else tuple(map(float, self.phase_cont_a[j])),
-                None if self.phase_non_a is None else tuple(map(float, self.phase_non_a[j])),
-                float(f.connected_va[j, KINDS.index("lighting")]),
-                None if self.tiers is None else self.chain(j),
-                None
-                if self.phase_motor_adder_a is None
-                else tuple(map(float, self.phase_motor_adder_a[j])),
+            pid: Load(va, cva, w, pc, pn, light, chain, motor)
+            for pid, va, cva, w, pc, pn, light, chain, motor in zip(
+                self.panel_ids,
+                np.asarray(f.demand_va, dtype=float).tolist(),
+                np.asarray(f.continuous_va, dtype=float).tolist(),
+                np.asarray(f.real_w, dtype=float).tolist(),
+                rows(self.phase_cont_a),
+                rows(self.phase_non_a),
+                lighting,
+                chains,
+                rows(self.phase_motor_adder_a),
+                strict=True,
             )
-            for j, pid in enumerate(self.panel_ids)
         }
 
     def design_phase_a(self) -> np.ndarray:
