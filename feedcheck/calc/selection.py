@@ -46,6 +46,7 @@ from .conductor import (
     size_index,
 )
 from .constants import SQRT3
+from .memo import memoised
 from .protection import (
     ProtectionTables,
     device_min_for_load_a,
@@ -224,7 +225,7 @@ def _order_indices(system: str) -> tuple[int, ...]:
     return tuple(size_index(np.array(order, dtype=object)).tolist())
 
 
-def _candidates(system, sets, material, termination_c, dev, equipment_75c, data: SizingData):
+def _candidates(system, sets, material, termination_c, dev, equipment_75c, tables):
     """The sizes tried, smallest first (tabulated for the material; 1/0 AWG or larger in
     parallel), and the termination column of each (110.14(C)(1) when not given)."""
     order = AWG_KCMIL_ORDER if system == "awg" else METRIC_ORDER
@@ -235,48 +236,88 @@ def _candidates(system, sets, material, termination_c, dev, equipment_75c, data:
         area = float(AREA_MM2[i])
         if sets > 1 and area < PARALLEL_MIN_AREA_MM2 * (1 - 1e-9):
             continue
-        if np.isnan(data.ampacity.raceway_a[m, 0, i]):
+        if np.isnan(tables.raceway_a[m, 0, i]):
             continue
         names.append(name)
         if termination_c is not None:
             terms.append(termination_c)
         else:
             terms.append(60.0 if (dev <= 100.0 or area <= small) and not equipment_75c else 75.0)
-    return names, terms
+    return tuple(names), tuple(terms)
 
 
-def _screen(names, terms, dev, sets, chain_args, more, data: SizingData):
-    """Ampacity (before and after corrections) and protection verdicts of every size at
+def _screen(dev, sets, candidates, chain_args, more, data: SizingData):
+    """The sizes tried and their termination columns (:func:`_candidates`), and the
+    ampacity (before and after corrections) and protection verdicts of every size at
     once: the figures :func:`~feedcheck.calc.ampacity.ampacity_chain` and
-    :func:`~feedcheck.calc.protection.max_device_a` give one size at a time."""
-    if not names:
-        return np.zeros(0, bool), np.zeros(0, bool)
-    material, insulation_c, ambient_c, current_carrying = chain_args
+    :func:`~feedcheck.calc.protection.max_device_a` give one size at a time.
+    ``candidates``: (system, termination column or None, equipment marked 75 °C)."""
     free_air, rooftop_c, cont_a, non_a = more
-    tabs = data.ampacity
+    names, terms, before, final, mx = _screen_figures(
+        *candidates,
+        dev,
+        sets,
+        *chain_args,
+        free_air,
+        rooftop_c,
+        tables=data.ampacity,
+        protection=data.protection,
+    )
+    if not names:
+        return names, terms, (np.zeros(0, bool), np.zeros(0, bool))
+    ok_before = before >= data.ampacity.continuous_factor * cont_a + non_a - 1e-9
+    ok_after = final >= cont_a + non_a - 1e-9
+    return names, terms, (ok_before & ok_after, dev <= mx + 1e-9)
+
+
+@memoised(records=("tables", "protection"))
+def _screen_figures(
+    system,
+    termination_c,
+    equipment_75c,
+    dev,
+    sets,
+    material,
+    insulation_c,
+    ambient_c,
+    cc,
+    free_air,
+    rooftop_c,
+    *,
+    tables: AmpacityTables,
+    protection: ProtectionTables,
+):
+    """The sizes tried, their termination columns, and the ampacity before corrections,
+    the allowable ampacity and the largest device of every size [A]: the figures of
+    :func:`_screen` that do not depend on the load (kept per distinct call: a building's
+    runs share a few installations and devices; read-only arrays)."""
+    names, terms = _candidates(system, sets, material, termination_c, dev, equipment_75c, tables)
+    if not names:
+        return names, terms, None, None, None
     final = np.asarray(
         ampacity_a(
             np.array(names, dtype=object),
             material,
             insulation_c,
             ambient_c,
-            current_carrying,
+            cc,
             np.array(terms, dtype=float),
             sets,
             free_air,
             rooftop_c,
-            tables=tabs,
+            tables=tables,
         ),
         dtype=float,
     )
-    tab = tabs.free_air_a if free_air else tabs.raceway_a
+    tab = tables.free_air_a if free_air else tables.raceway_a
     m, idx = int(material_index(material)), size_index(np.array(names, dtype=object))
     ci = int(_column(insulation_c, "insulation_c"))
     before = tab[m, np.minimum(ci, _column(np.array(terms, dtype=float), "t")), idx] * sets
-    ok_before = before >= tabs.continuous_factor * cont_a + non_a - 1e-9
-    ok_after = final >= cont_a + non_a - 1e-9
-    mx = max_device_a(final, np.array(names, dtype=object), material, tables=data.protection)
-    return ok_before & ok_after, dev <= np.asarray(mx, dtype=float) + 1e-9
+    mx = max_device_a(final, np.array(names, dtype=object), material, tables=protection)
+    out = (np.asarray(before, dtype=float), final, np.asarray(mx, dtype=float))
+    for arr in out:
+        arr.flags.writeable = False
+    return (names, terms, *out)
 
 
 def select_conductor(
@@ -335,10 +376,10 @@ def select_conductor(
         (length_m, voltage_v, pf, phases, vdrop_max_pct),
         (withstand_insulation, fault_a, clearing_s),
     )
-    names, terms = _candidates(system, sets, material, termination_c, dev, equipment_75c, data)
     chain_args = (material, insulation_c, ambient_c, current_carrying)
     more = (raceway == "free-air", rooftop_adder_c, continuous_a, noncontinuous_a)
-    ok = _screen(names, terms, dev, sets, chain_args, more, data)
+    candidates = (system, termination_c, equipment_75c)
+    names, terms, ok = _screen(dev, sets, candidates, chain_args, more, data)
     first, chosen = _search(names, terms, ok, extra, (chain_args, more, sets, material), data)
     if chosen is None:
         _none_meets(first, extra.check_vd, extra.check_ws)
@@ -349,3 +390,47 @@ def select_conductor(
     rules = (*chain.rule_ids, "device-continuous-125", "prot-next-size-up")
     criteria = tuple((c, first[c]) for c in present)
     return Selection(name, sets, dev, term, governing, criteria, chain, mx, vd_pct, ws, rules)
+
+
+def smallest_size(
+    continuous_a: float,
+    noncontinuous_a: float,
+    material: str,
+    insulation_c: float,
+    ambient_c: float,
+    current_carrying: int,
+    termination_c: float | None = None,
+    sets: int = 1,
+    raceway: str = "steel",
+    device_a: float | None = None,
+    rooftop_adder_c: float = 0.0,
+    system: str = "awg",
+    *,
+    data: SizingData,
+) -> str:
+    """The size :func:`select_conductor` selects on ampacity and protection alone (no
+    drop, no withstand: ``length_m`` 0 and no ``fault_a``), from the same screen of
+    every size, without the selected size's ampacity chain. The same arguments and
+    ``ValueError`` as :func:`select_conductor`.
+
+    >>> smallest_size(150.0, 30.0, "cu", 90.0, 40.0, 6, data=book.sizing)
+    '250 kcmil'
+
+    References: NFPA 70-2023 110.14(C), 215.2(A)(1), 215.3, 240.4.
+    """
+    loads = (("continuous_a", continuous_a), ("noncontinuous_a", noncontinuous_a))
+    _check_args(3, 0.9, system, sets, loads)
+    dev = _device(continuous_a, noncontinuous_a, device_a, data)
+    chain_args = (material, insulation_c, ambient_c, current_carrying)
+    more = (raceway == "free-air", rooftop_adder_c, continuous_a, noncontinuous_a)
+    candidates = (system, termination_c, False)
+    names, _terms, (ok_amp, ok_prot) = _screen(dev, sets, candidates, chain_args, more, data)
+    both = np.flatnonzero(ok_amp & ok_prot)
+    if not len(both):
+        first = {
+            c: names[int(np.flatnonzero(ok)[0])]
+            for c, ok in (("ampacity", ok_amp), ("protection", ok_prot))
+            if ok.any()
+        }
+        _none_meets(first, False, False)
+    return names[int(both[0])]

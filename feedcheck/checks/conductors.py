@@ -12,7 +12,7 @@ from .ampacity_sheet import ampacity_steps
 from .bonding import check_sds_conductors
 from .compare import passes
 from .context import Context
-from .run_fix import RunDuty, next_passing, select_for_duty
+from .run_fix import RunDuty, next_passing, smallest_for_duty
 from .taps import check_unprotected_run, run_device
 from .termination import termination_note
 from .withstand import check_withstand
@@ -285,7 +285,7 @@ def _check_egc(ctx: Context, run: Run, duty: RunDuty, term: float | None) -> Non
         )
         return
     try:
-        minimum = select_for_duty(ctx, run, duty, term).size
+        minimum = smallest_for_duty(ctx, run, duty, term)
     except ValueError:
         minimum = run.size.name
     if SIZES[minimum].area_mm2 > run.size.area_mm2:

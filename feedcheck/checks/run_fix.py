@@ -20,7 +20,7 @@ from ..calc.protection import (
     next_standard_rating_a,
     standard_ratings_a,
 )
-from ..calc.selection import Selection, select_conductor
+from ..calc.selection import Selection, select_conductor, smallest_size
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
 from ..model import Run
 from .context import Context
@@ -86,6 +86,25 @@ def _failures(ctx: Context, run: Run, name: str, duty: RunDuty) -> list[str]:
 def select_for_duty(ctx: Context, run: Run, duty: RunDuty, term: float | None) -> Selection:
     """Smallest conductor of the run's material and system for its load and device."""
     return select_conductor(
+        duty.cont_a,
+        duty.non_a,
+        run.material,
+        run.insulation_c,
+        run.ambient_c,
+        duty.cc,
+        termination_c=term,
+        sets=run.sets,
+        raceway=run.raceway,
+        device_a=duty.device_a,
+        rooftop_adder_c=duty.rooftop_c,
+        system=run.size.system,
+        data=ctx.rules.sizing,
+    )
+
+
+def smallest_for_duty(ctx: Context, run: Run, duty: RunDuty, term: float | None) -> str:
+    """The size :func:`select_for_duty` selects, alone (its ampacity chain not built)."""
+    return smallest_size(
         duty.cont_a,
         duty.non_a,
         run.material,
