@@ -24,6 +24,7 @@ from ..errors import InputError
 from ..model import Job, Schedule, VoltageSystem
 from ..rulebook import RuleBook
 from .schedules import (
+    Later,
     ScheduleDemand,
     ScheduleResult,
     _rule_rows,
@@ -128,20 +129,19 @@ class ScheduleBatch:
         out = {}
         for j, pid in enumerate(demand.panel_ids):
             a, b = int(starts[j]), int(starts[j + 1])
-            panel_row = _rows(k.panels, j, j + 1)
             findings = each[j]
             out[pid] = schedule_result(
                 self.schedules[pid],
                 g.system,
                 (
-                    _rows(k.circuits, a, b),
+                    _later_rows(k.circuits, a, b),
                     _totals_of(records[j], g.occupancy, g.system),
-                    panel_row,
+                    _later_rows(k.panels, j, j + 1),
                 ),
                 (k.q["panel"][a:b], k.q["circuit"][a:b], _slice_found(k.found, a, b), findings),
                 loads[pid],
                 {pid: loads[pid]},
-                _rows(k.review, a, b),
+                _later_rows(k.review, a, b),
             )
         return out
 
@@ -168,6 +168,11 @@ def _rows(frame, a: int, b: int):
     part = frame.iloc[a:b].copy(deep=False)
     part.index = pd.RangeIndex(b - a)
     return part
+
+
+def _later_rows(frame, a: int, b: int):
+    """:func:`_rows`, cut out when first read (None stays None)."""
+    return None if frame is None else Later(lambda: _rows(frame, a, b))
 
 
 def _slice_found(found: list, a: int, b: int) -> list:

@@ -129,8 +129,10 @@ class ScheduleResult:
         return 1 if any(f.status == "fail" for f in self.findings) else 0
 
     def __getstate__(self) -> dict:
-        """Copies and pickles hold the built list."""
+        """Copies and pickles hold the built list and frames."""
         _get_findings(self)
+        for name in _LATER:
+            getattr(self, name)
         return dict(self.__dict__)
 
 
@@ -162,6 +164,39 @@ ScheduleResult.findings = property(
     _set_findings,  # type: ignore[assignment]
     doc="Findings: a list, built on first use.",
 )
+
+
+class Later:
+    """A frame not cut out yet: ``build()`` makes it, on first use (a job's panels are
+    checked in one frame; each panel's rows are cut out only when read)."""
+
+    __slots__ = ("build",)
+
+    def __init__(self, build):
+        self.build = build
+
+
+_LATER = ("circuits", "panels", "review")
+
+
+def _later_property(name: str) -> property:
+    key = "_" + name
+
+    def get(self):
+        v = self.__dict__[key]
+        if isinstance(v, Later):
+            v = self.__dict__[key] = v.build()
+        return v
+
+    def put(self, value) -> None:
+        self.__dict__[key] = value
+
+    return property(get, put, doc=f"{name}: a frame (or None), cut out on first use.")
+
+
+# the dataclass __init__ assigns these through the properties (a value, or Later)
+for _name in _LATER:
+    setattr(ScheduleResult, _name, _later_property(_name))
 
 
 # --------------------------------------------------------------------------- the check

@@ -12,6 +12,13 @@ from tests.bench.bench_building import job_text
 
 def test_one_frame_equals_panel_by_panel(tmp_path):
     (tmp_path / "job.toml").write_text(job_text(12, tmp_path), encoding="utf-8")
+    # the generated building passes: give two panels a 60 A breaker on 12 AWG (240.4(D)
+    # fails it) so that the comparison covers failing circuits too
+    for name in ("P0003.csv", "P0007.csv"):
+        f = tmp_path / name
+        text = f.read_text(encoding="utf-8")
+        assert ",20,12 AWG Cu," in text
+        f.write_text(text.replace(",20,12 AWG Cu,", ",60,12 AWG Cu,", 1), encoding="utf-8")
     job = read_job(tmp_path / "job.toml")
     schedules = _read_job_schedules(job)
     res = check_job_with_schedules(job, schedules, "2026-12-01")
