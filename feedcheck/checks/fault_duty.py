@@ -27,6 +27,7 @@ from ..calc.fault_duty import (
 )
 from ..calc.fault_high_leg import K_AN
 from ..calc.fault_split_phase import half_winding_impedance_ohm, split_phase_fault
+from ..calc.memo import memoised
 from ..model import DEVICE_FAMILIES, SOURCE_ID, Transformer
 from ..render.display import kiloamps  # a fault current in a note: "12.35 kA", "unlimited"
 from .compare import passes
@@ -314,10 +315,20 @@ def panel_duty(ctx: Context, panel, faults_a: dict, x_r: dict) -> Duty:
         )
     if panel.interrupting_a is None or not math.isfinite(sym):
         return Duty(sym, case, xr, 1.0, None, family)
-    rows = [TestConditionRow.from_record(r) for r in ctx.rules.rows("device_test_power_factor")]
-    row = test_condition_row(DEVICE_FAMILIES[family], panel.interrupting_a, rows)
-    mf = float(asymmetry_multiplying_factor(xr, row.test_x_r, row.basis))
+    row = _test_row(DEVICE_FAMILIES[family], panel.interrupting_a, book=ctx.rules)
+    mf = float(_asymmetry_factor(xr, row.test_x_r, row.basis))
     return Duty(sym, case, xr, mf, row, family)
+
+
+@memoised(records=("book",))
+def _test_row(family: str, interrupting_a: float, *, book) -> TestConditionRow:
+    """The device test-condition row of a family and interrupting rating (the rule
+    book's rows; kept per distinct call: a building's panels share a few devices)."""
+    rows = [TestConditionRow.from_record(r) for r in book.rows("device_test_power_factor")]
+    return test_condition_row(family, interrupting_a, rows)
+
+
+_asymmetry_factor = memoised(asymmetry_multiplying_factor)
 
 
 def node_duty(ctx: Context, n: str, faults_a: dict, x_r: dict) -> Duty:

@@ -20,6 +20,8 @@ from .context import Context
 
 # the transformer's fault impedances at its tolerance: one nameplate, computed once
 transformer_fault_impedances_ohm = memoised(fk.transformer_fault_impedances_ohm)
+# R and X of one conductor: a building's runs share a few sizes, materials, raceways
+ac_impedance_ohm_per_m = memoised(ck.ac_impedance_ohm_per_m)
 
 
 @dataclass(frozen=True)
@@ -67,7 +69,7 @@ def fault_assumptions(ctx: Context) -> FaultAssumptions:
 def _conductors_ohm(size, material, raceway, conductor_c, length_m, sets, *, data) -> complex:
     """Impedance of ``length_m`` of ``sets`` parallel conductors of one phase [Ω]
     (kept per distinct call: runs alike in every one of these share it)."""
-    r, x = ck.ac_impedance_ohm_per_m(size, material, raceway, conductor_c, data=data)
+    r, x = ac_impedance_ohm_per_m(size, material, raceway, conductor_c, data=data)
     return complex(fk.branch_impedance_ohm(length_m, float(r), float(x), sets))
 
 

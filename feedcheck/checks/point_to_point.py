@@ -8,6 +8,7 @@ import math
 
 from ..calc.conductor import ac_impedance_ohm_per_m
 from ..calc.constants import SQRT3
+from ..calc.memo import memoised
 from ..calc.point_to_point import (
     conductor_constant_a_ft_per_v,
     percent_difference,
@@ -72,14 +73,23 @@ def _secondary_start_a(job, tx, fa: FaultAssumptions) -> float:
 
 def _end_of_run_a(ctx: Context, fa: FaultAssumptions, run, system, start_a: float) -> float:
     """The figure at the end of one run, from the figure at its head."""
-    r_ohm_per_m, x_ohm_per_m = ac_impedance_ohm_per_m(
+    c_value = _conductor_constant(
         run.size.name, run.material, run.raceway, fa.cond_c_max, data=ctx.rules.conductors
     )
-    c_value = float(conductor_constant_a_ft_per_v(float(r_ohm_per_m), float(x_ohm_per_m)))
     kind = "3ph" if system.phases == 3 else "1ph-ll"
     return float(
         ptp_chain_a(start_a, [run.length_m], [c_value], [run.sets], system.voltage_ll_v, kind)[0]
     )
+
+
+@memoised
+def _conductor_constant(size: str, material: str, raceway: str, conductor_c: float, *, data):
+    """The conductor constant C of one size, material and raceway (kept per distinct
+    call: a building's runs share a few)."""
+    r_ohm_per_m, x_ohm_per_m = ac_impedance_ohm_per_m(
+        size, material, raceway, conductor_c, data=data
+    )
+    return float(conductor_constant_a_ft_per_v(float(r_ohm_per_m), float(x_ohm_per_m)))
 
 
 def ptp_finding(

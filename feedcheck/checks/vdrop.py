@@ -18,6 +18,7 @@ from .context import Context
 from .deliverable import COLLAPSED_PCT, source_voltage_pct, transformer_collapsed
 from .drop_rules import DropLimit, job_drop_limits
 from .high_leg import leg_drops
+from .impedance import ac_impedance_ohm_per_m
 from .loads import lines_of
 from .motor_start import check_motor_starting
 
@@ -182,7 +183,7 @@ def _run_drop(
     feed = ph.feed_cont_a + ph.feed_non_a
     current = float(feed.max()) if load.va > 0 else 0.0  # the heaviest line
     pf = load.pf
-    r, x = ck.ac_impedance_ohm_per_m(
+    r, x = ac_impedance_ohm_per_m(
         run.size.name, run.material, run.raceway, OPERATING_C, data=ctx.rules.conductors
     )
     r, x = float(r), float(x)
@@ -328,7 +329,7 @@ def _balanced(feed, pv) -> bool:
 
 
 def _lines_text(feed) -> str:
-    return " / ".join(f"{x} {a:.1f} A" for x, a in zip("ABC", feed, strict=True))
+    return " / ".join(f"{x} {a:.1f} A" for x, a in zip("ABC", feed.tolist(), strict=True))
 
 
 def _smallest_passing(ctx, run, current, pf, kind, limit_pct, nominal_v) -> str:

@@ -1,0 +1,29 @@
+"""Scalar fast paths of vectorised kernels give what the array path gives (vector =
+scalar; identity between two ways of the same computation, no published value)."""
+
+import itertools
+
+import numpy as np
+import pytest
+
+from feedcheck.calc.fault_duty import governing_duty_a
+
+
+def test_governing_duty_scalar_equals_array():
+    values = (None, 0.0, 4150.0, 4448.0, 9000.0, 1e6)
+    for combo in itertools.product(values, repeat=4):
+        if all(v is None for v in combo):
+            continue
+        one = governing_duty_a(*combo)
+        arr = governing_duty_a(*(None if v is None else np.array([v]) for v in combo))
+        assert type(one.duty_a) is float and type(one.case) is str
+        assert (one.duty_a, one.case, one.cases) == (float(arr.duty_a[0]), arr.case[0], arr.cases)
+
+
+@pytest.mark.parametrize("bad", [float("nan"), float("inf"), -1.0])
+def test_governing_duty_scalar_refuses_what_the_array_refuses(bad):
+    with pytest.raises(ValueError) as a:
+        governing_duty_a(100.0, bad)
+    with pytest.raises(ValueError) as b:
+        governing_duty_a(np.float64(100.0), np.float64(bad))
+    assert str(a.value).split(", got")[0] == str(b.value).split(", got")[0]
