@@ -10,6 +10,8 @@ References
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 
 from .constants import SQRT3
@@ -56,6 +58,15 @@ def current_from_apparent_power_a(va, voltage_ll_v, phases=3):
     ----------
     IEEE Std 141-1993, ch. 3.
     """
+    if type(phases) is int and type(voltage_ll_v) is float and type(va) in (float, int):
+        # one figure: the same arithmetic without numpy (IEEE division either way)
+        if phases not in (1, 3):
+            raise ValueError(f"phases must be 1 or 3, got {phases!r}")
+        if not (math.isfinite(voltage_ll_v) and voltage_ll_v > 0):
+            raise ValueError(
+                f"voltage_ll_v must be a finite number greater than zero, got {voltage_ll_v!r}"
+            )
+        return float(va) / ((SQRT3 if phases == 3 else 1.0) * voltage_ll_v)
     ph = np.asarray(phases)
     if not np.isin(ph, (1, 3)).all():
         raise ValueError(f"phases must be 1 or 3, got {phases!r}")

@@ -65,6 +65,9 @@ class Context:
     # node id -> NodeAdders: the one largest-motor 25 % of every node above a motor panel
     node_motor_adders: dict = field(default_factory=dict)
     ampacity_row_cache: dict = field(default_factory=dict)  # see ampacity_rows()
+    # rule id -> its RowUse, RowUse -> its note or None (confirmed): unconfirmed_notes()
+    cited_row_cache: dict = field(default_factory=dict, repr=False)
+    row_note_cache: dict = field(default_factory=dict, repr=False)
 
     @cached_property
     def panel_by_id(self) -> dict:
@@ -121,10 +124,21 @@ class Context:
         uses = list(self.reading_rows)
         for rows in self.reading_by_subject:
             uses += rows.get(subject, ())
-        cited = self.rules.rule_use(rule_id)
+        try:  # the rule book's rows do not change during a check: each looked at once
+            cited = self.cited_row_cache[rule_id]
+        except KeyError:
+            cited = self.cited_row_cache[rule_id] = self.rules.rule_use(rule_id)
         if cited is not None:
             uses.append(cited)
-        return tuple(dict.fromkeys(u.note() for u in uses if not u.confirmed))
+        notes, known = [], self.row_note_cache
+        for u in uses:
+            try:
+                note = known[u]
+            except KeyError:
+                note = known[u] = None if u.confirmed else u.note()
+            if note is not None:
+                notes.append(note)
+        return tuple(dict.fromkeys(notes))
 
     def ampacity_rows(self, run, size: str | None = None) -> tuple[RowUse, ...]:
         """The ampacity table rows a figure of ``run`` (or of ``size`` in its place)

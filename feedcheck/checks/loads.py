@@ -130,19 +130,24 @@ def _feed_children(tree: Tree, tx: dict, p: str, kids: list[str], out: dict, pai
     by_child: dict[str, list] = {c: [] for c in kids}  # each child's elements, in order
     for element, used in zip(elements, conn, strict=True):
         by_child[element[0]].append((element, used))
+    passed = {c: tx.get(c) is None and out[c].single_phase_feed for c in kids}  # own lines
+    # the line currents of every element drawn through p's lines, in one call each (the
+    # kernel works element by element: the same figures as one call per child)
+    drawn = [e for c in kids if not passed[c] for e in by_child[c]]
+    currents = _element_currents(drawn, pv.voltage_ll_v)
+    at = 0
     for c in kids:
         fc, fn = np.zeros(3), np.zeros(3)
-        passed = tx.get(c) is None and out[c].single_phase_feed  # its own lines
-        currents = _element_currents(by_child[c], pv.voltage_ll_v) if not passed else None
-        for k, ((_child, _ce, _ne, given), used) in enumerate(by_child[c]):
+        for (_child, _ce, _ne, given), used in by_child[c]:
             ph = list(CONNECTIONS[used])
             if given in UNSPECIFIED or out[c].single_phase_feed:
                 out[c].connection, out[c].assigned = used, given in UNSPECIFIED
-            if passed:
+            if passed[c]:
                 _pass_lines(out[c], ph, fc, fn)  # a single-phase panel: its own lines
                 continue
-            fc[ph] += currents[0][k]
-            fn[ph] += currents[1][k]
+            fc[ph] += currents[0][at]
+            fn[ph] += currents[1][at]
+            at += 1
         _store(out[c], parent, fc, fn)
 
 

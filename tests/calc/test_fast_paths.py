@@ -27,3 +27,26 @@ def test_governing_duty_scalar_refuses_what_the_array_refuses(bad):
     with pytest.raises(ValueError) as b:
         governing_duty_a(np.float64(100.0), np.float64(bad))
     assert str(a.value).split(", got")[0] == str(b.value).split(", got")[0]
+
+
+def test_current_from_apparent_power_scalar_equals_array():
+    from feedcheck.calc.power import current_from_apparent_power_a
+
+    rng = np.random.default_rng(3)
+    for va in [0.0, 1.0, 45e3, 7, *rng.uniform(0, 5e6, 200).tolist()]:
+        for v in (120.0, 208.0, 240.0, 480.0, 13800.0, *rng.uniform(1, 35e3, 5).tolist()):
+            for ph in (1, 3):
+                one = current_from_apparent_power_a(va, v, ph)
+                arr = current_from_apparent_power_a(np.array([va]), np.array([v]), ph)
+                assert type(one) is float and one == float(arr[0])
+
+
+@pytest.mark.parametrize(("v", "ph"), [(0.0, 3), (-1.0, 3), (float("nan"), 1), (208.0, 2)])
+def test_current_from_apparent_power_scalar_refuses_as_the_array(v, ph):
+    from feedcheck.calc.power import current_from_apparent_power_a
+
+    with pytest.raises(ValueError) as a:
+        current_from_apparent_power_a(100.0, v, ph)
+    with pytest.raises(ValueError) as b:
+        current_from_apparent_power_a(np.float64(100.0), np.float64(v), np.int64(ph))
+    assert str(a.value).split(", got")[0] == str(b.value).split(", got")[0]
