@@ -75,17 +75,18 @@ def _position_table(results: Results) -> list[str]:
     return lines
 
 
-def _phase_keys(results: Results, panel_id: str) -> tuple[str, ...]:
-    """Per-phase load keys of a panel: two on a single-phase system, three otherwise."""
-    node = next((n for n in results.nodes if n.id == panel_id), None)
+def _phase_keys(nodes: dict, panel_id: str) -> tuple[str, ...]:
+    """Per-phase load keys of a panel: two on a single-phase system, three otherwise
+    (``nodes``: each node by id, the first of an id)."""
+    node = nodes.get(panel_id)
     return PHASE_KEYS[:2] if node is not None and node.phases == 1 else PHASE_KEYS
 
 
-def _schedule_line(results: Results, panel_id: str, totals: dict) -> str:
+def _schedule_line(nodes: dict, panel_id: str, totals: dict) -> str:
     def kva(key: str) -> str:
         return fixed(totals.get(key, 0), 1, 1e-3)
 
-    phases = "/".join(kva(k) for k in _phase_keys(results, panel_id) if k in totals)
+    phases = "/".join(kva(k) for k in _phase_keys(nodes, panel_id) if k in totals)
     return (
         f"schedule {panel_id}: {int(totals.get('circuits', 0))} circuits, demand "
         f"{kva('demand_va')} kVA (continuous at 125 %: {kva('design_va')} kVA), phases "
@@ -123,17 +124,40 @@ _SPACE_KINDS = ("\t", "\n", "\x0b", "\x0c", "\r")
 
 def _fill(text: str, rest: str) -> str:
     """``text`` wrapped at 96 columns, indented six spaces (``rest``: the indent of
-    the lines after the first). Most notes fit on one line as they are (no leading,
-    trailing or other than plain spaces): those are indented without the wrapper,
-    which gives the same text more slowly."""
+    the lines after the first). Most notes are words between single plain spaces
+    (no leading or trailing space, no other whitespace, no hyphen, no word longer than a
+    line): those are wrapped here, word by word, as the wrapper wraps them (it gives
+    the same text more slowly); any other text goes to the wrapper."""
     if (
         text
-        and len(text) <= 96 - 6
         and text == text.strip()
         and not any(c in text for c in _SPACE_KINDS)
+        and "-" not in text
+        and "  " not in text
     ):
-        return "      " + text
+        if len(text) <= 96 - 6:
+            return "      " + text
+        words = text.split(" ")
+        if max(map(len, words)) <= 96 - max(6, len(rest)):
+            return _greedy(words, rest)
     return _WRAPPERS[rest].fill(text)
+
+
+def _greedy(words: list[str], rest: str) -> str:
+    """Words onto lines of at most 96 columns, first indented six spaces, the others
+    ``rest``: each line takes the next word while it fits after one space
+    (``textwrap``'s rule for words between single spaces; the space at a break is
+    dropped)."""
+    lines, indent, line, used = [], "      ", [words[0]], len(words[0])
+    for w in words[1:]:
+        if used + 1 + len(w) <= 96 - len(indent):
+            line.append(w)
+            used += 1 + len(w)
+        else:
+            lines.append(indent + " ".join(line))
+            indent, line, used = rest, [w], len(w)
+    lines.append(indent + " ".join(line))
+    return "\n".join(lines)
 
 
 def render_text(results: Results, show_all: bool = False) -> str:
@@ -145,8 +169,11 @@ def render_text(results: Results, show_all: bool = False) -> str:
     out.write("\n".join(_node_table(results)) + "\n\n")
     if positions := _position_table(results):
         out.write("\n".join(positions) + "\n\n")
+    nodes: dict = {}
+    for n in results.nodes:  # by id, the first of an id (as a search from the start)
+        nodes.setdefault(n.id, n)
     for pid, sr in results.schedules.items():
-        out.write(_schedule_line(results, pid, sr.totals) + "\n")
+        out.write(_schedule_line(nodes, pid, sr.totals) + "\n")
         for notice in getattr(sr, "notices", None) or ():
             out.write(f"  notice: {notice}\n")
     if results.schedules:

@@ -78,3 +78,18 @@ def test_note_wrapping_matches_textwrap(text):
     assert _fill(long_word, "      ") == textwrap.fill(
         long_word, width=96, initial_indent="      ", subsequent_indent="      "
     )
+
+
+@settings(max_examples=400, deadline=None)
+@given(
+    text=st.text(alphabet=st.sampled_from("abc  .,°–\u00a0"), max_size=400),
+    word=st.integers(min_value=0, max_value=95),
+)
+def test_long_note_wrapping_matches_textwrap(text, word):
+    """Notes of several lines (words between spaces, the shortcut's case, with a word of
+    up to a line's length) wrap exactly as ``textwrap.fill`` wraps them (common
+    practice, no source: the wrapper is the reference)."""
+    text = text + " " + "w" * word + " " + text
+    for rest in ("      ", "        "):
+        expected = textwrap.fill(text, width=96, initial_indent="      ", subsequent_indent=rest)
+        assert _fill(text, rest) == expected
