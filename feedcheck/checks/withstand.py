@@ -19,6 +19,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from ..calc import withstand_icea as wi
+from ..calc.memo import memoised
 from ..calc.sizes import Size
 from ..model import Run
 from .compare import passes
@@ -48,8 +49,7 @@ def insulation_of(ctx: Context, run: Run) -> Insulation:
     """The run's insulation: its type row, or the conservative assumption for a
     temperature alone."""
     if run.insulation_type:
-        rows = [wi.InsulationType.from_record(r) for r in ctx.rules.rows("insulation_types")]
-        row = wi.insulation_type(run.insulation_type, rows)
+        row = _insulation_row(run.insulation_type, book=ctx.rules)
         return Insulation(row.name, run.insulation_c, row.family, row.sc_final_c, row.rule_id)
     limit = ctx.rules.rule("run-withstand-insulation").number("limit")
     return Insulation(
@@ -61,9 +61,26 @@ def insulation_of(ctx: Context, run: Run) -> Insulation:
     )
 
 
+@memoised(records=("book",))
+def _insulation_row(name: str, *, book) -> wi.InsulationType:
+    """The insulation type's row of the rule book (kept per name and book)."""
+    rows = [wi.InsulationType.from_record(r) for r in book.rows("insulation_types")]
+    return wi.insulation_type(name, rows)
+
+
 def _constants(ctx: Context, material: str) -> tuple[float, float]:
-    row = next(r for r in ctx.rules.rows("conductor_materials") if r["material"] == material)
+    return _material_constants(material, book=ctx.rules)
+
+
+@memoised(records=("book",))
+def _material_constants(material: str, *, book) -> tuple[float, float]:
+    """ICEA K and T0 of a conductor material (kept per material and book)."""
+    row = next(r for r in book.rows("conductor_materials") if r["material"] == material)
     return float(row["icea_k"]), float(row["icea_t0_c"])
+
+
+# the withstand of one area, time, material and temperatures: runs share most of them
+_icea_withstand_a = memoised(wi.icea_withstand_current_a)
 
 
 def _clearing_s(ctx: Context, run: Run) -> float:
@@ -99,9 +116,7 @@ def phase_withstand_a(
     ins = insulation_of(ctx, run)
     k_icea, t0 = _constants(ctx, run.material)
     t1 = float(wi.operating_temperature_c(run.ambient_c, ins.rated_c, load_a, ampacity_a))
-    i_w = wi.icea_withstand_current_a(
-        size.area_mm2 * run.sets, clearing_s, k_icea, t0, t1, ins.limit_c
-    )
+    i_w = _icea_withstand_a(size.area_mm2 * run.sets, clearing_s, k_icea, t0, t1, ins.limit_c)
     return float(i_w), t1
 
 
@@ -148,9 +163,7 @@ def check_withstand(ctx: Context, run: Run, load_a: float, ampacity_a: float) ->
         k_icea, t0 = _constants(ctx, run.ground_material)
         t1g = run.ambient_c
         i_g = float(
-            wi.icea_withstand_current_a(
-                run.ground.area_mm2 * run.sets, t, k_icea, t0, t1g, ins.limit_c
-            )
+            _icea_withstand_a(run.ground.area_mm2 * run.sets, t, k_icea, t0, t1g, ins.limit_c)
         )
         with ctx.reading(*rows):
             _emit(ctx, run, "grounding conductor", lg, key, i_g, t, t1g, ins, note)
