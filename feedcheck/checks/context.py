@@ -65,7 +65,8 @@ class Context:
     # node id -> NodeAdders: the one largest-motor 25 % of every node above a motor panel
     node_motor_adders: dict = field(default_factory=dict)
     ampacity_row_cache: dict = field(default_factory=dict)  # see ampacity_rows()
-    # rule id -> its RowUse, RowUse -> its note or None (confirmed): unconfirmed_notes()
+    # rule id -> its RowUse; id(RowUse) -> (RowUse, its note or None when confirmed):
+    # unconfirmed_notes()
     cited_row_cache: dict = field(default_factory=dict, repr=False)
     row_note_cache: dict = field(default_factory=dict, repr=False)
 
@@ -131,14 +132,13 @@ class Context:
         if cited is not None:
             uses.append(cited)
         notes, known = [], self.row_note_cache
-        for u in uses:
-            try:
-                note = known[u]
-            except KeyError:
-                note = known[u] = None if u.confirmed else u.note()
-            if note is not None:
-                notes.append(note)
-        return tuple(dict.fromkeys(notes))
+        for u in uses:  # by identity: the entry holds the row, so its id is not reused
+            hit = known.get(id(u))
+            if hit is None or hit[0] is not u:
+                hit = known[id(u)] = (u, None if u.confirmed else u.note())
+            if hit[1] is not None:
+                notes.append(hit[1])
+        return tuple(dict.fromkeys(notes)) if notes else ()
 
     def ampacity_rows(self, run, size: str | None = None) -> tuple[RowUse, ...]:
         """The ampacity table rows a figure of ``run`` (or of ``size`` in its place)

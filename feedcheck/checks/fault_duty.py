@@ -159,6 +159,7 @@ def worst_case_figures(
     z_ret = path_impedances(ctx, fa.cond_c_max, ground=True)
     svc = service_transformer_ohm(ctx.job)
     out: dict[str, DutyFigures] = {}
+    wye: list = []  # (figures, node, kernel arguments, loop impedance): _wye_lg
     for n in tree.order:
         tid = tree.upstream_transformer[n]
         if tid is None:
@@ -187,14 +188,30 @@ def worst_case_figures(
         elif v.kind == "wye":
             z_src = upstream_part(z_total_max[tid], zt)
             k = z0_ratio(t, fa, "max")
-            i = fault_lg_delta_wye_a(
-                v.voltage_ll_v / SQRT3, z_src, zt, k, z_line[n], z_ret[n], c=fa.c_max
-            )
+            args = (v.voltage_ll_v / SQRT3, z_src, zt, k, z_line[n], z_ret[n])
             z_sum = 2 * (z_src + zt + z_line[n]) + k * zt + z_line[n] + 3 * z_ret[n]
-            fig.faults_a["lg"] = float(i) + motor_a.get(n, 0.0)
-            fig.x_r["lg"] = float(x_r_ratio(z_sum))
+            wye.append((fig, n, args, z_sum))
         out[n] = fig
+    _wye_lg(wye, fa.c_max, motor_a)
     return out
+
+
+def _wye_lg(wye: list, c_max: float, motor_a: dict) -> None:
+    """The line-to-ground maxima of the wye nodes (figures, node, kernel arguments, loop
+    impedance), in one call of each kernel: they work element by element, so each
+    figure is the one a call per node gives (node by node when one refuses)."""
+    if not wye:
+        return
+    cols = list(zip(*(a for _, _, a, _ in wye), strict=True))
+    try:
+        i_all = np.atleast_1d(fault_lg_delta_wye_a(*map(np.array, cols), c=c_max)).tolist()
+        xr_all = np.atleast_1d(x_r_ratio(np.array([z for *_, z in wye]))).tolist()
+    except ValueError:  # the message names the one node's figure
+        i_all = [float(fault_lg_delta_wye_a(*a, c=c_max)) for _, _, a, _ in wye]
+        xr_all = [float(x_r_ratio(z)) for *_, z in wye]
+    for (fig, n, _, _), i, xr in zip(wye, i_all, xr_all, strict=True):
+        fig.faults_a["lg"] = float(i) + motor_a.get(n, 0.0)
+        fig.x_r["lg"] = float(xr)
 
 
 def _service_lg(ctx, fa, n, zt, z_total_max, z_line, z_ret, motor_a) -> DutyFigures:
