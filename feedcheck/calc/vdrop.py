@@ -38,6 +38,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from . import vdrop_scalar as _sc
 from .constants import SQRT3
 
 #: Factor from one conductor's drop to the circuit's drop (see the module table).
@@ -188,6 +189,11 @@ def voltage_drop_approximate_v(
     IEEE Std 141-1993 ch. 3; UFC 3-520-01 (2002) App. B-2.1; NFPA 70-2023 Ch. 9
     Table 9 Note 2.
     """
+    if _sc.plain(current_a, r_ohm_per_m, x_ohm_per_m, length_m, pf):  # one figure
+        k = CIRCUIT_FACTORS.get(circuit) if isinstance(circuit, str) else None
+        v = _sc.approximate_v(current_a, r_ohm_per_m, x_ohm_per_m, length_m, pf, k, sets)
+        if v is not None:
+            return v
     i = _finite("current_a", current_a)
     r = _finite("r_ohm_per_m", r_ohm_per_m)
     x = _finite("x_ohm_per_m", x_ohm_per_m)
@@ -342,6 +348,12 @@ def voltage_drop_exact_circuit_v(
     >>> round(voltage_drop_exact_circuit_v(480 * 3**0.5, 200, 1e-4, 5e-5, 200, 0.85), 3)
     7.714
     """
+    if _sc.plain(sending_v, current_a, r_ohm_per_m, x_ohm_per_m, length_m, pf):  # one figure
+        k = CIRCUIT_FACTORS.get(circuit) if isinstance(circuit, str) else None
+        args = (sending_v, current_a, r_ohm_per_m, x_ohm_per_m, length_m, pf, k, sets)
+        v = _sc.exact_circuit_v(*args)
+        if v is not None:
+            return v
     k = circuit_factor(circuit)
     s = _sets(sets)
     length = _finite("length_m", length_m)

@@ -50,3 +50,40 @@ def test_current_from_apparent_power_scalar_refuses_as_the_array(v, ph):
     with pytest.raises(ValueError) as b:
         current_from_apparent_power_a(np.float64(100.0), np.float64(v), np.int64(ph))
     assert str(a.value).split(", got")[0] == str(b.value).split(", got")[0]
+
+
+def test_voltage_drops_of_plain_floats_equal_the_array_forms():
+    from feedcheck.calc.vdrop import voltage_drop_approximate_v, voltage_drop_exact_circuit_v
+
+    rng = np.random.default_rng(11)
+    n = 3000
+    cols = (
+        rng.uniform(0, 800, n),  # current [A]
+        rng.uniform(1e-5, 3e-3, n),  # r [Ω/m]
+        rng.uniform(5e-5, 3e-4, n),  # x [Ω/m]
+        rng.uniform(0, 300, n),  # length [m]
+        rng.uniform(-1, 1, n),  # pf (negative: leading)
+    )
+    volts = rng.choice([120.0, 208.0, 240.0, 480.0, 600.0], n) * rng.uniform(0.8, 1.05, n)
+    kinds = rng.choice(["3ph", "1ph2w", "1ph3w", "ln4w"], n)
+    sets = rng.integers(1, 5, n)
+    compared = 0
+    for j in range(n):
+        i, r, x, length, pf = (float(c[j]) for c in cols)
+        kind, s, v = str(kinds[j]), int(sets[j]), float(volts[j])
+        one = voltage_drop_approximate_v(i, r, x, length, pf, kind, s)
+        arr = voltage_drop_approximate_v(*(np.float64(a) for a in (i, r, x, length, pf)), kind, s)
+        assert type(one) is float and one == arr
+        try:
+            want = voltage_drop_exact_circuit_v(
+                np.float64(v), np.float64(i), np.float64(r), np.float64(x), np.float64(length),
+                np.float64(pf), kind, s,
+            )  # fmt: skip
+        except ValueError:
+            with pytest.raises(ValueError):
+                voltage_drop_exact_circuit_v(v, i, r, x, length, pf, kind, s)
+            continue
+        got = voltage_drop_exact_circuit_v(v, i, r, x, length, pf, kind, s)
+        assert type(got) is float and got == want
+        compared += 1
+    assert compared > n // 2
