@@ -6,6 +6,7 @@ from __future__ import annotations
 
 from ..calc import protection as pk
 from ..calc.ampacity import ampacity_chain, rooftop_adder_c, termination_c_for
+from ..calc.memo import memoised
 from ..calc.sizes import SIZES
 from ..model import SOURCE_ID, Run
 from .ampacity_sheet import ampacity_steps
@@ -16,6 +17,10 @@ from .run_fix import RunDuty, next_passing, smallest_for_duty
 from .taps import check_unprotected_run, run_device
 from .termination import termination_note
 from .withstand import check_withstand
+
+# pure figures of a device and a size (frozen records): a building repeats a few pairs
+_conductor_protection = memoised(pk.conductor_protection)
+_egc_size = memoised(pk.egc_size)
 
 
 def _loads(ctx: Context, run: Run) -> tuple[float, float, float]:
@@ -146,7 +151,7 @@ def _check_device(
         f"{cont:.1f} + {non:.1f} A"
         f" = {need:.1f} A" + ("" if ok else "; a larger device (and conductors) needed"),
     )
-    prot = pk.conductor_protection(
+    prot = _conductor_protection(
         device, ampacity_a, run.size.name, run.material, tables=ctx.rules.protection
     )
     with ctx.reading(*ctx.ampacity_rows(run)):
@@ -290,7 +295,7 @@ def _check_egc(ctx: Context, run: Run, duty: RunDuty, term: float | None) -> Non
         minimum = run.size.name
     if SIZES[minimum].area_mm2 > run.size.area_mm2:
         minimum = run.size.name
-    need = pk.egc_size(
+    need = _egc_size(
         duty.device_a,
         run.ground_material,
         run.size.name,
