@@ -213,13 +213,17 @@ def impedance_rows(ctx: Context) -> dict[str, tuple[RowUse, ...]]:
     voltage-drop findings about it (:meth:`Context.reading`)."""
     tree, book = ctx.tree, ctx.rules
     out: dict[str, tuple[RowUse, ...]] = {}
+    unconfirmed: dict[str, list[RowUse]] = {}  # size -> its unconfirmed rows, read once
     for n in tree.order:
         parent = tree.parent_node[n]
         rows = list(out.get(parent, ())) if parent is not None else []
         run = tree.parent_run.get(n)
         if run is not None:
             for size in (run.size, run.ground) if run.ground is not None else (run.size,):
-                rows += [u for u in book.impedance_uses(size.name) if not u.confirmed]
+                if size.name not in unconfirmed:
+                    uses = book.impedance_uses(size.name)
+                    unconfirmed[size.name] = [u for u in uses if not u.confirmed]
+                rows += unconfirmed[size.name]
             out[run.id] = tuple(dict.fromkeys(rows))
         out[n] = tuple(dict.fromkeys(rows))
     return out

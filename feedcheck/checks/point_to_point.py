@@ -77,9 +77,14 @@ def _end_of_run_a(ctx: Context, fa: FaultAssumptions, run, system, start_a: floa
         run.size.name, run.material, run.raceway, fa.cond_c_max, data=ctx.rules.conductors
     )
     kind = "3ph" if system.phases == 3 else "1ph-ll"
-    return float(
-        ptp_chain_a(start_a, [run.length_m], [c_value], [run.sets], system.voltage_ll_v, kind)[0]
-    )
+    return _one_step_a(start_a, run.length_m, c_value, run.sets, system.voltage_ll_v, kind)
+
+
+@memoised
+def _one_step_a(start_a, length_m, c_value, sets, voltage_ll_v, kind) -> float:
+    """One run of the point-to-point chain (kept per distinct call: the runs below alike
+    transformers start from the same figure)."""
+    return float(ptp_chain_a(start_a, [length_m], [c_value], [sets], voltage_ll_v, kind)[0])
 
 
 @memoised
