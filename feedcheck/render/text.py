@@ -4,6 +4,7 @@ schedule totals, failing and warning findings (all with ``--all``), assumptions.
 from __future__ import annotations
 
 import io
+import re
 import textwrap
 
 from .. import CAUTION
@@ -120,19 +121,24 @@ _WRAPPERS = {
     for rest in ("      ", "        ")
 }
 _SPACE_KINDS = ("\t", "\n", "\x0b", "\x0c", "\r")
+# where textwrap may break inside a word: a hyphen after two letters or after
+# letter-hyphen-letter, or a run of hyphens (its em-dash); text without one wraps
+# only at spaces
+_HYPHEN_BREAK = re.compile(r"[^\d\W]{2}-|[^\d\W]-[^\d\W]-|--")
 
 
 def _fill(text: str, rest: str) -> str:
     """``text`` wrapped at 96 columns, indented six spaces (``rest``: the indent of
     the lines after the first). Most notes are words between single plain spaces
-    (no leading or trailing space, no other whitespace, no hyphen, no word longer than a
-    line): those are wrapped here, word by word, as the wrapper wraps them (it gives
-    the same text more slowly); any other text goes to the wrapper."""
+    (no leading or trailing space, no other whitespace, no hyphen the wrapper may break
+    at, no word longer than a line): those are wrapped here, word by word, as the
+    wrapper wraps them (it gives the same text more slowly); any other text goes to the
+    wrapper."""
     if (
         text
         and text == text.strip()
         and not any(c in text for c in _SPACE_KINDS)
-        and "-" not in text
+        and not _HYPHEN_BREAK.search(text)
         and "  " not in text
     ):
         if len(text) <= 96 - 6:

@@ -82,7 +82,7 @@ def test_note_wrapping_matches_textwrap(text):
 
 @settings(max_examples=400, deadline=None)
 @given(
-    text=st.text(alphabet=st.sampled_from("abc  .,°–\u00a0"), max_size=400),
+    text=st.text(alphabet=st.sampled_from("abF0  -.,_°–\u00a0"), max_size=400),
     word=st.integers(min_value=0, max_value=95),
 )
 def test_long_note_wrapping_matches_textwrap(text, word):
