@@ -89,12 +89,12 @@ def governing_duty_a(fault_3ph_a=None, fault_ll_a=None, fault_ln_a=None, fault_l
             "line-to-neutral or line-to-ground)"
         )
     names = tuple(n for n, _ in given)
-    if all(type(v) is float for _, v in given):  # one node: the same figures in Python
+    if all(type(v) in (float, np.float64) for _, v in given):  # one node: in Python
         for n, v in given:
             if not (math.isfinite(v) and v >= 0):
                 raise ValueError(f"fault_{n}_a must be finite numbers not below zero, got {v!r}")
         k = max(range(len(given)), key=lambda i: (given[i][1], -i))  # first of the largest
-        return GoverningDuty(given[k][1], names[k], names)
+        return GoverningDuty(float(given[k][1]), names[k], names)
     arrs = []
     for n, v in given:
         a = np.asarray(v, dtype=float)

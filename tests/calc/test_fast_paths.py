@@ -14,10 +14,17 @@ def test_governing_duty_scalar_equals_array():
     for combo in itertools.product(values, repeat=4):
         if all(v is None for v in combo):
             continue
-        one = governing_duty_a(*combo)
         arr = governing_duty_a(*(None if v is None else np.array([v]) for v in combo))
-        assert type(one.duty_a) is float and type(one.case) is str
-        assert (one.duty_a, one.case, one.cases) == (float(arr.duty_a[0]), arr.case[0], arr.cases)
+        for one in (
+            governing_duty_a(*combo),
+            governing_duty_a(*(None if v is None else np.float64(v) for v in combo)),
+        ):
+            assert type(one.duty_a) is float and type(one.case) is str
+            assert (one.duty_a, one.case, one.cases) == (
+                float(arr.duty_a[0]),
+                arr.case[0],
+                arr.cases,
+            )
 
 
 @pytest.mark.parametrize("bad", [float("nan"), float("inf"), -1.0])
@@ -25,7 +32,7 @@ def test_governing_duty_scalar_refuses_what_the_array_refuses(bad):
     with pytest.raises(ValueError) as a:
         governing_duty_a(100.0, bad)
     with pytest.raises(ValueError) as b:
-        governing_duty_a(np.float64(100.0), np.float64(bad))
+        governing_duty_a(np.array(100.0), np.array(bad))
     assert str(a.value).split(", got")[0] == str(b.value).split(", got")[0]
 
 
