@@ -17,14 +17,7 @@ from ..calc.fault import (
     peak_current_a,
     radial_fault_3ph,
 )
-from ..calc.fault_lg import (
-    instantaneous_trip_check,
-    max_length_for_trip_m,
-    radial_fault_lg_a,
-    run_zero_sequence_ohm,
-    smallest_return_for_trip,
-    transformer_zero_sequence_ohm,
-)
+from ..calc.fault_lg import max_length_for_trip_m, radial_fault_lg_a, smallest_return_for_trip
 from ..calc.sizes import AWG_KCMIL_ORDER, METRIC_ORDER, SIZES
 from ..render.display import bolted_fault_words
 from .context import Context
@@ -42,14 +35,17 @@ from .fault_duty import (
     z0_ratio,
 )
 from .high_leg import min_root_ohm
-from .impedance import (
+from .impedance import (  # the zero-sequence and trip kernels memoised there
     branch_parts,
     fault_assumptions,
+    instantaneous_trip_check,
     run_impedance_ohm,
     run_return_impedance_ohm,
+    run_zero_sequence_ohm,
     service_transformer_ohm,
     source_impedance,
     summed,
+    transformer_zero_sequence_ohm,
 )
 from .point_to_point import point_to_point_a, ptp_finding
 from .taps import feeder_device, run_device

@@ -12,6 +12,7 @@ from dataclasses import dataclass
 
 from ..calc import conductor as ck
 from ..calc import fault as fk
+from ..calc import fault_lg as lg
 from ..calc.constants import SQRT3
 from ..calc.memo import memoised
 from ..model import SOURCE_ID, Job, Run
@@ -22,6 +23,10 @@ from .context import Context
 transformer_fault_impedances_ohm = memoised(fk.transformer_fault_impedances_ohm)
 # R and X of one conductor: a building's runs share a few sizes, materials, raceways
 ac_impedance_ohm_per_m = memoised(ck.ac_impedance_ohm_per_m)
+# zero-sequence impedances and the instantaneous-trip comparison of the fault walk
+run_zero_sequence_ohm = memoised(lg.run_zero_sequence_ohm)
+transformer_zero_sequence_ohm = memoised(lg.transformer_zero_sequence_ohm)
+instantaneous_trip_check = memoised(lg.instantaneous_trip_check)
 
 
 @dataclass(frozen=True)
