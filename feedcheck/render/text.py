@@ -121,48 +121,86 @@ _WRAPPERS = {
     for rest in ("      ", "        ")
 }
 _SPACE_KINDS = ("\t", "\n", "\x0b", "\x0c", "\r")
-# where textwrap may break inside a word: a hyphen after two letters or after
-# letter-hyphen-letter, or a run of hyphens (its em-dash); text without one wraps
-# only at spaces
-_HYPHEN_BREAK = re.compile(r"[^\d\W]{2}-|[^\d\W]-[^\d\W]-|--")
+_LETTER = re.compile(r"[^\d\W]")  # textwrap's "letter" (a word character, not a digit)
 
 
 def _fill(text: str, rest: str) -> str:
     """``text`` wrapped at 96 columns, indented six spaces (``rest``: the indent of
-    the lines after the first). Most notes are words between single plain spaces
-    (no leading or trailing space, no other whitespace, no hyphen the wrapper may break
-    at, no word longer than a line): those are wrapped here, word by word, as the
-    wrapper wraps them (it gives the same text more slowly); any other text goes to the
-    wrapper."""
-    if (
-        text
-        and text == text.strip()
-        and not any(c in text for c in _SPACE_KINDS)
-        and not _HYPHEN_BREAK.search(text)
-        and "  " not in text
-    ):
+    the lines after the first). Most notes fit on one line as they are (no leading,
+    trailing or other than plain spaces): those are indented without the wrapper. Most
+    longer ones are words between single plain spaces (no ``--``, no piece longer than
+    a line): those are cut into the wrapper's pieces (:func:`_chunks`) and put on lines
+    by its rule (:func:`_greedy`) here, which gives the same text faster; any other text
+    goes to the wrapper."""
+    if text and text == text.strip() and not any(c in text for c in _SPACE_KINDS):
         if len(text) <= 96 - 6:
             return "      " + text
-        words = text.split(" ")
-        if max(map(len, words)) <= 96 - max(6, len(rest)):
-            return _greedy(words, rest)
+        if "  " not in text and "--" not in text:
+            chunks = _chunks(text)
+            if max(map(len, chunks)) <= 96 - max(6, len(rest)):
+                return _greedy(chunks, rest)
     return _WRAPPERS[rest].fill(text)
 
 
-def _greedy(words: list[str], rest: str) -> str:
-    """Words onto lines of at most 96 columns, first indented six spaces, the others
-    ``rest``: each line takes the next word while it fits after one space
-    (``textwrap``'s rule for words between single spaces; the space at a break is
-    dropped)."""
-    lines, indent, line, used = [], "      ", [words[0]], len(words[0])
-    for w in words[1:]:
-        if used + 1 + len(w) <= 96 - len(indent):
-            line.append(w)
-            used += 1 + len(w)
-        else:
-            lines.append(indent + " ".join(line))
-            indent, line, used = rest, [w], len(w)
-    lines.append(indent + " ".join(line))
+def _letter(c: str) -> bool:
+    return _LETTER.match(c) is not None
+
+
+def _hyphen_ends_piece(w: str, p: int) -> bool:
+    """Whether textwrap ends a piece of word ``w`` after its hyphen at ``p``: two letters
+    (or letter, hyphen, letter) before it, a letter, an optional hyphen and a letter after
+    it (``TextWrapper.wordsep_re``, hyphenated words)."""
+    n = len(w)
+    before = (p >= 2 and _letter(w[p - 2]) and _letter(w[p - 1])) or (
+        p >= 3 and _letter(w[p - 3]) and w[p - 2] == "-" and _letter(w[p - 1])
+    )
+    after = (p + 1 < n and _letter(w[p + 1])) and (
+        (p + 2 < n and _letter(w[p + 2])) or (p + 3 < n and w[p + 2] == "-" and _letter(w[p + 3]))
+    )
+    return before and after
+
+
+def _chunks(text: str) -> list[str]:
+    """The pieces textwrap cuts ``text`` into when its words are separated by single
+    spaces and it holds no ``--``: each word (cut after a hyphen where the wrapper cuts
+    hyphenated words: every piece at least one character before its hyphen), a space
+    between words."""
+    out: list[str] = []
+    for word in text.split(" "):
+        if out:
+            out.append(" ")
+        start = 0
+        if "-" in word:
+            for p in range(1, len(word)):
+                if word[p] == "-" and p > start and _hyphen_ends_piece(word, p):
+                    out.append(word[start : p + 1])
+                    start = p + 1
+        out.append(word[start:])
+    return out
+
+
+def _greedy(chunks: list[str], rest: str) -> str:
+    """Pieces onto lines of at most 96 columns, the first indented six spaces, the others
+    ``rest``: each line takes the next piece while it fits; a space at the start or the
+    end of a line is dropped (``TextWrapper._wrap_chunks`` for pieces no longer than a
+    line)."""
+    lines: list[str] = []
+    i, n = 0, len(chunks)
+    while i < n:
+        indent = rest if lines else "      "
+        width = 96 - len(indent)
+        if lines and chunks[i] == " ":
+            i += 1
+        line: list[str] = []
+        used = 0
+        while i < n and used + len(chunks[i]) <= width:
+            line.append(chunks[i])
+            used += len(chunks[i])
+            i += 1
+        if line and line[-1] == " ":
+            line.pop()
+        if line:
+            lines.append(indent + "".join(line))
     return "\n".join(lines)
 
 

@@ -93,3 +93,25 @@ def test_long_note_wrapping_matches_textwrap(text, word):
     for rest in ("      ", "        "):
         expected = textwrap.fill(text, width=96, initial_indent="      ", subsequent_indent=rest)
         assert _fill(text, rest) == expected
+
+
+@settings(max_examples=300, deadline=None)
+@given(
+    words=st.lists(
+        st.sampled_from(
+            [
+                *("line-to-ground", "pick-up", "a-b-c-d", "F-P0997", "ab-9", "x", "kA"),
+                *("co-ax-ial", "w" * 40, "e-" * 20 + "e", "12.5", "°C", "–"),
+            ]
+        ),
+        max_size=60,
+    )
+)
+def test_hyphenated_notes_wrap_as_textwrap(words):
+    """Notes with hyphenated words, which textwrap may break after a hyphen, wrap
+    exactly as ``textwrap.fill`` wraps them (common practice, no source: the wrapper is
+    the reference)."""
+    text = " ".join(words)
+    for rest in ("      ", "        "):
+        expected = textwrap.fill(text, width=96, initial_indent="      ", subsequent_indent=rest)
+        assert _fill(text, rest) == expected
