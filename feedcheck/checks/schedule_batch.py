@@ -150,13 +150,39 @@ def _join(schedules: list[Schedule]) -> Schedule:
     """One schedule holding the circuits of several one-panel schedules, in order."""
     import pandas as pd
 
-    circuits = pd.concat([s.circuits for s in schedules], ignore_index=True)
+    frames = [s.circuits for s in schedules]
+    circuits = _stacked(frames)
+    if circuits is None:
+        circuits = pd.concat(frames, ignore_index=True)
     panels = tuple(p for s in schedules for p in s.panels)
     # each panel's spares and spaces as its own file counted them
     spaces = {
         p: (getattr(s, "spaces", {}) or {}).get(p, (0, 0)) for s in schedules for p in s.panels
     }
     return Schedule(schedules[0].path, circuits, schedules[0].load_unit, panels, spaces=spaces)
+
+
+def _stacked(frames: list):
+    """``pd.concat(frames, ignore_index=True)`` column by column, when every frame has
+    the same unique columns of the same plain numpy dtypes and a default index (then it
+    is the same frame: ``tests/checks/test_schedule_batch.py``); None otherwise (and on
+    a pandas without the column accessor), for ``pd.concat`` to join them. A thousand
+    one-panel frames of a column each per block cost pandas' join plan far more."""
+    import pandas as pd
+
+    first = frames[0]
+    cols, dtypes = list(first.columns), list(first.dtypes)
+    column = getattr(first, "_get_column_array", None)  # pandas 2.x: one column's array
+    if column is None or not first.columns.is_unique:
+        return None
+    if not all(isinstance(d, np.dtype) and d.kind in "biufO" for d in dtypes):
+        return None
+    for f in frames:
+        plain = isinstance(f.index, pd.RangeIndex) and f.index.start == 0 and f.index.step == 1
+        if not plain or list(f.columns) != cols or list(f.dtypes) != dtypes or f.attrs:
+            return None
+    data = {c: np.concatenate([f._get_column_array(i) for f in frames]) for i, c in enumerate(cols)}
+    return pd.DataFrame(data, columns=first.columns)
 
 
 def _rows(frame, a: int, b: int):

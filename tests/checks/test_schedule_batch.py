@@ -78,3 +78,20 @@ def test_schedule_command_files_in_one_frame_equal_each_alone(tmp_path):
         ]
         assert g.totals == alone.totals and g.exit_code == alone.exit_code
         assert [f.as_dict() for f in g.findings] == [f.as_dict() for f in alone.findings]
+
+
+def test_stacked_frames_equal_pandas_concat(tmp_path):
+    # identity between two ways of joining the same frames (no published value)
+    from feedcheck.checks.schedule_batch import _stacked
+
+    (tmp_path / "job.toml").write_text(job_text(12, tmp_path), encoding="utf-8")
+    job = read_job(tmp_path / "job.toml")
+    frames = [s.circuits for s in _read_job_schedules(job).values()]
+    got = _stacked(frames)
+    want = pd.concat(frames, ignore_index=True)
+    pd.testing.assert_frame_equal(got, want, check_exact=True)
+    assert list(got.dtypes) == list(want.dtypes) and type(got.index) is type(want.index)
+    # a frame whose column differs in type is left to pandas (it would upcast)
+    odd = frames[1].assign(circuit=frames[1]["circuit"].astype(float))
+    assert _stacked([frames[0], odd]) is None
+    assert _stacked([frames[0], frames[1].iloc[::-1]]) is None  # not a default index
