@@ -8,10 +8,11 @@ wrapped by :func:`memoised` computes each distinct call once.
 The key is the whole call: every positional and keyword argument, each with its type
 (so ``75`` and ``75.0``, ``1`` and ``True`` are different calls), and the table
 records (``data=``, ``tables=``: frozen records holding arrays) by identity: the
-same record object, never an equal-looking other one. The key holds the record, so
-its identity is not reused while the entry lives. Arguments must be scalars (str,
-int, float, complex, bool, None, numpy scalars) or tuples of them; a call with anything
-else (an array, a list, a dataclass) goes to the kernel as it is and is not kept.
+same record object, never an equal-looking other one. The entry holds its records,
+so their identities are not reused while it lives (and a hit checks them again).
+Arguments must be scalars (str, int, float, complex, bool, None, numpy scalars) or
+tuples of them; a call with anything else (an array, a list, a dataclass) goes to the
+kernel as it is and is not kept.
 
 Only pure kernels are wrapped: the result depends on the arguments alone, and what is
 kept is immutable (numbers, strings, tuples, frozen records of scalars). An exception
@@ -26,22 +27,8 @@ from collections.abc import Callable
 import numpy as np
 
 _SCALARS = (str, int, float, bool, complex, type(None))
+_FAST = frozenset(_SCALARS)
 _UNKEYED = object()
-
-
-class _Same:
-    """A table record in a key: equal only to the very same object."""
-
-    __slots__ = ("obj",)
-
-    def __init__(self, obj):
-        self.obj = obj
-
-    def __hash__(self) -> int:
-        return id(self.obj)
-
-    def __eq__(self, other) -> bool:
-        return isinstance(other, _Same) and other.obj is self.obj
 
 
 def _part(value):
@@ -86,21 +73,34 @@ def memoised(
 
     @functools.wraps(fn)
     def wrapper(*args, **kwargs):
-        key = [_part(a) for a in args]
+        key = []
+        for a in args:
+            t = type(a)
+            if t in _FAST:
+                key.append((t, a))
+            elif (part := _part(a)) is not _UNKEYED:
+                key.append(part)
+            else:
+                return fn(*args, **kwargs)
+        held = []  # the records of this call, by identity
         for name in sorted(kwargs):
             v = kwargs[name]
-            key.append((name, _Same(v) if name in records else _part(v)))
-        if any(p is _UNKEYED or p[1] is _UNKEYED for p in key):
-            return fn(*args, **kwargs)
+            if name in records:
+                key.append((name, id(v)))
+                held.append(v)
+            elif (part := _part(v)) is not _UNKEYED:
+                key.append((name, part))
+            else:
+                return fn(*args, **kwargs)
         key = tuple(key)
-        try:
-            return store[key]
-        except KeyError:
-            pass
+        hit = store.get(key)
+        # the entry holds its records, so no other object can have their ids meanwhile
+        if hit is not None and all(a is b for a, b in zip(hit[0], held, strict=True)):
+            return hit[1]
         out = fn(*args, **kwargs)
         if len(store) >= maxsize:
             store.clear()
-        store[key] = out
+        store[key] = (tuple(held), out)
         return out
 
     wrapper.cache_clear = store.clear  # type: ignore[attr-defined]
