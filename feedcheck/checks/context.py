@@ -68,6 +68,7 @@ class Context:
     # rule id -> its RowUse; id(RowUse) -> (RowUse, its note or None when confirmed):
     # unconfirmed_notes()
     cited_row_cache: dict = field(default_factory=dict, repr=False)
+    seen_cache: dict = field(default_factory=dict, repr=False)  # method(), assume()
     row_note_cache: dict = field(default_factory=dict, repr=False)
 
     @cached_property
@@ -212,16 +213,27 @@ class Context:
         return sh
 
     def method(self, name: str, source: str) -> None:
-        if (name, source) not in self.methods:
-            self.methods.append((name, source))
+        _add_once(self.methods, (name, source), self.seen_cache)
 
     def assume(self, text: str) -> None:
-        if text not in self.assumptions:
-            self.assumptions.append(text)
+        _add_once(self.assumptions, text, self.seen_cache)
 
     def load_current_a(self, node: str) -> float:
         v = self.tree.voltage_of[node]
         return current_from_apparent_power_a(self.loads[node].va, v.voltage_ll_v, v.phases)
+
+
+def _add_once(items: list, item, seen_cache: dict) -> None:
+    """Append ``item`` to ``items`` unless it is there: looked up in a set kept beside
+    the list (rebuilt when the list changed other than here), not by a scan of it (a
+    building states a thousand assumptions, one per run)."""
+    seen = seen_cache.get(id(items))
+    if seen is None or seen[0] is not items or seen[2] != len(items):
+        seen = seen_cache[id(items)] = [items, set(items), len(items)]
+    if item not in seen[1]:
+        items.append(item)
+        seen[1].add(item)
+        seen[2] += 1
 
 
 def _first_by_id(items) -> dict:
