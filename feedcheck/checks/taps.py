@@ -29,6 +29,24 @@ SECONDARY_TAPS = {
 }
 
 
+_LOOKUPS: dict = {}  # id(job) -> (job, panels by id, transformers by id)
+
+
+def _lookups(job: Job) -> tuple[dict, dict]:
+    """The job's panels by id (the first of an id, as a scan finds it) and transformers by
+    id (the last of an id, as a dict built from them keeps it), made once per job (a job
+    is frozen: its tuples do not change) instead of a scan per run or panel."""
+    hit = _LOOKUPS.get(id(job))
+    if hit is None or hit[0] is not job:
+        panels: dict = {}
+        for p in job.panels:
+            panels.setdefault(p.id, p)
+        if len(_LOOKUPS) >= 8:
+            _LOOKUPS.clear()
+        hit = _LOOKUPS[id(job)] = (job, panels, {t.id: t for t in job.transformers})
+    return hit[1], hit[2]
+
+
 def run_device(job: Job, run: Run) -> tuple[float | None, str]:
     """The device protecting ``run`` and where it is: ``"run"``, ``"transformer primary"``,
     ``"transformer secondary"``, ``"service disconnect"`` (service conductors without a
@@ -41,13 +59,13 @@ def run_device(job: Job, run: Run) -> tuple[float | None, str]:
         return run.device_a, "run"
     if run.tap_rule:
         return None, "tap"
-    tx = {transformer.id: transformer for transformer in job.transformers}
+    tx = _lookups(job)[1]
     if run.to_id in tx:
         return tx[run.to_id].primary_device_a, "transformer primary"
     if run.from_id in tx and tx[run.from_id].secondary_device_a is not None:
         return tx[run.from_id].secondary_device_a, "transformer secondary"
     if run.from_id == SOURCE_ID:  # service conductors: protected at their load end
-        panel = next((p for p in job.panels if p.id == run.to_id), None)
+        panel = _lookups(job)[0].get(run.to_id)
         if panel is not None and panel.main_device_a is not None:
             return panel.main_device_a, "service disconnect"
     return None, ""
@@ -58,7 +76,7 @@ def bus_device(job: Job, node: str) -> tuple[float | None, str]:
     device protecting the run into it (:func:`run_device`); a tap ending at a main-lugs
     panel has no device of its own, so the feeder device it is tapped from is returned.
     Returns (rating, description)."""
-    panel = next((candidate for candidate in job.panels if candidate.id == node), None)
+    panel = _lookups(job)[0].get(node)
     if panel is not None and panel.main_device_a is not None:
         return panel.main_device_a, f"main device of {node}"
     run = job.tree.parent_run.get(node)
@@ -80,7 +98,7 @@ def feeder_device(job: Job, run: Run) -> tuple[float | None, str]:
     if job.tree.kind.get(run.from_id) != "panel":
         return None, f"{run.from_id} is not a panel"
     up_run = job.tree.parent_run.get(run.from_id)
-    panel = next(candidate for candidate in job.panels if candidate.id == run.from_id)
+    panel = _lookups(job)[0][run.from_id]
     if panel.main_device_a is None and up_run is not None and up_run.tap_rule:
         return None, f"{run.from_id} is itself fed by a tap ({up_run.id})"
     return bus_device(job, run.from_id)
