@@ -164,25 +164,32 @@ def _join(schedules: list[Schedule]) -> Schedule:
 
 def _stacked(frames: list):
     """``pd.concat(frames, ignore_index=True)`` column by column, when every frame has
-    the same unique columns of the same plain numpy dtypes and a default index (then it
-    is the same frame: ``tests/checks/test_schedule_batch.py``); None otherwise (and on
-    a pandas without the column accessor), for ``pd.concat`` to join them. A thousand
-    one-panel frames of a column each per block cost pandas' join plan far more."""
+    the same unique columns holding numpy arrays of the same plain dtypes and a default
+    index (then it is the same frame: ``tests/checks/test_schedule_batch.py``); None
+    otherwise (and on a pandas without the column accessor), for ``pd.concat`` to join
+    them. A thousand one-panel frames of a column each per block cost pandas' join plan
+    far more."""
     import pandas as pd
 
     first = frames[0]
-    cols, dtypes = list(first.columns), list(first.dtypes)
-    column = getattr(first, "_get_column_array", None)  # pandas 2.x: one column's array
-    if column is None or not first.columns.is_unique:
-        return None
-    if not all(isinstance(d, np.dtype) and d.kind in "biufO" for d in dtypes):
-        return None
+    cols = first.columns
+    if getattr(first, "_get_column_array", None) is None or not cols.is_unique:
+        return None  # pandas 2.x: _get_column_array(i), one column's array
+    parts: list[list] = [[] for _ in range(len(cols))]
     for f in frames:
-        plain = isinstance(f.index, pd.RangeIndex) and f.index.start == 0 and f.index.step == 1
-        if not plain or list(f.columns) != cols or list(f.dtypes) != dtypes or f.attrs:
+        index = f.index
+        plain = type(index) is pd.RangeIndex and index.start == 0 and index.step == 1
+        if not plain or f.attrs or not (f.columns is cols or f.columns.equals(cols)):
             return None
-    data = {c: np.concatenate([f._get_column_array(i) for f in frames]) for i, c in enumerate(cols)}
-    return pd.DataFrame(data, columns=first.columns)
+        for i, part in enumerate(parts):
+            a = f._get_column_array(i)
+            if type(a) is not np.ndarray or a.dtype.kind not in "biufO":
+                return None
+            if part and a.dtype != part[0].dtype:
+                return None
+            part.append(a)
+    data = {c: np.concatenate(part) for c, part in zip(cols, parts, strict=True)}
+    return pd.DataFrame(data, columns=cols)
 
 
 def _rows(frame, a: int, b: int):
