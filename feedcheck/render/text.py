@@ -29,17 +29,20 @@ PHASE_KEYS = ("phase_a_va", "phase_b_va", "phase_c_va")
 def _node_table(results: Results) -> list[str]:
     keys = [k for k in TERMINAL_FIGURES if any(k in n.values for n in results.nodes)]
     header = ["node", "kind", "voltage", *[FIGURES[k].column for k in keys]]
-    rows = [
-        [n.id, n.kind, n.voltage, *[figure_cell(k, n.values.get(k)) for k in keys]]
+    table = [header] + [
+        [
+            str(c)
+            for c in (n.id, n.kind, n.voltage, *[figure_cell(k, n.values.get(k)) for k in keys])
+        ]
         for n in results.nodes
     ]
-    widths = [max(len(str(r[i])) for r in [header, *rows]) for i in range(len(header))]
+    widths = [max(map(len, col)) for col in zip(*table, strict=True)]
     return [
         "  ".join(
-            str(c).ljust(w) if i < 3 else str(c).rjust(w)
-            for i, (c, w) in enumerate(zip(r, widths, strict=True))
+            [c.ljust(w) for c, w in zip(r[:3], widths, strict=False)]
+            + [c.rjust(w) for c, w in zip(r[3:], widths[3:], strict=True)]
         ).rstrip()
-        for r in [header, *rows]
+        for r in table
     ]
 
 
