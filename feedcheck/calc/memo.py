@@ -73,15 +73,14 @@ def memoised(
 
     @functools.wraps(fn)
     def wrapper(*args, **kwargs):
-        key = []
-        for a in args:
-            t = type(a)
-            if t in _FAST:
-                key.append((t, a))
-            elif (part := _part(a)) is not _UNKEYED:
-                key.append(part)
-            else:
+        types = tuple(map(type, args))
+        if _FAST.issuperset(types):  # plain scalars: the arguments and their types
+            key: list = ["plain", args, types]
+        else:
+            parts = [_part(a) for a in args]
+            if any(p is _UNKEYED for p in parts):
                 return fn(*args, **kwargs)
+            key = ["parts", tuple(parts)]
         held = []  # the records of this call, by identity
         for name in sorted(kwargs):
             v = kwargs[name]
