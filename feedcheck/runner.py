@@ -5,6 +5,7 @@ same figures."""
 from __future__ import annotations
 
 import gc
+import threading
 from contextlib import contextmanager
 from pathlib import Path
 
@@ -37,6 +38,10 @@ def load_and_check(job_file: str | Path, calc_date: str | None = None) -> tuple[
         return job, check_job_with_schedules(job, read_job_schedules(job), calc_date)
 
 
+_GC = {"depth": 0, "saved": None}  # fewer_collections(): blocks open, thresholds before
+_GC_LOCK = threading.Lock()
+
+
 @contextmanager
 def fewer_collections():
     """Python's cycle collector run less often while a job is read and checked.
@@ -44,14 +49,21 @@ def fewer_collections():
     Reading and checking a building makes a few hundred thousand small objects (frames,
     findings, sheets) that live until the results are built; with the default
     thresholds the collector scans them over and over (a sixth of a 1,000-panel
-    check). Its thresholds are raised for the block (never lowered) and restored after
-    it; nothing is left uncollected, only collected later."""
-    old = gc.get_threshold()
-    gc.set_threshold(max(old[0], 50_000), max(old[1], 20), max(old[2], 100))
+    check). Its thresholds are raised (never lowered) while any such block is open, in
+    any thread (the workbench checks in its request threads), and restored when the
+    last one closes; nothing is left uncollected, only collected later."""
+    with _GC_LOCK:
+        if _GC["depth"] == 0:
+            old = _GC["saved"] = gc.get_threshold()
+            gc.set_threshold(max(old[0], 50_000), max(old[1], 20), max(old[2], 100))
+        _GC["depth"] += 1
     try:
         yield
     finally:
-        gc.set_threshold(*old)
+        with _GC_LOCK:
+            _GC["depth"] -= 1
+            if _GC["depth"] == 0:
+                gc.set_threshold(*_GC["saved"])
 
 
 def check_job_with_schedules(job: Job, schedules: dict, calc_date: str | None = None) -> Results:
