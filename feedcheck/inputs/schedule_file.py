@@ -71,9 +71,9 @@ MAX_XLSX_RATIO = 200.0
 MAX_XLSX_MEMBERS = 10_000
 
 
-# --------------------------------------------------------------------------- raw reading
-def _guard_file(path: Path, problems: ProblemList) -> bytes:
-    kind = FileKind(
+def schedule_kind() -> FileKind:
+    """What the guard holds a schedule file to (the limit read when called)."""
+    return FileKind(
         "schedule file",
         "(.csv or .xlsx)",
         MAX_FILE_BYTES,
@@ -81,8 +81,12 @@ def _guard_file(path: Path, problems: ProblemList) -> bytes:
         (".csv", ".xlsx"),
         "a .csv or .xlsx schedule file",
     )
+
+
+# --------------------------------------------------------------------------- raw reading
+def _guard_file(path: Path, problems: ProblemList) -> bytes:
     try:
-        raw = read_bytes(path, kind)
+        raw = read_bytes(path, schedule_kind())
         if not raw:
             raise FileRefused("(empty file)", "a header row and one row per circuit")
     except FileRefused as exc:
@@ -320,7 +324,7 @@ def read_schedule(
     cols, rows = _only(cols, rows, keep, problems)
     c = Cells(cols, len(rows), found, rows, problems)
     values = _values(c, found, rows, panel_id or p.stem, problems)
-    _value_notices(c, found, rows, notices)
+    value_notices(found, rows, c.assumed_copper, notices)
     unit = found["load"][2] or "va"
     scale = SCHEDULE_HEADER_UNITS["load"].get(unit, ("VA", 1.0))[1]
     compare_totals(totals, values["load_value"], values["panel"], scale, unit.upper(), notices)
@@ -380,15 +384,16 @@ def _values(c: Cells, found, rows, panel_id: str, problems: ProblemList) -> dict
     return values
 
 
-def _value_notices(c: Cells, found, rows, notices: list[str]) -> None:
-    """Notices on values read but not checked, or assumed."""
+def value_notices(found, rows, assumed_copper, notices: list[str]) -> None:
+    """Notices on values read but not checked, or assumed (``assumed_copper``: the rows
+    whose conductor cell named no material)."""
     if "aic" in found:
         notices.append(
             f"column '{found['aic'][1]}' (interrupting ratings) read and validated but not "
             "checked: hold them against the panel's available fault current"
         )
-    if c.assumed_copper.any():
-        at = rows[c.assumed_copper]
+    if assumed_copper.any():
+        at = rows[assumed_copper]
         notices.append(
             f"warning: {len(at)} conductor cell(s) without a material read as copper (Cu), "
             f"rows {', '.join(map(str, at[:10]))}{' …' if len(at) > 10 else ''}: write Cu or "
@@ -485,11 +490,11 @@ def _schedule(path: Path, v: dict, c: Cells, rows, notices, spaces, length_unit)
 
 
 def read_schedules(paths, panel_ids=None) -> tuple[list[Schedule], list[InputError]]:
-    """Read several schedules; return the good ones and every file's InputError."""
-    good, bad = [], []
-    for i, path in enumerate(paths):
-        try:
-            good.append(read_schedule(path, panel_ids[i] if panel_ids else None))
-        except InputError as exc:
-            bad.append(exc)
-    return good, bad
+    """Read several schedules (alike files together:
+    :mod:`~feedcheck.inputs.schedule_alike`); return the good ones and every file's
+    InputError."""
+    from .schedule_alike import read_schedule_files
+
+    got = read_schedule_files(paths, panel_ids)
+    good = [s for s in got if not isinstance(s, InputError)]
+    return good, [s for s in got if isinstance(s, InputError)]

@@ -1,0 +1,421 @@
+"""Many schedule files read together: alike CSV files in one pass, not one pass each.
+
+A building's schedules are often hundreds of small CSV files under the same header. Read
+one by one, each pays the reader's fixed costs (header matching, factorising every
+column, the column parsers, one frame) for some thirty rows. :class:`ScheduleReader`
+reads each file through the same guard as :func:`~.schedule_file.read_schedule` (size
+limit, regular file, UTF-8, no NUL byte), then takes the files whose header row is the
+same text (and the same column map and layout) as one table: one factorising of each
+column, each distinct cell text parsed once, one frame, split back into one
+:class:`~feedcheck.model.Schedule` per file with the file's own row numbers, panel id,
+spares, notices and system.
+
+A file is read on its own by :func:`~.schedule_file.read_schedule` (so that every message
+is the one it gives) whenever the joined reading could differ from it: a file that is not
+plain comma-separated cells (quotes, carriage returns, blank or ragged lines, more than
+200,000 characters), an XLSX workbook, a header with a problem or in the two-column form,
+and any file with a problem of its own (a bad cell, a circuit number taken twice, a
+repeated header row, no circuit row, several systems), a totals row, or a "-" in a number
+column (read there as the file's whole column is). ``tests/inputs/test_schedule_alike.py``
+holds the two ways against each other, good and bad files mixed.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from pathlib import Path
+
+import numpy as np
+
+from ..errors import InputError, ProblemList
+from ..model import Schedule
+from . import schedule_file
+from .files import FileRefused, decode_utf8, read_bytes
+from .schedule_cells import Cells, factorised
+from .schedule_columns import electrical_columns, installation_columns
+from .schedule_file import _plain_csv, read_schedule, schedule_kind, value_notices
+from .schedule_header import match_header
+from .schedule_rows import (
+    CIRCUIT,
+    SPACE,
+    SPARE,
+    TOTAL,
+    classify,
+    columns_of,
+    panel_spaces,
+    pole_counts,
+    spares_notice,
+    unfold_two_column,
+    wired_spares,
+)
+
+# the columns read as numbers (a "-" there is read through pandas, file by file)
+NUMBER_KEYS = (
+    "circuit",
+    "poles",
+    "load",
+    "pf",
+    "breaker",
+    "aic",
+    "length",
+    "ambient",
+    "current_carrying",
+)
+
+
+@dataclass
+class _Entry:
+    path: Path
+    panel_id: str | None
+    columns: dict | None
+    layout: str
+    cells: np.ndarray | None  # the file's cells (read, or given); None: read alone
+    alone: bool  # read by read_schedule on its own
+
+
+class ScheduleReader:
+    """Schedules added one by one (:meth:`add`: the file guarded and split), read together
+    (:meth:`read`: each one's Schedule or InputError, in the order added)."""
+
+    def __init__(self) -> None:
+        self.entries: list[_Entry] = []
+
+    def add(
+        self,
+        path: str | Path,
+        panel_id: str | None = None,
+        columns: dict[str, str] | None = None,
+        layout: str = "auto",
+        cells: np.ndarray | None = None,
+    ) -> None:
+        """A schedule as :func:`~.schedule_file.read_schedule` takes it (``cells``: an
+        edited grid, read on its own)."""
+        p = Path(path)
+        plain = None if cells is not None else _plain_cells(p)
+        self.entries.append(
+            _Entry(p, panel_id, columns, layout, plain if cells is None else cells, plain is None)
+        )
+
+    def read(self) -> list[Schedule | InputError]:
+        out: list = [None] * len(self.entries)
+        groups: dict[tuple, list[int]] = {}
+        for i, e in enumerate(self.entries):
+            if e.alone:
+                out[i] = _alone(e)
+                continue
+            key = (tuple(e.cells[0].tolist()), tuple(sorted((e.columns or {}).items())), e.layout)
+            groups.setdefault(key, []).append(i)
+        for members in groups.values():
+            if len(members) == 1:
+                out[members[0]] = _alone(self.entries[members[0]])
+                continue
+            for i, got in zip(
+                members, _read_alike([self.entries[i] for i in members]), strict=True
+            ):
+                out[i] = got
+        return out
+
+
+def read_schedule_files(paths, panel_ids=None, columns=None, layout="auto") -> list:
+    """Each file's Schedule or InputError, as :func:`~.schedule_file.read_schedule` gives
+    it, the alike files read together."""
+    reader = ScheduleReader()
+    for i, path in enumerate(paths):
+        reader.add(path, panel_ids[i] if panel_ids else None, columns, layout)
+    return reader.read()
+
+
+def _plain_cells(p: Path) -> np.ndarray | None:
+    """The cells of a plain CSV file the guard accepts, as read_schedule would read them;
+    None for anything else (read on its own, with its own message)."""
+    if p.suffix.lower() != ".csv":
+        return None
+    try:
+        raw = read_bytes(p, schedule_kind())
+        text = decode_utf8(raw, "") if raw else ""
+    except FileRefused:
+        return None
+    if not text.strip() or "\x00" in text or text.count("\n") > schedule_file.MAX_ROWS:
+        return None
+    cells = _plain_csv(text)
+    if cells is None or cells.shape[1] > schedule_file.MAX_COLUMNS:
+        return None
+    return cells
+
+
+def _alone(e: _Entry) -> Schedule | InputError:
+    try:
+        return read_schedule(e.path, e.panel_id, e.columns, e.layout, e.cells)
+    except InputError as exc:
+        return exc
+
+
+class _Marks(Cells):
+    """The column parsers marking the rows of bad cells (their files are read again on
+    their own, for the messages); each text read as a file without a "-" reads it."""
+
+    def __init__(self, cols, n: int, found, rows) -> None:
+        super().__init__(cols, n, found, rows, ProblemList())
+        self.signed = False
+        self.marked = np.zeros(n, dtype=bool)
+
+    def bad(self, key: str, mask, values, expected: str) -> None:
+        self.marked |= np.asarray(mask, dtype=bool)
+
+
+@dataclass
+class _Body:
+    """The group's rows: columns as (codes, texts), each row's file and row number."""
+
+    cols: dict
+    file_of: np.ndarray
+    row_no: np.ndarray
+    n_files: int
+
+    def per_file(self, mask) -> np.ndarray:
+        """Whether each file has a row in ``mask``."""
+        return np.bincount(self.file_of[mask], minlength=self.n_files) > 0
+
+    def counts(self, mask=None) -> np.ndarray:
+        f = self.file_of if mask is None else self.file_of[mask]
+        return np.bincount(f, minlength=self.n_files)
+
+    def only(self, keep) -> _Body:
+        sel = np.flatnonzero(keep)
+        cols = {pos: (codes[sel], uniq) for pos, (codes, uniq) in self.cols.items()}
+        return _Body(cols, self.file_of[sel], self.row_no[sel], self.n_files)
+
+
+def _read_alike(entries: list[_Entry]) -> list[Schedule | InputError]:
+    """Files of one header read as one table, split back per file."""
+    header = entries[0].cells[:1]
+    try:
+        unfolded, _ = unfold_two_column(header, entries[0].layout, notes := [], ProblemList())
+    except InputError:
+        unfolded = None
+    if unfolded is not header or notes:
+        return [_alone(e) for e in entries]
+    sizes = np.array([len(e.cells) - 1 for e in entries], dtype=np.int64)
+    file_of = np.repeat(np.arange(len(entries)), sizes)
+    starts = np.concatenate([[0], np.cumsum(sizes)[:-1]])
+    cells = np.concatenate([e.cells[1:] for e in entries])
+    row_no = np.arange(len(cells), dtype=np.int64) - starts[file_of] + 2
+    cols = {pos: factorised(cells[:, pos]) for pos in range(cells.shape[1])}
+    body = _Body(cols, file_of, row_no, len(entries))
+    head = [str(x) for x in header[0].tolist()]
+    found, notes_of = _header(head, body, entries[0].columns)
+    if found is None:
+        return [_alone(e) for e in entries]
+    bad = _signed(body, found)
+    body, more_bad = _circuit_rows(body, head, found)
+    bad |= more_bad
+    defaults = np.array([e.panel_id or e.path.stem for e in entries] + [None], dtype=object)[:-1]
+    body, spaces, spare_notes, more_bad = _set_aside(body, found, defaults)
+    bad |= more_bad
+    c = _Marks(body.cols, len(body.row_no), found, body.row_no)
+    values, systems, more_bad = _values(c, body, found, defaults)
+    bad |= more_bad | body.per_file(c.marked)
+    good = ~bad[body.file_of]
+    frame = _frame(values, c, body.row_no, good)
+    ends = np.cumsum(body.counts(good))
+    rows, assumed = body.row_no[good], c.assumed_copper[good]
+    panel = np.asarray(values["panel"])[good]
+    out: list = []
+    for f, e in enumerate(entries):
+        if bad[f]:
+            out.append(_alone(e))
+            continue
+        a, b = int(ends[f - 1]) if f else 0, int(ends[f])
+        part = frame.iloc[a:b]
+        part.index = _range(b - a)
+        notices = [*notes_of(f), *spare_notes[f]]
+        value_notices(found, rows[a:b], assumed[a:b], notices)
+        panels = tuple(dict.fromkeys(panel[a:b].tolist()))
+        out.append(
+            Schedule(
+                e.path,
+                part,
+                values["load_unit"],
+                panels,
+                tuple(notices),
+                spaces[f],
+                "ft" if found["length"][2] in ("", "ft", "feet", "foot") else "m",
+                systems[f],
+            )
+        )
+    return out
+
+
+def _range(n: int):
+    import pandas as pd
+
+    return pd.RangeIndex(n)
+
+
+def _header(head: list[str], body: _Body, columns):
+    """The header matched once for the group (None: a problem, each file read alone),
+    and each file's notices on its columns (those not understood are named only by the
+    files holding a value under them)."""
+    problems = ProblemList()
+    with_values: list[str] = []
+    found = match_header([head], lambda pos: True, problems, with_values, columns)
+    if problems:
+        return None, None
+    without: list[str] = []
+    match_header([head], lambda pos: False, ProblemList(), without, columns)
+    if with_values == without:
+        return found, lambda f: without
+    filled = np.stack(
+        [body.per_file((uniq != "")[codes]) for codes, uniq in body.cols.values()], axis=1
+    )
+    seen: dict[bytes, list[str]] = {}
+
+    def notes_of(f: int) -> list[str]:
+        key = filled[f].tobytes()
+        if key not in seen:
+            seen[key] = []
+            has = filled[f]
+            match_header([head], lambda pos: bool(has[pos]), ProblemList(), seen[key], columns)
+        return seen[key]
+
+    return found, notes_of
+
+
+def _signed(body: _Body, found) -> np.ndarray:
+    """Files with a "-" in a number column (read alone: such a column is read all
+    through pandas)."""
+    bad = np.zeros(body.n_files, dtype=bool)
+    for key in NUMBER_KEYS:
+        if key in found:
+            codes, uniq = body.cols[found[key][0]]
+            dash = np.array(["-" in u for u in uniq.tolist()] + [False], dtype=bool)[:-1]
+            bad |= body.per_file(dash[codes])
+    return bad
+
+
+def _circuit_rows(body: _Body, head: list[str], found):
+    """Blank rows dropped; files with a repeated header row or without a row marked."""
+    blank = np.ones(len(body.row_no), dtype=bool)
+    for codes, uniq in body.cols.values():
+        blank &= (uniq == "")[codes]
+    pos = found["circuit"][0]
+    head_txt = head[pos].strip().lower()
+    codes, uniq = body.cols[pos]
+    rep = np.array([u.lower() == head_txt for u in uniq.tolist()] + [False], dtype=bool)[:-1]
+    rep = rep[codes] & ~blank
+    repeated = body.per_file(rep)
+    body = body.only(~blank & ~rep)
+    return body, repeated | (body.counts() == 0)
+
+
+def _set_aside(body: _Body, found, defaults):
+    """Spares, spaces and totals rows as :func:`~.schedule_rows.set_aside` sets them
+    aside, per file; files with a totals row marked (read alone: its notice compares
+    the file's own sum)."""
+    column = columns_of(body.cols, found, len(body.row_no))
+    kind = classify(column, found)
+    bad = body.per_file(kind == TOTAL)
+    codes, uniq = column("panel")
+    panel_cells = uniq[codes]
+    panel = np.where(panel_cells == "", defaults[body.file_of], panel_cells)
+    poles = pole_counts(column)
+    wired = wired_spares(body.cols, found, kind)
+    n_spare, n_space = body.counts(kind == SPARE), body.counts(kind == SPACE)
+    spare_poles = np.bincount(body.file_of, poles * (kind == SPARE), body.n_files)
+    space_poles = np.bincount(body.file_of, poles * (kind == SPACE), body.n_files)
+    n_wired = body.counts(wired)
+    ends = np.cumsum(body.counts())
+    spaces, notes = [], []
+    for f in range(body.n_files):
+        if "panel" in found:
+            a, b = int(ends[f - 1]) if f else 0, int(ends[f])
+            spaces.append(panel_spaces(panel[a:b], kind[a:b], poles[a:b]))
+        else:
+            spaces.append({defaults[f]: (int(spare_poles[f]), int(space_poles[f]))})
+        note = spares_notice(int(n_spare[f]), int(n_space[f]), int(n_wired[f]))
+        notes.append([note] if note else [])
+    body = body.only((kind == CIRCUIT) | wired)
+    return body, spaces, notes, bad | (body.counts() == 0)
+
+
+def _values(c: _Marks, body: _Body, found, defaults):
+    """Every column typed as :func:`~.schedule_file.read_schedule` types it, bad cells
+    marked; each file's system; files with a space taken twice or several systems
+    marked."""
+    values = electrical_columns(c, found)
+    values.update(installation_columns(c))
+    if "panel" in found:
+        values["panel"] = c.text("panel")
+        c.bad("panel", values["panel"] == "", None, "")
+    else:
+        values["panel"] = defaults[body.file_of]
+    amb, ins = values["ambient_c"], values["insulation_c"]
+    c.bad("ambient", ~(np.isnan(amb) | np.isnan(ins) | (amb < ins)), None, "")
+    bad = body.per_file(_taken_twice(values, body))
+    systems = [""] * body.n_files
+    if "system" in found:
+        texts = c.text("system")
+        ends = np.cumsum(body.counts())
+        for f in range(body.n_files):
+            a, b = int(ends[f - 1]) if f else 0, int(ends[f])
+            own = [t for t in dict.fromkeys(texts[a:b].tolist()) if t]
+            bad[f] |= len(own) > 1
+            systems[f] = own[0] if own else ""
+    return values, systems, bad
+
+
+def _taken_twice(values, body: _Body) -> np.ndarray:
+    """Rows whose circuit takes a space another row of the same file and panel took (an
+    n-pole circuit at space s takes s, s+2, ...), as
+    :func:`~.schedule_columns.check_spaces` finds them."""
+    circuit, poles = values["circuit"], values["poles"]
+    valid = np.isfinite(circuit) & np.isfinite(poles)
+    out = np.zeros(len(circuit), dtype=bool)
+    if not valid.any():
+        return out
+    seen: dict = {}
+    pairs = zip(body.file_of.tolist(), values["panel"].tolist(), strict=True)
+    pan = np.array([seen.setdefault(k, len(seen)) for k in pairs], dtype=np.int64)
+    n_pole = np.where(valid, poles, 1).astype(np.int64)
+    idx = np.repeat(np.flatnonzero(valid), n_pole[valid])
+    step = np.arange(len(idx)) - np.repeat(np.cumsum(n_pole[valid]) - n_pole[valid], n_pole[valid])
+    key = pan[idx] * 10_000 + circuit[idx].astype(np.int64) + 2 * step
+    order = np.argsort(key, kind="stable")
+    ks = key[order]
+    out[idx[order[1:][ks[1:] == ks[:-1]]]] = True
+    return out
+
+
+def _frame(v: dict, c: Cells, rows, good):
+    """The good files' circuits as one frame (the columns and types of
+    :func:`~.schedule_file.read_schedule`'s frame)."""
+    import pandas as pd
+
+    def g(a):
+        return np.asarray(a)[good]
+
+    return pd.DataFrame(
+        {
+            "panel": g(v["panel"]),
+            "circuit": g(v["circuit"]).astype(np.int64),
+            "description": g(c.text("description")),
+            "poles": g(v["poles"]).astype(np.int64),
+            "load_value": g(v["load_value"]),
+            "pf": g(v["pf"]),
+            "kind": g(v["kind"]),
+            "continuous": g(v["continuous"]).astype(bool),
+            "breaker_a": g(v["breaker_a"]),
+            "size": g(v["size"]),
+            "material": g(v["material"]),
+            "insulation_c": g(v["insulation_c"]),
+            "termination_c": g(v["termination_c"]),
+            "ground_size": g(v["ground_size"]),
+            "ground_material": g(v["ground_material"]),
+            "current_carrying": g(v["current_carrying"]).astype(np.int64),
+            "ambient_c": g(v["ambient_c"]),
+            "raceway": g(v["raceway"]),
+            "length_m": g(v["length_m"]),
+            "row": g(rows),
+        },
+        copy=False,
+    )
