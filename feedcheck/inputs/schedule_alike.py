@@ -33,7 +33,7 @@ from . import schedule_file
 from .files import FileRefused, decode_utf8, read_bytes
 from .schedule_cells import Cells, factorised
 from .schedule_columns import electrical_columns, installation_columns
-from .schedule_file import _plain_csv, read_schedule, schedule_kind, value_notices
+from .schedule_file import PLAIN_CHARS, read_schedule, schedule_kind, value_notices
 from .schedule_header import match_header
 from .schedule_rows import (
     CIRCUIT,
@@ -69,8 +69,19 @@ class _Entry:
     panel_id: str | None
     columns: dict | None
     layout: str
-    cells: np.ndarray | None  # the file's cells (read, or given); None: read alone
-    alone: bool  # read by read_schedule on its own
+    cells: np.ndarray | None  # an edited grid given in place of the file
+    lines: list[str] | None  # the lines of a plain CSV file; None: read alone
+
+    def alone(self) -> Schedule | InputError:
+        """The file read by read_schedule on its own (its lines not read again)."""
+        cells = self.cells
+        if self.lines is not None:
+            cells = np.empty((len(self.lines), self.lines[0].count(",") + 1), dtype=object)
+            cells[:] = [line.split(",") for line in self.lines]  # as plain_csv splits
+        try:
+            return read_schedule(self.path, self.panel_id, self.columns, self.layout, cells)
+        except InputError as exc:
+            return exc
 
 
 class ScheduleReader:
@@ -91,23 +102,21 @@ class ScheduleReader:
         """A schedule as :func:`~.schedule_file.read_schedule` takes it (``cells``: an
         edited grid, read on its own)."""
         p = Path(path)
-        plain = None if cells is not None else _plain_cells(p)
-        self.entries.append(
-            _Entry(p, panel_id, columns, layout, plain if cells is None else cells, plain is None)
-        )
+        lines = None if cells is not None else _plain_lines(p)
+        self.entries.append(_Entry(p, panel_id, columns, layout, cells, lines))
 
     def read(self) -> list[Schedule | InputError]:
         out: list = [None] * len(self.entries)
         groups: dict[tuple, list[int]] = {}
         for i, e in enumerate(self.entries):
-            if e.alone:
-                out[i] = _alone(e)
+            if e.lines is None:
+                out[i] = e.alone()
                 continue
-            key = (tuple(e.cells[0].tolist()), tuple(sorted((e.columns or {}).items())), e.layout)
+            key = (e.lines[0], tuple(sorted((e.columns or {}).items())), e.layout)
             groups.setdefault(key, []).append(i)
         for members in groups.values():
             if len(members) == 1:
-                out[members[0]] = _alone(self.entries[members[0]])
+                out[members[0]] = self.entries[members[0]].alone()
                 continue
             for i, got in zip(
                 members, _read_alike([self.entries[i] for i in members]), strict=True
@@ -125,8 +134,9 @@ def read_schedule_files(paths, panel_ids=None, columns=None, layout="auto") -> l
     return reader.read()
 
 
-def _plain_cells(p: Path) -> np.ndarray | None:
-    """The cells of a plain CSV file the guard accepts, as read_schedule would read them;
+def _plain_lines(p: Path) -> list[str] | None:
+    """The lines of a plain CSV file the guard accepts, each of as many cells as the
+    header (the file :func:`~.schedule_file.plain_csv` splits without the CSV parser);
     None for anything else (read on its own, with its own message)."""
     if p.suffix.lower() != ".csv":
         return None
@@ -135,19 +145,22 @@ def _plain_cells(p: Path) -> np.ndarray | None:
         text = decode_utf8(raw, "") if raw else ""
     except FileRefused:
         return None
-    if not text.strip() or "\x00" in text or text.count("\n") > schedule_file.MAX_ROWS:
+    if (
+        not text.strip()
+        or len(text) > PLAIN_CHARS
+        or '"' in text
+        or "\r" in text
+        or "\x00" in text
+        or text.count("\n") > schedule_file.MAX_ROWS
+    ):
         return None
-    cells = _plain_csv(text)
-    if cells is None or cells.shape[1] > schedule_file.MAX_COLUMNS:
+    lines = text[:-1].split("\n") if text.endswith("\n") else text.split("\n")
+    commas = lines[0].count(",")
+    if commas >= schedule_file.MAX_COLUMNS or "" in lines:
         return None
-    return cells
-
-
-def _alone(e: _Entry) -> Schedule | InputError:
-    try:
-        return read_schedule(e.path, e.panel_id, e.columns, e.layout, e.cells)
-    except InputError as exc:
-        return exc
+    if any(line.count(",") != commas for line in lines):
+        return None
+    return lines
 
 
 class _Marks(Cells):
@@ -188,24 +201,27 @@ class _Body:
 
 def _read_alike(entries: list[_Entry]) -> list[Schedule | InputError]:
     """Files of one header read as one table, split back per file."""
-    header = entries[0].cells[:1]
+    header = np.empty((1, entries[0].lines[0].count(",") + 1), dtype=object)
+    header[0] = entries[0].lines[0].split(",")
     try:
         unfolded, _ = unfold_two_column(header, entries[0].layout, notes := [], ProblemList())
     except InputError:
         unfolded = None
     if unfolded is not header or notes:
-        return [_alone(e) for e in entries]
-    sizes = np.array([len(e.cells) - 1 for e in entries], dtype=np.int64)
+        return [e.alone() for e in entries]
+    sizes = np.array([len(e.lines) - 1 for e in entries], dtype=np.int64)
     file_of = np.repeat(np.arange(len(entries)), sizes)
     starts = np.concatenate([[0], np.cumsum(sizes)[:-1]])
-    cells = np.concatenate([e.cells[1:] for e in entries])
+    # every body line of every file split at once (each has the header's cells)
+    flat = ",".join(line for e in entries for line in e.lines[1:]).split(",")
+    cells = np.array([*flat, None], dtype=object)[:-1].reshape(-1, header.shape[1])
     row_no = np.arange(len(cells), dtype=np.int64) - starts[file_of] + 2
     cols = {pos: factorised(cells[:, pos]) for pos in range(cells.shape[1])}
     body = _Body(cols, file_of, row_no, len(entries))
     head = [str(x) for x in header[0].tolist()]
     found, notes_of = _header(head, body, entries[0].columns)
     if found is None:
-        return [_alone(e) for e in entries]
+        return [e.alone() for e in entries]
     bad = _signed(body, found)
     body, more_bad = _circuit_rows(body, head, found)
     bad |= more_bad
@@ -223,7 +239,7 @@ def _read_alike(entries: list[_Entry]) -> list[Schedule | InputError]:
     out: list = []
     for f, e in enumerate(entries):
         if bad[f]:
-            out.append(_alone(e))
+            out.append(e.alone())
             continue
         a, b = int(ends[f - 1]) if f else 0, int(ends[f])
         part = frame.iloc[a:b]
@@ -351,7 +367,7 @@ def _values(c: _Marks, body: _Body, found, defaults):
         values["panel"] = defaults[body.file_of]
     amb, ins = values["ambient_c"], values["insulation_c"]
     c.bad("ambient", ~(np.isnan(amb) | np.isnan(ins) | (amb < ins)), None, "")
-    bad = body.per_file(_taken_twice(values, body))
+    bad = body.per_file(_taken_twice(values, body, found))
     systems = [""] * body.n_files
     if "system" in found:
         texts = c.text("system")
@@ -364,7 +380,7 @@ def _values(c: _Marks, body: _Body, found, defaults):
     return values, systems, bad
 
 
-def _taken_twice(values, body: _Body) -> np.ndarray:
+def _taken_twice(values, body: _Body, found) -> np.ndarray:
     """Rows whose circuit takes a space another row of the same file and panel took (an
     n-pole circuit at space s takes s, s+2, ...), as
     :func:`~.schedule_columns.check_spaces` finds them."""
@@ -373,9 +389,10 @@ def _taken_twice(values, body: _Body) -> np.ndarray:
     out = np.zeros(len(circuit), dtype=bool)
     if not valid.any():
         return out
-    seen: dict = {}
-    pairs = zip(body.file_of.tolist(), values["panel"].tolist(), strict=True)
-    pan = np.array([seen.setdefault(k, len(seen)) for k in pairs], dtype=np.int64)
+    pan = body.file_of.astype(np.int64)  # each file and panel its own number
+    if "panel" in found:
+        codes, uniq = body.cols[found["panel"][0]]
+        pan = pan * len(uniq) + codes
     n_pole = np.where(valid, poles, 1).astype(np.int64)
     idx = np.repeat(np.flatnonzero(valid), n_pole[valid])
     step = np.arange(len(idx)) - np.repeat(np.cumsum(n_pole[valid]) - n_pole[valid], n_pole[valid])

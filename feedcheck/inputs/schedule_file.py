@@ -69,6 +69,7 @@ MAX_COLUMNS = 60
 MAX_XLSX_UNPACKED_BYTES = 1_000_000_000
 MAX_XLSX_RATIO = 200.0
 MAX_XLSX_MEMBERS = 10_000
+PLAIN_CHARS = 200_000  # a CSV file up to this long without quotes is split without pandas
 
 
 def schedule_kind() -> FileKind:
@@ -119,7 +120,7 @@ def _plain_csv(text: str) -> np.ndarray | None:
     """A small file of plain cells (no quotes, blank lines, ragged rows or carriage
     returns) split without the CSV parser's fixed cost; None for anything else, which
     the parser reads (the same cells either way)."""
-    if len(text) > 200_000 or '"' in text or "\r" in text:
+    if len(text) > PLAIN_CHARS or '"' in text or "\r" in text:
         return None
     lines = text[:-1].split("\n") if text.endswith("\n") else text.split("\n")
     rows = [line.split(",") for line in lines]
