@@ -434,5 +434,5 @@ def _frame(v: dict, c: Cells, rows, good):
             "length_m": g(v["length_m"]),
             "row": g(rows),
         },
-        copy=False,
+        copy=True,  # one block per type: each file's slice of it is cheaper to make and read
     )

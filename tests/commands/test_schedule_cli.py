@@ -95,7 +95,7 @@ def test_folder_with_progress_and_interrupt_leaves_nothing(samples, tmp_path, mo
     (tmp_path / "res.panels.csv").unlink()
     import feedcheck.inputs.schedule_alike as sa
 
-    real = sa._plain_cells
+    real = sa._plain_lines
     calls = []
 
     def flaky(*a, **k):
@@ -107,7 +107,7 @@ def test_folder_with_progress_and_interrupt_leaves_nothing(samples, tmp_path, mo
     # interrupted while reading the third file: alike files are read together after
     # each is guarded and split, and checked together after reading
     # (checks/schedule_batch.check_files), so none is checked yet
-    monkeypatch.setattr(sa, "_plain_cells", flaky)
+    monkeypatch.setattr(sa, "_plain_lines", flaky)
     r = _run("schedule", src, *WYE, "--out", out)
     assert r.exit_code == 130
     assert "interrupted" in r.stderr and "0 of 12" in r.stderr
