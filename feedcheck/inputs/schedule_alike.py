@@ -213,7 +213,8 @@ def _read_alike(entries: list[_Entry]) -> list[Schedule | InputError]:
     file_of = np.repeat(np.arange(len(entries)), sizes)
     starts = np.concatenate([[0], np.cumsum(sizes)[:-1]])
     # every body line of every file split at once (each has the header's cells)
-    flat = ",".join(line for e in entries for line in e.lines[1:]).split(",")
+    body_lines = [line for e in entries for line in e.lines[1:]]
+    flat = ",".join(body_lines).split(",") if body_lines else []
     cells = np.array([*flat, None], dtype=object)[:-1].reshape(-1, header.shape[1])
     row_no = np.arange(len(cells), dtype=np.int64) - starts[file_of] + 2
     cols = {pos: factorised(cells[:, pos]) for pos in range(cells.shape[1])}

@@ -491,11 +491,12 @@ def _schedule(path: Path, v: dict, c: Cells, rows, notices, spaces, length_unit)
 
 
 def read_schedules(paths, panel_ids=None) -> tuple[list[Schedule], list[InputError]]:
-    """Read several schedules (alike files together:
-    :mod:`~feedcheck.inputs.schedule_alike`); return the good ones and every file's
-    InputError."""
-    from .schedule_alike import read_schedule_files
-
-    got = read_schedule_files(paths, panel_ids)
-    good = [s for s in got if not isinstance(s, InputError)]
-    return good, [s for s in got if isinstance(s, InputError)]
+    """Read several schedules; return the good ones and every file's InputError (alike
+    files read together: :func:`feedcheck.inputs.schedule_alike.read_schedule_files`)."""
+    good, bad = [], []
+    for i, path in enumerate(paths):
+        try:
+            good.append(read_schedule(path, panel_ids[i] if panel_ids else None))
+        except InputError as exc:
+            bad.append(exc)
+    return good, bad

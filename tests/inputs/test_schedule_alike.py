@@ -224,3 +224,12 @@ def test_edited_grid_read_in_place_of_its_file(tmp_path):
     got, other = reader.read()
     assert len(got.circuits) == 3 and len(other.circuits) == 2
     assert_same(got, read_schedule(p, "G", cells=grid))
+
+
+def test_group_without_a_circuit_row(tmp_path):
+    # every file of the header empty below it (or blank rows only): each its own message
+    paths = [_write(tmp_path, f"H{i}.csv", [HEADER]) for i in range(2)]
+    paths += [_write(tmp_path, f"B{i}.csv", [HEADER, ",,,,,,,"]) for i in range(2)]
+    for path, got in zip(paths, read_schedule_files(paths), strict=True):
+        assert isinstance(got, InputError)
+        assert_same(got, _alone(path))
