@@ -15,9 +15,10 @@ is the one it gives) whenever the joined reading could differ from it: a file th
 plain comma-separated cells (quotes, carriage returns, blank or ragged lines, more than
 200,000 characters), an XLSX workbook, a header with a problem or in the two-column form,
 and any file with a problem of its own (a bad cell, a circuit number taken twice, a
-repeated header row, no circuit row, several systems), a totals row, or a "-" in a number
-column (read there as the file's whole column is). ``tests/inputs/test_schedule_alike.py``
-holds the two ways against each other, good and bad files mixed.
+repeated header row, no circuit row, several systems), a totals row, or a zero written
+with a "-" in a number column (read there as the file's whole column is).
+``tests/inputs/test_schedule_alike.py`` holds the two ways against each other, good and
+bad files mixed.
 """
 
 from __future__ import annotations
@@ -47,19 +48,6 @@ from .schedule_rows import (
     spares_notice,
     unfold_two_column,
     wired_spares,
-)
-
-# the columns read as numbers (a "-" there is read through pandas, file by file)
-NUMBER_KEYS = (
-    "circuit",
-    "poles",
-    "load",
-    "pf",
-    "breaker",
-    "aic",
-    "length",
-    "ambient",
-    "current_carrying",
 )
 
 
@@ -175,6 +163,17 @@ class _Marks(Cells):
     def bad(self, key: str, mask, values, expected: str) -> None:
         self.marked |= np.asarray(mask, dtype=bool)
 
+    def number(self, key: str, *args, **kwargs) -> np.ndarray:
+        """As Cells.number, each text read alone; a zero written with a "-" marked (a
+        file's column holding a "-" is read all through pandas, where "-0" reads 0.0 or
+        -0.0 by the column's other cells: that file is read alone)."""
+        v = super().number(key, *args, **kwargs)
+        if key in self.found:
+            codes, uniq = self.col(key)
+            dash = np.array(["-" in u for u in uniq.tolist()] + [False], dtype=bool)[:-1]
+            self.marked |= dash[codes] & (v == 0)
+        return v
+
 
 @dataclass
 class _Body:
@@ -223,9 +222,7 @@ def _read_alike(entries: list[_Entry]) -> list[Schedule | InputError]:
     found, notes_of = _header(head, body, entries[0].columns)
     if found is None:
         return [e.alone() for e in entries]
-    bad = _signed(body, found)
-    body, more_bad = _circuit_rows(body, head, found)
-    bad |= more_bad
+    body, bad = _circuit_rows(body, head, found)
     defaults = np.array([e.panel_id or e.path.stem for e in entries] + [None], dtype=object)[:-1]
     body, spaces, spare_notes, more_bad = _set_aside(body, found, defaults)
     bad |= more_bad
@@ -296,18 +293,6 @@ def _header(head: list[str], body: _Body, columns):
         return seen[key]
 
     return found, notes_of
-
-
-def _signed(body: _Body, found) -> np.ndarray:
-    """Files with a "-" in a number column (read alone: such a column is read all
-    through pandas)."""
-    bad = np.zeros(body.n_files, dtype=bool)
-    for key in NUMBER_KEYS:
-        if key in found:
-            codes, uniq = body.cols[found[key][0]]
-            dash = np.array(["-" in u for u in uniq.tolist()] + [False], dtype=bool)[:-1]
-            bad |= body.per_file(dash[codes])
-    return bad
 
 
 def _circuit_rows(body: _Body, head: list[str], found):

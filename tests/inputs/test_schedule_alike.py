@@ -108,7 +108,7 @@ VALID = {
     "conductor": ["12 AWG Cu", "10 AWG Al", "12 AWG", "3#12, 1#12G", "#10 CU THHN"],
     "length [ft]": ["{length}", "50", "12.5", "0000000000000000012"],
     "ground": ["", "12 AWG Cu", "12"],
-    "ambient": ["", "30", "40"],
+    "ambient": ["", "30", "40", "-5"],
     "insulation": ["", "75", "90 °C", "60C"],
     "notes": ["", "x"],
     "system": ["", "208Y/120 V"],
@@ -120,7 +120,7 @@ WRONG = {
     "kind": ["bogus"],
     "continuous": ["maybe"],
     "poles": ["4", "-", "one"],
-    "load [VA]": ["-", "lots", "-0", "nan", "spare", ""],
+    "load [VA]": ["-", "lots", "-0", "-0.0", "-0e3", "nan", "spare", ""],
     "breaker [A]": ["-", "spare", "0", ""],
     "conductor": ["", "13 AWG Cu", "blue"],
     "length [ft]": ["0", "-", "9e9", "–", ""],
@@ -150,6 +150,7 @@ def _cell(col: str, rng, k: int, how: int) -> str:
 # rows that are not circuits: a spare, a space, a spare wired (kept as a circuit of no load)
 SPARES = [
     {"description": "spare", "breaker [A]": "20"},
+    {"description": "spare", "load [VA]": "-", "breaker [A]": "20", "length [ft]": "-"},
     {"description": "space"},
     {"description": "Spare", "breaker [A]": "20", "conductor": "12 AWG Cu", "length [ft]": "9"},
 ]
