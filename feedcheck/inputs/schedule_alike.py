@@ -15,8 +15,8 @@ is the one it gives) whenever the joined reading could differ from it: a file th
 plain comma-separated cells (quotes, carriage returns, blank or ragged lines, more than
 200,000 characters), an XLSX workbook, a header with a problem or in the two-column form,
 and any file with a problem of its own (a bad cell, a circuit number taken twice, a
-repeated header row, no circuit row, several systems), a totals row, or a zero written
-with a "-" in a number column (read there as the file's whole column is).
+repeated header row, no circuit row, several systems) or a zero written with a "-" in a
+number column (read there as the file's whole column is).
 ``tests/inputs/test_schedule_alike.py`` holds the two ways against each other, good and
 bad files mixed.
 """
@@ -30,6 +30,7 @@ import numpy as np
 
 from ..errors import InputError, ProblemList
 from ..model import Schedule
+from ..units import SCHEDULE_HEADER_UNITS
 from . import schedule_file
 from .files import FileRefused, decode_utf8, read_bytes
 from .schedule_cells import Cells, factorised
@@ -41,8 +42,10 @@ from .schedule_rows import (
     SPACE,
     SPARE,
     TOTAL,
+    TOTAL_RE,
     classify,
     columns_of,
+    compare_totals,
     panel_spaces,
     pole_counts,
     spares_notice,
@@ -224,7 +227,7 @@ def _read_alike(entries: list[_Entry]) -> list[Schedule | InputError]:
         return [e.alone() for e in entries]
     body, bad = _circuit_rows(body, head, found)
     defaults = np.array([e.panel_id or e.path.stem for e in entries] + [None], dtype=object)[:-1]
-    body, spaces, spare_notes, more_bad = _set_aside(body, found, defaults)
+    body, per_file, more_bad = _set_aside(body, found, defaults)
     bad |= more_bad
     c = _Marks(body.cols, len(body.row_no), found, body.row_no)
     values, systems, more_bad = _values(c, body, found, defaults)
@@ -233,7 +236,10 @@ def _read_alike(entries: list[_Entry]) -> list[Schedule | InputError]:
     frame = _frame(values, c, body.row_no, good)
     ends = np.cumsum(body.counts(good))
     rows, assumed = body.row_no[good], c.assumed_copper[good]
-    panel = np.asarray(values["panel"])[good]
+    panel, load = np.asarray(values["panel"])[good], values["load_value"][good]
+    unit = found["load"][2] or "va"
+    scale = SCHEDULE_HEADER_UNITS["load"].get(unit, ("VA", 1.0))[1]
+    spaces, spare_notes, totals = per_file
     out: list = []
     for f, e in enumerate(entries):
         if bad[f]:
@@ -244,6 +250,7 @@ def _read_alike(entries: list[_Entry]) -> list[Schedule | InputError]:
         part.index = _range(b - a)
         notices = [*notes_of(f), *spare_notes[f]]
         value_notices(found, rows[a:b], assumed[a:b], notices)
+        compare_totals(totals[f], load[a:b], panel[a:b], scale, unit.upper(), notices)
         panels = tuple(dict.fromkeys(panel[a:b].tolist()))
         out.append(
             Schedule(
@@ -312,11 +319,10 @@ def _circuit_rows(body: _Body, head: list[str], found):
 
 def _set_aside(body: _Body, found, defaults):
     """Spares, spaces and totals rows as :func:`~.schedule_rows.set_aside` sets them
-    aside, per file; files with a totals row marked (read alone: its notice compares
-    the file's own sum)."""
+    aside, per file: the circuit rows left, each file's spaces, notice and totals rows."""
     column = columns_of(body.cols, found, len(body.row_no))
     kind = classify(column, found)
-    bad = body.per_file(kind == TOTAL)
+    totals = _totals(body, column, kind)
     codes, uniq = column("panel")
     panel_cells = uniq[codes]
     panel = np.where(panel_cells == "", defaults[body.file_of], panel_cells)
@@ -337,7 +343,28 @@ def _set_aside(body: _Body, found, defaults):
         note = spares_notice(int(n_spare[f]), int(n_space[f]), int(n_wired[f]))
         notes.append([note] if note else [])
     body = body.only((kind == CIRCUIT) | wired)
-    return body, spaces, notes, bad | (body.counts() == 0)
+    return body, (spaces, notes, totals), body.counts() == 0
+
+
+def _totals(body: _Body, column, kind) -> list[list]:
+    """Each file's totals rows as (row number, cell that names it, stated load text,
+    panel text), as :func:`~.schedule_rows.set_aside` lists them."""
+    out: list[list] = [[] for _ in range(body.n_files)]
+    at = np.flatnonzero(kind == TOTAL)
+    if not len(at):
+        return out
+
+    def text(key: str) -> np.ndarray:
+        codes, uniq = column(key)
+        return uniq[codes]
+
+    named = [text(k) for k in ("circuit", "description", "load", "breaker", "conductor")]
+    load, panel = text("load"), text("panel")
+    for i in at.tolist():
+        label = next((str(v[i]) for v in named if TOTAL_RE.match(str(v[i]))), "total")
+        row = (int(body.row_no[i]), label, str(load[i]), str(panel[i]))
+        out[int(body.file_of[i])].append(row)
+    return out
 
 
 def _values(c: _Marks, body: _Body, found, defaults):

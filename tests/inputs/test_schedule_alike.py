@@ -147,12 +147,16 @@ def _cell(col: str, rng, k: int, how: int) -> str:
     return text.format(c=k + 1, load=int(rng.integers(0, 3000)), length=int(rng.integers(5, 200)))
 
 
-# rows that are not circuits: a spare, a space, a spare wired (kept as a circuit of no load)
+# rows that are not circuits: a spare, a space, a spare wired (kept as a circuit of no
+# load), totals rows
 SPARES = [
     {"description": "spare", "breaker [A]": "20"},
     {"description": "spare", "load [VA]": "-", "breaker [A]": "20", "length [ft]": "-"},
     {"description": "space"},
     {"description": "Spare", "breaker [A]": "20", "conductor": "12 AWG Cu", "length [ft]": "9"},
+    {"description": "TOTAL", "load [VA]": "1200"},  # compared with the file's own sum
+    {"description": "Phase A total", "load [VA]": "x"},
+    {"circuit": "Grand total", "load [VA]": "1,200", "panel": "B"},
 ]
 
 
