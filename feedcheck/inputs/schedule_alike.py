@@ -8,15 +8,15 @@ limit, regular file, UTF-8, no NUL byte), then takes the files whose header row 
 same text (and the same column map and layout) as one table: one factorising of each
 column, each distinct cell text parsed once, one frame, split back into one
 :class:`~feedcheck.model.Schedule` per file with the file's own row numbers, panel id,
-spares, notices and system.
+spares, totals, notices and system.
 
 A file is read on its own by :func:`~.schedule_file.read_schedule` (so that every message
 is the one it gives) whenever the joined reading could differ from it: a file that is not
-plain comma-separated cells (quotes, carriage returns, blank or ragged lines, more than
-200,000 characters), an XLSX workbook, a header with a problem or in the two-column form,
-and any file with a problem of its own (a bad cell, a circuit number taken twice, a
-repeated header row, no circuit row, several systems) or a zero written with a "-" in a
-number column (read there as the file's whole column is).
+plain comma-separated cells (quotes, a carriage return outside a CR LF line end, blank or
+ragged lines, more than 200,000 characters), an XLSX workbook, a header with a problem
+or in the two-column form, and any file with a problem of its own (a bad cell, a circuit
+number taken twice, a repeated header row, no circuit row, several systems) or a zero
+written with a "-" in a number column (read there as the file's whole column is).
 ``tests/inputs/test_schedule_alike.py`` holds the two ways against each other, good and
 bad files mixed.
 """
@@ -62,11 +62,13 @@ class _Entry:
     layout: str
     cells: np.ndarray | None  # an edited grid given in place of the file
     lines: list[str] | None  # the lines of a plain CSV file; None: read alone
+    crlf: bool = False  # its lines ended with CR LF (read alone: read again from the file)
 
     def alone(self) -> Schedule | InputError:
-        """The file read by read_schedule on its own (its lines not read again)."""
+        """The file read by read_schedule on its own (its lines not read again unless
+        they ended with CR LF, which the CSV parser reads)."""
         cells = self.cells
-        if self.lines is not None:
+        if self.lines is not None and not self.crlf:
             cells = np.empty((len(self.lines), self.lines[0].count(",") + 1), dtype=object)
             cells[:] = [line.split(",") for line in self.lines]  # as plain_csv splits
         try:
@@ -93,8 +95,8 @@ class ScheduleReader:
         """A schedule as :func:`~.schedule_file.read_schedule` takes it (``cells``: an
         edited grid, read on its own)."""
         p = Path(path)
-        lines = None if cells is not None else _plain_lines(p)
-        self.entries.append(_Entry(p, panel_id, columns, layout, cells, lines))
+        lines, crlf = (None, False) if cells is not None else _plain_lines(p)
+        self.entries.append(_Entry(p, panel_id, columns, layout, cells, lines, crlf))
 
     def read(self) -> list[Schedule | InputError]:
         out: list = [None] * len(self.entries)
@@ -125,17 +127,22 @@ def read_schedule_files(paths, panel_ids=None, columns=None, layout="auto") -> l
     return reader.read()
 
 
-def _plain_lines(p: Path) -> list[str] | None:
+def _plain_lines(p: Path) -> tuple[list[str] | None, bool]:
     """The lines of a plain CSV file the guard accepts, each of as many cells as the
-    header (the file :func:`~.schedule_file.plain_csv` splits without the CSV parser);
-    None for anything else (read on its own, with its own message)."""
+    header (a file :func:`~.schedule_file.plain_csv` splits without the CSV parser, or
+    one that differs from such a file only by CR LF line ends, which the parser reads as
+    the same cells), and whether they ended with CR LF; None for anything else (read on
+    its own, with its own message)."""
     if p.suffix.lower() != ".csv":
-        return None
+        return None, False
     try:
         raw = read_bytes(p, schedule_kind())
         text = decode_utf8(raw, "") if raw else ""
     except FileRefused:
-        return None
+        return None, False
+    crlf = "\r" in text
+    if crlf and text.count("\r") == text.count("\r\n"):
+        text = text.replace("\r\n", "\n")
     if (
         not text.strip()
         or len(text) > PLAIN_CHARS
@@ -144,14 +151,14 @@ def _plain_lines(p: Path) -> list[str] | None:
         or "\x00" in text
         or text.count("\n") > schedule_file.MAX_ROWS
     ):
-        return None
+        return None, False
     lines = text[:-1].split("\n") if text.endswith("\n") else text.split("\n")
     commas = lines[0].count(",")
     if commas >= schedule_file.MAX_COLUMNS or "" in lines:
-        return None
+        return None, False
     if any(line.count(",") != commas for line in lines):
-        return None
-    return lines
+        return None, False
+    return lines, crlf
 
 
 class _Marks(Cells):

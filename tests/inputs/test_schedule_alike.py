@@ -185,7 +185,7 @@ def test_random_files_read_together_as_alone(tmp_path, seed):
     paths = []
     for i in range(80):
         header = HEADERS[int(rng.integers(len(HEADERS)))]
-        newline = "\r\n" if rng.random() < 0.05 else "\n"
+        newline = "\r\n" if rng.random() < 0.3 else "\n"
         paths.append(_write(tmp_path, f"S{i:02d}.csv", _random_file(rng, header), newline))
     got = read_schedule_files(paths)
     for path, g in zip(paths, got, strict=True):
