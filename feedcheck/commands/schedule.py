@@ -402,9 +402,9 @@ def _from_files(files, opts, panel_opts, done, unreadable):
 
 
 def _read_files(files, opts) -> list:
-    """Each file's Schedule or InputError: the files guarded and split one by one (the
-    progress bar), then alike ones read together (inputs/schedule_alike.py); a large
-    file on the terminal alone, its stages shown."""
+    """Each file's Schedule or InputError: the files guarded and their cells read one by
+    one (the progress bar), then alike ones read together (inputs/schedule_alike.py); a
+    large file on the terminal alone, its stages shown."""
     from ..errors import InputError
     from ..inputs.schedule_alike import ScheduleReader
     from ..inputs.schedule_file import read_schedule

@@ -1,24 +1,25 @@
-"""Many schedule files read together: alike CSV files in one pass, not one pass each.
+"""Many schedule files read together: alike files in one pass, not one pass each.
 
-A building's schedules are often hundreds of small CSV files under the same header. Read
-one by one, each pays the reader's fixed costs (header matching, factorising every
-column, the column parsers, one frame) for some thirty rows. :class:`ScheduleReader`
-reads each file through the same guard as :func:`~.schedule_file.read_schedule` (size
-limit, regular file, UTF-8, no NUL byte), then takes the files whose header row is the
-same text (and the same column map and layout) as one table: one factorising of each
-column, each distinct cell text parsed once, one frame, split back into one
-:class:`~feedcheck.model.Schedule` per file with the file's own row numbers, panel id,
-spares, totals, notices and system.
+A building's schedules are often hundreds of small files under the same header. Read one
+by one, each pays the reader's fixed costs (header matching, factorising every column,
+the column parsers, one frame) for some thirty rows. :class:`ScheduleReader` reads each
+file's cells as :func:`~.schedule_file.read_schedule` reads them, through the same guard
+(size limit, regular file, UTF-8, no NUL byte): a plain CSV file (no quotes, LF or CR LF
+line ends, every line as many cells as the header) is only split into lines, any other
+goes through the CSV parser or the workbook reader. The files whose header row holds the
+same cells (and that have the same column map and layout) are then read as one table:
+one factorising of each column, each distinct cell text parsed once, one frame, split
+back into one :class:`~feedcheck.model.Schedule` per file with the file's own row
+numbers, panel id, spares, totals, notices and system.
 
 A file is read on its own by :func:`~.schedule_file.read_schedule` (so that every message
-is the one it gives) whenever the joined reading could differ from it: a file that is not
-plain comma-separated cells (quotes, a carriage return outside a CR LF line end, blank or
-ragged lines, more than 200,000 characters), an XLSX workbook, a header with a problem
-or in the two-column form, and any file with a problem of its own (a bad cell, a circuit
-number taken twice, a repeated header row, no circuit row, several systems) or a zero
-written with a "-" in a number column (read there as the file's whole column is).
+is the one it gives) whenever the joined reading could differ from it: a file the guard
+or the reader refuses, an edited grid, a file alone under its header, a header with a
+problem or in the two-column form, and any file with a problem of its own (a bad cell, a
+circuit number taken twice, a repeated header row, no circuit row, several systems) or a
+zero written with a "-" in a number column (read there as the file's whole column is).
 ``tests/inputs/test_schedule_alike.py`` holds the two ways against each other, good and
-bad files mixed.
+bad files mixed, plain, CR LF, quoted and XLSX.
 """
 
 from __future__ import annotations
@@ -35,7 +36,13 @@ from . import schedule_file
 from .files import FileRefused, decode_utf8, read_bytes
 from .schedule_cells import Cells, factorised
 from .schedule_columns import electrical_columns, installation_columns
-from .schedule_file import PLAIN_CHARS, read_schedule, schedule_kind, value_notices
+from .schedule_file import (
+    PLAIN_CHARS,
+    read_schedule,
+    read_schedule_cells,
+    schedule_kind,
+    value_notices,
+)
 from .schedule_header import match_header
 from .schedule_rows import (
     CIRCUIT,
@@ -60,17 +67,33 @@ class _Entry:
     panel_id: str | None
     columns: dict | None
     layout: str
-    cells: np.ndarray | None  # an edited grid given in place of the file
-    lines: list[str] | None  # the lines of a plain CSV file; None: read alone
+    cells: np.ndarray | None  # the cells read (or an edited grid given); None: not read
+    lines: list[str] | None  # the lines of a plain CSV file (not in ``cells``)
     crlf: bool = False  # its lines ended with CR LF (read alone: read again from the file)
+    given: bool = False  # ``cells`` is an edited grid (read alone)
+
+    def header(self) -> tuple | None:
+        """The header row's cells, the key of the file's group (None: read alone)."""
+        if self.lines is not None:
+            return tuple(self.lines[0].split(","))
+        if self.cells is None or self.given:
+            return None
+        head = tuple(self.cells[0].tolist())
+        return head if all(type(x) is str for x in head) else None
+
+    def body(self) -> np.ndarray:
+        """The cells below the header (of read cells: pandas or a workbook's)."""
+        return self.cells[1:]
 
     def alone(self) -> Schedule | InputError:
-        """The file read by read_schedule on its own (its lines not read again unless
-        they ended with CR LF, which the CSV parser reads)."""
+        """The file read by read_schedule on its own (its cells not read again, unless
+        its lines ended with CR LF, which the CSV parser reads)."""
         cells = self.cells
-        if self.lines is not None and not self.crlf:
-            cells = np.empty((len(self.lines), self.lines[0].count(",") + 1), dtype=object)
-            cells[:] = [line.split(",") for line in self.lines]  # as plain_csv splits
+        if self.lines is not None:
+            cells = None
+            if not self.crlf:
+                cells = np.empty((len(self.lines), self.lines[0].count(",") + 1), dtype=object)
+                cells[:] = [line.split(",") for line in self.lines]  # as plain_csv splits
         try:
             return read_schedule(self.path, self.panel_id, self.columns, self.layout, cells)
         except InputError as exc:
@@ -78,8 +101,8 @@ class _Entry:
 
 
 class ScheduleReader:
-    """Schedules added one by one (:meth:`add`: the file guarded and split), read together
-    (:meth:`read`: each one's Schedule or InputError, in the order added)."""
+    """Schedules added one by one (:meth:`add`: the file guarded and its cells read),
+    read together (:meth:`read`: each one's Schedule or InputError, in the order added)."""
 
     def __init__(self) -> None:
         self.entries: list[_Entry] = []
@@ -93,19 +116,30 @@ class ScheduleReader:
         cells: np.ndarray | None = None,
     ) -> None:
         """A schedule as :func:`~.schedule_file.read_schedule` takes it (``cells``: an
-        edited grid, read on its own)."""
+        edited grid, read on its own): a plain CSV file split into lines, any other
+        read into cells as read_schedule reads it (a file refused: read alone later)."""
         p = Path(path)
-        lines, crlf = (None, False) if cells is not None else _plain_lines(p)
-        self.entries.append(_Entry(p, panel_id, columns, layout, cells, lines, crlf))
+        if cells is not None:
+            self.entries.append(_Entry(p, panel_id, columns, layout, cells, None, given=True))
+            return
+        lines, crlf = _plain_lines(p)
+        read = None
+        if lines is None:
+            try:
+                read = read_schedule_cells(p)
+            except InputError:
+                read = None  # read again alone, for its message
+        self.entries.append(_Entry(p, panel_id, columns, layout, read, lines, crlf))
 
     def read(self) -> list[Schedule | InputError]:
         out: list = [None] * len(self.entries)
         groups: dict[tuple, list[int]] = {}
         for i, e in enumerate(self.entries):
-            if e.lines is None:
+            head = e.header()
+            if head is None:
                 out[i] = e.alone()
                 continue
-            key = (e.lines[0], tuple(sorted((e.columns or {}).items())), e.layout)
+            key = (head, tuple(sorted((e.columns or {}).items())), e.layout)
             groups.setdefault(key, []).append(i)
         for members in groups.values():
             if len(members) == 1:
@@ -210,21 +244,21 @@ class _Body:
 
 def _read_alike(entries: list[_Entry]) -> list[Schedule | InputError]:
     """Files of one header read as one table, split back per file."""
-    header = np.empty((1, entries[0].lines[0].count(",") + 1), dtype=object)
-    header[0] = entries[0].lines[0].split(",")
+    head = entries[0].header()
+    header = np.empty((1, len(head)), dtype=object)
+    header[0] = head
     try:
         unfolded, _ = unfold_two_column(header, entries[0].layout, notes := [], ProblemList())
     except InputError:
         unfolded = None
     if unfolded is not header or notes:
         return [e.alone() for e in entries]
-    sizes = np.array([len(e.lines) - 1 for e in entries], dtype=np.int64)
+    sizes = np.array(
+        [len(e.lines if e.lines is not None else e.cells) - 1 for e in entries], dtype=np.int64
+    )
     file_of = np.repeat(np.arange(len(entries)), sizes)
     starts = np.concatenate([[0], np.cumsum(sizes)[:-1]])
-    # every body line of every file split at once (each has the header's cells)
-    body_lines = [line for e in entries for line in e.lines[1:]]
-    flat = ",".join(body_lines).split(",") if body_lines else []
-    cells = np.array([*flat, None], dtype=object)[:-1].reshape(-1, header.shape[1])
+    cells = _body_cells(entries, header.shape[1])
     row_no = np.arange(len(cells), dtype=np.int64) - starts[file_of] + 2
     cols = {pos: factorised(cells[:, pos]) for pos in range(cells.shape[1])}
     body = _Body(cols, file_of, row_no, len(entries))
@@ -272,6 +306,27 @@ def _read_alike(entries: list[_Entry]) -> list[Schedule | InputError]:
             )
         )
     return out
+
+
+def _body_cells(entries: list[_Entry], width: int) -> np.ndarray:
+    """The cells below the header of every file, in order: the lines of plain files
+    next to each other split at once (each has the header's cells), read cells as read."""
+    pieces, run = [], []
+
+    def flush() -> None:
+        if run:
+            flat = ",".join(run).split(",")
+            pieces.append(np.array([*flat, None], dtype=object)[:-1].reshape(-1, width))
+            run.clear()
+
+    for e in entries:
+        if e.lines is not None:
+            run.extend(e.lines[1:])
+        else:
+            flush()
+            pieces.append(e.body())
+    flush()
+    return np.concatenate(pieces) if pieces else np.empty((0, width), dtype=object)
 
 
 def _range(n: int):

@@ -160,23 +160,43 @@ SPARES = [
 ]
 
 
-def _random_file(rng, header: list[str]) -> list[str]:
+def _random_rows(rng, header: list[str]) -> list[list[str]]:
     how = int(rng.choice(3, p=[0.3, 0.5, 0.2]))  # plain, unusual but readable, anything
-    lines = [",".join(header)]
+    rows = [list(header)]
     for k in range(int(rng.integers(0, 9))):
         roll = rng.random()
         if how == 2 and roll < 0.05:
-            lines.append("," * (len(header) - 1))  # a blank row
+            rows.append([""] * len(header))  # a blank row
         elif how == 2 and roll < 0.08:
-            lines.append(",".join(header))  # the header again
+            rows.append(list(header))  # the header again
         elif how and roll > 0.85:
             spare = {"circuit": str(k + 1), **SPARES[int(rng.integers(len(SPARES)))]}
-            lines.append(",".join(spare.get(c, "") for c in header))
+            rows.append([spare.get(c, "") for c in header])
         else:
-            lines.append(
-                ",".join(_cell(c, rng, k, how if rng.random() < 0.4 else 0) for c in header)
-            )
-    return lines
+            rows.append([_cell(c, rng, k, how if rng.random() < 0.4 else 0) for c in header])
+    return rows
+
+
+def _random_file(rng, header: list[str]) -> list[str]:
+    """Lines of plain cells (a cell holding a comma makes its row ragged)."""
+    return [",".join(row) for row in _random_rows(rng, header)]
+
+
+def _write_rows(folder: Path, name: str, rows: list[list[str]], form: str) -> Path:
+    """``rows`` as a plain CSV file (LF or CR LF), a CSV file quoting the cells that hold
+    a comma (read by the CSV parser), or an XLSX workbook of text cells."""
+    if form == "xlsx":
+        import openpyxl
+
+        wb = openpyxl.Workbook()
+        for row in rows:
+            wb.active.append(row)
+        wb.save(folder / f"{name}.xlsx")
+        return folder / f"{name}.xlsx"
+    if form == "quoted":
+        rows = [[f'"{c}"' if "," in c else c for c in row] for row in rows]
+    lines = [",".join(row) for row in rows]
+    return _write(folder, f"{name}.csv", lines, "\r\n" if form == "crlf" else "\n")
 
 
 @pytest.mark.parametrize("seed", range(6))
@@ -185,8 +205,8 @@ def test_random_files_read_together_as_alone(tmp_path, seed):
     paths = []
     for i in range(80):
         header = HEADERS[int(rng.integers(len(HEADERS)))]
-        newline = "\r\n" if rng.random() < 0.3 else "\n"
-        paths.append(_write(tmp_path, f"S{i:02d}.csv", _random_file(rng, header), newline))
+        form = str(rng.choice(["plain", "crlf", "quoted", "xlsx"], p=[0.5, 0.2, 0.2, 0.1]))
+        paths.append(_write_rows(tmp_path, f"S{i:02d}", _random_rows(rng, header), form))
     got = read_schedule_files(paths)
     for path, g in zip(paths, got, strict=True):
         assert_same(g, _alone(path))
