@@ -161,15 +161,13 @@ def _pandas_csv(text: str, problems: ProblemList) -> np.ndarray:
 def _refuse_nul(text: str, problems: ProblemList) -> None:
     """A NUL byte ends a cell early in the CSV reader (``12\\x0000`` would read as 12):
     refuse it with the cell's place."""
-    import csv
-
     lines = text.split("\n")
-    header = next(csv.reader([lines[0].replace("\x00", "")]), [])
+    header = _line_cells(lines[0].replace("\x00", ""))
     listed = 0
     for i, line in enumerate(lines):
         if "\x00" not in line:
             continue
-        cells = next(csv.reader([line.replace("\x00", "\ufffe")]), [])
+        cells = _line_cells(line.replace("\x00", "\ufffe"))
         for j, cell in enumerate(cells):
             if "\ufffe" in cell and listed < MAX_PROBLEMS:
                 name = header[j].strip() if j < len(header) else f"{j + 1}"
@@ -180,6 +178,17 @@ def _refuse_nul(text: str, problems: ProblemList) -> None:
                 )
                 listed += 1
     problems.raise_if_any()
+
+
+def _line_cells(line: str) -> list[str]:
+    """One line's cells as the CSV module reads them; a line it cannot read (a carriage
+    return inside an unquoted cell) split at its commas."""
+    import csv
+
+    try:
+        return next(csv.reader([line]), [])
+    except csv.Error:
+        return line.split(",")
 
 
 def xlsx_guard(raw: bytes, problems: ProblemList, max_unpacked: int | None = None) -> None:
