@@ -76,7 +76,7 @@ class _Entry:
         """The header row's cells, the key of the file's group (None: read alone)."""
         if self.lines is not None:
             return tuple(self.lines[0].split(","))
-        if self.cells is None or self.given:
+        if self.cells is None or self.given or self.cells.shape[1] > schedule_file.MAX_COLUMNS:
             return None
         head = tuple(self.cells[0].tolist())
         return head if all(type(x) is str for x in head) else None
@@ -376,7 +376,8 @@ def _circuit_rows(body: _Body, head: list[str], found):
     rep = rep[codes] & ~blank
     repeated = body.per_file(rep)
     body = body.only(~blank & ~rep)
-    return body, repeated | (body.counts() == 0)
+    n = body.counts()
+    return body, repeated | (n == 0) | (n > schedule_file.MAX_ROWS)
 
 
 def _set_aside(body: _Body, found, defaults):

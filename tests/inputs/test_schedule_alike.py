@@ -258,3 +258,20 @@ def test_group_without_a_circuit_row(tmp_path):
     for path, got in zip(paths, read_schedule_files(paths), strict=True):
         assert isinstance(got, InputError)
         assert_same(got, _alone(path))
+
+
+def test_files_too_wide_or_too_long_read_alone(tmp_path, monkeypatch):
+    # 61 columns (the reader's limit is 60): each file names its own width
+    wide = [HEADER + ",x" * 55, *(row + ",1" * 55 for row in _good(2))]
+    paths = [_write(tmp_path, f"W{i}.csv", wide) for i in range(2)]
+    for path, got in zip(paths, read_schedule_files(paths), strict=True):
+        assert isinstance(got, InputError)
+        assert_same(got, _alone(path))
+    from feedcheck.inputs import schedule_file
+
+    monkeypatch.setattr(schedule_file, "MAX_ROWS", 2)
+    paths = [_write(tmp_path, f"L{i}.csv", [HEADER, *_good(1 + i)]) for i in range(3)]
+    got = read_schedule_files(paths)
+    for path, g in zip(paths, got, strict=True):
+        assert_same(g, _alone(path))
+    assert [isinstance(g, InputError) for g in got] == [False, True, True]
