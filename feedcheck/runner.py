@@ -113,18 +113,17 @@ def read_job_schedules(job: Job, grids: dict | None = None) -> dict:
     as the file's first row), read in place of the panel's file.
     """
     from .errors import InputError, Problem
-    from .inputs.schedule_file import read_schedule
+    from .inputs.schedule_alike import ScheduleReader
 
+    panels = [p for p in job.panels if p.schedule is not None]
+    reader = ScheduleReader()  # alike files read together, each file's result its own
+    for p in panels:
+        cols = dict(getattr(p, "schedule_columns", ()))
+        reader.add(p.schedule, p.id, cols or None, cells=(grids or {}).get(p.id))
     out, problems = {}, []
-    for p in job.panels:
-        if p.schedule is None:
-            continue
-        try:
-            cols = dict(getattr(p, "schedule_columns", ()))
-            grid = (grids or {}).get(p.id)
-            sched = read_schedule(p.schedule, panel_id=p.id, columns=cols or None, cells=grid)
-        except InputError as exc:
-            problems.extend(exc.problems)
+    for p, sched in zip(panels, reader.read(), strict=True):
+        if isinstance(sched, InputError):
+            problems.extend(sched.problems)
             continue
         if sched.panels != (p.id,):
             problems.append(

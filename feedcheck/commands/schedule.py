@@ -374,31 +374,16 @@ def _file_system(path: Path, schedule, opts):
 def _from_files(files, opts, panel_opts, done, unreadable):
     from ..checks.schedule_batch import check_files
     from ..errors import InputError
-    from ..inputs.schedule_file import read_schedule
     from ..rulebook import current_rulebook
 
     read, bad = [], []  # (file number, path, schedule, system); (file number, InputError)
-
-    def one(path, stage=lambda _w: None):
+    for k, (path, got) in enumerate(zip(files, _read_files(files, opts), strict=True)):
         try:
-            stage("reading")
-            s = read_schedule(path, columns=opts["columns"], layout=opts["layout"])
-            read.append((len(read) + len(bad), path, s, _file_system(path, s, opts)))
-            stage("checking")
+            if isinstance(got, InputError):
+                raise got
+            read.append((k, path, got, _file_system(path, got, opts)))
         except InputError as exc:
-            bad.append((len(read) + len(bad), exc))
-
-    big = [file_path for file_path in files if _size(file_path) >= LARGE_FILE_BYTES]
-    if len(files) >= PROGRESS_FROM:
-        with click.progressbar(files, label="checking schedules", file=sys.stderr) as bar:
-            for file_path in bar:
-                one(file_path)
-    elif big and _on_terminal():
-        for file_path in files:
-            _one_with_stages(file_path, one)
-    else:
-        for f in files:
-            one(f)
+            bad.append((k, exc))
     # alike one-panel files are checked together (checks/schedule_batch.py)
     items = [(s, system) for _, _, s, system in read]
     checked = check_files(items, *panel_opts, current_rulebook())
@@ -414,6 +399,41 @@ def _from_files(files, opts, panel_opts, done, unreadable):
         raise InputError([problem for exc in bad for problem in exc.problems])
     unreadable.extend(bad)
     return results
+
+
+def _read_files(files, opts) -> list:
+    """Each file's Schedule or InputError: the files guarded and their cells read one by
+    one (the progress bar), then alike ones read together (inputs/schedule_alike.py); a
+    large file on the terminal alone, its stages shown."""
+    from ..errors import InputError
+    from ..inputs.schedule_alike import ScheduleReader
+    from ..inputs.schedule_file import read_schedule
+
+    columns, layout = opts["columns"], opts["layout"]
+    big = [file_path for file_path in files if _size(file_path) >= LARGE_FILE_BYTES]
+    if len(files) < PROGRESS_FROM and big and _on_terminal():
+        got = []
+
+        def one(path, stage=lambda _w: None):
+            stage("reading")
+            try:
+                got.append(read_schedule(path, columns=columns, layout=layout))
+                stage("checking")
+            except InputError as exc:
+                got.append(exc)
+
+        for file_path in files:
+            _one_with_stages(file_path, one)
+        return got
+    reader = ScheduleReader()
+    if len(files) >= PROGRESS_FROM:
+        with click.progressbar(files, label="checking schedules", file=sys.stderr) as bar:
+            for file_path in bar:
+                reader.add(file_path, columns=columns, layout=layout)
+            return reader.read()
+    for file_path in files:
+        reader.add(file_path, columns=columns, layout=layout)
+    return reader.read()
 
 
 def _on_terminal() -> bool:

@@ -65,6 +65,10 @@ class Cells:
         self.problems = problems
         self.count = 0
         self.assumed_copper = np.zeros(n, dtype=bool)  # set by the conductor columns
+        # None: a column holding a "-" is read all through pandas (as one file's column
+        # is); False: each text read alone (alike files read together, where a file with
+        # a "-" in a number column is read on its own instead)
+        self.signed: bool | None = None
 
     def col(self, key: str) -> tuple[np.ndarray, np.ndarray]:
         return self.cols[self.found[key][0]]
@@ -115,7 +119,7 @@ class Cells:
         if strip:
             rx = re.compile(strip, re.I)
             clean = [rx.sub("", t) for t in clean]
-        v = _to_numbers(clean)
+        v = _to_numbers(clean, self.signed)
         empty = uniq == ""
         if default is not None:
             v[empty] = default
@@ -183,12 +187,15 @@ class Cells:
         return out
 
 
-def _to_numbers(texts: list[str]) -> np.ndarray:
+def _to_numbers(texts: list[str], signed: bool | None = None) -> np.ndarray:
     """Texts as numbers (NaN where not a number), as ``pandas.to_numeric`` reads them;
-    plain short decimals without pandas (the common case: its fixed cost dominates)."""
+    plain short decimals without pandas (the common case: its fixed cost dominates).
+    ``signed`` None: whether any text holds a "-" (pandas' "-0" is 0.0 or -0.0 by the
+    column, so such a column is read all through pandas)."""
     out = np.full(len(texts), np.nan)
     rest = []
-    signed = any("-" in t for t in texts)  # pandas' "-0" is 0.0 or -0.0 by the column
+    if signed is None:
+        signed = any("-" in t for t in texts)
     for i, t in enumerate(texts):
         if not signed and _PLAIN.fullmatch(t) and sum(ch.isdigit() for ch in t) <= 15:
             out[i] = float(t)

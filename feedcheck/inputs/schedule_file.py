@@ -69,11 +69,12 @@ MAX_COLUMNS = 60
 MAX_XLSX_UNPACKED_BYTES = 1_000_000_000
 MAX_XLSX_RATIO = 200.0
 MAX_XLSX_MEMBERS = 10_000
+PLAIN_CHARS = 200_000  # a CSV file up to this long without quotes is split without pandas
 
 
-# --------------------------------------------------------------------------- raw reading
-def _guard_file(path: Path, problems: ProblemList) -> bytes:
-    kind = FileKind(
+def schedule_kind() -> FileKind:
+    """What the guard holds a schedule file to (the limit read when called)."""
+    return FileKind(
         "schedule file",
         "(.csv or .xlsx)",
         MAX_FILE_BYTES,
@@ -81,8 +82,12 @@ def _guard_file(path: Path, problems: ProblemList) -> bytes:
         (".csv", ".xlsx"),
         "a .csv or .xlsx schedule file",
     )
+
+
+# --------------------------------------------------------------------------- raw reading
+def _guard_file(path: Path, problems: ProblemList) -> bytes:
     try:
-        raw = read_bytes(path, kind)
+        raw = read_bytes(path, schedule_kind())
         if not raw:
             raise FileRefused("(empty file)", "a header row and one row per circuit")
     except FileRefused as exc:
@@ -115,7 +120,7 @@ def _plain_csv(text: str) -> np.ndarray | None:
     """A small file of plain cells (no quotes, blank lines, ragged rows or carriage
     returns) split without the CSV parser's fixed cost; None for anything else, which
     the parser reads (the same cells either way)."""
-    if len(text) > 200_000 or '"' in text or "\r" in text:
+    if len(text) > PLAIN_CHARS or '"' in text or "\r" in text:
         return None
     lines = text[:-1].split("\n") if text.endswith("\n") else text.split("\n")
     rows = [line.split(",") for line in lines]
@@ -156,15 +161,13 @@ def _pandas_csv(text: str, problems: ProblemList) -> np.ndarray:
 def _refuse_nul(text: str, problems: ProblemList) -> None:
     """A NUL byte ends a cell early in the CSV reader (``12\\x0000`` would read as 12):
     refuse it with the cell's place."""
-    import csv
-
     lines = text.split("\n")
-    header = next(csv.reader([lines[0].replace("\x00", "")]), [])
+    header = _line_cells(lines[0].replace("\x00", ""))
     listed = 0
     for i, line in enumerate(lines):
         if "\x00" not in line:
             continue
-        cells = next(csv.reader([line.replace("\x00", "\ufffe")]), [])
+        cells = _line_cells(line.replace("\x00", "\ufffe"))
         for j, cell in enumerate(cells):
             if "\ufffe" in cell and listed < MAX_PROBLEMS:
                 name = header[j].strip() if j < len(header) else f"{j + 1}"
@@ -175,6 +178,17 @@ def _refuse_nul(text: str, problems: ProblemList) -> None:
                 )
                 listed += 1
     problems.raise_if_any()
+
+
+def _line_cells(line: str) -> list[str]:
+    """One line's cells as the CSV module reads them; a line it cannot read (a carriage
+    return inside an unquoted cell) split at its commas."""
+    import csv
+
+    try:
+        return next(csv.reader([line]), [])
+    except csv.Error:
+        return line.split(",")
 
 
 def xlsx_guard(raw: bytes, problems: ProblemList, max_unpacked: int | None = None) -> None:
@@ -320,7 +334,7 @@ def read_schedule(
     cols, rows = _only(cols, rows, keep, problems)
     c = Cells(cols, len(rows), found, rows, problems)
     values = _values(c, found, rows, panel_id or p.stem, problems)
-    _value_notices(c, found, rows, notices)
+    value_notices(found, rows, c.assumed_copper, notices)
     unit = found["load"][2] or "va"
     scale = SCHEDULE_HEADER_UNITS["load"].get(unit, ("VA", 1.0))[1]
     compare_totals(totals, values["load_value"], values["panel"], scale, unit.upper(), notices)
@@ -380,15 +394,16 @@ def _values(c: Cells, found, rows, panel_id: str, problems: ProblemList) -> dict
     return values
 
 
-def _value_notices(c: Cells, found, rows, notices: list[str]) -> None:
-    """Notices on values read but not checked, or assumed."""
+def value_notices(found, rows, assumed_copper, notices: list[str]) -> None:
+    """Notices on values read but not checked, or assumed (``assumed_copper``: the rows
+    whose conductor cell named no material)."""
     if "aic" in found:
         notices.append(
             f"column '{found['aic'][1]}' (interrupting ratings) read and validated but not "
             "checked: hold them against the panel's available fault current"
         )
-    if c.assumed_copper.any():
-        at = rows[c.assumed_copper]
+    if assumed_copper.any():
+        at = rows[assumed_copper]
         notices.append(
             f"warning: {len(at)} conductor cell(s) without a material read as copper (Cu), "
             f"rows {', '.join(map(str, at[:10]))}{' …' if len(at) > 10 else ''}: write Cu or "
@@ -485,7 +500,8 @@ def _schedule(path: Path, v: dict, c: Cells, rows, notices, spaces, length_unit)
 
 
 def read_schedules(paths, panel_ids=None) -> tuple[list[Schedule], list[InputError]]:
-    """Read several schedules; return the good ones and every file's InputError."""
+    """Read several schedules; return the good ones and every file's InputError (alike
+    files read together: :func:`feedcheck.inputs.schedule_alike.read_schedule_files`)."""
     good, bad = [], []
     for i, path in enumerate(paths):
         try:

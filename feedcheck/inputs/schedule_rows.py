@@ -124,28 +124,16 @@ def set_aside(cols, rows, found, default_panel: str, notices: list[str]):
     Returns the circuit rows' mask, panel → (spare poles, space poles), and the totals
     rows as (row number, cell that names it, stated load text, panel text).
     """
-
-    blank = (np.zeros(len(rows), dtype=np.intp), np.array([""], dtype=object))
-
-    def column(key: str) -> tuple[np.ndarray, np.ndarray]:
-        return cols[found[key][0]] if key in found else blank
+    column = columns_of(cols, found, len(rows))
 
     def text(key: str) -> np.ndarray:
         codes, uniq = column(key)
         return uniq[codes]
 
     kind = classify(column, found)
-    panel = text("panel")
-    panel = np.where(panel == "", default_panel, panel)
-    codes, uniq = column("poles")
-    poles = np.array([int(u) if u in ("1", "2", "3") else 1 for u in uniq] + [1])[codes]
-    spaces: dict[str, tuple[int, int]] = {}
-    for pid in dict.fromkeys(panel[kind != TOTAL].tolist()):
-        mine = panel == pid
-        spaces[str(pid)] = (
-            int(poles[mine & (kind == SPARE)].sum()),
-            int(poles[mine & (kind == SPACE)].sum()),
-        )
+    panel_cells = text("panel")
+    panel = np.where(panel_cells == "", default_panel, panel_cells)
+    spaces = panel_spaces(panel, kind, pole_counts(column))
     totals = []
     at_totals = np.flatnonzero(kind == TOTAL)
     named = {
@@ -156,10 +144,50 @@ def set_aside(cols, rows, found, default_panel: str, notices: list[str]):
     load = text("load")
     for i in at_totals:
         label = next((str(v[i]) for v in named.values() if TOTAL_RE.match(str(v[i]))), "total")
-        totals.append((int(rows[i]), label, str(load[i]), str(text("panel")[i])))
-    n_sp, n_sc = int((kind == SPARE).sum()), int((kind == SPACE).sum())
-    # a spare with its conductor and length given stays a circuit of no load: its
-    # breaker still protects that conductor and is checked
+        totals.append((int(rows[i]), label, str(load[i]), str(panel_cells[i])))
+    wired = wired_spares(cols, found, kind)
+    note = spares_notice(int((kind == SPARE).sum()), int((kind == SPACE).sum()), int(wired.sum()))
+    if note:
+        notices.append(note)
+    return (kind == CIRCUIT) | wired, spaces, totals
+
+
+def columns_of(cols, found, n: int):
+    """``column(key)``: a column's cells as (codes, distinct texts); all blank when the
+    schedule has no such column."""
+    blank = (np.zeros(n, dtype=np.intp), np.array([""], dtype=object))
+
+    def column(key: str) -> tuple[np.ndarray, np.ndarray]:
+        return cols[found[key][0]] if key in found else blank
+
+    return column
+
+
+def pole_counts(column) -> np.ndarray:
+    """Each row's poles as the spaces count them (1 unless the cell says 2 or 3)."""
+    codes, uniq = column("poles")
+    return np.array([int(u) if u in ("1", "2", "3") else 1 for u in uniq] + [1])[codes]
+
+
+def panel_spaces(panel, kind, poles) -> dict[str, tuple[int, int]]:
+    """panel → (spare poles, space poles), the panels in the order met (totals rows
+    aside); each panel's rows summed once."""
+    ids = list(dict.fromkeys(panel[kind != TOTAL].tolist()))
+    at = {pid: i for i, pid in enumerate(ids)}
+    code = np.array([at.get(pid, -1) for pid in panel.tolist()] + [-1], dtype=np.intp)[:-1]
+    mine = code >= 0
+    sums = [
+        np.bincount(code[mine], weights=(poles * (kind == k))[mine], minlength=len(ids))
+        for k in (SPARE, SPACE)
+    ]
+    return {str(pid): (int(sums[0][i]), int(sums[1][i])) for i, pid in enumerate(ids)}
+
+
+def wired_spares(cols, found, kind) -> np.ndarray:
+    """Spares with their conductor and length given: each stays a circuit of no load (its
+    breaker still protects that conductor and is checked); their blank loads read 0 (the
+    load column of ``cols`` is changed in place)."""
+    column = columns_of(cols, found, len(kind))
     wired = (kind != CIRCUIT) & (kind != TOTAL)
     wired &= ~_in(column("conductor"), _NO_LOAD) & ~_in(column("length"), _NO_LOAD)
     wired &= ~_in(column("breaker"), _NO_DEVICE)
@@ -173,16 +201,16 @@ def set_aside(cols, rows, found, default_panel: str, notices: list[str]):
         codes = codes.copy()
         codes[wired & _in(load_cells, _NO_LOAD)] = zero[0]
         cols[found["load"][0]] = (codes, uniq)
-    if n_sp or n_sc:
-        notices.append(
-            f"{n_sp} spare and {n_sc} space row(s) counted as the panel's spaces"
-            + (
-                f" ({int(wired.sum())} wired spare(s) kept as circuits of no load)"
-                if wired.any()
-                else ""
-            )
-        )
-    return (kind == CIRCUIT) | wired, spaces, totals
+    return wired
+
+
+def spares_notice(n_spare: int, n_space: int, n_wired: int) -> str:
+    """The notice on a file's spare and space rows ("" when it has none)."""
+    if not (n_spare or n_space):
+        return ""
+    return f"{n_spare} spare and {n_space} space row(s) counted as the panel's spaces" + (
+        f" ({n_wired} wired spare(s) kept as circuits of no load)" if n_wired else ""
+    )
 
 
 def compare_totals(totals, load_value, panel, scale: float, unit: str, notices: list[str]):

@@ -68,15 +68,17 @@ def render_schedule_summary(results, show_all: bool, shown_circuits: int = 20) -
             lines.append(f"  {word:4}  {note.removeprefix('warning: ')}")
         bad = [i for i, v in enumerate(st.tolist()) if v != "ok"]
         shown = bad if show_all else bad[:shown_circuits]
-        panel, circuit, reason = (c[k].tolist() for k in ("panel", "circuit", "reason"))
+        if shown:  # a column read only when a circuit of it is listed
+            panel, circuit, reason = (c[k].tolist() for k in ("panel", "circuit", "reason"))
         for i in shown:
             word = status_word(st[i], loud=True)
             lines.append(f"  {word:4}  {panel[i]}/{circuit[i]}  {reason[i]}")
         if len(bad) > len(shown):
             lines.append(f"  … {len(bad) - len(shown)} more (--all lists them, --out saves all)")
-        panel_ids = set(r.panels["panel"])
-        for f in r.findings:
-            if f.status in ("fail", "warn") and f.subject in panel_ids:
+        loud = [f for f in r.findings if f.status in ("fail", "warn")]
+        panel_ids = set(r.panels["panel"]) if loud else set()
+        for f in loud:
+            if f.subject in panel_ids:
                 word = status_word(f.status, loud=True)
                 lines.append(f"  {word:4}  {f.subject}  {f.check}: {f.note}")
     lines.append(f"\n{len(results)} file(s), {n_circ} circuits: {n_fail} fail, {n_warn} warn")

@@ -50,6 +50,21 @@ def test_control_character_in_numeric_cell_refused(tmp_path, old, new, where, sh
     assert line.startswith(f"error: {p}: {where} got {shown}; expected ")
 
 
+@pytest.mark.parametrize(
+    ("old", "new"), [("\n", "\r\n"), ("Load 1", "Lo\rad 1")], ids=["crlf", "cr-in-a-cell"]
+)
+def test_nul_byte_beside_a_carriage_return_refused(tmp_path, old, new):
+    # a NUL byte in a file whose lines hold a carriage return: CR LF line ends, and a CR
+    # inside a cell (an internal error before: the CSV module refused the line); the
+    # NUL's cell is named as in any other file
+    p = tmp_path / "LP1.csv"
+    text = (HEADER + ROW.format(c=1)).replace(",1200,", ",12\x0000,")
+    p.write_bytes(text.replace(old, new).encode())
+    out = tmp_path / "r.csv"
+    (line,) = assert_rejected(cli("schedule", p, *WYE, "--out", out), out, n=1)
+    assert line.startswith(f"error: {p}: row 2, column 'load [VA]' got '12\\x0000'; expected ")
+
+
 # --------------------------------------------- item 2: XLSX stored dimension too small
 def _xlsx_with_dimension(path, rows, ref):
     wb = openpyxl.Workbook()

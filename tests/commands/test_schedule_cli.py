@@ -93,9 +93,9 @@ def test_folder_with_progress_and_interrupt_leaves_nothing(samples, tmp_path, mo
     assert r.exit_code == 0 and "12 file(s)" in r.stdout and out.exists()
     out.unlink()
     (tmp_path / "res.panels.csv").unlink()
-    import feedcheck.inputs.schedule_file as sf
+    import feedcheck.inputs.schedule_alike as sa
 
-    real = sf.read_schedule
+    real = sa._plain_lines
     calls = []
 
     def flaky(*a, **k):
@@ -104,9 +104,10 @@ def test_folder_with_progress_and_interrupt_leaves_nothing(samples, tmp_path, mo
             raise KeyboardInterrupt
         return real(*a, **k)
 
-    # interrupted while reading the third file: alike files are checked together after
-    # reading (checks/schedule_batch.check_files), so none is checked yet
-    monkeypatch.setattr(sf, "read_schedule", flaky)
+    # interrupted while reading the third file: alike files are read together after
+    # each is guarded and split, and checked together after reading
+    # (checks/schedule_batch.check_files), so none is checked yet
+    monkeypatch.setattr(sa, "_plain_lines", flaky)
     r = _run("schedule", src, *WYE, "--out", out)
     assert r.exit_code == 130
     assert "interrupted" in r.stderr and "0 of 12" in r.stderr
