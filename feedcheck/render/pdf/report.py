@@ -78,8 +78,38 @@ class _Heading(Paragraph):
         super().draw()
 
 
+def _skip_draw(flowable):
+    """A stand-in for ``flowable.drawOn`` in a pass that only lays out: nothing is
+    drawn; a heading still records its page."""
+
+    def draw_on(canv, x, y, _sW=0):
+        if isinstance(flowable, _Heading):
+            flowable._fc_pages[flowable._fc_key] = canv.getPageNumber()
+
+    return draw_on
+
+
+class _BodyFrame(Frame):
+    """The body frame; with ``layout_only`` it places flowables (wrap, split, page
+    breaks exactly as a drawn pass) without drawing them: the pass that learns the
+    page numbers."""
+
+    layout_only = False
+
+    def _add(self, flowable, canv, trySplit=0):
+        if not self.layout_only:
+            return Frame._add(self, flowable, canv, trySplit)
+        flowable.__dict__["drawOn"] = _skip_draw(flowable)  # past a Drawing's attribute check
+        try:
+            return Frame._add(self, flowable, canv, trySplit)
+        finally:
+            flowable.__dict__.pop("drawOn", None)
+
+    add = _add
+
+
 class _Doc(BaseDocTemplate):
-    def __init__(self, buf, results, total_pages, **kw):
+    def __init__(self, buf, results, total_pages, layout_only=False, **kw):
         super().__init__(
             buf,
             pagesize=letter,
@@ -92,7 +122,7 @@ class _Doc(BaseDocTemplate):
         )
         self.fc_results = results
         self.fc_total = total_pages
-        frame = Frame(
+        frame = _BodyFrame(
             MARGIN,
             BOTTOM,
             letter[0] - 2 * MARGIN,
@@ -103,9 +133,13 @@ class _Doc(BaseDocTemplate):
             topPadding=0,
             bottomPadding=0,
         )
+        frame.layout_only = layout_only
+        self.fc_layout_only = layout_only
         self.addPageTemplates([PageTemplate("page", [frame], onPage=self._decorate)])
 
     def _decorate(self, canv, doc):
+        if self.fc_layout_only:
+            return
         f = fonts()
         j = self.fc_results.job_summary
         w, h = letter
@@ -261,38 +295,61 @@ def _schedules_story(results, by_subject: dict, display, heading) -> list:
     return story
 
 
-def build_story(results, pages: dict[str, int]) -> list:
-    """Flowables of the whole report; ``pages`` maps anchors to pages (from the
-    previous pass) and is filled again while drawing."""
-    st = sx.styles()
-    new_pages: dict[str, int] = pages.setdefault("__new__", {})  # type: ignore[assignment]
+class _Story:
+    """The report's flowables for the passes of :func:`render_pdf`. The body (one-line
+    diagram to cautions) shows no page number, so it is made once and placed by each
+    pass, reportlab's multi-pass edits undone in between (as its ``multiBuild`` does);
+    the front (cover, contents, summary of findings: page numbers of the pass before)
+    is made again for each pass. Every heading records its page in ``found``."""
 
-    titles: list[tuple[str, str, int]] = []
+    def __init__(self, results):
+        self.results = results
+        self.found: dict[str, int] = {}
+        self.display = display_for(results)
+        self.by_subject: dict[str, list] = {}
+        for f in results.sorted_findings():
+            self.by_subject.setdefault(f.subject, []).append(f)
+        self.body: list | None = None
+        self.body_titles: list[tuple[str, str, int]] = []
 
-    def heading(text, key, level, style):
-        titles.append((text, key, level))
-        return _Heading(text, st[style], key, level, new_pages)
+    def _heading_maker(self, titles: list):
+        st = sx.styles()
 
-    page_of = _page_of_factory(results, {k: v for k, v in pages.items() if k != "__new__"})
-    display = display_for(results)
-    by_subject: dict[str, list] = {}
-    for f in results.sorted_findings():
-        by_subject.setdefault(f.subject, []).append(f)
-    cover: list = sx.cover(results, heading, responsibility_block())
-    story: list = [PageBreak()]
-    story += sx.findings_summary(results, page_of, heading)
-    story += _drawings_story(results, display, heading)
-    story += _sheets_story(results, by_subject, display, heading)
-    story += _schedules_story(results, by_subject, display, heading)
-    story += [CondPageBreak(300)]
-    story += bm.methods_section(results, heading)
-    story += [CondPageBreak(300)]
-    story += bm.tables_section(results, heading)
-    story += [CondPageBreak(300)]
-    story += bm.cautions_section(heading)
-    known = {k: v for k, v in pages.items() if k != "__new__"}
-    contents = contents_section(titles, known, heading)
-    return [*cover, PageBreak(), *contents, *story]
+        def heading(text, key, level, style):
+            titles.append((text, key, level))
+            return _Heading(text, st[style], key, level, self.found)
+
+        return heading
+
+    def _make_body(self) -> list:
+        r, d, by_subject = self.results, self.display, self.by_subject
+        self.body_titles = titles = []
+        heading = self._heading_maker(titles)
+        story = _drawings_story(r, d, heading)
+        story += _sheets_story(r, by_subject, d, heading)
+        story += _schedules_story(r, by_subject, d, heading)
+        story += [CondPageBreak(300)]
+        story += bm.methods_section(r, heading)
+        story += [CondPageBreak(300)]
+        story += bm.tables_section(r, heading)
+        story += [CondPageBreak(300)]
+        story += bm.cautions_section(heading)
+        return story
+
+    def flowables(self, pages: dict[str, int], keep_body: bool) -> list:
+        """The whole report for one pass; ``pages``: anchor → page of the pass before.
+        Without ``keep_body`` the body is handed over (freed as it is drawn) and made
+        again should another pass follow."""
+        body = self.body if self.body is not None else self._make_body()
+        self.body = body if keep_body else None
+        titles: list[tuple[str, str, int]] = []
+        heading = self._heading_maker(titles)
+        cover: list = sx.cover(self.results, heading, responsibility_block())
+        front: list = [PageBreak()]
+        front += sx.findings_summary(self.results, _page_of_factory(self.results, pages), heading)
+        titles += self.body_titles
+        contents = contents_section(titles, pages, heading)
+        return [*cover, PageBreak(), *contents, *front, *body]
 
 
 def by_subject_prefix(by_subject: dict, panel_id: str) -> list:
@@ -300,29 +357,39 @@ def by_subject_prefix(by_subject: dict, panel_id: str) -> list:
 
 
 def render_pdf(results) -> tuple[bytes, int, dict[str, int]]:
-    """The report without attachments: (bytes, page count, anchor → page)."""
+    """The report without attachments: (bytes, page count, anchor → page).
+
+    Passes are made until the page numbers settle (at most ``MAX_PASSES``): the first
+    only lays the pages out (nothing drawn) to learn them, each later one draws the
+    report with the numbers of the one before; the last is the report."""
     fonts()
     j = results.job_summary
+    story = _Story(results)
     pages: dict[str, int] = {}
     total = 0
     data = b""
-    for _ in range(MAX_PASSES):
+    for n in range(MAX_PASSES):
         buf = io.BytesIO()
-        prev = {"__new__": {}, **pages}
         doc = _Doc(
             buf,
             results,
             total,
+            layout_only=n == 0,
             title=f"Feed calculation report — {j.get('name', '')}",
             author=str(j.get("prepared_by", "")),
             subject=f"revision {j.get('revision', '')}; rules {j.get('rules', '')}",
             creator=f"feedcheck {__version__}",
             keywords="feedcheck report",
         )
-        doc.build(build_story(results, prev))
-        new_pages, new_total = prev["__new__"], doc.page
+        edits: list = []
+        doc._multiBuildEdits = edits.append  # what placing changes, undone to place again
+        story.found.clear()
+        doc.build(story.flowables(pages, keep_body=n == 0))
+        for undo, *args in edits:
+            undo(*args)
+        new_pages, new_total = dict(story.found), doc.page
         data = buf.getvalue()
-        if new_pages == pages and new_total == total:
+        if n and new_pages == pages and new_total == total:
             break
         pages, total = new_pages, new_total
     return data, total, pages
