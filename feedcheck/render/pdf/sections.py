@@ -129,7 +129,30 @@ PARAGRAPH_CHARS = 1500
 
 def p(text: object, style: str = "cell") -> Paragraph:
     """Paragraph of plain (escaped) text, clipped to ``PARAGRAPH_CHARS`` with an ellipsis."""
-    return Paragraph(escape(txt(_clip(text, PARAGRAPH_CHARS))), styles()[style])
+    return paragraph(escape(txt(_clip(text, PARAGRAPH_CHARS))), styles()[style])
+
+
+# A report repeats the same few texts in the same styles thousands of times (column
+# heads, status words, wire sizes): reportlab parses each paragraph's markup anew, so
+# the parse is kept per (markup, style) and each paragraph gets its own copy of the
+# fragments. Cleared when it grows past PARSED_LIMIT entries.
+PARSED_LIMIT = 100_000
+_PARSED: dict[tuple[str, str], tuple] = {}
+
+
+def paragraph(markup: str, style: ParagraphStyle) -> Paragraph:
+    """``Paragraph(markup, style)``, its markup parsed once per (markup, style)."""
+    key = (markup, style.name)
+    parsed = _PARSED.get(key)
+    if parsed is None or parsed[1] is not style:
+        para = Paragraph(markup, style)
+        if len(_PARSED) >= PARSED_LIMIT:
+            _PARSED.clear()
+        _PARSED[key] = (para.text, style, para.style, [f.clone() for f in para.frags])
+        return para
+    text, _, parsed_style, frags = parsed
+    para = Paragraph(text, parsed_style, frags=[f.clone() for f in frags])
+    return para
 
 
 TABLE_HEAD_ROOM = 90.0  # a table heading starts a page unless this much room is left
@@ -145,7 +168,7 @@ def fitted(text: object, style: str, width: float) -> str | Paragraph:
     st = styles()[style]
     if shown == " ".join(shown.split()) and stringWidth(shown, st.fontName, st.fontSize) < width:
         return shown
-    return Paragraph(escape(shown), st)
+    return paragraph(escape(shown), st)
 
 
 def table_heading(text: str) -> list:
@@ -262,7 +285,7 @@ def cover(results, heading, before_tables: list = ()) -> list:
         cmds.append(("BACKGROUND", (1, 0), (1, 1), WARN_BG))
     t.setStyle(TableStyle(cmds))
     out.append(t)
-    out.append(Paragraph(escape(txt(CAUTION)), styles()["box"]))
+    out.append(paragraph(escape(txt(CAUTION)), styles()["box"]))
     out += list(before_tables)
     out += [Spacer(1, 4), p("Tables in force (versions)", "h2")]
     trows = [headed(["table", "origin", "edition", "sha256 (first 16)"])]
