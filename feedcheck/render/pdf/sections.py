@@ -140,19 +140,35 @@ PARSED_LIMIT = 100_000
 _PARSED: dict[tuple[str, str], tuple] = {}
 
 
+class _Para(Paragraph):
+    """A paragraph that keeps its lines per width: a table wraps each cell to learn the
+    row heights, again to draw it, and again in every pass and every part of a split
+    table (a long table's remainder is measured whole after each page); the lines at a
+    width depend only on the paragraph, so they are broken once per width."""
+
+    def wrap(self, availWidth, availHeight):
+        kept = self.__dict__.get("_fc_lines")
+        if kept is not None and kept[0] == availWidth:
+            _, self.width, self._wrapWidths, self.blPara, self.height = kept
+            return self.width, self.height
+        w, h = super().wrap(availWidth, availHeight)
+        if "blPara" in self.__dict__ and self.width == availWidth:
+            self._fc_lines = (availWidth, self.width, self._wrapWidths, self.blPara, self.height)
+        return w, h
+
+
 def paragraph(markup: str, style: ParagraphStyle) -> Paragraph:
     """``Paragraph(markup, style)``, its markup parsed once per (markup, style)."""
     key = (markup, style.name)
     parsed = _PARSED.get(key)
     if parsed is None or parsed[1] is not style:
-        para = Paragraph(markup, style)
+        para = _Para(markup, style)
         if len(_PARSED) >= PARSED_LIMIT:
             _PARSED.clear()
         _PARSED[key] = (para.text, style, para.style, [f.clone() for f in para.frags])
         return para
     text, _, parsed_style, frags = parsed
-    para = Paragraph(text, parsed_style, frags=[f.clone() for f in frags])
-    return para
+    return _Para(text, parsed_style, frags=[f.clone() for f in frags])
 
 
 TABLE_HEAD_ROOM = 90.0  # a table heading starts a page unless this much room is left
