@@ -3,9 +3,10 @@
 :func:`write_report` assembles cover, summary of findings, one-line diagram,
 charts, one calculation sheet per element, panel schedules, methods and
 assumptions, table provenance and cautions; every page carries the project,
-its revision, "page X of Y" and a short caution line. Page numbers of the
-calculation sheets are known by building the document until they settle
-(usually twice).
+its revision, "page X of Y" and a short caution line. The report is drawn in one
+pass: the page numbers shown before their pages are drawn (contents, the page
+column of the findings, each footer's total) are forms filled in at the end
+(:mod:`.page_refs`).
 
 The pages are drawn from :class:`~feedcheck.results.Results` alone (figures,
 sheets, the feed's diagram description, table provenance, display units); the job
@@ -43,12 +44,12 @@ from .drawing import fault_current_charts, fonts, txt, voltage_profile_charts
 from .embed import RESULTS_NAME, attach, input_attachments
 from .front_matter import contents_section, responsibility_block
 from .one_line import one_line_diagrams
+from .page_refs import PageForms
 from .tables_embed import table_attachments
 
 MARGIN = 42.0
 TOP = 60.0
 BOTTOM = 54.0
-MAX_PASSES = 4
 SHEET_ROOM = 200.0  # a calculation sheet starts a new page unless this much room is left
 
 
@@ -78,38 +79,8 @@ class _Heading(Paragraph):
         super().draw()
 
 
-def _skip_draw(flowable):
-    """A stand-in for ``flowable.drawOn`` in a pass that only lays out: nothing is
-    drawn; a heading still records its page."""
-
-    def draw_on(canv, x, y, _sW=0):
-        if isinstance(flowable, _Heading):
-            flowable._fc_pages[flowable._fc_key] = canv.getPageNumber()
-
-    return draw_on
-
-
-class _BodyFrame(Frame):
-    """The body frame; with ``layout_only`` it places flowables (wrap, split, page
-    breaks exactly as a drawn pass) without drawing them: the pass that learns the
-    page numbers."""
-
-    layout_only = False
-
-    def _add(self, flowable, canv, trySplit=0):
-        if not self.layout_only:
-            return Frame._add(self, flowable, canv, trySplit)
-        flowable.__dict__["drawOn"] = _skip_draw(flowable)  # past a Drawing's attribute check
-        try:
-            return Frame._add(self, flowable, canv, trySplit)
-        finally:
-            flowable.__dict__.pop("drawOn", None)
-
-    add = _add
-
-
 class _Doc(BaseDocTemplate):
-    def __init__(self, buf, results, total_pages, layout_only=False, **kw):
+    def __init__(self, buf, results, **kw):
         super().__init__(
             buf,
             pagesize=letter,
@@ -121,8 +92,7 @@ class _Doc(BaseDocTemplate):
             **kw,
         )
         self.fc_results = results
-        self.fc_total = total_pages
-        frame = _BodyFrame(
+        frame = Frame(
             MARGIN,
             BOTTOM,
             letter[0] - 2 * MARGIN,
@@ -133,13 +103,9 @@ class _Doc(BaseDocTemplate):
             topPadding=0,
             bottomPadding=0,
         )
-        frame.layout_only = layout_only
-        self.fc_layout_only = layout_only
         self.addPageTemplates([PageTemplate("page", [frame], onPage=self._decorate)])
 
     def _decorate(self, canv, doc):
-        if self.fc_layout_only:
-            return
         f = fonts()
         j = self.fc_results.job_summary
         w, h = letter
@@ -154,29 +120,35 @@ class _Doc(BaseDocTemplate):
         canv.line(MARGIN, 40, w - MARGIN, 40)
         canv.setFont(f.regular, 7)
         canv.drawString(MARGIN, 29, txt(sx.SHORT_CAUTION))
-        total = self.fc_total if self.fc_total else "?"
-        canv.setFont(f.bold, 8.5)
-        canv.drawRightString(w - MARGIN, 29, f"page {doc.page} of {total}")
+        canv.doForm(PageForms.footer_name(doc.page))  # "page X of Y", filled in at the end
         canv.restoreState()
+
+
+def _footer_page(canv, page: int, total: int) -> None:
+    """The footer's "page X of Y" (drawn into the page's form once Y is known)."""
+    canv.setFont(fonts().bold, 8.5)
+    canv.drawRightString(letter[0] - MARGIN, 29, f"page {page} of {total}")
 
 
 def _clip(s: str, n: int) -> str:
     return s if len(s) <= n else s[: n - 1] + "…"
 
 
-def _page_of_factory(results, pages: dict[str, int]):
+def _page_of_factory(results, anchors, page_cell):
+    """``page_of(subject)``: the page of the subject's calculation sheet or panel
+    schedule (``page_cell(anchor)``) among ``anchors``, else a dash."""
     sheets = set(results.sheets)
     schedules = set(results.schedules or {})
 
-    def page_of(subject: str) -> str:
+    def page_of(subject: str):
         head = subject.split("/")[0]
-        if "/" in subject and head in schedules and f"sched:{head}" in pages:
-            return str(pages[f"sched:{head}"])  # a circuit: its panel schedule
+        if "/" in subject and head in schedules and f"sched:{head}" in anchors:
+            return page_cell(f"sched:{head}")  # a circuit: its panel schedule
         for cand in (subject, head):
-            if cand in sheets and f"sheet:{cand}" in pages:
-                return str(pages[f"sheet:{cand}"])
-            if cand in schedules and f"sched:{cand}" in pages:
-                return str(pages[f"sched:{cand}"])
+            if cand in sheets and f"sheet:{cand}" in anchors:
+                return page_cell(f"sheet:{cand}")
+            if cand in schedules and f"sched:{cand}" in anchors:
+                return page_cell(f"sched:{cand}")
         return MISSING
 
     return page_of
@@ -296,21 +268,18 @@ def _schedules_story(results, by_subject: dict, display, heading) -> list:
 
 
 class _Story:
-    """The report's flowables for the passes of :func:`render_pdf`. The body (one-line
-    diagram to cautions) shows no page number, so it is made once and placed by each
-    pass, reportlab's multi-pass edits undone in between (as its ``multiBuild`` does);
-    the front (cover, contents, summary of findings: page numbers of the pass before)
-    is made again for each pass. Every heading records its page in ``found``."""
+    """The report's flowables for the one pass of :func:`render_pdf`: the body (one-line
+    diagram to cautions) first, which gives every heading, then the front (cover,
+    contents, summary of findings), whose page numbers are forms filled in at the end
+    (``forms``). Every heading records its page in ``found`` as it is drawn."""
 
-    def __init__(self, results):
-        self.results = results
+    def __init__(self, results, forms: PageForms):
+        self.results, self.forms = results, forms
         self.found: dict[str, int] = {}
         self.display = display_for(results)
         self.by_subject: dict[str, list] = {}
         for f in results.sorted_findings():
             self.by_subject.setdefault(f.subject, []).append(f)
-        self.body: list | None = None
-        self.body_titles: list[tuple[str, str, int]] = []
 
     def _heading_maker(self, titles: list):
         st = sx.styles()
@@ -321,9 +290,8 @@ class _Story:
 
         return heading
 
-    def _make_body(self) -> list:
+    def _body(self, titles: list) -> list:
         r, d, by_subject = self.results, self.display, self.by_subject
-        self.body_titles = titles = []
         heading = self._heading_maker(titles)
         story = _drawings_story(r, d, heading)
         story += _sheets_story(r, by_subject, d, heading)
@@ -336,19 +304,24 @@ class _Story:
         story += bm.cautions_section(heading)
         return story
 
-    def flowables(self, pages: dict[str, int], keep_body: bool) -> list:
-        """The whole report for one pass; ``pages``: anchor → page of the pass before.
-        Without ``keep_body`` the body is handed over (freed as it is drawn) and made
-        again should another pass follow."""
-        body = self.body if self.body is not None else self._make_body()
-        self.body = body if keep_body else None
+    def flowables(self) -> list:
+        """The whole report, in page order."""
+        body_titles: list[tuple[str, str, int]] = []
+        body = self._body(body_titles)
+        anchors = {key for _, key, _ in body_titles}
+        st = sx.styles()
+
+        def page_cell(key: str, style: str = "cell", as_paragraph: bool = False):
+            return self.forms.ref(key, st[style], as_paragraph)
+
         titles: list[tuple[str, str, int]] = []
         heading = self._heading_maker(titles)
         cover: list = sx.cover(self.results, heading, responsibility_block())
-        front: list = [PageBreak()]
-        front += sx.findings_summary(self.results, _page_of_factory(self.results, pages), heading)
-        titles += self.body_titles
-        contents = contents_section(titles, pages, heading)
+        page_of = _page_of_factory(self.results, anchors, page_cell)
+        front: list = [PageBreak(), *sx.findings_summary(self.results, page_of, heading)]
+        titles += body_titles
+        anchors |= {key for _, key, _ in titles}  # every heading is drawn: each has a page
+        contents = contents_section(titles, anchors, heading, page_cell)
         return [*cover, PageBreak(), *contents, *front, *body]
 
 
@@ -359,40 +332,29 @@ def by_subject_prefix(by_subject: dict, panel_id: str) -> list:
 def render_pdf(results) -> tuple[bytes, int, dict[str, int]]:
     """The report without attachments: (bytes, page count, anchor → page).
 
-    Passes are made until the page numbers settle (at most ``MAX_PASSES``): the first
-    only lays the pages out (nothing drawn) to learn them, each later one draws the
-    report with the numbers of the one before; the last is the report."""
+    One pass: the page numbers the front shows (contents, the page column of the
+    findings) and each footer's page total are forms filled in after the last page
+    (:mod:`.page_refs`)."""
     fonts()
     j = results.job_summary
-    story = _Story(results)
-    pages: dict[str, int] = {}
-    total = 0
-    data = b""
-    for n in range(MAX_PASSES):
-        buf = io.BytesIO()
-        doc = _Doc(
-            buf,
-            results,
-            total,
-            layout_only=n == 0,
-            title=f"Feed calculation report — {j.get('name', '')}",
-            author=str(j.get("prepared_by", "")),
-            subject=f"revision {j.get('revision', '')}; rules {j.get('rules', '')}",
-            creator=f"feedcheck {__version__}",
-            keywords="feedcheck report",
-        )
-        edits: list = []
-        doc._multiBuildEdits = edits.append  # what placing changes, undone to place again
-        story.found.clear()
-        doc.build(story.flowables(pages, keep_body=n == 0))
-        for undo, *args in edits:
-            undo(*args)
-        new_pages, new_total = dict(story.found), doc.page
-        data = buf.getvalue()
-        if n and new_pages == pages and new_total == total:
-            break
-        pages, total = new_pages, new_total
-    return data, total, pages
+    forms = PageForms()
+    story = _Story(results, forms)
+    buf = io.BytesIO()
+    doc = _Doc(
+        buf,
+        results,
+        title=f"Feed calculation report — {j.get('name', '')}",
+        author=str(j.get("prepared_by", "")),
+        subject=f"revision {j.get('revision', '')}; rules {j.get('rules', '')}",
+        creator=f"feedcheck {__version__}",
+        keywords="feedcheck report",
+    )
+    doc._doSave = 0  # saved below, once the forms are filled in (as multiBuild does)
+    doc.build(story.flowables())
+    total = doc.page
+    forms.fill(doc.canv, story.found, sx.styles(), _footer_page, total)
+    doc.canv.save()
+    return buf.getvalue(), total, dict(story.found)
 
 
 def write_report(job, results, out_path: str | Path) -> ReportInfo:

@@ -15,7 +15,7 @@ from xml.sax.saxutils import escape
 from reportlab.lib import colors
 from reportlab.lib.styles import ParagraphStyle
 from reportlab.pdfbase.pdfmetrics import stringWidth
-from reportlab.platypus import CondPageBreak, Paragraph, Spacer, Table, TableStyle
+from reportlab.platypus import CondPageBreak, Flowable, Paragraph, Spacer, Table, TableStyle
 
 from ... import CAUTION
 from ..display import (
@@ -374,8 +374,11 @@ def findings_table(findings, page_of=None, with_subject=False, display=DEFAULT_D
         figures = [value or MISSING, limit or MISSING, f.rule_id]
         if page_of:
             figures.append(page_of(f.subject))
-        last = room[-len(figures) :]
-        row += [fitted(text, "cell", w) for text, w in zip(figures, last, strict=True)]
+        last = room[-len(figures) :]  # the page: a text, or a cell drawn at the end
+        row += [
+            t if isinstance(t, Flowable) else fitted(t, "cell", w)
+            for t, w in zip(figures, last, strict=True)
+        ]
         rows.append(row)
     statuses = [f.status for f in findings]
     return grid_table(rows, widths, status_col=0, statuses=statuses, font="cell")
