@@ -352,7 +352,7 @@ def render_pdf(results) -> tuple[bytes, int, dict[str, int]]:
     doc._doSave = 0  # saved below, once the forms are filled in (as multiBuild does)
     doc.build(story.flowables())
     total = doc.page
-    forms.fill(doc.canv, story.found, sx.styles(), _footer_page, total)
+    forms.fill(doc.canv, story.found, _footer_page, total)
     doc.canv.save()
     return buf.getvalue(), total, dict(story.found)
 
