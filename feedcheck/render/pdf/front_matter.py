@@ -43,21 +43,22 @@ def responsibility_block() -> list:
 CONTENTS_ACROSS = 2  # entries of a section side by side
 
 
-def contents_section(titles: list[tuple[str, str, int]], pages: dict[str, int], heading):
+def contents_section(titles: list[tuple[str, str, int]], anchors, heading, page_cell):
     """The contents: each top-level heading with its page, the sheets and schedules under
-    it two to a row. ``titles``: (text, anchor, level) in document order; ``pages``:
-    anchor → page of the previous pass (a dash until known)."""
+    it two to a row. ``titles``: (text, anchor, level) in document order; ``anchors``:
+    the anchors drawn in the report; ``page_cell(anchor, style, as_paragraph)``: the cell
+    showing the anchor's page (a dash for any other)."""
     out = [heading("Contents", "contents", 0, "h1")]
     rows, styles, group = [], [], []
 
-    def page(key: str) -> str:
-        return str(pages[key]) if key in pages else MISSING
+    def page(key: str, style: str):
+        return page_cell(key, style, True) if key in anchors else sx.p(MISSING, style)
 
     def flush() -> None:
         for i in range(0, len(group), CONTENTS_ACROSS):
             row = []
             for text, key in group[i : i + CONTENTS_ACROSS]:
-                row += [sx.p(text, "note"), sx.p(page(key), "note")]
+                row += [sx.p(text, "note"), page(key, "note")]
             row += [sx.p("")] * (2 * CONTENTS_ACROSS - len(row))
             rows.append(row)
             styles.append(1)
@@ -68,7 +69,7 @@ def contents_section(titles: list[tuple[str, str, int]], pages: dict[str, int], 
             continue
         if level == 0:
             flush()
-            rows.append([sx.p(text, "cellb"), sx.p(""), sx.p(""), sx.p(page(key), "cellb")])
+            rows.append([sx.p(text, "cellb"), sx.p(""), sx.p(""), page(key, "cellb")])
             styles.append(0)
         else:
             group.append((text, key))

@@ -3,9 +3,10 @@
 :func:`write_report` assembles cover, summary of findings, one-line diagram,
 charts, one calculation sheet per element, panel schedules, methods and
 assumptions, table provenance and cautions; every page carries the project,
-its revision, "page X of Y" and a short caution line. Page numbers of the
-calculation sheets are known by building the document until they settle
-(usually twice).
+its revision, "page X of Y" and a short caution line. The report is drawn in one
+pass: the page numbers shown before their pages are drawn (contents, the page
+column of the findings, each footer's total) are forms filled in at the end
+(:mod:`.page_refs`).
 
 The pages are drawn from :class:`~feedcheck.results.Results` alone (figures,
 sheets, the feed's diagram description, table provenance, display units); the job
@@ -43,12 +44,12 @@ from .drawing import fault_current_charts, fonts, txt, voltage_profile_charts
 from .embed import RESULTS_NAME, attach, input_attachments
 from .front_matter import contents_section, responsibility_block
 from .one_line import one_line_diagrams
+from .page_refs import PageForms
 from .tables_embed import table_attachments
 
 MARGIN = 42.0
 TOP = 60.0
 BOTTOM = 54.0
-MAX_PASSES = 4
 SHEET_ROOM = 200.0  # a calculation sheet starts a new page unless this much room is left
 
 
@@ -79,7 +80,7 @@ class _Heading(Paragraph):
 
 
 class _Doc(BaseDocTemplate):
-    def __init__(self, buf, results, total_pages, **kw):
+    def __init__(self, buf, results, **kw):
         super().__init__(
             buf,
             pagesize=letter,
@@ -91,7 +92,6 @@ class _Doc(BaseDocTemplate):
             **kw,
         )
         self.fc_results = results
-        self.fc_total = total_pages
         frame = Frame(
             MARGIN,
             BOTTOM,
@@ -120,29 +120,35 @@ class _Doc(BaseDocTemplate):
         canv.line(MARGIN, 40, w - MARGIN, 40)
         canv.setFont(f.regular, 7)
         canv.drawString(MARGIN, 29, txt(sx.SHORT_CAUTION))
-        total = self.fc_total if self.fc_total else "?"
-        canv.setFont(f.bold, 8.5)
-        canv.drawRightString(w - MARGIN, 29, f"page {doc.page} of {total}")
+        canv.doForm(PageForms.footer_name(doc.page))  # "page X of Y", filled in at the end
         canv.restoreState()
+
+
+def _footer_page(canv, page: int, total: int) -> None:
+    """The footer's "page X of Y" (drawn into the page's form once Y is known)."""
+    canv.setFont(fonts().bold, 8.5)
+    canv.drawRightString(letter[0] - MARGIN, 29, f"page {page} of {total}")
 
 
 def _clip(s: str, n: int) -> str:
     return s if len(s) <= n else s[: n - 1] + "…"
 
 
-def _page_of_factory(results, pages: dict[str, int]):
+def _page_of_factory(results, anchors, page_cell):
+    """``page_of(subject)``: the page of the subject's calculation sheet or panel
+    schedule (``page_cell(anchor)``) among ``anchors``, else a dash."""
     sheets = set(results.sheets)
     schedules = set(results.schedules or {})
 
-    def page_of(subject: str) -> str:
+    def page_of(subject: str):
         head = subject.split("/")[0]
-        if "/" in subject and head in schedules and f"sched:{head}" in pages:
-            return str(pages[f"sched:{head}"])  # a circuit: its panel schedule
+        if "/" in subject and head in schedules and f"sched:{head}" in anchors:
+            return page_cell(f"sched:{head}")  # a circuit: its panel schedule
         for cand in (subject, head):
-            if cand in sheets and f"sheet:{cand}" in pages:
-                return str(pages[f"sheet:{cand}"])
-            if cand in schedules and f"sched:{cand}" in pages:
-                return str(pages[f"sched:{cand}"])
+            if cand in sheets and f"sheet:{cand}" in anchors:
+                return page_cell(f"sheet:{cand}")
+            if cand in schedules and f"sched:{cand}" in anchors:
+                return page_cell(f"sched:{cand}")
         return MISSING
 
     return page_of
@@ -261,38 +267,62 @@ def _schedules_story(results, by_subject: dict, display, heading) -> list:
     return story
 
 
-def build_story(results, pages: dict[str, int]) -> list:
-    """Flowables of the whole report; ``pages`` maps anchors to pages (from the
-    previous pass) and is filled again while drawing."""
-    st = sx.styles()
-    new_pages: dict[str, int] = pages.setdefault("__new__", {})  # type: ignore[assignment]
+class _Story:
+    """The report's flowables for the one pass of :func:`render_pdf`: the body (one-line
+    diagram to cautions) first, which gives every heading, then the front (cover,
+    contents, summary of findings), whose page numbers are forms filled in at the end
+    (``forms``). Every heading records its page in ``found`` as it is drawn."""
 
-    titles: list[tuple[str, str, int]] = []
+    def __init__(self, results, forms: PageForms):
+        self.results, self.forms = results, forms
+        self.found: dict[str, int] = {}
+        self.display = display_for(results)
+        self.by_subject: dict[str, list] = {}
+        for f in results.sorted_findings():
+            self.by_subject.setdefault(f.subject, []).append(f)
 
-    def heading(text, key, level, style):
-        titles.append((text, key, level))
-        return _Heading(text, st[style], key, level, new_pages)
+    def _heading_maker(self, titles: list):
+        st = sx.styles()
 
-    page_of = _page_of_factory(results, {k: v for k, v in pages.items() if k != "__new__"})
-    display = display_for(results)
-    by_subject: dict[str, list] = {}
-    for f in results.sorted_findings():
-        by_subject.setdefault(f.subject, []).append(f)
-    cover: list = sx.cover(results, heading, responsibility_block())
-    story: list = [PageBreak()]
-    story += sx.findings_summary(results, page_of, heading)
-    story += _drawings_story(results, display, heading)
-    story += _sheets_story(results, by_subject, display, heading)
-    story += _schedules_story(results, by_subject, display, heading)
-    story += [CondPageBreak(300)]
-    story += bm.methods_section(results, heading)
-    story += [CondPageBreak(300)]
-    story += bm.tables_section(results, heading)
-    story += [CondPageBreak(300)]
-    story += bm.cautions_section(heading)
-    known = {k: v for k, v in pages.items() if k != "__new__"}
-    contents = contents_section(titles, known, heading)
-    return [*cover, PageBreak(), *contents, *story]
+        def heading(text, key, level, style):
+            titles.append((text, key, level))
+            return _Heading(text, st[style], key, level, self.found)
+
+        return heading
+
+    def _body(self, titles: list) -> list:
+        r, d, by_subject = self.results, self.display, self.by_subject
+        heading = self._heading_maker(titles)
+        story = _drawings_story(r, d, heading)
+        story += _sheets_story(r, by_subject, d, heading)
+        story += _schedules_story(r, by_subject, d, heading)
+        story += [CondPageBreak(300)]
+        story += bm.methods_section(r, heading)
+        story += [CondPageBreak(300)]
+        story += bm.tables_section(r, heading)
+        story += [CondPageBreak(300)]
+        story += bm.cautions_section(heading)
+        return story
+
+    def flowables(self) -> list:
+        """The whole report, in page order."""
+        body_titles: list[tuple[str, str, int]] = []
+        body = self._body(body_titles)
+        anchors = {key for _, key, _ in body_titles}
+        st = sx.styles()
+
+        def page_cell(key: str, style: str = "cell", as_paragraph: bool = False):
+            return self.forms.ref(key, st[style], as_paragraph)
+
+        titles: list[tuple[str, str, int]] = []
+        heading = self._heading_maker(titles)
+        cover: list = sx.cover(self.results, heading, responsibility_block())
+        page_of = _page_of_factory(self.results, anchors, page_cell)
+        front: list = [PageBreak(), *sx.findings_summary(self.results, page_of, heading)]
+        titles += body_titles
+        anchors |= {key for _, key, _ in titles}  # every heading is drawn: each has a page
+        contents = contents_section(titles, anchors, heading, page_cell)
+        return [*cover, PageBreak(), *contents, *front, *body]
 
 
 def by_subject_prefix(by_subject: dict, panel_id: str) -> list:
@@ -300,32 +330,31 @@ def by_subject_prefix(by_subject: dict, panel_id: str) -> list:
 
 
 def render_pdf(results) -> tuple[bytes, int, dict[str, int]]:
-    """The report without attachments: (bytes, page count, anchor → page)."""
+    """The report without attachments: (bytes, page count, anchor → page).
+
+    One pass: the page numbers the front shows (contents, the page column of the
+    findings) and each footer's page total are forms filled in after the last page
+    (:mod:`.page_refs`)."""
     fonts()
     j = results.job_summary
-    pages: dict[str, int] = {}
-    total = 0
-    data = b""
-    for _ in range(MAX_PASSES):
-        buf = io.BytesIO()
-        prev = {"__new__": {}, **pages}
-        doc = _Doc(
-            buf,
-            results,
-            total,
-            title=f"Feed calculation report — {j.get('name', '')}",
-            author=str(j.get("prepared_by", "")),
-            subject=f"revision {j.get('revision', '')}; rules {j.get('rules', '')}",
-            creator=f"feedcheck {__version__}",
-            keywords="feedcheck report",
-        )
-        doc.build(build_story(results, prev))
-        new_pages, new_total = prev["__new__"], doc.page
-        data = buf.getvalue()
-        if new_pages == pages and new_total == total:
-            break
-        pages, total = new_pages, new_total
-    return data, total, pages
+    forms = PageForms()
+    story = _Story(results, forms)
+    buf = io.BytesIO()
+    doc = _Doc(
+        buf,
+        results,
+        title=f"Feed calculation report — {j.get('name', '')}",
+        author=str(j.get("prepared_by", "")),
+        subject=f"revision {j.get('revision', '')}; rules {j.get('rules', '')}",
+        creator=f"feedcheck {__version__}",
+        keywords="feedcheck report",
+    )
+    doc._doSave = 0  # saved below, once the forms are filled in (as multiBuild does)
+    doc.build(story.flowables())
+    total = doc.page
+    forms.fill(doc.canv, story.found, _footer_page, total)
+    doc.canv.save()
+    return buf.getvalue(), total, dict(story.found)
 
 
 def write_report(job, results, out_path: str | Path) -> ReportInfo:

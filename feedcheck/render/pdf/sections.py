@@ -15,7 +15,7 @@ from xml.sax.saxutils import escape
 from reportlab.lib import colors
 from reportlab.lib.styles import ParagraphStyle
 from reportlab.pdfbase.pdfmetrics import stringWidth
-from reportlab.platypus import CondPageBreak, Paragraph, Spacer, Table, TableStyle
+from reportlab.platypus import CondPageBreak, Flowable, Paragraph, Spacer, Table, TableStyle
 
 from ... import CAUTION
 from ..display import (
@@ -129,7 +129,46 @@ PARAGRAPH_CHARS = 1500
 
 def p(text: object, style: str = "cell") -> Paragraph:
     """Paragraph of plain (escaped) text, clipped to ``PARAGRAPH_CHARS`` with an ellipsis."""
-    return Paragraph(escape(txt(_clip(text, PARAGRAPH_CHARS))), styles()[style])
+    return paragraph(escape(txt(_clip(text, PARAGRAPH_CHARS))), styles()[style])
+
+
+# A report repeats the same few texts in the same styles thousands of times (column
+# heads, status words, wire sizes): reportlab parses each paragraph's markup anew, so
+# the parse is kept per (markup, style) and each paragraph gets its own copy of the
+# fragments. Cleared when it grows past PARSED_LIMIT entries.
+PARSED_LIMIT = 100_000
+_PARSED: dict[tuple[str, str], tuple] = {}
+
+
+class _Para(Paragraph):
+    """A paragraph that keeps its lines per width: a table wraps each cell to learn the
+    row heights, again to draw it, and again in every pass and every part of a split
+    table (a long table's remainder is measured whole after each page); the lines at a
+    width depend only on the paragraph, so they are broken once per width."""
+
+    def wrap(self, availWidth, availHeight):
+        kept = self.__dict__.get("_fc_lines")
+        if kept is not None and kept[0] == availWidth:
+            _, self.width, self._wrapWidths, self.blPara, self.height = kept
+            return self.width, self.height
+        w, h = super().wrap(availWidth, availHeight)
+        if "blPara" in self.__dict__ and self.width == availWidth:
+            self._fc_lines = (availWidth, self.width, self._wrapWidths, self.blPara, self.height)
+        return w, h
+
+
+def paragraph(markup: str, style: ParagraphStyle) -> Paragraph:
+    """``Paragraph(markup, style)``, its markup parsed once per (markup, style)."""
+    key = (markup, style.name)
+    parsed = _PARSED.get(key)
+    if parsed is None or parsed[1] is not style:
+        para = _Para(markup, style)
+        if len(_PARSED) >= PARSED_LIMIT:
+            _PARSED.clear()
+        _PARSED[key] = (para.text, style, para.style, [f.clone() for f in para.frags])
+        return para
+    text, _, parsed_style, frags = parsed
+    return _Para(text, parsed_style, frags=[f.clone() for f in frags])
 
 
 TABLE_HEAD_ROOM = 90.0  # a table heading starts a page unless this much room is left
@@ -145,7 +184,7 @@ def fitted(text: object, style: str, width: float) -> str | Paragraph:
     st = styles()[style]
     if shown == " ".join(shown.split()) and stringWidth(shown, st.fontName, st.fontSize) < width:
         return shown
-    return Paragraph(escape(shown), st)
+    return paragraph(escape(shown), st)
 
 
 def table_heading(text: str) -> list:
@@ -262,7 +301,7 @@ def cover(results, heading, before_tables: list = ()) -> list:
         cmds.append(("BACKGROUND", (1, 0), (1, 1), WARN_BG))
     t.setStyle(TableStyle(cmds))
     out.append(t)
-    out.append(Paragraph(escape(txt(CAUTION)), styles()["box"]))
+    out.append(paragraph(escape(txt(CAUTION)), styles()["box"]))
     out += list(before_tables)
     out += [Spacer(1, 4), p("Tables in force (versions)", "h2")]
     trows = [headed(["table", "origin", "edition", "sha256 (first 16)"])]
@@ -335,8 +374,11 @@ def findings_table(findings, page_of=None, with_subject=False, display=DEFAULT_D
         figures = [value or MISSING, limit or MISSING, f.rule_id]
         if page_of:
             figures.append(page_of(f.subject))
-        last = room[-len(figures) :]
-        row += [fitted(text, "cell", w) for text, w in zip(figures, last, strict=True)]
+        last = room[-len(figures) :]  # the page: a text, or a cell drawn at the end
+        row += [
+            t if isinstance(t, Flowable) else fitted(t, "cell", w)
+            for t, w in zip(figures, last, strict=True)
+        ]
         rows.append(row)
     statuses = [f.status for f in findings]
     return grid_table(rows, widths, status_col=0, statuses=statuses, font="cell")
