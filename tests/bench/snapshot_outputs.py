@@ -70,7 +70,9 @@ def main() -> None:
     def run(name: str, argv: list[str]) -> None:
         p = subprocess.run([args.cli, *argv], capture_output=True, cwd=out)
         text = p.stdout + b"\n--stderr--\n" + p.stderr + f"\n--rc {p.returncode}".encode()
-        (out / f"{name}.out").write_bytes(text.replace(str(out).encode(), b"OUT"))
+        for path, word in ((out, b"OUT"), (jobs, b"JOBS"), (SAMPLES, b"SAMPLES")):
+            text = text.replace(str(path).encode(), word)
+        (out / f"{name}.out").write_bytes(text)
 
     for t in targets:
         name = t.stem if t.parent == SAMPLES else t.parent.name
@@ -93,9 +95,9 @@ def main() -> None:
     sysv = ["--system", "208Y/120 V"]
     sample_csv = [str(p) for p in sorted(SAMPLES.glob("*.csv"))]
     for nm, argv in (
-        ("folder", [str(jobs / "many"), *sysv]),
-        ("one", [str(jobs / "one" / "all.csv"), *sysv]),
-        ("samples", [*sample_csv, *sysv, "--keep-going"]),
+        ("folder", ["schedule", str(jobs / "many"), *sysv]),
+        ("one", ["schedule", str(jobs / "one" / "all.csv"), *sysv]),
+        ("samples", ["schedule", *sample_csv, *sysv, "--keep-going"]),
     ):
         run(nm, argv)
         run(f"{nm}_csv", [*argv, "--out", f"{nm}.csv"])
