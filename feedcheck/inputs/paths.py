@@ -10,6 +10,26 @@ from .files import FileRefused
 _INSIDE = "a path inside the job file's folder (no absolute paths, no '..')"
 
 
+def _resolved(folder: Path) -> Path:
+    """``folder`` resolved, once per folder while its links stay as they are: the last
+    answer is kept with the folder's own (lstat) identity and reused only while that
+    identity is unchanged; every file path below it is still resolved each time."""
+    try:
+        st = folder.lstat()
+    except OSError:  # no such folder (yet): resolved as written, nothing kept
+        return folder.resolve()
+    key = (str(folder), st.st_dev, st.st_ino, st.st_mtime_ns)
+    hit = _RESOLVED.get(key)
+    if hit is None:
+        hit = folder.resolve()
+        _RESOLVED.clear()  # one folder at a time: a job's panels share theirs
+        _RESOLVED[key] = hit
+    return hit
+
+
+_RESOLVED: dict[tuple, Path] = {}
+
+
 def relative_file_inside(
     text: str,
     folder: Path,
@@ -41,7 +61,7 @@ def relative_file_inside(
     if p.suffix.lower() not in suffixes:
         raise FileRefused(text, suffix_expected)
     try:
-        base = folder.resolve()
+        base = _resolved(folder)
         real = (folder / p).resolve()
     except (OSError, RuntimeError):  # a link loop
         raise FileRefused(

@@ -4,6 +4,7 @@
 from __future__ import annotations
 
 import difflib
+import functools
 import math
 import re
 
@@ -79,7 +80,13 @@ class Reader:
 
     def __init__(self, file: str, text: str) -> None:
         self.problems = ProblemList(file)
-        self.lines = _key_lines(text)
+        self._text = text
+
+    @functools.cached_property
+    def lines(self) -> dict[str, int]:
+        """Key paths to their lines, found when a problem first needs one (a good job's
+        thousand tables are never scanned for them)."""
+        return _key_lines(self._text)
 
     def line(self, path: str) -> int | None:
         if path in self.lines:

@@ -1,6 +1,7 @@
 """The one guard on input files, and path safety, on their own."""
 
 import os
+from pathlib import Path
 
 import pytest
 
@@ -84,3 +85,22 @@ def test_path_through_a_link_must_stay_inside(tmp_path):
     (job / "in.csv").write_text("x")
     os.symlink(job / "in.csv", job / "y.csv")
     assert str(relative_file_inside("y.csv", job)) == "y.csv"
+
+
+def test_folder_relinked_between_reads_is_resolved_again(tmp_path):
+    """The resolved job folder is kept between panels only while the folder's link is
+    the same: a link re-pointed between two reads is resolved again, so a schedule that
+    leads outside the new target is refused (common practice, no source: the guard's
+    own rule, a path that resolves outside the job's folder is refused)."""
+    a, b = tmp_path / "a", tmp_path / "b"
+    a.mkdir()
+    b.mkdir()
+    (a / "s.csv").write_text("circuit\n1\n", encoding="utf-8")
+    (b / "s.csv").symlink_to(a / "s.csv")  # inside a, outside b
+    link = tmp_path / "job"
+    link.symlink_to(a)
+    assert relative_file_inside("s.csv", link) == Path("s.csv")
+    link.unlink()
+    link.symlink_to(b)
+    with pytest.raises(FileRefused, match="outside"):
+        relative_file_inside("s.csv", link)
