@@ -17,6 +17,29 @@ def test_regular_file_within_the_limit_is_read(tmp_path):
     assert read_bytes(p, KIND) == b"0123456789"
 
 
+@pytest.mark.parametrize(("size", "ok"), [(10, True), (11, False), (40, False)])
+def test_file_grown_after_its_size_was_taken_is_read_whole_and_bounded(
+    tmp_path, monkeypatch, size, ok
+):
+    """A file that grows between the size check and the read (here: its size reported
+    as 3 bytes) is read on to its end, and still refused past the limit (the guard's own
+    rule; common practice, no source)."""
+    p = tmp_path / "a.txt"
+    p.write_bytes(b"y" * size)
+    real_stat = Path.stat
+
+    def small_stat(self, *a, **k):
+        st = real_stat(self, *a, **k)
+        return os.stat_result((st.st_mode, *st[1:6], 3, *st[7:]))
+
+    monkeypatch.setattr(Path, "stat", small_stat)
+    if ok:
+        assert read_bytes(p, KIND) == b"y" * size
+    else:
+        with pytest.raises(FileRefused, match="11 bytes"):
+            read_bytes(p, KIND)
+
+
 def test_larger_file_refused_with_its_size(tmp_path):
     p = tmp_path / "a.txt"
     p.write_bytes(b"x" * 11)
