@@ -127,6 +127,7 @@ class ScheduleBatch:
             [p.main_device_a for p in ratings],
         )
         out = {}
+        column = _columns(k.circuits)
         for j, pid in enumerate(demand.panel_ids):
             a, b = int(starts[j]), int(starts[j + 1])
             findings = each[j]
@@ -134,7 +135,7 @@ class ScheduleBatch:
                 self.schedules[pid],
                 g.system,
                 (
-                    _later_rows(k.circuits, a, b),
+                    _later_rows(k.circuits, a, b, column),
                     _totals_of(records[j], g.occupancy, g.system),
                     _later_rows(k.panels, j, j + 1),
                 ),
@@ -203,9 +204,25 @@ def _rows(frame, a: int, b: int):
     return part
 
 
-def _later_rows(frame, a: int, b: int):
-    """:func:`_rows`, cut out when first read (None stays None)."""
-    return None if frame is None else Later(lambda: _rows(frame, a, b))
+def _later_rows(frame, a: int, b: int, column=None):
+    """:func:`_rows`, cut out when first read (None stays None); ``column`` (name → the
+    group's whole column, :func:`_columns`) lets a reader take a column's rows without
+    the cut (``ScheduleResult.circuit_column``)."""
+    if frame is None:
+        return None
+    return Later(lambda: _rows(frame, a, b), None if column is None else (column, a, b))
+
+
+def _columns(frame):
+    """name → the frame's column as an array, each fetched once."""
+    got: dict = {}
+
+    def column(name: str) -> np.ndarray:
+        if name not in got:
+            got[name] = frame[name].to_numpy()
+        return got[name]
+
+    return column
 
 
 def _slice_found(found: list, a: int, b: int) -> list:
@@ -292,21 +309,21 @@ def _joined_files(items, members, system, panel_opts, book) -> dict:
         k.panels, k.imbalance, k.per_phase, rules, system, [bus_a] * n, [main_a] * n
     )
     out = {}
+    column = _columns(k.circuits)
     for j, (pid, i) in enumerate(members.items()):
         a, b = int(starts[j]), int(starts[j + 1])
-        row = _rows(k.panels, j, j + 1)
         findings = each[j]
         out[pid] = schedule_result(
             items[i][0],
             system,
             (
-                _rows(k.circuits, a, b),
+                _later_rows(k.circuits, a, b, column),
                 totals[j],
-                row,
+                _later_rows(k.panels, j, j + 1),
             ),
             (k.q["panel"][a:b], k.q["circuit"][a:b], _slice_found(k.found, a, b), findings),
             loads[pid],
             {pid: loads[pid]},
-            _rows(k.review, a, b),
+            _later_rows(k.review, a, b),
         )
     return out

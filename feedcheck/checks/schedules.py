@@ -128,6 +128,16 @@ class ScheduleResult:
             return 1 if f.any_fail else 0
         return 1 if any(f.status == "fail" for f in self.findings) else 0
 
+    def circuit_column(self, name: str) -> np.ndarray:
+        """One column of ``circuits`` as an array: rows of the checked group's column
+        while this file's frame is not cut out yet (a summary reads a few columns of
+        every file), else the frame's."""
+        v = self.__dict__["_circuits"]
+        if isinstance(v, Later) and v.rows is not None:
+            column, a, b = v.rows
+            return column(name)[a:b]
+        return self.circuits[name].to_numpy()
+
     def __getstate__(self) -> dict:
         """Copies and pickles hold the built list and frames."""
         _get_findings(self)
@@ -170,10 +180,11 @@ class Later:
     """A frame not cut out yet: ``build()`` makes it, on first use (a job's panels are
     checked in one frame; each panel's rows are cut out only when read)."""
 
-    __slots__ = ("build",)
+    __slots__ = ("build", "rows")
 
-    def __init__(self, build):
+    def __init__(self, build, rows=None):
         self.build = build
+        self.rows = rows  # (column of the group's frame by name, a, b): its rows a:b
 
 
 _LATER = ("circuits", "panels", "review")

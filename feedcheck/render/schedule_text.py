@@ -58,18 +58,19 @@ def render_schedule_summary(results, show_all: bool, shown_circuits: int = 20) -
     lines = []
     n_fail = n_warn = n_circ = 0
     for r in results:
-        c = r.circuits
-        st = c["status"].to_numpy()
+        st = r.circuit_column("status")  # a few columns, not every file's frame cut out
         fails, warns = int((st == "fail").sum()), int((st == "warn").sum())
-        n_fail, n_warn, n_circ = n_fail + fails, n_warn + warns, n_circ + len(c)
-        lines.append(_totals_line(r, len(c), fails, warns))
+        n_fail, n_warn, n_circ = n_fail + fails, n_warn + warns, n_circ + len(st)
+        lines.append(_totals_line(r, len(st), fails, warns))
         for note in getattr(r, "notices", []):
             word = "WARN" if note.startswith(("warning:", "column")) else "note"
             lines.append(f"  {word:4}  {note.removeprefix('warning: ')}")
         bad = [i for i, v in enumerate(st.tolist()) if v != "ok"]
         shown = bad if show_all else bad[:shown_circuits]
         if shown:  # a column read only when a circuit of it is listed
-            panel, circuit, reason = (c[k].tolist() for k in ("panel", "circuit", "reason"))
+            panel, circuit, reason = (
+                r.circuit_column(k).tolist() for k in ("panel", "circuit", "reason")
+            )
         for i in shown:
             word = status_word(st[i], loud=True)
             lines.append(f"  {word:4}  {panel[i]}/{circuit[i]}  {reason[i]}")

@@ -1,6 +1,7 @@
 """The job's schedules checked in one frame equal each schedule checked on its own
 (identity between two ways of the same computation, on invented data)."""
 
+import numpy as np
 import pandas as pd
 
 from feedcheck.checks.schedules import check_schedule, schedule_demand
@@ -95,3 +96,25 @@ def test_stacked_frames_equal_pandas_concat(tmp_path):
     odd = frames[1].assign(circuit=frames[1]["circuit"].astype(float))
     assert _stacked([frames[0], odd]) is None
     assert _stacked([frames[0], frames[1].iloc[::-1]]) is None  # not a default index
+
+
+def test_circuit_column_before_the_cut_equals_the_cut_frame(tmp_path):
+    # identity between two ways of reading the same column (no published value): a
+    # column read from the group's frame (not cut yet) equals the cut frame's column
+    from feedcheck.checks.schedule_batch import check_files
+    from feedcheck.inputs.schedule_file import read_schedule
+    from feedcheck.units import parse_voltage_system
+
+    job_text(5, tmp_path)
+    scheds = [read_schedule(p) for p in sorted(tmp_path.glob("*.csv"))]
+    system, book = parse_voltage_system("208Y/120 V"), current_rulebook()
+    got = check_files([(s, system) for s in scheds], 1.5, "other", 100.0, 100.0, book)
+    names = ("status", "panel", "circuit", "reason")
+    before = [{k: g.circuit_column(k) for k in names} for g in got]
+    assert all(g.__dict__["_circuits"].rows is not None for g in got)  # the fast path
+    for g, cols in zip(got, before, strict=True):
+        for k in names:
+            want = g.circuits[k].to_numpy()  # cuts the frame
+            assert cols[k].dtype == want.dtype and cols[k].tolist() == want.tolist()
+            np.testing.assert_array_equal(g.circuit_column(k), want)  # after the cut
+    assert {g.circuit_column("panel")[0] for g in got} == {s.panels[0] for s in scheds}
