@@ -127,7 +127,7 @@ class ScheduleBatch:
             [p.main_device_a for p in ratings],
         )
         out = {}
-        column = _columns(k.circuits)
+        column, panel_column = _columns(k.circuits), _columns(k.panels)
         for j, pid in enumerate(demand.panel_ids):
             a, b = int(starts[j]), int(starts[j + 1])
             findings = each[j]
@@ -137,7 +137,7 @@ class ScheduleBatch:
                 (
                     _later_rows(k.circuits, a, b, column),
                     _totals_of(records[j], g.occupancy, g.system),
-                    _later_rows(k.panels, j, j + 1),
+                    _later_rows(k.panels, j, j + 1, panel_column),
                 ),
                 (k.q["panel"][a:b], k.q["circuit"][a:b], _slice_found(k.found, a, b), findings),
                 loads[pid],
@@ -207,7 +207,7 @@ def _rows(frame, a: int, b: int):
 def _later_rows(frame, a: int, b: int, column=None):
     """:func:`_rows`, cut out when first read (None stays None); ``column`` (name → the
     group's whole column, :func:`_columns`) lets a reader take a column's rows without
-    the cut (``ScheduleResult.circuit_column``)."""
+    the cut (``ScheduleResult.column``)."""
     if frame is None:
         return None
     return Later(lambda: _rows(frame, a, b), None if column is None else (column, a, b))
@@ -309,7 +309,7 @@ def _joined_files(items, members, system, panel_opts, book) -> dict:
         k.panels, k.imbalance, k.per_phase, rules, system, [bus_a] * n, [main_a] * n
     )
     out = {}
-    column = _columns(k.circuits)
+    column, panel_column = _columns(k.circuits), _columns(k.panels)
     for j, (pid, i) in enumerate(members.items()):
         a, b = int(starts[j]), int(starts[j + 1])
         findings = each[j]
@@ -319,7 +319,7 @@ def _joined_files(items, members, system, panel_opts, book) -> dict:
             (
                 _later_rows(k.circuits, a, b, column),
                 totals[j],
-                _later_rows(k.panels, j, j + 1),
+                _later_rows(k.panels, j, j + 1, panel_column),
             ),
             (k.q["panel"][a:b], k.q["circuit"][a:b], _slice_found(k.found, a, b), findings),
             loads[pid],

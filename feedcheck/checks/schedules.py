@@ -128,15 +128,15 @@ class ScheduleResult:
             return 1 if f.any_fail else 0
         return 1 if any(f.status == "fail" for f in self.findings) else 0
 
-    def circuit_column(self, name: str) -> np.ndarray:
-        """One column of ``circuits`` as an array: rows of the checked group's column
-        while this file's frame is not cut out yet (a summary reads a few columns of
-        every file), else the frame's."""
-        v = self.__dict__["_circuits"]
+    def column(self, table: str, name: str) -> np.ndarray:
+        """One column of ``circuits`` or ``panels`` as an array: rows of the checked
+        group's column while this file's frame is not cut out yet (a summary reads a few
+        columns of every file), else the frame's."""
+        v = self.__dict__["_" + table]
         if isinstance(v, Later) and v.rows is not None:
             column, a, b = v.rows
             return column(name)[a:b]
-        return self.circuits[name].to_numpy()
+        return getattr(self, table)[name].to_numpy()
 
     def __getstate__(self) -> dict:
         """Copies and pickles hold the built list and frames."""

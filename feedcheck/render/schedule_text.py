@@ -58,7 +58,7 @@ def render_schedule_summary(results, show_all: bool, shown_circuits: int = 20) -
     lines = []
     n_fail = n_warn = n_circ = 0
     for r in results:
-        st = r.circuit_column("status")  # a few columns, not every file's frame cut out
+        st = r.column("circuits", "status")  # a few columns, not every file's frame cut out
         fails, warns = int((st == "fail").sum()), int((st == "warn").sum())
         n_fail, n_warn, n_circ = n_fail + fails, n_warn + warns, n_circ + len(st)
         lines.append(_totals_line(r, len(st), fails, warns))
@@ -69,7 +69,7 @@ def render_schedule_summary(results, show_all: bool, shown_circuits: int = 20) -
         shown = bad if show_all else bad[:shown_circuits]
         if shown:  # a column read only when a circuit of it is listed
             panel, circuit, reason = (
-                r.circuit_column(k).tolist() for k in ("panel", "circuit", "reason")
+                r.column("circuits", k).tolist() for k in ("panel", "circuit", "reason")
             )
         for i in shown:
             word = status_word(st[i], loud=True)
@@ -77,7 +77,7 @@ def render_schedule_summary(results, show_all: bool, shown_circuits: int = 20) -
         if len(bad) > len(shown):
             lines.append(f"  … {len(bad) - len(shown)} more (--all lists them, --out saves all)")
         loud = [f for f in r.findings if f.status in ("fail", "warn")]
-        panel_ids = set(r.panels["panel"]) if loud else set()
+        panel_ids = set(r.column("panels", "panel").tolist()) if loud else set()
         for f in loud:
             if f.subject in panel_ids:
                 word = status_word(f.status, loud=True)

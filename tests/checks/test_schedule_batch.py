@@ -110,11 +110,15 @@ def test_circuit_column_before_the_cut_equals_the_cut_frame(tmp_path):
     system, book = parse_voltage_system("208Y/120 V"), current_rulebook()
     got = check_files([(s, system) for s in scheds], 1.5, "other", 100.0, 100.0, book)
     names = ("status", "panel", "circuit", "reason")
-    before = [{k: g.circuit_column(k) for k in names} for g in got]
+    before = [{k: g.column("circuits", k) for k in names} for g in got]
     assert all(g.__dict__["_circuits"].rows is not None for g in got)  # the fast path
     for g, cols in zip(got, before, strict=True):
         for k in names:
             want = g.circuits[k].to_numpy()  # cuts the frame
             assert cols[k].dtype == want.dtype and cols[k].tolist() == want.tolist()
-            np.testing.assert_array_equal(g.circuit_column(k), want)  # after the cut
-    assert {g.circuit_column("panel")[0] for g in got} == {s.panels[0] for s in scheds}
+            np.testing.assert_array_equal(g.column("circuits", k), want)  # after the cut
+    assert {g.column("circuits", "panel")[0] for g in got} == {s.panels[0] for s in scheds}
+    for g in got:  # the panel table likewise
+        panel = g.column("panels", "panel")
+        assert g.__dict__["_panels"].rows is not None
+        assert panel.tolist() == g.panels["panel"].tolist() == [g.totals["panel"]]
