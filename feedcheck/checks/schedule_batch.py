@@ -151,8 +151,11 @@ def _join(schedules: list[Schedule]) -> Schedule:
     """One schedule holding the circuits of several one-panel schedules, in order."""
     import pandas as pd
 
+    from ..inputs.schedule_alike import cut_from
+
     frames = [s.circuits for s in schedules]
-    circuits = _stacked(frames)
+    cut = cut_from(schedules)  # the reader's one frame, its rows taken as they are
+    circuits = _rows(*cut) if cut is not None else _stacked(frames)
     if circuits is None:
         circuits = pd.concat(frames, ignore_index=True)
     panels = tuple(p for s in schedules for p in s.panels)

@@ -293,19 +293,49 @@ def _read_alike(entries: list[_Entry]) -> list[Schedule | InputError]:
         value_notices(found, rows[a:b], assumed[a:b], notices)
         compare_totals(totals[f], load[a:b], panel[a:b], scale, unit.upper(), notices)
         panels = tuple(dict.fromkeys(panel[a:b].tolist()))
-        out.append(
-            Schedule(
-                e.path,
-                part,
-                values["load_unit"],
-                panels,
-                tuple(notices),
-                spaces[f],
-                "ft" if found["length"][2] in ("", "ft", "feet", "foot") else "m",
-                systems[f],
-            )
+        sched = Schedule(
+            e.path,
+            part,
+            values["load_unit"],
+            panels,
+            tuple(notices),
+            spaces[f],
+            "ft" if found["length"][2] in ("", "ft", "feet", "foot") else "m",
+            systems[f],
         )
+        out.append(sched)
+        mark_cut(sched, frame, a, b)
     return out
+
+
+CUT = "_cut_from"  # a Schedule's attribute (not a field): the frame its rows were cut from
+
+
+def mark_cut(schedule: Schedule, frame, a: int, b: int) -> None:
+    """Note on ``schedule`` that its circuits are rows ``a:b`` of ``frame`` (with the
+    blocks they hold now): a check of several such schedules takes the rows of the one
+    frame instead of joining the pieces again (checks/schedule_batch.py)."""
+    blocks = tuple(schedule.circuits._mgr.blocks)
+    object.__setattr__(schedule, CUT, (frame, a, b, blocks))  # frozen: not a field
+
+
+def cut_from(schedules: list) -> tuple | None:
+    """``(frame, a, b)`` when the circuits of ``schedules`` are, in order, consecutive
+    rows ``a:b`` of one frame (:func:`mark_cut`) and each still holds the blocks it was
+    cut with (a column set or replaced since: None, the pieces are joined)."""
+    first = getattr(schedules[0], CUT, None)
+    if first is None:
+        return None
+    frame, start, end = first[0], first[1], first[1]
+    for s in schedules:
+        got = getattr(s, CUT, None)
+        if got is None or got[0] is not frame or got[1] != end:
+            return None
+        now = s.circuits._mgr.blocks
+        if len(now) != len(got[3]) or any(x is not y for x, y in zip(now, got[3], strict=True)):
+            return None
+        end = got[2]
+    return frame, start, end
 
 
 def _body_cells(entries: list[_Entry], width: int) -> np.ndarray:
