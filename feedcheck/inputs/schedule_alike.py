@@ -53,7 +53,6 @@ from .schedule_rows import (
     classify,
     columns_of,
     compare_totals,
-    panel_spaces,
     pole_counts,
     spares_notice,
     unfold_two_column,
@@ -425,18 +424,38 @@ def _set_aside(body: _Body, found, defaults):
     spare_poles = np.bincount(body.file_of, poles * (kind == SPARE), body.n_files)
     space_poles = np.bincount(body.file_of, poles * (kind == SPACE), body.n_files)
     n_wired = body.counts(wired)
-    ends = np.cumsum(body.counts())
     spaces, notes = [], []
+    if "panel" in found:
+        spaces = _panel_spaces_each(panel, kind, poles, body.file_of, body.n_files)
     for f in range(body.n_files):
-        if "panel" in found:
-            a, b = int(ends[f - 1]) if f else 0, int(ends[f])
-            spaces.append(panel_spaces(panel[a:b], kind[a:b], poles[a:b]))
-        else:
+        if "panel" not in found:
             spaces.append({defaults[f]: (int(spare_poles[f]), int(space_poles[f]))})
         note = spares_notice(int(n_spare[f]), int(n_space[f]), int(n_wired[f]))
         notes.append([note] if note else [])
     body = body.only((kind == CIRCUIT) | wired)
     return body, (spaces, notes, totals), body.counts() == 0
+
+
+def _panel_spaces_each(panel, kind, poles, file_of, n_files: int) -> list[dict]:
+    """:func:`~.schedule_rows.panel_spaces` of every file at once: each file's panels in
+    the order met (totals rows aside), their spare and space poles."""
+    import pandas as pd
+
+    pcode, puniq = pd.factorize(panel)
+    n = max(len(puniq), 1)
+    key = file_of.astype(np.int64) * n + pcode  # each file and panel its own number
+    keys, first = np.unique(key[kind != TOTAL], return_index=True)
+    at = np.minimum(np.searchsorted(keys, key), max(len(keys) - 1, 0))
+    mine = (keys[at] == key) if len(keys) else np.zeros(len(key), dtype=bool)
+    sums = [
+        np.bincount(at[mine], weights=(poles * (kind == k))[mine], minlength=len(keys)).tolist()
+        for k in (SPARE, SPACE)
+    ]
+    out: list[dict] = [{} for _ in range(n_files)]
+    for j in np.argsort(first, kind="stable").tolist():  # the order met
+        f, p = divmod(int(keys[j]), n)
+        out[f][str(puniq[p])] = (int(sums[0][j]), int(sums[1][j]))
+    return out
 
 
 def _totals(body: _Body, column, kind) -> list[list]:
