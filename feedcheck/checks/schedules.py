@@ -552,8 +552,25 @@ def _totals(panels, demand: ScheduleDemand, imbalance, n: int, occupancy: str, s
 
 
 def panel_totals(panels, occupancy: str, system) -> list[dict]:
-    """Each panel's figures as the totals of a one-panel schedule (Python numbers)."""
-    return [totals_of_record(row, occupancy, system) for row in panels.to_dict("records")]
+    """Each panel's figures as the totals of a one-panel schedule (Python numbers):
+    :func:`totals_of_record` of each record, converted a column at a time."""
+    keys = [str(k) for k in panels.columns]
+    if len(keys) != len(set(keys)) or keys != list(panels.columns):
+        return [totals_of_record(row, occupancy, system) for row in panels.to_dict("records")]
+    cols = []
+    for k in keys:
+        a = panels[k].to_numpy()
+        if a.dtype.kind in "iuf":  # whole numbers stay whole, others floats
+            cols.append(a.tolist())
+        else:
+            cols.append([totals_of_record({k: v}, "", system)[k] for v in a.tolist()])
+    out = []
+    for values in zip(*cols, strict=True):
+        totals = dict(zip(keys, values, strict=True))
+        totals["occupancy"] = occupancy
+        totals["system"] = system.text
+        out.append(totals)
+    return out
 
 
 def totals_of_record(row: dict, occupancy: str, system) -> dict:

@@ -175,3 +175,28 @@ def test_reader_frame_not_taken_once_a_piece_changed(tmp_path):
     assert cut_from(scheds) is None
     joined = _join(scheds).circuits
     assert joined["pf"].iloc[len(scheds[0].circuits)] == 0.5  # the piece as it is now
+
+
+def test_panel_totals_by_column_equal_totals_of_each_record():
+    # identity between two ways of the same conversion (no published value): values
+    # and Python types, column by column and record by record
+    from feedcheck.checks.schedules import panel_totals, totals_of_record
+    from feedcheck.units import parse_voltage_system
+
+    system = parse_voltage_system("208Y/120 V")
+    panels = pd.DataFrame(
+        {
+            "panel": ["A", "B", "C"],
+            "circuits": np.array([3, 0, 12], dtype=np.int64),
+            "connected_va": [1800.0, 0.0, float("nan")],
+            "spares": np.array([1, 2, 3], dtype=np.int32),
+            "worst": np.array([np.float64(2.5), np.int64(4), "x"], dtype=object),
+            "flag": [True, False, True],
+        }
+    )
+    got = panel_totals(panels, "other", system)
+    want = [totals_of_record(r, "other", system) for r in panels.to_dict("records")]
+    assert [[(k, type(v)) for k, v in t.items()] for t in got] == [
+        [(k, type(v)) for k, v in t.items()] for t in want
+    ]
+    assert repr(got) == repr(want)  # NaN compares unequal; its text does not
