@@ -58,14 +58,15 @@ def render_schedule_summary(results, show_all: bool, shown_circuits: int = 20) -
     lines = []
     n_fail = n_warn = n_circ = 0
     for r in results:
-        st = r.column("circuits", "status")  # a few columns, not every file's frame cut out
-        fails, warns = int((st == "fail").sum()), int((st == "warn").sum())
+        # a few columns, not every file's frame cut out
+        st = r.column("circuits", "status").tolist()
+        fails, warns = st.count("fail"), st.count("warn")
         n_fail, n_warn, n_circ = n_fail + fails, n_warn + warns, n_circ + len(st)
         lines.append(_totals_line(r, len(st), fails, warns))
         for note in getattr(r, "notices", []):
             word = "WARN" if note.startswith(("warning:", "column")) else "note"
             lines.append(f"  {word:4}  {note.removeprefix('warning: ')}")
-        bad = [i for i, v in enumerate(st.tolist()) if v != "ok"]
+        bad = [i for i, v in enumerate(st) if v != "ok"]
         shown = bad if show_all else bad[:shown_circuits]
         if shown:  # a column read only when a circuit of it is listed
             panel, circuit, reason = (
