@@ -12,6 +12,10 @@ the same figures, findings and order as checking each panel on its own
 
 A group of one panel, or a group whose joined check reports bad input (a conductor the
 table lacks: the message must name the panel's own file), is checked panel by panel.
+Files the reader read together are consecutive rows of its one frame
+(:func:`~feedcheck.inputs.schedule_alike.cut_from`): their rows are taken as they are, not
+joined again; each result's frames are cut out of the group's when first read, and a
+summary reads a few columns without the cut (``ScheduleResult.column``).
 """
 
 from __future__ import annotations
