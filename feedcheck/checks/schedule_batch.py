@@ -12,6 +12,10 @@ the same figures, findings and order as checking each panel on its own
 
 A group of one panel, or a group whose joined check reports bad input (a conductor the
 table lacks: the message must name the panel's own file), is checked panel by panel.
+Files the reader read together are consecutive rows of its one frame
+(:func:`~feedcheck.inputs.schedule_alike.cut_from`): their rows are taken as they are, not
+joined again; each result's frames are cut out of the group's when first read, and a
+summary reads a few columns without the cut (``ScheduleResult.column``).
 """
 
 from __future__ import annotations
@@ -127,6 +131,7 @@ class ScheduleBatch:
             [p.main_device_a for p in ratings],
         )
         out = {}
+        column, panel_column = _columns(k.circuits), _columns(k.panels)
         for j, pid in enumerate(demand.panel_ids):
             a, b = int(starts[j]), int(starts[j + 1])
             findings = each[j]
@@ -134,9 +139,9 @@ class ScheduleBatch:
                 self.schedules[pid],
                 g.system,
                 (
-                    _later_rows(k.circuits, a, b),
+                    _later_rows(k.circuits, a, b, column),
                     _totals_of(records[j], g.occupancy, g.system),
-                    _later_rows(k.panels, j, j + 1),
+                    _later_rows(k.panels, j, j + 1, panel_column),
                 ),
                 (k.q["panel"][a:b], k.q["circuit"][a:b], _slice_found(k.found, a, b), findings),
                 loads[pid],
@@ -150,8 +155,11 @@ def _join(schedules: list[Schedule]) -> Schedule:
     """One schedule holding the circuits of several one-panel schedules, in order."""
     import pandas as pd
 
+    from ..inputs.schedule_alike import cut_from
+
     frames = [s.circuits for s in schedules]
-    circuits = _stacked(frames)
+    cut = cut_from(schedules)  # the reader's one frame, its rows taken as they are
+    circuits = _rows(*cut) if cut is not None else _stacked(frames)
     if circuits is None:
         circuits = pd.concat(frames, ignore_index=True)
     panels = tuple(p for s in schedules for p in s.panels)
@@ -203,9 +211,25 @@ def _rows(frame, a: int, b: int):
     return part
 
 
-def _later_rows(frame, a: int, b: int):
-    """:func:`_rows`, cut out when first read (None stays None)."""
-    return None if frame is None else Later(lambda: _rows(frame, a, b))
+def _later_rows(frame, a: int, b: int, column=None):
+    """:func:`_rows`, cut out when first read (None stays None); ``column`` (name → the
+    group's whole column, :func:`_columns`) lets a reader take a column's rows without
+    the cut (``ScheduleResult.column``)."""
+    if frame is None:
+        return None
+    return Later(lambda: _rows(frame, a, b), None if column is None else (column, a, b))
+
+
+def _columns(frame):
+    """name → the frame's column as an array, each fetched once."""
+    got: dict = {}
+
+    def column(name: str) -> np.ndarray:
+        if name not in got:
+            got[name] = frame[name].to_numpy()
+        return got[name]
+
+    return column
 
 
 def _slice_found(found: list, a: int, b: int) -> list:
@@ -292,21 +316,21 @@ def _joined_files(items, members, system, panel_opts, book) -> dict:
         k.panels, k.imbalance, k.per_phase, rules, system, [bus_a] * n, [main_a] * n
     )
     out = {}
+    column, panel_column = _columns(k.circuits), _columns(k.panels)
     for j, (pid, i) in enumerate(members.items()):
         a, b = int(starts[j]), int(starts[j + 1])
-        row = _rows(k.panels, j, j + 1)
         findings = each[j]
         out[pid] = schedule_result(
             items[i][0],
             system,
             (
-                _rows(k.circuits, a, b),
+                _later_rows(k.circuits, a, b, column),
                 totals[j],
-                row,
+                _later_rows(k.panels, j, j + 1, panel_column),
             ),
             (k.q["panel"][a:b], k.q["circuit"][a:b], _slice_found(k.found, a, b), findings),
             loads[pid],
             {pid: loads[pid]},
-            _rows(k.review, a, b),
+            _later_rows(k.review, a, b),
         )
     return out

@@ -128,6 +128,16 @@ class ScheduleResult:
             return 1 if f.any_fail else 0
         return 1 if any(f.status == "fail" for f in self.findings) else 0
 
+    def column(self, table: str, name: str) -> np.ndarray:
+        """One column of ``circuits`` or ``panels`` as an array: rows of the checked
+        group's column while this file's frame is not cut out yet (a summary reads a few
+        columns of every file), else the frame's."""
+        v = self.__dict__["_" + table]
+        if isinstance(v, Later) and v.rows is not None:
+            column, a, b = v.rows
+            return column(name)[a:b]
+        return getattr(self, table)[name].to_numpy()
+
     def __getstate__(self) -> dict:
         """Copies and pickles hold the built list and frames."""
         _get_findings(self)
@@ -170,10 +180,11 @@ class Later:
     """A frame not cut out yet: ``build()`` makes it, on first use (a job's panels are
     checked in one frame; each panel's rows are cut out only when read)."""
 
-    __slots__ = ("build",)
+    __slots__ = ("build", "rows")
 
-    def __init__(self, build):
+    def __init__(self, build, rows=None):
         self.build = build
+        self.rows = rows  # (column of the group's frame by name, a, b): its rows a:b
 
 
 _LATER = ("circuits", "panels", "review")
@@ -541,8 +552,25 @@ def _totals(panels, demand: ScheduleDemand, imbalance, n: int, occupancy: str, s
 
 
 def panel_totals(panels, occupancy: str, system) -> list[dict]:
-    """Each panel's figures as the totals of a one-panel schedule (Python numbers)."""
-    return [totals_of_record(row, occupancy, system) for row in panels.to_dict("records")]
+    """Each panel's figures as the totals of a one-panel schedule (Python numbers):
+    :func:`totals_of_record` of each record, converted a column at a time."""
+    keys = [str(k) for k in panels.columns]
+    if len(keys) != len(set(keys)) or keys != list(panels.columns):
+        return [totals_of_record(row, occupancy, system) for row in panels.to_dict("records")]
+    cols = []
+    for k in keys:
+        a = panels[k].to_numpy()
+        if a.dtype.kind in "iuf":  # whole numbers stay whole, others floats
+            cols.append(a.tolist())
+        else:
+            cols.append([totals_of_record({k: v}, "", system)[k] for v in a.tolist()])
+    out = []
+    for values in zip(*cols, strict=True):
+        totals = dict(zip(keys, values, strict=True))
+        totals["occupancy"] = occupancy
+        totals["system"] = system.text
+        out.append(totals)
+    return out
 
 
 def totals_of_record(row: dict, occupancy: str, system) -> dict:

@@ -372,6 +372,20 @@ def _file_system(path: Path, schedule, opts):
 
 
 def _from_files(files, opts, panel_opts, done, unreadable):
+    import gc
+
+    import pandas  # noqa: F401  (its objects among those set aside below)
+
+    # the objects made so far (the modules) are left out of the garbage collector's
+    # passes while the files are read and checked (2,000 files: 0.03 s of its 0.07 s)
+    gc.freeze()
+    try:
+        return _checked_files(files, opts, panel_opts, done, unreadable)
+    finally:
+        gc.unfreeze()
+
+
+def _checked_files(files, opts, panel_opts, done, unreadable):
     from ..checks.schedule_batch import check_files
     from ..errors import InputError
     from ..rulebook import current_rulebook

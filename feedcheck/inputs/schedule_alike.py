@@ -53,7 +53,6 @@ from .schedule_rows import (
     classify,
     columns_of,
     compare_totals,
-    panel_spaces,
     pole_counts,
     spares_notice,
     unfold_two_column,
@@ -293,19 +292,49 @@ def _read_alike(entries: list[_Entry]) -> list[Schedule | InputError]:
         value_notices(found, rows[a:b], assumed[a:b], notices)
         compare_totals(totals[f], load[a:b], panel[a:b], scale, unit.upper(), notices)
         panels = tuple(dict.fromkeys(panel[a:b].tolist()))
-        out.append(
-            Schedule(
-                e.path,
-                part,
-                values["load_unit"],
-                panels,
-                tuple(notices),
-                spaces[f],
-                "ft" if found["length"][2] in ("", "ft", "feet", "foot") else "m",
-                systems[f],
-            )
+        sched = Schedule(
+            e.path,
+            part,
+            values["load_unit"],
+            panels,
+            tuple(notices),
+            spaces[f],
+            "ft" if found["length"][2] in ("", "ft", "feet", "foot") else "m",
+            systems[f],
         )
+        out.append(sched)
+        mark_cut(sched, frame, a, b)
     return out
+
+
+CUT = "_cut_from"  # a Schedule's attribute (not a field): the frame its rows were cut from
+
+
+def mark_cut(schedule: Schedule, frame, a: int, b: int) -> None:
+    """Note on ``schedule`` that its circuits are rows ``a:b`` of ``frame`` (with the
+    blocks they hold now): a check of several such schedules takes the rows of the one
+    frame instead of joining the pieces again (checks/schedule_batch.py)."""
+    blocks = tuple(schedule.circuits._mgr.blocks)
+    object.__setattr__(schedule, CUT, (frame, a, b, blocks))  # frozen: not a field
+
+
+def cut_from(schedules: list) -> tuple | None:
+    """``(frame, a, b)`` when the circuits of ``schedules`` are, in order, consecutive
+    rows ``a:b`` of one frame (:func:`mark_cut`) and each still holds the blocks it was
+    cut with (a column set or replaced since: None, the pieces are joined)."""
+    first = getattr(schedules[0], CUT, None)
+    if first is None:
+        return None
+    frame, start, end = first[0], first[1], first[1]
+    for s in schedules:
+        got = getattr(s, CUT, None)
+        if got is None or got[0] is not frame or got[1] != end:
+            return None
+        now = s.circuits._mgr.blocks
+        if len(now) != len(got[3]) or any(x is not y for x, y in zip(now, got[3], strict=True)):
+            return None
+        end = got[2]
+    return frame, start, end
 
 
 def _body_cells(entries: list[_Entry], width: int) -> np.ndarray:
@@ -395,18 +424,38 @@ def _set_aside(body: _Body, found, defaults):
     spare_poles = np.bincount(body.file_of, poles * (kind == SPARE), body.n_files)
     space_poles = np.bincount(body.file_of, poles * (kind == SPACE), body.n_files)
     n_wired = body.counts(wired)
-    ends = np.cumsum(body.counts())
     spaces, notes = [], []
+    if "panel" in found:
+        spaces = _panel_spaces_each(panel, kind, poles, body.file_of, body.n_files)
     for f in range(body.n_files):
-        if "panel" in found:
-            a, b = int(ends[f - 1]) if f else 0, int(ends[f])
-            spaces.append(panel_spaces(panel[a:b], kind[a:b], poles[a:b]))
-        else:
+        if "panel" not in found:
             spaces.append({defaults[f]: (int(spare_poles[f]), int(space_poles[f]))})
         note = spares_notice(int(n_spare[f]), int(n_space[f]), int(n_wired[f]))
         notes.append([note] if note else [])
     body = body.only((kind == CIRCUIT) | wired)
     return body, (spaces, notes, totals), body.counts() == 0
+
+
+def _panel_spaces_each(panel, kind, poles, file_of, n_files: int) -> list[dict]:
+    """:func:`~.schedule_rows.panel_spaces` of every file at once: each file's panels in
+    the order met (totals rows aside), their spare and space poles."""
+    import pandas as pd
+
+    pcode, puniq = pd.factorize(panel)
+    n = max(len(puniq), 1)
+    key = file_of.astype(np.int64) * n + pcode  # each file and panel its own number
+    keys, first = np.unique(key[kind != TOTAL], return_index=True)
+    at = np.minimum(np.searchsorted(keys, key), max(len(keys) - 1, 0))
+    mine = (keys[at] == key) if len(keys) else np.zeros(len(key), dtype=bool)
+    sums = [
+        np.bincount(at[mine], weights=(poles * (kind == k))[mine], minlength=len(keys)).tolist()
+        for k in (SPARE, SPACE)
+    ]
+    out: list[dict] = [{} for _ in range(n_files)]
+    for j in np.argsort(first, kind="stable").tolist():  # the order met
+        f, p = divmod(int(keys[j]), n)
+        out[f][str(puniq[p])] = (int(sums[0][j]), int(sums[1][j]))
+    return out
 
 
 def _totals(body: _Body, column, kind) -> list[list]:

@@ -58,25 +58,27 @@ def render_schedule_summary(results, show_all: bool, shown_circuits: int = 20) -
     lines = []
     n_fail = n_warn = n_circ = 0
     for r in results:
-        c = r.circuits
-        st = c["status"].to_numpy()
-        fails, warns = int((st == "fail").sum()), int((st == "warn").sum())
-        n_fail, n_warn, n_circ = n_fail + fails, n_warn + warns, n_circ + len(c)
-        lines.append(_totals_line(r, len(c), fails, warns))
+        # a few columns, not every file's frame cut out
+        st = r.column("circuits", "status").tolist()
+        fails, warns = st.count("fail"), st.count("warn")
+        n_fail, n_warn, n_circ = n_fail + fails, n_warn + warns, n_circ + len(st)
+        lines.append(_totals_line(r, len(st), fails, warns))
         for note in getattr(r, "notices", []):
             word = "WARN" if note.startswith(("warning:", "column")) else "note"
             lines.append(f"  {word:4}  {note.removeprefix('warning: ')}")
-        bad = [i for i, v in enumerate(st.tolist()) if v != "ok"]
+        bad = [i for i, v in enumerate(st) if v != "ok"]
         shown = bad if show_all else bad[:shown_circuits]
         if shown:  # a column read only when a circuit of it is listed
-            panel, circuit, reason = (c[k].tolist() for k in ("panel", "circuit", "reason"))
+            panel, circuit, reason = (
+                r.column("circuits", k).tolist() for k in ("panel", "circuit", "reason")
+            )
         for i in shown:
             word = status_word(st[i], loud=True)
             lines.append(f"  {word:4}  {panel[i]}/{circuit[i]}  {reason[i]}")
         if len(bad) > len(shown):
             lines.append(f"  … {len(bad) - len(shown)} more (--all lists them, --out saves all)")
         loud = [f for f in r.findings if f.status in ("fail", "warn")]
-        panel_ids = set(r.panels["panel"]) if loud else set()
+        panel_ids = set(r.column("panels", "panel").tolist()) if loud else set()
         for f in loud:
             if f.subject in panel_ids:
                 word = status_word(f.status, loud=True)

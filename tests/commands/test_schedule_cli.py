@@ -118,3 +118,17 @@ def test_folder_with_progress_and_interrupt_leaves_nothing(samples, tmp_path, mo
 def test_out_suffix_checked(samples, tmp_path, name):
     r = _run("schedule", samples / "LP1.csv", *WYE, "--out", tmp_path / name)
     assert r.exit_code == 2 and ".csv, .xlsx or .json" in r.output
+
+
+def test_collector_set_back_after_the_files(samples, tmp_path):
+    # the objects set aside from the garbage collector while files are read are given
+    # back, a good run or a refused one (no published value: the process's own state)
+    import gc
+
+    bad = tmp_path / "LP2.csv"
+    bad.write_text("circuit,load [VA],breaker [A],conductor\n1,lots,20,12 AWG Cu\n")
+    before = gc.get_freeze_count()
+    assert _run("schedule", samples / "LP1.csv", *WYE).exit_code == 0
+    assert gc.get_freeze_count() == before
+    assert _run("schedule", bad, *WYE).exit_code == 2
+    assert gc.get_freeze_count() == before

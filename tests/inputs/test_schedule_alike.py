@@ -275,3 +275,26 @@ def test_files_too_wide_or_too_long_read_alone(tmp_path, monkeypatch):
     for path, g in zip(paths, got, strict=True):
         assert_same(g, _alone(path))
     assert [isinstance(g, InputError) for g in got] == [False, True, True]
+
+
+@pytest.mark.parametrize("seed", range(20))
+def test_spaces_of_every_file_at_once_equal_each_file_alone(seed):
+    # identity between two ways of the same count (no published value): each file's
+    # spare and space poles per panel, counted for all files at once and file by file
+    from feedcheck.inputs.schedule_alike import _panel_spaces_each
+    from feedcheck.inputs.schedule_rows import CIRCUIT, SPACE, SPARE, TOTAL, panel_spaces
+
+    rng = np.random.default_rng(seed)
+    n_files = int(rng.integers(1, 6))
+    sizes = rng.integers(0, 9, n_files)
+    file_of = np.repeat(np.arange(n_files), sizes)
+    n = len(file_of)
+    panel = np.array([f"P{k}" for k in rng.integers(0, 4, n)] + [None], dtype=object)[:-1]
+    kind = rng.choice(np.array([CIRCUIT, SPARE, SPACE, TOTAL]), n)
+    poles = rng.integers(1, 4, n)
+    got = _panel_spaces_each(panel, kind, poles, file_of, n_files)
+    ends = np.cumsum(sizes)
+    for f in range(n_files):
+        a, b = int(ends[f - 1]) if f else 0, int(ends[f])
+        want = panel_spaces(panel[a:b], kind[a:b], poles[a:b])
+        assert got[f] == want and list(got[f]) == list(want)  # the order met too
