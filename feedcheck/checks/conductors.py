@@ -205,7 +205,7 @@ def check_run(ctx: Context, run: Run) -> None:
     tree = ctx.tree
     sh = _run_sheet(ctx, run)
     cont, non, _pf = _loads(ctx, run)
-    device, where = run_device(ctx.job, run)
+    device, where = run_device(ctx, run)
     _device_source(ctx, run, sh, device, where)
     cc = run.current_carrying + (1 if run.harmonic_neutral else 0)
     rooftop_c = _rooftop_c(ctx, run, sh)

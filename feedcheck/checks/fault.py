@@ -528,7 +528,7 @@ def _clearing_device(ctx, panel_id: str, run) -> tuple[float | None, str]:
     words saying whose it is when it is not the run's own (a tap: the device of the
     conductors it is tapped from, NFPA 70-2023 240.21(B)). Where no device can be named
     the check is not evaluated: an ``info`` finding says so (never ``ok``)."""
-    device, where = run_device(ctx.job, run)  # the one rule of checks/taps.py
+    device, where = run_device(ctx, run)  # the one rule of checks/taps.py
     if device is not None:
         return device, ""
     if ctx.tree.kind.get(run.from_id) == "transformer":
@@ -537,7 +537,7 @@ def _clearing_device(ctx, panel_id: str, run) -> tuple[float | None, str]:
             "fault on its line side is cleared by the transformer's primary device alone"
         )
     elif where == "tap":
-        up, what = feeder_device(ctx.job, run)
+        up, what = feeder_device(ctx, run)
         if up is not None:
             return up, f"; {run.id} is a tap: the {what} must clear the fault"
         reason = f"{run.id} is a tap and {what}"

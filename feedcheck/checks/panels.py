@@ -112,7 +112,7 @@ def check_panel_protection(ctx: Context, panel: Panel) -> None:
     from .taps import bus_device
 
     ctx.method("Panelboard protected by a device rated at most its bus", "NFPA 70-2023 408.36")
-    device, what = bus_device(ctx.job, panel.id)
+    device, what = bus_device(ctx, panel.id)
     if device is None:
         ctx.add(
             panel.id,

@@ -85,26 +85,18 @@ def _failures(ctx: Context, run: Run, name: str, duty: RunDuty) -> list[str]:
 
 def select_for_duty(ctx: Context, run: Run, duty: RunDuty, term: float | None) -> Selection:
     """Smallest conductor of the run's material and system for its load and device."""
-    return select_conductor(
-        duty.cont_a,
-        duty.non_a,
-        run.material,
-        run.insulation_c,
-        run.ambient_c,
-        duty.cc,
-        termination_c=term,
-        sets=run.sets,
-        raceway=run.raceway,
-        device_a=duty.device_a,
-        rooftop_adder_c=duty.rooftop_c,
-        system=run.size.system,
-        data=ctx.rules.sizing,
-    )
+    return _for_duty(select_conductor, ctx, run, duty, term)
 
 
 def smallest_for_duty(ctx: Context, run: Run, duty: RunDuty, term: float | None) -> str:
     """The size :func:`select_for_duty` selects, alone (its ampacity chain not built)."""
-    return smallest_size(
+    return _for_duty(smallest_size, ctx, run, duty, term)
+
+
+def _for_duty(kernel, ctx: Context, run: Run, duty: RunDuty, term: float | None):
+    """``kernel`` (``select_conductor`` or ``smallest_size``: the same arguments) called
+    with the run's installation and ``duty``."""
+    return kernel(
         duty.cont_a,
         duty.non_a,
         run.material,

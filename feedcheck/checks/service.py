@@ -152,7 +152,7 @@ def _conductors(ctx: Context, run: Run) -> None:
         f"allowable {amp:.1f} A for {100 * ctx.design_factor():g} % × {cont:.1f} + "
         f"{non:.1f} A = {need:.1f} A",
     )
-    device, where = run_device(ctx.job, run)
+    device, where = run_device(ctx, run)
     if device is None:
         ctx.add(
             run.id, "service disconnect", None, None, "A", "fail", "service-device",

@@ -19,7 +19,7 @@ The one rule, stated (the same for every check that needs "the device of a run")
 
 from __future__ import annotations
 
-from ..model import SOURCE_ID, Job, Run
+from ..model import SOURCE_ID, Run
 from .context import Context
 
 FEEDER_TAPS = {"10 ft": "tap-10ft", "25 ft": "tap-25ft"}
@@ -29,25 +29,7 @@ SECONDARY_TAPS = {
 }
 
 
-_LOOKUPS: dict = {}  # id(job) -> (job, panels by id, transformers by id)
-
-
-def _lookups(job: Job) -> tuple[dict, dict]:
-    """The job's panels by id (the first of an id, as a scan finds it) and transformers by
-    id (the last of an id, as a dict built from them keeps it), made once per job (a job
-    is frozen: its tuples do not change) instead of a scan per run or panel."""
-    hit = _LOOKUPS.get(id(job))
-    if hit is None or hit[0] is not job:
-        panels: dict = {}
-        for p in job.panels:
-            panels.setdefault(p.id, p)
-        if len(_LOOKUPS) >= 8:
-            _LOOKUPS.clear()
-        hit = _LOOKUPS[id(job)] = (job, panels, {t.id: t for t in job.transformers})
-    return hit[1], hit[2]
-
-
-def run_device(job: Job, run: Run) -> tuple[float | None, str]:
+def run_device(ctx: Context, run: Run) -> tuple[float | None, str]:
     """The device protecting ``run`` and where it is: ``"run"``, ``"transformer primary"``,
     ``"transformer secondary"``, ``"service disconnect"`` (service conductors without a
     device at the source: the main device of the service equipment they end at, NFPA
@@ -59,49 +41,49 @@ def run_device(job: Job, run: Run) -> tuple[float | None, str]:
         return run.device_a, "run"
     if run.tap_rule:
         return None, "tap"
-    tx = _lookups(job)[1]
+    tx = ctx.transformer_by_id
     if run.to_id in tx:
         return tx[run.to_id].primary_device_a, "transformer primary"
     if run.from_id in tx and tx[run.from_id].secondary_device_a is not None:
         return tx[run.from_id].secondary_device_a, "transformer secondary"
     if run.from_id == SOURCE_ID:  # service conductors: protected at their load end
-        panel = _lookups(job)[0].get(run.to_id)
+        panel = ctx.panel_by_id.get(run.to_id)
         if panel is not None and panel.main_device_a is not None:
             return panel.main_device_a, "service disconnect"
     return None, ""
 
 
-def bus_device(job: Job, node: str) -> tuple[float | None, str]:
+def bus_device(ctx: Context, node: str) -> tuple[float | None, str]:
     """The device protecting the bus of panel ``node`` (408.36): its main device, else the
     device protecting the run into it (:func:`run_device`); a tap ending at a main-lugs
     panel has no device of its own, so the feeder device it is tapped from is returned.
     Returns (rating, description)."""
-    panel = _lookups(job)[0].get(node)
+    panel = ctx.panel_by_id.get(node)
     if panel is not None and panel.main_device_a is not None:
         return panel.main_device_a, f"main device of {node}"
-    run = job.tree.parent_run.get(node)
+    run = ctx.job.tree.parent_run.get(node)
     if run is None:
         return None, "no device"
-    device, where = run_device(job, run)
+    device, where = run_device(ctx, run)
     if device is not None:
         return device, f"device of run {run.id} ({where})"
     if where == "tap":
-        up, what = feeder_device(job, run)
+        up, what = feeder_device(ctx, run)
         if up is not None:
             return up, f"{what}, through the tap {run.id}"
     return None, f"no device (run {run.id} has none)"
 
 
-def feeder_device(job: Job, run: Run) -> tuple[float | None, str]:
+def feeder_device(ctx: Context, run: Run) -> tuple[float | None, str]:
     """The device protecting the conductors a tap ``run`` is tapped from: the bus device of
     the panel it leaves (a tap from a tap has none: 240.21, first paragraph)."""
-    if job.tree.kind.get(run.from_id) != "panel":
+    if ctx.job.tree.kind.get(run.from_id) != "panel":
         return None, f"{run.from_id} is not a panel"
-    up_run = job.tree.parent_run.get(run.from_id)
-    panel = _lookups(job)[0][run.from_id]
+    up_run = ctx.job.tree.parent_run.get(run.from_id)
+    panel = ctx.panel_by_id[run.from_id]
     if panel.main_device_a is None and up_run is not None and up_run.tap_rule:
         return None, f"{run.from_id} is itself fed by a tap ({up_run.id})"
-    return bus_device(job, run.from_id)
+    return bus_device(ctx, run.from_id)
 
 
 def check_unprotected_run(ctx: Context, run: Run, ampacity_a: float) -> None:
@@ -156,7 +138,7 @@ def _check_feeder_tap(ctx: Context, run: Run, ampacity_a: float) -> None:
         f"{ctx.length(run.length_m, 1)} tap under the {run.tap_rule} rule "
         f"(at most {ctx.length(limit_m)}); a longer run needs a device at its supply end",
     )
-    feeder_a, what = feeder_device(ctx.job, run)
+    feeder_a, what = feeder_device(ctx, run)
     share_pct = rules.rule(f"{rid}-ratio").number("limit")
     if feeder_a is None:
         ctx.add(
@@ -227,7 +209,7 @@ def tap_needs_a(ctx: Context, run: Run) -> float:
     verifying a suggested conductor size."""
     if run.tap_rule in FEEDER_TAPS:
         rid = FEEDER_TAPS[run.tap_rule]
-        feeder_a, _ = feeder_device(ctx.job, run)
+        feeder_a, _ = feeder_device(ctx, run)
         share = ctx.rules.rule(f"{rid}-ratio").number("limit") / 100.0
         panel = ctx.panel_by_id.get(run.to_id)
         end = panel.main_device_a if panel is not None and panel.main_device_a else 0.0
@@ -236,7 +218,7 @@ def tap_needs_a(ctx: Context, run: Run) -> float:
         not run.tap_rule
         and run.device_a is None
         and ctx.tree.kind.get(run.from_id) == "transformer"
-        and run_device(ctx.job, run)[0] is None
+        and run_device(ctx, run)[0] is None
     ):
         from .secondary import secondary_need_a
 
